@@ -1,0 +1,418 @@
+#!/usr/bin/env python3
+"""Write a synthetic N-page mkdocs-material project for benchmarks.
+
+    python benchmarks/generate_site.py N OUTDIR [--seed 7] [--plugin | --no-plugin]
+
+The subject is invented: the manual of "Tidewright", a berth and ferry scheduler run by the
+harbour office of the fictional town of Brindlemoor. Every page is listed in the navigation
+(sections of about 20 pages), so each built page repeats a navigation of N links, as large
+documentation sites do. Pages mix headings, paragraphs with links and inline code, tables,
+highlighted code (some with line numbers), admonitions and lists. A custom stylesheet
+redefines a few custom properties per colour scheme and plants faint colours, so a checker
+has findings to report.
+
+Files written into OUTDIR:
+    docs/**.md, docs/stylesheets/tidewright.css
+    mkdocs.yml          plain (plugins: [search]) or, with --plugin, [search, tinctura]
+    mkdocs-plain.yml    always without tinctura
+    mkdocs-plugin.yml   always with tinctura
+Output is deterministic for a given N and seed (no clocks, no hash-order dependence).
+"""
+from __future__ import annotations
+
+import argparse
+import os
+import random
+import shutil
+import sys
+from pathlib import Path
+
+SECTION_SIZE = 20
+
+# Invented vocabulary; nothing here names a real product, place, company or person.
+TOPICS = [
+    "berth allocation", "tide windows", "ferry rotations", "pilot requests", "cargo manifests",
+    "mooring plans", "quay cranes", "harbour dues", "weather holds", "crew rosters",
+    "slipway bookings", "fuel barges", "dredging notices", "passenger counts", "lock cycles",
+    "buoy inspections", "tug dispatch", "anchorage zones", "storm readiness", "night arrivals",
+    "customs hand-off", "gangway checks", "bunker reports", "ballast logs", "dock lighting",
+]
+NOUNS = [
+    "berth", "rotation", "manifest", "tide table", "mooring line", "quay segment", "roster",
+    "dispatch queue", "harbour ledger", "arrival window", "pilot slot", "crane plan",
+    "sailing notice", "hold order", "timetable", "slip record", "lock schedule",
+]
+VERBS = [
+    "reserves", "releases", "reschedules", "validates", "exports", "merges", "locks",
+    "archives", "publishes", "recalculates", "flags", "confirms", "splits", "balances",
+]
+ADJECTIVES = [
+    "pending", "confirmed", "provisional", "overnight", "tidal", "seasonal", "shared",
+    "priority", "deferred", "draft", "coastal", "inbound", "outbound", "reserved",
+]
+ROLES = ["harbour master", "duty clerk", "berth planner", "pilot desk", "night watch",
+         "ferry coordinator", "port engineer"]
+VESSELS = ["Gull Meadow", "Lantern Reach", "Saltbrook", "Quiet Heron", "Marram Star",
+           "Tern Hollow", "Ember Skerry", "Brackwater Belle"]
+IDENTS = ["berth_id", "tide_offset", "rotation", "window_start", "window_end", "draught",
+          "pilot_code", "hold_reason", "crane_slot", "quay", "eta", "etd", "priority"]
+COMMANDS = ["tidewright plan", "tidewright export", "tidewright lock", "tidewright sync",
+            "tidewright roster", "tidewright check-tide", "tidewright release"]
+ADMONITIONS = ["note", "tip", "info", "warning", "danger", "example", "question", "success"]
+LANGS = ["python", "yaml", "bash", "json", "toml", "ini"]
+
+EXTRA_CSS = """\
+/* Tidewright house style: a few custom properties redefined per scheme.
+   Some values are deliberately too faint: benchmarks need findings to report. */
+:root,
+[data-md-color-scheme="default"] {
+  --tw-accent-fg: #1d5e8c;
+  --tw-muted-fg: #5f6368;
+  --tw-caption-fg: #8d8d8d;      /* planted: about 3.3:1 on white, fails AA body text */
+  --tw-badge-bg: #2e7d32;
+  --tw-badge-fg: #ffffff;
+  --tw-callout-bg: #fff8e1;
+  --tw-callout-fg: #5d4037;
+}
+
+[data-md-color-scheme="slate"] {
+  --tw-accent-fg: #8cc4ef;
+  --tw-muted-fg: #a7adb5;
+  --tw-caption-fg: #4b5261;      /* planted: faint on the slate background */
+  --tw-badge-bg: #a5d6a7;
+  --tw-badge-fg: #ffffff;        /* planted: white on light green */
+  --tw-callout-bg: #3b3320;
+  --tw-callout-fg: #f3e5c0;
+}
+
+@media (prefers-color-scheme: dark) {
+  :root { --tw-print-rule: #555555; }
+}
+
+.md-typeset .tw-accent { color: var(--tw-accent-fg); }
+.md-typeset .tw-muted { color: var(--tw-muted-fg); }
+.md-typeset .tw-caption { color: var(--tw-caption-fg); font-size: .64rem; }
+.md-typeset .tw-faint { color: #c9c9c9; }   /* planted: faint on white */
+.md-typeset .tw-badge {
+  background-color: var(--tw-badge-bg);
+  color: var(--tw-badge-fg);
+  padding: 0 .3em;
+  border-radius: .2em;
+  font-size: .7rem;
+}
+.md-typeset .tw-callout {
+  background-color: var(--tw-callout-bg);
+  color: var(--tw-callout-fg);
+  padding: .4em .8em;
+}
+.md-typeset .tw-warning-text { color: #f5a623; }  /* planted: orange on white */
+.md-typeset a.tw-quiet-link { color: #9ecbf0; }
+.md-typeset a.tw-quiet-link:hover { color: #d0e7fa; }  /* planted: fainter on hover */
+"""
+
+
+def slug(text: str) -> str:
+    return "".join(c if c.isalnum() else "-" for c in text.lower()).strip("-")
+
+
+def page_layout(n_pages: int, rng: random.Random):
+    """Return [(section_title, section_dir, [(title, relpath), ...]), ...] and the home page.
+
+    Page 0 is the home page (index.md); the remaining pages fill sections of SECTION_SIZE.
+    """
+    home = ("Home", "index.md")
+    sections = []
+    remaining = n_pages - 1
+    number = 1
+    s = 0
+    while remaining > 0:
+        count = min(SECTION_SIZE, remaining)
+        topic = TOPICS[s % len(TOPICS)]
+        cycle = s // len(TOPICS)
+        title = topic.capitalize() + (f" ({cycle + 1})" if cycle else "")
+        sdir = f"s{s + 1:03d}-{slug(topic)}"
+        pages = []
+        for _ in range(count):
+            noun = rng.choice(NOUNS)
+            adj = rng.choice(ADJECTIVES)
+            ptitle = f"{adj.capitalize()} {noun}s" if number % 3 else f"Working with {noun}s"
+            pages.append((ptitle, f"{sdir}/p{number:05d}-{slug(adj)}-{slug(noun)}.md"))
+            number += 1
+        sections.append((title, sdir, pages))
+        remaining -= count
+        s += 1
+    return home, sections
+
+
+def relative_link(from_path: str, to_path: str) -> str:
+    return os.path.relpath(to_path, os.path.dirname(from_path) or ".").replace(os.sep, "/")
+
+
+class PageWriter:
+    def __init__(self, rng: random.Random, all_pages: list, path: str, index: int):
+        self.rng = rng
+        self.all_pages = all_pages
+        self.path = path
+        self.index = index
+
+    def link(self) -> str:
+        title, target = self.rng.choice(self.all_pages)
+        if target == self.path:
+            target = self.all_pages[0][1]
+            title = self.all_pages[0][0]
+        return f"[{title.lower()}]({relative_link(self.path, target)})"
+
+    def sentence(self, links: bool = True) -> str:
+        r = self.rng
+        parts = [
+            f"The {r.choice(ROLES)} {r.choice(VERBS)} each {r.choice(ADJECTIVES)} "
+            f"{r.choice(NOUNS)} before the {r.choice(NOUNS)} closes",
+        ]
+        roll = r.random()
+        if roll < 0.3:
+            parts.append(f", using `{r.choice(IDENTS)}` as the key")
+        elif roll < 0.45 and links:
+            parts.append(f"; see {self.link()}")
+        elif roll < 0.6:
+            parts.append(f" when the *{r.choice(VESSELS)}* is **{r.choice(ADJECTIVES)}**")
+        return "".join(parts) + "."
+
+    def paragraph(self, n: int | None = None) -> str:
+        n = n or self.rng.randint(2, 5)
+        return " ".join(self.sentence() for _ in range(n))
+
+    def table(self) -> str:
+        r = self.rng
+        cols = r.randint(3, 5)
+        header = ["Field", "Type", "Default", "Status", "Notes"][:cols]
+        lines = ["| " + " | ".join(header) + " |", "|" + "|".join(["---"] * cols) + "|"]
+        for _ in range(r.randint(3, 7)):
+            row = [
+                f"`{r.choice(IDENTS)}`",
+                r.choice(["string", "integer", "duration", "date-time", "list", "boolean"]),
+                r.choice(["`0`", "`none`", "`auto`", "`06:00`", "empty", "`true`"]),
+                ('<span class="tw-badge">stable</span>' if r.random() < 0.3
+                 else r.choice(["stable", "beta", "deprecated"])),
+                f"{r.choice(VERBS).capitalize()} the {r.choice(NOUNS)}.",
+            ][:cols]
+            lines.append("| " + " | ".join(row) + " |")
+        return "\n".join(lines)
+
+    def code_block(self) -> str:
+        r = self.rng
+        lang = r.choice(LANGS)
+        attrs = []
+        if r.random() < 0.35:
+            attrs.append('linenums="1"')
+        if r.random() < 0.25:
+            attrs.append('hl_lines="2 3"')
+        if r.random() < 0.4:
+            ext = {"python": "py", "bash": "sh"}.get(lang, lang)
+            attrs.append(f'title="{slug(r.choice(NOUNS))}.{ext}"')
+        body = CODE_SAMPLES[lang](r)
+        head = "``` " + lang + (" " + " ".join(attrs) if attrs else "")
+        return f"{head}\n{body}\n```"
+
+    def admonition(self) -> str:
+        r = self.rng
+        kind = r.choice(ADMONITIONS)
+        marker = "???" if r.random() < 0.2 else "!!!"
+        title = f'"{r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s"' if r.random() < 0.6 else ""
+        body = "    " + self.paragraph(2)
+        if r.random() < 0.3:
+            body += "\n\n    - " + self.sentence(links=False) + "\n    - " + self.sentence(links=False)
+        return f"{marker} {kind} {title}".rstrip() + "\n\n" + body
+
+    def bullet_list(self) -> str:
+        r = self.rng
+        ordered = r.random() < 0.4
+        items = []
+        for i in range(r.randint(3, 6)):
+            mark = f"{i + 1}." if ordered else "-"
+            items.append(f"{mark} {self.sentence()}")
+            if r.random() < 0.2:
+                items.append(f"    - `{r.choice(COMMANDS)} --{r.choice(IDENTS).replace('_', '-')}`")
+        return "\n".join(items)
+
+    def render(self, title: str) -> str:
+        r = self.rng
+        out = [f"# {title}", "", self.paragraph(3), ""]
+        if self.index % 4 == 0:
+            out += [f'<span class="tw-badge">since 2.{self.index % 9}</span> '
+                    f'<span class="tw-muted">Maintained by the {r.choice(ROLES)}.</span>', ""]
+        blocks = [self.table, self.code_block, self.admonition, self.bullet_list, self.paragraph]
+        for h in range(r.randint(3, 5)):
+            out += [f"## {r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s", "", self.paragraph(), ""]
+            for block in r.sample(blocks, k=r.randint(2, 4)):
+                out += [block(), ""]
+            if r.random() < 0.5:
+                out += [f"### {r.choice(VERBS).capitalize()} the {r.choice(NOUNS)}", "",
+                        self.paragraph(2), ""]
+        # Planted colours, on a deterministic share of pages.
+        if self.index % 5 == 0:
+            out += ["Older notes on this topic were withdrawn from the harbour archive.",
+                    "{ .tw-faint }", ""]
+        if self.index % 7 == 0:
+            out += [f'<p class="tw-callout">Tidal hold: berths close {r.randint(20, 90)} minutes '
+                    f'before low water.</p>', ""]
+        if self.index % 11 == 0:
+            out += [f'Also read <a class="tw-quiet-link" href="{relative_link(self.path, "index.md")}">'
+                    f'the overview</a>.', ""]
+        if self.index % 13 == 0:
+            out += ['<span class="tw-warning-text">Check the tide table before confirming.</span>', ""]
+        if self.index % 17 == 0:
+            out += ['<span style="color: #b4c8d8">Figures are provisional until the evening '
+                    'ledger closes.</span>', ""]
+        out += [f"Page {self.index} of the Tidewright manual. Examples use invented vessels.",
+                "{ .tw-caption }", ""]
+        return "\n".join(out)
+
+
+def _py(r):
+    ident = r.choice(IDENTS)
+    return (f"from tidewright import Harbour\n\nharbour = Harbour.open(\"brindlemoor\")\n"
+            f"for berth in harbour.berths(state=\"{r.choice(ADJECTIVES)}\"):\n"
+            f"    berth.{r.choice(VERBS)[:-1]}({ident}={r.randint(1, 99)})  # {r.choice(NOUNS)}\n"
+            f"print(harbour.summary())")
+
+
+def _yaml(r):
+    return (f"harbour: brindlemoor\nberths:\n  - id: B{r.randint(1, 40):02d}\n"
+            f"    {r.choice(IDENTS)}: {r.randint(1, 12)}\n    state: {r.choice(ADJECTIVES)}\n"
+            f"tide_source: local-gauge  # {r.choice(NOUNS)}")
+
+
+def _bash(r):
+    return (f"$ {r.choice(COMMANDS)} --harbour brindlemoor --{r.choice(IDENTS).replace('_', '-')} {r.randint(1, 9)}\n"
+            f"$ {r.choice(COMMANDS)} --dry-run | grep -v {r.choice(ADJECTIVES)}")
+
+
+def _json(r):
+    return (f'{{\n  "berth": "B{r.randint(1, 40):02d}",\n  "{r.choice(IDENTS)}": {r.randint(0, 500)},\n'
+            f'  "state": "{r.choice(ADJECTIVES)}",\n  "vessel": "{r.choice(VESSELS)}"\n}}')
+
+
+def _toml(r):
+    return (f"[harbour]\nname = \"brindlemoor\"\n{r.choice(IDENTS)} = {r.randint(1, 60)}\n\n"
+            f"[rotation]\nstate = \"{r.choice(ADJECTIVES)}\"")
+
+
+def _ini(r):
+    return f"[tide]\noffset = {r.randint(-30, 30)}\n; {r.choice(NOUNS)}\nsource = gauge"
+
+
+CODE_SAMPLES = {"python": _py, "yaml": _yaml, "bash": _bash, "json": _json, "toml": _toml,
+                "ini": _ini}
+
+
+def home_page(sections) -> str:
+    lines = ["# Tidewright harbour scheduler", "",
+             "Tidewright plans berths, ferry rotations and tide windows for the harbour office "
+             "of Brindlemoor, an invented town. Vessels, people and figures in this manual are "
+             "made up.", "",
+             "!!! warning \"Safety colours\"", "",
+             "    Safety signs on the quay follow their own standards and local rules; this "
+             "manual's colours are for reading only.", "",
+             "## Sections", ""]
+    for title, _sdir, pages in sections:
+        lines.append(f"- [{title}]({pages[0][1]})")
+    lines.append("")
+    return "\n".join(lines)
+
+
+def mkdocs_yml(home, sections, plugin: bool) -> str:
+    nav = [f"  - {home[0]}: {home[1]}"]
+    for title, _sdir, pages in sections:
+        nav.append(f"  - \"{title}\":")
+        for ptitle, path in pages:
+            nav.append(f"      - \"{ptitle}\": {path}")
+    plugins = "  - search\n" + ("  - tinctura\n" if plugin else "")
+    return f"""\
+# Generated by benchmarks/generate_site.py; do not edit.
+site_name: Tidewright harbour scheduler
+docs_dir: docs
+use_directory_urls: true
+theme:
+  name: material
+  font: false
+  features:
+    - navigation.top
+    - content.code.copy
+  palette:
+    - media: "(prefers-color-scheme: light)"
+      scheme: default
+      primary: indigo
+      accent: teal
+      toggle:
+        icon: material/weather-night
+        name: Switch to dark mode
+    - media: "(prefers-color-scheme: dark)"
+      scheme: slate
+      primary: blue grey
+      accent: amber
+      toggle:
+        icon: material/weather-sunny
+        name: Switch to light mode
+extra_css:
+  - stylesheets/tidewright.css
+markdown_extensions:
+  - admonition
+  - attr_list
+  - md_in_html
+  - tables
+  - def_list
+  - toc:
+      permalink: true
+  - pymdownx.details
+  - pymdownx.highlight:
+      anchor_linenums: true
+  - pymdownx.inlinehilite
+  - pymdownx.superfences
+plugins:
+{plugins}nav:
+""" + "\n".join(nav) + "\n"
+
+
+def generate(n_pages: int, outdir: Path, seed: int = 7, plugin: bool = False) -> dict:
+    if n_pages < 1:
+        raise ValueError("need at least one page")
+    rng = random.Random(seed)
+    home, sections = page_layout(n_pages, rng)
+    docs = outdir / "docs"
+    if docs.exists():
+        shutil.rmtree(docs)
+    (docs / "stylesheets").mkdir(parents=True)
+    (docs / "stylesheets" / "tidewright.css").write_text(EXTRA_CSS, encoding="utf-8")
+    (docs / "index.md").write_text(home_page(sections), encoding="utf-8")
+    all_pages = [home] + [p for _t, _d, pages in sections for p in pages]
+    index = 1
+    for _title, sdir, pages in sections:
+        (docs / sdir).mkdir()
+        for ptitle, path in pages:
+            # One generator per page: a page keeps its shape when N changes (link targets differ).
+            page_rng = random.Random(f"{seed}:{index}")
+            text = PageWriter(page_rng, all_pages, path, index).render(ptitle)
+            (docs / path).write_text(text, encoding="utf-8")
+            index += 1
+    (outdir / "mkdocs-plain.yml").write_text(mkdocs_yml(home, sections, False), encoding="utf-8")
+    (outdir / "mkdocs-plugin.yml").write_text(mkdocs_yml(home, sections, True), encoding="utf-8")
+    (outdir / "mkdocs.yml").write_text(mkdocs_yml(home, sections, plugin), encoding="utf-8")
+    return {"pages": len(all_pages), "sections": len(sections)}
+
+
+def main(argv=None) -> int:
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("pages", type=int, help="number of pages, home page included")
+    ap.add_argument("outdir", type=Path)
+    ap.add_argument("--seed", type=int, default=7)
+    ap.add_argument("--plugin", action=argparse.BooleanOptionalAction, default=False,
+                    help="list tinctura in mkdocs.yml (mkdocs-plain.yml and mkdocs-plugin.yml "
+                         "are written either way)")
+    args = ap.parse_args(argv)
+    info = generate(args.pages, args.outdir, args.seed, args.plugin)
+    print(f"wrote {info['pages']} pages in {info['sections']} sections to {args.outdir}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,529 @@
+#!/usr/bin/env python3
+"""Side-by-side speed and memory benchmark: MkDocs build vs. tinctura check.
+
+    python benchmarks/run.py [--pages 1000] [--jobs N] [--small 200] [--repeat 1]
+
+For each site size, in one run on the same machine state, this times:
+
+  build         mkdocs build of a generated mkdocs-material site (plugins: [search])
+  build+plugin  the same site with plugins: [search, tinctura]
+  check-1       tinctura check SITE --jobs 1 --format json --output FILE   (one core)
+  check-N       the same with --jobs N
+  parse-only    lxml.html parse of every built HTML file + tinycss2 parse of the stylesheets
+
+and prints wall and CPU times, pages per second, peak memory, and the ratios the project
+targets. Absolute times move a lot on a shared machine; the ratios, measured side by side,
+are what to compare between runs. A failing step prints the tail of its stderr and the run
+goes on. Results also go to benchmarks/out/bench-<time>.json and benchmarks/out/latest.json.
+
+Memory: "peak RSS" is ru_maxrss from wait4() for that one subprocess (with worker processes
+it is the largest single process); "tree" is the peak of the summed PSS of the process and
+all its descendants, sampled every 0.1 s, which is what --jobs N really costs.
+"""
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import platform
+import signal
+import statistics
+import subprocess
+import sys
+import threading
+import time
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+REPO = HERE.parent
+DEFAULT_OUT = HERE / "out"
+
+# Targets printed next to the measured numbers. "flat" memory is read as: the one-core check's
+# peak RSS grows by at most FLAT_GROWTH between the smallest and largest site measured.
+TARGET_CHECK_OVER_BUILD = 0.5
+AIM_CHECK_OVER_BUILD = 0.25
+TARGET_PLUGIN_OVERHEAD = 0.5
+TARGET_CHECK_OVER_PARSE = 4.0
+TARGET_PEAK_MB = 300.0
+FLAT_GROWTH = 0.20
+
+STEP_LABELS = {
+    "build": "mkdocs build",
+    "build_plugin": "mkdocs build +tinctura",
+    "check_1": "tinctura check --jobs 1",
+    "check_n": "tinctura check --jobs {n}",
+    "parse_only": "parse-only (lxml+tinycss2)",
+}
+
+
+# --------------------------------------------------------------------------- measuring
+
+def _children(pid: int) -> list[int]:
+    kids = []
+    try:
+        for tid in os.listdir(f"/proc/{pid}/task"):
+            try:
+                with open(f"/proc/{pid}/task/{tid}/children") as fh:
+                    kids.extend(int(x) for x in fh.read().split())
+            except OSError:
+                pass
+    except OSError:
+        pass
+    return kids
+
+
+def _pss_kb(pid: int) -> int:
+    """PSS of one process in kB (RSS where smaps_rollup is unavailable); 0 once it is gone."""
+    for path, key in ((f"/proc/{pid}/smaps_rollup", "Pss:"), (f"/proc/{pid}/status", "VmRSS:")):
+        try:
+            with open(path) as fh:
+                for line in fh:
+                    if line.startswith(key):
+                        return int(line.split()[1])
+        except OSError:
+            continue
+    return 0
+
+
+class TreeSampler(threading.Thread):
+    """Samples the summed PSS of a process tree; PSS so forked workers' shared pages count once."""
+
+    def __init__(self, pid: int, interval: float = 0.1):
+        super().__init__(daemon=True)
+        self.pid, self.interval = pid, interval
+        self.peak_kb = 0
+        self.max_procs = 0
+        self._halt = threading.Event()
+
+    def run(self):
+        while not self._halt.is_set():
+            pids, todo = [], [self.pid]
+            while todo:
+                p = todo.pop()
+                pids.append(p)
+                todo.extend(_children(p))
+            total = sum(_pss_kb(p) for p in pids)
+            self.peak_kb = max(self.peak_kb, total)
+            self.max_procs = max(self.max_procs, len(pids))
+            self._halt.wait(self.interval)
+
+    def stop(self):
+        self._halt.set()
+        self.join(timeout=2)
+
+
+def run_measured(name: str, argv: list[str], cwd: Path, logdir: Path, timeout: float,
+                 env: dict) -> dict:
+    """Run argv, wait with wait4() for its own rusage, and never raise on failure."""
+    logdir.mkdir(parents=True, exist_ok=True)
+    out_path, err_path = logdir / f"{name}.stdout", logdir / f"{name}.stderr"
+    result = {"argv": argv, "cwd": str(cwd), "ok": False, "returncode": None}
+    with open(out_path, "wb") as out, open(err_path, "wb") as err:
+        t0 = time.perf_counter()
+        try:
+            proc = subprocess.Popen(argv, cwd=cwd, stdout=out, stderr=err, env=env,
+                                    start_new_session=True)
+        except OSError as exc:
+            result["error"] = str(exc)
+            return result
+        sampler = TreeSampler(proc.pid)
+        sampler.start()
+        timed_out = threading.Event()
+
+        def kill_group():
+            timed_out.set()
+            try:
+                os.killpg(proc.pid, signal.SIGKILL)  # the group this run started, by its id
+            except OSError:
+                pass
+
+        timer = threading.Timer(timeout, kill_group)
+        timer.start()
+        _pid, status, usage = os.wait4(proc.pid, 0)
+        wall = time.perf_counter() - t0
+        timer.cancel()
+        sampler.stop()
+        proc.returncode = os.waitstatus_to_exitcode(status)  # tell Popen it is reaped
+    result.update(
+        returncode=proc.returncode,
+        wall_s=wall,
+        cpu_s=usage.ru_utime + usage.ru_stime,
+        peak_rss_mb=usage.ru_maxrss / 1024.0,  # kB on Linux
+        tree_peak_mb=sampler.peak_kb / 1024.0,
+        max_procs=sampler.max_procs,
+        timed_out=timed_out.is_set(),
+        stdout_log=str(out_path),
+        stderr_log=str(err_path),
+    )
+    return result
+
+
+def tail(path: str | Path, lines: int = 12) -> str:
+    try:
+        text = Path(path).read_text(encoding="utf-8", errors="replace")
+    except OSError:
+        return ""
+    return "\n".join(text.rstrip().splitlines()[-lines:])
+
+
+# --------------------------------------------------------------------------- parse-only mode
+
+def parse_only(site: Path) -> dict:
+    """The floor a checker cannot beat: parse every page and every stylesheet once."""
+    t0 = time.perf_counter()
+    import lxml.html
+    import tinycss2
+    t_import = time.perf_counter() - t0
+
+    html_files = sorted(site.rglob("*.html"))
+    t1 = time.perf_counter()
+    html_bytes = 0
+    elements = 0
+    for path in html_files:
+        data = path.read_bytes()
+        html_bytes += len(data)
+        root = lxml.html.document_fromstring(data)
+        elements += 1 if root is not None else 0
+    t_html = time.perf_counter() - t1
+
+    t2 = time.perf_counter()
+    css_files = sorted(p for p in site.rglob("*.css"))
+    declarations = 0
+
+    def walk(rules):
+        nonlocal declarations
+        for rule in rules:
+            if rule.type == "qualified-rule":
+                declarations += sum(1 for d in tinycss2.parse_blocks_contents(
+                    rule.content, skip_comments=True, skip_whitespace=True)
+                    if d.type == "declaration")
+            elif rule.type == "at-rule" and rule.content is not None:
+                walk(tinycss2.parse_blocks_contents(rule.content, skip_comments=True,
+                                                    skip_whitespace=True))
+
+    for path in css_files:
+        rules, _enc = tinycss2.parse_stylesheet_bytes(path.read_bytes(), skip_comments=True,
+                                                      skip_whitespace=True)
+        walk(rules)
+    t_css = time.perf_counter() - t2
+    return {"html_files": len(html_files), "html_bytes": html_bytes, "parsed": elements,
+            "css_files": len(css_files), "css_declarations": declarations,
+            "import_s": t_import, "html_s": t_html, "css_s": t_css}
+
+
+# --------------------------------------------------------------------------- site facts
+
+def site_stats(site: Path, sample: int = 40) -> dict:
+    """HTML size per page, and elements / text-bearing elements per page on an even sample."""
+    import lxml.html
+
+    pages = sorted(p for p in site.rglob("*.html") if p.name != "404.html")
+    if not pages:
+        return {"html_files": 0}
+    total_bytes = sum(p.stat().st_size for p in pages)
+    step = max(1, len(pages) // sample)
+    picked = pages[::step][:sample]
+    elems, texts, body_texts = [], [], []
+    for p in picked:
+        root = lxml.html.document_fromstring(p.read_bytes())
+        n_el = n_txt = 0
+        for el in root.iter():
+            if not isinstance(el.tag, str):
+                continue
+            n_el += 1
+            own = (el.text or "").strip() or any((c.tail or "").strip() for c in el)
+            if own and el.tag not in ("script", "style", "title"):
+                n_txt += 1
+        article = root.find(".//article")
+        n_article = 0
+        if article is not None:
+            for el in article.iter():
+                if isinstance(el.tag, str) and ((el.text or "").strip()
+                                                or any((c.tail or "").strip() for c in el)):
+                    n_article += 1
+        elems.append(n_el)
+        texts.append(n_txt)
+        body_texts.append(n_article)
+    return {
+        "html_files": len(pages) + (1 if (site / "404.html").exists() else 0),
+        "html_bytes_per_page": total_bytes / len(pages),
+        "elements_per_page": statistics.mean(elems),
+        "text_elements_per_page": statistics.mean(texts),
+        "content_text_elements_per_page": statistics.mean(body_texts),
+        "sampled_pages": len(picked),
+    }
+
+
+# --------------------------------------------------------------------------- the run
+
+def versions(python: str) -> dict:
+    code = ("import json,importlib.metadata as m\nout={}\n"
+            "for n in ['mkdocs','mkdocs-material','pymdown-extensions','lxml','tinycss2',"
+            "'cssselect2','numpy','colour-science','tinctura']:\n"
+            "    try: out[n]=m.version(n)\n"
+            "    except Exception: out[n]=None\nprint(json.dumps(out))")
+    try:
+        return json.loads(subprocess.run([python, "-c", code], capture_output=True, text=True,
+                                         timeout=60).stdout)
+    except Exception:  # noqa: BLE001 - versions are informative only
+        return {}
+
+
+def read_json(path: Path):
+    try:
+        return json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return None
+
+
+def count_findings(data):
+    """Count findings in the check's JSON report, whatever its exact shape turns out to be."""
+    if isinstance(data, list):
+        return len(data)
+    if isinstance(data, dict):
+        for key in ("findings", "results", "issues"):
+            if isinstance(data.get(key), list):
+                return len(data[key])
+        summary = data.get("summary")
+        if isinstance(summary, dict):
+            for key in ("findings", "total"):
+                if isinstance(summary.get(key), int):
+                    return summary[key]
+    return None
+
+
+def bench_size(n_pages: int, args, env: dict, steps: list[str]) -> dict:
+    sys.path.insert(0, str(HERE))
+    from generate_site import generate
+
+    base = args.out / "sites" / f"p{n_pages}"
+    logdir = base / "logs"
+    py = sys.executable
+    print(f"\n== {n_pages} pages: generating into {base}", flush=True)
+    t0 = time.perf_counter()
+    generate(n_pages, base, seed=args.seed, plugin=False)
+    gen_s = time.perf_counter() - t0
+
+    site = base / "site-plain"
+    commands = {
+        "build": [py, "-m", "mkdocs", "build", "-q", "-f", "mkdocs-plain.yml", "-d", "site-plain"],
+        "build_plugin": [py, "-m", "mkdocs", "build", "-q", "-f", "mkdocs-plugin.yml", "-d",
+                         "site-plugin"],
+        "check_1": [py, "-m", "tinctura", "check", str(site), "--jobs", "1", "--format", "json",
+                    "--output", str(base / "check-1.json")],
+        "check_n": [py, "-m", "tinctura", "check", str(site), "--jobs", str(args.jobs),
+                    "--format", "json", "--output", str(base / f"check-{args.jobs}.json")],
+        "parse_only": [py, str(Path(__file__).resolve()), "--parse-only", str(site)],
+    }
+    order = list(steps)
+    if "build" not in steps and not site.exists():
+        print("   (no build step and no earlier site-plain: the checks will fail)")
+
+    outputs = {"check_1": base / "check-1.json", "check_n": base / f"check-{args.jobs}.json"}
+    runs: dict[str, list[dict]] = {s: [] for s in order if not (s == "check_n" and args.jobs == 1)}
+    for rep in range(args.repeat):
+        # The build stays first; the other steps rotate so none always runs on a warmer machine.
+        head = [s for s in runs if s == "build"]
+        rest = [s for s in runs if s != "build"]
+        k = rep % max(1, len(rest))
+        for step in head + rest[k:] + rest[:k]:
+            if step in outputs and outputs[step].exists():
+                outputs[step].unlink()  # a stale report must not pass for a fresh one
+            label = STEP_LABELS[step].format(n=args.jobs)
+            print(f"   {label:<30} ...", end="", flush=True)
+            r = run_measured(f"{step}-r{rep}", commands[step], base, logdir, args.timeout, env)
+            r["ok"] = r.get("returncode") == 0 and not r.get("timed_out")
+            if step in outputs:
+                # A linter may exit non-zero because it found something: judge by its report.
+                data = read_json(outputs[step])
+                r["report_ok"] = data is not None
+                r["findings"] = count_findings(data)
+                r["ok"] = (not r.get("timed_out")) and data is not None and \
+                    (r.get("returncode") or 0) >= 0
+            if step == "parse_only" and r["ok"]:
+                r["detail"] = read_json(Path(r["stdout_log"]))
+                r["ok"] = r["detail"] is not None
+            runs[step].append(r)
+            if r["ok"]:
+                print(f" {r['wall_s']:8.2f} s", flush=True)
+            else:
+                why = "timed out" if r.get("timed_out") else f"exit {r.get('returncode')}"
+                print(f" FAILED ({why})", flush=True)
+                t = tail(r.get("stderr_log", "")) or r.get("error", "")
+                if t:
+                    print("      | " + t.replace("\n", "\n      | "), flush=True)
+
+    stats = site_stats(site) if site.exists() else {}
+    return {"pages": n_pages, "generate_s": gen_s, "site": stats, "runs": runs}
+
+
+def summarise(step_runs: list[dict]) -> dict | None:
+    good = [r for r in step_runs if r.get("ok")]
+    if not good:
+        return None
+    med = lambda key: statistics.median(r[key] for r in good)  # noqa: E731
+    out = {"wall_s": med("wall_s"), "cpu_s": med("cpu_s"),
+           "peak_rss_mb": max(r["peak_rss_mb"] for r in good),
+           "tree_peak_mb": max(r["tree_peak_mb"] for r in good), "n": len(good)}
+    findings = [r.get("findings") for r in good if r.get("findings") is not None]
+    if findings:
+        out["findings"] = findings[-1]
+    return out
+
+
+def verdict(value, limit, lower_is_better=True) -> str:
+    if value is None:
+        return "n/a"
+    return "ok" if (value <= limit if lower_is_better else value >= limit) else "MISSED"
+
+
+def fmt(v, spec=".2f", none="n/a"):
+    return none if v is None else format(v, spec)
+
+
+def report_size(res: dict, jobs: int) -> dict:
+    n = res["pages"]
+    s = {k: summarise(v) for k, v in res["runs"].items()}
+    st = res.get("site", {})
+    print(f"\n-- {n} pages: {st.get('html_files', '?')} HTML files, "
+          f"{fmt(st.get('html_bytes_per_page', 0) / 1024, '.0f')} KB/page, "
+          f"{fmt(st.get('elements_per_page'), '.0f')} elements/page, "
+          f"{fmt(st.get('text_elements_per_page'), '.0f')} text elements/page "
+          f"({fmt(st.get('content_text_elements_per_page'), '.0f')} in the article)")
+    print(f"   {'step':<30}{'wall s':>9}{'cpu s':>9}{'pages/s':>9}{'peak RSS MB':>13}"
+          f"{'tree MB':>9}  note")
+    for step in res["runs"]:
+        label = STEP_LABELS[step].format(n=jobs)
+        m = s.get(step)
+        if m is None:
+            print(f"   {label:<30}{'failed':>9}")
+            continue
+        note = ""
+        if "findings" in m:
+            note = f"{m['findings']} findings"
+        if step == "parse_only":
+            d = res["runs"][step][-1].get("detail", {})
+            note = f"in-process: html {fmt(d.get('html_s'))} s, css {fmt(d.get('css_s'))} s"
+        print(f"   {label:<30}{m['wall_s']:9.2f}{m['cpu_s']:9.2f}{n / m['wall_s']:9.1f}"
+              f"{m['peak_rss_mb']:13.1f}{m['tree_peak_mb']:9.1f}  {note}")
+
+    def ratio(a, b, minus_one=False):
+        if s.get(a) is None or s.get(b) is None:
+            return None
+        r = s[a]["wall_s"] / s[b]["wall_s"]
+        return r - 1 if minus_one else r
+
+    check_build = ratio("check_1", "build")
+    plugin_over = ratio("build_plugin", "build", minus_one=True)
+    check_parse = ratio("check_1", "parse_only")
+    speedup = ratio("check_1", "check_n") if "check_n" in s else None
+    peak = s["check_1"]["peak_rss_mb"] if s.get("check_1") else None
+    print(f"   {'ratio':<44}{'measured':>10}  target")
+    print(f"   {'check (1 core) / build':<44}{fmt(check_build):>10}  "
+          f"<= {TARGET_CHECK_OVER_BUILD} (aim {AIM_CHECK_OVER_BUILD})  "
+          f"{verdict(check_build, TARGET_CHECK_OVER_BUILD)}")
+    print(f"   {'plugin build / build - 1':<44}{fmt(None if plugin_over is None else plugin_over * 100, '+.1f') + (' %' if plugin_over is not None else ''):>10}  "
+          f"<= +{TARGET_PLUGIN_OVERHEAD * 100:.0f} %  {verdict(plugin_over, TARGET_PLUGIN_OVERHEAD)}")
+    print(f"   {'check (1 core) / parse-only':<44}{fmt(check_parse):>10}  "
+          f"<= {TARGET_CHECK_OVER_PARSE}  {verdict(check_parse, TARGET_CHECK_OVER_PARSE)}")
+    if "check_n" in res["runs"]:
+        print(f"   {f'check speed-up with --jobs {jobs}':<44}{fmt(speedup):>10}  (information)")
+    print(f"   {'check (1 core) peak RSS MB':<44}{fmt(peak, '.1f'):>10}  "
+          f"< {TARGET_PEAK_MB:.0f}  {verdict(peak, TARGET_PEAK_MB)}")
+    return {"pages": n, "site": st, "steps": s, "ratios": {
+        "check_over_build": check_build, "plugin_overhead": plugin_over,
+        "check_over_parse": check_parse, "jobs_speedup": speedup, "check_peak_rss_mb": peak}}
+
+
+def report_memory(summaries: list[dict]) -> dict | None:
+    pts = [(x["pages"], x["ratios"]["check_peak_rss_mb"]) for x in summaries
+           if x["ratios"]["check_peak_rss_mb"] is not None]
+    if len(pts) < 2:
+        print("\n-- memory vs. site size: needs the one-core check at two sizes (not measured)")
+        return None
+    pts.sort()
+    (n0, m0), (n1, m1) = pts[0], pts[-1]
+    growth = m1 / m0 - 1
+    per_k = (m1 - m0) / (n1 - n0) * 1000
+    print("\n-- memory vs. site size (check --jobs 1, peak RSS)")
+    print("   " + ", ".join(f"{n} pages: {m:.1f} MB" for n, m in pts))
+    print(f"   growth {n0} -> {n1} pages: {growth * 100:+.1f} % ({per_k:+.1f} MB per 1000 pages); "
+          f"target flat (<= +{FLAT_GROWTH * 100:.0f} %) and < {TARGET_PEAK_MB:.0f} MB: "
+          f"{verdict(growth, FLAT_GROWTH)}/{verdict(max(m for _n, m in pts), TARGET_PEAK_MB)}")
+    return {"points": pts, "growth": growth, "mb_per_1000_pages": per_k}
+
+
+def main(argv=None) -> int:
+    ap = argparse.ArgumentParser(description="MkDocs build vs. tinctura check, side by side.")
+    ap.add_argument("--parse-only", type=Path, metavar="SITE", help=argparse.SUPPRESS)
+    ap.add_argument("--pages", default="1000",
+                    help="site size(s), comma-separated, e.g. 200,1000 (default 1000)")
+    ap.add_argument("--jobs", type=int, default=os.cpu_count() or 2,
+                    help="N for the parallel check (default: CPU count); 1 skips that step")
+    ap.add_argument("--small", type=int, default=200,
+                    help="also build a site of this size and run the one-core check on it, to "
+                         "see whether memory grows with pages (0: off; skipped when --pages "
+                         "already lists two sizes)")
+    ap.add_argument("--repeat", type=int, default=1, help="repeat each step; medians are reported")
+    ap.add_argument("--steps", default="build,build_plugin,check_1,check_n,parse_only",
+                    help="comma-separated subset of the steps")
+    ap.add_argument("--seed", type=int, default=7)
+    ap.add_argument("--timeout", type=float, default=1800, help="seconds per step")
+    ap.add_argument("--out", type=Path, default=DEFAULT_OUT)
+    args = ap.parse_args(argv)
+
+    if args.parse_only:
+        print(json.dumps(parse_only(args.parse_only)))
+        return 0
+
+    sizes = [int(x) for x in args.pages.split(",") if x.strip()]
+    steps = [x.strip() for x in args.steps.split(",") if x.strip()]
+    unknown = set(steps) - set(STEP_LABELS)
+    if unknown:
+        ap.error(f"unknown steps: {', '.join(sorted(unknown))}")
+    plan = [(n, steps) for n in sizes]
+    if args.small and len(set(sizes)) < 2 and args.small not in sizes:
+        plan.insert(0, (args.small, [s for s in ("build", "check_1") if s in steps]))
+
+    args.out.mkdir(parents=True, exist_ok=True)
+    env = dict(os.environ, NO_MKDOCS_2_WARNING="1", PYTHONUNBUFFERED="1")
+    started = time.strftime("%Y-%m-%dT%H:%M:%S")
+    load_before = os.getloadavg()
+    print(f"tinctura benchmark, {started}, {os.cpu_count()} CPUs, load {load_before[0]:.2f}, "
+          f"python {platform.python_version()} ({sys.executable})")
+    info = versions(sys.executable)
+    print("   " + ", ".join(f"{k} {v}" for k, v in info.items()))
+    if info and info.get("tinctura") is None:
+        print("   note: tinctura is not installed for this interpreter (pip install -e .); "
+              "the plugin build and the checks will fail")
+
+    results, summaries = [], []
+    for n, st in plan:
+        res = bench_size(n, args, env, st)
+        results.append(res)
+    print("\n================ results (wall = median of runs; ratios from wall times)")
+    for res in results:
+        summaries.append(report_size(res, args.jobs))
+    memory = report_memory(summaries)
+    load_after = os.getloadavg()
+    print(f"\nload average before {load_before[0]:.2f}, after {load_after[0]:.2f} "
+          "(a busy machine stretches all steps; compare ratios, not seconds)")
+
+    record = {"started": started, "cpus": os.cpu_count(), "python": sys.version,
+              "versions": info, "args": {k: str(v) for k, v in vars(args).items()},
+              "load_before": load_before, "load_after": load_after,
+              "targets": {"check_over_build": TARGET_CHECK_OVER_BUILD,
+                          "check_over_build_aim": AIM_CHECK_OVER_BUILD,
+                          "plugin_overhead": TARGET_PLUGIN_OVERHEAD,
+                          "check_over_parse": TARGET_CHECK_OVER_PARSE,
+                          "peak_mb": TARGET_PEAK_MB, "flat_growth": FLAT_GROWTH},
+              "sizes": summaries, "memory_vs_size": memory, "raw": results}
+    stamp = time.strftime("%Y%m%d-%H%M%S")
+    for name in (f"bench-{stamp}.json", "latest.json"):
+        (args.out / name).write_text(json.dumps(record, indent=2, default=str), encoding="utf-8")
+    print(f"results written to {args.out / ('bench-' + stamp + '.json')} (and latest.json)")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,197 @@
+"""The MkDocs plugin: check each page as it is written, report problems after the build.
+
+The engine computes; these events only feed it pages and log its results. Per-page results are
+kept between ``mkdocs serve`` rebuilds (``on_startup`` keeps this object alive): a page whose
+HTML did not change is not checked again unless a stylesheet changed.
+"""
+from __future__ import annotations
+
+import fnmatch
+import hashlib
+import os
+
+from mkdocs.exceptions import PluginError
+from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
+
+from tinctura import engine, problems
+from tinctura.report import messages as m
+from tinctura.report.notice import DISCLAIMER
+from tinctura.report.status import failing
+from tinctura.report.summary import summarise
+from tinctura.report.base import Header
+from tinctura.report.text_report import cause_fix_lines, headline, summary_line
+
+from .config import TincturaConfig
+
+log = get_plugin_logger(__name__)
+
+
+class PageRecord:
+    """What one page produced, and the digest of the HTML it was computed from."""
+
+    __slots__ = ("digest", "result", "findings")
+
+    def __init__(self, digest, result, findings):
+        self.digest = digest
+        self.result = result
+        self.findings = findings
+
+
+def digest(html: str) -> str:
+    return hashlib.blake2b(html.encode("utf-8", "surrogatepass"), digest_size=16).hexdigest()
+
+
+class TincturaPlugin(BasePlugin[TincturaConfig]):
+    def __init__(self) -> None:
+        self.command = "build"
+        self.site = None
+        self.site_dir = None
+        self.options = None
+        self.records: dict = {}  # output path (site-relative) -> PageRecord
+        self.current: dict = {}  # output path -> source path, for the pages of this build
+        self.stale: set = set()  # pages whose record predates a stylesheet change
+        self.sheets_checked = False
+
+    # -- lifecycle -------------------------------------------------------------------------
+
+    def on_startup(self, *, command, dirty) -> None:
+        # Defining on_startup keeps this object (and its records) across serve rebuilds.
+        self.command = command
+
+    def engine_options(self) -> engine.Options:
+        return engine.Options(
+            level=self.config.level,
+            viewport_width=self.config.viewport_width,
+            states=self.config.states,
+        )
+
+    def on_pre_build(self, *, config) -> None:
+        options = self.engine_options()
+        if config.site_dir != self.site_dir or options != self.options:
+            self.site = None
+            self.records.clear()
+            self.stale.clear()
+        self.site_dir = config.site_dir
+        self.options = options
+        self.sheets_checked = False
+
+    def on_files(self, files, *, config):
+        self.current = {
+            f.dest_uri: f.src_uri for f in files.documentation_pages()
+            if not self.excluded(f.src_uri)
+        }
+        for gone in set(self.records) - set(self.current):
+            del self.records[gone]
+        return files
+
+    def excluded(self, src_uri: str) -> bool:
+        return any(fnmatch.fnmatchcase(src_uri, pattern) for pattern in self.config.exclude)
+
+    def get_site(self):
+        """The engine's Site, created on first use (static files are in place by then).
+
+        Once per build, ask whether a stylesheet changed since the Site read them; if so (or if
+        the Site cannot tell), start afresh and treat every earlier result as stale.
+        """
+        if self.site is not None and not self.sheets_checked:
+            changed = getattr(self.site, "stylesheets_changed", None)
+            if changed is None or changed():
+                self.site = None
+                self.stale = set(self.records)
+        self.sheets_checked = True
+        if self.site is None:
+            self.site = engine.Site(self.site_dir, self.options)
+        return self.site
+
+    def check(self, rel: str, html: str | None, key: str | None) -> None:
+        result = self.get_site().check_page(rel, html=html)
+        findings = engine.evaluate(result.samples, self.options)
+        self.records[rel] = PageRecord(key, result, findings)
+        self.stale.discard(rel)
+
+    # -- events ----------------------------------------------------------------------------
+
+    @event_priority(-100)  # last: see the HTML after every other plugin changed it
+    def on_post_page(self, output: str, *, page, config):
+        rel = page.file.dest_uri
+        if rel not in self.current:  # excluded (or not a documentation page)
+            return output
+        key = digest(output)
+        self.get_site()  # the first call of a build decides which records are stale
+        record = self.records.get(rel)
+        if record is None or record.digest != key or rel in self.stale:
+            self.check(rel, output, key)
+        return output
+
+    def on_post_build(self, *, config) -> None:
+        if self.current:
+            self.get_site()  # a --dirty build may have sent no page through on_post_page
+        # With --dirty, unchanged pages skip on_post_page: re-read the stale ones from disk.
+        for rel in sorted(self.stale & set(self.current)):
+            if os.path.isfile(os.path.join(self.site_dir, rel)):
+                self.check(rel, None, None)
+        self.stale.clear()
+        records = [self.records[rel] for rel in sorted(self.records)]
+        pages = [r.result for r in records]
+        findings = [f for r in records for f in r.findings]
+        samples = [s for page in pages for s in page.samples]
+        found = problems.group(findings, samples)
+        schemes = sorted({s.scheme for s in samples})
+        self.log_results(found, findings, many_schemes=len(schemes) > 1)
+        for page in pages:
+            for d in page.diagnostics:
+                at = f"{d.path}:{d.line}" if d.line else d.path
+                (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
+        summary = summarise(pages, findings, found, (), schemes)
+        log.info(summary_line(summary, Header(level=self.config.level, schemes=schemes)))
+        log.info(DISCLAIMER)
+        bad = failing(findings, self.config.fail_on)
+        if bad and self.command != "serve":  # serve keeps serving; the warnings say enough
+            raise PluginError(
+                f"{m.plural(len(bad), 'contrast finding')} at or above fail_on: "
+                f"{self.config.fail_on} (see the log above)"
+            )
+
+    def log_results(self, found, findings, many_schemes: bool) -> None:
+        if self.config.log_every:
+            for f in findings:
+                emit = log.info if f.severity == "info" else log.warning
+                emit(finding_line(f, many_schemes))
+            return
+        for problem in found:
+            emit = log.info if problem.severity == "info" else log.warning
+            emit(problem_line(problem, many_schemes))
+
+
+def problem_line(problem, many_schemes: bool = False) -> str:
+    """One log message per problem: count, cause, ratio, an example and the fix."""
+    fg, bg = m.finding_colours(problem.worst)
+    example = problem.worst.sample
+    scheme = f" [scheme {problem.scheme}]" if many_schemes else ""
+    text = (
+        f"{problem.rule} {problem.slug}{scheme}: "
+        f"{m.plural(problem.occurrences, 'occurrence')} on {m.plural(problem.pages, 'page')}: "
+        f"{headline(problem.fg_cause, fg, 'color')} on {headline(problem.bg_cause, bg, 'background')}, "
+        f"{m.ratio(problem.worst_ratio)}:1, needs {m.required(problem.required)}:1; "
+        f"e.g. {example.page}:{example.line} {m.css_path(example.xpath)}"
+    )
+    lines = cause_fix_lines(problem.fix_at_cause)
+    if lines:
+        text += "\n  " + "\n  ".join(lines)
+    return text
+
+
+def finding_line(f, many_schemes: bool = False) -> str:
+    s = f.sample
+    fg, bg = m.finding_colours(f)
+    extra = []
+    if many_schemes:
+        extra.append(f"scheme {s.scheme}")
+    if s.state != "rest":
+        extra.append(f":{s.state}")
+    tail = f" [{', '.join(extra)}]" if extra else ""
+    fix = m.fixes(f)
+    return (
+        f"{s.page}:{s.line} {s.xpath}{tail}: {f.rule} {f.slug}: {m.message(f)} "
+        f"({m.colour(fg)} on {m.colour(bg)})" + (f"; try {fix}" if fix else "")
+    )

@@ -1,0 +1,324 @@
+"""The ``tinctura`` command line: check sites, dump samples, test one pair, list the rules."""
+from __future__ import annotations
+
+import argparse
+import contextlib
+import json
+import os
+import sys
+import textwrap
+import traceback
+
+from tinctura import engine, problems, report, rules
+from tinctura.report import messages as m
+from tinctura.report.status import ERROR, FAIL_ON, exit_status
+from tinctura.report.terminal import TerminalWriter
+
+PROG = "tinctura"
+
+
+class UsageError(Exception):
+    """Bad input from the user: reported in one line on stderr, exit status 2."""
+
+
+def version() -> str:
+    try:
+        from importlib.metadata import version as dist_version
+
+        return dist_version("tinctura")
+    except Exception:  # not installed (running from a checkout)
+        return "0+unknown"
+
+
+# -- argument parsing --------------------------------------------------------------------------
+
+
+def positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"expected a number of at least 1, got {value}")
+    return value
+
+
+def positive_float(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if not value > 0:
+        raise argparse.ArgumentTypeError(f"expected a number above 0, got {text}")
+    return value
+
+
+def font_weight(text: str) -> int:
+    named = {"normal": 400, "bold": 700}
+    if text.lower() in named:
+        return named[text.lower()]
+    value = positive_int(text)
+    if value > 1000:  # CSS Fonts 4: font-weight is 1..1000
+        raise argparse.ArgumentTypeError(f"font weight must be 1 to 1000, got {value}")
+    return value
+
+
+def _site_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("paths", nargs="+", metavar="PATH",
+                   help="built site directories or HTML files")
+    p.add_argument("--viewport-width", type=positive_int, default=1280, metavar="N",
+                   help="viewport width in CSS pixels for media queries (default 1280)")
+    p.add_argument("--jobs", type=positive_int, default=1, metavar="N",
+                   help="pages checked in parallel (default 1)")
+    p.add_argument("--no-states", action="store_true",
+                   help="check only the resting state, not :hover / :focus / :focus-visible")
+    p.add_argument("--exclude", action="append", default=[], metavar="GLOB",
+                   help="skip pages whose site-relative path matches GLOB (repeatable)")
+    p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog=PROG,
+        description="Check colour contrast in built documentation sites.",
+    )
+    parser.add_argument("--version", action="version", version=f"%(prog)s {version()}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    sub.required = True
+
+    check = sub.add_parser("check", help="check built pages and report findings",
+                           description="Check built pages and report contrast findings.")
+    _site_options(check)
+    check.add_argument("--level", choices=("AA", "AAA"), default="AA",
+                       type=str.upper, help="WCAG conformance level to check (default AA)")
+    check.add_argument("--format", choices=tuple(report.FORMATS), default="text",
+                       help="report format (default text)")
+    check.add_argument("--fail-on", choices=FAIL_ON, default="error",
+                       help="exit with status 1 when findings of this severity or worse exist "
+                            "(default error)")
+    check.add_argument("--group", choices=("cause", "page"), default="cause",
+                       help="text report: problems grouped by cause (default) or findings by page")
+    check.add_argument("--color", "--colour", dest="colour", default="auto",
+                       choices=("auto", "always", "never"),
+                       help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
+    check.set_defaults(run=run_check)
+
+    pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
+                           description="Print every rendered text (per scheme and state) with its "
+                                       "colours and their provenance, one JSON object a line.")
+    _site_options(pairs)
+    pairs.set_defaults(run=run_pairs)
+
+    pair = sub.add_parser("pair", help="contrast ratio of one text and background colour",
+                          description="Contrast ratio of a text colour on a background colour "
+                                      "(any CSS colour syntax), with pass/fail and fixes.")
+    pair.add_argument("fg", metavar="FG", help="text colour, e.g. '#777' or 'rgb(0 0 0 / 60%%)'")
+    pair.add_argument("bg", metavar="BG", help="background colour, e.g. white")
+    pair.add_argument("--size", type=positive_float, default=16.0, metavar="PX",
+                      help="font size in CSS pixels (default 16)")
+    pair.add_argument("--weight", type=font_weight, default=400, metavar="N",
+                      help="font weight, 1-1000, normal or bold (default 400)")
+    pair.add_argument("--color", "--colour", dest="colour", default="auto",
+                      choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.set_defaults(run=run_pair)
+
+    rules_cmd = sub.add_parser("rules", help="describe the rules",
+                               description="Describe every rule, or one by code or slug.")
+    rules_cmd.add_argument("rule", nargs="?", metavar="RULE", help="a rule code or slug, e.g. TC100")
+    rules_cmd.set_defaults(run=run_rules)
+    return parser
+
+
+# -- commands ----------------------------------------------------------------------------------
+
+
+def options_from(args) -> engine.Options:
+    return engine.Options(
+        level=getattr(args, "level", "AA"),
+        viewport_width=args.viewport_width,
+        states=not args.no_states,
+        exclude=tuple(args.exclude),
+        jobs=args.jobs,
+    )
+
+
+def check_inputs(paths) -> None:
+    for path in paths:
+        if not os.path.exists(path):
+            raise UsageError(f"{path}: no such file or directory")
+        if os.path.isfile(path) and not path.lower().endswith((".html", ".htm")):
+            raise UsageError(f"{path}: not an HTML file or a site directory")
+
+
+@contextlib.contextmanager
+def output(path: str | None, stdout):
+    if not path:
+        yield stdout
+        return
+    try:
+        stream = open(path, "w", encoding="utf-8")
+    except OSError as e:
+        raise UsageError(f"{path}: cannot write: {e.strerror or e}") from None
+    with stream:
+        yield stream
+
+
+def all_samples(pages) -> list:
+    return [s for page in pages for s in page.samples]
+
+
+def run_check(args, stdout, stderr) -> int:
+    check_inputs(args.paths)
+    result = engine.check_paths(list(args.paths), options_from(args))
+    found = problems.group(result.findings, all_samples(result.pages))
+    header = report.Header(
+        version=version(),
+        level=args.level,
+        group=args.group,
+        fail_on=args.fail_on,
+        schemes=[getattr(s, "name", s) for s in result.schemes],
+    )
+    with output(args.output, stdout) as stream:
+        report.render(stream, args.format, header, result.pages, result.findings, found,
+                      result.diagnostics, colour_choice=args.colour)
+    return exit_status(result.findings, args.fail_on)
+
+
+def run_pairs(args, stdout, stderr) -> int:
+    from tinctura.report.json_report import sample_dict
+
+    check_inputs(args.paths)
+    result = engine.check_paths(list(args.paths), options_from(args))
+    with output(args.output, stdout) as stream:
+        for sample in all_samples(result.pages):
+            stream.write(json.dumps(sample_dict(sample), ensure_ascii=False) + "\n")
+    for d in result.diagnostics + [d for p in result.pages for d in p.diagnostics]:
+        at = f"{d.path}:{d.line}" if d.line else d.path
+        stderr.write(f"{PROG}: {d.severity}: {at}: {d.message}\n")
+    return exit_status()
+
+
+def parse_pair_colour(text: str, what: str):
+    from tinctura.colour.parse import CURRENTCOLOR, parse_color
+
+    value = parse_color(text)
+    if value is None:
+        raise UsageError(f"{what} {text!r} is not a CSS colour")
+    if value == CURRENTCOLOR:
+        raise UsageError(f"{what} {text!r} depends on currentcolor, which has no value here")
+    return tuple(value)
+
+
+def run_pair(args, stdout, stderr) -> int:
+    from tinctura.colour import fix as colour_fix
+    from tinctura.colour import wcag
+    from tinctura.colour.composite import over
+
+    fg_raw = parse_pair_colour(args.fg, "text colour")
+    bg_raw = parse_pair_colour(args.bg, "background colour")
+    tw = TerminalWriter(stdout, choice=args.colour)
+    notes = []
+    bg = tuple(bg_raw[:3])
+    if bg_raw[3] < 1.0:
+        bg = tuple(over(bg_raw, (1.0, 1.0, 1.0, 1.0))[:3])
+        notes.append(f"the background is translucent (alpha {bg_raw[3]:g}); "
+                     f"composited over white, as on a page without another background: "
+                     f"{m.colour(bg)}")
+    fg = tuple(fg_raw[:3])
+    if fg_raw[3] < 1.0:
+        fg = tuple(over(fg_raw, bg)[:3])
+        notes.append(f"the text colour is translucent (alpha {fg_raw[3]:g}); "
+                     f"composited over the background: {m.colour(fg)}")
+    ratio = wcag.contrast_ratio(fg, bg)
+    large = wcag.is_large_text(args.size, args.weight)
+    tw.line(f"{m.colour(fg)} on {m.colour(bg)}: {m.ratio(ratio)}:1", "bold")
+    for note in notes:
+        tw.line(f"note: {note}", "dim")
+    size = "large" if large else "normal"
+    tw.line(f"{args.size:g} px at weight {args.weight}: {size} text")
+    for rule_level, criterion in (("AA", "1.4.3"), ("AAA", "1.4.6")):
+        need = wcag.required_ratio(rule_level, large)
+        ok = wcag.passes(ratio, need)
+        verdict = tw.markup("pass", "green") if ok else tw.markup("fail", "red", "bold")
+        tw.line(f"  {rule_level:<3} (SC {criterion}) needs {m.required(need)}:1: {verdict}")
+        if ok:
+            continue
+        parts = []
+        found = colour_fix.nearest_passing_foreground(fg, bg, need)
+        if found is not None:
+            parts.append(f"text {m.colour(found[0])} ({m.ratio(found[1])}:1)")
+        found = colour_fix.nearest_passing_background(fg, bg, need)
+        if found is not None:
+            parts.append(f"background {m.colour(found[0])} ({m.ratio(found[1])}:1)")
+        if parts:
+            tw.line(f"        nearest passing: {' or '.join(parts)}")
+        else:
+            tw.line("        no single-colour change reaches it; change both colours")
+    return exit_status()
+
+
+def describe_rule(rule, tw: TerminalWriter) -> None:
+    def para(label: str, text: str) -> None:
+        tw.line(f"  {label}", "bold")
+        for line in textwrap.wrap(text, 84):
+            tw.line(f"    {line}")
+
+    criteria = ", ".join(f"SC {c.number} {c.name} ({c.level})" for c in rule.criteria)
+    tw.line(f"{rule.code} {rule.slug}: {rule.title}", "bold")
+    tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
+    para("What it checks", rule.docs.checks)
+    para("Why", rule.docs.why)
+    for label, example in (("Failing example", rule.docs.bad), ("Passing example", rule.docs.good)):
+        tw.line(f"  {label}", "bold")
+        if example.note:
+            tw.line(f"    {example.note}")
+        tw.line(f"    {example.html}", "dim")
+    para("How to fix", rule.docs.fix)
+    tw.line("  References", "bold")
+    for title, url in rule.docs.references:
+        tw.line(f"    {title}: {url}")
+
+
+def run_rules(args, stdout, stderr) -> int:
+    if args.rule:
+        try:
+            chosen = [rules.get(args.rule)]
+        except KeyError:
+            known = ", ".join(f"{r.code} ({r.slug})" for r in rules.RULES)
+            raise UsageError(f"unknown rule {args.rule!r}; known rules: {known}") from None
+    else:
+        chosen = list(rules.RULES)
+    tw = TerminalWriter(stdout)
+    for n, rule in enumerate(chosen):
+        if n:
+            tw.line()
+        describe_rule(rule, tw)
+    return exit_status()
+
+
+# -- entry point -------------------------------------------------------------------------------
+
+
+def main(argv=None, stdout=None, stderr=None) -> int:
+    stdout = sys.stdout if stdout is None else stdout
+    stderr = sys.stderr if stderr is None else stderr
+    parser = build_parser()
+    try:
+        with contextlib.redirect_stderr(stderr), contextlib.redirect_stdout(stdout):
+            args = parser.parse_args(argv)
+    except SystemExit as e:  # argparse: --help/--version (0) or a usage error (2)
+        return e.code if isinstance(e.code, int) else ERROR
+    try:
+        return args.run(args, stdout, stderr)
+    except UsageError as e:
+        stderr.write(f"{PROG}: error: {e}\n")
+    except BrokenPipeError:  # piped into `head`: the reader left, nothing more to say
+        if stdout is sys.stdout:  # keep Python from failing again when it flushes at exit
+            os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+    except OSError as e:  # a file that exists but cannot be read
+        where = f"{e.filename}: " if e.filename else ""
+        stderr.write(f"{PROG}: error: {where}{e.strerror or e}\n")
+    except Exception:
+        stderr.write(f"{PROG}: internal error (please report it with the traceback below)\n")
+        traceback.print_exc(file=stderr)
+    return exit_status(error=True)

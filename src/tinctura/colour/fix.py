@@ -1,0 +1,150 @@
+"""Suggest the nearest colour that reaches a WCAG 2 contrast ratio.
+
+The search keeps the colour's OKLCh hue and moves its lightness, the least it must (the
+change is measured as Euclidean distance in OKLab). Chroma stays as it was where the sRGB
+gamut allows and is reduced only as far as needed to stay inside it. Every suggestion is
+checked on its ``#rrggbb`` rounding, since that is what a stylesheet will contain.
+
+Contrast depends on relative luminance only, so the passing region is a set of luminance
+intervals worked out exactly from the WCAG formula; lightness is then found by bisection
+(luminance grows with OKLab lightness at fixed hue and chroma).
+"""
+from __future__ import annotations
+
+import math
+
+from .convert import (
+    from_polar,
+    in_gamut,
+    linear_to_srgb,
+    oklab_to_linear_srgb,
+    quantize,
+    srgb_to_oklab,
+    to_polar,
+)
+from .wcag import contrast_ratio, relative_luminance
+
+_BISECT_LIGHTNESS = 32  # 1 / 2**32 of the lightness range: far below one 8-bit step
+_BISECT_CHROMA = 24
+_STEP = 0.001  # lightness step when the 8-bit rounding falls short
+_GAMUT_TOLERANCE = 1e-9
+
+
+def nearest_passing_foreground(fg, bg, required: float):
+    """Nearest colour to ``fg`` (same hue) reaching ``required`` against ``bg``.
+
+    Returns ``(rgb, ratio)``, rgb being an 8-bit colour (channels k / 255) and ratio its
+    unrounded contrast ratio, or None when no colour of that hue can reach the ratio. A
+    foreground that already passes is returned unchanged.
+    """
+    return _nearest(fg, (bg,), required)
+
+
+def nearest_passing_background(fg, bg, required: float):
+    """Nearest colour to ``bg`` (same hue) reaching ``required`` against ``fg``."""
+    return _nearest(bg, (fg,), required)
+
+
+def passing_foreground_for_all(fg, bgs, required: float):
+    """One colour near ``fg`` passing against every background in ``bgs``, or None.
+
+    The ratio returned is the lowest over the backgrounds.
+    """
+    bgs = tuple(bgs)
+    if not bgs:
+        return None
+    return _nearest(fg, bgs, required)
+
+
+def _worst_ratio(rgb, others):
+    return min(contrast_ratio(rgb, other) for other in others)
+
+
+def _feasible_luminances(others, required):
+    """Closed luminance intervals within [0, 1] where every ratio reaches ``required``."""
+    excluded = []
+    for other in others:
+        lum = relative_luminance(other)
+        # ratio >= r  <=>  Y <= (L + 0.05) / r - 0.05  or  Y >= r (L + 0.05) - 0.05
+        excluded.append(((lum + 0.05) / required - 0.05, required * (lum + 0.05) - 0.05))
+    excluded.sort()
+    intervals, start = [], 0.0
+    for lo, hi in excluded:
+        if lo >= start and start <= 1.0:
+            intervals.append((start, min(lo, 1.0)))
+        start = max(start, hi)
+    if start <= 1.0:
+        intervals.append((start, 1.0))
+    return [(a, b) for a, b in intervals if a <= b]
+
+
+def _in_gamut_colour(lightness, chroma, hue):
+    """sRGB of OKLCh (L, C, h) with chroma reduced just enough to fit the gamut."""
+    lightness = min(max(lightness, 0.0), 1.0)
+    linear = oklab_to_linear_srgb(from_polar((lightness, chroma, hue)))
+    if not in_gamut(linear, _GAMUT_TOLERANCE):
+        lo, hi = 0.0, chroma
+        for _ in range(_BISECT_CHROMA):
+            mid = (lo + hi) / 2
+            if in_gamut(oklab_to_linear_srgb(from_polar((lightness, mid, hue))), _GAMUT_TOLERANCE):
+                lo = mid
+            else:
+                hi = mid
+        linear = oklab_to_linear_srgb(from_polar((lightness, lo, hue)))
+    return tuple(min(max(c, 0.0), 1.0) for c in linear_to_srgb(linear))
+
+
+def _lightness_for(target, lo, hi, chroma, hue, rising):
+    """Bisection on lightness in [lo, hi]: the end nearest the start where the luminance
+    crosses ``target`` (``rising``: searching upwards from lo, else downwards from hi)."""
+    for _ in range(_BISECT_LIGHTNESS):
+        mid = (lo + hi) / 2
+        lum = relative_luminance(_in_gamut_colour(mid, chroma, hue))
+        if (lum >= target) == rising:
+            hi, lo = (mid, lo) if rising else (hi, mid)
+        else:
+            lo, hi = (mid, hi) if rising else (lo, mid)
+    return hi if rising else lo
+
+
+def _nearest(colour, others, required):
+    colour = tuple(colour[:3])
+    others = tuple(tuple(o[:3]) for o in others)
+    if _worst_ratio(colour, others) >= required:
+        return colour, _worst_ratio(colour, others)
+    intervals = _feasible_luminances(others, required)
+    if not intervals:
+        return None
+    start = srgb_to_oklab(colour)
+    lightness, chroma, hue = to_polar(start)
+    lum = relative_luminance(colour)
+    candidates = []
+    below = [b for a, b in intervals if b < lum]
+    above = [a for a, b in intervals if a > lum]
+    if below:  # darken until the luminance is at most the top of the nearest interval below
+        target = max(below)
+        found = _lightness_for(target, 0.0, lightness, chroma, hue, rising=False)
+        candidates.append(_settle(found, -_STEP, chroma, hue, others, required))
+    if above:
+        target = min(above)
+        found = _lightness_for(target, lightness, 1.0, chroma, hue, rising=True)
+        candidates.append(_settle(found, _STEP, chroma, hue, others, required))
+    candidates = [c for c in candidates if c is not None]
+    if not candidates:
+        return None
+    best = min(candidates, key=lambda rgb: _distance(start, rgb))
+    return best, _worst_ratio(best, others)
+
+
+def _settle(lightness, step, chroma, hue, others, required):
+    """Step lightness further until the 8-bit rounding of the colour passes too."""
+    while -step <= lightness <= 1 + step:
+        rgb = quantize(_in_gamut_colour(lightness, chroma, hue))
+        if _worst_ratio(rgb, others) >= required:
+            return rgb
+        lightness += step
+    return None
+
+
+def _distance(start, rgb):
+    return math.dist(start, srgb_to_oklab(rgb))

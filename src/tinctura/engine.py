@@ -1,0 +1,158 @@
+"""Samples in, findings out: the engine ties extraction to the rules.
+
+Interface (stable; the CLI, the plugin and the benchmarks use only this):
+
+- ``Options``: what to check and how.
+- ``Site(root, options)``: a built site directory; stylesheets are parsed once and shared.
+  ``site.pages()`` lists the HTML pages (site-relative, sorted); ``site.check_page(rel, html=None)``
+  returns a ``PageResult`` with samples (all schemes and states) and diagnostics.
+- ``check_paths(paths, options) -> Report``: everything for the CLI, pages in a stable order.
+- ``evaluate(samples, options) -> list[Finding]``: run the rule set on samples.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+
+@dataclass
+class Options:
+    level: str = "AA"  # "AA" or "AAA"
+    viewport_width: int = 1280
+    schemes: list | None = None  # list[model.Scheme]; None: discover from the site
+    states: bool = True  # also evaluate :hover / :focus / :focus-visible
+    exclude: tuple = ()  # glob patterns on page paths
+    jobs: int = 1
+    rules: tuple = ()  # rule codes or slugs to run; empty: all
+
+
+@dataclass
+class Report:
+    pages: list = field(default_factory=list)  # list[model.PageResult], stable order
+    findings: list = field(default_factory=list)  # list[model.Finding]
+    diagnostics: list = field(default_factory=list)  # site-wide diagnostics
+    schemes: list = field(default_factory=list)  # list[model.Scheme] evaluated
+
+
+# --------------------------------------------------------------------------------------------
+import fnmatch
+import os
+import re as _re
+
+from .extract import schemes as scheme_mod
+from .extract.html import parse_html
+from .extract.loader import SheetLoader
+from .extract.media import Environment
+from .extract.samples import PageWalker, StyleCache
+from .model import Diagnostic, PageResult
+
+_REFRESH = _re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", _re.I)
+
+
+class Site:
+    """A built site directory: stylesheets parsed once, computed styles shared across pages."""
+
+    def __init__(self, root: str, options: Options | None = None):
+        self.root = os.path.abspath(root)
+        self.options = options or Options()
+        self.loader = SheetLoader(self.root)
+        self._caches = {}
+
+    def pages(self) -> list:
+        found = []
+        for dirpath, dirnames, filenames in os.walk(self.root):
+            dirnames.sort()
+            for name in filenames:
+                if name.lower().endswith((".html", ".htm")):
+                    rel = os.path.relpath(os.path.join(dirpath, name), self.root)
+                    found.append(rel.replace(os.sep, "/"))
+        found.sort()
+        return [p for p in found if not self.excluded(p)]
+
+    def excluded(self, rel: str) -> bool:
+        return any(fnmatch.fnmatch(rel, pat) for pat in self.options.exclude)
+
+    def stylesheets_changed(self) -> bool:
+        return self.loader.changed()
+
+    def check_page(self, rel: str, html=None) -> PageResult:
+        result = PageResult(rel)
+        path = os.path.join(self.root, rel)
+        try:
+            if html is None:
+                with open(path, "rb") as fh:
+                    html = fh.read()
+            data = html.encode("utf-8") if isinstance(html, str) else html
+            if _is_redirect(data):
+                result.skipped["redirect page"] = 1
+                return result
+            root = parse_html(html)
+        except (OSError, ValueError) as exc:
+            message = exc.strerror if isinstance(exc, OSError) and exc.strerror else str(exc)
+            result.diagnostics.append(Diagnostic(rel, f"cannot read page: {message}",
+                                                 severity="error"))
+            return result
+        except Exception as exc:  # a broken page must not stop the site
+            result.diagnostics.append(Diagnostic(rel, f"cannot parse page: {exc}",
+                                                 severity="error"))
+            return result
+        try:
+            ruleset, diags = self.loader.ruleset_for(root, path)
+            result.diagnostics.extend(diags)
+            schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
+            for scheme in schemes:
+                restore = scheme_mod.apply(root, scheme)
+                try:
+                    env = Environment(self.options.viewport_width, scheme_media=scheme.media)
+                    index = ruleset.index(env)
+                    key = (id(ruleset), env.key, scheme.attributes)
+                    cache = self._caches.get(key)
+                    if cache is None:
+                        cache = self._caches[key] = StyleCache()
+                    preferred = scheme.media_value("prefers-color-scheme", "light")
+                    walker = PageWalker(rel, root, index, ruleset, None, scheme.name, preferred,
+                                        cache, self.options.viewport_width, result.skipped)
+                    result.samples.extend(walker.walk())
+                finally:
+                    restore()
+        except Exception as exc:  # report, keep the other pages
+            import traceback
+
+            result.diagnostics.append(Diagnostic(
+                rel, f"internal error while checking: {exc!r}\n{traceback.format_exc(limit=4)}",
+                severity="error"))
+        return result
+
+
+def _is_redirect(data: bytes) -> bool:
+    head = data[:2048]
+    return bool(_REFRESH.search(head)) and len(data) < 4096
+
+
+def evaluate(samples, options: Options) -> list:
+    from . import rules
+
+    return rules.run(samples, options)
+
+
+def check_paths(paths, options: Options | None = None) -> Report:
+    """Check site directories and single HTML files; pages in a stable order."""
+    options = options or Options()
+    report = Report()
+    for path in paths:
+        if os.path.isdir(path):
+            site = Site(path, options)
+            pages = site.pages()
+            if not pages:
+                report.diagnostics.append(Diagnostic(path, "no HTML pages found",
+                                                     severity="error"))
+            for rel in pages:
+                report.pages.append(site.check_page(rel))
+        elif os.path.isfile(path):
+            site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
+            report.pages.append(site.check_page(os.path.basename(path)))
+        else:
+            report.diagnostics.append(Diagnostic(path, "no such file or directory",
+                                                 severity="error"))
+    for page in report.pages:
+        report.findings.extend(evaluate(page.samples, options))
+    return report

@@ -1,0 +1,1 @@
+"""From built HTML and CSS to computed styles and text samples (static cascade, no browser)."""

@@ -1,0 +1,217 @@
+"""Find and load the stylesheets a page uses, from the site directory only.
+
+``<link rel=stylesheet>`` (relative URLs, ``?v=hash`` query strings, ``media``), ``<style>`` and
+``@import`` are followed inside the site root. Nothing is fetched from the network: a remote
+stylesheet is recorded as not loaded. Parsed sheets are cached per site by path and mtime.
+"""
+from __future__ import annotations
+
+import dataclasses
+import os
+import posixpath
+from urllib.parse import unquote, urlsplit
+
+from ..model import Diagnostic
+from .ruleset import RuleSet
+from .sheet import StyleRule, parse_stylesheet
+
+_UA = None
+
+
+def user_agent_sheet():
+    global _UA
+    if _UA is None:
+        path = os.path.join(os.path.dirname(os.path.dirname(__file__)), "data", "user-agent.css")
+        with open(path, encoding="utf-8") as fh:
+            css = fh.read()
+        _UA = parse_stylesheet(css, "user-agent", origin="user-agent")
+    return _UA
+
+
+class SheetLoader:
+    """Per-site cache of parsed stylesheets and of rule sets by list of sheets."""
+
+    def __init__(self, root: str):
+        self.root = os.path.abspath(root)
+        self._sheets = {}  # path -> (mtime, ParsedSheet, diagnostics)
+        self._rulesets = {}
+        self.generation = 0  # bumped when a stylesheet changed on disk
+
+    def rel(self, path: str) -> str:
+        return os.path.relpath(path, self.root).replace(os.sep, "/")
+
+    def resolve(self, href: str, base_dir: str):
+        """A site file for ``href`` seen from ``base_dir``; (path, None) or (None, reason)."""
+        parts = urlsplit(href.strip())
+        if parts.scheme in ("http", "https") or href.strip().startswith("//"):
+            return None, "remote stylesheet not loaded (tinctura never fetches from the network)"
+        if parts.scheme and parts.scheme not in ("file",):
+            return None, f"stylesheet URL scheme '{parts.scheme}:' not supported"
+        path = unquote(parts.path)
+        if not path:
+            return None, "empty stylesheet URL"
+        if path.startswith("/"):
+            candidate = os.path.normpath(os.path.join(self.root, path.lstrip("/")))
+            if not os.path.isfile(candidate):
+                # a site served below a path prefix: try dropping leading segments
+                segments = path.lstrip("/").split("/")
+                for k in range(1, len(segments)):
+                    alt = os.path.normpath(os.path.join(self.root, *segments[k:]))
+                    if os.path.isfile(alt):
+                        candidate = alt
+                        break
+        else:
+            candidate = os.path.normpath(os.path.join(base_dir, path))
+        if not (candidate + os.sep).startswith(self.root + os.sep) and candidate != self.root:
+            return None, "stylesheet outside the site directory not loaded"
+        if not os.path.isfile(candidate):
+            return None, "stylesheet file not found"
+        return candidate, None
+
+    def sheet(self, path: str):
+        """(ParsedSheet or None, diagnostics) for a file, cached by mtime."""
+        try:
+            mtime = os.stat(path).st_mtime_ns
+        except OSError as exc:
+            return None, [Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
+                                     severity="error")]
+        cached = self._sheets.get(path)
+        if cached and cached[0] == mtime:
+            return cached[1], cached[2]
+        if cached:
+            self.generation += 1
+            self._rulesets.clear()
+        diags = []
+        try:
+            with open(path, "rb") as fh:
+                data = fh.read()
+            css = data.decode("utf-8-sig", errors="replace")
+            if "\ufffd" in css and b"\xef\xbf\xbd" not in data:
+                diags.append(Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
+                                        "replaced"))
+            parsed = parse_stylesheet(css, self.rel(path))
+        except OSError as exc:
+            parsed = None
+            diags.append(Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
+                                    severity="error"))
+        except Exception as exc:  # a broken sheet must not stop the site
+            parsed = None
+            diags.append(Diagnostic(self.rel(path), f"cannot parse stylesheet: {exc}",
+                                    severity="error"))
+        if parsed is not None:
+            for line, message in parsed.errors[:20]:
+                diags.append(Diagnostic(self.rel(path), f"CSS: {message}", line=line))
+        self._sheets[path] = (mtime, parsed, diags)
+        return parsed, diags
+
+    def changed(self) -> bool:
+        """True when any loaded stylesheet changed on disk since it was parsed."""
+        for path, (mtime, _, _) in list(self._sheets.items()):
+            try:
+                if os.stat(path).st_mtime_ns != mtime:
+                    return True
+            except OSError:
+                return True
+        return False
+
+    # -- per page ---------------------------------------------------------------------------
+    def ruleset_for(self, root_el, page_path: str):
+        """The RuleSet for a page's tree, and diagnostics about its stylesheets."""
+        base_dir = os.path.dirname(page_path)
+        entries, diags = [], []
+        for el in root_el.iter("link", "style"):
+            if el.tag == "link":
+                rel = (el.get("rel") or "").lower().split()
+                if "stylesheet" not in rel or "alternate" in rel or el.get("disabled") is not None:
+                    continue
+                href = el.get("href") or ""
+                path, problem = self.resolve(href, base_dir)
+                if problem:
+                    diags.append(Diagnostic(self.rel(page_path), f"{href}: {problem}",
+                                            line=el.sourceline or 0,
+                                            severity="warning"))
+                    continue
+                entries.append(("file", path, (el.get("media") or "").strip()))
+            else:
+                media = (el.get("media") or "").strip()
+                entries.append(("style", el.text or "", media, el.sourceline or 0))
+        key = tuple(e if e[0] == "file" else ("style", hash(e[1]), e[2], e[3]) for e in entries)
+        cached = self._rulesets.get(key)
+        if cached is not None:
+            for e in entries:  # refresh sheet diagnostics once per page for reporting
+                if e[0] == "file":
+                    diags.extend(self.sheet(e[1])[1])
+            return cached, _dedupe(diags)
+        rules, layers = [], []
+        self._expand(user_agent_sheet(), (), (), rules, layers, set(), diags)
+        n_style = 0
+        for e in entries:
+            if e[0] == "file":
+                parsed, d = self.sheet(e[1])
+                diags.extend(d)
+                if parsed is None:
+                    continue
+                self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, {e[1]}, diags,
+                             base=os.path.dirname(e[1]))
+            else:
+                n_style += 1
+                name = f"{self.rel(page_path)} <style> #{n_style}"
+                try:
+                    parsed = parse_stylesheet(e[1], name)
+                except Exception as exc:
+                    diags.append(Diagnostic(name, f"cannot parse: {exc}", line=e[3],
+                                            severity="error"))
+                    continue
+                parsed = _shift_lines(parsed, e[3])
+                self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(), diags,
+                             base=base_dir)
+        ruleset = RuleSet(rules, layers)
+        self._rulesets[key] = ruleset
+        return ruleset, _dedupe(diags)
+
+    def _expand(self, parsed, media, layer, out, layers, seen, diags, base=None):
+        for path in parsed.layer_names:
+            layers.append(layer + path)
+        for rule in parsed.rules:
+            if isinstance(rule, StyleRule):
+                out.append(dataclasses.replace(rule, media=media + rule.media,
+                                               layer=layer + rule.layer))
+                continue
+            _, url, imp_media, imp_layer, line = rule
+            path, problem = self.resolve(url, base or self.root)
+            if problem:
+                diags.append(Diagnostic(parsed.name, f"@import {url}: {problem}", line=line))
+                continue
+            if path in seen:
+                continue  # an import cycle
+            child, d = self.sheet(path)
+            diags.extend(d)
+            if child is not None:
+                self._expand(child, media + imp_media, layer + imp_layer, out, layers,
+                             seen | {path}, diags, base=os.path.dirname(path))
+
+
+def _shift_lines(parsed, offset):
+    """<style> blocks: make declaration lines count from the page's first line."""
+    if offset <= 1:
+        return parsed
+    for rule in parsed.rules:
+        if isinstance(rule, StyleRule):
+            for d in rule.decls:
+                if not getattr(d, "_shifted", False):
+                    d.line += offset - 1
+                    d._shifted = True
+    return parsed
+
+
+def _dedupe(diags):
+    seen, out = set(), []
+    for d in diags:
+        if d not in seen:
+            seen.add(d)
+            out.append(d)
+    return out
+
+
+def page_relpath(root: str, path: str) -> str:
+    return posixpath.normpath(os.path.relpath(path, root).replace(os.sep, "/"))

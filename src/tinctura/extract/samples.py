@@ -1,0 +1,343 @@
+"""Walk a page's tree in one scheme and produce a Sample for every rendered text.
+
+Computed styles are shared between elements whose style inputs are the same, within a page and
+across pages: the key of an element is its tag and attributes (values only for attributes that
+selectors test), its parent's key, its previous sibling's key and the tags of its following
+siblings, so sibling-sensitive selectors (``+``, ``~``, ``:nth-child``, ``:last-of-type``...) stay
+correct. Pages of one site repeat the same navigation, so most elements are computed once per site.
+"""
+from __future__ import annotations
+
+import cssselect2
+
+from ..colour.composite import over, with_alpha
+from ..colour.parse import parse_color
+from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
+from .html import own_text
+from .sheet import STATE_ATTR, parse_declarations
+from .style import ROOT_PARENT, Resolver, cascade
+
+NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
+                     "select", "option", "optgroup", "iframe", "object", "canvas", "video",
+                     "audio", "img", "input", "br", "wbr", "math"})
+INTERACTIVE = frozenset({"a", "button", "input", "select", "textarea", "summary"})
+FORM_CONTROLS = frozenset({"button", "input", "select", "textarea", "optgroup", "option",
+                           "fieldset"})
+MAX_ALTERNATIVES = 16
+CACHE_LIMIT = 60000
+
+
+class StyleCache:
+    """Computed styles by structural key, shared across pages for one rule index and scheme."""
+
+    def __init__(self):
+        self.ids = {}
+        self.styles = {}
+        self.cores = {}
+
+    def intern(self, key) -> int:
+        ident = self.ids.get(key)
+        if ident is None:
+            if len(self.ids) > CACHE_LIMIT:  # bound memory on large sites
+                self.ids.clear()
+                self.styles.clear()
+                self.cores.clear()
+            ident = self.ids[key] = len(self.ids) + 1
+        return ident
+
+
+class PageWalker:
+    def __init__(self, page, root, index, ruleset, ua_index, scheme, preferred, cache,
+                 viewport_width, skipped, canvas_override=None):
+        self.page = page
+        self.root = root
+        self.index = index
+        self.ruleset = ruleset
+        self.ua_index = ua_index
+        self.scheme = scheme
+        self.cache = cache
+        self.resolver = Resolver(ruleset, preferred, viewport_width)
+        self.skipped = skipped
+        self.samples = []
+        self.uncached = ruleset.uses_has
+        self.attr_value_names = ruleset.attr_value_names
+        self._serial = 0
+
+    # -- keys ------------------------------------------------------------------------------
+    def _attrs(self, el):
+        names = self.attr_value_names
+        return tuple(sorted((k, v if k in names or k.startswith(STATE_ATTR) else None)
+                            for k, v in el.attrib.items()))
+
+    def _key(self, el, parent_id, prev_id, following):
+        if self.uncached:
+            self._serial += 1
+            return ("u", self._serial)
+        empty = not len(el) and not (el.text or "").strip()
+        return (parent_id, el.tag, self._attrs(el), prev_id, following, empty)
+
+    # -- styles ----------------------------------------------------------------------------
+    def style_for(self, wrapper, parent_style, key_id, is_root):
+        cache = self.cache.styles
+        style = cache.get(key_id)
+        if style is not None:
+            return style
+        el = wrapper.etree_element
+        rules = self.index.match(wrapper)
+        inline = el.get("style")
+        inline_decls = parse_declarations(inline) if inline else ()
+        winners = cascade(rules, inline_decls, self.ruleset)
+        ua_winners = None
+        if any(w.decl.text.lower() in ("revert", "revert-layer") for w in winners.values()):
+            ua_winners = cascade([r for r in rules if r.origin == "user-agent"], (), self.ruleset)
+        style = self.resolver.compute(winners, parent_style, is_root, ua_winners)
+        style.has_opacity_above = parent_style.has_opacity_above or parent_style.opacity < 1
+        style.disabled = parent_style.disabled or _disabled(el)
+        pseudos = {}
+        for rule in rules:
+            if rule.pseudo in ("before", "after", "placeholder", "marker"):
+                pseudos.setdefault(rule.pseudo, None)
+        if pseudos:
+            style.pseudo = {p: self.resolver.compute(cascade(rules, (), self.ruleset, p), style,
+                                                     False)
+                            for p in pseudos}
+        else:
+            style.pseudo = None
+        cache[key_id] = style
+        return style
+
+    # -- walk ------------------------------------------------------------------------------
+    def walk(self):
+        root_wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
+        root_style_parent = ROOT_PARENT
+        stack = [(root_wrapper, root_style_parent, 0, True, ())]
+        intern = self.cache.intern
+        while stack:
+            wrapper, parent_style, key_id, is_root, chain = stack.pop()
+            el = wrapper.etree_element
+            style = self.style_for(wrapper, parent_style, key_id, is_root)
+            if is_root:
+                self.canvas = self._canvas(style, wrapper)
+            if style.display == "none":
+                self._skip("display:none", el)
+                continue
+            if style.opacity <= 0:
+                self._skip("opacity:0", el)
+                continue
+            chain = chain + ((wrapper, style),)
+            tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            self._texts(wrapper, el, tag, style, chain, key_id)
+            children = wrapper.etree_children
+            if not children:
+                continue
+            tags = [c.tag for c in children]
+            following = [0] * len(children)
+            nxt = 0
+            for i in range(len(children) - 1, -1, -1):
+                following[i] = nxt
+                nxt = intern(("f", tags[i], nxt))
+            prev_id = 0
+            items = []
+            for i, child in enumerate(wrapper.iter_children()):
+                cid = intern(self._key(child.etree_element, key_id, prev_id, following[i]))
+                prev_id = cid
+                items.append((child, style, cid, False, chain))
+            stack.extend(reversed(items))
+        return self.samples
+
+    def _skip(self, reason, el):
+        if el.tag in ("head", "script", "style", "template", "title", "noscript"):
+            return
+        if len(el) or (el.text or "").strip():
+            self.skipped[reason] = self.skipped.get(reason, 0) + 1
+
+    def _canvas(self, root_style, wrapper):
+        canvas = parse_color("Canvas", scheme=root_style.scheme)
+        return canvas if isinstance(canvas, tuple) else (1.0, 1.0, 1.0, 1.0)
+
+    # -- samples ---------------------------------------------------------------------------
+    def _texts(self, wrapper, el, tag, style, chain, key_id):
+        if tag in NO_TEXT and tag != "input":
+            if tag == "textarea" or tag == "select":
+                return
+        text = own_text(el) if tag not in NO_TEXT else ""
+        if style.pseudo:
+            for pseudo in ("before", "after"):
+                ps = style.pseudo.get(pseudo)
+                if ps is not None and ps.content and ps.display != "none":
+                    content = _string_content(ps.content)
+                    if content:
+                        self._emit(el, ps, chain + ((None, ps),), content, "generated",
+                                   ("pseudo", pseudo, key_id), f"::{pseudo}")
+        if tag == "input":
+            itype = (el.get("type") or "text").lower()
+            if itype in ("button", "submit", "reset"):
+                label = el.get("value") or {"submit": "Submit", "reset": "Reset"}.get(itype, "")
+                if label.strip():
+                    self._emit(el, style, chain, label, "value", ("value", key_id))
+            elif itype in ("text", "search", "email", "url", "tel", "number", "password"):
+                value = el.get("value")
+                if value:
+                    self._emit(el, style, chain, value, "value", ("value", key_id))
+                elif el.get("placeholder") and style.pseudo and "placeholder" in style.pseudo:
+                    ps = style.pseudo["placeholder"]
+                    self._emit(el, ps, chain + ((None, ps),), el.get("placeholder"),
+                               "placeholder", ("placeholder", key_id), "::placeholder")
+                elif el.get("placeholder"):
+                    ps = self.resolver.compute({}, style, False)
+                    ps.color = parse_color("GrayText", scheme=style.scheme)
+                    self._emit(el, ps, chain + ((None, ps),), el.get("placeholder"),
+                               "placeholder", ("placeholder-ua", key_id), "::placeholder")
+            return
+        if not text:
+            return
+        if style.visibility != "visible":
+            self.skipped["visibility:hidden"] = self.skipped.get("visibility:hidden", 0) + 1
+            return
+        if any(s.visually_hidden for _, s in chain):
+            self.skipped["visually hidden"] = self.skipped.get("visually hidden", 0) + 1
+            return
+        kind = "svg-text" if tag in ("text", "tspan", "textpath") else "text"
+        self._emit(el, style, chain, text, kind, ("text", key_id))
+
+    def _emit(self, el, style, chain, text, kind, core_key, suffix=""):
+        core = self.cache.cores.get(core_key)
+        if core is None:
+            core = self._core(el, style, chain, kind, suffix)
+            self.cache.cores[core_key] = core
+        xpath, fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, layers, bg_cause, \
+            surround = core
+        self.samples.append(Sample(
+            page=self.page, scheme=self.scheme, state=REST, xpath=xpath,
+            line=el.sourceline or 0, text=" ".join(text.split())[:60], kind=kind, fg=fg, bg=bg,
+            fg_raw=fg_raw, font_size_px=round(style.font_size, 4), font_weight=style.font_weight,
+            status=status, reason=reason, bg_alternatives=alts, exempt=exempt,
+            fg_cause=fg_cause, bg_layers=layers, bg_cause=bg_cause, surround=surround))
+
+    def _core(self, el, style, chain, kind, suffix):
+        xpath = el.getroottree().getpath(el) + suffix
+        if kind == "svg-text" and style.svg_fill is not None:
+            text_colour, fg_cause = style.svg_fill
+        elif style.fill_color is not None:
+            text_colour, fg_cause = style.fill_color
+        else:
+            text_colour, fg_cause = style.color, style.color_cause
+        if fg_cause is not None and fg_cause.declaration is not None and style.color_inherited \
+                and text_colour is style.color:
+            fg_cause = Cause(fg_cause.declaration, _inherited_from(chain), fg_cause.chain)
+        reasons = []
+        for _, s in chain:
+            for prop, value, _decl in s.effects:
+                if prop == "text-shadow" and s is not style:
+                    continue
+                reasons.append(f"{prop}: {value}")
+        layers, bg_cause, image_reason, surround = self._layers(chain)
+        pairs = self._paint(chain, text_colour)
+        if image_reason:
+            reasons.append(image_reason)
+        fg, bg = pairs[0]
+        alts = tuple(pairs) if len(pairs) > 1 else ()
+        status = UNDETERMINED if reasons else DETERMINED
+        exempt = "disabled control (WCAG 1.4.3 exempts inactive user-interface components)" \
+            if style.disabled or any(s.disabled for _, s in chain) else ""
+        return (xpath, fg, bg, text_colour, status, "; ".join(reasons), alts, exempt, fg_cause,
+                tuple(layers), bg_cause, surround)
+
+    def _paint(self, chain, top):
+        """(text pixel, background pixel) pairs for ``top`` painted in the element.
+
+        Each ancestor paints its background under the group, then the group is faded by the
+        ancestor's opacity; the result lands on the canvas. A gradient yields one pair per stop.
+        """
+        transparent = (0.0, 0.0, 0.0, 0.0)
+        options = [(top, transparent)]
+        for wrapper, s in reversed(chain):
+            paints = _paints(s)
+            options = [((over(f, p) if p[3] > 0 else f), (over(b, p) if p[3] > 0 else b))
+                       for f, b in options for p in paints][:MAX_ALTERNATIVES]
+            if s.opacity < 1:
+                options = [(with_alpha(f, s.opacity), with_alpha(b, s.opacity))
+                           for f, b in options]
+            if not s.has_opacity_above and all(f[3] >= 1 and b[3] >= 1 for f, b in options):
+                break
+        return [(tuple(over(f, self.canvas)[:3]), tuple(over(b, self.canvas)[:3]))
+                for f, b in options]
+
+    def _layers(self, chain):
+        layers, bg_cause, reason, surround = [], None, "", None
+        opaque_seen = False
+        for wrapper, s in reversed(chain):
+            xp = wrapper.etree_element.getroottree().getpath(wrapper.etree_element) \
+                if wrapper is not None else ""
+            if s.images and not opaque_seen:
+                images, cause = s.images
+                for kind, data in images:
+                    if kind == "url":
+                        reason = f"background image {data} at {xp}"
+                        layers.append(Layer(xp, "image", None, cause))
+                    else:
+                        layers.append(Layer(xp, "gradient", data[0], cause))
+                        if bg_cause is None:
+                            bg_cause = cause
+            if s.bg[3] > 0 and not opaque_seen:
+                layers.append(Layer(xp, "background-color", s.bg, s.bg_cause))
+                if bg_cause is None:
+                    bg_cause = s.bg_cause
+            elif s.bg[3] > 0 and surround is None:
+                surround = s.bg[:3]
+            if s.opacity < 1:
+                layers.append(Layer(xp, "opacity", (0, 0, 0, s.opacity), s.opacity_cause))
+            if s.bg[3] >= 1 and not opaque_seen:
+                opaque_seen = True
+        if not opaque_seen:
+            layers.append(Layer("", "canvas", self.canvas, None))
+        return layers, bg_cause, reason, surround
+
+
+def _paints(style):
+    """The colours one element paints behind its content: bg colour, with each gradient stop."""
+    base = style.bg
+    if not style.images:
+        return [base]
+    images, _ = style.images
+    options = [base]
+    for kind, data in images:
+        if kind == "gradient":
+            options = [over(stop, b) for b in options for stop in data]
+    return _dedupe(options)[:MAX_ALTERNATIVES]
+
+
+def _dedupe(colours):
+    seen, out = set(), []
+    for c in colours:
+        k = tuple(round(x, 6) for x in c)
+        if k not in seen:
+            seen.add(k)
+            out.append(c)
+    return out
+
+
+def _inherited_from(chain):
+    """XPath of the nearest ancestor whose colour was set, not inherited."""
+    for wrapper, s in reversed(chain[:-1]):
+        if wrapper is not None and not s.color_inherited:
+            el = wrapper.etree_element
+            return el.getroottree().getpath(el)
+    return None
+
+
+def _disabled(el) -> bool:
+    tag = el.tag.lower() if isinstance(el.tag, str) else ""
+    if tag in FORM_CONTROLS and el.get("disabled") is not None:
+        return True
+    return el.get("aria-disabled", "").lower() == "true" and tag in ("button", "a")
+
+
+def _string_content(tokens) -> str:
+    out = []
+    for t in tokens:
+        if t.type == "string":
+            out.append(t.value)
+        elif t.type == "ident" and t.lower_value in ("none", "normal"):
+            return ""
+    return "".join(out).strip()

@@ -1,0 +1,104 @@
+"""Discover the colour schemes a page offers, from what its HTML and stylesheets say.
+
+- mkdocs-material: the palette form lists one ``input.md-option`` per palette entry; the theme
+  copies its ``data-md-color-*`` attributes onto ``<body>`` and the entry's media query says which
+  reader preference selects it.
+- MkDocs' own theme: ``data-bs-theme`` on ``<html>`` (light / dark).
+- Other generators: a ``data-theme`` attribute on ``<html>`` or ``<body>`` with selectors for it.
+- Plain CSS: ``@media (prefers-color-scheme: dark)`` rules, or ``light-dark()``.
+Without any of these the page has one scheme, ``light``.
+"""
+from __future__ import annotations
+
+import re
+
+from ..model import LIGHT, Scheme
+
+_PREFERS = re.compile(r"prefers-color-scheme\s*:\s*(light|dark)", re.I)
+
+
+def discover(root, ruleset) -> list:
+    palette = _material_palette(root)
+    if palette:
+        return palette
+    selectors = " ".join(r.selector_text for r in ruleset.rules if r.origin == "author")
+    html = root
+    if html.get("data-bs-theme") is not None or "data-bs-theme" in selectors:
+        return [Scheme(n, (("prefers-color-scheme", n),), (("html", "data-bs-theme", n),),
+                       "data-bs-theme") for n in ("light", "dark")]
+    if "data-theme" in selectors:
+        holder = "body" if root.find("body") is not None and \
+            root.find("body").get("data-theme") is not None else (
+                "html" if html.get("data-theme") is not None else "body")
+        return [Scheme(n, (("prefers-color-scheme", n),), ((holder, "data-theme", n),),
+                       "data-theme") for n in ("light", "dark")]
+    media = any(any("prefers-color-scheme" in m for m in r.media) for r in ruleset.rules)
+    light_dark = any(_uses_light_dark(r) for r in ruleset.rules if r.origin == "author")
+    if media or light_dark:
+        return [Scheme("light", (("prefers-color-scheme", "light"),), (), "media"),
+                Scheme("dark", (("prefers-color-scheme", "dark"),), (), "media")]
+    return [LIGHT]
+
+
+def _uses_light_dark(rule) -> bool:
+    return any("light-dark(" in d.text.lower() for d in rule.decls)
+
+
+def _material_palette(root) -> list:
+    inputs = [el for el in root.iter("input")
+              if el.get("data-md-color-scheme") is not None
+              and "md-option" in (el.get("class") or "").split()]
+    if not inputs:
+        return []
+    schemes, names = [], {}
+    for el in inputs:
+        scheme = el.get("data-md-color-scheme")
+        names[scheme] = names.get(scheme, 0) + 1
+    for el in inputs:
+        scheme = el.get("data-md-color-scheme")
+        primary = el.get("data-md-color-primary") or ""
+        accent = el.get("data-md-color-accent") or ""
+        name = scheme if names[scheme] == 1 else f"{scheme}/{primary}"
+        found = _PREFERS.search(el.get("data-md-color-media") or "")
+        pref = found.group(1).lower() if found else ("dark" if scheme == "slate" else "light")
+        attrs = [("body", "data-md-color-scheme", scheme)]
+        if primary:
+            attrs.append(("body", "data-md-color-primary", primary))
+        if accent:
+            attrs.append(("body", "data-md-color-accent", accent))
+        schemes.append(Scheme(name, (("prefers-color-scheme", pref),), tuple(attrs), "palette"))
+    return schemes
+
+
+def apply(root, scheme):
+    """Set the scheme's attributes on the tree; returns a function that restores them."""
+    saved = []
+    for selector, attr, value in scheme.attributes:
+        targets = _select(root, selector)
+        for el in targets:
+            saved.append((el, attr, el.get(attr)))
+            el.set(attr, value)
+
+    def restore():
+        for el, attr, old in reversed(saved):
+            if old is None:
+                el.attrib.pop(attr, None)
+            else:
+                el.set(attr, old)
+
+    return restore
+
+
+def _select(root, selector):
+    selector = selector.strip()
+    if selector in ("html", ":root"):
+        return [root]
+    if selector == "body":
+        body = root.find("body")
+        return [body] if body is not None else []
+    import cssselect2
+    import tinycss2
+
+    wrapper = cssselect2.ElementWrapper.from_html_root(root)
+    compiled = cssselect2.compile_selector_list(tinycss2.parse_component_value_list(selector))
+    return [w.etree_element for w in wrapper.iter_subtree() if any(c.test(w) for c in compiled)]

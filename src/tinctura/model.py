@@ -1,0 +1,160 @@
+"""Plain records passed between extraction, rules and reports.
+
+Everything here is data: no I/O, no formatting. Colours are ``(r, g, b)`` or ``(r, g, b, a)``
+tuples of floats in 0..1 (sRGB-encoded); reports turn them into ``#rrggbb`` late.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Optional
+
+RGB = tuple  # (r, g, b) floats 0..1, sRGB encoded
+RGBA = tuple  # (r, g, b, a)
+
+DETERMINED = "determined"
+UNDETERMINED = "undetermined"
+
+REST = "rest"  # the resting state; other states: "hover", "focus", "focus-visible"
+
+
+@dataclass(frozen=True)
+class Scheme:
+    """A colour scheme as a theme applies it: media features plus attribute overrides.
+
+    ``attributes`` holds ``(css selector, attribute, value)`` triples set on the matching elements
+    before the cascade runs (mkdocs-material's palette switch, ``data-bs-theme``...).
+    """
+
+    name: str
+    media: tuple = ()  # (("prefers-color-scheme", "dark"),)
+    attributes: tuple = ()  # (("body", "data-md-color-scheme", "slate"),)
+    source: str = "default"  # where it was discovered: "default", "media", "palette", "setting"...
+
+    def media_value(self, feature: str, default: str | None = None) -> str | None:
+        for key, value in self.media:
+            if key == feature:
+                return value
+        return default
+
+
+LIGHT = Scheme("light", (("prefers-color-scheme", "light"),))
+
+
+@dataclass(frozen=True)
+class Declaration:
+    """Where a value came from: one declaration in one stylesheet (or a style attribute)."""
+
+    property: str
+    value: str
+    sheet: str  # site-relative path, "<style>#n" with page, "style attribute", "user-agent"
+    line: int
+    selector: str
+    origin: str  # "author", "inline", "user-agent"
+    important: bool = False
+
+    def where(self) -> str:
+        return f"{self.sheet}:{self.line}" if self.line else self.sheet
+
+
+@dataclass(frozen=True)
+class Cause:
+    """Why a computed colour is what it is.
+
+    ``declaration`` is the winning declaration for the property (None: initial value);
+    ``inherited_from`` the XPath of the ancestor it was inherited from (None: set on the element);
+    ``chain`` the custom properties substituted on the way, outermost first.
+    """
+
+    declaration: Optional[Declaration] = None
+    inherited_from: Optional[str] = None
+    chain: tuple = ()  # tuple[Declaration] of the custom-property declarations used
+
+    def key(self) -> tuple:
+        """Identity of the cause for grouping: the declarations, not the elements."""
+        d = self.declaration
+        head = (d.sheet, d.line, d.property, d.value) if d else ("initial",)
+        return head + tuple((c.sheet, c.line, c.property) for c in self.chain)
+
+
+@dataclass(frozen=True)
+class Layer:
+    """One layer composited into an element's effective background (top-most first)."""
+
+    xpath: str
+    kind: str  # "background-color", "opacity", "canvas", "gradient", "image", "shadow"
+    colour: Optional[RGBA]
+    cause: Optional[Cause] = None
+
+
+@dataclass
+class Sample:
+    """One rendered text (element x scheme x state) with its colours and how they arose."""
+
+    page: str
+    scheme: str
+    state: str
+    xpath: str
+    line: int
+    text: str
+    kind: str  # "text", "generated", "placeholder", "value", "svg-text", "marker"
+    fg: Optional[RGB]  # foreground after compositing over bg (what the reader sees)
+    bg: Optional[RGB]  # effective background (opaque)
+    fg_raw: Optional[RGBA]  # computed colour before compositing
+    font_size_px: float
+    font_weight: int
+    status: str = DETERMINED
+    reason: str = ""
+    bg_alternatives: tuple = ()  # other opaque backgrounds it may sit on (gradient stops...)
+    exempt: str = ""  # non-empty: why WCAG does not require contrast (e.g. disabled control)
+    fg_cause: Optional[Cause] = None
+    bg_layers: tuple = ()  # tuple[Layer], top-most first
+    bg_cause: Optional[Cause] = None  # the layer that made the background opaque
+    surround: Optional[RGB] = None  # colour of the area around the element's background
+
+    @property
+    def fg_alpha_raw(self) -> float:
+        return 1.0 if self.fg_raw is None else self.fg_raw[3]
+
+
+@dataclass
+class Fix:
+    """A suggested colour and the ratio it would reach."""
+
+    target: str  # "foreground" or "background"
+    colour: RGB
+    ratio: float
+
+
+@dataclass
+class Finding:
+    """A rule's verdict on one sample: template and arguments, formatted late."""
+
+    rule: str  # code, e.g. "TC100"
+    slug: str
+    severity: str  # "error", "warning", "info"
+    sample: Sample
+    ratio: float
+    required: float
+    level: str = "AA"
+    fixes: list = field(default_factory=list)  # list[Fix]
+    args: dict = field(default_factory=dict)  # extra template arguments
+
+
+@dataclass
+class PageResult:
+    """Everything one page produced: samples, skipped counts and diagnostics."""
+
+    page: str
+    samples: list = field(default_factory=list)
+    skipped: dict = field(default_factory=dict)  # reason -> count
+    diagnostics: list = field(default_factory=list)  # list[Diagnostic]
+
+
+@dataclass(frozen=True)
+class Diagnostic:
+    """A problem with the input (not with colours): unreadable file, bad CSS, remote sheet."""
+
+    path: str
+    message: str
+    line: int = 0
+    severity: str = "warning"  # "error" when a file could not be read at all

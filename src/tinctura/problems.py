@@ -1,0 +1,183 @@
+"""Findings grouped by cause: one *problem* per rule, scheme, foreground and background cause.
+
+A site with one bad colour declaration yields thousands of findings and one problem; fixing the
+declaration fixes them all. Pure: records in, records out.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Optional
+
+from tinctura.colour import fix as colour_fix
+from tinctura.colour import wcag
+from tinctura.colour.convert import quantize
+from tinctura.model import DETERMINED, Cause, Declaration, Finding
+
+SEVERITY_RANK = {"error": 0, "warning": 1, "info": 2}
+
+
+@dataclass
+class Context:
+    """Backgrounds one foreground value can serve, and that value (None: none can)."""
+
+    backgrounds: tuple  # tuple[RGB], darkest first
+    colour: Optional[tuple]
+    ratio: Optional[float]  # the worst ratio ``colour`` reaches on these backgrounds
+
+
+@dataclass
+class CauseFix:
+    """A new value for the foreground declaration itself.
+
+    ``colour`` passes against every background where the declaration's colour is used;
+    when no single value can, ``colour`` is None and ``contexts`` splits the backgrounds into
+    groups (by luminance) that one value each can serve.
+    """
+
+    declaration: Optional[Declaration]  # where to change it (None: nothing declared it)
+    required: float
+    backgrounds: tuple  # every background considered, darkest first
+    colour: Optional[tuple]
+    ratio: Optional[float]
+    contexts: tuple = ()  # tuple[Context], only when colour is None
+
+    @property
+    def possible(self) -> bool:
+        return self.colour is not None
+
+
+@dataclass
+class Problem:
+    rule: str
+    slug: str
+    severity: str
+    scheme: str
+    fg_cause: Optional[Cause]
+    bg_cause: Optional[Cause]
+    findings: list = field(default_factory=list)  # list[Finding]
+    pages: int = 0  # number of distinct pages
+    worst_ratio: float = 0.0
+    required: float = 0.0  # the highest ratio any of its findings requires
+    fix_at_cause: Optional[CauseFix] = None
+
+    @property
+    def occurrences(self) -> int:
+        return len(self.findings)
+
+    @property
+    def worst(self) -> Finding:
+        return min(self.findings, key=lambda f: f.ratio)
+
+
+def cause_key(cause: Optional[Cause]) -> tuple:
+    return cause.key() if cause is not None else ("unknown",)
+
+
+def problem_key(finding: Finding) -> tuple:
+    s = finding.sample
+    return (finding.rule, s.scheme, cause_key(s.fg_cause), cause_key(s.bg_cause))
+
+
+def target_declaration(cause: Optional[Cause]) -> Optional[Declaration]:
+    """The declaration that holds the colour value: the innermost custom property if any."""
+    if cause is None:
+        return None
+    if cause.chain:
+        return cause.chain[-1]
+    return cause.declaration
+
+
+def group(findings, samples=()) -> list:
+    """Group ``findings`` into problems, largest first.
+
+    ``samples`` (optional, every sample of the run) widens the fix at the cause: the new value
+    must also keep passing wherever the same declaration is used without a finding today,
+    in every scheme, so one declaration never receives two conflicting suggestions.
+    """
+    buckets: dict = {}
+    for finding in findings:
+        buckets.setdefault(problem_key(finding), []).append(finding)
+    uses = declaration_uses(samples)
+    problems = []
+    for members in buckets.values():
+        first = members[0]
+        problem = Problem(
+            rule=first.rule,
+            slug=first.slug,
+            severity=min((f.severity for f in members), key=lambda s: SEVERITY_RANK.get(s, 9)),
+            scheme=first.sample.scheme,
+            fg_cause=first.sample.fg_cause,
+            bg_cause=first.sample.bg_cause,
+            findings=members,
+            pages=len({f.sample.page for f in members}),
+            worst_ratio=min(f.ratio for f in members),
+            required=max(f.required for f in members),
+        )
+        problem.fix_at_cause = fix_at_cause(problem, uses)
+        problems.append(problem)
+    problems.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
+    return problems
+
+
+def declaration_uses(samples) -> dict:
+    """Declaration -> backgrounds of every judged sample whose text colour it sets."""
+    uses: dict = {}
+    for s in samples:
+        if s.status != DETERMINED or s.exempt or s.bg is None:
+            continue
+        declaration = target_declaration(s.fg_cause)
+        if declaration is None:
+            continue
+        bucket = uses.setdefault(declaration, set())
+        bucket.add(quantize(s.bg))
+        bucket.update(quantize(b) for b in s.bg_alternatives if b is not None)
+    return uses
+
+
+def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
+    declaration = target_declaration(problem.fg_cause)
+    backgrounds = set()
+    for f in problem.findings:
+        backgrounds.add(quantize(f.sample.bg))
+        backgrounds.update(quantize(b) for b in f.sample.bg_alternatives if b is not None)
+    if declaration is not None:
+        backgrounds |= uses.get(declaration, set())
+    ordered = tuple(sorted(backgrounds, key=wcag.relative_luminance))
+    worst = problem.worst
+    start = tuple(worst.args.get("fg") or worst.sample.fg)
+    found = colour_fix.passing_foreground_for_all(start, list(ordered), problem.required)
+    if found is not None:
+        return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1])
+    return CauseFix(
+        declaration, problem.required, ordered, None, None,
+        contexts=split_contexts(start, ordered, problem.required),
+    )
+
+
+def split_contexts(start, ordered, required: float) -> tuple:
+    """Split backgrounds (darkest first) into runs that one foreground value can serve.
+
+    Greedy in luminance order: a run grows while one value still passes on all of it. Any
+    subset of a servable set is servable, so this gives the fewest runs of neighbours.
+    """
+    contexts = []
+    run: list = []
+    run_fix = None
+    for bg in ordered:
+        trial = colour_fix.passing_foreground_for_all(start, run + [bg], required)
+        if trial is not None or not run:
+            run.append(bg)
+            run_fix = trial
+            continue
+        contexts.append(_context(run, run_fix))
+        run = [bg]
+        run_fix = colour_fix.passing_foreground_for_all(start, run, required)
+    if run:
+        contexts.append(_context(run, run_fix))
+    return tuple(contexts)
+
+
+def _context(run, found) -> Context:
+    if found is None:
+        return Context(tuple(run), None, None)
+    return Context(tuple(run), tuple(found[0]), found[1])

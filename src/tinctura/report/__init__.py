@@ -1,0 +1,28 @@
+"""Reports: formatters that turn a run's records into text or JSON, and the exit status."""
+from __future__ import annotations
+
+from .base import Formatter, Header, emit
+from .json_report import JsonFormatter
+from .notice import DISCLAIMER
+from .status import exit_status
+from .summary import Summary, summarise
+from .text_report import TextFormatter
+
+__all__ = [
+    "DISCLAIMER", "FORMATS", "Formatter", "Header", "JsonFormatter", "Summary", "TextFormatter",
+    "emit", "exit_status", "render", "summarise",
+]
+
+FORMATS = {"text": TextFormatter, "json": JsonFormatter}
+
+
+def render(stream, fmt: str, header: Header, pages, findings, problems, diagnostics=(),
+           colour_choice: str = "auto", environ=None) -> Summary:
+    """Write one report to ``stream`` in format ``fmt``; return its summary."""
+    summary = summarise(pages, findings, problems, diagnostics, header.schemes)
+    if fmt == "text":
+        formatter = TextFormatter(stream, header, environ=environ, choice=colour_choice)
+    else:
+        formatter = FORMATS[fmt](stream, header)
+    emit(formatter, pages, findings, problems, diagnostics, summary)
+    return summary

@@ -1,0 +1,75 @@
+"""The formatter interface and the driver that feeds a run's records to a formatter.
+
+Findings stay records until a formatter turns them into text (flake8's split between
+violations and formatters). Every formatter receives every call and keeps what it needs:
+the text report shows problems or pages depending on its grouping, JSON keeps both.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from tinctura.model import PageResult
+
+
+@dataclass
+class Header:
+    """What a report says about the run itself."""
+
+    tool: str = "tinctura"
+    version: str = ""
+    level: str = "AA"
+    group: str = "cause"  # "cause" (problems first) or "page"
+    fail_on: str = "error"
+    schemes: list = field(default_factory=list)  # scheme names evaluated
+
+
+class Formatter:
+    """start, then page* (stable order), problem* (largest first), diagnostic*, then stop."""
+
+    def __init__(self, stream, header: Header):
+        self.stream = stream
+        self.header = header
+
+    def start(self, summary) -> None:
+        pass
+
+    def page(self, page, findings: list) -> None:
+        """``page``: a PageResult; ``findings``: its findings in document order."""
+
+    def problem(self, index: int, problem) -> None:
+        """``index`` counts from 1."""
+
+    def diagnostic(self, diagnostic) -> None:
+        pass
+
+    def stop(self, summary) -> None:
+        pass
+
+
+def findings_by_page(findings) -> dict:
+    out: dict = {}
+    for f in findings:
+        out.setdefault(f.sample.page, []).append(f)
+    for items in out.values():
+        items.sort(key=lambda f: (f.sample.line, f.sample.xpath, f.sample.scheme, f.sample.state))
+    return out
+
+
+def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) -> None:
+    """Feed one run to ``formatter``. ``diagnostics``: site-wide ones; page ones come along."""
+    formatter.start(summary)
+    grouped = findings_by_page(findings)
+    seen = set()
+    for page in pages:
+        seen.add(page.page)
+        formatter.page(page, grouped.get(page.page, []))
+    for name in sorted(set(grouped) - seen):  # findings on pages the run did not list
+        formatter.page(PageResult(name), grouped[name])
+    for index, problem in enumerate(problems, 1):
+        formatter.problem(index, problem)
+    for diagnostic in diagnostics:
+        formatter.diagnostic(diagnostic)
+    for page in pages:
+        for diagnostic in page.diagnostics:
+            formatter.diagnostic(diagnostic)
+    formatter.stop(summary)

@@ -1,0 +1,123 @@
+"""Turning records into words: messages, colours, ratios, causes, locators. Pure."""
+from __future__ import annotations
+
+import re
+
+from tinctura import rules
+from tinctura.colour.convert import to_hex
+from tinctura.colour.wcag import format_ratio
+from tinctura.model import Cause, Declaration, Finding
+
+EXCERPT = 40  # characters of text shown in terminal reports
+
+
+def colour(rgb) -> str:
+    """``#rrggbb``, or ``?`` when unknown."""
+    return "?" if rgb is None else to_hex(rgb)
+
+
+def ratio(value: float) -> str:
+    """Contrast ratio floored to 2 decimals for display: 4.478 -> ``4.47`` (never rounded up)."""
+    return format_ratio(value, 2)
+
+
+def required(value: float) -> str:
+    """A threshold as WCAG writes it: 4.5, 3, 7."""
+    return f"{value:g}"
+
+
+def plural(n: int, word: str, words: str | None = None) -> str:
+    return f"{n:,} {word if n == 1 else (words or word + 's')}"
+
+
+def excerpt(text: str, limit: int = EXCERPT) -> str:
+    """Whitespace collapsed, cut at ``limit`` characters with an ellipsis."""
+    text = " ".join((text or "").split())
+    return text if len(text) <= limit else text[: limit - 1].rstrip() + "\u2026"
+
+
+_STEP = re.compile(r"^([^\[]+)(?:\[(\d+)\])?$")
+
+
+def css_path(xpath: str, keep: int = 3) -> str:
+    """A short CSS-like locator from an XPath: ``/html/body/main/p[3]`` -> ``main > p:nth-of-type(3)``.
+
+    Only the last ``keep`` steps are shown (``...`` marks the cut); the XPath stays exact.
+    """
+    steps = [s for s in (xpath or "").split("/") if s]
+    out = []
+    for step in steps:
+        m = _STEP.match(step)
+        if not m:
+            out.append(step)
+            continue
+        name, index = m.groups()
+        out.append(f"{name}:nth-of-type({index})" if index else name)
+    if keep and len(out) > keep:
+        return "\u2026 > " + " > ".join(out[-keep:])
+    return " > ".join(out)
+
+
+def message_args(finding: Finding) -> dict:
+    """Template arguments for a finding's message, converted for display."""
+    args = dict(finding.args)
+    rule = rules.get(finding.rule)
+    stops = args.get("stops", 1)
+    against = f"; worst of {stops} backgrounds it sits on" if stops > 1 else ""
+    for key, value in list(args.items()):
+        if isinstance(value, tuple) and len(value) in (3, 4) and all(
+            isinstance(c, float) for c in value
+        ):
+            args[key] = colour(value)
+    args.update(
+        ratio=ratio(finding.ratio),
+        required=required(finding.required),
+        level=finding.level,
+        sc=args.get("sc") or rule.criterion(finding.level).number,
+        size="large" if args.get("large") else "normal",
+        against=against,
+        rule=finding.rule,
+        slug=finding.slug,
+    )
+    return args
+
+
+def message(finding: Finding) -> str:
+    """The finding's message: its rule's template filled in late."""
+    return rules.get(finding.rule).message.format(**message_args(finding))
+
+
+def finding_colours(finding: Finding) -> tuple:
+    """(fg, bg) the finding was judged on: the worst background when there were several."""
+    s = finding.sample
+    return finding.args.get("fg") or s.fg, finding.args.get("bg") or s.bg
+
+
+def declaration(d: Declaration) -> str:
+    return f"`{d.property}: {d.value}` at {d.where()}"
+
+
+def cause(c: Cause | None, initial: str = "the initial value") -> str:
+    """One line of provenance: the winning declaration, the variables it went through."""
+    if c is None:
+        return "unknown origin"
+    if c.declaration is None:
+        text = initial
+    else:
+        text = declaration(c.declaration)
+        if c.declaration.selector:
+            text += f" ({c.declaration.selector})"
+    for link in c.chain:
+        text += f", via {declaration(link)}"
+    if c.inherited_from:
+        text += f", inherited from {c.inherited_from}"
+    return text
+
+
+def fixes(finding: Finding) -> str:
+    """``text #767676 (4.54:1) or background #ffffff (...)``; empty when none was found."""
+    parts = []
+    for fix in finding.fixes:
+        what = "text" if fix.target == "foreground" else fix.target
+        parts.append(f"{what} {colour(fix.colour)} ({ratio(fix.ratio)}:1)")
+    return " or ".join(parts)

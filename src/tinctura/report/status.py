@@ -1,0 +1,30 @@
+"""The exit status, decided in one place."""
+from __future__ import annotations
+
+CLEAN = 0
+FINDINGS = 1
+ERROR = 2  # usage, configuration or internal error
+
+FAIL_ON = ("error", "warning", "info", "never")
+_RANK = {"error": 0, "warning": 1, "info": 2}
+
+
+def at_or_above(severity: str, threshold: str) -> bool:
+    """True when ``severity`` is as severe as ``threshold`` or more ("never": always False)."""
+    if threshold == "never":
+        return False
+    return _RANK.get(severity, len(_RANK)) <= _RANK[threshold]
+
+
+def failing(findings, fail_on: str = "error") -> list:
+    """The findings that make a run fail at threshold ``fail_on``."""
+    if fail_on not in FAIL_ON:
+        raise ValueError(f"unknown --fail-on value {fail_on!r}")
+    return [f for f in findings if at_or_above(f.severity, fail_on)]
+
+
+def exit_status(findings=(), fail_on: str = "error", error: bool = False) -> int:
+    """0 clean, 1 findings at or above ``fail_on``, 2 when the run itself failed (``error``)."""
+    if error:
+        return ERROR
+    return FINDINGS if failing(findings, fail_on) else CLEAN

@@ -1,0 +1,66 @@
+"""Counts for the end of a report. Pure: a run's records in, a Summary out."""
+from __future__ import annotations
+
+from collections import Counter
+from dataclasses import dataclass, field
+
+from tinctura.model import DETERMINED
+
+SEVERITIES = ("error", "warning", "info")  # most severe first
+
+
+@dataclass
+class Summary:
+    pages: int = 0
+    samples: int = 0
+    findings: int = 0
+    problems: int = 0
+    by_severity: dict = field(default_factory=dict)
+    by_rule: dict = field(default_factory=dict)
+    by_page: dict = field(default_factory=dict)  # only pages with findings
+    by_scheme: dict = field(default_factory=dict)
+    undetermined: int = 0  # samples (not exempt) whose colours could not be determined: not judged
+    undetermined_reasons: dict = field(default_factory=dict)
+    exempt: int = 0  # samples WCAG does not cover (e.g. disabled controls)
+    skipped: dict = field(default_factory=dict)  # reason -> count, as extraction reported
+    diagnostics: int = 0
+    schemes: list = field(default_factory=list)  # scheme names evaluated
+    pages_with_findings: int = 0
+
+
+def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summary:
+    """Count what a run produced.
+
+    ``pages``: PageResults; ``findings``: every Finding; ``diagnostics``: site-wide ones
+    (page diagnostics are counted from the pages); ``schemes``: Scheme records or names.
+    """
+    samples = [s for page in pages for s in page.samples]
+    undetermined = Counter(
+        s.reason or "unknown" for s in samples if s.status != DETERMINED and not s.exempt
+    )
+    skipped: Counter = Counter()
+    for page in pages:
+        skipped.update(page.skipped)
+    by_severity = {name: 0 for name in SEVERITIES}
+    by_severity.update(Counter(f.severity for f in findings))
+    by_page = Counter(f.sample.page for f in findings)
+    names = [getattr(s, "name", s) for s in schemes]
+    if not names:
+        names = sorted({s.scheme for s in samples})
+    return Summary(
+        pages=len(pages),
+        samples=len(samples),
+        findings=len(findings),
+        problems=len(problems),
+        by_severity=by_severity,
+        by_rule=dict(sorted(Counter(f.rule for f in findings).items())),
+        by_page=dict(sorted(by_page.items())),
+        by_scheme=dict(sorted(Counter(f.sample.scheme for f in findings).items())),
+        undetermined=sum(undetermined.values()),
+        undetermined_reasons=dict(sorted(undetermined.items())),
+        exempt=sum(1 for s in samples if s.exempt),
+        skipped=dict(sorted(skipped.items())),
+        diagnostics=len(diagnostics) + sum(len(p.diagnostics) for p in pages),
+        schemes=names,
+        pages_with_findings=len(by_page),
+    )
