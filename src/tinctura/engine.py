@@ -111,7 +111,7 @@ class Site:
                     preferred = scheme.media_value("prefers-color-scheme", "light")
                     walker = PageWalker(rel, root, index, ruleset, None, scheme.name, preferred,
                                         cache, self.options.viewport_width, result.skipped)
-                    result.samples.extend(walker.walk())
+                    result.samples.extend(walker.walk(states=self.options.states))
                 finally:
                     restore()
         except Exception as exc:  # report, keep the other pages
@@ -135,7 +135,11 @@ def evaluate(samples, options: Options) -> list:
 
 
 def check_paths(paths, options: Options | None = None) -> Report:
-    """Check site directories and single HTML files; pages in a stable order."""
+    """Check site directories and single HTML files; pages in a stable order.
+
+    With ``options.jobs > 1`` the pages of a site are spread over processes in contiguous
+    chunks (so each worker's style cache stays warm); results keep the single-process order.
+    """
     options = options or Options()
     report = Report()
     for path in paths:
@@ -145,8 +149,7 @@ def check_paths(paths, options: Options | None = None) -> Report:
             if not pages:
                 report.diagnostics.append(Diagnostic(path, "no HTML pages found",
                                                      severity="error"))
-            for rel in pages:
-                report.pages.append(site.check_page(rel))
+            report.pages.extend(_check_site_pages(site, pages, options))
         elif os.path.isfile(path):
             site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
             report.pages.append(site.check_page(os.path.basename(path)))
@@ -156,3 +159,27 @@ def check_paths(paths, options: Options | None = None) -> Report:
     for page in report.pages:
         report.findings.extend(evaluate(page.samples, options))
     return report
+
+
+_WORKER_SITE = None
+
+
+def _worker_init(root, options):
+    global _WORKER_SITE
+    _WORKER_SITE = Site(root, options)
+
+
+def _worker_check(rel):
+    return _WORKER_SITE.check_page(rel)
+
+
+def _check_site_pages(site, pages, options):
+    jobs = max(1, int(options.jobs or 1))
+    if jobs == 1 or len(pages) < 2 * jobs:
+        return [site.check_page(rel) for rel in pages]
+    import multiprocessing
+
+    chunk = max(1, min(50, len(pages) // (jobs * 4)))
+    ctx = multiprocessing.get_context("fork" if hasattr(os, "fork") else "spawn")
+    with ctx.Pool(jobs, initializer=_worker_init, initargs=(site.root, options)) as pool:
+        return list(pool.imap(_worker_check, pages, chunksize=chunk))

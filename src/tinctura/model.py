@@ -51,9 +51,13 @@ class Declaration:
     selector: str
     origin: str  # "author", "inline", "user-agent"
     important: bool = False
+    column: int = 0  # minified stylesheets put everything on a few lines
 
     def where(self) -> str:
-        return f"{self.sheet}:{self.line}" if self.line else self.sheet
+        if not self.line:
+            return self.sheet
+        return f"{self.sheet}:{self.line}:{self.column}" if self.column else \
+            f"{self.sheet}:{self.line}"
 
 
 @dataclass(frozen=True)

@@ -24,6 +24,10 @@ INTERACTIVE = frozenset({"a", "button", "input", "select", "textarea", "summary"
 FORM_CONTROLS = frozenset({"button", "input", "select", "textarea", "optgroup", "option",
                            "fieldset"})
 MAX_ALTERNATIVES = 16
+# (state, pseudo-classes on the element, pseudo-classes on its ancestors). Focus is keyboard
+# focus, the case where :focus-visible styles show.
+STATES = (("hover", ("hover",), ("hover",)),
+          ("focus", ("focus", "focus-visible", "focus-within"), ("focus-within",)))
 CACHE_LIMIT = 60000
 
 
@@ -107,11 +111,23 @@ class PageWalker:
         return style
 
     # -- walk ------------------------------------------------------------------------------
-    def walk(self):
+    def walk(self, states: bool = False):
         root_wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
-        root_style_parent = ROOT_PARENT
-        stack = [(root_wrapper, root_style_parent, 0, True, ())]
+        self.meta = {}
+        self.interactive = []
+        self.state = REST
+        self._walk([(root_wrapper, ROOT_PARENT, 0, True, ())], collect=states)
+        if states and self.interactive:
+            rest = {(s.xpath, s.kind): (s.fg, s.bg) for s in self.samples}
+            for state, on_self, on_path in STATES:
+                for wrapper in self.interactive:
+                    self._state(wrapper, state, on_self, on_path, rest)
+            self.state = REST
+        return self.samples
+
+    def _walk(self, stack, collect=False):
         intern = self.cache.intern
+        meta = self.meta
         while stack:
             wrapper, parent_style, key_id, is_root, chain = stack.pop()
             el = wrapper.etree_element
@@ -126,6 +142,8 @@ class PageWalker:
                 continue
             chain = chain + ((wrapper, style),)
             tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            if collect and _focusable(el, tag) and not style.disabled:
+                self.interactive.append(wrapper)
             self._texts(wrapper, el, tag, style, chain, key_id)
             children = wrapper.etree_children
             if not children:
@@ -140,10 +158,53 @@ class PageWalker:
             items = []
             for i, child in enumerate(wrapper.iter_children()):
                 cid = intern(self._key(child.etree_element, key_id, prev_id, following[i]))
+                if collect:
+                    meta[child.etree_element] = (prev_id, following[i])
                 prev_id = cid
                 items.append((child, style, cid, False, chain))
             stack.extend(reversed(items))
-        return self.samples
+
+    def _state(self, target, state, on_self, on_path, rest):
+        """Samples of ``target``'s subtree with a dynamic pseudo-class in force."""
+        path = []
+        w = target
+        while w is not None:
+            path.append(w)
+            w = w.parent
+        path.reverse()
+        marked = []
+        for w in path:
+            el = w.etree_element
+            for name in (on_self if w is target else on_path):
+                attr = STATE_ATTR + name
+                if el.get(attr) is None:
+                    el.set(attr, "")
+                    marked.append((el, attr))
+        try:
+            parent_style, parent_id, chain = ROOT_PARENT, 0, ()
+            for k, w in enumerate(path):
+                el = w.etree_element
+                prev_id, following = self.meta.get(el, (0, 0))
+                kid = self.cache.intern(self._key(el, parent_id, prev_id, following))
+                style = self.style_for(w, parent_style, kid, k == 0)
+                if style.display == "none" or style.opacity <= 0:
+                    return
+                if w is target:
+                    break
+                chain = chain + ((w, style),)
+                parent_style, parent_id = style, kid
+            before = len(self.samples)
+            self.state = state
+            self._walk([(target, parent_style, kid, False, chain)])
+            new = self.samples[before:]
+            del self.samples[before:]
+            for sample in new:
+                sample.state = state
+                if rest.get((sample.xpath, sample.kind)) != (sample.fg, sample.bg):
+                    self.samples.append(sample)
+        finally:
+            for el, attr in marked:
+                del el.attrib[attr]
 
     def _skip(self, reason, el):
         if el.tag in ("head", "script", "style", "template", "title", "noscript"):
@@ -208,7 +269,7 @@ class PageWalker:
         xpath, fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, layers, bg_cause, \
             surround = core
         self.samples.append(Sample(
-            page=self.page, scheme=self.scheme, state=REST, xpath=xpath,
+            page=self.page, scheme=self.scheme, state=self.state, xpath=xpath,
             line=el.sourceline or 0, text=" ".join(text.split())[:60], kind=kind, fg=fg, bg=bg,
             fg_raw=fg_raw, font_size_px=round(style.font_size, 4), font_weight=style.font_weight,
             status=status, reason=reason, bg_alternatives=alts, exempt=exempt,
@@ -324,6 +385,16 @@ def _inherited_from(chain):
             el = wrapper.etree_element
             return el.getroottree().getpath(el)
     return None
+
+
+def _focusable(el, tag) -> bool:
+    if tag == "a":
+        return el.get("href") is not None
+    if tag in ("button", "select", "textarea", "summary"):
+        return True
+    if tag == "input":
+        return (el.get("type") or "").lower() != "hidden"
+    return el.get("tabindex") is not None
 
 
 def _disabled(el) -> bool:

@@ -44,9 +44,11 @@ class Decl:
     important: bool
     line: int
     text: str  # serialized value, stripped
+    column: int = 0
 
     def provenance(self, sheet: str, selector: str, origin: str) -> Declaration:
-        return Declaration(self.name, self.text, sheet, self.line, selector, origin, self.important)
+        return Declaration(self.name, self.text, sheet, self.line, selector, origin,
+                           self.important, self.column)
 
 
 @dataclass
@@ -90,7 +92,7 @@ def parse_declarations(content, *, relevant_only: bool = True) -> list:
             continue
         value = [t for t in item.value if t.type != "comment"]
         text = tinycss2.serialize(value).strip()
-        out.append(Decl(name, value, item.important, item.source_line, text))
+        out.append(Decl(name, value, item.important, item.source_line, text, item.source_column))
     return out
 
 

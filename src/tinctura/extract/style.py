@@ -39,7 +39,8 @@ class Winner:
             return Declaration(name or self.decl.name, self.decl.text, "style attribute",
                                self.decl.line, "", "inline", self.decl.important)
         return Declaration(name or self.decl.name, self.decl.text, self.rule.sheet, self.decl.line,
-                           self.rule.selector_text, self.origin, self.decl.important)
+                           self.rule.selector_text, self.origin, self.decl.important,
+                           self.decl.column)
 
 
 class Custom:

@@ -5,12 +5,20 @@ Colours are ``#rrggbb``; ratios are unrounded floats (display code truncates, ne
 from __future__ import annotations
 
 import json
+import os
 
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
 SCHEMA_VERSION = 1
+SCHEMA_PATH = os.path.join(os.path.dirname(os.path.dirname(__file__)), "data", "report-schema.json")
+
+
+def schema() -> dict:
+    """The JSON Schema of the report (shipped as package data)."""
+    with open(SCHEMA_PATH, encoding="utf-8") as fh:
+        return json.load(fh)
 
 
 def declaration_dict(d) -> dict | None:

@@ -151,27 +151,24 @@ def examples(findings) -> list:
 
 
 def cause_fix_lines(fix) -> list:
+    """The fix at the cause: one value for the declaration, or one per group of backgrounds."""
     if fix is None:
         return []
     n = len(fix.backgrounds)
     need = m.required(fix.required)
     d = fix.declaration
-    if d is None:
-        target = "declare a text colour"
-    else:
-        target = f"set `{d.property}` at {d.where()}"
+    on_all = "its background" if n == 1 else f"all {n} backgrounds it is used on"
     if fix.possible:
-        return [
-            f"fix at the cause: {target} to {m.colour(fix.colour)}: "
-            f"{m.ratio(fix.ratio)}:1 or more on "
-            + ("its background" if n == 1 else f"all {n} backgrounds it is used on")
-        ]
-    lines = [f"no single value reaches {need}:1 on all {n} backgrounds it is used on; "
-             f"split it by context ({target.split(' at ')[0]} separately):"]
+        target = "declare a text colour" if d is None else f"set `{d.property}` at {d.where()}"
+        return [f"fix at the cause: {target} to {m.colour(fix.colour)}: "
+                f"{m.ratio(fix.ratio)}:1 or more on {on_all}"]
+    what = "no single text colour" if d is None else f"no single value of `{d.property}`"
+    lines = [f"{what} reaches {need}:1 on {on_all}; one value per group of backgrounds:"]
     for c in fix.contexts:
         on = ", ".join(m.colour(b) for b in c.backgrounds)
         if c.colour is None:
-            lines.append(f"  on {on}: no text colour reaches {need}:1, change the background")
+            lines.append(f"  on {on}: no text colour of this hue reaches {need}:1; "
+                         f"change the background")
         else:
             lines.append(f"  on {on}: {m.colour(c.colour)} ({m.ratio(c.ratio)}:1)")
     return lines

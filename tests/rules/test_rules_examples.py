@@ -1,0 +1,48 @@
+"""Each rule's documented failing and passing examples, run by the test suite.
+
+Without the engine: the colours each example declares, as samples. With the engine: the
+example's HTML itself, so the documentation and the checked page cannot drift apart.
+"""
+import pytest
+
+from tinctura import engine
+from tinctura.colour.convert import to_hex
+from tinctura.rules import RULES, run
+from tinctura.rules.examples import example_sample, rgba
+
+
+@pytest.mark.parametrize("rule", RULES, ids=lambda r: r.code)
+def test_bad_example_fails(rule):
+    findings = run([example_sample(rule.docs.bad)], engine.Options(rules=(rule.code,)))
+    assert [f.rule for f in findings] == [rule.code]
+
+
+@pytest.mark.parametrize("rule", RULES, ids=lambda r: r.code)
+def test_good_example_passes(rule):
+    assert run([example_sample(rule.docs.good)], engine.Options(rules=(rule.code,))) == []
+
+
+def _engine_findings(tmp_path, html, code):
+    page = tmp_path / "example.html"
+    page.write_text(html, encoding="utf-8")
+    report = engine.check_paths([str(page)], engine.Options(states=False, rules=(code,)))
+    return report
+
+
+needs_engine = pytest.mark.skipif(
+    not hasattr(engine, "check_paths"), reason="tinctura.engine.check_paths not there yet"
+)
+
+
+@needs_engine
+@pytest.mark.parametrize("which", ["bad", "good"])
+@pytest.mark.parametrize("rule", RULES, ids=lambda r: r.code)
+def test_example_html_renders_what_the_docs_say(tmp_path, rule, which):
+    example = getattr(rule.docs, which)
+    report = _engine_findings(tmp_path, example.html, rule.code)
+    samples = [s for p in report.pages for s in p.samples]
+    assert samples, "the example page has text"
+    assert {to_hex(s.fg) for s in samples} == {to_hex(rgba(example.fg))}
+    assert {to_hex(s.bg) for s in samples} == {to_hex(rgba(example.bg))}
+    codes = {f.rule for f in report.findings}
+    assert codes == ({rule.code} if which == "bad" else set())
