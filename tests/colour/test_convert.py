@@ -3,9 +3,16 @@ library), which implements the same published definitions independently: IEC 619
 (sRGB), Display P3, Adobe RGB (1998), ROMM/ProPhoto RGB, ITU-R BT.2020, CIE 1976 L*a*b*,
 Ottosson's OKLab, and the Bradford chromatic adaptation.
 
-Tolerance: 2e-6 on XYZ (Y = 1 for white) where both sides use the same published constants;
-OKLab is looser (5e-5): colour-science uses Ottosson's XYZ -> LMS matrix as published (10
-digits), we derive it from his linear-sRGB matrix as CSS Color 4 does.
+Like CSS Color 4, we derive every RGB -> XYZ matrix from the primaries and white point, so
+the references are built the same way with colour-science's ``normalised_primary_matrix``
+and each space's own transfer function (its ``RGB_COLOURSPACES`` entry). colour-science's
+stored sRGB matrix is the 4-decimal one printed in IEC 61966-2-1 (differences ~1e-4) and its
+default BT.2020 curve uses the rounded 10-bit constants (alpha = 1.099), so the references
+use the derived matrix and its ``CONSTANTS_BT2020_PRECISE`` (the constants CSS Color 4 uses).
+
+Tolerance: 2e-6 on XYZ (Y = 1 for white). OKLab is compared at 2e-4: colour-science uses
+Ottosson's published XYZ -> LMS matrix, which puts D65 white at b = -1.1e-4; we derive that
+matrix from his linear-sRGB -> LMS matrix, as CSS Color 4 does, so white stays neutral.
 """
 import math
 
@@ -49,6 +56,20 @@ def test_white_points_match_colour_science(cs):
     np.testing.assert_allclose(convert.D50, cs.xy_to_XYZ(_d50(cs)), atol=1e-12)
 
 
+def _reference_xyz(cs, name, rgb, decode=True):
+    space = cs.RGB_COLOURSPACES[name]
+    npm = cs.normalised_primary_matrix(space.primaries, space.whitepoint)
+    if not decode:
+        linear = np.asarray(rgb, dtype=float)
+    elif name == "ITU-R BT.2020":
+        from colour.models.rgb.transfer_functions.itur_bt_2020 import CONSTANTS_BT2020_PRECISE
+
+        linear = cs.models.oetf_inverse_BT2020(rgb, constants=CONSTANTS_BT2020_PRECISE)
+    else:
+        linear = space.cctf_decoding(np.asarray(rgb, dtype=float))
+    return npm @ linear
+
+
 @pytest.mark.parametrize(
     "space, name",
     [
@@ -60,27 +81,41 @@ def test_white_points_match_colour_science(cs):
 )
 @pytest.mark.parametrize("rgb", SAMPLES_RGB)
 def test_d65_rgb_spaces_to_xyz(cs, space, name, rgb):
-    expected = cs.RGB_to_XYZ(rgb, cs.RGB_COLOURSPACES[name], apply_cctf_decoding=True)
+    expected = _reference_xyz(cs, name, rgb)
     np.testing.assert_allclose(convert.to_xyz_d65(space, rgb), expected, atol=XYZ_TOL)
-    # and back
     np.testing.assert_allclose(convert.from_xyz_d65(space, expected), rgb, atol=1e-5)
 
 
 @pytest.mark.parametrize("rgb", SAMPLES_RGB)
 def test_srgb_linear_and_prophoto(cs, rgb):
     # srgb-linear: the sRGB matrix without the transfer function.
-    expected = cs.RGB_to_XYZ(rgb, cs.RGB_COLOURSPACES["sRGB"], apply_cctf_decoding=False)
+    expected = _reference_xyz(cs, "sRGB", rgb, decode=False)
     np.testing.assert_allclose(convert.to_xyz_d65("srgb-linear", rgb), expected, atol=XYZ_TOL)
-    # prophoto-rgb is defined for D50: adapt with Bradford as CSS Color 4 does.
-    xyz50 = cs.RGB_to_XYZ(rgb, cs.RGB_COLOURSPACES["ProPhoto RGB"], apply_cctf_decoding=True)
+    # prophoto-rgb is defined for D50: adapt with Bradford as CSS Color 4 does. colour-science
+    # rounds the ROMM primaries to 4 decimals (0.7347, 0.2653...) where CSS Color 4 uses 6
+    # (0.734699, 0.265301...): 1e-5 absorbs that.
+    xyz50 = _reference_xyz(cs, "ProPhoto RGB", rgb)
     np.testing.assert_allclose(
-        convert.to_xyz_d65("prophoto-rgb", rgb), _adapt_d50_to_d65(cs, xyz50), atol=XYZ_TOL
+        convert.to_xyz_d65("prophoto-rgb", rgb), _adapt_d50_to_d65(cs, xyz50), atol=1e-5
     )
 
 
-def test_srgb_to_xyz_via_colour_science_helper(cs):
+def test_srgb_against_the_iec_matrix(cs):
+    # colour-science's sRGB_to_XYZ uses the 4-decimal IEC 61966-2-1 matrix: agreement to 2e-4.
     for rgb in SAMPLES_RGB:
-        np.testing.assert_allclose(convert.to_xyz_d65("srgb", rgb), cs.sRGB_to_XYZ(rgb), atol=XYZ_TOL)
+        np.testing.assert_allclose(convert.to_xyz_d65("srgb", rgb), cs.sRGB_to_XYZ(rgb), atol=2e-4)
+
+
+def test_derived_matrices_match_colour_science(cs):
+    for space, name in (("srgb", "sRGB"), ("display-p3", "Display P3"), ("a98-rgb", "Adobe RGB (1998)"), ("rec2020", "ITU-R BT.2020")):
+        ref = cs.RGB_COLOURSPACES[name]
+        npm = cs.normalised_primary_matrix(ref.primaries, ref.whitepoint)
+        np.testing.assert_allclose(convert._RGB_MATRICES[space][0], npm, atol=1e-12)
+    # Bradford D50 -> D65 against colour-science's chromatic adaptation matrix.
+    m = cs.adaptation.matrix_chromatic_adaptation_VonKries(
+        cs.xy_to_XYZ(_d50(cs)), cs.xy_to_XYZ(_d65(cs)), transform="Bradford"
+    )
+    np.testing.assert_allclose(convert.D50_TO_D65, m, atol=1e-12)
 
 
 LABS = [(0.0, 0.0, 0.0), (100.0, 0.0, 0.0), (50.0, 20.0, 30.0), (70.0, -40.0, 10.0), (5.0, 30.0, -60.0)]
@@ -102,12 +137,12 @@ OKLABS = [(0.0, 0.0, 0.0), (1.0, 0.0, 0.0), (0.6, 0.1, -0.05), (0.45, -0.12, 0.0
 
 @pytest.mark.parametrize("oklab", OKLABS)
 def test_oklab_and_oklch(cs, oklab):
-    expected = cs.Oklab_to_XYZ(oklab)
-    np.testing.assert_allclose(convert.to_xyz_d65("oklab", oklab), expected, atol=5e-5)
-    oklch = cs.models.Oklab_to_Oklch(oklab) if hasattr(cs.models, "Oklab_to_Oklch") else None
-    if oklch is not None:
-        # colour-science returns hue in degrees for the 'reference' domain-range scale
-        np.testing.assert_allclose(convert.to_xyz_d65("oklch", oklch), expected, atol=5e-5)
+    # XYZ differs by up to 8e-4 (Z of white) for the reason given in the module docstring;
+    # compare in OKLab instead, where the matrices' disagreement is ~1e-4.
+    xyz = convert.to_xyz_d65("oklab", oklab)
+    np.testing.assert_allclose(cs.XYZ_to_Oklab(xyz), oklab, atol=2e-4)
+    lch = cs.models.Lab_to_LCHab(oklab)  # the same polar form, hue in degrees
+    np.testing.assert_allclose(convert.to_xyz_d65("oklch", lch), xyz, atol=1e-12)
     back = convert.from_xyz_d65("oklab", convert.to_xyz_d65("oklab", oklab))
     np.testing.assert_allclose(back, oklab, atol=1e-9)
 
@@ -115,10 +150,25 @@ def test_oklab_and_oklch(cs, oklab):
 @pytest.mark.parametrize("rgb", SAMPLES_RGB)
 def test_srgb_to_oklab_shortcut(cs, rgb):
     # the linear-sRGB shortcut and the XYZ route agree with colour-science's XYZ -> Oklab
-    expected = cs.XYZ_to_Oklab(cs.sRGB_to_XYZ(rgb))
-    np.testing.assert_allclose(convert.srgb_to_oklab(rgb), expected, atol=5e-5)
+    expected = cs.XYZ_to_Oklab(_reference_xyz(cs, "sRGB", rgb))
+    np.testing.assert_allclose(convert.srgb_to_oklab(rgb), expected, atol=2e-4)
     np.testing.assert_allclose(convert.from_srgb("oklab", rgb), convert.srgb_to_oklab(rgb), atol=1e-12)
     np.testing.assert_allclose(convert.oklab_to_srgb(convert.srgb_to_oklab(rgb)), rgb, atol=1e-9)
+
+
+@pytest.mark.parametrize(
+    "xyz, oklab",
+    [
+        # Ottosson (2020), "A perceptual color space for image processing", table of test
+        # values, 3 decimals (values from memory; colour-science agrees, see above).
+        ((0.950, 1.000, 1.089), (1.000, 0.000, 0.000)),
+        ((1.000, 0.000, 0.000), (0.450, 1.236, -0.019)),
+        ((0.000, 1.000, 0.000), (0.922, -0.671, 0.263)),
+        ((0.000, 0.000, 1.000), (0.153, -1.415, -0.449)),
+    ],
+)
+def test_oklab_published_test_values(xyz, oklab):
+    np.testing.assert_allclose(convert.xyz_d65_to_oklab(xyz), oklab, atol=1e-3)
 
 
 def test_oklab_white_is_neutral():

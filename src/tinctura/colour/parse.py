@@ -190,6 +190,8 @@ def _colour_function(token, name):
     args = [t for t in token.arguments if t.type not in _SKIP]
     if any(t.type == "literal" and t.value == "," for t in args):
         # Legacy comma syntax: no ``none``; hsl() needs percentages for s and l.
+        if any(_is_none(t) for t in args):
+            return None
         if name in ("hsl", "hsla") and any(t.type == "number" for t in args[2:5:2]):
             return None
         return _from_tinycss2(_tinycss2_parse_color(token))

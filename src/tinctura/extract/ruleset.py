@@ -12,6 +12,10 @@ import re
 from .media import Environment
 
 ATTR_IN_SELECTOR = re.compile(r"\[\s*([\w:-]+)")
+ATTR_TEST = re.compile(r"""\[\s*([\w:-]+)\s*(?:([~|^$*]?=)\s*("[^"\\]*"|'[^'\\]*'|[\w-]+)\s*([is])?\s*)?\]""",
+                       re.I)
+# Attributes whose full value stays in the style-sharing key (selectors name them directly).
+KEEP_VALUES = frozenset({"class", "id", "style", "lang", "dir", "xml:lang"})
 
 
 class RuleSet:
@@ -27,13 +31,37 @@ class RuleSet:
         for order, rule in enumerate(rules):
             rule.order = order
         self.uses_has = any(":has(" in r.selector_text for r in rules)
-        # attribute names whose values selectors test: the style-sharing key keeps their values
-        names = set()
+        # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
+        # answers to those tests (so `href` values that differ per page do not split the cache),
+        # or the whole value when a test could not be read.
+        tests = {}
         for r in rules:
-            names.update(n.lower() for n in ATTR_IN_SELECTOR.findall(r.selector_text))
-        self.attr_value_names = frozenset(names | {"class", "id", "style", "lang", "dir", "type",
-                                                   "xml:lang"})
+            text = r.selector_text
+            found = ATTR_TEST.findall(text)
+            if len(found) != text.count("["):
+                for name in ATTR_IN_SELECTOR.findall(text):
+                    tests[name.lower()] = None
+            for name, op, value, flag in found:
+                name = name.lower()
+                if op and name in tests and tests[name] is None:
+                    continue
+                entry = tests.setdefault(name, [])
+                if op and entry is not None and (op, value.strip("\"'"), flag.lower() == "i") \
+                        not in entry:
+                    entry.append((op, value.strip("\"'"), flag.lower() == "i"))
+        for name in KEEP_VALUES:
+            tests[name] = None
+        self.attr_tests = {k: (tuple(v) if v is not None else None) for k, v in tests.items()}
         self._indexes = {}
+
+    def attr_signature(self, name, value):
+        """What the key keeps of an attribute: its value, test answers, or just presence."""
+        tests = self.attr_tests.get(name, ())
+        if tests is None:
+            return value
+        if not tests:
+            return None
+        return tuple(_attr_test(op, wanted, value, ci) for op, wanted, ci in tests)
 
     def layer_rank(self, layer: tuple) -> int:
         if not layer:
@@ -102,3 +130,21 @@ class Index:
             if test(wrapper):
                 out.append(rule)
         return out
+
+
+def _attr_test(op, wanted, value, ci):
+    if ci:
+        wanted, value = wanted.lower(), value.lower()
+    if op == "=":
+        return value == wanted
+    if op == "~=":
+        return wanted in value.split()
+    if op == "|=":
+        return value == wanted or value.startswith(wanted + "-")
+    if op == "^=":
+        return bool(wanted) and value.startswith(wanted)
+    if op == "$=":
+        return bool(wanted) and value.endswith(wanted)
+    if op == "*=":
+        return bool(wanted) and wanted in value
+    return value

@@ -64,14 +64,12 @@ class PageWalker:
         self.skipped = skipped
         self.samples = []
         self.uncached = ruleset.uses_has
-        self.attr_value_names = ruleset.attr_value_names
         self._serial = 0
 
     # -- keys ------------------------------------------------------------------------------
     def _attrs(self, el):
-        names = self.attr_value_names
-        return tuple(sorted((k, v if k in names or k.startswith(STATE_ATTR) else None)
-                            for k, v in el.attrib.items()))
+        sig = self.ruleset.attr_signature
+        return tuple(sorted((k, sig(k, v)) for k, v in el.attrib.items()))
 
     def _key(self, el, parent_id, prev_id, following):
         if self.uncached:

@@ -157,7 +157,8 @@ def cause_fix_lines(fix) -> list:
     n = len(fix.backgrounds)
     need = m.required(fix.required)
     d = fix.declaration
-    on_all = "its background" if n == 1 else f"all {n} backgrounds it is used on"
+    on_all = {1: "its background", 2: "both backgrounds it is used on"}.get(
+        n, f"all {n} backgrounds it is used on")
     if fix.possible:
         target = "declare a text colour" if d is None else f"set `{d.property}` at {d.where()}"
         return [f"fix at the cause: {target} to {m.colour(fix.colour)}: "

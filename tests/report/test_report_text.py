@@ -1,0 +1,179 @@
+"""The terminal report: layout (glob patterns, pytest's habit), numbers, colour decisions."""
+import io
+
+import pytest
+
+from tinctura.engine import Options
+from tinctura.model import Cause, Declaration, Diagnostic, PageResult, UNDETERMINED
+from tinctura.problems import group
+from tinctura.report import DISCLAIMER, Header, render
+from tinctura.report import messages as m
+from tinctura.report.terminal import TerminalWriter, should_colour
+from tinctura.rules import run
+from tinctura.rules.examples import make_sample
+
+
+def decl(prop, value, line, selector):
+    return Declaration(prop, value, "assets/site.css", line, selector, "author")
+
+
+MUTED = Cause(decl("color", "var(--muted)", 40, ".note"),
+              chain=(decl("--muted", "#777777", 3, ":root"),))
+PAPER = Cause(decl("background-color", "#ffffff", 10, "body"))
+
+
+def pages_of(samples, skipped=None):
+    names = sorted({s.page for s in samples})
+    return [PageResult(n, [s for s in samples if s.page == n], dict(skipped or {})) for n in names]
+
+
+def report(samples, group_by="cause", level="AA", schemes=("light",), diagnostics=(),
+           skipped=None, extra_pages=()):
+    findings = run(samples, Options(level=level))
+    problems = group(findings, samples)
+    pages = pages_of(samples, skipped) + [PageResult(p) for p in extra_pages]
+    out = io.StringIO()
+    summary = render(out, "text", Header(level=level, group=group_by, schemes=list(schemes)),
+                     pages, findings, problems, list(diagnostics), colour_choice="never")
+    return out.getvalue(), summary
+
+
+def site_samples():
+    out = []
+    for i in range(5):
+        out.append(make_sample("#777777", "#ffffff", fg_cause=MUTED, bg_cause=PAPER,
+                               page=f"guide/p{i % 2}.html", line=10 + i,
+                               xpath=f"/html/body/main/p[{i + 1}]",
+                               text=f"Sow the marsh marigold seeds in autumn, tray {i}"))
+    out.append(make_sample("#222222", "#ffffff", page="guide/p0.html", line=3, xpath="/html/body/h1",
+                           text="Seed library"))
+    out.append(make_sample("#cccccc", "#ffffff", page="guide/p1.html", status=UNDETERMINED,
+                           reason="background image"))
+    return out
+
+
+def test_problems_lead_largest_first():
+    text, _ = report(site_samples())
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "1 problem (5 occurrences on 2 pages), largest first",
+        "1. 5 occurrences on 2 pages: --muted `#777777` at assets/site.css:3 on "
+        "background-color `#ffffff` at assets/site.css:10, 4.47:1, needs 4.5:1",
+        "*error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required for normal text*",
+        "*text colour: `color: var(--muted)` at assets/site.css:40 (.note), via `--muted: #777777` at assets/site.css:3",
+        "*background:  `background-color: #ffffff` at assets/site.css:10 (body)",
+        "*fix at the cause: set `--muted` at assets/site.css:3 to #767676: 4.54:1 or more on its background",
+        "*e.g. guide/p0.html:10 *main > p:nth-of-type(1)*\"Sow the marsh marigold seeds in autumn,\u2026\"*#777777 on #ffffff, 4.47:1",
+        "*guide/p1.html:11*",
+        "*guide/p0.html:12*",
+        "*and 2 more occurrences",
+        "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 problem; 1 undetermined.",
+    ])
+
+
+def test_ratios_are_truncated_never_rounded_up():
+    # #777777 on white is 4.478:1 by the WCAG 2.2 formula: shown as 4.47, not 4.48.
+    assert m.ratio(4.478089453577214) == "4.47"
+    assert m.ratio(4.4999) == "4.49"
+    assert m.ratio(21.0) == "21.00"
+    assert m.required(4.5) == "4.5" and m.required(3.0) == "3" and m.required(7.0) == "7"
+
+
+def test_group_by_page():
+    text, _ = report(site_samples(), group_by="page")
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "guide/p0.html (3 findings)",
+        "  10: /html/body/main/p[1]  \"Sow the marsh marigold seeds in autumn,\u2026\"",
+        "      error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required *",
+        "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1) or background *",
+        "guide/p1.html (2 findings)",
+        "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 undetermined.",
+    ])
+    assert "problem" not in text.split("Checked")[1]
+
+
+def test_summary_counts_skipped_exempt_and_diagnostics():
+    samples = site_samples() + [make_sample("#eeeeee", "#ffffff", exempt="disabled control")]
+    diag = Diagnostic("assets/remote.css", "remote stylesheet not loaded", line=0)
+    text, summary = report(samples, skipped={"hidden": 4}, diagnostics=[diag], extra_pages=["empty.html"])
+    assert summary.pages == 4 and summary.samples == 8 and summary.exempt == 1
+    assert summary.undetermined == 1 and summary.undetermined_reasons == {"background image": 1}
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "Not everything could be checked:",
+        "  assets/remote.css: warning: remote stylesheet not loaded",
+        "Checked 4 pages *; 1 undetermined; 1 exempt; 12 skipped (hidden 12); 1 diagnostic.",
+    ])
+
+
+def test_schemes_are_named_only_when_there_are_several():
+    one, _ = report(site_samples())
+    assert "scheme" not in one
+    samples = site_samples() + [make_sample("#777777", "#000000", scheme="dark", fg_cause=MUTED,
+                                            bg_cause=PAPER, page="guide/p0.html")]
+    two, _ = report(samples, schemes=("light", "dark"))
+    pytest.LineMatcher(two.splitlines()).fnmatch_lines([
+        "1. 5 occurrences on 2 pages [[]scheme light]: *",
+        "*[[]scheme light]",
+        "*in 2 schemes (light, dark)*",
+    ])
+
+
+def test_clean_run():
+    text, summary = report([make_sample("#000000", "#ffffff")])
+    assert summary.findings == 0
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "No contrast findings.",
+        "Checked 1 page at level AA, 1 text sample; 0 errors, 0 warnings, 0 info; 0 problems; 0 undetermined.",
+    ])
+
+
+def test_disclaimer_once_and_says_what_it_must():
+    text, _ = report(site_samples())
+    flat = " ".join(text.split())
+    assert flat.count(" ".join(DISCLAIMER.split())) == 1
+    for needed in ("WCAG", "qualified people", "ISO 3864", "ANSI Z535", "local regulations"):
+        assert needed in DISCLAIMER
+
+
+def test_no_escape_codes_without_colour():
+    text, _ = report(site_samples())
+    assert "\x1b[" not in text
+
+
+class FakeTty(io.StringIO):
+    def isatty(self):
+        return True
+
+
+@pytest.mark.parametrize("env, tty, expected", [
+    ({}, False, False),
+    ({}, True, True),
+    ({"TERM": "dumb"}, True, False),
+    ({"NO_COLOR": "1"}, True, False),
+    ({"NO_COLOR": ""}, True, True),  # no-color.org: only a non-empty value counts
+    ({"FORCE_COLOR": "1"}, False, True),
+    ({"FORCE_COLOR": "1", "TERM": "dumb"}, False, True),
+    ({"NO_COLOR": "1", "FORCE_COLOR": "1"}, True, False),
+])
+def test_colour_decision(env, tty, expected):
+    stream = FakeTty() if tty else io.StringIO()
+    assert should_colour(stream, env) is expected
+
+
+def test_explicit_choice_wins():
+    assert should_colour(io.StringIO(), {}, "always") is True
+    assert should_colour(FakeTty(), {"FORCE_COLOR": "1"}, "never") is False
+
+
+def test_writer_marks_up_only_when_colouring():
+    out = io.StringIO()
+    tw = TerminalWriter(out, colour=True)
+    tw.line("fail", "red", "bold")
+    assert out.getvalue() == "\x1b[31;1mfail\x1b[0m\n"
+    assert TerminalWriter(io.StringIO(), colour=False).markup("fail", "red") == "fail"
+
+
+def test_css_path_and_excerpt():
+    assert m.css_path("/html/body/main/div[2]/p[3]") == "\u2026 > main > div:nth-of-type(2) > p:nth-of-type(3)"
+    assert m.css_path("/html/body") == "html > body"
+    assert m.excerpt("  a\n  b  ") == "a b"
+    assert m.excerpt("x" * 50, 10) == "x" * 9 + "\u2026"
