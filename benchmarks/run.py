@@ -16,9 +16,10 @@ targets. Absolute times move a lot on a shared machine; the ratios, measured sid
 are what to compare between runs. A failing step prints the tail of its stderr and the run
 goes on. Results also go to benchmarks/out/bench-<time>.json and benchmarks/out/latest.json.
 
-Memory: "peak RSS" is ru_maxrss from wait4() for that one subprocess (with worker processes
-it is the largest single process); "tree" is the peak of the summed PSS of the process and
-all its descendants, sampled every 0.1 s, which is what --jobs N really costs.
+Memory: "peak RSS" is the command's maximum resident set size as GNU time (/usr/bin/time)
+reports it (with worker processes: the largest single process); "tree" is the peak of the
+summed PSS of the command and all its descendants, sampled every 0.1 s, which is what
+--jobs N really costs (PSS counts pages shared after fork() once).
 """
 from __future__ import annotations
 
@@ -112,16 +113,39 @@ class TreeSampler(threading.Thread):
         self.join(timeout=2)
 
 
+GNU_TIME = "/usr/bin/time"
+
+
+def _gnu_time_works() -> bool:
+    try:
+        r = subprocess.run([GNU_TIME, "-f", "%M", "true"], capture_output=True, text=True,
+                           timeout=10)
+        return r.returncode == 0 and r.stderr.strip().isdigit()
+    except (OSError, subprocess.SubprocessError):
+        return False
+
+
+USE_GNU_TIME = os.path.exists(GNU_TIME) and _gnu_time_works()
+
+
 def run_measured(name: str, argv: list[str], cwd: Path, logdir: Path, timeout: float,
                  env: dict) -> dict:
-    """Run argv, wait with wait4() for its own rusage, and never raise on failure."""
+    """Run argv and measure it; never raises on a failing command.
+
+    Peak RSS comes from GNU time's %M where available: Linux carries a process's RSS
+    high-water mark across exec(), and subprocess starts children with vfork(), so the
+    rusage of a direct child would report this (large) benchmark process's own peak.
+    GNU time is small and fork()s the real command, so %M is the command's own peak.
+    """
     logdir.mkdir(parents=True, exist_ok=True)
     out_path, err_path = logdir / f"{name}.stdout", logdir / f"{name}.stderr"
+    time_path = logdir / f"{name}.maxrss"
     result = {"argv": argv, "cwd": str(cwd), "ok": False, "returncode": None}
+    full = ([GNU_TIME, "-f", "%M", "-o", str(time_path)] + argv) if USE_GNU_TIME else argv
     with open(out_path, "wb") as out, open(err_path, "wb") as err:
         t0 = time.perf_counter()
         try:
-            proc = subprocess.Popen(argv, cwd=cwd, stdout=out, stderr=err, env=env,
+            proc = subprocess.Popen(full, cwd=cwd, stdout=out, stderr=err, env=env,
                                     start_new_session=True)
         except OSError as exc:
             result["error"] = str(exc)
@@ -144,11 +168,18 @@ def run_measured(name: str, argv: list[str], cwd: Path, logdir: Path, timeout: f
         timer.cancel()
         sampler.stop()
         proc.returncode = os.waitstatus_to_exitcode(status)  # tell Popen it is reaped
+    peak_kb = None
+    if USE_GNU_TIME:
+        try:  # the last line: time writes "Command exited with non-zero status" first
+            peak_kb = int(time_path.read_text().split()[-1])
+        except (OSError, ValueError, IndexError):
+            peak_kb = None
     result.update(
         returncode=proc.returncode,
         wall_s=wall,
-        cpu_s=usage.ru_utime + usage.ru_stime,
-        peak_rss_mb=usage.ru_maxrss / 1024.0,  # kB on Linux
+        cpu_s=usage.ru_utime + usage.ru_stime,  # includes the reaped workers
+        peak_rss_mb=(peak_kb if peak_kb is not None else usage.ru_maxrss) / 1024.0,
+        peak_rss_source="gnu-time" if peak_kb is not None else "wait4 (may include parent)",
         tree_peak_mb=sampler.peak_kb / 1024.0,
         max_procs=sampler.max_procs,
         timed_out=timed_out.is_set(),

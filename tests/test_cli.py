@@ -1,0 +1,243 @@
+"""The command line: commands, flags, exit statuses, error messages."""
+import io
+import json
+import subprocess
+import sys
+
+import jsonschema
+import pytest
+
+from tinctura import cli, engine
+from tinctura.model import PageResult, Scheme
+from tinctura.report.json_report import schema
+from tinctura.rules import RULES
+from tinctura.rules.examples import make_sample
+
+
+def call(*argv):
+    out, err = io.StringIO(), io.StringIO()
+    status = cli.main(list(argv), stdout=out, stderr=err)
+    return status, out.getvalue(), err.getvalue()
+
+
+@pytest.fixture
+def fake_engine(monkeypatch, tmp_path):
+    """engine.check_paths replaced by a hand-built run; records the Options it was given."""
+    calls = []
+    samples = {"bad": [make_sample("#777", "white", page="a.html", text="Seed swap on Saturday")],
+               "good": [make_sample("#222", "white", page="a.html")]}
+    state = {"which": "bad"}
+
+    def check_paths(paths, options):
+        calls.append((paths, options))
+        page = PageResult("a.html", samples[state["which"]])
+        report = engine.Report(pages=[page], schemes=[Scheme("light")])
+        report.findings = engine.evaluate(page.samples, options)
+        return report
+
+    monkeypatch.setattr(engine, "check_paths", check_paths)
+    site = tmp_path / "site"
+    site.mkdir()
+    return calls, state, str(site)
+
+
+# -- pair ----------------------------------------------------------------------------------
+
+
+def test_pair_777_on_white():
+    # WCAG 2.2 formula: #777777 on #ffffff = 4.478:1 -> shown 4.47, fails AA body text.
+    status, out, err = call("pair", "#777", "white")
+    assert status == 0 and err == ""
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "#777777 on #ffffff: 4.47:1",
+        "16 px at weight 400: normal text",
+        "  AA  (SC 1.4.3) needs 4.5:1: fail",
+        "*nearest passing: text #767676 (4.54:1)*",
+        "  AAA (SC 1.4.6) needs 7:1: fail",
+    ])
+
+
+def test_pair_large_text_passes_aa():
+    # #949494 on white = 3.03:1 (WCAG formula): large text (24 px) meets AA's 3:1.
+    status, out, _ = call("pair", "#949494", "#fff", "--size", "24")
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "*: 3.03:1", "*large text", "  AA  (SC 1.4.3) needs 3:1: pass", "  AAA (SC 1.4.6) needs 4.5:1: fail"])
+
+
+def test_pair_bold_threshold():
+    _, out, _ = call("pair", "#949494", "#fff", "--size", "18.67", "--weight", "bold")
+    assert "large text" in out
+
+
+def test_pair_translucent_colours_are_explained():
+    _, out, _ = call("pair", "rgb(0 0 0 / 50%)", "rgba(255, 255, 255, 0.5)")
+    assert "composited over white" in out
+    assert "composited over the background" in out
+    # 50 % black over white (source-over in sRGB, CSS Compositing 1) = #808080.
+    assert out.startswith("#808080 on #ffffff: ")
+
+
+@pytest.mark.parametrize("argv, needle", [
+    (("pair", "bogus", "white"), "'bogus' is not a CSS colour"),
+    (("pair", "#777", "currentcolor"), "currentcolor"),
+])
+def test_pair_bad_colour(argv, needle):
+    status, out, err = call(*argv)
+    assert status == 2 and out == ""
+    assert needle in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("argv", [
+    ("pair", "#777", "white", "--size", "0"),
+    ("pair", "#777", "white", "--weight", "heavy"),
+    ("check",),
+    ("check", ".", "--level", "A"),
+    ("check", ".", "--fail-on", "sometimes"),
+    ("frobnicate",),
+    (),
+])
+def test_usage_errors_exit_2(argv):
+    status, _, err = call(*argv)
+    assert status == 2 and "usage:" in err and "Traceback" not in err
+
+
+# -- rules ---------------------------------------------------------------------------------
+
+
+def test_rules_lists_every_rule_with_docs():
+    status, out, _ = call("rules")
+    assert status == 0
+    for rule in RULES:
+        assert f"{rule.code} {rule.slug}: {rule.title}" in out
+    for heading in ("What it checks", "Why", "Failing example", "Passing example", "How to fix", "References"):
+        assert heading in out
+
+
+def test_rules_one_and_unknown():
+    status, out, _ = call("rules", "text-ratio")
+    assert status == 0 and out.startswith("TC100 text-ratio")
+    status, _, err = call("rules", "TC999")
+    assert status == 2 and "unknown rule 'TC999'" in err
+
+
+# -- check ---------------------------------------------------------------------------------
+
+
+def test_check_passes_the_options_on(fake_engine):
+    calls, _, site = fake_engine
+    call("check", site, "--level", "aaa", "--viewport-width", "390", "--jobs", "2",
+         "--no-states", "--exclude", "drafts/*", "--exclude", "old/*")
+    (paths, options), = calls
+    assert paths == [site]
+    assert (options.level, options.viewport_width, options.jobs, options.states, options.exclude) == (
+        "AAA", 390, 2, False, ("drafts/*", "old/*"))
+
+
+@pytest.mark.parametrize("which, fail_on, status", [
+    ("bad", "error", 1), ("bad", "warning", 1), ("bad", "info", 1), ("bad", "never", 0),
+    ("good", "error", 0),
+])
+def test_check_exit_status(fake_engine, which, fail_on, status):
+    _, state, site = fake_engine
+    state["which"] = which
+    assert call("check", site, "--fail-on", fail_on)[0] == status
+
+
+def test_check_text_report(fake_engine):
+    _, _, site = fake_engine
+    status, out, err = call("check", site)
+    assert status == 1 and err == ""
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "1 problem (1 occurrence on 1 page), largest first",
+        "1. 1 occurrence on 1 page: color #777777 (not declared) on background #ffffff (not declared), 4.47:1, needs 4.5:1",
+        "*e.g. a.html:1*\"Seed swap on Saturday\"*",
+        "Checked 1 page at level AA, 1 text sample; 1 error, 0 warnings, 0 info; 1 problem; 0 undetermined.",
+        "*ISO 3864*",
+    ])
+    assert "\x1b[" not in out  # not a terminal: no colour
+
+
+def test_check_forced_colour(fake_engine, monkeypatch):
+    _, _, site = fake_engine
+    monkeypatch.setenv("FORCE_COLOR", "1")
+    monkeypatch.delenv("NO_COLOR", raising=False)
+    assert "\x1b[" in call("check", site)[1]
+    assert "\x1b[" not in call("check", site, "--color", "never")[1]
+
+
+def test_check_json_to_file(fake_engine, tmp_path):
+    _, _, site = fake_engine
+    target = tmp_path / "report.json"
+    status, out, _ = call("check", site, "--format", "json", "--output", str(target))
+    assert status == 1 and out == ""
+    doc = json.loads(target.read_text(encoding="utf-8"))
+    jsonschema.Draft202012Validator(schema()).validate(doc)
+    assert doc["summary"]["findings"] == 1 and doc["schemes"] == ["light"]
+
+
+def test_check_group_by_page(fake_engine):
+    _, _, site = fake_engine
+    _, out, _ = call("check", site, "--group", "page")
+    assert out.startswith("a.html (1 finding)")
+
+
+def test_check_missing_path(tmp_path):
+    missing = tmp_path / "nowhere"
+    status, out, err = call("check", str(missing))
+    assert status == 2 and out == ""
+    assert err == f"tinctura: error: {missing}: no such file or directory\n"
+
+
+def test_check_not_html(tmp_path):
+    other = tmp_path / "notes.txt"
+    other.write_text("x")
+    status, _, err = call("check", str(other))
+    assert status == 2 and "not an HTML file" in err
+
+
+def test_check_unwritable_output(fake_engine, tmp_path):
+    _, _, site = fake_engine
+    status, _, err = call("check", site, "--output", str(tmp_path / "no" / "such" / "dir.json"))
+    assert status == 2 and "cannot write" in err and "Traceback" not in err
+
+
+def test_internal_error_exits_2_with_traceback(fake_engine, monkeypatch):
+    _, _, site = fake_engine
+
+    def broken(paths, options):
+        raise RuntimeError("boom")
+
+    monkeypatch.setattr(engine, "check_paths", broken)
+    status, _, err = call("check", site)
+    assert status == 2 and "internal error" in err and "RuntimeError: boom" in err
+
+
+# -- pairs ---------------------------------------------------------------------------------
+
+
+def test_pairs_prints_json_lines(fake_engine):
+    _, _, site = fake_engine
+    status, out, _ = call("pairs", site)
+    assert status == 0
+    (line,) = [json.loads(x) for x in out.splitlines()]
+    assert (line["page"], line["fg"], line["bg"], line["status"]) == ("a.html", "#777777", "#ffffff", "determined")
+
+
+# -- the real engine, end to end ------------------------------------------------------------
+
+
+def test_check_real_pages(tmp_path):
+    rule = RULES[0]
+    (tmp_path / "bad.html").write_text(rule.docs.bad.html, encoding="utf-8")
+    (tmp_path / "good.html").write_text(rule.docs.good.html, encoding="utf-8")
+    status, out, _ = call("check", str(tmp_path), "--no-states", "--format", "json")
+    doc = json.loads(out)
+    assert status == 1
+    assert [(f["page"], f["rule"]) for f in doc["findings"]] == [("bad.html", rule.code)]
+    assert call("check", str(tmp_path / "good.html"), "--no-states")[0] == 0
+
+
+def test_python_dash_m(tmp_path):
+    done = subprocess.run([sys.executable, "-m", "tinctura", "pair", "#777", "white"],
+                          capture_output=True, text=True, timeout=60)
+    assert done.returncode == 0 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
