@@ -15,10 +15,10 @@ from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 
 from tinctura import engine, problems
 from tinctura.report import messages as m
+from tinctura.report.base import Header
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
-from tinctura.report.base import Header
 from tinctura.report.text_report import cause_fix_lines, headline, summary_line
 
 from .config import TincturaConfig
@@ -75,6 +75,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.options = options
         self.sheets_checked = False
 
+    @event_priority(-100)  # after plugins that add pages in on_files
     def on_files(self, files, *, config):
         self.current = {
             f.dest_uri: f.src_uri for f in files.documentation_pages()
@@ -113,9 +114,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
 
     @event_priority(-100)  # last: see the HTML after every other plugin changed it
     def on_post_page(self, output: str, *, page, config):
-        rel = page.file.dest_uri
-        if rel not in self.current:  # excluded (or not a documentation page)
+        if self.excluded(page.file.src_uri):
             return output
+        rel = page.file.dest_uri
+        self.current.setdefault(rel, page.file.src_uri)  # pages added after on_files
         key = digest(output)
         self.get_site()  # the first call of a build decides which records are stale
         record = self.records.get(rel)

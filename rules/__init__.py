@@ -14,8 +14,6 @@ CHECKS = {
     "TC100": text.check_text_ratio,
 }
 
-SEVERITIES = ("error", "warning", "info")  # most severe first
-
 
 def get(name: str) -> Rule:
     """The rule with this code or slug (case-insensitive); KeyError if there is none."""

@@ -195,6 +195,12 @@ def test_check_not_html(tmp_path):
     assert status == 2 and "not an HTML file" in err
 
 
+def test_check_site_without_pages(tmp_path):
+    # The real engine reports a directory without HTML pages as an input error.
+    status, _, err = call("check", str(tmp_path))
+    assert status == 2 and f"tinctura: error: {tmp_path}: " in err and "Traceback" not in err
+
+
 def test_check_unwritable_output(fake_engine, tmp_path):
     _, _, site = fake_engine
     status, _, err = call("check", site, "--output", str(tmp_path / "no" / "such" / "dir.json"))

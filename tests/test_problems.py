@@ -145,3 +145,23 @@ def test_required_is_the_strictest_of_the_problem():
                sample("#aaaaaa", "#ffffff", INK, PAPER, size_px=32)]
     (problem,) = group(findings_for(samples))
     assert problem.required == 4.5
+
+
+def test_fix_target_skips_pure_aliases_and_stops_at_the_colour_expression():
+    # Shaped like a theme that builds its background from a hue variable.
+    hue = decl("--hue", "225deg", 1)
+    surface = decl("--surface", "hsla(var(--hue), 15%, 14%, 1)", 2)
+    alias = decl("--page-bg", "var(--surface)", 3)
+    cause = Cause(decl("background-color", "var(--page-bg)", 9), chain=(alias, surface, hue))
+    assert target_declaration(cause) == surface
+    direct = Cause(decl("color", "hsl(var(--hue) 40% 30%)", 5), chain=(hue,))
+    assert target_declaration(direct).property == "color"
+    fallback = Cause(decl("color", "var(--ink, #333)", 6))
+    assert target_declaration(fallback).property == "color"
+
+
+def test_contexts_name_their_schemes():
+    samples = [sample("#8a8a8a", "#fafafa", INK, CARD, scheme="light"),
+               sample("#8a8a8a", "#222222", INK, NIGHT, scheme="dark")]
+    (problem,) = group(findings_for(samples), samples)
+    assert [c.schemes for c in problem.fix_at_cause.contexts] == [("dark",), ("light",)]

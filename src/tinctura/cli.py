@@ -163,6 +163,22 @@ def output(path: str | None, stdout):
         yield stream
 
 
+def diagnostics_of(result) -> list:
+    return list(result.diagnostics) + [d for page in result.pages for d in page.diagnostics]
+
+
+def where(d) -> str:
+    return f"{d.path}:{d.line}" if d.line else d.path
+
+
+def input_errors(result, stderr) -> bool:
+    """Name on stderr each input that could not be checked at all; True if there was one."""
+    errors = [d for d in diagnostics_of(result) if d.severity == "error"]
+    for d in errors:
+        stderr.write(f"{PROG}: error: {where(d)}: {d.message}\n")
+    return bool(errors)
+
+
 def all_samples(pages) -> list:
     return [s for page in pages for s in page.samples]
 
@@ -181,7 +197,8 @@ def run_check(args, stdout, stderr) -> int:
     with output(args.output, stdout) as stream:
         report.render(stream, args.format, header, result.pages, result.findings, found,
                       result.diagnostics, colour_choice=args.colour)
-    return exit_status(result.findings, args.fail_on)
+    unreadable = input_errors(result, stderr)
+    return exit_status(result.findings, args.fail_on, error=unreadable)
 
 
 def run_pairs(args, stdout, stderr) -> int:
@@ -192,10 +209,10 @@ def run_pairs(args, stdout, stderr) -> int:
     with output(args.output, stdout) as stream:
         for sample in all_samples(result.pages):
             stream.write(json.dumps(sample_dict(sample), ensure_ascii=False) + "\n")
-    for d in result.diagnostics + [d for p in result.pages for d in p.diagnostics]:
-        at = f"{d.path}:{d.line}" if d.line else d.path
-        stderr.write(f"{PROG}: {d.severity}: {at}: {d.message}\n")
-    return exit_status()
+    for d in diagnostics_of(result):
+        if d.severity != "error":
+            stderr.write(f"{PROG}: {d.severity}: {where(d)}: {d.message}\n")
+    return exit_status(error=input_errors(result, stderr))
 
 
 def parse_pair_colour(text: str, what: str):

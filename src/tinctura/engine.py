@@ -13,6 +13,19 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+import fnmatch
+import os
+import re
+
+from .colour import wcag
+from .colour.composite import over
+from .extract import schemes as scheme_mod
+from .extract.html import parse_html
+from .extract.loader import SheetLoader
+from .extract.media import Environment
+from .extract.samples import PageWalker, StyleCache
+from .model import UNDETERMINED, Diagnostic, PageResult
+
 
 @dataclass
 class Options:
@@ -33,19 +46,7 @@ class Report:
     schemes: list = field(default_factory=list)  # list[model.Scheme] evaluated
 
 
-# --------------------------------------------------------------------------------------------
-import fnmatch
-import os
-import re as _re
-
-from .extract import schemes as scheme_mod
-from .extract.html import parse_html
-from .extract.loader import SheetLoader
-from .extract.media import Environment
-from .extract.samples import PageWalker, StyleCache
-from .model import Diagnostic, PageResult
-
-_REFRESH = _re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", _re.I)
+_REFRESH = re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", re.I)
 
 
 class Site:
@@ -99,6 +100,7 @@ class Site:
             ruleset, diags = self.loader.ruleset_for(root, path)
             result.diagnostics.extend(diags)
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
+            result.schemes = list(schemes)
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 try:
@@ -131,7 +133,25 @@ def _is_redirect(data: bytes) -> bool:
 def evaluate(samples, options: Options) -> list:
     from . import rules
 
+    judge_gradients(samples, options.level)
     return rules.run(samples, options)
+
+
+def judge_gradients(samples, level: str) -> None:
+    """Text over a gradient is judged only when every stop agrees; otherwise undetermined."""
+    for s in samples:
+        if not s.bg_alternatives or s.status == UNDETERMINED or s.fg is None:
+            continue
+        required = wcag.required_ratio(level, wcag.is_large_text(s.font_size_px, s.font_weight))
+        ratios = [wcag.contrast_ratio(s.fg, s.bg)]
+        raw = s.fg_raw
+        for bg in s.bg_alternatives:
+            fg = s.fg if raw is None or raw[3] >= 1 else over(raw, tuple(bg) + (1.0,))[:3]
+            ratios.append(wcag.contrast_ratio(fg, bg))
+        if min(ratios) < required <= max(ratios):
+            s.status = UNDETERMINED
+            s.reason = (f"gradient: the stops disagree ({min(ratios):.2f}:1 to "
+                        f"{max(ratios):.2f}:1 against {required:g}:1)")
 
 
 def check_paths(paths, options: Options | None = None) -> Report:
@@ -156,8 +176,12 @@ def check_paths(paths, options: Options | None = None) -> Report:
         else:
             report.diagnostics.append(Diagnostic(path, "no such file or directory",
                                                  severity="error"))
+    seen = {}
     for page in report.pages:
         report.findings.extend(evaluate(page.samples, options))
+        for scheme in page.schemes:
+            seen.setdefault(scheme.name, scheme)
+    report.schemes = list(seen.values())
     return report
 
 

@@ -76,8 +76,8 @@ class Cause:
     def key(self) -> tuple:
         """Identity of the cause for grouping: the declarations, not the elements."""
         d = self.declaration
-        head = (d.sheet, d.line, d.property, d.value) if d else ("initial",)
-        return head + tuple((c.sheet, c.line, c.property) for c in self.chain)
+        head = (d.sheet, d.line, d.column, d.property, d.value) if d else ("initial",)
+        return head + tuple((c.sheet, c.line, c.column, c.property) for c in self.chain)
 
 
 @dataclass(frozen=True)
@@ -152,6 +152,7 @@ class PageResult:
     samples: list = field(default_factory=list)
     skipped: dict = field(default_factory=dict)  # reason -> count
     diagnostics: list = field(default_factory=list)  # list[Diagnostic]
+    schemes: list = field(default_factory=list)  # list[Scheme] evaluated on this page
 
 
 @dataclass(frozen=True)

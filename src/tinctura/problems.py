@@ -5,6 +5,7 @@ declaration fixes them all. Pure: records in, records out.
 """
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field
 from typing import Optional
 
@@ -23,6 +24,7 @@ class Context:
     backgrounds: tuple  # tuple[RGB], darkest first
     colour: Optional[tuple]
     ratio: Optional[float]  # the worst ratio ``colour`` reaches on these backgrounds
+    schemes: tuple = ()  # the colour schemes in which these backgrounds occur
 
 
 @dataclass
@@ -78,13 +80,23 @@ def problem_key(finding: Finding) -> tuple:
     return (finding.rule, s.scheme, cause_key(s.fg_cause), cause_key(s.bg_cause))
 
 
+_ALIAS = re.compile(r"^\s*var\(\s*--[^\s,()]+\s*(,.*)?\)\s*(!\s*important\s*)?$", re.I | re.S)
+
+
 def target_declaration(cause: Optional[Cause]) -> Optional[Declaration]:
-    """The declaration that holds the colour value: the innermost custom property if any."""
+    """The declaration that holds the colour expression, where a new value belongs.
+
+    Walks the custom-property chain (outermost first) past pure aliases such as
+    ``color: var(--ink)``; stops at the first value that is more than a reference, so for
+    ``--bg: hsla(var(--hue), 15%, 14%, 1)`` it is ``--bg``, not the ``--hue`` it uses.
+    """
     if cause is None:
         return None
-    if cause.chain:
-        return cause.chain[-1]
-    return cause.declaration
+    steps = ([cause.declaration] if cause.declaration is not None else []) + list(cause.chain)
+    for step in steps:
+        if not _ALIAS.match(step.value):
+            return step
+    return steps[-1] if steps else None
 
 
 def group(findings, samples=()) -> list:
@@ -120,7 +132,10 @@ def group(findings, samples=()) -> list:
 
 
 def declaration_uses(samples) -> dict:
-    """Declaration -> backgrounds of every judged sample whose text colour it sets."""
+    """Declaration -> {background: schemes} over every judged sample whose text colour it sets.
+
+    Backgrounds are rounded to 8 bits: colours closer than that are one context.
+    """
     uses: dict = {}
     for s in samples:
         if s.status != DETERMINED or s.exempt or s.bg is None:
@@ -128,30 +143,34 @@ def declaration_uses(samples) -> dict:
         declaration = target_declaration(s.fg_cause)
         if declaration is None:
             continue
-        bucket = uses.setdefault(declaration, set())
-        bucket.add(quantize(s.bg))
-        bucket.update(quantize(b) for b in s.bg_alternatives if b is not None)
+        _add_backgrounds(uses.setdefault(declaration, {}), s)
     return uses
+
+
+def _add_backgrounds(bucket: dict, sample) -> None:
+    for bg in (sample.bg,) + tuple(sample.bg_alternatives):
+        if bg is not None:
+            bucket.setdefault(quantize(bg), set()).add(sample.scheme)
 
 
 def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
     declaration = target_declaration(problem.fg_cause)
-    backgrounds = set()
+    backgrounds: dict = {}  # background -> schemes it appears in
     for f in problem.findings:
-        backgrounds.add(quantize(f.sample.bg))
-        backgrounds.update(quantize(b) for b in f.sample.bg_alternatives if b is not None)
+        _add_backgrounds(backgrounds, f.sample)
     if declaration is not None:
-        backgrounds |= uses.get(declaration, set())
+        for bg, schemes in uses.get(declaration, {}).items():
+            backgrounds.setdefault(bg, set()).update(schemes)
     ordered = tuple(sorted(backgrounds, key=wcag.relative_luminance))
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
     found = colour_fix.passing_foreground_for_all(start, list(ordered), problem.required)
     if found is not None:
         return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1])
-    return CauseFix(
-        declaration, problem.required, ordered, None, None,
-        contexts=split_contexts(start, ordered, problem.required),
-    )
+    contexts = split_contexts(start, ordered, problem.required)
+    for context in contexts:
+        context.schemes = tuple(sorted(set().union(*(backgrounds[b] for b in context.backgrounds))))
+    return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts)
 
 
 def split_contexts(start, ordered, required: float) -> tuple:

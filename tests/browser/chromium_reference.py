@@ -91,6 +91,9 @@ def browser(window=WINDOW):
     options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
     driver = webdriver.Chrome(service=Service(CHROMEDRIVER), options=options)
     try:
+        # A page rewritten between loads (tests) must not come from the cache.
+        driver.execute_cdp_cmd("Network.enable", {})
+        driver.execute_cdp_cmd("Network.setCacheDisabled", {"cacheDisabled": True})
         driver.execute_cdp_cmd("DOM.enable", {})
         driver.execute_cdp_cmd("CSS.enable", {})
         yield driver
@@ -167,31 +170,74 @@ def _key(sample: dict) -> tuple:
     return sample["xpath"], sample.get("pseudo", "")
 
 
+def _forced_classes(state: str, chain: list[int]) -> dict[int, tuple]:
+    """Pseudo-classes a real pointer or focus sets: ``chain`` is the control then its ancestors.
+
+    Hovering an element hovers all its ancestors (Selectors 4, :hover); focus sets :focus on the
+    element and :focus-within on its ancestors.
+    """
+    if state == "hover":
+        return {node: ("hover",) for node in chain}
+    if state == "focus":
+        return {node: ("focus",) if i == 0 else ("focus-within",) for i, node in enumerate(chain)}
+    return {chain[0]: (state,)}
+
+
+class _Forcer:
+    """Applies forced pseudo-classes incrementally: neighbours share most of their ancestors."""
+
+    def __init__(self, driver):
+        self.driver, self.current = driver, {}
+
+    def set(self, wanted: dict) -> None:
+        for node in [n for n in self.current if n not in wanted]:
+            self._force(node, ())
+        for node, classes in wanted.items():
+            if self.current.get(node) != classes:
+                self._force(node, classes)
+        self.current = dict(wanted)
+
+    def _force(self, node, classes) -> None:
+        self.driver.execute_cdp_cmd("CSS.forcePseudoState", {"nodeId": node, "forcedPseudoClasses": list(classes)})
+
+
+def _parents(node: dict, parent: int | None, out: dict) -> dict:
+    out[node["nodeId"]] = parent
+    for child in node.get("children", ()):
+        if child.get("nodeType") == 1:
+            _parents(child, node["nodeId"] if node.get("nodeType") == 1 else None, out)
+    return out
+
+
 def collect_current(driver, states=STATES) -> tuple[list[dict], dict]:
     """Samples of the page as currently displayed: rest, then each forced state of each control.
 
     A state sample is kept when its pixels or status differ from rest (or the text was not rendered
-    at rest). The state is forced on the control alone (a real pointer also hovers its ancestors).
+    at rest). States are forced as a user would cause them (see ``_forced_classes``).
     """
     rest = driver.execute_script(COLLECT_JS, {"root": None, "interactive": INTERACTIVE})
     samples = [dict(s, state="rest") for s in rest["samples"]]
     if not states or not rest["interactive"]:
         return samples, rest["skipped"]
     at_rest = {_key(s): (s.get("fg"), s.get("bg"), s["status"]) for s in rest["samples"]}
-    document = driver.execute_cdp_cmd("DOM.getDocument", {"depth": 0})
+    document = driver.execute_cdp_cmd("DOM.getDocument", {"depth": -1})
+    parent = _parents(document["root"], None, {})
     node_ids = driver.execute_cdp_cmd(
         "DOM.querySelectorAll", {"nodeId": document["root"]["nodeId"], "selector": INTERACTIVE})["nodeIds"]
-    for index in rest["interactive"]:
-        node = node_ids[index]
+    forcer = _Forcer(driver)
+    try:
         for state in states:
-            driver.execute_cdp_cmd("CSS.forcePseudoState", {"nodeId": node, "forcedPseudoClasses": [state]})
-            try:
+            for index in rest["interactive"]:
+                chain = [node_ids[index]]
+                while parent.get(chain[-1]) is not None:
+                    chain.append(parent[chain[-1]])
+                forcer.set(_forced_classes(state, chain))
                 got = driver.execute_script(COLLECT_JS, {"root": index, "interactive": INTERACTIVE})
-            finally:
-                driver.execute_cdp_cmd("CSS.forcePseudoState", {"nodeId": node, "forcedPseudoClasses": []})
-            for s in got["samples"]:
-                if at_rest.get(_key(s)) != (s.get("fg"), s.get("bg"), s["status"]):
-                    samples.append(dict(s, state=state))
+                for s in got["samples"]:
+                    if at_rest.get(_key(s)) != (s.get("fg"), s.get("bg"), s["status"]):
+                        samples.append(dict(s, state=state))
+    finally:
+        forcer.set({})
     return samples, rest["skipped"]
 
 
@@ -225,6 +271,8 @@ def run_site(site_dir, states=STATES, pattern: str | None = None, log=None):
                 yield {"type": "page", "page": page, "scheme": scheme["name"], "media": scheme["media"],
                        "attributes": scheme["attributes"], "samples": len(samples), "skipped": skipped}
                 for s in samples:
+                    if "images" in s:  # the server's port is not part of the site
+                        s["images"] = [i.replace(base, "/") for i in s["images"]]
                     yield dict({"type": "sample", "page": page, "scheme": scheme["name"]}, **s)
 
 

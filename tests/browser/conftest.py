@@ -5,6 +5,7 @@ Chromium or chromedriver is missing (install Debian's ``chromium`` and ``chromiu
 """
 from __future__ import annotations
 
+import importlib.util
 import os
 import sys
 from pathlib import Path
@@ -18,6 +19,8 @@ if str(HERE) not in sys.path:  # the harness is a script as well as a library
 CHROMIUM = "/usr/bin/chromium"
 CHROMEDRIVER = "/usr/bin/chromedriver"
 MISSING = [p for p in (CHROMIUM, CHROMEDRIVER) if not os.access(p, os.X_OK)]
+if importlib.util.find_spec("selenium") is None:
+    MISSING.append("the selenium package")
 
 
 def pytest_collection_modifyitems(config, items):
@@ -27,4 +30,4 @@ def pytest_collection_modifyitems(config, items):
             if MISSING:
                 item.add_marker(pytest.mark.skip(
                     reason=f"Chromium reference engine not installed: missing {', '.join(MISSING)} "
-                           "(apt-get install chromium chromium-driver)"))
+                           "(apt-get install chromium chromium-driver; pip install selenium)"))

@@ -48,6 +48,7 @@ def hexa(value):
         ("hsla(240, 100%, 50%, 0.5)", (0.0, 0.0, 1.0, 0.5)),
         ("hsl(0.5turn 100% 50%)", (0.0, 1.0, 1.0, 1.0)),
         ("hsl(120 100 50)", (0.0, 1.0, 0.0, 1.0)),  # modern syntax accepts plain numbers
+        ("hsl(120 100 50%)", (0.0, 1.0, 0.0, 1.0)),  # ... and mixes them with percentages
         # hwb(): hwb(0 0% 0%) is red; w + b >= 100% is grey w / (w + b)
         ("hwb(0 0% 0%)", (1.0, 0.0, 0.0, 1.0)),
         ("hwb(120 50% 50%)", (0.5, 0.5, 0.5, 1.0)),
@@ -94,6 +95,14 @@ def test_cie_and_wide_gamut_forms_against_colour_science(colour_science, css):
         npm = cs.normalised_primary_matrix(space.primaries, space.whitepoint)
         return npm @ space.cctf_decoding(np.array(rgb))
 
+    def rec2020(rgb):
+        # the exact BT.2020 constants, as CSS Color 4 uses (see test_convert.py)
+        from colour.models.rgb.transfer_functions.itur_bt_2020 import CONSTANTS_BT2020_PRECISE
+
+        space = cs.RGB_COLOURSPACES["ITU-R BT.2020"]
+        npm = cs.normalised_primary_matrix(space.primaries, space.whitepoint)
+        return npm @ cs.models.oetf_inverse_BT2020(np.array(rgb), constants=CONSTANTS_BT2020_PRECISE)
+
     references = {
         "lab(50 20 30)": lambda: from_d50(cs.Lab_to_XYZ([50, 20, 30], d50)),
         "lab(50% 16% -24%)": lambda: from_d50(cs.Lab_to_XYZ([50, 20, -30], d50)),
@@ -103,26 +112,16 @@ def test_cie_and_wide_gamut_forms_against_colour_science(colour_science, css):
         "oklch(0.7 0.1 200)": lambda: cs.Oklab_to_XYZ(cs.LCHab_to_Lab([0.7, 0.1, 200])),
         "color(display-p3 0.3 0.5 0.4)": lambda: rgb_space("Display P3", [0.3, 0.5, 0.4]),
         "color(a98-rgb 0.3 0.5 0.4)": lambda: rgb_space("Adobe RGB (1998)", [0.3, 0.5, 0.4]),
-        "color(rec2020 0.3 0.5 0.4)": lambda: cs.normalised_primary_matrix(
-            cs.RGB_COLOURSPACES["ITU-R BT.2020"].primaries, cs.RGB_COLOURSPACES["ITU-R BT.2020"].whitepoint
-        ) @ cs.models.oetf_inverse_BT2020(
-            np.array([0.3, 0.5, 0.4]),
-            constants=__import__(
-                "colour.models.rgb.transfer_functions.itur_bt_2020", fromlist=["x"]
-            ).CONSTANTS_BT2020_PRECISE,
-        ),
+        "color(rec2020 0.3 0.5 0.4)": lambda: rec2020([0.3, 0.5, 0.4]),
         "color(prophoto-rgb 0.4 0.5 0.45)": lambda: from_d50(rgb_space("ProPhoto RGB", [0.4, 0.5, 0.45])),
         "color(xyz 0.2 0.25 0.3)": lambda: np.array([0.2, 0.25, 0.3]),
         "color(xyz-d65 0.2 0.25 0.3)": lambda: np.array([0.2, 0.25, 0.3]),
         "color(xyz-d50 0.2 0.25 0.3)": lambda: from_d50(np.array([0.2, 0.25, 0.3])),
     }
     xyz = references[css]()
-    srgb = cs.models.eotf_inverse_sRGB(
-        np.linalg.inv(
-            cs.normalised_primary_matrix(cs.RGB_COLOURSPACES["sRGB"].primaries, cs.RGB_COLOURSPACES["sRGB"].whitepoint)
-        )
-        @ xyz
-    )
+    srgb_space = cs.RGB_COLOURSPACES["sRGB"]
+    npm = cs.normalised_primary_matrix(srgb_space.primaries, srgb_space.whitepoint)
+    srgb = cs.models.eotf_inverse_sRGB(np.linalg.inv(npm) @ xyz)
     assert np.all((srgb > 0) & (srgb < 1)), "keep samples inside sRGB: libraries extend the curve differently"
     ours = parse_color(css, clip=False)
     # 5e-4 covers colour-science's OKLab matrix and 4-decimal ProPhoto primaries (see
@@ -206,6 +205,8 @@ def test_none_components():
     assert parse_color("rgb(none 128 none)") == GREEN
     assert parse_color("hsl(none 100% 50%)") == (1.0, 0.0, 0.0, 1.0)
     assert parse_color("rgb(0 0 0 / none)") == (0.0, 0.0, 0.0, 0.0)
+    assert parse_color("hsl(120 none 50%)") == (0.5, 0.5, 0.5, 1.0)  # s = 0: grey
+    assert parse_color("hwb(none 0% 0%)") == (1.0, 0.0, 0.0, 1.0)
     assert parse_color("rgb(none, 0, 0)") is None  # legacy syntax has no none
 
 

@@ -66,7 +66,7 @@ def test_problems_lead_largest_first():
         "*guide/p1.html:11*",
         "*guide/p0.html:12*",
         "*and 2 more occurrences",
-        "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 problem; 1 undetermined.",
+        "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 problem; 1 undetermined (background image 1).",
     ])
 
 
@@ -86,7 +86,7 @@ def test_group_by_page():
         "      error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required *",
         "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1) or background *",
         "guide/p1.html (2 findings)",
-        "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 undetermined.",
+        "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 undetermined (background image 1).",
     ])
     assert "problem" not in text.split("Checked")[1]
 
@@ -100,7 +100,7 @@ def test_summary_counts_skipped_exempt_and_diagnostics():
     pytest.LineMatcher(text.splitlines()).fnmatch_lines([
         "Not everything could be checked:",
         "  assets/remote.css: warning: remote stylesheet not loaded",
-        "Checked 4 pages *; 1 undetermined; 1 exempt; 12 skipped (hidden 12); 1 diagnostic.",
+        "Checked 4 pages *; 1 undetermined (background image 1); 1 exempt; 12 skipped (hidden 12); 1 diagnostic.",
     ])
 
 
@@ -177,3 +177,9 @@ def test_css_path_and_excerpt():
     assert m.css_path("/html/body") == "html > body"
     assert m.excerpt("  a\n  b  ") == "a b"
     assert m.excerpt("x" * 50, 10) == "x" * 9 + "\u2026"
+
+
+def test_schemes_found_in_samples_when_the_header_has_none():
+    samples = site_samples() + [make_sample("#777777", "#ffffff", scheme="dark", page="guide/p0.html")]
+    text, _ = report(samples, schemes=())
+    assert "[scheme light]" in text and "in 2 schemes (dark, light)" in text

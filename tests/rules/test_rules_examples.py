@@ -3,6 +3,8 @@
 Without the engine: the colours each example declares, as samples. With the engine: the
 example's HTML itself, so the documentation and the checked page cannot drift apart.
 """
+import re
+
 import pytest
 
 from tinctura import engine
@@ -46,3 +48,24 @@ def test_example_html_renders_what_the_docs_say(tmp_path, rule, which):
     assert {to_hex(s.bg) for s in samples} == {to_hex(rgba(example.bg))}
     codes = {f.rule for f in report.findings}
     assert codes == ({rule.code} if which == "bad" else set())
+
+
+def _ratio(a, b):
+    """WCAG 2.2 definitions of relative luminance and contrast ratio, written out as reference."""
+    def lum(hex_colour):
+        c = [int(hex_colour[i:i + 2], 16) / 255 for i in (1, 3, 5)]
+        c = [x / 12.92 if x <= 0.04045 else ((x + 0.055) / 1.055) ** 2.4 for x in c]
+        return 0.2126 * c[0] + 0.7152 * c[1] + 0.0722 * c[2]
+    la, lb = sorted((lum(a), lum(b)))
+    return (lb + 0.05) / (la + 0.05)
+
+
+@pytest.mark.parametrize("which", ["bad", "good"])
+@pytest.mark.parametrize("rule", RULES, ids=lambda r: r.code)
+def test_ratios_quoted_in_example_notes_are_right(rule, which):
+    example = getattr(rule.docs, which)
+    quoted = re.findall(r"(\d+\.\d\d):1", example.note)
+    fg, bg = to_hex(rgba(example.fg)), to_hex(rgba(example.bg))
+    for value in quoted[:1]:  # the first ratio in a note is the example's own
+        # shown truncated to 2 decimals, as the reports do
+        assert int(_ratio(fg, bg) * 100) / 100 == float(value)

@@ -3,9 +3,13 @@
 tinycss2 parses every CSS Color 4 form; this module adds what it lacks: system colours,
 ``color-mix()`` (CSS Color 5), ``light-dark()``, ``currentcolor`` anywhere inside those,
 ``none`` components kept as *missing* (tinycss2 loses an lch/oklch hue when the lightness
-is ``none``, and rejects ``/ none``), numbers and percentages mixed in modern ``rgb()`` (allowed
-by the current CSS Color 4 draft), and the rejection of legacy ``hsl(h, s, l)`` without
-percent signs (which CSS Color 4 does not allow and tinycss2 accepts).
+is ``none``, and rejects ``/ none``), numbers and percentages mixed in modern ``rgb()`` and
+``hsl()`` (allowed by the current CSS Color 4 draft), and the rejection of legacy
+``hsl(h, s, l)`` without percent signs (CSS Color 4 forbids it; tinycss2 accepts it).
+
+Not supported (the value parses as invalid, None): relative colour syntax
+(``rgb(from ...)``), ``calc()`` inside a colour, ``color(--custom ...)`` and
+``device-cmyk()``.
 """
 from __future__ import annotations
 
@@ -209,10 +213,13 @@ def _colour_function(token, name):
         return _from_tinycss2(_tinycss2_parse_color(token))
     missing = [i for i, t in enumerate(args[:3]) if _is_none(t)]
     channels = [(_zero(t) if i in missing else t) for i, t in enumerate(args[:3])]
-    if name in ("rgb", "rgba"):
-        types = {t.type for t in channels}
-        if types == {"number", "percentage"}:  # mixed: CSS Color 4 (2024) allows it
-            channels = [_as_number(t) for t in channels]
+    if name in ("rgb", "rgba", "hsl", "hsla"):
+        # Numbers and percentages mixed (the current CSS Color 4 draft allows it; a `none`
+        # replaced by 0 mixes them too): tinycss2 wants one kind, so make them all numbers.
+        kinds = {t.type for t in channels[name.startswith("hsl") :]}
+        if kinds == {"number", "percentage"}:
+            scale = 2.55 if name.startswith("rgb") else 1.0
+            channels = [_as_number(t, scale) for t in channels]
     rebuilt = ast.FunctionBlock(
         token.source_line, token.source_column, name, prefix + channels + args[3:]
     )
@@ -225,10 +232,10 @@ def _colour_function(token, name):
     return (space, coords, None if alpha_missing else alpha)
 
 
-def _as_number(token):
+def _as_number(token, scale):
     if token.type != "percentage":
         return token
-    value = token.value * 2.55
+    value = token.value * scale
     return ast.NumberToken(token.source_line, token.source_column, value, None, repr(value))
 
 

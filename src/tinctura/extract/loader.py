@@ -7,6 +7,7 @@ stylesheet is recorded as not loaded. Parsed sheets are cached per site by path 
 from __future__ import annotations
 
 import dataclasses
+import hashlib
 import os
 import posixpath
 from urllib.parse import unquote, urlsplit
@@ -78,38 +79,48 @@ class SheetLoader:
         cached = self._sheets.get(path)
         if cached and cached[0] == mtime:
             return cached[1], cached[2]
-        if cached:
-            self.generation += 1
-            self._rulesets.clear()
         diags = []
         try:
             with open(path, "rb") as fh:
                 data = fh.read()
+            digest = hashlib.sha1(data).digest()
+            if cached and cached[3] == digest:  # copied again, same content (a fresh build)
+                self._sheets[path] = (mtime,) + cached[1:]
+                return cached[1], cached[2]
+            if cached:
+                self.generation += 1
+                self._rulesets.clear()
             css = data.decode("utf-8-sig", errors="replace")
             if "\ufffd" in css and b"\xef\xbf\xbd" not in data:
                 diags.append(Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
                                         "replaced"))
             parsed = parse_stylesheet(css, self.rel(path))
         except OSError as exc:
-            parsed = None
+            parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
                                     severity="error"))
         except Exception as exc:  # a broken sheet must not stop the site
-            parsed = None
+            parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"cannot parse stylesheet: {exc}",
                                     severity="error"))
         if parsed is not None:
             for line, message in parsed.errors[:20]:
                 diags.append(Diagnostic(self.rel(path), f"CSS: {message}", line=line))
-        self._sheets[path] = (mtime, parsed, diags)
+        self._sheets[path] = (mtime, parsed, diags, digest)
         return parsed, diags
 
     def changed(self) -> bool:
-        """True when any loaded stylesheet changed on disk since it was parsed."""
-        for path, (mtime, _, _) in list(self._sheets.items()):
+        """True when the content of any loaded stylesheet changed since it was parsed.
+
+        Content, not mtime: a normal MkDocs build copies every static file again.
+        """
+        for path, (mtime, _, _, digest) in list(self._sheets.items()):
             try:
-                if os.stat(path).st_mtime_ns != mtime:
-                    return True
+                if os.stat(path).st_mtime_ns == mtime:
+                    continue
+                with open(path, "rb") as fh:
+                    if hashlib.sha1(fh.read()).digest() != digest:
+                        return True
             except OSError:
                 return True
         return False

@@ -295,7 +295,7 @@ class PageWalker:
         if image_reason:
             reasons.append(image_reason)
         fg, bg = pairs[0]
-        alts = tuple(pairs) if len(pairs) > 1 else ()
+        alts = tuple(b for _, b in pairs[1:])  # the other gradient stops' backgrounds
         status = UNDETERMINED if reasons else DETERMINED
         exempt = "disabled control (WCAG 1.4.3 exempts inactive user-interface components)" \
             if style.disabled or any(s.disabled for _, s in chain) else ""

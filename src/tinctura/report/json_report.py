@@ -29,6 +29,7 @@ def declaration_dict(d) -> dict | None:
         "value": d.value,
         "sheet": d.sheet,
         "line": d.line,
+        "column": getattr(d, "column", 0),
         "selector": d.selector,
         "origin": d.origin,
         "important": d.important,
@@ -101,6 +102,7 @@ def cause_fix_dict(fix) -> dict | None:
                 "backgrounds": [m.colour(b) for b in c.backgrounds],
                 "colour": None if c.colour is None else m.colour(c.colour),
                 "ratio": None if c.ratio is None else float(c.ratio),
+                "schemes": list(c.schemes),
             }
             for c in fix.contexts
         ],

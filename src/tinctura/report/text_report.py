@@ -3,6 +3,8 @@ from __future__ import annotations
 
 import textwrap
 
+from tinctura.problems import target_declaration
+
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
@@ -20,13 +22,13 @@ class TextFormatter(Formatter):
         super().__init__(stream, header)
         self.tw = TerminalWriter(stream, colour, environ, choice)
         self.diagnostics: list = []
-        self.printed = 0
+        self.schemes = list(header.schemes)
 
     # -- helpers -----------------------------------------------------------------------
 
     @property
     def many_schemes(self) -> bool:
-        return len(self.header.schemes) > 1
+        return len(self.schemes) > 1
 
     def severity(self, name: str) -> str:
         return self.tw.markup(name, *SEVERITY_STYLE.get(name, ()))
@@ -43,6 +45,7 @@ class TextFormatter(Formatter):
     # -- events ------------------------------------------------------------------------
 
     def start(self, summary) -> None:
+        self.schemes = list(self.header.schemes or summary.schemes)
         if self.header.group == "cause" and summary.problems:
             self.tw.line(
                 f"{m.plural(summary.problems, 'problem')} "
@@ -55,7 +58,6 @@ class TextFormatter(Formatter):
     def problem(self, index: int, problem) -> None:
         if self.header.group != "cause":
             return
-        self.printed += 1
         tw = self.tw
         worst = problem.worst
         fg, bg = m.finding_colours(worst)
@@ -91,7 +93,6 @@ class TextFormatter(Formatter):
         if self.header.group != "page" or not findings:
             return
         tw = self.tw
-        self.printed += len(findings)
         tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
         for f in findings:
             s = f.sample
@@ -125,9 +126,7 @@ class TextFormatter(Formatter):
 
 def headline(cause, rgb, what: str) -> str:
     """``color `#777` at main.css:120``: the value and where it is set, for the problem line."""
-    d = None
-    if cause is not None:
-        d = cause.chain[-1] if cause.chain else cause.declaration
+    d = target_declaration(cause)
     if d is None:
         return f"{what} {m.colour(rgb)} (not declared)"
     return f"{d.property} `{d.value}` at {d.where()}"
@@ -165,8 +164,11 @@ def cause_fix_lines(fix) -> list:
                 f"{m.ratio(fix.ratio)}:1 or more on {on_all}"]
     what = "no single text colour" if d is None else f"no single value of `{d.property}`"
     lines = [f"{what} reaches {need}:1 on {on_all}; one value per group of backgrounds:"]
+    several = len({sch for c in fix.contexts for sch in c.schemes}) > 1
     for c in fix.contexts:
         on = ", ".join(m.colour(b) for b in c.backgrounds)
+        if several:
+            on += f" ({', '.join(c.schemes)} scheme{'s' if len(c.schemes) > 1 else ''})"
         if c.colour is None:
             lines.append(f"  on {on}: no text colour of this hue reaches {need}:1; "
                          f"change the background")
@@ -188,7 +190,11 @@ def summary_line(summary, header: Header) -> str:
     parts.append(counts)
     if header.group == "cause":
         parts.append(m.plural(summary.problems, "problem"))
-    parts.append(f"{summary.undetermined:,} undetermined")
+    undetermined = f"{summary.undetermined:,} undetermined"
+    if summary.undetermined_reasons:
+        undetermined += " (" + ", ".join(
+            f"{k} {v:,}" for k, v in summary.undetermined_reasons.items()) + ")"
+    parts.append(undetermined)
     if summary.exempt:
         parts.append(f"{summary.exempt:,} exempt")
     skipped = sum(summary.skipped.values())

@@ -1,0 +1,255 @@
+"""The MkDocs plugin: options through MkDocs' own validation, and real builds of a tiny project."""
+import logging
+import textwrap
+
+import pytest
+from mkdocs.commands.build import build
+from mkdocs.config import load_config
+from mkdocs.exceptions import Abort
+
+from tinctura import engine
+from tinctura.plugin import TincturaConfig, TincturaPlugin
+
+# -- options -------------------------------------------------------------------------------
+
+
+def test_defaults():
+    plugin = TincturaPlugin()
+    assert plugin.load_config({}) == ([], [])
+    assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
+                                   "viewport_width": 1280, "states": True, "log_every": False}
+
+
+@pytest.mark.parametrize("option, value, needle", [
+    ("level", "A", "Expected one of: ('AA', 'AAA')"),
+    ("fail_on", "info", "Expected one of: ('error', 'warning', 'never')"),
+    ("exclude", "drafts/*.md", "Expected a list"),
+    ("viewport_width", 0, "at least 1"),
+    ("viewport_width", True, "whole number"),
+    ("viewport_width", "wide", "whole number"),
+    ("states", "yes", "Expected type: <class 'bool'>"),
+    ("log_every", 1, "Expected type: <class 'bool'>"),
+])
+def test_bad_values_give_clear_errors(option, value, needle):
+    errors, _ = TincturaPlugin().load_config({option: value})
+    assert [name for name, _ in errors] == [option]
+    assert needle in str(errors[0][1])
+
+
+def test_enabled_is_left_to_mkdocs(tmp_path):
+    assert "enabled" not in dict(TincturaConfig._schema)
+    project = make_project(tmp_path, plugin_options={"enabled": False})
+    config = load_config(config_file=str(project / "mkdocs.yml"))
+    assert "tinctura" not in config.plugins
+
+
+# -- a tiny MkDocs project -------------------------------------------------------------------
+
+THEME = """<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><title>{{ page.title }}</title>
+{%- for path in config.extra_css %}<link rel="stylesheet" href="{{ path | url }}">{% endfor %}
+</head><body>
+{{ page.content }}
+</body></html>
+"""
+
+PAGES = {
+    "index.md": "# Fernhollow Seed Library\n\nBorrow seeds in spring, return seeds in autumn.\n",
+    "lending.md": textwrap.dedent("""\
+        # Lending rules
+
+        <p class="muted">Return unused packets before the first frost.</p>
+
+        <p class="muted">Label every packet with the harvest year.</p>
+        """),
+    "drafts/notes.md": "# Notes\n\n<p class=\"muted\">Unfinished.</p>\n",
+}
+
+
+def make_project(tmp_path, plugin_options=None, css=".muted { color: #8a8a8a; }\n"):
+    docs = tmp_path / "docs"
+    for name, text in PAGES.items():
+        (docs / name).parent.mkdir(parents=True, exist_ok=True)
+        (docs / name).write_text(text, encoding="utf-8")
+    (docs / "site.css").write_text(css, encoding="utf-8")
+    (tmp_path / "theme").mkdir(exist_ok=True)
+    (tmp_path / "theme" / "main.html").write_text(THEME, encoding="utf-8")
+    options = {"states": False, **(plugin_options or {})}
+    lines = ["site_name: Fernhollow Seed Library", "theme:", "  name: null",
+             "  custom_dir: theme", "extra_css: [site.css]", "plugins:", "  - tinctura:"]
+    lines += [f"      {k}: {str(v).lower() if isinstance(v, bool) else v}" for k, v in options.items()]
+    (tmp_path / "mkdocs.yml").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    return tmp_path
+
+
+def configure(project, **kwargs):
+    return load_config(config_file=str(project / "mkdocs.yml"), **kwargs)
+
+
+def messages(caplog, level=logging.WARNING):
+    """The plugin's log messages, without the "tinctura: " prefix MkDocs' plugin logger adds."""
+    return [r.getMessage().removeprefix("tinctura: ") for r in caplog.records
+            if r.levelno >= level and r.name.startswith("mkdocs.plugins.tinctura")]
+
+
+def slow(test):
+    """Builds a site with the real engine: skipped while tinctura.engine.Site is missing."""
+    needs_engine = pytest.mark.skipif(not hasattr(engine, "Site"),
+                                      reason="tinctura.engine.Site not there yet")
+    return pytest.mark.slow(needs_engine(test))
+
+
+@slow
+def test_findings_fail_the_build(tmp_path, caplog):
+    config = configure(make_project(tmp_path))
+    with pytest.raises(Abort):
+        build(config)
+    warnings = messages(caplog)
+    # one warning per problem: two paragraphs, one cause (the page and the drafts page)
+    assert len(warnings) == 1
+    assert "TC100 text-ratio: 3 occurrences on 2 pages" in warnings[0]
+    assert "color `#8a8a8a` at site.css:1" in warnings[0]
+    # #8a8a8a on white = 3.45:1 by the WCAG 2.2 formula
+    assert "3.45:1, needs 4.5:1" in warnings[0]
+    errors = [r.getMessage() for r in caplog.records if r.levelno >= logging.ERROR]
+    assert any("3 contrast findings at or above fail_on: error" in e for e in errors)
+
+
+@slow
+def test_strict_mode_counts_the_warnings(tmp_path, caplog):
+    config = configure(make_project(tmp_path, {"fail_on": "never"}), strict=True)
+    with pytest.raises(Abort, match="strict mode"):
+        build(config)
+
+
+@slow
+def test_fail_on_never_without_strict_builds(tmp_path, caplog):
+    caplog.set_level(logging.INFO)
+    build(configure(make_project(tmp_path, {"fail_on": "never"})))
+    assert messages(caplog)
+    info = messages(caplog, logging.INFO)
+    assert any("ISO 3864" in line for line in info)
+    assert any(line.startswith("Checked 3 pages at level AA") for line in info)
+
+
+@slow
+def test_clean_site_builds_in_strict_mode(tmp_path, caplog):
+    project = make_project(tmp_path, css=".muted { color: #595959; }\n")
+    build(configure(project, strict=True))
+    assert messages(caplog) == []
+
+
+@slow
+def test_exclude_globs_on_source_paths(tmp_path, caplog):
+    project = make_project(tmp_path, {"exclude": '["lending.md", "drafts/*.md"]'})
+    build(configure(project, strict=True))
+    assert messages(caplog) == []
+
+
+@slow
+def test_log_every_occurrence(tmp_path, caplog):
+    project = make_project(tmp_path, {"log_every": True, "fail_on": "never"})
+    build(configure(project))
+    warnings = messages(caplog)
+    assert len(warnings) == 3
+    assert any(w.startswith("lending/index.html:") for w in warnings)
+
+
+@slow
+def test_level_aaa(tmp_path, caplog):
+    # #595959 on white is 7.00:1 (WCAG formula): passes AAA; #6b6b6b (5.33:1) does not.
+    project = make_project(tmp_path, {"level": "AAA", "fail_on": "never"}, css=".muted { color: #6b6b6b; }\n")
+    build(configure(project))
+    (warning,) = messages(caplog)
+    assert "needs 7:1" in warning
+
+
+# -- rebuilds (mkdocs serve) ---------------------------------------------------------------
+
+
+class CountingSite(engine.Site):
+    checked: list = []
+    sheets_changed = False
+
+    def check_page(self, rel, html=None):
+        CountingSite.checked.append((rel, html is None))
+        return super().check_page(rel, html=html)
+
+    def stylesheets_changed(self):
+        return CountingSite.sheets_changed
+
+
+@pytest.fixture
+def counting(monkeypatch):
+    CountingSite.checked = []
+    CountingSite.sheets_changed = False
+    monkeypatch.setattr(engine, "Site", CountingSite)
+    return CountingSite
+
+
+def serve_like(project):
+    """One plugin object across builds, as `mkdocs serve` keeps it (on_startup)."""
+    config = configure(project)
+    config.plugins.on_startup(command="serve", dirty=False)
+    return config
+
+
+@slow
+def test_serve_rechecks_only_changed_pages(tmp_path, counting, caplog):
+    project = make_project(tmp_path)
+    config = serve_like(project)
+    build(config)  # serve: findings are logged, the build is not failed
+    assert sorted(rel for rel, _ in counting.checked) == [
+        "drafts/notes/index.html", "index.html", "lending/index.html"]
+    counting.checked.clear()
+    build(config)
+    assert counting.checked == []  # same HTML, same stylesheets: nothing to do
+    (project / "docs" / "index.md").write_text("# Fernhollow\n\nNew opening hours.\n")
+    build(config)
+    assert counting.checked == [("index.html", False)]
+    counting.checked.clear()
+    counting.sheets_changed = True
+    build(config)
+    assert len(counting.checked) == 3
+
+
+@slow
+def test_dirty_build_keeps_other_pages_and_rereads_stale_ones(tmp_path, counting, caplog):
+    project = make_project(tmp_path)
+    config = configure(project)
+    config.plugins.on_startup(command="serve", dirty=True)
+    build(config)
+    counting.checked.clear()
+    caplog.clear()
+    build(config, dirty=True)  # nothing changed: no page passes through on_post_page
+    assert counting.checked == []
+    assert any("3 occurrences on 2 pages" in w for w in messages(caplog))  # results kept
+    counting.sheets_changed = True
+    build(config, dirty=True)
+    assert sorted(counting.checked) == [
+        ("drafts/notes/index.html", True), ("index.html", True), ("lending/index.html", True)]
+
+
+@slow
+def test_serve_notices_a_changed_stylesheet(tmp_path, monkeypatch, caplog):
+    """With the engine's own stylesheets_changed(): unchanged sheets, no work; edited, all pages."""
+    checked = []
+    original = engine.Site.check_page
+
+    def counting_check_page(self, rel, html=None):
+        checked.append(rel)
+        return original(self, rel, html=html)
+
+    monkeypatch.setattr(engine.Site, "check_page", counting_check_page)
+    project = make_project(tmp_path)
+    config = serve_like(project)
+    build(config)
+    assert len(checked) == 3
+    checked.clear()
+    build(config)
+    assert checked == []
+    (project / "docs" / "site.css").write_text(".muted { color: #595959; }\n/* darker */\n")
+    caplog.clear()
+    build(config)
+    assert len(checked) == 3
+    assert messages(caplog) == []  # the darker grey passes everywhere
