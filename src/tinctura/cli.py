@@ -68,8 +68,8 @@ def _site_options(p: argparse.ArgumentParser) -> None:
                    help="built site directories or HTML files")
     p.add_argument("--viewport-width", type=positive_int, default=1280, metavar="N",
                    help="viewport width in CSS pixels for media queries (default 1280)")
-    p.add_argument("--jobs", type=positive_int, default=1, metavar="N",
-                   help="pages checked in parallel (default 1)")
+    p.add_argument("--jobs", type=positive_int, default=os.cpu_count() or 1, metavar="N",
+                   help="processes checking pages in parallel (default: the number of cores)")
     p.add_argument("--no-states", action="store_true",
                    help="check only the resting state, not :hover / :focus / :focus-visible")
     p.add_argument("--exclude", action="append", default=[], metavar="GLOB",
@@ -121,6 +121,21 @@ def build_parser() -> argparse.ArgumentParser:
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
     pair.set_defaults(run=run_pair)
+
+    trace_cmd = sub.add_parser(
+        "trace", help="why is this text this colour? one element's cascade, per scheme",
+        description="Show, for one element and each colour scheme, the matched rules in cascade "
+                    "order, the winning declarations, the custom-property chain, the background "
+                    "layers and the resulting colours and ratios.")
+    trace_cmd.add_argument("page", metavar="PAGE", help="a built HTML page")
+    trace_cmd.add_argument("target", metavar="TARGET",
+                           help="an XPath (/html/body/...), a CSS selector, or a text excerpt")
+    trace_cmd.add_argument("--site", metavar="DIR",
+                           help="the site root (default: the highest folder above PAGE that "
+                                "holds an index.html)")
+    trace_cmd.add_argument("--viewport-width", type=positive_int, default=1280, metavar="N",
+                           help="viewport width in CSS pixels for media queries (default 1280)")
+    trace_cmd.set_defaults(run=run_trace)
 
     rules_cmd = sub.add_parser("rules", help="describe the rules",
                                description="Describe every rule, or one by code or slug.")
@@ -311,6 +326,31 @@ def run_rules(args, stdout, stderr) -> int:
             tw.line()
         describe_rule(rule, tw)
     return exit_status()
+
+
+def run_trace(args, stdout, stderr) -> int:
+    from .trace import format_trace, trace
+
+    page = os.path.abspath(args.page)
+    if not os.path.isfile(page):
+        raise UsageError(f"{args.page}: no such file")
+    root = os.path.abspath(args.site) if args.site else _site_root(page)
+    rel = os.path.relpath(page, root).replace(os.sep, "/")
+    try:
+        result = trace(root, rel, args.target,
+                       engine.Options(viewport_width=args.viewport_width))
+    except LookupError as exc:
+        raise UsageError(str(exc)) from None
+    stdout.write(format_trace(result) + "\n")
+    return exit_status()
+
+
+def _site_root(page: str) -> str:
+    root = os.path.dirname(page)
+    parent = os.path.dirname(root)
+    while parent != root and os.path.isfile(os.path.join(parent, "index.html")):
+        root, parent = parent, os.path.dirname(parent)
+    return root
 
 
 # -- entry point -------------------------------------------------------------------------------

@@ -61,8 +61,10 @@ def find_element(root, target: str):
     except Exception:
         pass
     needle = " ".join(target.split()).lower()
-    for el in root.iter():
-        if isinstance(el.tag, str) and needle in own_text(el).lower():
+    body = root.find("body")
+    for el in (body if body is not None else root).iter():
+        if isinstance(el.tag, str) and el.tag not in ("script", "style", "template") \
+                and needle in own_text(el).lower():
             return el
     return None
 
