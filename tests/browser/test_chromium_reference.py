@@ -265,12 +265,16 @@ STATES = """<!doctype html><html><head><style>
 body { background: #ffffff; color: #000000; }
 a { color: #0000ee; }
 a:hover { color: #ff0000; }
-a:focus { color: #ffffff; background: #000000; }
+a:not(.in-box):focus { color: #ffffff; background: #000000; }
 .nav:hover span { color: #00aa00; }
 .skip { opacity: 0; } .skip:focus { opacity: 1; }
 .note::before { content: "Note: "; color: #999999; }
 button:disabled { color: #aaaaaa; }
+.row:hover { background: #ffff00; }
+.box:focus-within { background: #00ffff; }
 </style></head><body>
+<div class="row"><a class="in-row" href="#r">row link</a></div>
+<div class="box"><a class="in-box" href="#b">box link</a></div>
 <p><a href="#x">plain link</a></p>
 <p><a class="nav" href="#y"><span>nested label</span></a></p>
 <p><a class="skip" href="#z">skip link</a></p>
@@ -293,6 +297,10 @@ def test_forced_states_and_generated_text(site):
     # nothing changes on the plain button: no state samples
     assert [s["state"] for s in samples if s["text"] == "steady"] == ["rest"]
     assert by_text(samples, "off")["disabled"] is True
+    # a pointer over the link also hovers its row; focus sets :focus-within on the ancestors
+    assert by_text(samples, "row link", "hover")["bg"] == "#ffff00"
+    assert by_text(samples, "box link", "focus")["bg"] == "#00ffff"
+    assert by_text(samples, "box link", "rest")["bg"] == "#ffffff"
     gen = [s for s in samples if s["kind"] == "generated"]
     assert [(s["text"], s["pseudo"], s["fg"]) for s in gen] == [("Note:", "::before", "#999999")]
 

@@ -1,0 +1,60 @@
+"""Engine behaviour across pages: parallel runs, broken input, redirects, trace."""
+import pytest
+
+from tinctura.colour.convert import to_hex
+from tinctura.engine import Options, check_paths
+from tinctura.trace import trace
+
+PAGE = ('<!doctype html><html><head><link rel="stylesheet" href="{up}site.css"></head><body>'
+        '<nav><a href="{up}index.html">Home</a></nav><p class="faint">page {n}</p></body></html>')
+
+
+@pytest.fixture
+def site(tmp_path):
+    (tmp_path / "site.css").write_text(
+        ":root{--faint:#999} .faint{color:var(--faint)} a:hover{color:#bbb}")
+    for n in range(12):
+        folder = tmp_path / f"p{n}"
+        folder.mkdir()
+        (folder / "index.html").write_text(PAGE.format(up="../", n=n))
+    (tmp_path / "index.html").write_text(PAGE.format(up="", n="home"))
+    return tmp_path
+
+
+def _flat(report):
+    return [(p.page, s.scheme, s.state, s.xpath, to_hex(s.fg), to_hex(s.bg))
+            for p in report.pages for s in p.samples]
+
+
+def test_jobs_give_identical_results_in_the_same_order(site):
+    one = check_paths([str(site)], Options(jobs=1))
+    two = check_paths([str(site)], Options(jobs=2))
+    assert _flat(one) == _flat(two)
+    assert [(f.sample.page, f.ratio) for f in one.findings] == \
+        [(f.sample.page, f.ratio) for f in two.findings]
+
+
+def test_broken_stylesheet_and_page_do_not_stop_the_site(site):
+    (site / "p3" / "index.html").write_bytes(b"")
+    (site / "site.css").write_text(":root{--faint:#999} .faint{color:var(--faint)} @media {{{ p{")
+    report = check_paths([str(site)], Options(jobs=1))
+    broken = [d for p in report.pages for d in p.diagnostics if "p3" in d.path]
+    assert broken and "empty" in broken[0].message
+    assert sum(1 for p in report.pages if p.samples) == 12
+
+
+def test_redirect_pages_are_skipped(tmp_path):
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html><head><meta http-equiv="refresh" content="0; url=new/">'
+        '</head><body><p style="color:#eee">moved</p></body></html>')
+    report = check_paths([str(tmp_path)], Options())
+    assert report.pages[0].samples == [] and report.pages[0].skipped == {"redirect page": 1}
+
+
+def test_trace_names_the_custom_property_chain(site):
+    t = trace(str(site), "p1/index.html", "page 1")
+    sample = t.schemes[0].samples[0]
+    assert sample.fg_cause.declaration.value == "var(--faint)"
+    assert [d.property for d in sample.fg_cause.chain] == ["--faint"]
+    # ":root{" is six characters, so the declaration starts in column 7 (columns count from 1)
+    assert sample.fg_cause.chain[0].where() == "site.css:1:7"
