@@ -1,0 +1,65 @@
+"""tinctura's static cascade against headless Chromium on the example site, per scheme.
+
+Source of truth: Chromium's computed `color`, backgrounds and opacity, painted by the harness in
+chromium_reference.py (the reference engine). At least 99 % of the samples both sides call
+determined must agree within 1/255 per channel; every disagreement is printed.
+"""
+from __future__ import annotations
+
+import pytest
+
+from chromium_reference import run_site
+from example_build import build_example_site
+from tinctura.colour.convert import to_hex
+from tinctura.engine import Options, check_paths
+
+pytestmark = pytest.mark.slow
+
+
+@pytest.fixture(scope="module")
+def both(tmp_path_factory):
+    site = build_example_site(tmp_path_factory.mktemp("site"), tmp_path_factory.mktemp("cfg"))
+    chromium = [r for r in run_site(site) if r["type"] == "sample"]
+    ours = check_paths([str(site)], Options(jobs=1))
+    return chromium, ours
+
+
+def _channels(hex_colour):
+    return [int(hex_colour[i:i + 2], 16) for i in (1, 3, 5)]
+
+
+def _close(a, b):
+    return all(abs(x - y) <= 1 for x, y in zip(_channels(a), _channels(b)))
+
+
+def test_samples_agree_with_chromium_per_scheme(both):
+    chromium, ours = both
+    mine = {(s.page, s.scheme, s.state, s.xpath.split("::")[0]): s
+            for p in ours.pages for s in p.samples if s.kind != "generated"}
+    compared, disagree, missing = 0, [], []
+    for ref in chromium:
+        if ref.get("status") != "determined":
+            continue
+        key = (ref["page"], ref["scheme"], ref.get("state", "rest"), ref["xpath"])
+        s = mine.get(key)
+        if s is None:
+            if ref.get("state", "rest") == "rest":
+                missing.append(key)
+            continue
+        if s.status != "determined":
+            continue
+        compared += 1
+        fg, bg = to_hex(s.fg), to_hex(s.bg)
+        if not (_close(fg, ref["fg"]) and _close(bg, ref["bg"])):
+            disagree.append(f"{key}: tinctura {fg} on {bg}, chromium {ref['fg']} on {ref['bg']}")
+    for line in disagree:
+        print("DISAGREE", line)
+    for key in missing:
+        print("MISSING IN TINCTURA", key)
+    assert compared > 500
+    assert len(disagree) <= 0.01 * compared, "\n".join(disagree)
+    rest = sum(1 for r in chromium if r.get("status") == "determined" and
+               r.get("state", "rest") == "rest")
+    assert len(missing) <= 0.01 * rest, "\n".join(map(str, missing))
+    schemes = {r["scheme"] for r in chromium}
+    assert schemes == {"default", "slate"}
