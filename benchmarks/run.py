@@ -379,7 +379,8 @@ def bench_size(n_pages: int, args, env: dict, steps: list[str]) -> dict:
                 print(f" {r['wall_s']:8.2f} s", flush=True)
             else:
                 why = "timed out" if r.get("timed_out") else f"exit {r.get('returncode')}"
-                print(f" FAILED ({why})", flush=True)
+                after = f" after {r['wall_s']:.2f} s" if "wall_s" in r else ""
+                print(f" FAILED ({why}){after}", flush=True)
                 t = tail(r.get("stderr_log", "")) or r.get("error", "")
                 if t:
                     print("      | " + t.replace("\n", "\n      | "), flush=True)

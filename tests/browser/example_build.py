@@ -15,7 +15,17 @@ EXAMPLE = Path(__file__).resolve().parents[2] / "example_site"
 
 def build_example_site(dest, config_dir) -> Path:
     lines = (EXAMPLE / "mkdocs.yml").read_text(encoding="utf-8").splitlines()
-    config = "\n".join(line for line in lines if line.strip() != "- tinctura")
+    kept, in_plugin = [], False
+    for line in lines:  # drop the tinctura plugin entry and its indented options
+        if line.strip() in ("- tinctura", "- tinctura:"):
+            in_plugin, indent = True, len(line) - len(line.lstrip())
+            continue
+        if in_plugin and line.strip() and len(line) - len(line.lstrip()) > indent \
+                and not line.lstrip().startswith("- "):
+            continue
+        in_plugin = False
+        kept.append(line)
+    config = "\n".join(kept)
     config += f"\ndocs_dir: {EXAMPLE / 'docs'}\n"
     path = Path(config_dir) / "mkdocs-example.yml"
     path.write_text(config, encoding="utf-8")
