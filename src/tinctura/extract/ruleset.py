@@ -10,6 +10,7 @@ from __future__ import annotations
 import re
 
 from .media import Environment
+from .siblings import SiblingIndex
 
 ATTR_IN_SELECTOR = re.compile(r"\[\s*([\w:-]+)")
 ATTR_TEST = re.compile(r"""\[\s*([\w:-]+)\s*(?:([~|^$*]?=)\s*("[^"\\]*"|'[^'\\]*'|[\w-]+)\s*([is])?\s*)?\]""",
@@ -31,6 +32,7 @@ class RuleSet:
         for order, rule in enumerate(rules):
             rule.order = order
         self.uses_has = any(":has(" in r.selector_text for r in rules)
+        self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
         # answers to those tests (so `href` values that differ per page do not split the cache),
         # or the whole value when a test could not be read.

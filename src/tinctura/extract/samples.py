@@ -64,6 +64,7 @@ class PageWalker:
         self.skipped = skipped
         self.samples = []
         self.uncached = ruleset.uses_has
+        self.siblings = ruleset.siblings
         self._serial = 0
 
     # -- keys ------------------------------------------------------------------------------
@@ -71,12 +72,17 @@ class PageWalker:
         sig = self.ruleset.attr_signature
         return tuple(sorted((k, sig(k, v)) for k, v in el.attrib.items()))
 
-    def _key(self, el, parent_id, prev_id, following):
+    def _key(self, el, parent_id, prev_chain, following, attrs=None):
+        """The style-sharing key; sibling information only where a selector could read it."""
         if self.uncached:
             self._serial += 1
             return ("u", self._serial)
+        if attrs is None:
+            attrs = self._attrs(el)
         empty = not len(el) and not (el.text or "").strip()
-        return (parent_id, el.tag, self._attrs(el), prev_id, following, empty)
+        if self.siblings.sensitive(el, el.getparent()):
+            return (parent_id, el.tag, attrs, prev_chain, following, empty)
+        return (parent_id, el.tag, attrs, empty)
 
     # -- styles ----------------------------------------------------------------------------
     def style_for(self, wrapper, parent_style, key_id, is_root):
@@ -152,13 +158,15 @@ class PageWalker:
             for i in range(len(children) - 1, -1, -1):
                 following[i] = nxt
                 nxt = intern(("f", tags[i], nxt))
-            prev_id = 0
+            prev_chain = 0  # identity of the previous siblings (tags and attributes)
             items = []
             for i, child in enumerate(wrapper.iter_children()):
-                cid = intern(self._key(child.etree_element, key_id, prev_id, following[i]))
+                cel = child.etree_element
+                attrs = self._attrs(cel)
+                cid = intern(self._key(cel, key_id, prev_chain, following[i], attrs))
                 if collect:
-                    meta[child.etree_element] = (prev_id, following[i])
-                prev_id = cid
+                    meta[cel] = (prev_chain, following[i])
+                prev_chain = intern(("s", cel.tag, attrs, prev_chain))
                 items.append((child, style, cid, False, chain))
             stack.extend(reversed(items))
 

@@ -16,10 +16,19 @@ STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type
 
 
 class Compound:
-    __slots__ = ("tag", "classes", "ident")
+    __slots__ = ("tag", "classes", "ident", "parent")
 
-    def __init__(self, tag, classes, ident):
+    def __init__(self, tag, classes, ident, parent=None):
         self.tag, self.classes, self.ident = tag, frozenset(classes), ident
+        self.parent = parent  # for `P > :nth-child(2)`: what the parent must be
+
+    @property
+    def universal(self) -> bool:
+        return self.tag in (None, "*") and not self.classes and self.ident is None
+
+    def could_match(self, tag, classes, ident) -> bool:
+        return (self.tag in (None, "*", tag)) and self.classes <= classes \
+            and (self.ident is None or self.ident == ident)
 
 
 def sensitive_compounds(tokens):
@@ -47,6 +56,7 @@ def sensitive_compounds(tokens):
         current.append(t)
     if current:
         compounds.append((combinator_before, current))
+    reqs = []
     for comb, parts in compounds:
         nested_structural = False
         tag, classes, ident = None, [], None
@@ -74,8 +84,16 @@ def sensitive_compounds(tokens):
                     and parts[i + 1].type == "ident" and STRUCTURAL.search(":" + parts[i + 1].value):
                 nested_structural = True
             i += 1
+        reqs.append(Compound(tag, classes, ident))
         if comb in ("+", "~") or nested_structural:
-            out.append(Compound(tag, classes, ident))
+            c = Compound(tag, classes, ident)
+            k = len(reqs) - 1
+            if c.universal and comb == ">" and k > 0 and not reqs[k - 1].universal:
+                c.parent = reqs[k - 1]
+            elif c.universal and comb in ("+", "~") and k > 0 and not reqs[k - 1].universal:
+                # `X + *`: only siblings of an X; we cannot see those from the element, keep all
+                pass
+            out.append(c)
     # the left side of + / ~ is read from the right side's view, which already carries it
     return out
 
@@ -84,10 +102,11 @@ class SiblingIndex:
     """Answers "could a sibling-sensitive compound match this element?" by tag/class/id."""
 
     def __init__(self, rules):
-        self.any = False
-        self.by_class, self.by_tag, self.by_id, self.universal = {}, {}, {}, []
         import tinycss2
 
+        self.any = False
+        self.own, self.by_parent = _Buckets(), _Buckets()
+        self._memo = {}
         for rule in rules:
             text = rule.selector_text
             if not (STRUCTURAL.search(text) or "+" in text or "~" in text):
@@ -97,30 +116,48 @@ class SiblingIndex:
                 self.any = True
                 return
             for c in found:
-                if c.ident:
-                    self.by_id.setdefault(c.ident, []).append(c)
-                elif c.classes:
-                    self.by_class.setdefault(next(iter(c.classes)), []).append(c)
-                elif c.tag and c.tag != "*":
-                    self.by_tag.setdefault(c.tag, []).append(c)
+                if c.universal and c.parent is not None:
+                    self.by_parent.add(c.parent, c)
+                elif c.universal:
+                    self.any = True
+                    return
                 else:
-                    self.universal.append(c)
-        self._memo = {}
+                    self.own.add(c, c)
 
-    def sensitive(self, tag, cls, ident) -> bool:
-        if self.any or self.universal:
+    def sensitive(self, el, parent) -> bool:
+        if self.any:
             return True
-        key = (tag, cls, ident)
+        tag = el.tag.lower() if isinstance(el.tag, str) else ""
+        ptag = parent.tag.lower() if parent is not None and isinstance(parent.tag, str) else ""
+        key = (tag, el.get("class"), el.get("id"), ptag,
+               parent.get("class") if parent is not None else None,
+               parent.get("id") if parent is not None else None)
         hit = self._memo.get(key)
-        if hit is not None:
-            return hit
-        classes = frozenset(cls.split()) if cls else frozenset()
+        if hit is None:
+            classes = frozenset(key[1].split()) if key[1] else frozenset()
+            pclasses = frozenset(key[4].split()) if key[4] else frozenset()
+            hit = self.own.any_match(tag, classes, key[2], lambda c: True) or \
+                self.by_parent.any_match(ptag, pclasses, key[5], lambda c: True)
+            self._memo[key] = hit
+        return hit
+
+
+class _Buckets:
+    def __init__(self):
+        self.by_id, self.by_class, self.by_tag = {}, {}, {}
+
+    def add(self, req, payload):
+        if req.ident:
+            self.by_id.setdefault(req.ident, []).append((req, payload))
+        elif req.classes:
+            self.by_class.setdefault(next(iter(req.classes)), []).append((req, payload))
+        else:
+            self.by_tag.setdefault(req.tag, []).append((req, payload))
+
+    def any_match(self, tag, classes, ident, accept) -> bool:
         candidates = list(self.by_tag.get(tag, ()))
         if ident:
             candidates += self.by_id.get(ident, ())
         for name in classes:
             candidates += self.by_class.get(name, ())
-        result = any((c.tag in (None, "*", tag)) and c.classes <= classes
-                     and (c.ident is None or c.ident == ident) for c in candidates)
-        self._memo[key] = result
-        return result
+        return any(req.could_match(tag, classes, ident) and accept(p) for req, p in candidates)
