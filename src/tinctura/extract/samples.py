@@ -268,30 +268,39 @@ class PageWalker:
         self._emit(el, style, chain, text, kind, ("text", key_id))
 
     def _emit(self, el, style, chain, text, kind, core_key, suffix=""):
+        """Append a Sample. The colour work is cached by style key; anything positional
+        (XPaths of the element, of the ancestor a colour is inherited from, of background
+        layers) is filled in here, because elements sharing a key may stand elsewhere."""
         core = self.cache.cores.get(core_key)
         if core is None:
-            core = self._core(el, style, chain, kind, suffix)
+            core = self._core(el, style, chain, kind)
             self.cache.cores[core_key] = core
-        xpath, fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, layers, bg_cause, \
-            surround = core
+        fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, inherited_at, layers, \
+            bg_cause, surround = core
+        getpath = el.getroottree().getpath
+        if inherited_at is not None:
+            fg_cause = Cause(fg_cause.declaration, _path_at(chain, inherited_at, getpath),
+                             fg_cause.chain)
+        layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
+                       for at, kind_, colour, cause in layers)
         self.samples.append(Sample(
-            page=self.page, scheme=self.scheme, state=self.state, xpath=xpath,
+            page=self.page, scheme=self.scheme, state=self.state, xpath=getpath(el) + suffix,
             line=el.sourceline or 0, text=" ".join(text.split())[:60], kind=kind, fg=fg, bg=bg,
             fg_raw=fg_raw, font_size_px=round(style.font_size, 4), font_weight=style.font_weight,
             status=status, reason=reason, bg_alternatives=alts, exempt=exempt,
             fg_cause=fg_cause, bg_layers=layers, bg_cause=bg_cause, surround=surround))
 
-    def _core(self, el, style, chain, kind, suffix):
-        xpath = el.getroottree().getpath(el) + suffix
+    def _core(self, el, style, chain, kind):
         if kind == "svg-text" and style.svg_fill is not None:
             text_colour, fg_cause = style.svg_fill
         elif style.fill_color is not None:
             text_colour, fg_cause = style.fill_color
         else:
             text_colour, fg_cause = style.color, style.color_cause
+        inherited_at = None
         if fg_cause is not None and fg_cause.declaration is not None and style.color_inherited \
                 and text_colour is style.color:
-            fg_cause = Cause(fg_cause.declaration, _inherited_from(chain), fg_cause.chain)
+            inherited_at = _inherited_index(chain)
         reasons = []
         for _, s in chain:
             for prop, value, _decl in s.effects:
@@ -307,8 +316,8 @@ class PageWalker:
         status = UNDETERMINED if reasons else DETERMINED
         exempt = "disabled control (WCAG 1.4.3 exempts inactive user-interface components)" \
             if style.disabled or any(s.disabled for _, s in chain) else ""
-        return (xpath, fg, bg, text_colour, status, "; ".join(reasons), alts, exempt, fg_cause,
-                tuple(layers), bg_cause, surround)
+        return (fg, bg, text_colour, status, "; ".join(reasons), alts, exempt, fg_cause,
+                inherited_at, tuple(layers), bg_cause, surround)
 
     def _paint(self, chain, top):
         """(text pixel, background pixel) pairs for ``top`` painted in the element.
@@ -331,33 +340,33 @@ class PageWalker:
                 for f, b in options]
 
     def _layers(self, chain):
+        """Background layers, top-most first, as (chain index, kind, colour, cause)."""
         layers, bg_cause, reason, surround = [], None, "", None
         opaque_seen = False
-        for wrapper, s in reversed(chain):
-            xp = wrapper.etree_element.getroottree().getpath(wrapper.etree_element) \
-                if wrapper is not None else ""
+        for at in range(len(chain) - 1, -1, -1):
+            s = chain[at][1]
             if s.images and not opaque_seen:
                 images, cause = s.images
                 for kind, data in images:
                     if kind == "url":
-                        reason = f"background image {data} at {xp}"
-                        layers.append(Layer(xp, "image", None, cause))
+                        reason = f"background image {data}"
+                        layers.append((at, "image", None, cause))
                     else:
-                        layers.append(Layer(xp, "gradient", data[0], cause))
+                        layers.append((at, "gradient", data[0], cause))
                         if bg_cause is None:
                             bg_cause = cause
             if s.bg[3] > 0 and not opaque_seen:
-                layers.append(Layer(xp, "background-color", s.bg, s.bg_cause))
+                layers.append((at, "background-color", s.bg, s.bg_cause))
                 if bg_cause is None:
                     bg_cause = s.bg_cause
             elif s.bg[3] > 0 and surround is None:
                 surround = s.bg[:3]
             if s.opacity < 1:
-                layers.append(Layer(xp, "opacity", (0, 0, 0, s.opacity), s.opacity_cause))
+                layers.append((at, "opacity", (0, 0, 0, s.opacity), s.opacity_cause))
             if s.bg[3] >= 1 and not opaque_seen:
                 opaque_seen = True
         if not opaque_seen:
-            layers.append(Layer("", "canvas", self.canvas, None))
+            layers.append((None, "canvas", self.canvas, None))
         return layers, bg_cause, reason, surround
 
 
@@ -384,13 +393,20 @@ def _dedupe(colours):
     return out
 
 
-def _inherited_from(chain):
-    """XPath of the nearest ancestor whose colour was set, not inherited."""
-    for wrapper, s in reversed(chain[:-1]):
+def _inherited_index(chain):
+    """Index in the chain of the nearest ancestor whose colour was set, not inherited."""
+    for at in range(len(chain) - 2, -1, -1):
+        wrapper, s = chain[at]
         if wrapper is not None and not s.color_inherited:
-            el = wrapper.etree_element
-            return el.getroottree().getpath(el)
+            return at
     return None
+
+
+def _path_at(chain, at, getpath):
+    if at is None:
+        return ""
+    wrapper = chain[at][0]
+    return getpath(wrapper.etree_element) if wrapper is not None else ""
 
 
 def _focusable(el, tag) -> bool:
