@@ -35,7 +35,12 @@ def fake_engine(monkeypatch, tmp_path):
         report.findings = engine.evaluate(page.samples, options)
         return report
 
+    def iter_pages(paths, options, judged=False):
+        calls.append((paths, options))
+        yield PageResult("a.html", list(samples[state["which"]]))
+
     monkeypatch.setattr(engine, "check_paths", check_paths)
+    monkeypatch.setattr(engine, "iter_pages", iter_pages)
     site = tmp_path / "site"
     site.mkdir()
     return calls, state, str(site)

@@ -10,6 +10,7 @@ import textwrap
 import traceback
 
 from tinctura import engine, problems, report, rules
+from tinctura.model import Diagnostic
 from tinctura.report import messages as m
 from tinctura.report.status import ERROR, FAIL_ON, exit_status
 from tinctura.report.terminal import TerminalWriter
@@ -200,8 +201,10 @@ def all_samples(pages) -> list:
 
 def run_check(args, stdout, stderr) -> int:
     check_inputs(args.paths)
-    result = engine.check_paths(list(args.paths), options_from(args))
-    found = problems.group(result.findings, all_samples(result.pages))
+    options = options_from(args)
+    options.keep_samples = False  # the report needs counts, findings and declaration uses
+    result = engine.check_paths(list(args.paths), options)
+    found = problems.group(result.findings, uses=result.uses)
     header = report.Header(
         version=version(),
         level=args.level,
@@ -220,10 +223,16 @@ def run_pairs(args, stdout, stderr) -> int:
     from tinctura.report.json_report import sample_dict
 
     check_inputs(args.paths)
-    result = engine.check_paths(list(args.paths), options_from(args))
-    with output(args.output, stdout) as stream:
-        for sample in all_samples(result.pages):
-            stream.write(json.dumps(sample_dict(sample), ensure_ascii=False) + "\n")
+    result = engine.Report()
+    with output(args.output, stdout) as stream:  # streamed page by page: memory stays flat
+        for page in engine.iter_pages(list(args.paths), options_from(args)):
+            if isinstance(page, Diagnostic):
+                result.diagnostics.append(page)
+                continue
+            for sample in page.samples:
+                stream.write(json.dumps(sample_dict(sample), ensure_ascii=False) + "\n")
+            page.samples = []
+            result.pages.append(page)
     for d in diagnostics_of(result):
         if d.severity != "error":
             stderr.write(f"{PROG}: {d.severity}: {where(d)}: {d.message}\n")

@@ -17,6 +17,7 @@ import fnmatch
 import os
 import re
 
+from . import problems as problems_mod
 from .colour import wcag
 from .colour.composite import over
 from .extract import schemes as scheme_mod
@@ -36,6 +37,7 @@ class Options:
     exclude: tuple = ()  # glob patterns on page paths
     jobs: int = 1
     rules: tuple = ()  # rule codes or slugs to run; empty: all
+    keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
 
 
 @dataclass
@@ -44,6 +46,7 @@ class Report:
     findings: list = field(default_factory=list)  # list[model.Finding]
     diagnostics: list = field(default_factory=list)  # site-wide diagnostics
     schemes: list = field(default_factory=list)  # list[model.Scheme] evaluated
+    uses: dict = field(default_factory=dict)  # declaration -> {background: schemes} (problems)
 
 
 _REFRESH = re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", re.I)
@@ -157,53 +160,92 @@ def judge_gradients(samples, level: str) -> None:
 def check_paths(paths, options: Options | None = None) -> Report:
     """Check site directories and single HTML files; pages in a stable order.
 
-    With ``options.jobs > 1`` the pages of a site are spread over processes in contiguous
-    chunks (so each worker's style cache stays warm); results keep the single-process order.
+    Each page is judged as soon as it is checked. With ``keep_samples=False`` its samples are
+    then reduced to counts and to the backgrounds each colour declaration meets (what the
+    grouping into problems needs), so memory does not grow with the number of samples.
     """
     options = options or Options()
     report = Report()
-    for path in paths:
-        if os.path.isdir(path):
-            site = Site(path, options)
-            pages = site.pages()
-            if not pages:
-                report.diagnostics.append(Diagnostic(path, "no HTML pages found",
-                                                     severity="error"))
-            report.pages.extend(_check_site_pages(site, pages, options))
-        elif os.path.isfile(path):
-            site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
-            report.pages.append(site.check_page(os.path.basename(path)))
-        else:
-            report.diagnostics.append(Diagnostic(path, "no such file or directory",
-                                                 severity="error"))
     seen = {}
-    for page in report.pages:
-        report.findings.extend(evaluate(page.samples, options))
+    for item in iter_pages(paths, options, judged=True):
+        if isinstance(item, Diagnostic):
+            report.diagnostics.append(item)
+            continue
+        page, findings, uses = item
+        report.pages.append(page)
+        report.findings.extend(findings)
+        problems_mod.merge_uses(report.uses, uses)
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
     return report
 
 
-_WORKER_SITE = None
+def iter_pages(paths, options: Options, judged: bool = False):
+    """Yield, in a stable order, a PageResult per page (or ``(page, findings, uses)`` when
+    ``judged``) and a Diagnostic per path that cannot be read.
+
+    With ``options.jobs > 1`` the pages of a site are spread over processes in contiguous
+    chunks (so each worker's style cache stays warm); results keep the single-process order.
+    """
+    for path in paths:
+        if os.path.isdir(path):
+            site = Site(path, options)
+            pages = site.pages()
+            if not pages:
+                yield Diagnostic(path, "no HTML pages found", severity="error")
+            yield from _site_pages(site, pages, options, judged)
+        elif os.path.isfile(path):
+            site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
+            yield from _site_pages(site, [os.path.basename(path)], options, judged)
+        else:
+            yield Diagnostic(path, "no such file or directory", severity="error")
 
 
-def _worker_init(root, options):
-    global _WORKER_SITE
-    _WORKER_SITE = Site(root, options)
+def _process(site, rel, options, judged):
+    page = site.check_page(rel)
+    if not judged:
+        return page
+    findings = evaluate(page.samples, options)
+    uses = problems_mod.declaration_uses(page.samples)
+    if not options.keep_samples:
+        page.stats = _stats(page.samples)
+        page.samples = []
+    return page, findings, uses
+
+
+def _stats(samples) -> dict:
+    undetermined = {}
+    for s in samples:
+        if s.status == UNDETERMINED and not s.exempt:
+            key = s.reason or "unknown"
+            undetermined[key] = undetermined.get(key, 0) + 1
+    return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
+            "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples})}
+
+
+_WORKER = None
+
+
+def _worker_init(root, options, judged):
+    global _WORKER
+    _WORKER = (Site(root, options), options, judged)
 
 
 def _worker_check(rel):
-    return _WORKER_SITE.check_page(rel)
+    site, options, judged = _WORKER
+    return _process(site, rel, options, judged)
 
 
-def _check_site_pages(site, pages, options):
+def _site_pages(site, pages, options, judged):
     jobs = max(1, int(options.jobs or 1))
     if jobs == 1 or len(pages) < 2 * jobs:
-        return [site.check_page(rel) for rel in pages]
+        for rel in pages:
+            yield _process(site, rel, options, judged)
+        return
     import multiprocessing
 
-    chunk = max(1, min(50, len(pages) // (jobs * 4)))
+    chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if hasattr(os, "fork") else "spawn")
-    with ctx.Pool(jobs, initializer=_worker_init, initargs=(site.root, options)) as pool:
-        return list(pool.imap(_worker_check, pages, chunksize=chunk))
+    with ctx.Pool(jobs, initializer=_worker_init, initargs=(site.root, options, judged)) as pool:
+        yield from pool.imap(_worker_check, pages, chunksize=chunk)

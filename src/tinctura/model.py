@@ -153,6 +153,9 @@ class PageResult:
     skipped: dict = field(default_factory=dict)  # reason -> count
     diagnostics: list = field(default_factory=list)  # list[Diagnostic]
     schemes: list = field(default_factory=list)  # list[Scheme] evaluated on this page
+    # When samples are dropped to save memory (large sites), their counts stay here:
+    # {"samples": n, "exempt": n, "undetermined": {reason: n}, "schemes": [names]}
+    stats: Optional[dict] = None
 
 
 @dataclass(frozen=True)

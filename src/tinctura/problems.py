@@ -99,17 +99,20 @@ def target_declaration(cause: Optional[Cause]) -> Optional[Declaration]:
     return steps[-1] if steps else None
 
 
-def group(findings, samples=()) -> list:
+def group(findings, samples=(), uses=None) -> list:
     """Group ``findings`` into problems, largest first.
 
     ``samples`` (optional, every sample of the run) widens the fix at the cause: the new value
     must also keep passing wherever the same declaration is used without a finding today,
     in every scheme, so one declaration never receives two conflicting suggestions.
+    ``uses`` is that information already gathered (``declaration_uses``, merged with
+    ``merge_uses`` page by page when samples are not kept).
     """
     buckets: dict = {}
     for finding in findings:
         buckets.setdefault(problem_key(finding), []).append(finding)
-    uses = declaration_uses(samples)
+    if uses is None:
+        uses = declaration_uses(samples)
     problems = []
     for members in buckets.values():
         first = members[0]
@@ -145,6 +148,14 @@ def declaration_uses(samples) -> dict:
             continue
         _add_backgrounds(uses.setdefault(declaration, {}), s)
     return uses
+
+
+def merge_uses(into: dict, more: dict) -> dict:
+    for declaration, backgrounds in more.items():
+        bucket = into.setdefault(declaration, {})
+        for bg, schemes in backgrounds.items():
+            bucket.setdefault(bg, set()).update(schemes)
+    return into
 
 
 def _add_backgrounds(bucket: dict, sample) -> None:

@@ -22,6 +22,8 @@ from .convert import (
     srgb_to_oklab,
     to_polar,
 )
+from functools import lru_cache
+
 from .wcag import contrast_ratio, relative_luminance
 
 _BISECT_LIGHTNESS = 32  # 1 / 2**32 of the lightness range: far below one 8-bit step
@@ -37,12 +39,12 @@ def nearest_passing_foreground(fg, bg, required: float):
     unrounded contrast ratio, or None when no colour of that hue can reach the ratio. A
     foreground that already passes is returned unchanged.
     """
-    return _nearest(fg, (bg,), required)
+    return _nearest_cached(_key(fg), (_key(bg),), float(required))
 
 
 def nearest_passing_background(fg, bg, required: float):
     """Nearest colour to ``bg`` (same hue) reaching ``required`` against ``fg``."""
-    return _nearest(bg, (fg,), required)
+    return _nearest_cached(_key(bg), (_key(fg),), float(required))
 
 
 def passing_foreground_for_all(fg, bgs, required: float):
@@ -50,10 +52,20 @@ def passing_foreground_for_all(fg, bgs, required: float):
 
     The ratio returned is the lowest over the backgrounds.
     """
-    bgs = tuple(bgs)
+    bgs = tuple(_key(b) for b in bgs)
     if not bgs:
         return None
-    return _nearest(fg, bgs, required)
+    return _nearest_cached(_key(fg), bgs, float(required))
+
+
+def _key(rgb) -> tuple:
+    return tuple(float(c) for c in rgb[:3])
+
+
+@lru_cache(maxsize=8192)
+def _nearest_cached(colour, others, required):
+    # A site repeats the same few colour pairs thousands of times; a search costs ~3 ms.
+    return _nearest(colour, others, required)
 
 
 def _worst_ratio(rgb, others):

@@ -12,6 +12,7 @@ import re
 from .media import Environment
 from .siblings import SiblingIndex
 
+EVALUATED_STATES = re.compile(r":(hover|focus)", re.I)
 ATTR_IN_SELECTOR = re.compile(r"\[\s*([\w:-]+)")
 ATTR_TEST = re.compile(r"""\[\s*([\w:-]+)\s*(?:([~|^$*]?=)\s*("[^"\\]*"|'[^'\\]*'|[\w-]+)\s*([is])?\s*)?\]""",
                        re.I)
@@ -97,6 +98,43 @@ class Index:
                 self.by_attr.setdefault(rule.attr_names[0], []).append(entry)
             else:
                 self.other.append(entry)
+        # only the states tinctura evaluates: :visited, :target, :active never hold here
+        self.dynamic_rules = [r for r in rules if r.dynamic and not r.compiled.never_matches
+                              and EVALUATED_STATES.search(r.selector_text)]
+        d = {"id": set(), "class": set(), "tag": set(), "attr": set(), "other": False}
+        for r in self.dynamic_rules:
+            c = r.compiled
+            if c.id is not None:
+                d["id"].add(c.id)
+            elif c.class_name is not None:
+                d["class"].add(c.class_name)
+            elif c.local_name is not None:
+                d["tag"].add(c.lower_local_name)
+            elif r.attr_names and not r.attr_names[0].startswith("data-tinctura-state-"):
+                d["attr"].add(r.attr_names[0])
+            else:
+                d["other"] = True
+        self.dynamic_buckets = d
+
+    def state_can_matter(self, wrapper) -> bool:
+        """Could a rule with a dynamic pseudo-class style an element in this subtree?
+
+        Only the buckets are consulted (no selector is run): a cheap filter that keeps every
+        element a state rule might reach."""
+        d = self.dynamic_buckets
+        if d["other"]:
+            return True
+        for el in wrapper.etree_element.iter():
+            if not isinstance(el.tag, str):
+                continue
+            if el.tag.lower() in d["tag"] or el.get("id") in d["id"]:
+                return True
+            cls = el.get("class")
+            if cls and not d["class"].isdisjoint(cls.split()):
+                return True
+            if not d["attr"].isdisjoint(el.attrib.keys()):
+                return True
+        return False
 
     def match(self, wrapper) -> list:
         """StyleRules whose selector matches, in no particular order."""

@@ -121,11 +121,13 @@ class PageWalker:
         self.interactive = []
         self.state = REST
         self._walk([(root_wrapper, ROOT_PARENT, 0, True, ())], collect=states)
-        if states and self.interactive:
+        if states and self.interactive and self.index.dynamic_rules:
             rest = {(s.xpath, s.kind): (s.fg, s.bg) for s in self.samples}
+            self._path_memo = {}
             for state, on_self, on_path in STATES:
                 for wrapper in self.interactive:
-                    self._state(wrapper, state, on_self, on_path, rest)
+                    if self.index.state_can_matter(wrapper):
+                        self._state(wrapper, state, on_self, on_path, rest)
             self.state = REST
         return self.samples
 
@@ -188,17 +190,28 @@ class PageWalker:
                     marked.append((el, attr))
         try:
             parent_style, parent_id, chain = ROOT_PARENT, 0, ()
+            memo = self._path_memo
             for k, w in enumerate(path):
                 el = w.etree_element
+                if w is not target:  # ancestors carry the same state for every target below
+                    hit = memo.get((el, state))
+                    if hit is not None:
+                        if hit is False:
+                            return
+                        parent_style, parent_id, chain = hit
+                        continue
                 prev_id, following = self.meta.get(el, (0, 0))
                 kid = self.cache.intern(self._key(el, parent_id, prev_id, following))
                 style = self.style_for(w, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
+                    if w is not target:
+                        memo[(el, state)] = False
                     return
                 if w is target:
                     break
                 chain = chain + ((w, style),)
                 parent_style, parent_id = style, kid
+                memo[(el, state)] = (parent_style, parent_id, chain)
             before = len(self.samples)
             self.state = state
             self._walk([(target, parent_style, kid, False, chain)])

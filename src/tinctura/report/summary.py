@@ -38,6 +38,9 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
     undetermined = Counter(
         s.reason or "unknown" for s in samples if s.status != DETERMINED and not s.exempt
     )
+    kept = [page.stats for page in pages if page.stats is not None]  # samples dropped
+    for stats in kept:
+        undetermined.update(stats["undetermined"])
     skipped: Counter = Counter()
     for page in pages:
         skipped.update(page.skipped)
@@ -46,10 +49,11 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
     by_page = Counter(f.sample.page for f in findings)
     names = [getattr(s, "name", s) for s in schemes]
     if not names:
-        names = sorted({s.scheme for s in samples})
+        names = sorted({s.scheme for s in samples} |
+                       {n for stats in kept for n in stats["schemes"]})
     return Summary(
         pages=len(pages),
-        samples=len(samples),
+        samples=len(samples) + sum(stats["samples"] for stats in kept),
         findings=len(findings),
         problems=len(problems),
         by_severity=by_severity,
@@ -58,7 +62,7 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         by_scheme=dict(sorted(Counter(f.sample.scheme for f in findings).items())),
         undetermined=sum(undetermined.values()),
         undetermined_reasons=dict(sorted(undetermined.items())),
-        exempt=sum(1 for s in samples if s.exempt),
+        exempt=sum(1 for s in samples if s.exempt) + sum(stats["exempt"] for stats in kept),
         skipped=dict(sorted(skipped.items())),
         diagnostics=len(diagnostics) + sum(len(p.diagnostics) for p in pages),
         schemes=names,
