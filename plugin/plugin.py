@@ -29,12 +29,13 @@ log = get_plugin_logger(__name__)
 class PageRecord:
     """What one page produced, and the digest of the HTML it was computed from."""
 
-    __slots__ = ("digest", "result", "findings")
+    __slots__ = ("digest", "result", "findings", "uses")
 
-    def __init__(self, digest, result, findings):
+    def __init__(self, digest, result, findings, uses):
         self.digest = digest
-        self.result = result
+        self.result = result  # PageResult with samples reduced to counts (memory stays flat)
         self.findings = findings
+        self.uses = uses  # declaration -> backgrounds, for fixes at the cause
 
 
 def digest(html: str) -> str:
@@ -107,7 +108,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
     def check(self, rel: str, html: str | None, key: str | None) -> None:
         result = self.get_site().check_page(rel, html=html)
         findings = engine.evaluate(result.samples, self.options)
-        self.records[rel] = PageRecord(key, result, findings)
+        uses = problems.declaration_uses(result.samples)
+        result.stats = engine.sample_stats(result.samples)
+        result.samples = []
+        self.records[rel] = PageRecord(key, result, findings, uses)
         self.stale.discard(rel)
 
     # -- events ----------------------------------------------------------------------------
@@ -136,9 +140,11 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         records = [self.records[rel] for rel in sorted(self.records)]
         pages = [r.result for r in records]
         findings = [f for r in records for f in r.findings]
-        samples = [s for page in pages for s in page.samples]
-        found = problems.group(findings, samples)
-        schemes = sorted({s.scheme for s in samples})
+        uses = {}
+        for r in records:
+            problems.merge_uses(uses, r.uses)
+        found = problems.group(findings, uses=uses)
+        schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         self.log_results(found, findings, many_schemes=len(schemes) > 1)
         for page in pages:
             for d in page.diagnostics:

@@ -209,12 +209,13 @@ def _process(site, rel, options, judged):
     findings = evaluate(page.samples, options)
     uses = problems_mod.declaration_uses(page.samples)
     if not options.keep_samples:
-        page.stats = _stats(page.samples)
+        page.stats = sample_stats(page.samples)
         page.samples = []
     return page, findings, uses
 
 
-def _stats(samples) -> dict:
+def sample_stats(samples) -> dict:
+    """What the summary needs of a page's samples once they are dropped."""
     undetermined = {}
     for s in samples:
         if s.status == UNDETERMINED and not s.exempt:
