@@ -20,6 +20,20 @@ class PositiveInt(c.BaseConfigOption[int]):
         return value
 
 
+class Schemes(c.BaseConfigOption[list]):
+    """Colour schemes that replace discovery: a list of {name, media, attributes}."""
+
+    def run_validation(self, value: object) -> list:
+        if value is None:
+            return None
+        from tinctura.extract.schemes import from_setting
+
+        try:
+            return from_setting(value)
+        except ValueError as exc:
+            raise base.ValidationError(str(exc)) from None
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -28,3 +42,4 @@ class TincturaConfig(base.Config):
     viewport_width = PositiveInt(default=1280)
     states = c.Type(bool, default=True)  # also check :hover / :focus / :focus-visible
     log_every = c.Type(bool, default=False)  # one log line per occurrence, not per problem
+    schemes = Schemes()  # None: discover the schemes from each page

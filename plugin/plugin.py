@@ -64,6 +64,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             level=self.config.level,
             viewport_width=self.config.viewport_width,
             states=self.config.states,
+            schemes=self.config.schemes,
         )
 
     def on_pre_build(self, *, config) -> None:

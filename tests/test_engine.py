@@ -58,3 +58,30 @@ def test_trace_names_the_custom_property_chain(site):
     assert [d.property for d in sample.fg_cause.chain] == ["--faint"]
     # ":root{" is six characters, so the declaration starts in column 7 (columns count from 1)
     assert sample.fg_cause.chain[0].where() == "site.css:1:7"
+
+
+def test_schemes_setting_overrides_discovery(tmp_path):
+    from tinctura.extract.schemes import from_setting
+
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html><head><style>body[data-mode=night]{background:#000;color:#333}'
+        '</style></head><body><p>t</p></body></html>')
+    schemes = from_setting([{"name": "day"}, {"name": "night", "media": {
+        "prefers-color-scheme": "dark"}, "attributes": [
+        {"selector": "body", "attribute": "data-mode", "value": "night"}]}])
+    report = check_paths([str(tmp_path)], Options(schemes=schemes))
+    got = {s.scheme: (to_hex(s.fg), to_hex(s.bg)) for s in report.pages[0].samples}
+    # the literals in the stylesheet above, applied only where the attribute is set
+    assert got == {"day": ("#000000", "#ffffff"), "night": ("#333333", "#000000")}
+
+
+@pytest.mark.parametrize("bad, message", [
+    ([], "non-empty"), ([{"media": {}}], "name is required"),
+    ([{"name": "a"}, {"name": "a"}], "used twice"),
+    ([{"name": "a", "attributes": [{"selector": "body"}]}], "selector, attribute and value"),
+])
+def test_schemes_setting_errors_name_the_problem(bad, message):
+    from tinctura.extract.schemes import from_setting
+
+    with pytest.raises(ValueError, match=message):
+        from_setting(bad)

@@ -17,7 +17,8 @@ def test_defaults():
     plugin = TincturaPlugin()
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
-                                   "viewport_width": 1280, "states": True, "log_every": False}
+                                   "viewport_width": 1280, "states": True, "log_every": False,
+                                   "schemes": None}
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -26,6 +27,7 @@ def test_defaults():
     ("exclude", "drafts/*.md", "Expected a list"),
     ("viewport_width", 0, "at least 1"),
     ("viewport_width", True, "whole number"),
+    ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "Expected type: <class 'bool'>"),
     ("log_every", 1, "Expected type: <class 'bool'>"),

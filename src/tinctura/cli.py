@@ -75,6 +75,9 @@ def _site_options(p: argparse.ArgumentParser) -> None:
                    help="check only the resting state, not :hover / :focus / :focus-visible")
     p.add_argument("--exclude", action="append", default=[], metavar="GLOB",
                    help="skip pages whose site-relative path matches GLOB (repeatable)")
+    p.add_argument("--schemes", metavar="FILE",
+                   help="JSON list of colour schemes ({name, media, attributes}) replacing "
+                        "discovery")
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
 
 
@@ -155,7 +158,24 @@ def options_from(args) -> engine.Options:
         states=not args.no_states,
         exclude=tuple(args.exclude),
         jobs=args.jobs,
+        schemes=load_schemes(args.schemes) if getattr(args, "schemes", None) else None,
     )
+
+
+def load_schemes(path: str) -> list:
+    """Schemes from a JSON file (the same structure as the plugin's `schemes` option)."""
+    from tinctura.extract.schemes import from_setting
+
+    try:
+        with open(path, encoding="utf-8") as fh:
+            data = json.load(fh)
+        return from_setting(data)
+    except OSError as exc:
+        raise UsageError(f"{path}: cannot read: {exc.strerror}") from None
+    except json.JSONDecodeError as exc:
+        raise UsageError(f"{path}: not valid JSON: {exc}") from None
+    except ValueError as exc:
+        raise UsageError(f"{path}: {exc}") from None
 
 
 def check_inputs(paths) -> None:

@@ -102,3 +102,41 @@ def _select(root, selector):
     wrapper = cssselect2.ElementWrapper.from_html_root(root)
     compiled = cssselect2.compile_selector_list(tinycss2.parse_component_value_list(selector))
     return [w.etree_element for w in wrapper.iter_subtree() if any(c.test(w) for c in compiled)]
+
+
+def from_setting(entries) -> list:
+    """Schemes from a setting (plugin option or JSON file), overriding discovery.
+
+    Each entry: ``{"name": "dark", "media": {"prefers-color-scheme": "dark"},
+    "attributes": [{"selector": "body", "attribute": "data-theme", "value": "dark"}]}``.
+    Raises ValueError naming the entry and what is wrong.
+    """
+    if not isinstance(entries, list) or not entries:
+        raise ValueError("schemes must be a non-empty list")
+    out, names = [], set()
+    for n, entry in enumerate(entries, 1):
+        where = f"scheme #{n}"
+        if not isinstance(entry, dict):
+            raise ValueError(f"{where}: expected a mapping with name, media, attributes")
+        unknown = set(entry) - {"name", "media", "attributes"}
+        if unknown:
+            raise ValueError(f"{where}: unknown keys {', '.join(sorted(unknown))}")
+        name = entry.get("name")
+        if not isinstance(name, str) or not name.strip():
+            raise ValueError(f"{where}: a name is required")
+        if name in names:
+            raise ValueError(f"{where}: the name {name!r} is used twice")
+        names.add(name)
+        media = entry.get("media") or {}
+        if not isinstance(media, dict) or not all(isinstance(k, str) and isinstance(v, str)
+                                                  for k, v in media.items()):
+            raise ValueError(f"{where} ({name}): media must map feature names to values")
+        attrs = []
+        for a in entry.get("attributes") or []:
+            if not isinstance(a, dict) or set(a) != {"selector", "attribute", "value"} or \
+                    not all(isinstance(v, str) for v in a.values()):
+                raise ValueError(f"{where} ({name}): each attribute needs selector, attribute "
+                                 "and value (strings)")
+            attrs.append((a["selector"], a["attribute"], a["value"]))
+        out.append(Scheme(name, tuple(sorted(media.items())), tuple(attrs), "setting"))
+    return out
