@@ -141,7 +141,8 @@ def evaluate(samples, options: Options) -> list:
 
 
 def judge_gradients(samples, level: str) -> None:
-    """Text over a gradient is judged only when every stop agrees; otherwise undetermined."""
+    """Text with several possible backgrounds (gradient stops, an outlining text shadow) is
+    judged only when all of them agree; otherwise it is undetermined."""
     for s in samples:
         if not s.bg_alternatives or s.status == UNDETERMINED or s.fg is None:
             continue
@@ -153,8 +154,8 @@ def judge_gradients(samples, level: str) -> None:
             ratios.append(wcag.contrast_ratio(fg, bg))
         if min(ratios) < required <= max(ratios):
             s.status = UNDETERMINED
-            s.reason = (f"gradient: the stops disagree ({min(ratios):.2f}:1 to "
-                        f"{max(ratios):.2f}:1 against {required:g}:1)")
+            s.reason = (f"backgrounds disagree (gradient stops or an outlining text shadow): "
+                        f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1 against {required:g}:1")
 
 
 def check_paths(paths, options: Options | None = None) -> Report:

@@ -215,3 +215,13 @@ def test_font_size_units(render):
     assert light(s, "a").font_size_px == 24.0
     assert light(s, "b").font_size_px == 24.0
     assert light(s, "c").font_size_px == 40.0
+
+
+def test_outlining_text_shadow_is_a_second_background(render):
+    # An outline-like shadow (offsets <= 2px, blur <= 4px; common practice) hugs the glyphs,
+    # so the text must read against the shadow colour too; a drop shadow leaves it alone.
+    s = render('<p style="color:#fff;text-shadow:0 0 2px #000">a</p>'
+               '<p style="color:#777;text-shadow:4px 4px 8px #000">b</p>')
+    outlined, dropped = light(s, "a"), light(s, "b")
+    assert outlined.status == "determined" and outlined.bg_alternatives == ((0.0, 0.0, 0.0),)
+    assert dropped.status == "determined" and dropped.bg_alternatives == ()

@@ -314,10 +314,12 @@ class PageWalker:
         if fg_cause is not None and fg_cause.declaration is not None and style.color_inherited \
                 and text_colour is style.color:
             inherited_at = _inherited_index(chain)
-        reasons = []
+        reasons, shadow = [], None
         for _, s in chain:
             for prop, value, _decl in s.effects:
-                if prop == "text-shadow" and s is not style:
+                if prop == "text-shadow":
+                    if s is style:  # inherited into the style already
+                        shadow = value
                     continue
                 reasons.append(f"{prop}: {value}")
         layers, bg_cause, image_reason, surround = self._layers(chain)
@@ -326,6 +328,12 @@ class PageWalker:
             reasons.append(image_reason)
         fg, bg = pairs[0]
         alts = tuple(b for _, b in pairs[1:])  # the other gradient stops' backgrounds
+        if shadow is not None:
+            outline = outline_shadows(shadow, text_colour, style)
+            if outline:
+                # an outline-like shadow hugs every glyph: the text reads against it as much
+                # as against the background, so it is one more background to pass against
+                alts = alts + tuple(tuple(over(c, bg + (1.0,))[:3]) for c in outline)
         status = UNDETERMINED if reasons else DETERMINED
         exempt = "disabled control (WCAG 1.4.3 exempts inactive user-interface components)" \
             if style.disabled or any(s.disabled for _, s in chain) else ""
@@ -381,6 +389,47 @@ class PageWalker:
         if not opaque_seen:
             layers.append((None, "canvas", self.canvas, None))
         return layers, bg_cause, reason, surround
+
+
+# An outline-like text shadow: offsets and blur this small surround each glyph (common
+# practice for legibility halos; not a published threshold).
+SHADOW_MAX_OFFSET_PX = 2.0
+SHADOW_MAX_BLUR_PX = 4.0
+
+
+def outline_shadows(value: str, text_colour, style) -> list:
+    """Colours of the shadows in ``value`` when every one of them outlines the glyphs.
+
+    Returns [] for drop shadows (offset or blurred away from the text), which leave the text
+    against its background.
+    """
+    import tinycss2
+
+    from .values import LengthContext, length, significant
+
+    ctx = LengthContext(style.font_size, 16.0)
+    colours = []
+    for part in value.split(","):
+        tokens = significant(tinycss2.parse_component_value_list(part))
+        lengths, colour = [], None
+        for t in tokens:
+            v = length(t, ctx) if t.type in ("dimension", "number") else None
+            if v is not None:
+                lengths.append(v)
+                continue
+            c = parse_color([t], current=text_colour, scheme=style.scheme)
+            if isinstance(c, tuple):
+                colour = c
+        if colour is None:
+            colour = text_colour  # a shadow without a colour uses currentcolor
+        if len(lengths) < 2 or colour[3] <= 0:
+            continue
+        ox, oy = lengths[0], lengths[1]
+        blur = lengths[2] if len(lengths) > 2 else 0.0
+        if max(abs(ox), abs(oy)) > SHADOW_MAX_OFFSET_PX or blur > SHADOW_MAX_BLUR_PX:
+            return []
+        colours.append(colour)
+    return colours
 
 
 def _paints(style):
