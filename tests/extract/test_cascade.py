@@ -225,3 +225,11 @@ def test_outlining_text_shadow_is_a_second_background(render):
     outlined, dropped = light(s, "a"), light(s, "b")
     assert outlined.status == "determined" and outlined.bg_alternatives == ((0.0, 0.0, 0.0),)
     assert dropped.status == "determined" and dropped.bg_alternatives == ()
+
+
+def test_text_shadow_with_a_functional_colour(render):
+    # the commas inside rgba() do not separate shadows
+    s = render('<div style="background:#2fa4e7"><p style="color:#fff;'
+               'text-shadow:0 1px 0 rgba(0,0,0,.05)">a</p></div>')
+    (alt,) = light(s, "a").bg_alternatives
+    assert hexes(light(s, "a"))[1] == "#2fa4e7" and alt != (1.0, 1.0, 1.0)

@@ -405,12 +405,12 @@ def outline_shadows(value: str, text_colour, style) -> list:
     """
     import tinycss2
 
-    from .values import LengthContext, length, significant
+    from .values import LengthContext, length, significant, split_commas
 
     ctx = LengthContext(style.font_size, 16.0)
     colours = []
-    for part in value.split(","):
-        tokens = significant(tinycss2.parse_component_value_list(part))
+    for part in split_commas(tinycss2.parse_component_value_list(value)):
+        tokens = significant(part)
         lengths, colour = [], None
         for t in tokens:
             v = length(t, ctx) if t.type in ("dimension", "number") else None

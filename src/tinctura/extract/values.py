@@ -67,7 +67,7 @@ def length(token, ctx: LengthContext):
 
 def _math(fn, ctx):
     name = fn.lower_name
-    args = _split_commas(fn.arguments)
+    args = split_commas(fn.arguments)
     if name == "calc":
         return _sum(significant(fn.arguments), ctx) if len(args) == 1 else None
     values = [_sum(significant(a), ctx) for a in args]
@@ -82,7 +82,8 @@ def _math(fn, ctx):
     return None
 
 
-def _split_commas(tokens):
+def split_commas(tokens):
+    """Top-level comma-separated parts of a token list."""
     parts, current = [], []
     for t in tokens:
         if t.type == "literal" and t.value == ",":
@@ -209,7 +210,7 @@ def font_shorthand(tokens):
 def gradient_stops(fn, current, scheme) -> list | None:
     """Colours of a gradient's stops, or None if one cannot be parsed."""
     colours = []
-    for part in _split_commas(fn.arguments):
+    for part in split_commas(fn.arguments):
         sig = significant(part)
         if not sig:
             continue
@@ -234,7 +235,7 @@ def background_layers(tokens, current, scheme):
     """
     colour = None
     images = []
-    layers = _split_commas(tokens)
+    layers = split_commas(tokens)
     for index, layer in enumerate(layers):
         for t in significant(layer):
             kind = _image_kind(t)
@@ -272,7 +273,7 @@ def _image(t, kind, current, scheme):
 
 def background_images(tokens, current, scheme) -> list:
     images = []
-    for layer in _split_commas(tokens):
+    for layer in split_commas(tokens):
         for t in significant(layer):
             kind = _image_kind(t)
             if kind:
