@@ -1,0 +1,2 @@
+project = "Harbour lamp manual"
+html_theme = "furo"
