@@ -1,0 +1,51 @@
+"""Provenance: which declaration, in which stylesheet and line, produced each colour.
+
+The expected declarations are the ones written in each document, chosen by the cascade rules of
+CSS Cascading and Inheritance Level 5 (W3C); lines and columns count from 1 as in the source.
+"""
+from conftest import hexes
+
+
+def one(samples, text, scheme="light"):
+    return samples[(scheme, "rest", text)]
+
+
+def test_inherited_colour_names_the_ancestor(render):
+    s = render('<div class="box"><p><span>t</span></p></div>', ".box{color:#123456}")
+    cause = one(s, "t").fg_cause
+    assert cause.declaration.selector == ".box" and cause.declaration.value == "#123456"
+    assert cause.inherited_from == "/html/body/div"
+
+
+def test_inline_style_and_important(render):
+    s = render('<p style="color:#010101">a</p><p class="imp" style="color:#010101">b</p>',
+               ".imp{color:#020202 !important}")
+    a, b = one(s, "a").fg_cause.declaration, one(s, "b").fg_cause.declaration
+    assert (a.origin, a.sheet, a.value) == ("inline", "style attribute", "#010101")
+    assert (b.origin, b.selector, b.important) == ("author", ".imp", True)
+
+
+def test_custom_property_chain_outermost_first(render):
+    css = ":root{--ink-2:#00000089}\n.x{--body-ink:var(--ink-2)}\n.x p{color:var(--body-ink)}"
+    s = render('<div class="x"><p>t</p></div>', css)
+    cause = one(s, "t").fg_cause
+    assert cause.declaration.value == "var(--body-ink)"
+    assert [(d.property, d.value, d.line) for d in cause.chain] == [
+        ("--body-ink", "var(--ink-2)", 2), ("--ink-2", "#00000089", 1)]
+
+
+def test_user_agent_default(render):
+    s = render('<a href="#x">t</a>')
+    d = one(s, "t").fg_cause.declaration
+    # HTML Rendering 15.3.4: :link { color: LinkText } (#0000ee in the light scheme)
+    assert (d.origin, d.value) == ("user-agent", "LinkText") and hexes(one(s, "t"))[0] == "#0000ee"
+
+
+def test_background_from_a_grand_ancestor_and_opacity_layer(render):
+    s = render('<section class="band"><div class="fade"><p>t</p></div></section>',
+               ".band{background:#203040} .fade{opacity:.5}")
+    sample = one(s, "t")
+    kinds = [(layer.kind, layer.xpath) for layer in sample.bg_layers]
+    assert ("background-color", "/html/body/section") in kinds
+    assert ("opacity", "/html/body/section/div") in kinds
+    assert sample.bg_cause.declaration.selector == ".band"
