@@ -233,3 +233,17 @@ def test_text_shadow_with_a_functional_colour(render):
                'text-shadow:0 1px 0 rgba(0,0,0,.05)">a</p></div>')
     (alt,) = light(s, "a").bg_alternatives
     assert hexes(light(s, "a"))[1] == "#2fa4e7" and alt != (1.0, 1.0, 1.0)
+
+
+def test_svg_text_fill_and_shapes_behind(render):
+    # SVG 2, 13.2 'fill': initial value black; presentation attributes count as author
+    # declarations of specificity 0; earlier shapes in the same <svg> may lie under the text
+    body = ('<svg width="200" height="60"><text x="5" y="20">plain</text>'
+            '<text x="5" y="40" fill="#777777">attr</text></svg>'
+            '<svg><rect width="200" height="60" fill="#000"/><text fill="#fff">on shape</text></svg>')
+    s = render(body, "svg text.x{fill:#123456}")
+    assert hexes(light(s, "plain"))[0] == "#000000"
+    assert hexes(light(s, "attr"))[0] == "#777777"
+    assert light(s, "attr").fg_cause.declaration.origin == "presentation"
+    on_shape = light(s, "on shape")
+    assert on_shape.bg_alternatives == ((0.0, 0.0, 0.0),)

@@ -15,11 +15,13 @@ from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
 from .html import own_text
 from .sheet import STATE_ATTR, parse_declarations
-from .style import ROOT_PARENT, Resolver, cascade
+from .style import BLACK, NO_FILL, ROOT_PARENT, Resolver, Winner, cascade
 
 NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
                      "select", "option", "optgroup", "iframe", "object", "canvas", "video",
                      "audio", "img", "input", "br", "wbr", "math"})
+SVG_TEXT = frozenset({"text", "tspan", "textpath"})
+SVG_SHAPES = frozenset({"rect", "circle", "ellipse", "path", "polygon", "polyline"})
 INTERACTIVE = frozenset({"a", "button", "input", "select", "textarea", "summary"})
 FORM_CONTROLS = frozenset({"button", "input", "select", "textarea", "optgroup", "option",
                            "fieldset"})
@@ -95,6 +97,13 @@ class PageWalker:
         inline = el.get("style")
         inline_decls = parse_declarations(inline) if inline else ()
         winners = cascade(rules, inline_decls, self.ruleset)
+        fill = el.get("fill")
+        if fill is not None and "fill" not in winners:
+            # SVG presentation attribute: an author declaration below every style rule
+            decl = parse_declarations(f"fill:{fill}")
+            if decl:
+                decl[0].line = el.sourceline or 0
+                winners["fill"] = Winner(decl[0], None, "presentation", (2, 0, -1, (0, 0, 0), -1))
         ua_winners = None
         if any(w.decl.text.lower() in ("revert", "revert-layer") for w in winners.values()):
             ua_winners = cascade([r for r in rules if r.origin == "user-agent"], (), self.ruleset)
@@ -119,6 +128,7 @@ class PageWalker:
         root_wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
         self.meta = {}
         self.interactive = []
+        self._svg_shapes = {}
         self.state = REST
         self._walk([(root_wrapper, ROOT_PARENT, 0, True, ())], collect=states)
         if states and self.interactive and self.index.dynamic_rules:
@@ -148,6 +158,8 @@ class PageWalker:
                 continue
             chain = chain + ((wrapper, style),)
             tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            if tag in SVG_SHAPES and style.visibility == "visible":
+                self._shape(el, style)
             if collect and _focusable(el, tag) and not style.disabled:
                 self.interactive.append(wrapper)
             self._texts(wrapper, el, tag, style, chain, key_id)
@@ -277,16 +289,26 @@ class PageWalker:
         if any(s.visually_hidden for _, s in chain):
             self.skipped["visually hidden"] = self.skipped.get("visually hidden", 0) + 1
             return
-        kind = "svg-text" if tag in ("text", "tspan", "textpath") else "text"
-        self._emit(el, style, chain, text, kind, ("text", key_id))
+        if tag in SVG_TEXT:
+            shapes = tuple(self._svg_shapes.get(_svg_root(el), ()))
+            self._emit(el, style, chain, text, "svg-text", ("svg", key_id, shapes),
+                       shapes=shapes)
+            return
+        self._emit(el, style, chain, text, "text", ("text", key_id))
 
-    def _emit(self, el, style, chain, text, kind, core_key, suffix=""):
+    def _shape(self, el, style):
+        """Record an SVG shape's fill: later text in the same <svg> may lie on it."""
+        fill = style.svg_fill[0] if style.svg_fill is not None else BLACK  # SVG initial fill
+        if fill[3] > 0:
+            self._svg_shapes.setdefault(_svg_root(el), []).append(fill)
+
+    def _emit(self, el, style, chain, text, kind, core_key, suffix="", shapes=()):
         """Append a Sample. The colour work is cached by style key; anything positional
         (XPaths of the element, of the ancestor a colour is inherited from, of background
         layers) is filled in here, because elements sharing a key may stand elsewhere."""
         core = self.cache.cores.get(core_key)
         if core is None:
-            core = self._core(el, style, chain, kind)
+            core = self._core(el, style, chain, kind, shapes)
             self.cache.cores[core_key] = core
         fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, inherited_at, layers, \
             bg_cause, surround = core
@@ -303,9 +325,10 @@ class PageWalker:
             status=status, reason=reason, bg_alternatives=alts, exempt=exempt,
             fg_cause=fg_cause, bg_layers=layers, bg_cause=bg_cause, surround=surround))
 
-    def _core(self, el, style, chain, kind):
-        if kind == "svg-text" and style.svg_fill is not None:
-            text_colour, fg_cause = style.svg_fill
+    def _core(self, el, style, chain, kind, shapes=()):
+        if kind == "svg-text":  # SVG text paints with fill, initially black
+            text_colour, fg_cause = style.svg_fill if style.svg_fill is not None else (
+                BLACK, Cause())
         elif style.fill_color is not None:
             text_colour, fg_cause = style.fill_color
         else:
@@ -328,6 +351,10 @@ class PageWalker:
             reasons.append(image_reason)
         fg, bg = pairs[0]
         alts = tuple(b for _, b in pairs[1:])  # the other gradient stops' backgrounds
+        if shapes:
+            # Shapes drawn earlier in the same <svg> may lie under the text; where exactly is
+            # geometry tinctura does not compute, so each fill is one more possible background.
+            alts = alts + tuple(tuple(over(c, bg + (1.0,))[:3]) for c in shapes)
         if shadow is not None:
             outline = outline_shadows(shadow, text_colour, style)
             if outline:
@@ -469,6 +496,12 @@ def _path_at(chain, at, getpath):
         return ""
     wrapper = chain[at][0]
     return getpath(wrapper.etree_element) if wrapper is not None else ""
+
+
+def _svg_root(el):
+    while el is not None and el.tag != "svg":
+        el = el.getparent()
+    return el
 
 
 def _focusable(el, tag) -> bool:

@@ -19,6 +19,7 @@ INHERITED = frozenset({"color", "visibility", "font-size", "font-weight", "color
 GLOBAL_KEYWORDS = frozenset({"inherit", "initial", "unset", "revert", "revert-layer"})
 BLACK = (0.0, 0.0, 0.0, 1.0)
 TRANSPARENT = (0.0, 0.0, 0.0, 0.0)
+NO_FILL = (TRANSPARENT, Cause())  # SVG `fill: none`
 _ALL_PROPERTIES = ("color", "background-color", "background-image", "opacity", "display",
                    "visibility", "font-size", "font-weight", "color-scheme",
                    "-webkit-text-fill-color", "text-shadow", "filter", "mix-blend-mode",
@@ -36,8 +37,10 @@ class Winner:
 
     def provenance(self, name=None) -> Declaration:
         if self.rule is None:
-            return Declaration(name or self.decl.name, self.decl.text, "style attribute",
-                               self.decl.line, "", "inline", self.decl.important)
+            where = "presentation attribute" if self.origin == "presentation" else \
+                "style attribute"
+            return Declaration(name or self.decl.name, self.decl.text, where,
+                               self.decl.line, "", self.origin, self.decl.important)
         return Declaration(name or self.decl.name, self.decl.text, self.rule.sheet, self.decl.line,
                            self.rule.selector_text, self.origin, self.decl.important,
                            self.decl.column)
@@ -343,7 +346,11 @@ class Resolver:
             c = parse_color(toks, current=s.color, scheme=s.scheme) if toks else None
             if c == "currentcolor":
                 c = s.color
-            s.svg_fill = (c, Cause(w.provenance(), None, chain)) if isinstance(c, tuple) else None
+            if isinstance(c, tuple):
+                s.svg_fill = (c, Cause(w.provenance(), None, chain))
+            elif toks and V.significant(toks) and V.significant(toks)[0].type == "ident" \
+                    and V.significant(toks)[0].lower_value == "none":
+                s.svg_fill = NO_FILL
 
         # background colour and images (not inherited)
         kind, w = keyword("background-color")
