@@ -247,3 +247,14 @@ def test_svg_text_fill_and_shapes_behind(render):
     assert light(s, "attr").fg_cause.declaration.origin == "presentation"
     on_shape = light(s, "on shape")
     assert on_shape.bg_alternatives == ((0.0, 0.0, 0.0),)
+
+
+def test_numbered_list_markers_are_text(render):
+    # HTML Rendering 15.3.8: ol is list-style-type decimal, li is display list-item; the
+    # marker takes the li's colour unless ::marker sets one (CSS Lists 3)
+    s = render('<ol start="3"><li>a</li><li class="m">b</li></ol><ul><li>c</li></ul>',
+               "li{color:#222222} li.m::marker{color:#aaaaaa}")
+    assert hexes(light(s, "3."))[0] == "#222222"
+    assert hexes(light(s, "4."))[0] == "#aaaaaa"
+    assert light(s, "4.").xpath == "/html/body/ol/li[2]::marker"
+    assert not any(k[2].endswith(".") and k[2] != "3." and k[2] != "4." for k in s)

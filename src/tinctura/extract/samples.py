@@ -20,6 +20,8 @@ from .style import BLACK, NO_FILL, ROOT_PARENT, Resolver, Winner, cascade
 NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
                      "select", "option", "optgroup", "iframe", "object", "canvas", "video",
                      "audio", "img", "input", "br", "wbr", "math"})
+GLYPH_MARKERS = frozenset({"none", "disc", "circle", "square", "disclosure-open",
+                           "disclosure-closed", "string"})
 SVG_TEXT = frozenset({"text", "tspan", "textpath"})
 SVG_SHAPES = frozenset({"rect", "circle", "ellipse", "path", "polygon", "polyline"})
 INTERACTIVE = frozenset({"a", "button", "input", "select", "textarea", "summary"})
@@ -289,12 +291,28 @@ class PageWalker:
         if any(s.visually_hidden for _, s in chain):
             self.skipped["visually hidden"] = self.skipped.get("visually hidden", 0) + 1
             return
+        if tag == "li" and style.display == "list-item" and style.list_style not in GLYPH_MARKERS:
+            self._marker(el, style, chain, key_id)
         if tag in SVG_TEXT:
             shapes = tuple(self._svg_shapes.get(_svg_root(el), ()))
             self._emit(el, style, chain, text, "svg-text", ("svg", key_id, shapes),
                        shapes=shapes)
             return
         self._emit(el, style, chain, text, "text", ("text", key_id))
+
+    def _marker(self, el, style, chain, key_id):
+        """A numbered list item's marker is text ("3."); bullets are symbols and are not."""
+        parent = el.getparent()
+        if parent is None or parent.tag != "ol":
+            return
+        index = sum(1 for sib in parent[:parent.index(el)] if sib.tag == "li") + 1
+        start = parent.get("start")
+        if start and start.lstrip("-").isdigit():
+            index += int(start) - 1
+        ps = style.pseudo.get("marker") if style.pseudo else None
+        marker_style = ps if ps is not None else style
+        self._emit(el, marker_style, chain + ((None, marker_style),) if ps is not None else chain,
+                   f"{index}.", "marker", ("marker", key_id), "::marker")
 
     def _shape(self, el, style):
         """Record an SVG shape's fill: later text in the same <svg> may lie on it."""

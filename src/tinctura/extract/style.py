@@ -15,7 +15,7 @@ from ..model import Cause, Declaration
 from . import values as V
 
 INHERITED = frozenset({"color", "visibility", "font-size", "font-weight", "color-scheme",
-                       "-webkit-text-fill-color", "text-shadow", "fill"})
+                       "-webkit-text-fill-color", "text-shadow", "fill", "list-style-type"})
 GLOBAL_KEYWORDS = frozenset({"inherit", "initial", "unset", "revert", "revert-layer"})
 BLACK = (0.0, 0.0, 0.0, 1.0)
 TRANSPARENT = (0.0, 0.0, 0.0, 0.0)
@@ -90,6 +90,9 @@ def _offer(winners, d, rule, origin, key):
         _offer_one(winners, "background-color", d, rule, origin, key)
         _offer_one(winners, "background-image", d, rule, origin, key)
         return
+    if name == "list-style":
+        _offer_one(winners, "list-style-type", d, rule, origin, key)
+        return
     if name == "font":
         _offer_one(winners, "font-size", d, rule, origin, key)
         _offer_one(winners, "font-weight", d, rule, origin, key)
@@ -111,7 +114,7 @@ class Style:
     __slots__ = ("color", "color_cause", "color_inherited", "bg", "bg_cause", "images",
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
-                 "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo")
+                 "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style")
 
     def __init__(self):
         self.color = BLACK
@@ -134,6 +137,7 @@ class Style:
         self.content = None
         self.parent = None
         self.pseudo = None
+        self.list_style = "disc"
         self.has_opacity_above = False
         self.svg_fill = None
         self.disabled = False
@@ -407,6 +411,20 @@ class Resolver:
             effects.append(("background-clip", w.decl.text, w.provenance()))
         s.effects = tuple(effects)
 
+        kind, w = keyword("list-style-type")
+        s.list_style = parent.list_style
+        if kind == "value":
+            toks, _ = self.value(w, s)
+            sig = V.significant(toks or [])
+            idents = [t.lower_value for t in sig if t.type == "ident"]
+            strings = [t for t in sig if t.type == "string"]
+            if strings:
+                s.list_style = "string"
+            elif idents:  # in the shorthand, the type is the ident that is not a position
+                rest = [i for i in idents if i not in ("inside", "outside")]
+                s.list_style = rest[0] if rest else s.list_style
+        elif kind == "initial":
+            s.list_style = "disc"
         s.visually_hidden = self._visually_hidden(keyword, s)
         kind, w = keyword("content")
         if kind == "value":
