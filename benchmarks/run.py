@@ -98,11 +98,12 @@ class TreeSampler(threading.Thread):
 
     def run(self):
         while not self._halt.is_set():
-            pids, todo = [], [self.pid]
+            pids, todo = set(), [self.pid]
             while todo:
                 p = todo.pop()
-                pids.append(p)
-                todo.extend(_children(p))
+                if p not in pids:
+                    pids.add(p)
+                    todo.extend(_children(p))
             total = sum(_pss_kb(p) for p in pids)
             self.peak_kb = max(self.peak_kb, total)
             self.max_procs = max(self.max_procs, len(pids))
@@ -439,32 +440,42 @@ def report_size(res: dict, jobs: int) -> dict:
         print(f"   {label:<30}{m['wall_s']:9.2f}{m['cpu_s']:9.2f}{n / m['wall_s']:9.1f}"
               f"{m['peak_rss_mb']:13.1f}{m['tree_peak_mb']:9.1f}  {note}")
 
-    def ratio(a, b, minus_one=False):
-        if s.get(a) is None or s.get(b) is None:
+    def ratio(a, b, key="wall_s", minus_one=False):
+        if s.get(a) is None or s.get(b) is None or not s[b][key]:
             return None
-        r = s[a]["wall_s"] / s[b]["wall_s"]
+        r = s[a][key] / s[b][key]
         return r - 1 if minus_one else r
+
+    def pct(v):
+        return "n/a" if v is None else f"{v * 100:+.1f} %"
 
     check_build = ratio("check_1", "build")
     plugin_over = ratio("build_plugin", "build", minus_one=True)
     check_parse = ratio("check_1", "parse_only")
+    cpu = {"check_over_build": ratio("check_1", "build", "cpu_s"),
+           "plugin_overhead": ratio("build_plugin", "build", "cpu_s", minus_one=True),
+           "check_over_parse": ratio("check_1", "parse_only", "cpu_s")}
     speedup = ratio("check_1", "check_n") if "check_n" in s else None
     peak = s["check_1"]["peak_rss_mb"] if s.get("check_1") else None
-    print(f"   {'ratio':<44}{'measured':>10}  target")
-    print(f"   {'check (1 core) / build':<44}{fmt(check_build):>10}  "
-          f"<= {TARGET_CHECK_OVER_BUILD} (aim {AIM_CHECK_OVER_BUILD})  "
-          f"{verdict(check_build, TARGET_CHECK_OVER_BUILD)}")
-    print(f"   {'plugin build / build - 1':<44}{fmt(None if plugin_over is None else plugin_over * 100, '+.1f') + (' %' if plugin_over is not None else ''):>10}  "
-          f"<= +{TARGET_PLUGIN_OVERHEAD * 100:.0f} %  {verdict(plugin_over, TARGET_PLUGIN_OVERHEAD)}")
-    print(f"   {'check (1 core) / parse-only':<44}{fmt(check_parse):>10}  "
-          f"<= {TARGET_CHECK_OVER_PARSE}  {verdict(check_parse, TARGET_CHECK_OVER_PARSE)}")
+    print(f"   {'ratio':<34}{'wall':>10}{'cpu':>10}  target (judged on wall)")
+    print(f"   {'check (1 core) / build':<34}{fmt(check_build):>10}"
+          f"{fmt(cpu['check_over_build']):>10}  <= {TARGET_CHECK_OVER_BUILD} "
+          f"(aim {AIM_CHECK_OVER_BUILD})  {verdict(check_build, TARGET_CHECK_OVER_BUILD)}")
+    print(f"   {'plugin build / build - 1':<34}{pct(plugin_over):>10}"
+          f"{pct(cpu['plugin_overhead']):>10}  <= +{TARGET_PLUGIN_OVERHEAD * 100:.0f} %  "
+          f"{verdict(plugin_over, TARGET_PLUGIN_OVERHEAD)}")
+    print(f"   {'check (1 core) / parse-only':<34}{fmt(check_parse):>10}"
+          f"{fmt(cpu['check_over_parse']):>10}  <= {TARGET_CHECK_OVER_PARSE}  "
+          f"{verdict(check_parse, TARGET_CHECK_OVER_PARSE)}")
     if "check_n" in res["runs"]:
-        print(f"   {f'check speed-up with --jobs {jobs}':<44}{fmt(speedup):>10}  (information)")
-    print(f"   {'check (1 core) peak RSS MB':<44}{fmt(peak, '.1f'):>10}  "
+        print(f"   {f'check speed-up with --jobs {jobs}':<34}{fmt(speedup):>10}{'':>10}  "
+              "(information)")
+    print(f"   {'check (1 core) peak RSS MB':<34}{fmt(peak, '.1f'):>10}{'':>10}  "
           f"< {TARGET_PEAK_MB:.0f}  {verdict(peak, TARGET_PEAK_MB)}")
     return {"pages": n, "site": st, "steps": s, "ratios": {
         "check_over_build": check_build, "plugin_overhead": plugin_over,
-        "check_over_parse": check_parse, "jobs_speedup": speedup, "check_peak_rss_mb": peak}}
+        "check_over_parse": check_parse, "jobs_speedup": speedup, "check_peak_rss_mb": peak,
+        "cpu": cpu}}
 
 
 def report_memory(summaries: list[dict]) -> dict | None:
@@ -533,7 +544,8 @@ def main(argv=None) -> int:
     for n, st in plan:
         res = bench_size(n, args, env, st)
         results.append(res)
-    print("\n================ results (wall = median of runs; ratios from wall times)")
+    print("\n================ results (median of runs; a loaded machine stretches wall time, "
+          "CPU time less so)")
     for res in results:
         summaries.append(report_size(res, args.jobs))
     memory = report_memory(summaries)

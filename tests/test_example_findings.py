@@ -64,3 +64,18 @@ def test_undetermined_samples_say_why(report):
     assert "background image" in reasons and "backgrounds disagree" in reasons
     exempt = [s for p in report.pages for s in p.samples if s.exempt]
     assert exempt and all("disabled" in s.exempt for s in exempt)
+
+
+@pytest.mark.slow
+def test_shared_caches_change_nothing(tmp_path_factory):
+    """Styles, states and whole subtrees are shared across pages; a page checked after all
+    the others must give exactly what a fresh checker gives (fields and order)."""
+    from tinctura.engine import Site
+
+    site = build_example_site(tmp_path_factory.mktemp("site"), tmp_path_factory.mktemp("cfg"))
+    warm = Site(str(site), Options())
+    pages = warm.pages()
+    for rel in pages:
+        warm.check_page(rel)
+    for rel in pages:
+        assert warm.check_page(rel).samples == Site(str(site), Options()).check_page(rel).samples
