@@ -24,7 +24,7 @@ from .extract import schemes as scheme_mod
 from .extract.html import parse_html
 from .extract.loader import SheetLoader
 from .extract.media import Environment
-from .extract.samples import PageWalker, StyleCache, fingerprints
+from .extract.samples import PageWalker, StyleCache
 from .model import UNDETERMINED, Diagnostic, PageResult
 
 
@@ -104,7 +104,6 @@ class Site:
             result.diagnostics.extend(diags)
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
             result.schemes = list(schemes)
-            prints = fingerprints(root)  # before any scheme sets attributes
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 try:
@@ -116,8 +115,7 @@ class Site:
                         cache = self._caches[key] = StyleCache()
                     preferred = scheme.media_value("prefers-color-scheme", "light")
                     walker = PageWalker(rel, root, index, ruleset, None, scheme.name, preferred,
-                                        cache, self.options.viewport_width, result.skipped,
-                                        prints)
+                                        cache, self.options.viewport_width, result.skipped)
                     result.samples.extend(walker.walk(states=self.options.states))
                 finally:
                     restore()

@@ -11,7 +11,6 @@ from __future__ import annotations
 import dataclasses
 
 import cssselect2
-import lxml.etree
 
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
@@ -47,8 +46,7 @@ class StyleCache:
         self.cores = {}
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
         self.attr_sigs = {}
-        self.subtrees = {}  # (key, hash of the subtree's HTML) -> its samples, all states
-        self.seen = set()
+
 
     def intern(self, key) -> int:
         ident = self.ids.get(key)
@@ -58,17 +56,14 @@ class StyleCache:
                 self.styles.clear()
                 self.cores.clear()
                 self.states.clear()
-                self.subtrees.clear()
-                self.seen.clear()
             ident = self.ids[key] = len(self.ids) + 1
         return ident
 
 
 class PageWalker:
     def __init__(self, page, root, index, ruleset, ua_index, scheme, preferred, cache,
-                 viewport_width, skipped, prints=None):
+                 viewport_width, skipped):
         self.page = page
-        self.fingerprints = prints if prints is not None else fingerprints(root)
         self.root = root
         self.index = index
         self.ruleset = ruleset
@@ -152,73 +147,23 @@ class PageWalker:
         self.meta = {}
         self.interactive = []
         self._svg_shapes = {}
-        self._recording = []
         self.state = REST
-        self._walk([(root_wrapper, ROOT_PARENT, 0, True, ())], collect=states, memo=True)
-        spans = {}  # interactive index -> [(start, end)] of its state samples
+        self._walk([(root_wrapper, ROOT_PARENT, 0, True, ())], collect=states)
         if states and self.interactive and self.index.dynamic_rules:
-            rest = {(s.xpath, s.kind): (s.fg, s.bg) for s in self.samples if s.state == REST}
+            rest = {(s.xpath, s.kind): (s.fg, s.bg) for s in self.samples}
             self._path_memo = {}
             for state, on_self, on_path in STATES:
-                self.state = state
-                for i, (wrapper, kid) in enumerate(self.interactive):
-                    start = len(self.samples)
-                    if isinstance(wrapper, str):  # a repeated subtree's samples in this state
-                        self._replay_state(kid, state)
-                    elif self.index.state_can_matter(wrapper):
+                for wrapper, kid in self.interactive:
+                    if self.index.state_can_matter(wrapper):
                         self._state_shared(wrapper, kid, state, on_self, on_path, rest)
-                    spans.setdefault(i, []).append((state, start, len(self.samples)))
             self.state = REST
-        self._keep_templates(spans)
         return self.samples
 
-    # -- whole subtrees repeated across pages ------------------------------------------------
-    def _subtree_key(self, el, key_id):
-        return (key_id, self.fingerprints[el])
-
-    def _replay(self, template, el):
-        """Emit a repeated subtree's resting samples now; its state samples wait for the state
-        pass (a placeholder among the interactive elements), so the order of the samples is the
-        one a full walk gives, whatever the caches held (identical results with --jobs N)."""
-        old_base, old_line, by_state, skipped = template
-        base = el.getroottree().getpath(el)
-        shift = (el.sourceline or 0) - old_line
-        for reason, n in skipped.items():
-            self.skipped[reason] = self.skipped.get(reason, 0) + n
-        for sample in by_state.get(REST, ()):
-            self.samples.append(_moved(sample, self.page, old_base, base, el, shift))
-        if len(by_state) > 1:
-            self.interactive.append(("replay", (template, el, base, shift)))
-
-    def _replay_state(self, replay, state):
-        template, el, base, shift = replay
-        for sample in template[2].get(state, ()):
-            self.samples.append(_moved(sample, self.page, template[0], base, el, shift))
-
-    def _keep_templates(self, spans):
-        for mkey, el, base, start, end, first, last, skipped_before, skipped_after in \
-                self._recording:
-            if end is None:
-                continue
-            by_state = {REST: self.samples[start:end]}
-            for i in range(first, last):
-                for state, a, b in spans.get(i, ()):
-                    by_state.setdefault(state, []).extend(self.samples[a:b])
-            skipped = {k: v - skipped_before.get(k, 0) for k, v in skipped_after.items()
-                       if v - skipped_before.get(k, 0)}
-            self.cache.subtrees[mkey] = (base, el.sourceline or 0, by_state, skipped)
-
-    def _walk(self, stack, collect=False, memo=False):
+    def _walk(self, stack, collect=False):
         intern = self.cache.intern
         meta = self.meta
         while stack:
-            item = stack.pop()
-            if item[0] == "exit":  # a recorded subtree is complete
-                rec = self._recording[item[1]]
-                rec[4], rec[6], rec[8] = len(self.samples), len(self.interactive), \
-                    dict(self.skipped)
-                continue
-            wrapper, parent_style, key_id, is_root, chain = item
+            wrapper, parent_style, key_id, is_root, chain = stack.pop()
             el = wrapper.etree_element
             style = self.style_for(wrapper, parent_style, key_id, is_root)
             if is_root:
@@ -233,26 +178,10 @@ class PageWalker:
             tag = el.tag.lower() if isinstance(el.tag, str) else ""
             if tag in SVG_SHAPES and style.visibility == "visible":
                 self._shape(el, style)
-            children = wrapper.etree_children
-            recording = None
-            if memo and len(children) >= 2 and not is_root and tag not in ("body", "svg"):
-                mkey = self._subtree_key(el, key_id)
-                template = self.cache.subtrees.get(mkey)
-                if template is not None:
-                    self._replay(template, el)
-                    continue
-                if mkey in self.cache.seen:  # second sighting: keep a template this time
-                    recording = len(self._recording)
-                    self._recording.append([mkey, el, el.getroottree().getpath(el),
-                                            len(self.samples), None, len(self.interactive), None,
-                                            dict(self.skipped), None])
-                else:
-                    self.cache.seen.add(mkey)
             if collect and _focusable(el, tag) and not style.disabled:
                 self.interactive.append((wrapper, key_id))
             self._texts(wrapper, el, tag, style, chain, key_id)
-            if recording is not None:
-                stack.append(("exit", recording))
+            children = wrapper.etree_children
             if not children:
                 continue
             tags = [c.tag for c in children]
@@ -639,23 +568,6 @@ def _moved(sample, page, old_base, base, el, shift):
         line=(sample.line + shift) if sample.line else 0, fg_cause=fg_cause,
         bg_layers=tuple(dataclasses.replace(layer, xpath=_rebase(layer.xpath, old_base, el))
                         for layer in sample.bg_layers))
-
-
-def fingerprints(root) -> dict:
-    """A hash of every element's subtree (tags, attributes, text), children first.
-
-    One pass per page; two subtrees with the same hash and the same style key produce the
-    same samples, so a repeated navigation is walked once per site.
-    """
-    out = {}
-    for _, el in lxml.etree.iterwalk(root, events=("end",)):
-        parts = [el.tag if isinstance(el.tag, str) else "#", el.text]
-        parts.extend(el.attrib.items()) if isinstance(el.tag, str) else None
-        for child in el:
-            parts.append(out.get(child) if isinstance(child.tag, str) else child.text)
-            parts.append(child.tail)
-        out[el] = hash(tuple(parts))
-    return out
 
 
 def _rebase(xpath, old_base, el):
