@@ -12,19 +12,7 @@ from tinctura.rules import run
 from tinctura.rules.examples import make_sample
 
 
-def _lin(c):
-    return c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4
-
-
-def luminance(rgb):
-    if isinstance(rgb, str):
-        rgb = tuple(int(rgb[i:i + 2], 16) / 255 for i in (1, 3, 5))
-    return 0.2126 * _lin(rgb[0]) + 0.7152 * _lin(rgb[1]) + 0.0722 * _lin(rgb[2])
-
-
-def ratio(a, b):
-    la, lb = sorted((luminance(a), luminance(b)))
-    return (lb + 0.05) / (la + 0.05)
+from wcag_reference import luminance, ratio  # noqa: E402  (WCAG 2.2 formulas)
 
 
 def decl(prop, value, line, sheet="assets/site.css", selector=".x"):

@@ -6,6 +6,7 @@ example's HTML itself, so the documentation and the checked page cannot drift ap
 import re
 
 import pytest
+from wcag_reference import ratio
 
 from tinctura import engine
 from tinctura.colour.convert import to_hex
@@ -51,13 +52,8 @@ def test_example_html_renders_what_the_docs_say(tmp_path, rule, which):
 
 
 def _ratio(a, b):
-    """WCAG 2.2 definitions of relative luminance and contrast ratio, written out as reference."""
-    def lum(hex_colour):
-        c = [int(hex_colour[i:i + 2], 16) / 255 for i in (1, 3, 5)]
-        c = [x / 12.92 if x <= 0.04045 else ((x + 0.055) / 1.055) ** 2.4 for x in c]
-        return 0.2126 * c[0] + 0.7152 * c[1] + 0.0722 * c[2]
-    la, lb = sorted((lum(a), lum(b)))
-    return (lb + 0.05) / (la + 0.05)
+    """WCAG 2.2 contrast ratio (tests/wcag_reference.py), the reference for quoted ratios."""
+    return ratio(a, b)
 
 
 @pytest.mark.parametrize("which", ["bad", "good"])
