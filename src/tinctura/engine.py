@@ -212,6 +212,8 @@ def _process(site, rel, options, judged):
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
         page.samples = []
+        for f in findings:  # reports name the causes; the layer list is for `pairs`/`trace`
+            f.sample.bg_layers = ()
     return page, findings, uses
 
 

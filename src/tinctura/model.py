@@ -17,7 +17,7 @@ UNDETERMINED = "undetermined"
 REST = "rest"  # the resting state; other states: "hover", "focus", "focus-visible"
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Scheme:
     """A colour scheme as a theme applies it: media features plus attribute overrides.
 
@@ -40,7 +40,7 @@ class Scheme:
 LIGHT = Scheme("light", (("prefers-color-scheme", "light"),))
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Declaration:
     """Where a value came from: one declaration in one stylesheet (or a style attribute)."""
 
@@ -60,7 +60,7 @@ class Declaration:
             f"{self.sheet}:{self.line}"
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Cause:
     """Why a computed colour is what it is.
 
@@ -80,7 +80,7 @@ class Cause:
         return head + tuple((c.sheet, c.line, c.column, c.property) for c in self.chain)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Layer:
     """One layer composited into an element's effective background (top-most first)."""
 
@@ -90,7 +90,7 @@ class Layer:
     cause: Optional[Cause] = None
 
 
-@dataclass
+@dataclass(slots=True)
 class Sample:
     """One rendered text (element x scheme x state) with its colours and how they arose."""
 
@@ -120,7 +120,7 @@ class Sample:
         return 1.0 if self.fg_raw is None else self.fg_raw[3]
 
 
-@dataclass
+@dataclass(slots=True)
 class Fix:
     """A suggested colour and the ratio it would reach."""
 
@@ -129,7 +129,7 @@ class Fix:
     ratio: float
 
 
-@dataclass
+@dataclass(slots=True)
 class Finding:
     """A rule's verdict on one sample: template and arguments, formatted late."""
 
@@ -144,7 +144,7 @@ class Finding:
     args: dict = field(default_factory=dict)  # extra template arguments
 
 
-@dataclass
+@dataclass(slots=True)
 class PageResult:
     """Everything one page produced: samples, skipped counts and diagnostics."""
 
@@ -158,7 +158,7 @@ class PageResult:
     stats: Optional[dict] = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Diagnostic:
     """A problem with the input (not with colours): unreadable file, bad CSS, remote sheet."""
 
