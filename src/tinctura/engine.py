@@ -7,15 +7,15 @@ Interface (stable; the CLI, the plugin and the benchmarks use only this):
   ``site.pages()`` lists the HTML pages (site-relative, sorted); ``site.check_page(rel, html=None)``
   returns a ``PageResult`` with samples (all schemes and states) and diagnostics.
 - ``check_paths(paths, options) -> Report``: everything for the CLI, pages in a stable order.
+- ``iter_pages(paths, options)``: the same, page by page (``tinctura pairs`` streams it).
 - ``evaluate(samples, options) -> list[Finding]``: run the rule set on samples.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-
 import fnmatch
 import os
 import re
+from dataclasses import dataclass, field
 
 from . import problems as problems_mod
 from .colour import wcag
@@ -109,12 +109,12 @@ class Site:
                 try:
                     env = Environment(self.options.viewport_width, scheme_media=scheme.media)
                     index = ruleset.index(env)
-                    key = (id(ruleset), env.key, scheme.attributes)
+                    key = (ruleset, env.key, scheme.attributes)  # identity: never reused
                     cache = self._caches.get(key)
                     if cache is None:
                         cache = self._caches[key] = StyleCache()
                     preferred = scheme.media_value("prefers-color-scheme", "light")
-                    walker = PageWalker(rel, root, index, ruleset, None, scheme.name, preferred,
+                    walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred,
                                         cache, self.options.viewport_width, result.skipped)
                     result.samples.extend(walker.walk(states=self.options.states))
                 finally:

@@ -61,13 +61,12 @@ class StyleCache:
 
 
 class PageWalker:
-    def __init__(self, page, root, index, ruleset, ua_index, scheme, preferred, cache,
+    def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
                  viewport_width, skipped):
         self.page = page
         self.root = root
         self.index = index
         self.ruleset = ruleset
-        self.ua_index = ua_index
         self.scheme = scheme
         self.cache = cache
         self.resolver = Resolver(ruleset, preferred, viewport_width)
