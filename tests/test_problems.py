@@ -12,7 +12,7 @@ from tinctura.rules import run
 from tinctura.rules.examples import make_sample
 
 
-from wcag_reference import luminance, ratio  # noqa: E402  (WCAG 2.2 formulas)
+from wcag_reference import ratio  # noqa: E402  (WCAG 2.2 formulas)
 
 
 def decl(prop, value, line, sheet="assets/site.css", selector=".x"):

@@ -9,7 +9,7 @@ from tinctura.rules.examples import make_sample
 from tinctura.rules.text import check_text_ratio
 
 
-from wcag_reference import luminance, ratio  # noqa: E402  (WCAG 2.2 formulas)
+from wcag_reference import ratio  # noqa: E402  (WCAG 2.2 formulas)
 
 
 def grey_with_ratio_on_white(target):

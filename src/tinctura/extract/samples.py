@@ -17,7 +17,7 @@ from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
 from .html import own_text
 from .sheet import STATE_ATTR, parse_declarations
-from .style import BLACK, NO_FILL, ROOT_PARENT, Resolver, Winner, cascade
+from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
 
 NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
                      "select", "option", "optgroup", "iframe", "object", "canvas", "video",

@@ -97,12 +97,8 @@ def split_commas(tokens):
 
 def _sum(tokens, ctx):
     """calc() sum of products; numbers only as factors (px values carry the unit)."""
-    total, sign, i = 0.0, 1.0, 0
-    term, term_is_len = None, False
-    pending_op = None
-    terms = []
-    # Tokenise into terms separated by + / - (tinycss2 keeps signs on numbers: "10px -2px")
-    current = []
+    total, sign = 0.0, 1.0
+    terms, current = [], []  # terms separated by + / -; each a product of factors
     for t in tokens:
         if t.type == "literal" and t.value in "+-":
             terms.append((sign, current))
