@@ -333,7 +333,7 @@ def bench_size(n_pages: int, args, env: dict, steps: list[str]) -> dict:
     py = sys.executable
     print(f"\n== {n_pages} pages: generating into {base}", flush=True)
     t0 = time.perf_counter()
-    generate(n_pages, base, seed=args.seed, plugin=False)
+    generate(n_pages, base, seed=args.seed, plugin=False, accent=args.accent)
     gen_s = time.perf_counter() - t0
 
     site = base / "site-plain"
@@ -511,6 +511,9 @@ def main(argv=None) -> int:
     ap.add_argument("--steps", default="build,build_plugin,check_1,check_n,parse_only",
                     help="comma-separated subset of the steps")
     ap.add_argument("--seed", type=int, default=7)
+    ap.add_argument("--accent", default="deep purple",
+                    help="light-scheme accent of the generated site; 'teal' makes every "
+                         "navigation link a hover/focus finding (N*N findings)")
     ap.add_argument("--timeout", type=float, default=1800, help="seconds per step")
     ap.add_argument("--out", type=Path, default=DEFAULT_OUT)
     args = ap.parse_args(argv)

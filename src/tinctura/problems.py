@@ -72,7 +72,12 @@ class Problem:
 
 
 def cause_key(cause: Optional[Cause]) -> tuple:
-    return cause.key() if cause is not None else ("unknown",)
+    """The declaration a fix would change: `color: var(--ink)` in ten rules is one cause,
+    `--ink`, so one faint theme variable is one problem wherever it is used."""
+    if cause is None:
+        return ("unknown",)
+    d = target_declaration(cause)
+    return (d.sheet, d.line, d.column, d.property, d.value) if d is not None else ("initial",)
 
 
 def problem_key(finding: Finding) -> tuple:
