@@ -6,6 +6,7 @@ declaration fixes them all. Pure: records in, records out.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from dataclasses import dataclass, field
 from typing import Optional
 
@@ -88,6 +89,7 @@ def problem_key(finding: Finding) -> tuple:
 _ALIAS = re.compile(r"^\s*var\(\s*--[^\s,()]+\s*(,.*)?\)\s*(!\s*important\s*)?$", re.I | re.S)
 
 
+@lru_cache(maxsize=4096)  # causes are shared records; a page asks about each many times
 def target_declaration(cause: Optional[Cause]) -> Optional[Declaration]:
     """The declaration that holds the colour expression, where a new value belongs.
 

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 from decimal import ROUND_FLOOR, Decimal
 
+from functools import lru_cache
+
 import numpy as np
 
 # WCAG 2.2 "large scale (text)": at least 18 pt, or 14 pt bold; 1 pt = 4/3 px
@@ -28,7 +30,12 @@ def _linear(c: float) -> float:
 
 def relative_luminance(rgb) -> float:
     """Relative luminance of an sRGB-encoded colour (alpha, if present, is ignored)."""
-    return 0.2126 * _linear(rgb[0]) + 0.7152 * _linear(rgb[1]) + 0.0722 * _linear(rgb[2])
+    return _luminance(rgb[0], rgb[1], rgb[2])
+
+
+@lru_cache(maxsize=65536)  # a site uses few colours, each thousands of times
+def _luminance(r: float, g: float, b: float) -> float:
+    return 0.2126 * _linear(r) + 0.7152 * _linear(g) + 0.0722 * _linear(b)
 
 
 def ratio_from_luminances(l1: float, l2: float) -> float:
