@@ -220,10 +220,12 @@ class PageWriter:
         r = self.rng
         kind = r.choice(ADMONITIONS)
         marker = "???" if r.random() < 0.2 else "!!!"
-        title = f'"{r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s"' if r.random() < 0.6 else ""
+        title = (f'"{r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s"'
+                 if r.random() < 0.6 else "")
         body = "    " + self.paragraph(2)
         if r.random() < 0.3:
-            body += "\n\n    - " + self.sentence(links=False) + "\n    - " + self.sentence(links=False)
+            first = self.sentence(links=False)
+            body += "\n\n    - " + first + "\n    - " + self.sentence(links=False)
         return f"{marker} {kind} {title}".rstrip() + "\n\n" + body
 
     def bullet_list(self) -> str:
@@ -234,7 +236,8 @@ class PageWriter:
             mark = f"{i + 1}." if ordered else "-"
             items.append(f"{mark} {self.sentence()}")
             if r.random() < 0.2:
-                items.append(f"    - `{r.choice(COMMANDS)} --{r.choice(IDENTS).replace('_', '-')}`")
+                command, option = r.choice(COMMANDS), r.choice(IDENTS).replace("_", "-")
+                items.append(f"    - `{command} --{option}`")
         return "\n".join(items)
 
     def render(self, title: str) -> str:
@@ -244,8 +247,9 @@ class PageWriter:
             out += [f'<span class="tw-badge">since 2.{self.index % 9}</span> '
                     f'<span class="tw-muted">Maintained by the {r.choice(ROLES)}.</span>', ""]
         blocks = [self.table, self.code_block, self.admonition, self.bullet_list, self.paragraph]
-        for h in range(r.randint(3, 5)):
-            out += [f"## {r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s", "", self.paragraph(), ""]
+        for _ in range(r.randint(3, 5)):
+            heading = f"## {r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s"
+            out += [heading, "", self.paragraph(), ""]
             for block in r.sample(blocks, k=r.randint(2, 4)):
                 out += [block(), ""]
             if r.random() < 0.5:
@@ -259,10 +263,11 @@ class PageWriter:
             out += [f'<p class="tw-callout">Tidal hold: berths close {r.randint(20, 90)} minutes '
                     f'before low water.</p>', ""]
         if self.index % 11 == 0:
-            out += [f'Also read <a class="tw-quiet-link" href="{relative_link(self.path, "index.md")}">'
-                    f'the overview</a>.', ""]
+            home = relative_link(self.path, "index.md")
+            out += [f'Also read <a class="tw-quiet-link" href="{home}">the overview</a>.', ""]
         if self.index % 13 == 0:
-            out += ['<span class="tw-warning-text">Check the tide table before confirming.</span>', ""]
+            out += ['<span class="tw-warning-text">Check the tide table before confirming.'
+                    '</span>', ""]
         if self.index % 17 == 0:
             out += ['<span style="color: #b4c8d8">Figures are provisional until the evening '
                     'ledger closes.</span>', ""]
@@ -286,12 +291,14 @@ def _yaml(r):
 
 
 def _bash(r):
-    return (f"$ {r.choice(COMMANDS)} --harbour brindlemoor --{r.choice(IDENTS).replace('_', '-')} {r.randint(1, 9)}\n"
+    command, option = r.choice(COMMANDS), r.choice(IDENTS).replace("_", "-")
+    return (f"$ {command} --harbour brindlemoor --{option} {r.randint(1, 9)}\n"
             f"$ {r.choice(COMMANDS)} --dry-run | grep -v {r.choice(ADJECTIVES)}")
 
 
 def _json(r):
-    return (f'{{\n  "berth": "B{r.randint(1, 40):02d}",\n  "{r.choice(IDENTS)}": {r.randint(0, 500)},\n'
+    return (f'{{\n  "berth": "B{r.randint(1, 40):02d}",\n'
+            f'  "{r.choice(IDENTS)}": {r.randint(0, 500)},\n'
             f'  "state": "{r.choice(ADJECTIVES)}",\n  "vessel": "{r.choice(VESSELS)}"\n}}')
 
 
