@@ -8,7 +8,7 @@ harbour office of the fictional town of Brindlemoor. Every page is listed in the
 (sections of about 20 pages), so each built page repeats a navigation of N links, as large
 documentation sites do. Pages mix headings, paragraphs with links and inline code, tables,
 highlighted code (some with line numbers), admonitions and lists. A custom stylesheet
-redefines a few custom properties per colour scheme and plants faint colours, so a checker
+redefines a few custom properties per colour scheme and plants faint colours, so the check
 has findings to report.
 
 Files written into OUTDIR:

@@ -201,7 +201,7 @@ def tail(path: str | Path, lines: int = 12) -> str:
 # --------------------------------------------------------------------------- parse-only mode
 
 def parse_only(site: Path) -> dict:
-    """The floor a checker cannot beat: parse every page and every stylesheet once."""
+    """The floor no check can go below: parse every page and every stylesheet once."""
     t0 = time.perf_counter()
     import lxml.html
     import tinycss2

@@ -124,18 +124,18 @@ const cache = new Map();
 function facts(el, pseudo) {
   const key = pseudo ? null : el;
   if (key && cache.has(key)) return cache.get(key);
-  const cs = getComputedStyle(el, pseudo || null);
+  const computed = getComputedStyle(el, pseudo || null);
   const f = {
-    el, pseudo, cs,
-    bg: parseColour(cs.backgroundColor) || [0, 0, 0, 0],
-    image: cs.backgroundImage,
-    opacity: parseFloat(cs.opacity),
+    el, pseudo, computed,
+    bg: parseColour(computed.backgroundColor) || [0, 0, 0, 0],
+    image: computed.backgroundImage,
+    opacity: parseFloat(computed.opacity),
     effects: [],
   };
-  if (cs.mixBlendMode !== "normal") f.effects.push("mix-blend-mode");
-  if (cs.filter !== "none") f.effects.push("filter");
-  if (cs.backdropFilter && cs.backdropFilter !== "none") f.effects.push("backdrop-filter");
-  if (cs.backgroundClip === "text" || cs.webkitBackgroundClip === "text") f.effects.push("background-clip:text");
+  if (computed.mixBlendMode !== "normal") f.effects.push("mix-blend-mode");
+  if (computed.filter !== "none") f.effects.push("filter");
+  if (computed.backdropFilter && computed.backdropFilter !== "none") f.effects.push("backdrop-filter");
+  if (computed.backgroundClip === "text" || computed.webkitBackgroundClip === "text") f.effects.push("background-clip:text");
   if (key) cache.set(key, f);
   return f;
 }
@@ -181,10 +181,10 @@ function zeroRect(clip) {  // computed clip: rect(top, right, bottom, left)
   return v.length === 4 && (v[1] <= v[3] || v[2] <= v[0]);
 }
 function visuallyHidden(e) {
-  const cs = facts(e).cs;
-  if (cs.position !== "absolute" && cs.position !== "fixed") return false;
-  if (zeroRect(cs.clip) || cs.clipPath === "inset(50%)") return true;
-  if (cs.overflow === "hidden" || cs.overflowX === "hidden" || cs.overflowY === "hidden" || cs.overflow === "clip") {
+  const computed = facts(e).computed;
+  if (computed.position !== "absolute" && computed.position !== "fixed") return false;
+  if (zeroRect(computed.clip) || computed.clipPath === "inset(50%)") return true;
+  if (computed.overflow === "hidden" || computed.overflowX === "hidden" || computed.overflowY === "hidden" || computed.overflow === "clip") {
     const r = e.getBoundingClientRect();
     if (r.width <= 1 || r.height <= 1) return true;
   }
@@ -199,7 +199,7 @@ function hiddenReason(el) {
     if (d && !(d.querySelector(":scope > summary") || {contains: () => false}).contains(el)) return "closed-details";
     return "display-none";
   }
-  if (facts(el).cs.visibility !== "visible") return "visibility";
+  if (facts(el).computed.visibility !== "visible") return "visibility";
   let o = 1;
   for (let e = el; e; e = e.parentElement) o *= facts(e).opacity;
   if (o <= 0) return "opacity";
@@ -211,7 +211,7 @@ function hiddenReason(el) {
 
 function canvasBase() {
   const html = document.documentElement;
-  let scheme = facts(html).cs.colorScheme;
+  let scheme = facts(html).computed.colorScheme;
   if (!scheme || scheme === "normal") {
     const meta = document.querySelector('meta[name="color-scheme"]');
     scheme = meta ? meta.content : "normal";
@@ -271,9 +271,9 @@ function paint(layers, text, swap) {
   return {fg, bg, reasons, gradients};
 }
 
-function textColour(cs) {
-  const fill = cs.webkitTextFillColor;
-  return fill && fill !== cs.color ? fill : cs.color;
+function textColour(computed) {
+  const fill = computed.webkitTextFillColor;
+  return fill && fill !== computed.color ? fill : computed.color;
 }
 
 function chainOf(el, pseudo) {
@@ -284,12 +284,12 @@ function chainOf(el, pseudo) {
 
 function sample(el, pseudo, kind, text) {
   const layers = chainOf(el, pseudo);
-  const cs = layers[0].cs;
-  const raw = textColour(cs);
+  const computed = layers[0].computed;
+  const raw = textColour(computed);
   const colour = parseColour(raw);
   const rec = {
     xpath: xpath(el), tag: el.localName.toLowerCase(), kind, text,
-    font_size_px: parseFloat(cs.fontSize), font_weight: parseInt(cs.fontWeight, 10),
+    font_size_px: parseFloat(computed.fontSize), font_weight: parseInt(computed.fontWeight, 10),
     fg_computed: raw, status: "determined", reason: "",
     disabled: !!(el.matches(":disabled") || el.closest(":disabled")),
   };
@@ -301,7 +301,7 @@ function sample(el, pseudo, kind, text) {
   }
   const p = paint(layers, colour);
   const reasons = p.reasons.slice();
-  if (cs.textShadow !== "none") reasons.unshift("text-shadow");
+  if (computed.textShadow !== "none") reasons.unshift("text-shadow");
   if (p.gradients.length) {
     const urls = p.gradients.some(g => /url\(|image-set\(|cross-fade\(/.test(g.image));
     reasons.unshift(urls ? "image" : "gradient");
