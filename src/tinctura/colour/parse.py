@@ -18,6 +18,7 @@ from functools import lru_cache
 from tinycss2 import ast, parse_one_component_value
 from tinycss2.color4 import parse_color as _tinycss2_parse_color
 
+from ..tokens import split_commas
 from . import convert, mix, system
 
 CURRENTCOLOR = "currentcolor"
@@ -167,20 +168,6 @@ def _from_tinycss2(colour):
     return (colour.space, colour.coordinates, colour.alpha)
 
 
-def _split_commas(arguments):
-    groups, group = [], []
-    for token in arguments:
-        if token.type in _SKIP:
-            continue
-        if token.type == "literal" and token.value == ",":
-            groups.append(group)
-            group = []
-        else:
-            group.append(token)
-    groups.append(group)
-    return groups
-
-
 def _is_none(token):
     return token.type == "ident" and token.lower_value == "none"
 
@@ -240,7 +227,7 @@ def _as_number(token, scale):
 
 
 def _light_dark(token, scheme, current):
-    groups = _split_commas(token.arguments)
+    groups = split_commas(token.arguments, drop_whitespace=True)
     if len(groups) != 2 or any(len(g) != 1 for g in groups):
         return None
     chosen, other = (groups[0][0], groups[1][0]) if scheme != "dark" else (groups[1][0], groups[0][0])
@@ -252,7 +239,7 @@ def _light_dark(token, scheme, current):
 
 
 def _color_mix(token, scheme, current):
-    groups = _split_commas(token.arguments)
+    groups = split_commas(token.arguments, drop_whitespace=True)
     space, hue_method = "oklab", "shorter"  # CSS Color 5 draft: oklab when `in` is omitted
     head = groups[0]
     if head and head[0].type == "ident" and head[0].lower_value == "in":

@@ -11,8 +11,10 @@ from functools import lru_cache
 
 import tinycss2
 
-_LENGTH = {"px": 1.0, "em": 16.0, "rem": 16.0, "pt": 96 / 72, "pc": 16.0, "in": 96.0,
-           "cm": 96 / 2.54, "mm": 96 / 25.4, "q": 96 / 101.6}
+from ..tokens import split_commas
+from .values import ABSOLUTE, LengthContext, length
+
+_INITIAL = LengthContext(16.0, 16.0)
 
 
 class Environment:
@@ -43,15 +45,8 @@ class Environment:
 @lru_cache(maxsize=4096)
 def _matches(query_list: str, env_key: tuple) -> bool:
     env = dict(env_key)
-    tokens = tinycss2.parse_component_value_list(query_list)
-    queries, current = [], []
-    for t in tokens:
-        if t.type == "literal" and t.value == ",":
-            queries.append(current)
-            current = []
-        elif t.type not in ("whitespace", "comment"):
-            current.append(t)
-    queries.append(current)
+    queries = split_commas(tinycss2.parse_component_value_list(query_list),
+                           drop_whitespace=True)
     if not query_list.strip():
         return True
     return any(_query(q, env) for q in queries if q)
@@ -145,8 +140,8 @@ def _number(tokens, name):
     t = tokens[0]
     if t.type == "dimension":
         unit = t.lower_unit
-        if unit in _LENGTH:
-            return t.value * _LENGTH[unit]
+        if unit in ABSOLUTE or unit in ("em", "rem"):
+            return length(t, _INITIAL)  # em in a media query is the initial font size
         if unit in ("dppx", "x"):
             return t.value
         if unit == "dpi":

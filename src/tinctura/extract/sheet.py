@@ -14,6 +14,7 @@ import cssselect2
 import tinycss2
 
 from ..model import Declaration
+from ..tokens import significant, split_commas
 from . import supports as supports_mod
 
 # Properties the engine reads. Custom properties (--*) are always kept: they may feed any of these.
@@ -180,15 +181,7 @@ def _import(rule, sheet, media, layer):
 
 def split_selector_list(prelude) -> list:
     """Split a selector list at top-level commas, keeping each part's tokens."""
-    parts, current = [], []
-    for token in prelude:
-        if token.type == "literal" and token.value == ",":
-            parts.append(current)
-            current = []
-        else:
-            current.append(token)
-    parts.append(current)
-    return [p for p in parts if any(t.type not in ("whitespace", "comment") for t in p)]
+    return [p for p in split_commas(prelude) if significant(p)]
 
 
 def compile_one(text: str):

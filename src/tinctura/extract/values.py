@@ -8,6 +8,7 @@ from __future__ import annotations
 import tinycss2
 
 from ..colour.parse import parse_color
+from ..tokens import significant, split_commas  # noqa: F401 (re-exported)
 
 ABSOLUTE = {"px": 1.0, "pt": 96 / 72, "pc": 16.0, "in": 96.0, "cm": 96 / 2.54,
             "mm": 96 / 25.4, "q": 96 / 101.6}
@@ -18,10 +19,6 @@ SIZE_KEYWORDS = {"xx-small": 9.6, "x-small": 12.0, "small": 13.333333, "medium":
 SIZE_KEYWORDS_PX = {"xx-small": 9.0, "x-small": 10.0, "small": 13.0, "medium": 16.0,
                     "large": 18.0, "x-large": 24.0, "xx-large": 32.0, "xxx-large": 48.0}
 WEIGHT_KEYWORDS = {"normal": 400, "bold": 700}
-
-
-def significant(tokens) -> list:
-    return [t for t in tokens if t.type not in ("whitespace", "comment")]
 
 
 class LengthContext:
@@ -80,19 +77,6 @@ def _math(fn, ctx):
     if name == "clamp" and len(values) == 3:
         return max(values[0], min(values[1], values[2]))
     return None
-
-
-def split_commas(tokens):
-    """Top-level comma-separated parts of a token list."""
-    parts, current = [], []
-    for t in tokens:
-        if t.type == "literal" and t.value == ",":
-            parts.append(current)
-            current = []
-        else:
-            current.append(t)
-    parts.append(current)
-    return parts
 
 
 def _sum(tokens, ctx):
