@@ -144,6 +144,7 @@ class PageWalker:
     def walk(self, states: bool = False):
         root_wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
         self.meta = {}
+        self.texts = {}  # element -> its own text, from the resting walk
         self.interactive = []
         self._svg_shapes = {}
         self.state = REST
@@ -196,7 +197,7 @@ class PageWalker:
                 attrs = self._attrs(cel)
                 cid = intern(self._key(cel, key_id, prev_chain, following[i], attrs))
                 if collect:
-                    meta[cel] = (prev_chain, following[i])
+                    meta[cel] = (prev_chain, following[i], cid)
                 prev_chain = intern(("s", cel.tag, attrs, prev_chain))
                 items.append((child, style, cid, False, chain))
             stack.extend(reversed(items))
@@ -206,7 +207,10 @@ class PageWalker:
         same subtree (tags, attributes, which elements have text): a site's navigation repeats
         on every page, so each link's :hover and :focus are computed once per site."""
         el = target.etree_element
-        sig = tuple((d.tag, self._attrs(d), bool(own_text(d))) for d in el.iter()
+        # the descendants' style keys (from the resting walk) stand for their tags, attributes
+        # and ancestors; which of them carry text decides which samples exist
+        meta, texts = self.meta, self.texts
+        sig = tuple((meta[d][2] if d in meta else d.tag, d in texts) for d in el.iter()
                     if isinstance(d.tag, str))
         memo_key = (kid, state, sig)
         template = self.cache.states.get(memo_key)
@@ -214,16 +218,19 @@ class PageWalker:
         if template is None:
             before = len(self.samples)
             self._state(target, state, on_self, on_path, rest)
-            self.cache.states[memo_key] = (base, self.samples[before:])
+            new = self.samples[before:]
+            steps = [_child_steps(el, sample.xpath[len(base):].split("::")[0]) for sample in new]
+            self.cache.states[memo_key] = (base, list(zip(steps, new)))
             return
         old_base, samples = template
-        for sample in samples:
-            path = sample.xpath[len(old_base):].split("::")[0]
-            at = el.xpath("." + path)[0] if path else el
+        for steps, sample in samples:
+            at = el
+            for i in steps:
+                at = at[i]
             moved = _moved(sample, self.page, old_base, base, el, 0)
             moved.line = at.sourceline or 0
             if sample.kind in ("text", "svg-text"):
-                moved.text = own_text(at)[:60]
+                moved.text = " ".join(texts.get(at, "").split())[:60]
             self.samples.append(moved)
 
     def _state(self, target, state, on_self, on_path, rest):
@@ -254,7 +261,7 @@ class PageWalker:
                             return
                         parent_style, parent_id, chain = hit
                         continue
-                prev_id, following = self.meta.get(el, (0, 0))
+                prev_id, following, _ = self.meta.get(el, (0, 0, 0))
                 kid = self.cache.intern(self._key(el, parent_id, prev_id, following))
                 style = self.style_for(w, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
@@ -295,6 +302,8 @@ class PageWalker:
             if tag == "textarea" or tag == "select":
                 return
         text = own_text(el) if tag not in NO_TEXT else ""
+        if text:
+            self.texts[el] = text
         if style.pseudo:
             for pseudo in ("before", "after"):
                 ps = style.pseudo.get(pseudo)
@@ -567,6 +576,19 @@ def _moved(sample, page, old_base, base, el, shift):
         line=(sample.line + shift) if sample.line else 0, fg_cause=fg_cause,
         bg_layers=tuple(dataclasses.replace(layer, xpath=_rebase(layer.xpath, old_base, el))
                         for layer in sample.bg_layers))
+
+
+def _child_steps(el, path: str) -> tuple:
+    """Child indexes from ``el`` to the element at the relative XPath ``path``."""
+    if not path:
+        return ()
+    target = el.xpath("." + path)[0]
+    steps = []
+    while target is not el:
+        parent = target.getparent()
+        steps.append(parent.index(target))
+        target = parent
+    return tuple(reversed(steps))
 
 
 def _rebase(xpath, old_base, el):
