@@ -8,7 +8,7 @@ from mkdocs.config import config_options as c
 class PositiveInt(c.BaseConfigOption[int]):
     """A whole number of at least 1 (``true`` is not a number here, though Python says so)."""
 
-    def __init__(self, default: int) -> None:
+    def __init__(self, default: int | None = None) -> None:
         super().__init__()
         self.default = default
 
@@ -43,3 +43,4 @@ class TincturaConfig(base.Config):
     states = c.Type(bool, default=True)  # also check :hover / :focus / :focus-visible
     log_every = c.Type(bool, default=False)  # one log line per occurrence, not per problem
     schemes = Schemes()  # None: discover the schemes from each page
+    jobs = c.Optional(PositiveInt())  # processes; unset: the number of cores

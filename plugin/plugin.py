@@ -52,6 +52,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.current: dict = {}  # output path -> source path, for the pages of this build
         self.stale: set = set()  # pages whose record predates a stylesheet change
         self.sheets_checked = False
+        self.pool = None  # worker processes checking pages while MkDocs renders the next
+        self.digests: dict = {}  # page -> digest of the HTML sent to a worker
 
     # -- lifecycle -------------------------------------------------------------------------
 
@@ -65,7 +67,14 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             viewport_width=self.config.viewport_width,
             states=self.config.states,
             schemes=self.config.schemes,
+            keep_samples=False,  # a build log needs counts, findings and declaration uses
         )
+
+    def workers(self) -> int:
+        """Worker processes beside MkDocs: the cores but the one MkDocs renders on. `serve`
+        checks in-process (its file watcher runs threads, and forking them is unsafe)."""
+        jobs = self.config.jobs or os.cpu_count() or 1
+        return 0 if self.command == "serve" else max(0, jobs - 1)
 
     def on_pre_build(self, *, config) -> None:
         options = self.engine_options()
@@ -107,13 +116,33 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         return self.site
 
     def check(self, rel: str, html: str | None, key: str | None) -> None:
-        result = self.get_site().check_page(rel, html=html)
-        findings = engine.evaluate(result.samples, self.options)
-        uses = problems.declaration_uses(result.samples)
-        result.stats = engine.sample_stats(result.samples)
-        result.samples = []
+        self.keep(rel, key, engine.judge_page(self.get_site(), rel, self.options, html))
+
+    def keep(self, rel: str, key: str | None, judged) -> None:
+        result, findings, uses = judged
         self.records[rel] = PageRecord(key, result, findings, uses)
         self.stale.discard(rel)
+
+    def submit(self, rel: str, html: str, key: str) -> None:
+        """Check in a worker when there are spare cores, else now."""
+        if self.workers() == 0:
+            self.check(rel, html, key)
+            return
+        if self.pool is None:
+            self.pool = engine.PagePool(self.site_dir, self.options, self.workers())
+        self.pool.submit(rel, html)
+        self.digests[rel] = key
+
+    def collect(self) -> None:
+        """Results of the pages checked in workers; a page whose check failed is reported."""
+        if self.pool is None:
+            return
+        pool, self.pool = self.pool, None
+        for rel, outcome in pool.results():
+            if isinstance(outcome, Exception):
+                log.warning(f"{rel}: internal error while checking: {outcome!r}")
+                continue
+            self.keep(rel, self.digests.pop(rel, None), outcome)
 
     # -- events ----------------------------------------------------------------------------
 
@@ -127,10 +156,11 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.get_site()  # the first call of a build decides which records are stale
         record = self.records.get(rel)
         if record is None or record.digest != key or rel in self.stale:
-            self.check(rel, output, key)
+            self.submit(rel, output, key)
         return output
 
     def on_post_build(self, *, config) -> None:
+        self.collect()
         if self.current:
             self.get_site()  # a --dirty build may have sent no page through on_post_page
         # With --dirty, unchanged pages skip on_post_page: re-read the stale ones from disk.

@@ -39,8 +39,15 @@ def test_exactly_the_planted_findings(report):
     for u in EXPECTED["undetermined"]:
         if u.get("verdict") == "fails at every stop":
             expected[_key(u["page"], u["scheme"], u["state"], u["xpath"])] = u
-    found = {_key(f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath): f
-             for f in report.findings}
+    # Chromium's harness does not collect list markers: a marker ("3.") takes its item's
+    # colour, so a marker finding is expected exactly where its list item has one.
+    markers = [f for f in report.findings if f.sample.xpath.endswith("::marker")]
+    assert all(_key(f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath) in expected
+               for f in markers)
+    others = [f for f in report.findings if not f.sample.xpath.endswith("::marker")]
+    keys = [_key(f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath) for f in others]
+    assert len(keys) == len(set(keys))
+    found = dict(zip(keys, others))
     assert sorted(found) == sorted(expected)
     for key, f in found.items():
         want = expected[key]

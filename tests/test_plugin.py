@@ -18,7 +18,7 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
-                                   "schemes": None}
+                                   "schemes": None, "jobs": None}
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -28,6 +28,7 @@ def test_defaults():
     ("viewport_width", 0, "at least 1"),
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
+    ("jobs", 0, "at least 1"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "Expected type: <class 'bool'>"),
     ("log_every", 1, "Expected type: <class 'bool'>"),
@@ -255,3 +256,16 @@ def test_serve_notices_a_changed_stylesheet(tmp_path, monkeypatch, caplog):
     build(config)
     assert len(checked) == 3
     assert messages(caplog) == []  # the darker grey passes everywhere
+
+
+@slow
+def test_worker_processes_give_the_same_log(tmp_path, caplog):
+    """`mkdocs build` checks pages in worker processes while it renders; the result must be
+    what checking in-process gives."""
+    logs = []
+    for jobs in (1, 2):
+        project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})
+        caplog.clear()
+        build(configure(project))
+        logs.append(messages(caplog, logging.INFO))
+    assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])

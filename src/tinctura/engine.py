@@ -203,8 +203,8 @@ def iter_pages(paths, options: Options, judged: bool = False):
             yield Diagnostic(path, "no such file or directory", severity="error")
 
 
-def _process(site, rel, options, judged):
-    page = site.check_page(rel)
+def _process(site, rel, options, judged, html=None):
+    page = site.check_page(rel, html=html)
     if not judged:
         return page
     findings = evaluate(page.samples, options)
@@ -239,6 +239,45 @@ def _worker_init(root, options, judged):
 def _worker_check(rel):
     site, options, judged = _WORKER
     return _process(site, rel, options, judged)
+
+
+def judge_page(site, rel, options, html=None):
+    """Check and judge one page: ``(PageResult, findings, declaration uses)``."""
+    return _process(site, rel, options, True, html)
+
+
+class PagePool:
+    """Pages checked in worker processes while the caller goes on (the MkDocs plugin checks
+    each page as MkDocs renders the next). ``submit`` returns at once; ``results`` gives
+    ``(rel, result or exception)`` in submission order."""
+
+    def __init__(self, root: str, options: Options, workers: int):
+        import multiprocessing
+
+        ctx = multiprocessing.get_context("fork")
+        self._pool = ctx.Pool(workers, initializer=_worker_init, initargs=(root, options, True))
+        self._pending = []
+
+    def submit(self, rel: str, html: str) -> None:
+        self._pending.append((rel, self._pool.apply_async(_worker_check_html, ((rel, html),))))
+
+    def results(self):
+        try:
+            for rel, pending in self._pending:
+                try:
+                    yield rel, pending.get()
+                except Exception as exc:  # the page, not the build, failed
+                    yield rel, exc
+        finally:
+            self._pending = []
+            self._pool.close()
+            self._pool.join()
+
+
+def _worker_check_html(args):
+    rel, html = args
+    site, options, judged = _WORKER
+    return _process(site, rel, options, judged, html)
 
 
 def _site_pages(site, pages, options, judged):
