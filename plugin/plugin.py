@@ -130,8 +130,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             return
         if self.pool is None:
             self.pool = engine.PagePool(self.site_dir, self.options, self.workers())
-        self.pool.submit(rel, html)
-        self.digests[rel] = key
+        if self.pool.submit(rel, html):
+            self.digests[rel] = key
+        else:
+            self.check(rel, html, key)
 
     def collect(self) -> None:
         """Results of the pages checked in workers; a page whose check failed is reported."""

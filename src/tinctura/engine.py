@@ -253,13 +253,28 @@ class PagePool:
 
     def __init__(self, root: str, options: Options, workers: int):
         import multiprocessing
+        import threading
 
         ctx = multiprocessing.get_context("fork")
         self._pool = ctx.Pool(workers, initializer=_worker_init, initargs=(root, options, True))
         self._pending = []
+        self._limit = 2 * workers  # pages waiting in the queue, each holding its HTML
+        self._done = 0
+        self._lock = threading.Lock()
 
-    def submit(self, rel: str, html: str) -> None:
-        self._pending.append((rel, self._pool.apply_async(_worker_check_html, ((rel, html),))))
+    def _finished(self, _result) -> None:
+        with self._lock:
+            self._done += 1
+
+    def submit(self, rel: str, html: str) -> bool:
+        """Queue a page; False when the workers are behind (the caller then checks it itself,
+        which keeps memory bounded and shares the work)."""
+        if len(self._pending) - self._done >= self._limit:
+            return False
+        self._pending.append((rel, self._pool.apply_async(
+            _worker_check_html, ((rel, html),), callback=self._finished,
+            error_callback=self._finished)))
+        return True
 
     def results(self):
         try:
