@@ -74,7 +74,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         """Worker processes beside MkDocs: the cores but the one MkDocs renders on. `serve`
         checks in-process (its file watcher runs threads, and forking them is unsafe)."""
         jobs = self.config.jobs or os.cpu_count() or 1
-        return 0 if self.command == "serve" else max(0, jobs - 1)
+        if self.command == "serve" or not engine.can_fork():
+            return 0
+        return max(0, jobs - 1)
 
     def on_pre_build(self, *, config) -> None:
         options = self.engine_options()
@@ -141,10 +143,12 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             return
         pool, self.pool = self.pool, None
         for rel, outcome in pool.results():
+            key = self.digests.pop(rel, None)
             if isinstance(outcome, Exception):
-                log.warning(f"{rel}: internal error while checking: {outcome!r}")
+                log.info(f"{rel}: a worker failed ({outcome!r}); checking it here")
+                self.check(rel, None, key)  # the page is on disk by now
                 continue
-            self.keep(rel, self.digests.pop(rel, None), outcome)
+            self.keep(rel, key, outcome)
 
     # -- events ----------------------------------------------------------------------------
 

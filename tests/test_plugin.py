@@ -269,3 +269,16 @@ def test_worker_processes_give_the_same_log(tmp_path, caplog):
         build(configure(project))
         logs.append(messages(caplog, logging.INFO))
     assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])
+
+
+@slow
+def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatch, caplog):
+    def broken(args):
+        raise RuntimeError("worker lost")
+
+    monkeypatch.setattr(engine, "_worker_check_html", broken)
+    project = make_project(tmp_path, {"jobs": 2, "fail_on": "never"})
+    build(configure(project))
+    warnings = messages(caplog)
+    assert any("TC100 text-ratio: 3 occurrences on 2 pages" in w for w in warnings)
+    assert any("checking it here" in r.getMessage() for r in caplog.records)

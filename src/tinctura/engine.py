@@ -246,6 +246,15 @@ def judge_page(site, rel, options, html=None):
     return _process(site, rel, options, True, html)
 
 
+PAGE_TIMEOUT_S = 300  # far beyond any page seen (tens of milliseconds)
+
+
+def can_fork() -> bool:
+    import multiprocessing
+
+    return "fork" in multiprocessing.get_all_start_methods()
+
+
 class PagePool:
     """Pages checked in worker processes while the caller goes on (the MkDocs plugin checks
     each page as MkDocs renders the next). ``submit`` returns at once; ``results`` gives
@@ -279,13 +288,13 @@ class PagePool:
     def results(self):
         try:
             for rel, pending in self._pending:
-                try:
-                    yield rel, pending.get()
+                try:  # a worker that died never answers: give up on it, not on the build
+                    yield rel, pending.get(timeout=PAGE_TIMEOUT_S)
                 except Exception as exc:  # the page, not the build, failed
                     yield rel, exc
         finally:
             self._pending = []
-            self._pool.close()
+            self._pool.terminate()  # every answer is in; a stuck worker must not hold the build
             self._pool.join()
 
 
