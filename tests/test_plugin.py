@@ -277,6 +277,7 @@ def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatc
         raise RuntimeError("worker lost")
 
     monkeypatch.setattr(engine, "_worker_check_html", broken)
+    caplog.set_level(logging.INFO)
     project = make_project(tmp_path, {"jobs": 2, "fail_on": "never"})
     build(configure(project))
     warnings = messages(caplog)
