@@ -127,7 +127,7 @@ def test_strict_mode_counts_the_warnings(tmp_path, caplog):
 
 @slow
 def test_fail_on_never_without_strict_builds(tmp_path, caplog):
-    caplog.set_level(logging.INFO)
+    caplog.set_level(logging.INFO, logger="mkdocs")
     build(configure(make_project(tmp_path, {"fail_on": "never"})))
     assert messages(caplog)
     info = messages(caplog, logging.INFO)
@@ -277,7 +277,7 @@ def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatc
         raise RuntimeError("worker lost")
 
     monkeypatch.setattr(engine, "_worker_check_html", broken)
-    caplog.set_level(logging.INFO)
+    caplog.set_level(logging.INFO, logger="mkdocs")
     project = make_project(tmp_path, {"jobs": 2, "fail_on": "never"})
     build(configure(project))
     warnings = messages(caplog)
