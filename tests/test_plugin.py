@@ -266,7 +266,9 @@ def test_worker_processes_give_the_same_log(tmp_path, caplog):
     for jobs in (1, 2):
         project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})
         caplog.clear()
-        build(configure(project))
+        config = configure(project)
+        config.plugins.on_startup(command="build", dirty=False)
+        build(config)
         logs.append(messages(caplog, logging.INFO))
     assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])
 
@@ -279,7 +281,10 @@ def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatc
     monkeypatch.setattr(engine, "_worker_check_html", broken)
     caplog.set_level(logging.INFO, logger="mkdocs")
     project = make_project(tmp_path, {"jobs": 2, "fail_on": "never"})
-    build(configure(project))
+    config = configure(project)
+    config.plugins.on_startup(command="build", dirty=False)  # the object outlives serve tests
+    build(config)
     warnings = messages(caplog)
-    assert any("TC100 text-ratio: 3 occurrences on 2 pages" in w for w in warnings)
-    assert any("checking it here" in r.getMessage() for r in caplog.records)
+    assert any("TC100 text-ratio: 3 occurrences on 2 pages" in w for w in warnings), warnings
+    infos = [r.getMessage() for r in caplog.records]
+    assert any("checking it here" in m for m in infos), infos
