@@ -21,7 +21,7 @@ from . import problems as problems_mod
 from .colour import wcag
 from .colour.composite import over
 from .extract import schemes as scheme_mod
-from .extract.html import parse_html
+from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
@@ -90,6 +90,8 @@ class Site:
                 result.skipped["redirect page"] = 1
                 return result
             root = parse_html(html)
+            for line, message in parser_warnings():
+                result.diagnostics.append(Diagnostic(rel, message, line=line))
         except (OSError, ValueError) as exc:
             message = exc.strerror if isinstance(exc, OSError) and exc.strerror else str(exc)
             result.diagnostics.append(Diagnostic(rel, f"cannot read page: {message}",

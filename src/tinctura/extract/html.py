@@ -49,6 +49,13 @@ def parse_html(text: str | bytes):
     return root
 
 
+def parser_warnings() -> list:
+    """Problems the last parse met that lose content: (line, message)."""
+    return [(e.line, "elements nested deeper than the HTML parser keeps (about 2,000 levels) "
+                     "were dropped with their text")
+            for e in _PARSER.error_log if "Excessive depth" in e.message]
+
+
 def _insert_tbody(root) -> None:
     for table in root.iter("table"):
         run = []
