@@ -117,7 +117,8 @@ class Site:
                         cache = self._caches[key] = StyleCache()
                     preferred = scheme.media_value("prefers-color-scheme", "light")
                     walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred,
-                                        cache, self.options.viewport_width, result.skipped)
+                                        cache, self.options.viewport_width, result.skipped,
+                                        keep_layers=self.options.keep_samples)
                     result.samples.extend(walker.walk(states=self.options.states))
                 finally:
                     restore()
@@ -213,9 +214,7 @@ def _process(site, rel, options, judged, html=None):
     uses = problems_mod.declaration_uses(page.samples)
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
-        page.samples = []
-        for f in findings:  # reports name the causes; the layer list is for `pairs`/`trace`
-            f.sample.bg_layers = ()
+        page.samples = []  # (their layer lists were not built: reports name the causes)
     return page, findings, uses
 
 

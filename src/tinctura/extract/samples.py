@@ -62,8 +62,9 @@ class StyleCache:
 
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
-                 viewport_width, skipped):
+                 viewport_width, skipped, keep_layers=True):
         self.page = page
+        self.keep_layers = keep_layers  # `check` reports name causes, not every layer
         self.root = root
         self.index = index
         self.ruleset = ruleset
@@ -384,7 +385,7 @@ class PageWalker:
             fg_cause = Cause(fg_cause.declaration, _path_at(chain, inherited_at, getpath),
                              fg_cause.chain)
         layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
-                       for at, kind_, colour, cause in layers)
+                       for at, kind_, colour, cause in layers) if self.keep_layers else ()
         self.samples.append(Sample(
             page=self.page, scheme=self.scheme, state=self.state, xpath=getpath(el) + suffix,
             line=el.sourceline or 0, text=" ".join(text.split())[:60], kind=kind, fg=fg, bg=bg,
