@@ -1,10 +1,12 @@
 """Walk a page's tree in one scheme and produce a Sample for every rendered text.
 
 Computed styles are shared between elements whose style inputs are the same, within a page and
-across pages: the key of an element is its tag and attributes (values only for attributes that
-selectors test), its parent's key, its previous sibling's key and the tags of its following
-siblings, so sibling-sensitive selectors (``+``, ``~``, ``:nth-child``, ``:last-of-type``...) stay
-correct. Pages of one site repeat the same navigation, so most elements are computed once per site.
+across pages: the key of an element is its tag and attributes (reduced to the answers selectors
+need), its parent's key and, only for elements a sibling-sensitive selector can reach (``+``,
+``~``, ``:nth-child``, ``:last-of-type``...), its previous siblings and the tags of the following
+ones. Pages of one site repeat the same navigation, so most elements are computed once per site;
+the :hover and :focus samples of its links likewise. Positional facts (XPaths, lines, texts) are
+filled in per element and never shared.
 """
 from __future__ import annotations
 
