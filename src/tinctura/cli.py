@@ -215,10 +215,6 @@ def input_errors(result, stderr) -> bool:
     return bool(errors)
 
 
-def all_samples(pages) -> list:
-    return [s for page in pages for s in page.samples]
-
-
 def run_check(args, stdout, stderr) -> int:
     check_inputs(args.paths)
     options = options_from(args)

@@ -19,7 +19,6 @@ from dataclasses import dataclass, field
 
 from . import problems as problems_mod
 from .colour import wcag
-from .colour.composite import over
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -146,15 +145,13 @@ def evaluate(samples, options: Options) -> list:
 def judge_gradients(samples, level: str) -> None:
     """Text with several possible backgrounds (gradient stops, an outlining text shadow) is
     judged only when all of them agree; otherwise it is undetermined."""
+    from .rules.text import backgrounds, foreground_on
+
     for s in samples:
         if not s.bg_alternatives or s.status == UNDETERMINED or s.fg is None:
             continue
         required = wcag.required_ratio(level, wcag.is_large_text(s.font_size_px, s.font_weight))
-        ratios = [wcag.contrast_ratio(s.fg, s.bg)]
-        raw = s.fg_raw
-        for bg in s.bg_alternatives:
-            fg = s.fg if raw is None or raw[3] >= 1 else over(raw, tuple(bg) + (1.0,))[:3]
-            ratios.append(wcag.contrast_ratio(fg, bg))
+        ratios = [wcag.contrast_ratio(foreground_on(s, bg), bg) for bg in backgrounds(s)]
         if min(ratios) < required <= max(ratios):
             s.status = UNDETERMINED
             s.reason = (f"backgrounds disagree (gradient stops or an outlining text shadow): "

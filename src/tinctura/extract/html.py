@@ -85,6 +85,3 @@ def own_text(el) -> str:
         parts.append(child.tail or "")
     return " ".join("".join(parts).split())
 
-
-def xpath_of(el) -> str:
-    return el.getroottree().getpath(el)

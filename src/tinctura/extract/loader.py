@@ -9,7 +9,6 @@ from __future__ import annotations
 import dataclasses
 import hashlib
 import os
-import posixpath
 from urllib.parse import unquote, urlsplit
 
 from ..model import Diagnostic
@@ -223,6 +222,3 @@ def _dedupe(diags):
             out.append(d)
     return out
 
-
-def page_relpath(root: str, path: str) -> str:
-    return posixpath.normpath(os.path.relpath(path, root).replace(os.sep, "/"))

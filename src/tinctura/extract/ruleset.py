@@ -8,6 +8,7 @@ few selectors are tested on each element.
 from __future__ import annotations
 
 import re
+from functools import cached_property
 
 from .media import Environment
 from .siblings import SiblingIndex
@@ -56,6 +57,12 @@ class RuleSet:
             tests[name] = None
         self.attr_tests = {k: (tuple(v) if v is not None else None) for k, v in tests.items()}
         self._indexes = {}
+
+    @cached_property
+    def scheme_facts(self):
+        from .schemes import SchemeFacts
+
+        return SchemeFacts(self.rules)
 
     def attr_signature(self, name, value):
         """What the key keeps of an attribute: its value, test answers, or just presence."""

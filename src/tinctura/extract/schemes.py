@@ -21,27 +21,33 @@ def discover(root, ruleset) -> list:
     palette = _material_palette(root)
     if palette:
         return palette
-    selectors = " ".join(r.selector_text for r in ruleset.rules if r.origin == "author")
+    facts = ruleset.scheme_facts  # worked out once per rule set, not per page
     html = root
-    if html.get("data-bs-theme") is not None or "data-bs-theme" in selectors:
+    if html.get("data-bs-theme") is not None or facts.data_bs_theme:
         return [Scheme(n, (("prefers-color-scheme", n),), (("html", "data-bs-theme", n),),
                        "data-bs-theme") for n in ("light", "dark")]
-    if "data-theme" in selectors:
+    if facts.data_theme:
         holder = "body" if root.find("body") is not None and \
             root.find("body").get("data-theme") is not None else (
                 "html" if html.get("data-theme") is not None else "body")
         return [Scheme(n, (("prefers-color-scheme", n),), ((holder, "data-theme", n),),
                        "data-theme") for n in ("light", "dark")]
-    media = any(any("prefers-color-scheme" in m for m in r.media) for r in ruleset.rules)
-    light_dark = any(_uses_light_dark(r) for r in ruleset.rules if r.origin == "author")
-    if media or light_dark:
+    if facts.media or facts.light_dark:
         return [Scheme("light", (("prefers-color-scheme", "light"),), (), "media"),
                 Scheme("dark", (("prefers-color-scheme", "dark"),), (), "media")]
     return [LIGHT]
 
 
-def _uses_light_dark(rule) -> bool:
-    return any("light-dark(" in d.text.lower() for d in rule.decls)
+class SchemeFacts:
+    """What a rule set says about colour schemes (see ``RuleSet.scheme_facts``)."""
+
+    def __init__(self, rules):
+        author = [r for r in rules if r.origin == "author"]
+        selectors = " ".join(r.selector_text for r in author)
+        self.data_bs_theme = "data-bs-theme" in selectors
+        self.data_theme = "data-theme" in selectors
+        self.media = any(any("prefers-color-scheme" in m for m in r.media) for r in rules)
+        self.light_dark = any("light-dark(" in d.text.lower() for r in author for d in r.decls)
 
 
 def _material_palette(root) -> list:

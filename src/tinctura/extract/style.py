@@ -25,6 +25,14 @@ _ALL_PROPERTIES = ("color", "background-color", "background-image", "opacity", "
                    "-webkit-text-fill-color", "text-shadow", "filter", "mix-blend-mode",
                    "backdrop-filter", "background-clip", "position", "clip", "clip-path",
                    "width", "height", "overflow", "content", "fill")
+# Shorthands (and aliases) -> the longhands tinctura reads; each longhand parses its part.
+SHORTHANDS = {
+    "all": _ALL_PROPERTIES,
+    "background": ("background-color", "background-image"),
+    "font": ("font-size", "font-weight"),
+    "list-style": ("list-style-type",),
+    "-webkit-background-clip": ("background-clip",),
+}
 
 
 class Winner:
@@ -81,25 +89,8 @@ def cascade(rules, inline_decls, ruleset, pseudo=None) -> dict:
 
 
 def _offer(winners, d, rule, origin, key):
-    name = d.name
-    if name == "all":
-        for prop in _ALL_PROPERTIES:
-            _offer_one(winners, prop, d, rule, origin, key)
-        return
-    if name == "background":
-        _offer_one(winners, "background-color", d, rule, origin, key)
-        _offer_one(winners, "background-image", d, rule, origin, key)
-        return
-    if name == "list-style":
-        _offer_one(winners, "list-style-type", d, rule, origin, key)
-        return
-    if name == "font":
-        _offer_one(winners, "font-size", d, rule, origin, key)
-        _offer_one(winners, "font-weight", d, rule, origin, key)
-        return
-    if name == "-webkit-background-clip":
-        name = "background-clip"
-    _offer_one(winners, name, d, rule, origin, key)
+    for name in SHORTHANDS.get(d.name, (d.name,)):
+        _offer_one(winners, name, d, rule, origin, key)
 
 
 def _offer_one(winners, name, d, rule, origin, key):
@@ -290,35 +281,12 @@ class Resolver:
             s.scheme = "light"
 
         # font size (needed by em units) and weight
-        kind, w = keyword("font-size")
-        s.font_size = parent.font_size
-        if kind == "value":
-            toks, _ = self.value(w, s)
-            if toks is not None:
-                if w.decl.name == "font":
-                    parts = V.font_shorthand(toks)
-                    toks = parts[0] if parts else None
-                size = V.font_size(toks, parent.font_size, self.root_font_size, self.vw) \
-                    if toks is not None else None
-                if size is not None:
-                    s.font_size = size
-        elif kind == "initial":
-            s.font_size = 16.0
+        s.font_size = self._font(keyword("font-size"), s, 0, parent.font_size, 16.0, lambda t: (
+            V.font_size(t, parent.font_size, self.root_font_size, self.vw)))
         if is_root:
             self.root_font_size = s.font_size
-        kind, w = keyword("font-weight")
-        s.font_weight = parent.font_weight
-        if kind == "value":
-            toks, _ = self.value(w, s)
-            if toks is not None:
-                if w.decl.name == "font":
-                    parts = V.font_shorthand(toks)
-                    toks = parts[1] if parts else None
-                weight = V.font_weight(toks, parent.font_weight) if toks is not None else None
-                if weight is not None:
-                    s.font_weight = weight
-        elif kind == "initial":
-            s.font_weight = 400
+        s.font_weight = self._font(keyword("font-weight"), s, 1, parent.font_weight, 400,
+                                   lambda t: V.font_weight(t, parent.font_weight))
 
         # colour (inherited; currentcolor means the parent's colour)
         kind, w = keyword("color")
@@ -430,6 +398,21 @@ class Resolver:
         if kind == "value":
             s.content = w.decl.tokens
         return s
+
+    def _font(self, kw, s, part, inherited, initial, parse):
+        """font-size or font-weight, from its own property or from the ``font`` shorthand
+        (``part`` 0: size, 1: weight); inherited unless set."""
+        kind, w = kw
+        if kind == "initial":
+            return initial
+        if kind != "value":
+            return inherited
+        toks, _ = self.value(w, s)
+        if toks is not None and w.decl.name == "font":
+            parts = V.font_shorthand(toks)
+            toks = parts[part] if parts else None
+        value = parse(toks) if toks is not None else None
+        return inherited if value is None else value
 
     def _ident(self, kw, s, default):
         kind, w = kw
