@@ -12,6 +12,7 @@ Interface (stable; the CLI, the plugin and the benchmarks use only this):
 """
 from __future__ import annotations
 
+import dataclasses
 import fnmatch
 import os
 import re
@@ -37,6 +38,7 @@ class Options:
     jobs: int = 1
     rules: tuple = ()  # rule codes or slugs to run; empty: all
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
+    replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
 
 
 @dataclass
@@ -105,22 +107,30 @@ class Site:
             result.diagnostics.extend(diags)
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
             result.schemes = list(schemes)
+            fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
+                _forget(fingerprints, restore.elements)
                 try:
                     env = Environment(self.options.viewport_width, scheme_media=scheme.media)
                     index = ruleset.index(env)
-                    key = (ruleset, env.key, scheme.attributes)  # identity: never reused
+                    # identity of the rule set (never reused); the scheme's name too, since
+                    # replayed fragments carry it
+                    key = (ruleset, env.key, scheme.attributes, scheme.name)
                     cache = self._caches.get(key)
                     if cache is None:
                         cache = self._caches[key] = StyleCache()
                     preferred = scheme.media_value("prefers-color-scheme", "light")
                     walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred,
                                         cache, self.options.viewport_width, result.skipped,
-                                        keep_layers=self.options.keep_samples)
+                                        keep_layers=self.options.keep_samples,
+                                        lazy=not self.options.keep_samples,
+                                        fingerprints=fingerprints, replay=self.options.replay)
                     result.samples.extend(walker.walk(states=self.options.states))
+                    result.replays.extend(walker.replays)
                 finally:
                     restore()
+                    _forget(fingerprints, restore.elements)
         except Exception as exc:  # report, keep the other pages
             import traceback
 
@@ -128,6 +138,14 @@ class Site:
                 rel, f"internal error while checking: {exc!r}\n{traceback.format_exc(limit=4)}",
                 severity="error"))
         return result
+
+
+def _forget(fingerprints: dict, elements) -> None:
+    """Drop the fingerprints a scheme's attribute changes made stale (elements and ancestors)."""
+    for el in elements:
+        fingerprints.pop(el, None)
+        for up in el.iterancestors():
+            fingerprints.pop(up, None)
 
 
 def _is_redirect(data: bytes) -> bool:
@@ -211,8 +229,68 @@ def _process(site, rel, options, judged, html=None):
     uses = problems_mod.declaration_uses(page.samples)
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
+        _judge_replays(page, findings, uses, options)
         page.samples = []  # (their layer lists were not built: reports name the causes)
+    page.replays = []
+    findings.sort(key=_finding_order)
     return page, findings, uses
+
+
+def _finding_order(f) -> tuple:
+    s = f.sample
+    return (s.line, s.xpath, s.scheme, s.state, f.rule)
+
+
+def _judge_replays(page, findings, uses, options) -> None:
+    """Add what the replayed fragments contribute: their findings, re-stamped for this page,
+    their declaration uses and their counts. Each fragment is judged once per site."""
+    tally = {}  # verdict id -> [verdict, occurrences]
+    for fragment, stamp in page.replays:
+        verdict = _verdict(fragment, options)
+        for rel, old_base, finding in verdict.findings:
+            findings.append(dataclasses.replace(
+                finding, sample=stamp.within(rel).sample(finding.sample, old_base)))
+        entry = tally.get(id(verdict))
+        if entry is None:
+            tally[id(verdict)] = [verdict, 1]
+        else:
+            entry[1] += 1
+    merged = set()
+    for verdict, times in tally.values():
+        _add_stats(page.stats, verdict.stats, times)
+        if verdict.uses_key not in merged:  # uses are sets: once per distinct content
+            merged.add(verdict.uses_key)
+            problems_mod.merge_uses(uses, verdict.uses)
+
+
+class _Verdict:
+    """A fragment judged once: findings as (relative XPath, base, finding), declaration uses
+    (with a hashable form, so that equal ones merge once) and counts."""
+
+    __slots__ = ("findings", "uses", "uses_key", "stats")
+
+    def __init__(self, findings, uses, stats):
+        self.findings, self.uses, self.stats = findings, uses, stats
+        self.uses_key = frozenset((decl, bg, frozenset(schemes))
+                                  for decl, bgs in uses.items() for bg, schemes in bgs.items())
+
+
+def _verdict(fragment, options) -> _Verdict:
+    key = (options.level, tuple(options.rules))
+    verdict = fragment.verdicts.get(key)
+    if verdict is not None:
+        return verdict
+    samples = fragment.samples()
+    found = [("", fragment.base, f) for f in evaluate(samples, options)]
+    uses = problems_mod.declaration_uses(samples)
+    stats = sample_stats(samples)
+    for rel, nested in fragment.nested():
+        inner = _verdict(nested, options)
+        found.extend((rel + deeper, base, f) for deeper, base, f in inner.findings)
+        problems_mod.merge_uses(uses, inner.uses)
+        _add_stats(stats, inner.stats)
+    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats)
+    return verdict
 
 
 def sample_stats(samples) -> dict:
@@ -224,6 +302,15 @@ def sample_stats(samples) -> dict:
             undetermined[key] = undetermined.get(key, 0) + 1
     return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
             "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples})}
+
+
+def _add_stats(into: dict, more: dict, times: int = 1) -> None:
+    into["samples"] += more["samples"] * times
+    into["exempt"] += more["exempt"] * times
+    for reason, count in more["undetermined"].items():
+        into["undetermined"][reason] = into["undetermined"].get(reason, 0) + count * times
+    if not set(more["schemes"]) <= set(into["schemes"]):
+        into["schemes"] = sorted(set(into["schemes"]) | set(more["schemes"]))
 
 
 _WORKER = None

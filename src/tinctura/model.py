@@ -156,6 +156,9 @@ class PageResult:
     # When samples are dropped to save memory (large sites), their counts stay here:
     # {"samples": n, "exempt": n, "undetermined": {reason: n}, "schemes": [names]}
     stats: Optional[dict] = None
+    # Repeated subtrees not turned into samples (findings-only checks): (fragment, stamp) pairs
+    # the engine judges once per fragment; emptied before the result leaves the engine.
+    replays: list = field(default_factory=list)
 
 
 @dataclass(frozen=True, slots=True)

@@ -17,8 +17,14 @@ EVALUATED_STATES = re.compile(r":(hover|focus)", re.I)
 ATTR_IN_SELECTOR = re.compile(r"\[\s*([\w:-]+)")
 ATTR_TEST = re.compile(r"""\[\s*([\w:-]+)\s*(?:([~|^$*]?=)\s*("[^"\\]*"|'[^'\\]*'|[\w-]+)\s*([is])?\s*)?\]""",
                        re.I)
-# Attributes whose full value stays in the style-sharing key (selectors name them directly).
-KEEP_VALUES = frozenset({"class", "id", "style", "lang", "dir", "xml:lang"})
+# Attributes whose full value stays in the style-sharing key: read by the cascade itself (style,
+# SVG fill, aria-disabled) or by pseudo-classes that look at ancestors (:lang, :dir).
+KEEP_VALUES = frozenset({"style", "lang", "dir", "xml:lang", "fill", "aria-disabled"})
+# Class and id names in selectors. Over-inclusive is harmless (a name from inside an attribute
+# value only keeps more in the key); a backslash escape could hide a name, so then the whole
+# class and id values are kept.
+CLASS_IN_SELECTOR = re.compile(r"\.(-?[_a-zA-Z\u0080-\U0010ffff][\w\u0080-\U0010ffff-]*)")
+ID_IN_SELECTOR = re.compile(r"#(-?[_a-zA-Z\u0080-\U0010ffff][\w\u0080-\U0010ffff-]*)")
 
 
 class RuleSet:
@@ -55,6 +61,13 @@ class RuleSet:
                     entry.append((op, value.strip("\"'"), flag.lower() == "i"))
         for name in KEEP_VALUES:
             tests[name] = None
+        texts = [r.selector_text for r in rules]
+        if any("\\" in text for text in texts):
+            tests["class"] = tests["id"] = None
+            self.selector_classes = self.selector_ids = frozenset()
+        else:
+            self.selector_classes = frozenset(n for t in texts for n in CLASS_IN_SELECTOR.findall(t))
+            self.selector_ids = frozenset(n for t in texts for n in ID_IN_SELECTOR.findall(t))
         self.attr_tests = {k: (tuple(v) if v is not None else None) for k, v in tests.items()}
         self._indexes = {}
 
@@ -65,13 +78,22 @@ class RuleSet:
         return SchemeFacts(self.rules)
 
     def attr_signature(self, name, value):
-        """What the key keeps of an attribute: its value, test answers, or just presence."""
+        """What the key keeps of an attribute: its value, test answers, or just presence.
+
+        Of ``class`` and ``id`` it keeps the names some selector mentions (and the answers to
+        attribute tests on them): a heading's unique id or a highlighter's language class does
+        not split the cache, nor the repeated navigation of one page from another's.
+        """
         tests = self.attr_tests.get(name, ())
         if tests is None:
             return value
-        if not tests:
-            return None
-        return tuple(_attr_test(op, wanted, value, ci) for op, wanted, ci in tests)
+        answers = tuple(_attr_test(op, wanted, value, ci) for op, wanted, ci in tests)
+        if name == "class":
+            return (tuple(sorted({c for c in value.split() if c in self.selector_classes})),
+                    answers)
+        if name == "id":
+            return (value if value in self.selector_ids else None, answers)
+        return answers or None
 
     def layer_rank(self, layer: tuple) -> int:
         if not layer:

@@ -7,16 +7,20 @@ need), its parent's key and, only for elements a sibling-sensitive selector can 
 ones. Pages of one site repeat the same navigation, so most elements are computed once per site;
 the :hover and :focus samples of its links likewise. Positional facts (XPaths, lines, texts) are
 filled in per element and never shared.
+
+Whole subtrees that repeat (the navigation's sections) are recorded once and replayed
+(``fragments``). So that a replay gives exactly what a walk gives, in the same order, every
+container element is a scope: the :hover and :focus samples of the interactive elements inside
+it are produced when its walk ends.
 """
 from __future__ import annotations
-
-import dataclasses
 
 import cssselect2
 
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
+from . import fragments as frag_mod
 from .html import own_text
 from .sheet import STATE_ATTR, parse_declarations
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
@@ -37,6 +41,16 @@ MAX_ALTERNATIVES = 16
 STATES = (("hover", ("hover",), ("hover",)),
           ("focus", ("focus", "focus-visible", "focus-within"), ("focus-within",)))
 CACHE_LIMIT = 60000
+# Elements whose subtrees are scopes (and may be recorded and replayed): HTML containers. SVG
+# content is left out (shapes earlier in the same <svg> are backgrounds of later text), and so is
+# anything inside an interactive element (its :hover walk reads the keys of its descendants).
+SCOPE_TAGS = frozenset({
+    "html", "body", "div", "nav", "ul", "ol", "li", "dl", "dt", "dd", "section", "article",
+    "aside", "header", "footer", "main", "table", "thead", "tbody", "tfoot", "tr", "td", "th",
+    "caption", "form", "fieldset", "label", "details", "summary", "p", "span", "a", "button",
+    "figure", "figcaption", "blockquote", "pre", "code", "h1", "h2", "h3", "h4", "h5", "h6",
+    "em", "strong", "small", "mark", "abbr", "cite", "kbd", "samp", "var", "sub", "sup", "b",
+    "i", "u", "s", "q", "time", "output", "menu", "hgroup", "address", "center", "font"})
 
 
 class StyleCache:
@@ -48,7 +62,8 @@ class StyleCache:
         self.cores = {}
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
         self.attr_sigs = {}
-
+        self.memo = frag_mod.Memo()  # repeated subtrees
+        self._next = 0
 
     def intern(self, key) -> int:
         ident = self.ids.get(key)
@@ -58,15 +73,25 @@ class StyleCache:
                 self.styles.clear()
                 self.cores.clear()
                 self.states.clear()
-            ident = self.ids[key] = len(self.ids) + 1
+                self.memo.clear()
+            # never reused: a walk in progress may still hold ids from before a clear
+            self._next += 1
+            ident = self.ids[key] = self._next
         return ident
 
 
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
-                 viewport_width, skipped, keep_layers=True):
+                 viewport_width, skipped, keep_layers=True, lazy=False, fingerprints=None,
+                 replay=True):
         self.page = page
         self.keep_layers = keep_layers  # `check` reports name causes, not every layer
+        # lazy: replayed fragments go to ``replays`` as (fragment, Stamp) for the engine to
+        # judge once, instead of being re-stamped sample by sample into ``samples``
+        self.lazy = lazy
+        self.replays = []
+        self.fingerprints = {} if fingerprints is None else fingerprints  # element -> fp
+        self.memo = cache.memo if replay and not ruleset.uses_has else None
         self.root = root
         self.index = index
         self.ruleset = ruleset
@@ -149,25 +174,95 @@ class PageWalker:
         self.meta = {}
         self.texts = {}  # element -> its own text, from the resting walk
         self.interactive = []
+        self.rest = {}  # (xpath, kind) -> (fg, bg) of resting samples, for the state walks
         self._svg_shapes = {}
+        self._path_memo = {}
+        self._recording = []  # open recordings, innermost last
+        self.collect = bool(states and self.index.dynamic_rules)
         self.state = REST
-        self._walk([(root_wrapper, ROOT_PARENT, 0, True, ())], collect=states)
-        if states and self.interactive and self.index.dynamic_rules:
-            rest = {(s.xpath, s.kind): (s.fg, s.bg) for s in self.samples}
-            self._path_memo = {}
-            for state, on_self, on_path in STATES:
-                for wrapper, kid in self.interactive:
-                    if self.index.state_can_matter(wrapper):
-                        self._state_shared(wrapper, kid, state, on_self, on_path, rest)
-            self.state = REST
+        if self.memo is not None:
+            self.memo.page += 1
+        self._walk([(root_wrapper, ROOT_PARENT, 0, True, (), True)], rest=True)
+        if self.interactive:  # outside every scope (a root that is not a container)
+            self._run_states(self.interactive)
+            self.interactive = []
         return self.samples
 
-    def _walk(self, stack, collect=False):
+    def _run_states(self, targets):
+        for state, on_self, on_path in STATES:
+            for wrapper, kid in targets:
+                if self.index.state_can_matter(wrapper):
+                    self._state_shared(wrapper, kid, state, on_self, on_path, self.rest)
+        self.state = REST
+
+    def _open_scope(self, el, key_id, is_root):
+        """Start a scope at ``el``; returns True when a recorded fragment was replayed instead."""
+        recording = None
+        if self.memo is not None and not is_root and self.memo.worth_trying(key_id):
+            fp = self.fingerprints.get(el)
+            if fp is None:
+                fp = self.fingerprints[el] = frag_mod.fingerprint(el)
+            fragment, record = self.memo.lookup(key_id, fp)
+            if fragment is not None:
+                self._replay(fragment, el)
+                return None
+            if record:
+                recording = frag_mod.Recording((key_id, fp), self._path(el), len(self.samples),
+                                               self.skipped)
+                self._recording.append(recording)
+        return (recording, len(self.interactive))
+
+    def _close_scope(self, scope):
+        recording, first_interactive = scope
+        if len(self.interactive) > first_interactive:
+            targets = self.interactive[first_interactive:]
+            del self.interactive[first_interactive:]
+            self._run_states(targets)
+        if recording is None:
+            return
+        self._recording.pop()
+        fragment = recording.finish(self.samples, self.skipped, self.scheme)
+        self.memo.fragments[recording.memo_key] = fragment
+        if self._recording:
+            outer = self._recording[-1]
+            outer.nested.append((recording.start, len(self.samples),
+                                 recording.base[len(outer.base):], fragment))
+
+    def _replay(self, fragment, el):
+        for reason, count in fragment.skipped.items():
+            self.skipped[reason] = self.skipped.get(reason, 0) + count
+        stamp = frag_mod.Stamp(self.page, self.scheme, el)
+        first = len(self.samples)
+        if self.lazy:
+            self.replays.append((fragment, stamp))
+        else:
+            frag_mod.materialize(fragment, stamp, self.samples)
+        if self._recording:
+            outer = self._recording[-1]
+            outer.nested.append((first, len(self.samples), stamp.new_base[len(outer.base):],
+                                 fragment))
+
+    def _path(self, el):
+        return el.getroottree().getpath(el)
+
+    def _walk(self, stack, rest=False):
         intern = self.cache.intern
         meta = self.meta
+        collect = rest and self.collect
         while stack:
-            wrapper, parent_style, key_id, is_root, chain = stack.pop()
+            item = stack.pop()
+            wrapper = item[0]
+            if wrapper is None:
+                self._close_scope(item[1])
+                continue
+            _, parent_style, key_id, is_root, chain, scopable = item
             el = wrapper.etree_element
+            tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            if rest and scopable and tag in SCOPE_TAGS and len(el):
+                scope = self._open_scope(el, key_id, is_root)
+                if scope is None:
+                    continue  # replayed
+                stack.append((None, scope))
             style = self.style_for(wrapper, parent_style, key_id, is_root)
             if is_root:
                 self.canvas = self._canvas(style, wrapper)
@@ -178,15 +273,16 @@ class PageWalker:
                 self._skip("opacity:0", el)
                 continue
             chain = chain + ((wrapper, style),)
-            tag = el.tag.lower() if isinstance(el.tag, str) else ""
             if tag in SVG_SHAPES and style.visibility == "visible":
                 self._shape(el, style)
-            if collect and _focusable(el, tag) and not style.disabled:
+            focusable = _focusable(el, tag)
+            if collect and focusable and not style.disabled:
                 self.interactive.append((wrapper, key_id))
             self._texts(wrapper, el, tag, style, chain, key_id)
             children = wrapper.etree_children
             if not children:
                 continue
+            scopable = scopable and not focusable and tag != "svg"
             tags = [c.tag for c in children]
             following = [0] * len(children)
             nxt = 0
@@ -202,7 +298,7 @@ class PageWalker:
                 if collect:
                     meta[cel] = (prev_chain, following[i], cid)
                 prev_chain = intern(("s", cel.tag, attrs, prev_chain))
-                items.append((child, style, cid, False, chain))
+                items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
     def _state_shared(self, target, kid, state, on_self, on_path, rest):
@@ -217,22 +313,18 @@ class PageWalker:
                     if isinstance(d.tag, str))
         memo_key = (kid, state, sig)
         template = self.cache.states.get(memo_key)
-        base = el.getroottree().getpath(el)
+        base = self._path(el)
         if template is None:
             before = len(self.samples)
             self._state(target, state, on_self, on_path, rest)
-            new = self.samples[before:]
-            steps = [_child_steps(el, sample.xpath[len(base):].split("::")[0]) for sample in new]
-            self.cache.states[memo_key] = (base, list(zip(steps, new)))
+            self.cache.states[memo_key] = (base, self.samples[before:])
             return
         old_base, samples = template
-        for steps, sample in samples:
-            at = el
-            for i in steps:
-                at = at[i]
-            moved = _moved(sample, self.page, old_base, base, el, 0)
-            moved.line = at.sourceline or 0
-            if sample.kind in ("text", "svg-text"):
+        stamp = frag_mod.Stamp(self.page, self.scheme, el, base)
+        for sample in samples:
+            moved = stamp.sample(sample, old_base)
+            if sample.kind in ("text", "svg-text"):  # the signature has no texts
+                at = frag_mod.resolve(el, sample.xpath[len(old_base):].split("::")[0])
                 moved.text = " ".join(texts.get(at, "").split())[:60]
             self.samples.append(moved)
 
@@ -278,7 +370,7 @@ class PageWalker:
                 memo[(el, state)] = (parent_style, parent_id, chain)
             before = len(self.samples)
             self.state = state
-            self._walk([(target, parent_style, kid, False, chain)])
+            self._walk([(target, parent_style, kid, False, chain, False)])
             new = self.samples[before:]
             del self.samples[before:]
             for sample in new:
@@ -383,13 +475,16 @@ class PageWalker:
         fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, inherited_at, layers, \
             bg_cause, surround = core
         getpath = el.getroottree().getpath
+        xpath = getpath(el) + suffix
+        if self.collect and self.state == REST:
+            self.rest[(xpath, kind)] = (fg, bg)
         if inherited_at is not None:
             fg_cause = Cause(fg_cause.declaration, _path_at(chain, inherited_at, getpath),
                              fg_cause.chain)
         layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
                        for at, kind_, colour, cause in layers) if self.keep_layers else ()
         self.samples.append(Sample(
-            page=self.page, scheme=self.scheme, state=self.state, xpath=getpath(el) + suffix,
+            page=self.page, scheme=self.scheme, state=self.state, xpath=xpath,
             line=el.sourceline or 0, text=" ".join(text.split())[:60], kind=kind, fg=fg, bg=bg,
             fg_raw=fg_raw, font_size_px=round(style.font_size, 4), font_weight=style.font_weight,
             status=status, reason=reason, bg_alternatives=alts, exempt=exempt,
@@ -566,47 +661,6 @@ def _path_at(chain, at, getpath):
         return ""
     wrapper = chain[at][0]
     return getpath(wrapper.etree_element) if wrapper is not None else ""
-
-
-def _moved(sample, page, old_base, base, el, shift):
-    """A sample recorded around one element, re-stamped for the same HTML around ``el``."""
-    fg_cause = sample.fg_cause
-    if fg_cause is not None and fg_cause.inherited_from:
-        fg_cause = Cause(fg_cause.declaration, _rebase(fg_cause.inherited_from, old_base, el),
-                         fg_cause.chain)
-    return dataclasses.replace(
-        sample, page=page, xpath=base + sample.xpath[len(old_base):],
-        line=(sample.line + shift) if sample.line else 0, fg_cause=fg_cause,
-        bg_layers=tuple(dataclasses.replace(layer, xpath=_rebase(layer.xpath, old_base, el))
-                        for layer in sample.bg_layers))
-
-
-def _child_steps(el, path: str) -> tuple:
-    """Child indexes from ``el`` to the element at the relative XPath ``path``."""
-    if not path:
-        return ()
-    target = el.xpath("." + path)[0]
-    steps = []
-    while target is not el:
-        parent = target.getparent()
-        steps.append(parent.index(target))
-        target = parent
-    return tuple(reversed(steps))
-
-
-def _rebase(xpath, old_base, el):
-    """An XPath recorded relative to one element, moved to the same place around ``el``."""
-    if not xpath:
-        return xpath
-    getpath = el.getroottree().getpath
-    if xpath.startswith(old_base):
-        return getpath(el) + xpath[len(old_base):]
-    if old_base.startswith(xpath):  # an ancestor: as many levels up from el
-        up = el
-        for _ in range(old_base.count("/") - xpath.count("/")):
-            up = up.getparent() if up.getparent() is not None else up
-        return getpath(up)
-    return xpath
 
 
 def _svg_root(el):

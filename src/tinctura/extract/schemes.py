@@ -92,6 +92,7 @@ def apply(root, scheme):
             else:
                 el.set(attr, old)
 
+    restore.elements = [el for el, _, _ in saved]  # changed: their subtrees' fingerprints too
     return restore
 
 

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import re
 
+MEMO_LIMIT = 50000
 STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type|last-of-type|"
                         r"only-of-type)", re.I)
 
@@ -138,6 +139,8 @@ class SiblingIndex:
             pclasses = frozenset(key[4].split()) if key[4] else frozenset()
             hit = self.own.any_match(tag, classes, key[2], lambda c: True) or \
                 self.by_parent.any_match(ptag, pclasses, key[5], lambda c: True)
+            if len(self._memo) > MEMO_LIMIT:  # unique ids would grow it page after page
+                self._memo.clear()
             self._memo[key] = hit
         return hit
 

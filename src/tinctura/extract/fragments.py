@@ -1,0 +1,220 @@
+"""Repeated subtrees: walk once, replay everywhere.
+
+A site's navigation repeats on every page, with one section changed (the page's own entry), and
+it holds most of a large site's text. The walker fingerprints an element's subtree (its
+serialization, made in C by lxml) beside the element's style key, which stands for everything
+outside the subtree that a selector can read: ancestors, their attributes and, where a selector
+is sibling-sensitive, the siblings. Whatever the walk produces inside the subtree is a function
+of those two, so:
+
+- the first time a (key, fingerprint) is seen, only the fingerprint is remembered;
+- the second time, the walk records a ``Fragment``: the samples it produced, in order, with
+  nested fragments by reference, and the skipped counts;
+- from then on the walker replays the fragment: its samples re-stamped with the page, XPaths and
+  lines of the new place (``materialize``), or, when only findings are wanted, the fragment
+  itself, judged once (the engine keeps a verdict per fragment and re-stamps only failing
+  samples).
+
+Keys whose subtrees do not repeat (a page's body, its article) stop being fingerprinted after a
+few pages, so the fingerprint cost stays on what repeats.
+
+The fingerprint is ``(length, hash)`` of the serialization: two different subtrees of the same
+length collide with probability 2**-64 per pair (about 1e-9 for 200,000 fingerprints).
+"""
+from __future__ import annotations
+
+import dataclasses
+from itertools import islice
+
+from lxml import etree
+
+from ..model import Cause, Sample
+
+FRAGMENT_LIMIT = 20000  # recorded fragments kept per style cache (memory bound)
+SEEN_LIMIT = 200000  # fingerprints remembered per style cache
+# A key stops being fingerprinted once it has shown new subtrees on this many pages and repeats
+# on fewer than a tenth as many occasions: a fingerprint costs about 1/20 of a walk of the same
+# subtree, so even rare repeats would pay, but a page's root and article never repeat. (Several
+# pages, not one: a site's home and 404 pages link to the others with different prefixes.)
+VOLATILE_PAGES = 6
+
+
+class Fragment:
+    """What walking one subtree produced: samples and nested fragments, in walk order."""
+
+    __slots__ = ("base", "scheme", "items", "skipped", "verdicts")
+
+    def __init__(self, base: str, scheme: str, items: list, skipped: dict):
+        self.base = base  # XPath of the subtree's root where it was recorded
+        self.scheme = scheme
+        self.items = items  # Sample, or (relative XPath, Fragment) for a nested fragment
+        self.skipped = skipped  # skipped counts of the whole subtree, nested ones included
+        self.verdicts = {}  # filled by the engine: judged once per rule selection
+
+    def samples(self) -> list:
+        return [item for item in self.items if isinstance(item, Sample)]
+
+    def nested(self) -> list:
+        return [item for item in self.items if not isinstance(item, Sample)]
+
+
+class Memo:
+    """Fingerprints and fragments for one style cache (one rule index and scheme)."""
+
+    def __init__(self):
+        self.fragments = {}  # (key id, fingerprint) -> Fragment
+        self.seen = set()  # (key id, fingerprint) seen once
+        self.keys = {}  # key id -> [repeats, pages with a new fingerprint, last such page]
+        self.page = 0  # serial of the page being walked
+
+    def clear(self) -> None:
+        self.fragments.clear()
+        self.seen.clear()
+        self.keys.clear()
+
+    def worth_trying(self, key_id: int) -> bool:
+        stats = self.keys.get(key_id)
+        return stats is None or stats[1] < VOLATILE_PAGES or stats[0] * 10 >= stats[1]
+
+    def lookup(self, key_id: int, fingerprint: tuple):
+        """(fragment to replay or None, whether to record this walk of the subtree)."""
+        memo_key = (key_id, fingerprint)
+        stats = self.keys.get(key_id)
+        if stats is None:
+            stats = self.keys[key_id] = [0, 0, 0]
+        fragment = self.fragments.get(memo_key)
+        if fragment is not None:
+            stats[0] += 1
+            return fragment, False
+        if memo_key in self.seen:
+            stats[0] += 1
+            return None, len(self.fragments) < FRAGMENT_LIMIT
+        if len(self.seen) >= SEEN_LIMIT:
+            self.seen.clear()
+        self.seen.add(memo_key)
+        if stats[2] != self.page:
+            stats[1] += 1
+            stats[2] = self.page
+        return None, False
+
+
+def fingerprint(el) -> tuple:
+    data = etree.tostring(el, with_tail=False, encoding="utf-8")
+    return (len(data), hash(data))
+
+
+class Recording:
+    """A subtree being walked for the first time after being seen once."""
+
+    __slots__ = ("memo_key", "base", "start", "skipped", "nested")
+
+    def __init__(self, memo_key, base: str, start: int, skipped: dict):
+        self.memo_key = memo_key
+        self.base = base
+        self.start = start  # index in the walker's samples where the subtree begins
+        self.skipped = dict(skipped)  # the page's counts before the subtree
+        self.nested = []  # (first sample, end sample, relative XPath, Fragment)
+
+    def finish(self, samples: list, skipped: dict, scheme: str) -> Fragment:
+        items, at = [], self.start
+        for first, end, rel, fragment in self.nested:
+            items.extend(samples[at:first])
+            items.append((rel, fragment))
+            at = end
+        items.extend(samples[at:])
+        before = self.skipped
+        delta = {k: v - before.get(k, 0) for k, v in skipped.items() if v != before.get(k, 0)}
+        return Fragment(self.base, scheme, items, delta)
+
+
+# -- re-stamping ------------------------------------------------------------------------------
+
+def rebase(xpath, old_base: str, new_base: str):
+    """An XPath recorded around ``old_base`` moved to the same place around ``new_base``.
+
+    Inside the subtree: the same steps below the new root. An ancestor of the root: as many
+    levels above the new root.
+    """
+    if not xpath:
+        return xpath
+    if xpath == old_base:
+        return new_base
+    rest = xpath[len(old_base):]
+    if xpath.startswith(old_base) and rest[:1] in ("/", ":"):
+        return new_base + rest
+    if old_base.startswith(xpath) and old_base[len(xpath):len(xpath) + 1] == "/":
+        up = old_base.count("/") - xpath.count("/")
+        return new_base.rsplit("/", up)[0] or "/"
+    return xpath
+
+
+def resolve(anchor, rel: str):
+    """The element at the relative XPath ``rel`` (as lxml's getpath writes it) below ``anchor``."""
+    el = anchor
+    for step in rel.split("/"):
+        if not step:
+            continue
+        tag, _, index = step.partition("[")
+        n = int(index[:-1]) if index else 1
+        el = next(islice(el.iterchildren(tag), n - 1, None), None)
+        if el is None:
+            return anchor
+    return el
+
+
+class Stamp:
+    """Re-stamps samples recorded around one place for another place on a page."""
+
+    __slots__ = ("page", "scheme", "anchor", "_base", "_lines")
+
+    def __init__(self, page: str, scheme: str, anchor, new_base: str | None = None):
+        self.page = page
+        self.scheme = scheme
+        self.anchor = anchor  # the element at new_base
+        self._base = new_base  # computed when first needed: most replays have no findings
+        self._lines = {}
+
+    @property
+    def new_base(self) -> str:
+        if self._base is None:
+            self._base = self.anchor.getroottree().getpath(self.anchor)
+        return self._base
+
+    def line(self, rel: str) -> int:
+        line = self._lines.get(rel)
+        if line is None:
+            line = self._lines[rel] = resolve(self.anchor, rel).sourceline or 0
+        return line
+
+    def sample(self, sample: Sample, old_base: str) -> Sample:
+        new_base = self.new_base
+        rel = sample.xpath[len(old_base):]
+        fg_cause = sample.fg_cause
+        if fg_cause is not None and fg_cause.inherited_from:
+            fg_cause = Cause(fg_cause.declaration,
+                             rebase(fg_cause.inherited_from, old_base, new_base), fg_cause.chain)
+        layers = sample.bg_layers
+        if layers:
+            layers = tuple(dataclasses.replace(layer, xpath=rebase(layer.xpath, old_base, new_base))
+                           for layer in layers)
+        return dataclasses.replace(
+            sample, page=self.page, scheme=self.scheme, xpath=new_base + rel,
+            line=self.line(rel.split("::")[0]) if sample.line else 0, fg_cause=fg_cause,
+            bg_layers=layers)
+
+    def within(self, rel: str) -> "Stamp":
+        """The stamp for a nested fragment at ``rel`` below this one."""
+        if not rel:
+            return self
+        return Stamp(self.page, self.scheme, resolve(self.anchor, rel.split("::")[0]),
+                     self.new_base + rel)
+
+
+def materialize(fragment: Fragment, stamp: Stamp, out: list) -> None:
+    """Append the fragment's samples, re-stamped for ``stamp``'s place, to ``out`` in order."""
+    for item in fragment.items:
+        if isinstance(item, Sample):
+            out.append(stamp.sample(item, fragment.base))
+        else:
+            rel, nested = item
+            materialize(nested, stamp.within(rel), out)
