@@ -25,6 +25,7 @@ from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
+from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
 
 
@@ -108,9 +109,12 @@ class Site:
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
             result.schemes = list(schemes)
             fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
+            structure = PageStructure(root, ruleset.structure)  # likewise
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
+                changed = [attr for _, attr, _ in scheme.attributes]
                 _forget(fingerprints, restore.elements)
+                structure.changed(restore.elements, changed)
                 try:
                     env = Environment(self.options.viewport_width, scheme_media=scheme.media)
                     index = ruleset.index(env)
@@ -125,12 +129,14 @@ class Site:
                                         cache, self.options.viewport_width, result.skipped,
                                         keep_layers=self.options.keep_samples,
                                         lazy=not self.options.keep_samples,
-                                        fingerprints=fingerprints, replay=self.options.replay)
+                                        fingerprints=fingerprints, replay=self.options.replay,
+                                        structure=structure)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                 finally:
                     restore()
                     _forget(fingerprints, restore.elements)
+                    structure.changed(restore.elements, changed)
         except Exception as exc:  # report, keep the other pages
             import traceback
 

@@ -77,6 +77,13 @@ class RuleSet:
 
         return SchemeFacts(self.rules)
 
+    @cached_property
+    def structure(self):
+        """Structural ids of elements for this rule set's style keys (all schemes share them)."""
+        from .structure import Structure
+
+        return Structure(self)
+
     def attr_signature(self, name, value):
         """What the key keeps of an attribute: its value, test answers, or just presence.
 

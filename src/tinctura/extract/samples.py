@@ -15,14 +15,13 @@ it are produced when its walk ends.
 """
 from __future__ import annotations
 
-import cssselect2
-
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
 from . import fragments as frag_mod
 from .html import own_text
 from .sheet import STATE_ATTR, parse_declarations
+from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
 
 NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
@@ -61,9 +60,12 @@ class StyleCache:
         self.styles = {}
         self.cores = {}
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
-        self.attr_sigs = {}
         self.memo = frag_mod.Memo()  # repeated subtrees
         self._next = 0
+
+    def fresh(self) -> int:
+        self._next += 1
+        return self._next
 
     def intern(self, key) -> int:
         ident = self.ids.get(key)
@@ -83,7 +85,7 @@ class StyleCache:
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
                  viewport_width, skipped, keep_layers=True, lazy=False, fingerprints=None,
-                 replay=True):
+                 replay=True, structure=None):
         self.page = page
         self.keep_layers = keep_layers  # `check` reports name causes, not every layer
         # lazy: replayed fragments go to ``replays`` as (fragment, Stamp) for the engine to
@@ -101,33 +103,16 @@ class PageWalker:
         self.skipped = skipped
         self.samples = []
         self.uncached = ruleset.uses_has
-        self.siblings = ruleset.siblings
-        self._serial = 0
+        # the page's wrappers and structural ids, shared with the other schemes' walks
+        self.structure = structure if structure is not None else \
+            PageStructure(root, ruleset.structure)
 
     # -- keys ------------------------------------------------------------------------------
-    def _attrs(self, el):
-        memo = self.cache.attr_sigs
-        out = []
-        for item in el.attrib.items():
-            sig = memo.get(item)
-            if sig is None:
-                if len(memo) > CACHE_LIMIT:
-                    memo.clear()
-                sig = memo[item] = (item[0], self.ruleset.attr_signature(*item))
-            out.append(sig)
-        return tuple(out)  # document order: the same generator writes the same order
-
-    def _key(self, el, parent_id, prev_chain, following, attrs=None):
-        """The style-sharing key; sibling information only where a selector could read it."""
-        if self.uncached:
-            self._serial += 1
-            return ("u", self._serial)
-        if attrs is None:
-            attrs = self._attrs(el)
-        empty = not len(el) and not (el.text or "").strip()
-        if self.siblings.sensitive(el, el.getparent()):
-            return (parent_id, el.tag, attrs, prev_chain, following, empty)
-        return (parent_id, el.tag, attrs, empty)
+    def _key(self, parent_id: int, element_id: int) -> int:
+        """The style-sharing key: the parent's key and the element's structural id."""
+        if self.uncached:  # :has() looks at descendants: nothing is shared
+            return self.cache.fresh()
+        return self.cache.intern((parent_id, element_id))
 
     # -- styles ----------------------------------------------------------------------------
     def style_for(self, wrapper, parent_style, key_id, is_root):
@@ -170,7 +155,7 @@ class PageWalker:
 
     # -- walk ------------------------------------------------------------------------------
     def walk(self, states: bool = False):
-        root_wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
+        root_wrapper = self.structure.wrapper
         self.meta = {}
         self.texts = {}  # element -> its own text, from the resting walk
         self.interactive = []
@@ -182,7 +167,8 @@ class PageWalker:
         self.state = REST
         if self.memo is not None:
             self.memo.page += 1
-        self._walk([(root_wrapper, ROOT_PARENT, 0, True, (), True)], rest=True)
+        root_key = self._key(0, self.structure.root_id())
+        self._walk([(root_wrapper, ROOT_PARENT, root_key, True, (), True)], rest=True)
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
             self.interactive = []
@@ -246,7 +232,8 @@ class PageWalker:
         return el.getroottree().getpath(el)
 
     def _walk(self, stack, rest=False):
-        intern = self.cache.intern
+        key = self._key
+        children_of = self.structure.children
         meta = self.meta
         collect = rest and self.collect
         while stack:
@@ -279,25 +266,15 @@ class PageWalker:
             if collect and focusable and not style.disabled:
                 self.interactive.append((wrapper, key_id))
             self._texts(wrapper, el, tag, style, chain, key_id)
-            children = wrapper.etree_children
+            children = children_of(wrapper)
             if not children:
                 continue
             scopable = scopable and not focusable and tag != "svg"
-            tags = [c.tag for c in children]
-            following = [0] * len(children)
-            nxt = 0
-            for i in range(len(children) - 1, -1, -1):
-                following[i] = nxt
-                nxt = intern(("f", tags[i], nxt))
-            prev_chain = 0  # identity of the previous siblings (tags and attributes)
             items = []
-            for i, child in enumerate(wrapper.iter_children()):
-                cel = child.etree_element
-                attrs = self._attrs(cel)
-                cid = intern(self._key(cel, key_id, prev_chain, following[i], attrs))
+            for child, element_id, prev_chain, following in children:
+                cid = key(key_id, element_id)
                 if collect:
-                    meta[cel] = (prev_chain, following[i], cid)
-                prev_chain = intern(("s", cel.tag, attrs, prev_chain))
+                    meta[child.etree_element] = (prev_chain, following, cid)
                 items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
@@ -357,7 +334,11 @@ class PageWalker:
                         parent_style, parent_id, chain = hit
                         continue
                 prev_id, following, _ = self.meta.get(el, (0, 0, 0))
-                kid = self.cache.intern(self._key(el, parent_id, prev_id, following))
+                if k == 0:  # the root
+                    kid = self._key(0, self.structure.root_id())
+                else:
+                    kid = self._key(parent_id, self.structure.structure.element_id(
+                        el, prev_id, following))
                 style = self.style_for(w, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
                     if w is not target:

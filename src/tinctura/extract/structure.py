@@ -1,0 +1,113 @@
+"""What style keys need of the document structure, computed once per page for every scheme.
+
+An element's style depends on its ancestors (its parent's key stands for them) and on its own
+structural identity: tag, attributes as selectors see them (``RuleSet.attr_signature``),
+whether it is empty, and, only where a sibling-sensitive selector can reach it, its previous
+siblings and the tags of the following ones. That identity does not depend on the colour scheme,
+so it is interned once per rule set (``Structure``) and each page's children lists, with their
+structural ids, are kept in a ``PageStructure`` that every scheme's walk of the page reuses.
+"""
+from __future__ import annotations
+
+import cssselect2
+
+LIMIT = 60000
+# Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
+# needs wrappers of its own.
+WRAPPER_CACHED = frozenset({"class", "id", "lang", "xml:lang"})
+
+
+class Structure:
+    """Structural ids for one rule set: equal ids mean selectors cannot tell elements apart
+    (given equal parents)."""
+
+    def __init__(self, ruleset):
+        self.ruleset = ruleset
+        self.siblings = ruleset.siblings
+        self.ids = {}
+        self.attr_sigs = {}
+        self._next = 0
+
+    def intern(self, key) -> int:
+        ident = self.ids.get(key)
+        if ident is None:
+            if len(self.ids) > LIMIT:  # bound memory; ids are never reused
+                self.ids.clear()
+            self._next += 1
+            ident = self.ids[key] = self._next
+        return ident
+
+    def attrs(self, el) -> tuple:
+        memo = self.attr_sigs
+        out = []
+        for item in el.attrib.items():
+            sig = memo.get(item)
+            if sig is None:
+                if len(memo) > LIMIT:
+                    memo.clear()
+                sig = memo[item] = (item[0], self.ruleset.attr_signature(*item))
+            out.append(sig)
+        return tuple(out)  # document order: the same generator writes the same order
+
+    def element_id(self, el, prev_chain: int, following: int, attrs=None) -> int:
+        """The structural id of ``el`` at its place among its siblings."""
+        if attrs is None:
+            attrs = self.attrs(el)
+        empty = not len(el) and not (el.text or "").strip()
+        if self.siblings.sensitive(el, el.getparent()):
+            return self.intern((el.tag, attrs, prev_chain, following, empty))
+        return self.intern((el.tag, attrs, empty))
+
+    def children(self, wrapper) -> list:
+        """``(child wrapper, structural id, previous-siblings id, following-siblings id)``."""
+        children = wrapper.etree_children
+        if not children:
+            return []
+        intern = self.intern
+        following = [0] * len(children)
+        nxt = 0
+        for i in range(len(children) - 1, -1, -1):
+            following[i] = nxt
+            nxt = intern(("f", children[i].tag, nxt))
+        prev_chain = 0  # identity of the previous siblings (tags and attributes)
+        out = []
+        for i, child in enumerate(wrapper.iter_children()):
+            cel = child.etree_element
+            attrs = self.attrs(cel)
+            out.append((child, self.element_id(cel, prev_chain, following[i], attrs),
+                        prev_chain, following[i]))
+            prev_chain = intern(("s", cel.tag, attrs, prev_chain))
+        return out
+
+
+class PageStructure:
+    """One page's element wrappers and children lists, shared by the walks of its schemes."""
+
+    def __init__(self, root, structure: Structure):
+        self.root = root
+        self.structure = structure
+        self.wrapper = cssselect2.ElementWrapper.from_html_root(root)
+        self.kids = {}  # element -> Structure.children(its wrapper)
+
+    def children(self, wrapper) -> list:
+        el = wrapper.etree_element
+        kids = self.kids.get(el)
+        if kids is None:
+            kids = self.kids[el] = self.structure.children(wrapper)
+        return kids
+
+    def root_id(self) -> int:
+        return self.structure.intern(("root", self.structure.element_id(self.root, 0, 0)))
+
+    def changed(self, elements, attributes) -> None:
+        """A scheme set ``attributes`` on ``elements``: forget what read them."""
+        if not elements:
+            return
+        if WRAPPER_CACHED & {a.lower() for a in attributes}:
+            self.wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
+            self.kids.clear()
+            return
+        for el in elements:
+            parent = el.getparent()
+            if parent is not None:
+                self.kids.pop(parent, None)  # its children's ids (and the siblings after)
