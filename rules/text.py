@@ -39,6 +39,12 @@ def foreground_on(sample: Sample, bg) -> tuple:
     return tuple(over(raw, tuple(bg)))[:3]
 
 
+# Colour situations known to pass, by level: a site repeats a few dozen of them thousands of
+# times. Bounded; the check is pure, so this only saves time.
+_PASSING: set = set()
+_PASSING_LIMIT = 50000
+
+
 def check_text_ratio(samples, options) -> list:
     """TC100: one finding per sample whose worst background fails the required ratio."""
     level = getattr(options, "level", "AA") or "AA"
@@ -47,6 +53,10 @@ def check_text_ratio(samples, options) -> list:
     for sample in samples:
         if not judged(sample):
             continue
+        situation = (level, sample.fg, sample.bg, sample.bg_alternatives, sample.fg_raw,
+                     sample.font_size_px, sample.font_weight)
+        if situation in _PASSING:
+            continue
         large = wcag.is_large_text(sample.font_size_px, sample.font_weight)
         required = wcag.required_ratio(level, large)
         pairs = [(foreground_on(sample, bg), bg) for bg in backgrounds(sample)]
@@ -54,6 +64,9 @@ def check_text_ratio(samples, options) -> list:
         worst = min(range(len(ratios)), key=ratios.__getitem__)
         ratio = ratios[worst]
         if ratio >= required:  # unrounded: 4.499 fails 4.5 (Understanding SC 1.4.3)
+            if len(_PASSING) >= _PASSING_LIMIT:
+                _PASSING.clear()
+            _PASSING.add(situation)
             continue
         fg, bg = pairs[worst]
         findings.append(Finding(

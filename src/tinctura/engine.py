@@ -251,8 +251,9 @@ def _judge_replays(page, findings, uses, options) -> None:
     """Add what the replayed fragments contribute: their findings, re-stamped for this page,
     their declaration uses and their counts. Each fragment is judged once per site."""
     tally = {}  # verdict id -> [verdict, occurrences]
+    key = (options.level, tuple(options.rules))
     for fragment, stamp in page.replays:
-        verdict = _verdict(fragment, options)
+        verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
         for rel, old_base, finding in verdict.findings:
             findings.append(dataclasses.replace(
                 finding, sample=stamp.within(rel).sample(finding.sample, old_base)))

@@ -52,6 +52,20 @@ class Declaration:
     origin: str  # "author", "inline", "user-agent"
     important: bool = False
     column: int = 0  # minified stylesheets put everything on a few lines
+    # hashed once: declarations key the per-page grouping of every sample
+    _hash: int = field(default=0, init=False, repr=False, compare=False)
+
+    def __post_init__(self):
+        object.__setattr__(self, "_hash", hash((self.property, self.value, self.sheet, self.line,
+                                                self.selector, self.origin, self.important,
+                                                self.column)))
+
+    def __hash__(self) -> int:
+        return self._hash
+
+    def __reduce__(self):  # rebuilt through __init__: string hashes differ between processes
+        return (Declaration, (self.property, self.value, self.sheet, self.line, self.selector,
+                              self.origin, self.important, self.column))
 
     def where(self) -> str:
         if not self.line:

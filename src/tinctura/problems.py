@@ -168,7 +168,10 @@ def merge_uses(into: dict, more: dict) -> dict:
 def _add_backgrounds(bucket: dict, sample) -> None:
     for bg in (sample.bg,) + tuple(sample.bg_alternatives):
         if bg is not None:
-            bucket.setdefault(quantize(bg), set()).add(sample.scheme)
+            bucket.setdefault(_quantize(tuple(bg)), set()).add(sample.scheme)
+
+
+_quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgrounds
 
 
 def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:

@@ -24,12 +24,14 @@ length collide with probability 2**-64 per pair (about 1e-9 for 200,000 fingerpr
 from __future__ import annotations
 
 import dataclasses
+import operator
 from itertools import islice
 
 from lxml import etree
 
 from ..model import Cause, Sample
 
+_SAMPLE_FIELDS = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
 FRAGMENT_LIMIT = 20000  # recorded fragments kept per style cache (memory bound)
 SEEN_LIMIT = 200000  # fingerprints remembered per style cache
 # A key stops being fingerprinted once it has shown new subtrees on this many pages and repeats
@@ -197,10 +199,14 @@ class Stamp:
         if layers:
             layers = tuple(dataclasses.replace(layer, xpath=rebase(layer.xpath, old_base, new_base))
                            for layer in layers)
-        return dataclasses.replace(
-            sample, page=self.page, scheme=self.scheme, xpath=new_base + rel,
-            line=self.line(rel.split("::")[0]) if sample.line else 0, fg_cause=fg_cause,
-            bg_layers=layers)
+        moved = Sample(*_SAMPLE_FIELDS(sample))  # a copy; dataclasses.replace is 4x slower
+        moved.page = self.page
+        moved.scheme = self.scheme
+        moved.xpath = new_base + rel
+        moved.line = self.line(rel.split("::")[0]) if sample.line else 0
+        moved.fg_cause = fg_cause
+        moved.bg_layers = layers
+        return moved
 
     def within(self, rel: str) -> "Stamp":
         """The stamp for a nested fragment at ``rel`` below this one."""

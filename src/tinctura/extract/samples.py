@@ -19,7 +19,6 @@ from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
 from . import fragments as frag_mod
-from .html import own_text
 from .sheet import STATE_ATTR, parse_declarations
 from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
@@ -377,7 +376,7 @@ class PageWalker:
         if tag in NO_TEXT and tag != "input":
             if tag == "textarea" or tag == "select":
                 return
-        text = own_text(el) if tag not in NO_TEXT else ""
+        text = self.structure.text(el) if tag not in NO_TEXT else ""
         if text:
             self.texts[el] = text
         if style.pseudo:

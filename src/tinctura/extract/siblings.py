@@ -125,6 +125,33 @@ class SiblingIndex:
                 else:
                     self.own.add(c, c)
 
+    def sensitive_children(self, parent, children) -> list | None:
+        """For each child of ``parent``, whether it is sensitive; None when none is."""
+        if self.any:
+            return [True] * len(children)
+        ptag = parent.tag.lower() if isinstance(parent.tag, str) else ""
+        pkey = ("parent", ptag, parent.get("class"), parent.get("id"))
+        hit = self._memo.get(pkey)
+        if hit is None:
+            pclasses = frozenset(pkey[2].split()) if pkey[2] else frozenset()
+            hit = self._memo[pkey] = self.by_parent.any_match(ptag, pclasses, pkey[3],
+                                                                lambda c: True)
+        if hit:  # `P > :nth-child(2)`: every child of such a parent
+            return [True] * len(children)
+        out, memo, found = [], self._memo, False
+        for el in children:
+            key = (el.tag, el.get("class"), el.get("id"))
+            own = memo.get(key)
+            if own is None:
+                tag = el.tag.lower() if isinstance(el.tag, str) else ""
+                classes = frozenset(key[1].split()) if key[1] else frozenset()
+                if len(memo) > MEMO_LIMIT:  # unique ids would grow it page after page
+                    memo.clear()
+                own = memo[key] = self.own.any_match(tag, classes, key[2], lambda c: True)
+            out.append(own)
+            found = found or own
+        return out if found else None
+
     def sensitive(self, el, parent) -> bool:
         if self.any:
             return True

@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import cssselect2
 
+from .html import own_text
+
 LIMIT = 60000
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
 # needs wrappers of its own.
@@ -26,6 +28,7 @@ class Structure:
         self.siblings = ruleset.siblings
         self.ids = {}
         self.attr_sigs = {}
+        self.raw_ids = {}  # (tag, attribute items, empty) -> id, for elements no sibling test reads
         self._next = 0
 
     def intern(self, key) -> int:
@@ -59,10 +62,25 @@ class Structure:
         return self.intern((el.tag, attrs, empty))
 
     def children(self, wrapper) -> list:
-        """``(child wrapper, structural id, previous-siblings id, following-siblings id)``."""
+        """``(child wrapper, structural id, previous-siblings id, following-siblings id)``;
+        the sibling ids are 0 where no selector can read them."""
         children = wrapper.etree_children
         if not children:
             return []
+        sensitive = self.siblings.sensitive_children(wrapper.etree_element, children)
+        if sensitive is None:  # the common case: tag, attributes and emptiness decide
+            raw_ids, out = self.raw_ids, []
+            for child in wrapper.iter_children():
+                cel = child.etree_element
+                raw = (cel.tag, tuple(cel.attrib.items()),
+                       not len(cel) and not (cel.text or "").strip())
+                ident = raw_ids.get(raw)
+                if ident is None:
+                    if len(raw_ids) > LIMIT:
+                        raw_ids.clear()
+                    ident = raw_ids[raw] = self.intern((raw[0], self.attrs(cel), raw[2]))
+                out.append((child, ident, 0, 0))
+            return out
         intern = self.intern
         following = [0] * len(children)
         nxt = 0
@@ -74,8 +92,12 @@ class Structure:
         for i, child in enumerate(wrapper.iter_children()):
             cel = child.etree_element
             attrs = self.attrs(cel)
-            out.append((child, self.element_id(cel, prev_chain, following[i], attrs),
-                        prev_chain, following[i]))
+            empty = not len(cel) and not (cel.text or "").strip()
+            if sensitive[i]:
+                ident = intern((cel.tag, attrs, prev_chain, following[i], empty))
+            else:
+                ident = intern((cel.tag, attrs, empty))
+            out.append((child, ident, prev_chain, following[i]))
             prev_chain = intern(("s", cel.tag, attrs, prev_chain))
         return out
 
@@ -88,6 +110,13 @@ class PageStructure:
         self.structure = structure
         self.wrapper = cssselect2.ElementWrapper.from_html_root(root)
         self.kids = {}  # element -> Structure.children(its wrapper)
+        self.texts = {}  # element -> its own text
+
+    def text(self, el) -> str:
+        text = self.texts.get(el)
+        if text is None:
+            text = self.texts[el] = own_text(el)
+        return text
 
     def children(self, wrapper) -> list:
         el = wrapper.etree_element

@@ -207,5 +207,23 @@ class JsonFormatter(Formatter):
             "summary": summary_dict(summary),
             "disclaimer": DISCLAIMER,
         }
-        json.dump(document, self.stream, indent=2, ensure_ascii=False)
-        self.stream.write("\n")
+        write_document(self.stream, document, one_per_line=("findings", "problems",
+                                                             "diagnostics"))
+
+
+def write_document(stream, document: dict, one_per_line=()) -> None:
+    """Indented JSON, except that the entries of the lists named in ``one_per_line`` take one
+    line each: a large site's report stays readable and greppable, and is written by the C
+    encoder (``json`` falls back to pure Python whenever it indents; ten times slower here)."""
+    stream.write("{\n")
+    last = len(document) - 1
+    for i, (key, value) in enumerate(document.items()):
+        stream.write(f"  {json.dumps(key)}: ")
+        if key in one_per_line and value:
+            stream.write("[\n    ")
+            stream.write(",\n    ".join(json.dumps(item, ensure_ascii=False) for item in value))
+            stream.write("\n  ]")
+        else:
+            stream.write(json.dumps(value, indent=2, ensure_ascii=False).replace("\n", "\n  "))
+        stream.write(",\n" if i < last else "\n")
+    stream.write("}\n")
