@@ -49,3 +49,27 @@ def test_background_from_a_grand_ancestor_and_opacity_layer(render):
     assert ("background-color", "/html/body/section") in kinds
     assert ("opacity", "/html/body/section/div") in kinds
     assert sample.bg_cause.declaration.selector == ".band"
+
+
+def test_xpaths_are_what_lxml_getpath_writes():
+    """The walker builds XPaths from its children lists instead of calling lxml's getpath on
+    every element; the two must agree (reference: lxml's ``getpath``, libxml2's
+    xmlGetNodePath), including same-tag siblings, comments between them and implied tbody."""
+    from tinctura.extract.html import parse_html
+    from tinctura.extract.ruleset import RuleSet
+    from tinctura.extract.structure import PageStructure
+
+    root = parse_html("<html><body><div><p>a</p><!-- c --><p>b</p><span>x</span></div>"
+                      "<div><svg><rect/><rect/></svg><o:p>w</o:p></div>"
+                      "<table><tr><td>1</td><td>2</td></tr><tr><td>3</td></tr></table>"
+                      "<ul><li>1<li>2<li>3</ul><p>end</p></body></html>")
+    page = PageStructure(root, RuleSet([], []).structure)
+    todo = [root]
+    while todo:
+        el = todo.pop()
+        todo.extend(child for child, *_ in page.children(el))
+    getpath = root.getroottree().getpath
+    elements = [el for el in root.iter() if isinstance(el.tag, str)]
+    assert len(page.paths) == len(elements)
+    for el in elements:
+        assert page.paths[el] == getpath(el)

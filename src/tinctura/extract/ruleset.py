@@ -152,7 +152,7 @@ class Index:
                 d["other"] = True
         self.dynamic_buckets = d
 
-    def state_can_matter(self, wrapper) -> bool:
+    def state_can_matter(self, element) -> bool:
         """Could a rule with a dynamic pseudo-class style an element in this subtree?
 
         Only the buckets are consulted (no selector is run): a cheap filter that keeps every
@@ -160,7 +160,7 @@ class Index:
         d = self.dynamic_buckets
         if d["other"]:
             return True
-        for el in wrapper.etree_element.iter():
+        for el in element.iter():
             if not isinstance(el.tag, str):
                 continue
             if el.tag.lower() in d["tag"] or el.get("id") in d["id"]:

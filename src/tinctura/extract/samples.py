@@ -114,15 +114,14 @@ class PageWalker:
         return self.cache.intern((parent_id, element_id))
 
     # -- styles ----------------------------------------------------------------------------
-    def style_for(self, wrapper, parent_style, key_id, is_root):
+    def style_for(self, el, parent_style, key_id, is_root):
         cache = self.cache.styles
         style = cache.get(key_id)
         if style is not None:
             if is_root:  # rem units below resolve against the root's font size
                 self.resolver.root_font_size = style.font_size
             return style
-        el = wrapper.etree_element
-        rules = self.index.match(wrapper)
+        rules = self.index.match(self.structure.wrapper_of(el))
         inline = el.get("style")
         inline_decls = parse_declarations(inline) if inline else ()
         winners = cascade(rules, inline_decls, self.ruleset)
@@ -139,6 +138,7 @@ class PageWalker:
         style = self.resolver.compute(winners, parent_style, is_root, ua_winners)
         style.has_opacity_above = parent_style.has_opacity_above or parent_style.opacity < 1
         style.disabled = parent_style.disabled or _disabled(el)
+        style.hidden_within = parent_style.hidden_within or style.visually_hidden
         pseudos = {}
         for rule in rules:
             if rule.pseudo in ("before", "after", "placeholder", "marker"):
@@ -154,7 +154,6 @@ class PageWalker:
 
     # -- walk ------------------------------------------------------------------------------
     def walk(self, states: bool = False):
-        root_wrapper = self.structure.wrapper
         self.meta = {}
         self.texts = {}  # element -> its own text, from the resting walk
         self.interactive = []
@@ -163,11 +162,12 @@ class PageWalker:
         self._path_memo = {}
         self._recording = []  # open recordings, innermost last
         self.collect = bool(states and self.index.dynamic_rules)
+        self._getpath = self.structure.path
         self.state = REST
         if self.memo is not None:
             self.memo.page += 1
         root_key = self._key(0, self.structure.root_id())
-        self._walk([(root_wrapper, ROOT_PARENT, root_key, True, (), True)], rest=True)
+        self._walk([(self.root, ROOT_PARENT, root_key, True, (), True)], rest=True)
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
             self.interactive = []
@@ -175,9 +175,9 @@ class PageWalker:
 
     def _run_states(self, targets):
         for state, on_self, on_path in STATES:
-            for wrapper, kid in targets:
-                if self.index.state_can_matter(wrapper):
-                    self._state_shared(wrapper, kid, state, on_self, on_path, self.rest)
+            for el, kid in targets:
+                if self.index.state_can_matter(el):
+                    self._state_shared(el, kid, state, on_self, on_path, self.rest)
         self.state = REST
 
     def _open_scope(self, el, key_id, is_root):
@@ -216,7 +216,7 @@ class PageWalker:
     def _replay(self, fragment, el):
         for reason, count in fragment.skipped.items():
             self.skipped[reason] = self.skipped.get(reason, 0) + count
-        stamp = frag_mod.Stamp(self.page, self.scheme, el)
+        stamp = frag_mod.Stamp(self.page, self.scheme, el, self._path(el))
         first = len(self.samples)
         if self.lazy:
             self.replays.append((fragment, stamp))
@@ -228,7 +228,7 @@ class PageWalker:
                                  fragment))
 
     def _path(self, el):
-        return el.getroottree().getpath(el)
+        return self.structure.path(el)
 
     def _walk(self, stack, rest=False):
         key = self._key
@@ -237,35 +237,34 @@ class PageWalker:
         collect = rest and self.collect
         while stack:
             item = stack.pop()
-            wrapper = item[0]
-            if wrapper is None:
+            el = item[0]
+            if el is None:
                 self._close_scope(item[1])
                 continue
             _, parent_style, key_id, is_root, chain, scopable = item
-            el = wrapper.etree_element
             tag = el.tag.lower() if isinstance(el.tag, str) else ""
             if rest and scopable and tag in SCOPE_TAGS and len(el):
                 scope = self._open_scope(el, key_id, is_root)
                 if scope is None:
                     continue  # replayed
                 stack.append((None, scope))
-            style = self.style_for(wrapper, parent_style, key_id, is_root)
+            style = self.style_for(el, parent_style, key_id, is_root)
             if is_root:
-                self.canvas = self._canvas(style, wrapper)
+                self.canvas = self._canvas(style)
             if style.display == "none":
                 self._skip("display:none", el)
                 continue
             if style.opacity <= 0:
                 self._skip("opacity:0", el)
                 continue
-            chain = chain + ((wrapper, style),)
+            chain = chain + ((el, style),)
             if tag in SVG_SHAPES and style.visibility == "visible":
                 self._shape(el, style)
             focusable = _focusable(el, tag)
             if collect and focusable and not style.disabled:
-                self.interactive.append((wrapper, key_id))
-            self._texts(wrapper, el, tag, style, chain, key_id)
-            children = children_of(wrapper)
+                self.interactive.append((el, key_id))
+            self._texts(el, tag, style, chain, key_id)
+            children = children_of(el)
             if not children:
                 continue
             scopable = scopable and not focusable and tag != "svg"
@@ -273,7 +272,7 @@ class PageWalker:
             for child, element_id, prev_chain, following in children:
                 cid = key(key_id, element_id)
                 if collect:
-                    meta[child.etree_element] = (prev_chain, following, cid)
+                    meta[child] = (prev_chain, following, cid)
                 items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
@@ -281,7 +280,7 @@ class PageWalker:
         """A state's samples, reused from an earlier element with the same style key and the
         same subtree (tags, attributes, which elements have text): a site's navigation repeats
         on every page, so each link's :hover and :focus are computed once per site."""
-        el = target.etree_element
+        el = target
         # the descendants' style keys (from the resting walk) stand for their tags, attributes
         # and ancestors; which of them carry text decides which samples exist
         meta, texts = self.meta, self.texts
@@ -306,16 +305,11 @@ class PageWalker:
 
     def _state(self, target, state, on_self, on_path, rest):
         """Samples of ``target``'s subtree with a dynamic pseudo-class in force."""
-        path = []
-        w = target
-        while w is not None:
-            path.append(w)
-            w = w.parent
+        path = [target] + list(target.iterancestors())
         path.reverse()
         marked = []
-        for w in path:
-            el = w.etree_element
-            for name in (on_self if w is target else on_path):
+        for el in path:
+            for name in (on_self if el is target else on_path):
                 attr = STATE_ATTR + name
                 if el.get(attr) is None:
                     el.set(attr, "")
@@ -323,9 +317,8 @@ class PageWalker:
         try:
             parent_style, parent_id, chain = ROOT_PARENT, 0, ()
             memo = self._path_memo
-            for k, w in enumerate(path):
-                el = w.etree_element
-                if w is not target:  # ancestors carry the same state for every target below
+            for k, el in enumerate(path):
+                if el is not target:  # ancestors carry the same state for every target below
                     hit = memo.get((el, state))
                     if hit is not None:
                         if hit is False:
@@ -338,14 +331,14 @@ class PageWalker:
                 else:
                     kid = self._key(parent_id, self.structure.structure.element_id(
                         el, prev_id, following))
-                style = self.style_for(w, parent_style, kid, k == 0)
+                style = self.style_for(el, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
-                    if w is not target:
+                    if el is not target:
                         memo[(el, state)] = False
                     return
-                if w is target:
+                if el is target:
                     break
-                chain = chain + ((w, style),)
+                chain = chain + ((el, style),)
                 parent_style, parent_id = style, kid
                 memo[(el, state)] = (parent_style, parent_id, chain)
             before = len(self.samples)
@@ -367,12 +360,12 @@ class PageWalker:
         if len(el) or (el.text or "").strip():
             self.skipped[reason] = self.skipped.get(reason, 0) + 1
 
-    def _canvas(self, root_style, wrapper):
+    def _canvas(self, root_style):
         canvas = parse_color("Canvas", scheme=root_style.scheme)
         return canvas if isinstance(canvas, tuple) else (1.0, 1.0, 1.0, 1.0)
 
     # -- samples ---------------------------------------------------------------------------
-    def _texts(self, wrapper, el, tag, style, chain, key_id):
+    def _texts(self, el, tag, style, chain, key_id):
         if tag in NO_TEXT and tag != "input":
             if tag == "textarea" or tag == "select":
                 return
@@ -412,7 +405,7 @@ class PageWalker:
         if style.visibility != "visible":
             self.skipped["visibility:hidden"] = self.skipped.get("visibility:hidden", 0) + 1
             return
-        if any(s.visually_hidden for _, s in chain):
+        if style.hidden_within:
             self.skipped["visually hidden"] = self.skipped.get("visually hidden", 0) + 1
             return
         if tag == "li" and style.display == "list-item" and style.list_style not in GLYPH_MARKERS:
@@ -450,12 +443,13 @@ class PageWalker:
         layers) is filled in here, because elements sharing a key may stand elsewhere."""
         core = self.cache.cores.get(core_key)
         if core is None:
-            core = self._core(el, style, chain, kind, shapes)
+            core = self._core(el, style, chain, kind, shapes) + (round(style.font_size, 4),
+                                                                 style.font_weight)
             self.cache.cores[core_key] = core
         fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, inherited_at, layers, \
-            bg_cause, surround = core
-        getpath = el.getroottree().getpath
-        xpath = getpath(el) + suffix
+            bg_cause, surround, size, weight = core
+        getpath = self._getpath
+        xpath = getpath(el) + suffix if suffix else getpath(el)
         if self.collect and self.state == REST:
             self.rest[(xpath, kind)] = (fg, bg)
         if inherited_at is not None:
@@ -463,12 +457,12 @@ class PageWalker:
                              fg_cause.chain)
         layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
                        for at, kind_, colour, cause in layers) if self.keep_layers else ()
+        # own texts arrive collapsed; generated content and attribute values may not
+        text = text[:60] if kind == "text" else " ".join(text.split())[:60]
         self.samples.append(Sample(
-            page=self.page, scheme=self.scheme, state=self.state, xpath=xpath,
-            line=el.sourceline or 0, text=" ".join(text.split())[:60], kind=kind, fg=fg, bg=bg,
-            fg_raw=fg_raw, font_size_px=round(style.font_size, 4), font_weight=style.font_weight,
-            status=status, reason=reason, bg_alternatives=alts, exempt=exempt,
-            fg_cause=fg_cause, bg_layers=layers, bg_cause=bg_cause, surround=surround))
+            self.page, self.scheme, self.state, xpath, el.sourceline or 0, text, kind, fg, bg,
+            fg_raw, size, weight, status, reason, alts, exempt, fg_cause, layers, bg_cause,
+            surround))
 
     def _core(self, el, style, chain, kind, shapes=()):
         if kind == "svg-text":  # SVG text paints with fill, initially black
@@ -520,7 +514,7 @@ class PageWalker:
         """
         transparent = (0.0, 0.0, 0.0, 0.0)
         options = [(top, transparent)]
-        for wrapper, s in reversed(chain):
+        for _, s in reversed(chain):
             paints = _paints(s)
             options = [((over(f, p) if p[3] > 0 else f), (over(b, p) if p[3] > 0 else b))
                        for f, b in options for p in paints][:MAX_ALTERNATIVES]
@@ -630,8 +624,8 @@ def _dedupe(colours):
 def _inherited_index(chain):
     """Index in the chain of the nearest ancestor whose colour was set, not inherited."""
     for at in range(len(chain) - 2, -1, -1):
-        wrapper, s = chain[at]
-        if wrapper is not None and not s.color_inherited:
+        el, s = chain[at]
+        if el is not None and not s.color_inherited:
             return at
     return None
 
@@ -639,8 +633,8 @@ def _inherited_index(chain):
 def _path_at(chain, at, getpath):
     if at is None:
         return ""
-    wrapper = chain[at][0]
-    return getpath(wrapper.etree_element) if wrapper is not None else ""
+    el = chain[at][0]
+    return getpath(el) if el is not None else ""
 
 
 def _svg_root(el):

@@ -61,17 +61,16 @@ class Structure:
             return self.intern((el.tag, attrs, prev_chain, following, empty))
         return self.intern((el.tag, attrs, empty))
 
-    def children(self, wrapper) -> list:
-        """``(child wrapper, structural id, previous-siblings id, following-siblings id)``;
-        the sibling ids are 0 where no selector can read them."""
-        children = wrapper.etree_children
+    def children(self, el) -> list:
+        """``(child, structural id, previous-siblings id, following-siblings id)`` for the
+        child elements of ``el``; the sibling ids are 0 where no selector can read them."""
+        children = [c for c in el if isinstance(c.tag, str)]
         if not children:
-            return []
-        sensitive = self.siblings.sensitive_children(wrapper.etree_element, children)
+            return children
+        sensitive = self.siblings.sensitive_children(el, children)
         if sensitive is None:  # the common case: tag, attributes and emptiness decide
             raw_ids, out = self.raw_ids, []
-            for child in wrapper.iter_children():
-                cel = child.etree_element
+            for cel in children:
                 raw = (cel.tag, tuple(cel.attrib.items()),
                        not len(cel) and not (cel.text or "").strip())
                 ident = raw_ids.get(raw)
@@ -79,7 +78,7 @@ class Structure:
                     if len(raw_ids) > LIMIT:
                         raw_ids.clear()
                     ident = raw_ids[raw] = self.intern((raw[0], self.attrs(cel), raw[2]))
-                out.append((child, ident, 0, 0))
+                out.append((cel, ident, 0, 0))
             return out
         intern = self.intern
         following = [0] * len(children)
@@ -89,28 +88,70 @@ class Structure:
             nxt = intern(("f", children[i].tag, nxt))
         prev_chain = 0  # identity of the previous siblings (tags and attributes)
         out = []
-        for i, child in enumerate(wrapper.iter_children()):
-            cel = child.etree_element
+        for i, cel in enumerate(children):
             attrs = self.attrs(cel)
             empty = not len(cel) and not (cel.text or "").strip()
             if sensitive[i]:
                 ident = intern((cel.tag, attrs, prev_chain, following[i], empty))
             else:
                 ident = intern((cel.tag, attrs, empty))
-            out.append((child, ident, prev_chain, following[i]))
+            out.append((cel, ident, prev_chain, following[i]))
             prev_chain = intern(("s", cel.tag, attrs, prev_chain))
         return out
 
 
+def steps(children) -> list:
+    """The last XPath step of each child, as lxml's ``getpath`` writes it: the tag, with the
+    position among same-tag siblings when there are several."""
+    count = {}
+    for c in children:
+        count[c.tag] = count.get(c.tag, 0) + 1
+    seen, out = {}, []
+    for c in children:
+        tag = c.tag
+        if count[tag] == 1:
+            out.append(tag)
+        else:
+            n = seen[tag] = seen.get(tag, 0) + 1
+            out.append(f"{tag}[{n}]")
+    return out
+
+
 class PageStructure:
-    """One page's element wrappers and children lists, shared by the walks of its schemes."""
+    """One page's children lists, texts and XPaths, shared by the walks of its schemes, and the
+    cssselect2 wrappers selector matching needs, built only for elements that get matched
+    (a style-cache miss, a state walk): most elements of a page never are."""
 
     def __init__(self, root, structure: Structure):
         self.root = root
         self.structure = structure
-        self.wrapper = cssselect2.ElementWrapper.from_html_root(root)
-        self.kids = {}  # element -> Structure.children(its wrapper)
+        self.kids = {}  # element -> Structure.children(element)
         self.texts = {}  # element -> its own text
+        # element -> XPath, filled as children lists are made (lxml's getpath rescans every
+        # level's siblings: a tenth of all the work on a large page)
+        self.paths = {root: "/" + root.tag}
+        self._getpath = root.getroottree().getpath
+        self._reset_wrappers()
+
+    def _reset_wrappers(self) -> None:
+        self.wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
+        self.wrappers = {self.root: self.wrapper}
+
+    def wrapper_of(self, el):
+        wrappers = self.wrappers
+        wrapper = wrappers.get(el)
+        if wrapper is not None:
+            return wrapper
+        missing = [el]  # the element and its ancestors without wrappers, deepest first
+        for up in el.iterancestors():
+            if up in wrappers:
+                break
+            missing.append(up)
+        for item in reversed(missing):
+            parent = wrappers[item.getparent()]
+            for child in parent.iter_children():  # siblings too: matching reads `previous`
+                wrappers[child.etree_element] = child
+        return wrappers[el]
 
     def text(self, el) -> str:
         text = self.texts.get(el)
@@ -118,12 +159,24 @@ class PageStructure:
             text = self.texts[el] = own_text(el)
         return text
 
-    def children(self, wrapper) -> list:
-        el = wrapper.etree_element
+    def children(self, el) -> list:
         kids = self.kids.get(el)
         if kids is None:
-            kids = self.kids[el] = self.structure.children(wrapper)
+            kids = self.kids[el] = self.structure.children(el)
+            if kids:
+                paths = self.paths
+                base = paths.get(el)
+                if base is None:
+                    base = paths[el] = self._getpath(el)
+                for (child, *_), step in zip(kids, steps([k[0] for k in kids])):
+                    paths[child] = f"{base}/{step}"
         return kids
+
+    def path(self, el) -> str:
+        path = self.paths.get(el)
+        if path is None:
+            path = self.paths[el] = self._getpath(el)
+        return path
 
     def root_id(self) -> int:
         return self.structure.intern(("root", self.structure.element_id(self.root, 0, 0)))
@@ -133,7 +186,7 @@ class PageStructure:
         if not elements:
             return
         if WRAPPER_CACHED & {a.lower() for a in attributes}:
-            self.wrapper = cssselect2.ElementWrapper.from_html_root(self.root)
+            self._reset_wrappers()
             self.kids.clear()
             return
         for el in elements:

@@ -105,7 +105,8 @@ class Style:
     __slots__ = ("color", "color_cause", "color_inherited", "bg", "bg_cause", "images",
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
-                 "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style")
+                 "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style",
+                 "hidden_within")
 
     def __init__(self):
         self.color = BLACK
@@ -130,6 +131,7 @@ class Style:
         self.pseudo = None
         self.list_style = "disc"
         self.has_opacity_above = False
+        self.hidden_within = False  # this element or an ancestor is visually hidden
         self.svg_fill = None
         self.disabled = False
 
