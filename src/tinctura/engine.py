@@ -14,8 +14,10 @@ from __future__ import annotations
 
 import dataclasses
 import fnmatch
+import gc
 import os
 import re
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 
 from . import problems as problems_mod
@@ -326,6 +328,7 @@ _WORKER = None
 def _worker_init(root, options, judged):
     global _WORKER
     _WORKER = (Site(root, options), options, judged)
+    gc.set_threshold(max(gc.get_threshold()[0], GC_THRESHOLD), *gc.get_threshold()[1:])
 
 
 def _worker_check(rel):
@@ -396,11 +399,29 @@ def _worker_check_html(args):
     return _process(site, rel, options, judged, html)
 
 
+@contextmanager
+def relaxed_gc():
+    """Fewer cyclic garbage collections while pages are checked: a page allocates hundreds of
+    thousands of short-lived tuples and records (freed by reference counting; the walk makes
+    no cycles), and each collection also rescans the long-lived style caches. Measured with
+    callgrind on the 1,000-page benchmark site: 4 % fewer instructions."""
+    before = gc.get_threshold()
+    gc.set_threshold(max(before[0], GC_THRESHOLD), *before[1:])
+    try:
+        yield
+    finally:
+        gc.set_threshold(*before)
+
+
+GC_THRESHOLD = 50000
+
+
 def _site_pages(site, pages, options, judged):
     jobs = max(1, int(options.jobs or 1))
     if jobs == 1 or len(pages) < 2 * jobs:
-        for rel in pages:
-            yield _process(site, rel, options, judged)
+        with relaxed_gc():
+            for rel in pages:
+                yield _process(site, rel, options, judged)
         return
     import multiprocessing
 

@@ -175,55 +175,63 @@ def sample_dict(s) -> dict:
 
 
 class JsonFormatter(Formatter):
-    """Collects everything, writes one JSON document at ``stop``."""
+    """Writes one JSON document as the run goes: findings as their pages arrive, one per line,
+    so that a large site's report is never held in memory twice."""
+
+    SECTIONS = ("findings", "problems", "diagnostics")
 
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)
-        self.findings: list = []
-        self.index_of: dict = {}
-        self.problems: list = []
-        self.diagnostics: list = []
+        self.index_of: dict = {}  # id(finding) -> index in "findings", for the problems
+        self._section = -1  # index in SECTIONS of the open list
+        self._count = 0  # items written to the open list
 
-    def page(self, page, findings) -> None:
-        for f in findings:
-            self.index_of[id(f)] = len(self.findings)
-            self.findings.append(finding_dict(f))
-
-    def problem(self, index, problem) -> None:
-        self.problems.append(problem_dict(problem, self.index_of))
-
-    def diagnostic(self, diagnostic) -> None:
-        self.diagnostics.append(diagnostic_dict(diagnostic))
-
-    def stop(self, summary) -> None:
-        document = {
+    def start(self, summary) -> None:
+        head = {
             "tool": {"name": self.header.tool, "version": self.header.version},
             "format_version": SCHEMA_VERSION,
             "level": self.header.level,
             "schemes": list(self.header.schemes or summary.schemes),
-            "findings": self.findings,
-            "problems": self.problems,
-            "diagnostics": self.diagnostics,
-            "summary": summary_dict(summary),
-            "disclaimer": DISCLAIMER,
         }
-        write_document(self.stream, document, one_per_line=("findings", "problems",
-                                                             "diagnostics"))
+        self.stream.write("{\n")
+        for key, value in head.items():
+            self._field(key, value)
+            self.stream.write(",\n")
 
+    def page(self, page, findings) -> None:
+        for f in findings:
+            self.index_of[id(f)] = self._item("findings", finding_dict(f))
 
-def write_document(stream, document: dict, one_per_line=()) -> None:
-    """Indented JSON, except that the entries of the lists named in ``one_per_line`` take one
-    line each: a large site's report stays readable and greppable, and is written by the C
-    encoder (``json`` falls back to pure Python whenever it indents; ten times slower here)."""
-    stream.write("{\n")
-    last = len(document) - 1
-    for i, (key, value) in enumerate(document.items()):
-        stream.write(f"  {json.dumps(key)}: ")
-        if key in one_per_line and value:
-            stream.write("[\n    ")
-            stream.write(",\n    ".join(json.dumps(item, ensure_ascii=False) for item in value))
-            stream.write("\n  ]")
-        else:
-            stream.write(json.dumps(value, indent=2, ensure_ascii=False).replace("\n", "\n  "))
-        stream.write(",\n" if i < last else "\n")
-    stream.write("}\n")
+    def problem(self, index, problem) -> None:
+        self._item("problems", problem_dict(problem, self.index_of))
+
+    def diagnostic(self, diagnostic) -> None:
+        self._item("diagnostics", diagnostic_dict(diagnostic))
+
+    def stop(self, summary) -> None:
+        self._open(len(self.SECTIONS))
+        self._field("summary", summary_dict(summary))
+        self.stream.write(",\n")
+        self._field("disclaimer", DISCLAIMER)
+        self.stream.write("\n}\n")
+
+    def _field(self, key, value) -> None:
+        text = json.dumps(value, indent=2, ensure_ascii=False).replace("\n", "\n  ")
+        self.stream.write(f"  {json.dumps(key)}: {text}")
+
+    def _open(self, section: int) -> None:
+        """Close the open list and open (and close) every list before ``section``."""
+        while self._section < section:
+            if self._section >= 0:
+                self.stream.write("\n  ],\n" if self._count else "],\n")
+            self._section += 1
+            self._count = 0
+            if self._section < len(self.SECTIONS):
+                self.stream.write(f'  "{self.SECTIONS[self._section]}": [')
+
+    def _item(self, section: str, item) -> int:
+        self._open(self.SECTIONS.index(section))
+        self.stream.write(",\n    " if self._count else "\n    ")
+        self.stream.write(json.dumps(item, ensure_ascii=False))
+        self._count += 1
+        return self._count - 1
