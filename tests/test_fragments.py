@@ -1,0 +1,130 @@
+"""Repeated subtrees are replayed, not walked: the results must be exactly what a walk gives.
+
+The reference here is the engine itself with replay turned off (``Options(replay=False)``):
+the walk without fragments, whose colours the Chromium cross-checks cover. Every field of every
+sample (XPaths, lines, texts, causes with the XPath a colour is inherited from, background
+layers) and every finding, count and declaration use must agree.
+"""
+import pytest
+
+from tinctura.engine import Options, Site, check_paths, judge_page
+from tinctura.extract import fragments
+from tinctura.problems import declaration_uses
+
+CSS = """
+:root { --link: #1a56a8; --muted: #6d6d6d; }
+@media (prefers-color-scheme: dark) {
+  :root { --link: #8ab4f8; --muted: #8a8a8a; }
+  body { background: #121212; color: #e8e8e8; }
+}
+nav.primary { color: var(--muted); }
+.section > label { color: #555; }
+.toggle:checked ~ nav { background: #f4f4f4; }
+.item:nth-child(2) a { color: #7a7a7a; }
+.item:last-child a { color: #0b5; }
+.item a:hover { color: #c0c0c0; }
+.item a:focus-visible { color: #d0d0d0; }
+.item--active > a { font-weight: 700; color: var(--link); }
+.hidden { display: none; }
+.sr { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); }
+article p { color: #333; }
+"""
+
+
+def section(n, active_page, pages_per_section=3):
+    items = []
+    for k in range(pages_per_section):
+        page = n * pages_per_section + k
+        cls = "item item--active" if page == active_page else "item"
+        items.append(f'<li class="{cls}"><a href="../p{page}/">Page {page}</a>'
+                     f'<span class="hidden">draft</span></li>')
+    checked = " checked" if active_page // pages_per_section == n else ""
+    return (f'<li class="section"><input class="toggle" type="checkbox" id="s{n}"{checked}>'
+            f'<label for="s{n}">Section {n}</label><nav><ul>\n'
+            + "\n".join(items) + f'\n</ul><span class="sr">end of section {n}</span>'
+            f'<small>{pages_per_section} pages</small></nav></li>')  # colour from nav.primary
+
+
+def page_html(active, sections=4):
+    # a banner on some pages moves the navigation (div.shell becomes div[2]); blank lines on
+    # others move its source lines: replays must re-stamp both
+    banner = '<div class="banner">Notice</div>' if active % 3 == 0 else ""
+    blank = "\n\n\n" if active % 2 == 0 else ""
+    nav = "\n".join(section(n, active) for n in range(sections))
+    return (f'<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head><body>'
+            f'{banner}{blank}<div class="shell"><nav class="primary"><ul>\n{nav}\n</ul></nav>'
+            f'</div><article><p>Page {active} body text with <a href="#x">a link</a>.</p>'
+            f'</article></body></html>')
+
+
+@pytest.fixture
+def repeated_site(tmp_path):
+    (tmp_path / "site.css").write_text(CSS)
+    for n in range(12):
+        (tmp_path / f"p{n}").mkdir()
+        (tmp_path / f"p{n}" / "index.html").write_text(page_html(n))
+    return tmp_path
+
+
+def _order(s):
+    return (s.page, s.scheme, s.state, s.xpath, s.kind)
+
+
+def test_replayed_samples_equal_walked_ones(repeated_site):
+    walked = Site(str(repeated_site), Options(replay=False))
+    replayed = Site(str(repeated_site), Options(replay=True))
+    for rel in walked.pages():
+        a = walked.check_page(rel).samples
+        b = replayed.check_page(rel).samples
+        assert sorted(a, key=_order) == sorted(b, key=_order), rel
+    # the test is only worth something if fragments were replayed across moved places
+    memos = [cache.memo for cache in replayed._caches.values()]
+    assert sum(len(m.fragments) for m in memos) > 0
+    lazy = Site(str(repeated_site), Options(keep_samples=False))
+    bases = {stamp.new_base.split("/nav")[0] for rel in lazy.pages()
+             for _, stamp in lazy.check_page(rel).replays}
+    assert bases == {"/html/body/div", "/html/body/div[2]"}
+
+
+def test_judged_replays_give_the_same_findings_counts_and_uses(repeated_site):
+    def run(replay):
+        options = Options(replay=replay, keep_samples=False)
+        site = Site(str(repeated_site), options)
+        out = []
+        for rel in site.pages():
+            page, findings, uses = judge_page(site, rel, options)
+            out.append((page.stats, uses,
+                        [(f.rule, f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath,
+                          f.sample.line, f.sample.text, f.sample.fg_cause, round(f.ratio, 6),
+                          [(x.target, x.colour) for x in f.fixes]) for f in findings]))
+        return out
+
+    walked, replayed = run(False), run(True)
+    assert walked == replayed
+    assert any(findings for _, _, findings in walked)  # the site has findings to compare
+
+
+def test_replay_with_samples_kept_matches_uses_of_a_walk(repeated_site):
+    walked = check_paths([str(repeated_site)], Options(replay=False))
+    replayed = check_paths([str(repeated_site)], Options(replay=True))
+    assert walked.uses == replayed.uses
+    assert declaration_uses([s for p in walked.pages for s in p.samples]) == \
+        declaration_uses([s for p in replayed.pages for s in p.samples])
+
+
+@pytest.mark.parametrize("xpath, expected", [
+    ("/html/body/nav/ul/li[2]/a", "/html/body/div[2]/nav/ul/li[2]/a"),  # inside
+    ("/html/body/nav", "/html/body/div[2]/nav"),  # the root itself
+    ("/html/body/nav::before", "/html/body/div[2]/nav::before"),  # a pseudo-element of it
+    ("/html/body", "/html/body/div[2]"),  # an ancestor, one level up
+    ("/html", "/html/body"),  # two levels up
+    ("/html/body/navx/p", "/html/body/navx/p"),  # a sibling whose tag only starts alike
+])
+def test_rebase_moves_paths_inside_and_above_the_subtree(xpath, expected):
+    assert fragments.rebase(xpath, "/html/body/nav", "/html/body/div[2]/nav") == expected
+
+
+def test_rebase_does_not_mistake_a_numbered_sibling_for_the_root():
+    # "div[1]" is a string prefix of "div[10]" but not its ancestor
+    assert fragments.rebase("/html/body/div[10]/p", "/html/body/div[1]", "/x") == \
+        "/html/body/div[10]/p"
