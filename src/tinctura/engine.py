@@ -274,14 +274,34 @@ def _judge_replays(page, findings, uses, options) -> None:
 
 class _Verdict:
     """A fragment judged once: findings as (relative XPath, base, finding), declaration uses
-    (with a hashable form, so that equal ones merge once) and counts."""
+    (with a hashable form, so that equal ones merge once) and counts. Equal uses and counts
+    are one shared object: a large navigation has thousands of fragments and few distinct
+    verdicts."""
 
     __slots__ = ("findings", "uses", "uses_key", "stats")
 
     def __init__(self, findings, uses, stats):
-        self.findings, self.uses, self.stats = findings, uses, stats
-        self.uses_key = frozenset((decl, bg, frozenset(schemes))
-                                  for decl, bgs in uses.items() for bg, schemes in bgs.items())
+        self.findings = findings or ()
+        uses_key = frozenset((decl, bg, frozenset(schemes))
+                             for decl, bgs in uses.items() for bg, schemes in bgs.items())
+        self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
+        self.stats = _canonical(("stats", stats["samples"], stats["exempt"],
+                                 tuple(sorted(stats["undetermined"].items())),
+                                 tuple(stats["schemes"])), stats)
+
+
+_CANONICAL: dict = {}
+_CANONICAL_LIMIT = 20000
+
+
+def _canonical(key, value):
+    """One shared object per distinct verdict part (never mutated once shared)."""
+    got = _CANONICAL.get(key)
+    if got is None:
+        if len(_CANONICAL) >= _CANONICAL_LIMIT:
+            _CANONICAL.clear()
+        got = _CANONICAL[key] = value
+    return got
 
 
 def _verdict(fragment, options) -> _Verdict:
@@ -299,6 +319,9 @@ def _verdict(fragment, options) -> _Verdict:
         problems_mod.merge_uses(uses, inner.uses)
         _add_stats(stats, inner.stats)
     verdict = fragment.verdicts[key] = _Verdict(found, uses, stats)
+    if not options.keep_samples:
+        # judged: its samples are not needed again (only failing ones, kept in the findings)
+        fragment.items = fragment.nested()
     return verdict
 
 

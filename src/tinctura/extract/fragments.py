@@ -32,8 +32,10 @@ from lxml import etree
 from ..model import Cause, Sample
 
 _SAMPLE_FIELDS = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
-FRAGMENT_LIMIT = 20000  # recorded fragments kept per style cache (memory bound)
-SEEN_LIMIT = 200000  # fingerprints remembered per style cache
+# Per style cache, least recently used first out: a site's pages come in navigation order, so
+# what repeats now is what repeated on the last pages (memory stays flat on large sites).
+FRAGMENT_LIMIT = 4000  # recorded fragments
+SEEN_LIMIT = 20000  # fingerprints seen once
 # A key stops being fingerprinted once it has shown new subtrees on this many pages and repeats
 # on fewer than a tenth as many occasions: a fingerprint costs about 1/20 of a walk of the same
 # subtree, so even rare repeats would pay, but a page's root and article never repeat. (Several
@@ -64,10 +66,15 @@ class Memo:
     """Fingerprints and fragments for one style cache (one rule index and scheme)."""
 
     def __init__(self):
-        self.fragments = {}  # (key id, fingerprint) -> Fragment
-        self.seen = set()  # (key id, fingerprint) seen once
+        self.fragments = {}  # (key id, fingerprint) -> Fragment, least recently used first
+        self.seen = {}  # (key id, fingerprint) seen once -> True, oldest first
         self.keys = {}  # key id -> [repeats, pages with a new fingerprint, last such page]
         self.page = 0  # serial of the page being walked
+
+    def keep(self, memo_key, fragment) -> None:
+        if len(self.fragments) >= FRAGMENT_LIMIT:
+            del self.fragments[next(iter(self.fragments))]
+        self.fragments[memo_key] = fragment
 
     def clear(self) -> None:
         self.fragments.clear()
@@ -84,16 +91,19 @@ class Memo:
         stats = self.keys.get(key_id)
         if stats is None:
             stats = self.keys[key_id] = [0, 0, 0]
-        fragment = self.fragments.get(memo_key)
+        fragments = self.fragments
+        fragment = fragments.pop(memo_key, None)
         if fragment is not None:
+            fragments[memo_key] = fragment  # most recently used last
             stats[0] += 1
             return fragment, False
-        if memo_key in self.seen:
+        seen = self.seen
+        if seen.pop(memo_key, None) is not None:
             stats[0] += 1
-            return None, len(self.fragments) < FRAGMENT_LIMIT
-        if len(self.seen) >= SEEN_LIMIT:
-            self.seen.clear()
-        self.seen.add(memo_key)
+            return None, True
+        if len(seen) >= SEEN_LIMIT:
+            del seen[next(iter(seen))]
+        seen[memo_key] = True
         if stats[2] != self.page:
             stats[1] += 1
             stats[2] = self.page

@@ -63,22 +63,28 @@ class StyleCache:
         self._next = 0
 
     def fresh(self) -> int:
+        """An id shared with nothing (where selectors read more than the key holds)."""
+        if len(self.styles) > CACHE_LIMIT:
+            self._clear()
         self._next += 1
         return self._next
 
     def intern(self, key) -> int:
         ident = self.ids.get(key)
         if ident is None:
-            if len(self.ids) > CACHE_LIMIT:  # bound memory on large sites
-                self.ids.clear()
-                self.styles.clear()
-                self.cores.clear()
-                self.states.clear()
-                self.memo.clear()
+            if len(self.ids) > CACHE_LIMIT:
+                self._clear()
             # never reused: a walk in progress may still hold ids from before a clear
             self._next += 1
             ident = self.ids[key] = self._next
         return ident
+
+    def _clear(self) -> None:  # bound memory on large sites
+        self.ids.clear()
+        self.styles.clear()
+        self.cores.clear()
+        self.states.clear()
+        self.memo.clear()
 
 
 class PageWalker:
@@ -207,7 +213,7 @@ class PageWalker:
             return
         self._recording.pop()
         fragment = recording.finish(self.samples, self.skipped, self.scheme)
-        self.memo.fragments[recording.memo_key] = fragment
+        self.memo.keep(recording.memo_key, fragment)
         if self._recording:
             outer = self._recording[-1]
             outer.nested.append((recording.start, len(self.samples),
