@@ -18,8 +18,9 @@ of those two, so:
 Keys whose subtrees do not repeat (a page's body, its article) stop being fingerprinted after a
 few pages, so the fingerprint cost stays on what repeats.
 
-The fingerprint is ``(length, hash)`` of the serialization: two different subtrees of the same
-length collide with probability 2**-64 per pair (about 1e-9 for 200,000 fingerprints).
+The fingerprint is ``(length, hash)`` of the serialization, next to the style key: two different
+subtrees under the same key and of the same length collide with probability 2**-64 per pair
+(Python's 64-bit string hash), about 1e-11 for the 20,000 fingerprints a cache remembers.
 """
 from __future__ import annotations
 
@@ -46,11 +47,10 @@ VOLATILE_PAGES = 6
 class Fragment:
     """What walking one subtree produced: samples and nested fragments, in walk order."""
 
-    __slots__ = ("base", "scheme", "items", "skipped", "verdicts")
+    __slots__ = ("base", "items", "skipped", "verdicts")
 
-    def __init__(self, base: str, scheme: str, items: list, skipped: dict):
+    def __init__(self, base: str, items: list, skipped: dict):
         self.base = base  # XPath of the subtree's root where it was recorded
-        self.scheme = scheme
         self.items = items  # Sample, or (relative XPath, Fragment) for a nested fragment
         self.skipped = skipped  # skipped counts of the whole subtree, nested ones included
         self.verdicts = {}  # filled by the engine: judged once per rule selection
@@ -127,7 +127,7 @@ class Recording:
         self.skipped = dict(skipped)  # the page's counts before the subtree
         self.nested = []  # (first sample, end sample, relative XPath, Fragment)
 
-    def finish(self, samples: list, skipped: dict, scheme: str) -> Fragment:
+    def finish(self, samples: list, skipped: dict) -> Fragment:
         items, at = [], self.start
         for first, end, rel, fragment in self.nested:
             items.extend(samples[at:first])
@@ -136,7 +136,7 @@ class Recording:
         items.extend(samples[at:])
         before = self.skipped
         delta = {k: v - before.get(k, 0) for k, v in skipped.items() if v != before.get(k, 0)}
-        return Fragment(self.base, scheme, items, delta)
+        return Fragment(self.base, items, delta)
 
 
 # -- re-stamping ------------------------------------------------------------------------------

@@ -212,7 +212,7 @@ class PageWalker:
         if recording is None:
             return
         self._recording.pop()
-        fragment = recording.finish(self.samples, self.skipped, self.scheme)
+        fragment = recording.finish(self.samples, self.skipped)
         self.memo.keep(recording.memo_key, fragment)
         if self._recording:
             outer = self._recording[-1]
