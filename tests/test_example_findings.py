@@ -86,3 +86,26 @@ def test_shared_caches_change_nothing(tmp_path_factory):
         warm.check_page(rel)
     for rel in pages:
         assert warm.check_page(rel).samples == Site(str(site), Options()).check_page(rel).samples
+
+
+@pytest.mark.slow
+def test_check_mode_gives_what_a_full_walk_gives(tmp_path_factory):
+    """`tinctura check` judges replayed fragments once and keeps no samples; the findings,
+    counts, skipped counts and declaration uses must be those of a walk without replay that
+    keeps every sample (the mode the Chromium cross-checks run in)."""
+    from tinctura.engine import sample_stats
+
+    site = build_example_site(tmp_path_factory.mktemp("site"), tmp_path_factory.mktemp("cfg"))
+    full = check_paths([str(site)], Options(jobs=1, replay=False))
+    lean = check_paths([str(site)], Options(jobs=1, keep_samples=False))
+
+    def findings(report):
+        return sorted((f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath,
+                       f.sample.line, f.sample.text, round(f.ratio, 6), f.sample.fg_cause)
+                      for f in report.findings)
+
+    assert findings(full) == findings(lean)
+    assert full.uses == lean.uses
+    for a, b in zip(full.pages, lean.pages):
+        assert a.page == b.page and a.skipped == b.skipped
+        assert sample_stats(a.samples) == b.stats
