@@ -28,11 +28,15 @@ def fake_engine(monkeypatch, tmp_path):
                "good": [make_sample("#222", "white", page="a.html")]}
     state = {"which": "bad"}
 
-    def check_paths(paths, options):
+    def check_paths(paths, options, findings_to=None):
         calls.append((paths, options))
         page = PageResult("a.html", samples[state["which"]])
         report = engine.Report(pages=[page], schemes=[Scheme("light")])
-        report.findings = engine.evaluate(page.samples, options)
+        findings = engine.evaluate(page.samples, options)
+        if findings_to is None:
+            report.findings = findings
+        else:
+            findings_to(page, findings)
         return report
 
     def iter_pages(paths, options, judged=False):
@@ -215,7 +219,7 @@ def test_check_unwritable_output(fake_engine, tmp_path):
 def test_internal_error_exits_2_with_traceback(fake_engine, monkeypatch):
     _, _, site = fake_engine
 
-    def broken(paths, options):
+    def broken(paths, options, findings_to=None):
         raise RuntimeError("boom")
 
     monkeypatch.setattr(engine, "check_paths", broken)

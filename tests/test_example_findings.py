@@ -109,3 +109,38 @@ def test_check_mode_gives_what_a_full_walk_gives(tmp_path_factory):
     for a, b in zip(full.pages, lean.pages):
         assert a.page == b.page and a.skipped == b.skipped
         assert sample_stats(a.samples) == b.stats
+
+
+@pytest.mark.slow
+def test_reports_from_the_finding_store_equal_reports_from_memory(tmp_path_factory):
+    """`tinctura check` keeps findings on disk and builds problems as they come
+    (``FindingStore``, ``problems.Collector``); every report must be byte for byte the one
+    built from findings held in memory and grouped at the end (``problems.group``)."""
+    import io
+
+    from tinctura import problems, report
+    from tinctura.report.store import FindingStore
+
+    site = build_example_site(tmp_path_factory.mktemp("site"), tmp_path_factory.mktemp("cfg"))
+    options = Options(jobs=1, keep_samples=False)
+    held = check_paths([str(site)], options)
+    store, collector = FindingStore(), problems.Collector()
+
+    def keep(page, findings):
+        store.add(page.page, findings)
+        for f in findings:
+            collector.add(f)
+
+    stored = check_paths([str(site)], options, findings_to=keep)
+    assert len(store) == len(held.findings) > 0
+    for fmt, group in (("json", "cause"), ("text", "cause"), ("text", "page")):
+        out = []
+        for findings, found, run in (
+                (held.findings, problems.group(held.findings, uses=held.uses), held),
+                (store, collector.problems(stored.uses), stored)):
+            stream = io.StringIO()
+            header = report.Header(version="test", group=group, schemes=["default", "slate"])
+            report.render(stream, fmt, header, run.pages, findings, found, run.diagnostics,
+                          colour_choice="never")
+            out.append(stream.getvalue())
+        assert out[0] == out[1], (fmt, group)

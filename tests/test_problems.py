@@ -153,3 +153,35 @@ def test_contexts_name_their_schemes():
                sample("#8a8a8a", "#222222", INK, NIGHT, scheme="dark")]
     (problem,) = group(findings_for(samples), samples)
     assert [c.schemes for c in problem.fix_at_cause.contexts] == [("dark",), ("light",)]
+
+
+@pytest.mark.parametrize("pages", [1, 2, 5])
+def test_the_collector_builds_the_problems_group_builds(pages):
+    """``Collector`` (findings one at a time, none kept) against ``group`` (all findings at
+    once): same problems, counts, worst finding, example candidates, indexes and fix."""
+    from tinctura.problems import Collector, declaration_uses
+    from tinctura.report.text_report import examples
+
+    samples = [sample(c, bg, cause, bgc, page=f"p{i % pages}.html", xpath=f"/p[{i}]",
+                      scheme=scheme)
+               for i, (c, bg, cause, bgc, scheme) in enumerate(
+                   [("#8a8a8a", "#ffffff", MUTED, PAPER, "light"),
+                    ("#999999", "#fafafa", MUTED, CARD, "light"),
+                    ("#8a8a8a", "#ffffff", INK, PAPER, "light"),
+                    ("#555555", "#222222", MUTED, NIGHT, "dark")] * 4)]
+    findings = findings_for(samples)
+    grouped = group(findings, samples)
+    collector = Collector()
+    for f in findings:
+        collector.add(f)
+    collected = collector.problems(uses=declaration_uses(samples))
+    assert len(grouped) == len(collected) > 1
+    index = {id(f): i for i, f in enumerate(findings)}
+    for g, c in zip(grouped, collected):
+        assert (g.rule, g.scheme, g.severity, g.occurrences, g.pages, g.worst_ratio, g.required,
+                g.fg_cause, g.bg_cause) == (c.rule, c.scheme, c.severity, c.occurrences, c.pages,
+                                            c.worst_ratio, c.required, c.fg_cause, c.bg_cause)
+        assert g.worst is c.worst
+        assert examples(g.example_pool()) == examples(c.example_pool())
+        assert [index[id(f)] for f in g.findings] == c.indexes
+        assert g.fix_at_cause == c.fix_at_cause

@@ -12,6 +12,7 @@ import traceback
 from tinctura import engine, problems, report, rules
 from tinctura.model import Diagnostic
 from tinctura.report import messages as m
+from tinctura.report.store import FindingStore
 from tinctura.report.status import ERROR, FAIL_ON, exit_status
 from tinctura.report.terminal import TerminalWriter
 
@@ -219,8 +220,18 @@ def run_check(args, stdout, stderr) -> int:
     check_inputs(args.paths)
     options = options_from(args)
     options.keep_samples = False  # the report needs counts, findings and declaration uses
-    result = engine.check_paths(list(args.paths), options)
-    found = problems.group(result.findings, uses=result.uses)
+    # findings go to disk page by page and problems are built as they come: memory does not
+    # grow with the number of findings
+    store, collector = FindingStore(), problems.Collector()
+
+    def keep(page, findings):
+        store.add(page.page, findings)
+        for f in findings:
+            collector.add(f)
+
+    result = engine.check_paths(list(args.paths), options, findings_to=keep)
+    result.findings = store
+    found = collector.problems(result.uses)
     header = report.Header(
         version=version(),
         level=args.level,

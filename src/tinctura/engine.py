@@ -184,12 +184,14 @@ def judge_gradients(samples, level: str) -> None:
                         f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1 against {required:g}:1")
 
 
-def check_paths(paths, options: Options | None = None) -> Report:
+def check_paths(paths, options: Options | None = None, findings_to=None) -> Report:
     """Check site directories and single HTML files; pages in a stable order.
 
     Each page is judged as soon as it is checked. With ``keep_samples=False`` its samples are
     then reduced to counts and to the backgrounds each colour declaration meets (what the
     grouping into problems needs), so memory does not grow with the number of samples.
+    ``findings_to(page, findings)``, when given, receives each page's findings instead of
+    ``Report.findings`` (``tinctura check`` stores them on disk).
     """
     options = options or Options()
     report = Report()
@@ -200,7 +202,10 @@ def check_paths(paths, options: Options | None = None) -> Report:
             continue
         page, findings, uses = item
         report.pages.append(page)
-        report.findings.extend(findings)
+        if findings_to is None:
+            report.findings.extend(findings)
+        else:
+            findings_to(page, findings)
         problems_mod.merge_uses(report.uses, uses)
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)

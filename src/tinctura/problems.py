@@ -62,14 +62,27 @@ class Problem:
     worst_ratio: float = 0.0
     required: float = 0.0  # the highest ratio any of its findings requires
     fix_at_cause: Optional[CauseFix] = None
+    # Built by a Collector, which keeps no findings list: how many there were, the worst, the
+    # earliest candidates for examples, their indexes in the run, the backgrounds they met.
+    count: Optional[int] = None
+    worst_finding: Optional[Finding] = None
+    candidates: Optional[list] = None
+    indexes: Optional[list] = None
+    backgrounds: Optional[dict] = None
 
     @property
     def occurrences(self) -> int:
-        return len(self.findings)
+        return self.count if self.count is not None else len(self.findings)
 
     @property
     def worst(self) -> Finding:
+        if self.worst_finding is not None:
+            return self.worst_finding
         return min(self.findings, key=lambda f: f.ratio)
+
+    def example_pool(self) -> list:
+        """The findings examples are chosen from, in report order."""
+        return self.findings if self.candidates is None else self.candidates
 
 
 def cause_key(cause: Optional[Cause]) -> tuple:
@@ -141,6 +154,61 @@ def group(findings, samples=(), uses=None) -> list:
     return problems
 
 
+class Collector:
+    """Problems built finding by finding, in run order, keeping per problem only what reports
+    need (count, pages, worst, a few example candidates, indexes, backgrounds): the findings
+    themselves can go to disk (``report.store``), so memory does not grow with them. Gives the
+    same problems as ``group`` over the same findings."""
+
+    EXAMPLES = 3  # as many as a report shows (text_report.EXAMPLES)
+
+    def __init__(self):
+        self._buckets: dict = {}  # problem key -> Problem
+        self._pages: dict = {}  # problem key -> its pages
+        self._seen: dict = {}  # problem key -> findings seen so far
+        self._count = 0
+
+    def add(self, finding: Finding) -> None:
+        index = self._count
+        self._count += 1
+        key = problem_key(finding)
+        p = self._buckets.get(key)
+        if p is None:
+            s = finding.sample
+            p = self._buckets[key] = Problem(
+                rule=finding.rule, slug=finding.slug, severity=finding.severity,
+                scheme=s.scheme, fg_cause=s.fg_cause, bg_cause=s.bg_cause, pages=0,
+                worst_ratio=finding.ratio, required=finding.required, count=0,
+                worst_finding=finding, candidates=[], indexes=[], backgrounds={})
+            self._pages[key] = set()
+            self._seen[key] = 0
+        p.count += 1
+        p.indexes.append(index)
+        if SEVERITY_RANK.get(finding.severity, 9) < SEVERITY_RANK.get(p.severity, 9):
+            p.severity = finding.severity
+        if finding.ratio < p.worst_finding.ratio:
+            p.worst_finding = finding
+        p.worst_ratio = min(p.worst_ratio, finding.ratio)
+        p.required = max(p.required, finding.required)
+        pages, page = self._pages[key], finding.sample.page
+        new_page = page not in pages
+        pages.add(page)
+        # examples take the first finding of each of the first pages, then the earliest ones
+        if (new_page and len(pages) <= self.EXAMPLES) or self._seen[key] < 2 * self.EXAMPLES:
+            p.candidates.append(finding)
+        self._seen[key] += 1
+        _add_backgrounds(p.backgrounds, finding.sample)
+
+    def problems(self, uses: dict) -> list:
+        out = []
+        for key, p in self._buckets.items():
+            p.pages = len(self._pages[key])
+            p.fix_at_cause = fix_at_cause(p, uses)
+            out.append(p)
+        out.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
+        return out
+
+
 def declaration_uses(samples) -> dict:
     """Declaration -> {background: schemes} over every judged sample whose text colour it sets.
 
@@ -177,6 +245,9 @@ _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgro
 def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
     declaration = target_declaration(problem.fg_cause)
     backgrounds: dict = {}  # background -> schemes it appears in
+    if problem.backgrounds is not None:
+        for bg, schemes in problem.backgrounds.items():
+            backgrounds[bg] = set(schemes)
     for f in problem.findings:
         _add_backgrounds(backgrounds, f.sample)
     if declaration is not None:

@@ -58,13 +58,22 @@ def findings_by_page(findings) -> dict:
 def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) -> None:
     """Feed one run to ``formatter``. ``diagnostics``: site-wide ones; page ones come along."""
     formatter.start(summary)
-    grouped = findings_by_page(findings)
+    if hasattr(findings, "by_page"):  # a FindingStore: one page in memory at a time
+        grouped = {name: None for name in findings.pages()}
+
+        def of(name):
+            return findings_by_page(findings.by_page(name)).get(name, [])
+    else:
+        grouped = findings_by_page(findings)
+
+        def of(name):
+            return grouped.get(name, [])
     seen = set()
     for page in pages:
         seen.add(page.page)
-        formatter.page(page, grouped.get(page.page, []))
+        formatter.page(page, of(page.page))
     for name in sorted(set(grouped) - seen):  # findings on pages the run did not list
-        formatter.page(PageResult(name), grouped[name])
+        formatter.page(PageResult(name), of(name))
     for index, problem in enumerate(problems, 1):
         formatter.problem(index, problem)
     for diagnostic in diagnostics:

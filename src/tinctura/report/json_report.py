@@ -122,7 +122,8 @@ def problem_dict(problem, index_of: dict) -> dict:
         "fg_cause": cause_dict(problem.fg_cause),
         "bg_cause": cause_dict(problem.bg_cause),
         "fix_at_cause": cause_fix_dict(problem.fix_at_cause),
-        "findings": [index_of[id(f)] for f in problem.findings if id(f) in index_of],
+        "findings": list(problem.indexes) if problem.indexes is not None else
+        [index_of[id(f)] for f in problem.findings if id(f) in index_of],
     }
 
 

@@ -27,4 +27,11 @@ def exit_status(findings=(), fail_on: str = "error", error: bool = False) -> int
     """0 clean, 1 findings at or above ``fail_on``, 2 when the run itself failed (``error``)."""
     if error:
         return ERROR
+    counts = getattr(findings, "counts", None)  # a FindingStore: no need to read it back
+    if counts is not None:
+        if fail_on not in FAIL_ON:
+            raise ValueError(f"unknown --fail-on value {fail_on!r}")
+        hit = any(n and at_or_above(severity, fail_on)
+                  for severity, n in counts["severity"].items())
+        return FINDINGS if hit else CLEAN
     return FINDINGS if failing(findings, fail_on) else CLEAN

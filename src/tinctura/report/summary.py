@@ -44,9 +44,15 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
     skipped: Counter = Counter()
     for page in pages:
         skipped.update(page.skipped)
+    counts = getattr(findings, "counts", None)  # a FindingStore counted them as they came
+    if counts is None:
+        counts = {"severity": Counter(f.severity for f in findings),
+                  "rule": Counter(f.rule for f in findings),
+                  "page": Counter(f.sample.page for f in findings),
+                  "scheme": Counter(f.sample.scheme for f in findings)}
     by_severity = {name: 0 for name in SEVERITIES}
-    by_severity.update(Counter(f.severity for f in findings))
-    by_page = Counter(f.sample.page for f in findings)
+    by_severity.update(counts["severity"])
+    by_page = counts["page"]
     names = [getattr(s, "name", s) for s in schemes]
     if not names:
         names = sorted({s.scheme for s in samples} |
@@ -57,9 +63,9 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         findings=len(findings),
         problems=len(problems),
         by_severity=by_severity,
-        by_rule=dict(sorted(Counter(f.rule for f in findings).items())),
+        by_rule=dict(sorted(counts["rule"].items())),
         by_page=dict(sorted(by_page.items())),
-        by_scheme=dict(sorted(Counter(f.sample.scheme for f in findings).items())),
+        by_scheme=dict(sorted(counts["scheme"].items())),
         undetermined=sum(undetermined.values()),
         undetermined_reasons=dict(sorted(undetermined.items())),
         exempt=sum(1 for s in samples if s.exempt) + sum(stats["exempt"] for stats in kept),

@@ -76,7 +76,7 @@ class TextFormatter(Formatter):
         tw.line(f"   background:  {m.cause(problem.bg_cause, 'no declaration (the canvas)')}")
         for line in cause_fix_lines(problem.fix_at_cause):
             tw.line(f"   {line}", "green")
-        for n, f in enumerate(examples(problem.findings)):
+        for n, f in enumerate(examples(problem.example_pool())):
             s = f.sample
             efg, ebg = m.finding_colours(f)
             lead = "e.g." if n == 0 else "    "
