@@ -177,20 +177,14 @@ def resolve(anchor, rel: str):
 class Stamp:
     """Re-stamps samples recorded around one place for another place on a page."""
 
-    __slots__ = ("page", "scheme", "anchor", "_base", "_lines")
+    __slots__ = ("page", "scheme", "anchor", "new_base", "_lines")
 
-    def __init__(self, page: str, scheme: str, anchor, new_base: str | None = None):
+    def __init__(self, page: str, scheme: str, anchor, new_base: str):
         self.page = page
         self.scheme = scheme
         self.anchor = anchor  # the element at new_base
-        self._base = new_base  # computed when first needed: most replays have no findings
+        self.new_base = new_base
         self._lines = {}
-
-    @property
-    def new_base(self) -> str:
-        if self._base is None:
-            self._base = self.anchor.getroottree().getpath(self.anchor)
-        return self._base
 
     def line(self, rel: str) -> int:
         line = self._lines.get(rel)

@@ -198,7 +198,7 @@ class PageWalker:
                 self._replay(fragment, el)
                 return None
             if record:
-                recording = frag_mod.Recording((key_id, fp), self._path(el), len(self.samples),
+                recording = frag_mod.Recording((key_id, fp), self._getpath(el), len(self.samples),
                                                self.skipped)
                 self._recording.append(recording)
         return (recording, len(self.interactive))
@@ -222,7 +222,7 @@ class PageWalker:
     def _replay(self, fragment, el):
         for reason, count in fragment.skipped.items():
             self.skipped[reason] = self.skipped.get(reason, 0) + count
-        stamp = frag_mod.Stamp(self.page, self.scheme, el, self._path(el))
+        stamp = frag_mod.Stamp(self.page, self.scheme, el, self._getpath(el))
         first = len(self.samples)
         if self.lazy:
             self.replays.append((fragment, stamp))
@@ -232,9 +232,6 @@ class PageWalker:
             outer = self._recording[-1]
             outer.nested.append((first, len(self.samples), stamp.new_base[len(outer.base):],
                                  fragment))
-
-    def _path(self, el):
-        return self.structure.path(el)
 
     def _walk(self, stack, rest=False):
         key = self._key
@@ -294,7 +291,7 @@ class PageWalker:
                     if isinstance(d.tag, str))
         memo_key = (kid, state, sig)
         template = self.cache.states.get(memo_key)
-        base = self._path(el)
+        base = self._getpath(el)
         if template is None:
             before = len(self.samples)
             self._state(target, state, on_self, on_path, rest)

@@ -127,48 +127,40 @@ class SiblingIndex:
 
     def sensitive_children(self, parent, children) -> list | None:
         """For each child of ``parent``, whether it is sensitive; None when none is."""
-        if self.any:
+        if self.any or self._under(parent):
             return [True] * len(children)
-        ptag = parent.tag.lower() if isinstance(parent.tag, str) else ""
-        pkey = ("parent", ptag, parent.get("class"), parent.get("id"))
-        hit = self._memo.get(pkey)
-        if hit is None:
-            pclasses = frozenset(pkey[2].split()) if pkey[2] else frozenset()
-            hit = self._memo[pkey] = self.by_parent.any_match(ptag, pclasses, pkey[3],
-                                                                lambda c: True)
-        if hit:  # `P > :nth-child(2)`: every child of such a parent
-            return [True] * len(children)
-        out, memo, found = [], self._memo, False
-        for el in children:
-            key = (el.tag, el.get("class"), el.get("id"))
-            own = memo.get(key)
-            if own is None:
-                tag = el.tag.lower() if isinstance(el.tag, str) else ""
-                classes = frozenset(key[1].split()) if key[1] else frozenset()
-                if len(memo) > MEMO_LIMIT:  # unique ids would grow it page after page
-                    memo.clear()
-                own = memo[key] = self.own.any_match(tag, classes, key[2], lambda c: True)
-            out.append(own)
-            found = found or own
-        return out if found else None
+        out = [self._own(el) for el in children]
+        return out if any(out) else None
 
     def sensitive(self, el, parent) -> bool:
-        if self.any:
-            return True
-        tag = el.tag.lower() if isinstance(el.tag, str) else ""
-        ptag = parent.tag.lower() if parent is not None and isinstance(parent.tag, str) else ""
-        key = (tag, el.get("class"), el.get("id"), ptag,
-               parent.get("class") if parent is not None else None,
-               parent.get("id") if parent is not None else None)
+        """Whether a sibling-sensitive selector can reach ``el`` (``parent``: None at the root)."""
+        return self.any or self._own(el) or (parent is not None and self._under(parent))
+
+    def _own(self, el) -> bool:
+        """A compound that needs siblings could match ``el`` itself."""
+        key = (el.tag, el.get("class"), el.get("id"))
         hit = self._memo.get(key)
         if hit is None:
+            tag = el.tag.lower() if isinstance(el.tag, str) else ""
             classes = frozenset(key[1].split()) if key[1] else frozenset()
-            pclasses = frozenset(key[4].split()) if key[4] else frozenset()
-            hit = self.own.any_match(tag, classes, key[2], lambda c: True) or \
-                self.by_parent.any_match(ptag, pclasses, key[5], lambda c: True)
-            if len(self._memo) > MEMO_LIMIT:  # unique ids would grow it page after page
-                self._memo.clear()
-            self._memo[key] = hit
+            hit = self._remember(key, self.own.any_match(tag, classes, key[2], lambda c: True))
+        return hit
+
+    def _under(self, parent) -> bool:
+        """``parent`` is one whose every child a sibling test reads (``P > :nth-child(2)``)."""
+        key = ("parent", parent.tag, parent.get("class"), parent.get("id"))
+        hit = self._memo.get(key)
+        if hit is None:
+            tag = parent.tag.lower() if isinstance(parent.tag, str) else ""
+            classes = frozenset(key[2].split()) if key[2] else frozenset()
+            hit = self._remember(key, self.by_parent.any_match(tag, classes, key[3],
+                                                                 lambda c: True))
+        return hit
+
+    def _remember(self, key, hit: bool) -> bool:
+        if len(self._memo) > MEMO_LIMIT:  # unique ids would grow it page after page
+            self._memo.clear()
+        self._memo[key] = hit
         return hit
 
 

@@ -52,12 +52,14 @@ class Structure:
             out.append(sig)
         return tuple(out)  # document order: the same generator writes the same order
 
-    def element_id(self, el, prev_chain: int, following: int, attrs=None) -> int:
+    def element_id(self, el, prev_chain: int, following: int) -> int:
         """The structural id of ``el`` at its place among its siblings."""
-        if attrs is None:
-            attrs = self.attrs(el)
+        return self._id(el, self.attrs(el), self.siblings.sensitive(el, el.getparent()),
+                        prev_chain, following)
+
+    def _id(self, el, attrs: tuple, sensitive: bool, prev_chain: int, following: int) -> int:
         empty = not len(el) and not (el.text or "").strip()
-        if self.siblings.sensitive(el, el.getparent()):
+        if sensitive:
             return self.intern((el.tag, attrs, prev_chain, following, empty))
         return self.intern((el.tag, attrs, empty))
 
@@ -90,11 +92,7 @@ class Structure:
         out = []
         for i, cel in enumerate(children):
             attrs = self.attrs(cel)
-            empty = not len(cel) and not (cel.text or "").strip()
-            if sensitive[i]:
-                ident = intern((cel.tag, attrs, prev_chain, following[i], empty))
-            else:
-                ident = intern((cel.tag, attrs, empty))
+            ident = self._id(cel, attrs, sensitive[i], prev_chain, following[i])
             out.append((cel, ident, prev_chain, following[i]))
             prev_chain = intern(("s", cel.tag, attrs, prev_chain))
         return out
