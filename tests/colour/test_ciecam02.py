@@ -47,7 +47,7 @@ def test_srgb_white_is_d65_at_y_100():
     chromaticity x 0.3127, y 0.3290 the project uses gives it within 0.03)."""
     assert np.allclose(ciecam02.srgb_to_xyz([1, 1, 1]), [95.047, 100.0, 108.883], atol=0.03)
     expected = colour.sRGB_to_XYZ([0.2, 0.5, 0.8]) * 100
-    assert np.allclose(ciecam02.srgb_to_xyz([0.2, 0.5, 0.8]), expected, atol=1e-3)
+    assert np.allclose(ciecam02.srgb_to_xyz([0.2, 0.5, 0.8]), expected, atol=5e-3)
 
 
 def test_neutral_background_is_plain_ciecam02():
