@@ -34,6 +34,22 @@ class Schemes(c.BaseConfigOption[list]):
             raise base.ValidationError(str(exc)) from None
 
 
+class Palette(c.BaseConfigOption[tuple]):
+    """Palette colours by name: a mapping of name -> CSS colour or custom property (--name)."""
+
+    def run_validation(self, value: object) -> tuple:
+        if value is None:
+            return ()
+        if not isinstance(value, dict):
+            raise base.ValidationError(f"Expected a mapping of name to colour, got {value!r}")
+        from tinctura.palette import palette_setting
+
+        try:
+            return palette_setting(value)
+        except ValueError as exc:
+            raise base.ValidationError(str(exc)) from None
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -44,3 +60,4 @@ class TincturaConfig(base.Config):
     log_every = c.Type(bool, default=False)  # one log line per occurrence, not per problem
     schemes = Schemes()  # None: discover the schemes from each page
     jobs = c.Optional(PositiveInt())  # processes; unset: the number of cores
+    palette = Palette()  # name -> CSS colour or --custom-property (site-level appearance rules)

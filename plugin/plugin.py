@@ -14,8 +14,11 @@ from mkdocs.exceptions import PluginError
 from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 
 from tinctura import engine, problems
+from tinctura import palette as palette_mod
 from tinctura.report import messages as m
 from tinctura.report.base import Header
+from tinctura.report.appearance import is_appearance
+from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
@@ -68,6 +71,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             states=self.config.states,
             schemes=self.config.schemes,
             keep_samples=False,  # a build log needs counts, findings and declaration uses
+            palette=self.config.palette or (),
         )
 
     def workers(self) -> int:
@@ -180,6 +184,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         uses = {}
         for r in records:
             problems.merge_uses(uses, r.uses)
+        palette = {}
+        for r in records:
+            palette_mod.merge(palette, r.result.palette)
+        findings += engine.judge_site(palette, self.options)  # site-level appearance rules
         found = problems.group(findings, uses=uses)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         self.log_results(found, findings, many_schemes=len(schemes) > 1)
@@ -210,6 +218,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
 
 def problem_line(problem, many_schemes: bool = False) -> str:
     """One log message per problem: count, cause, ratio, an example and the fix."""
+    if is_appearance(problem.worst):  # site-level appearance rules: entries and contexts
+        return (f"{problem.rule} {problem.slug}: {m.message(problem.worst)}\n  "
+                + "\n  ".join(appearance_lines(problem, many_schemes)))
     fg, bg = m.finding_colours(problem.worst)
     example = problem.worst.sample
     scheme = f" [scheme {problem.scheme}]" if many_schemes else ""

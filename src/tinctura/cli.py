@@ -80,6 +80,10 @@ def _site_options(p: argparse.ArgumentParser) -> None:
                    help="JSON list of colour schemes ({name, media, attributes}) replacing "
                         "discovery")
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+    p.add_argument("--palette", action="append", default=[], metavar="NAME=COLOUR",
+                   help="a palette colour for the appearance rules: a name and a CSS colour or "
+                        "a custom property, e.g. fault=#c62828 or caution=--tw-caution "
+                        "(repeatable; without it palette colours are discovered)")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -160,7 +164,24 @@ def options_from(args) -> engine.Options:
         exclude=tuple(args.exclude),
         jobs=args.jobs,
         schemes=load_schemes(args.schemes) if getattr(args, "schemes", None) else None,
+        palette=palette_option(getattr(args, "palette", ())),
     )
+
+
+def palette_option(items) -> tuple:
+    """``--palette NAME=VALUE`` arguments as ``Options.palette``."""
+    from tinctura.palette import palette_setting
+
+    mapping = {}
+    for item in items or ():
+        name, sep, value = item.partition("=")
+        if not sep or not name.strip() or not value.strip():
+            raise UsageError(f"--palette {item!r}: expected NAME=COLOUR or NAME=--property")
+        mapping[name.strip()] = value.strip()
+    try:
+        return palette_setting(mapping)
+    except ValueError as exc:
+        raise UsageError(f"--palette: {exc}") from None
 
 
 def load_schemes(path: str) -> list:
