@@ -18,7 +18,7 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
-                                   "schemes": None, "jobs": None}
+                                   "schemes": None, "jobs": None, "palette": ()}
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -29,6 +29,8 @@ def test_defaults():
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("jobs", 0, "at least 1"),
+    ("palette", {"fault": "not-a-colour"}, "neither a CSS colour nor a custom property"),
+    ("palette", ["#c62828"], "Expected a mapping"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "Expected type: <class 'bool'>"),
     ("log_every", 1, "Expected type: <class 'bool'>"),

@@ -1,0 +1,154 @@
+"""TC300 surround-shift and TC310 lookalike on small sites, through the engine and the reports.
+
+The colour facts asserted are the qualitative ones of simultaneous contrast (common practice: a
+colour looks lighter on a dark surround) and of deuteranopia (Machado 2009: a red and a green
+of similar lightness collapse); the numbers compared are thresholds, never values the code
+produced itself.
+"""
+import io
+import json
+
+import jsonschema
+import pytest
+
+from tinctura import engine, palette
+from tinctura.cli import main
+from tinctura.report.json_report import schema
+from tinctura.rules import appearance
+
+CSS = """
+body { background: #ffffff; color: #1a1a1a; }
+.card { background: #ffffff; padding: 8px; }
+.panel { background: #1e2530; color: #e8e8e8; padding: 8px; }
+.chip { color: #ffffff; }
+.chip.ok { background: #2e7d32; }
+.chip.fault { background: #c62828; }
+.chip.caution { background: #e0a000; color: #1a1a1a; }
+.card p, .panel p { margin: 0; }
+"""
+
+
+def board(n):
+    # the same status strip on every page (a repeated subtree: recorded once, replayed after)
+    strip = ('<div class="strip card"><p><span class="chip ok">Pump running</span> '
+             '<span class="chip fault">Pump stopped</span> '
+             '<span class="chip caution">Battery low</span></p></div>')
+    dark = ('<div class="panel"><p>Night mode: <span class="chip caution">Battery low</span>'
+            '</p></div>') if n % 2 else ""
+    return (f'<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head>'
+            f'<body>{strip}<h1>Station {n}</h1>{dark}<p>Reading {n}</p></body></html>')
+
+
+@pytest.fixture
+def status_site(tmp_path):
+    (tmp_path / "site.css").write_text(CSS)
+    for n in range(6):
+        (tmp_path / f"s{n}").mkdir()
+        (tmp_path / f"s{n}" / "index.html").write_text(board(n))
+    return tmp_path
+
+
+def _check(site, **options):
+    options.setdefault("states", False)
+    return engine.check_paths([str(site)], engine.Options(**options))
+
+
+def _by_rule(report, code):
+    return [f for f in report.findings if f.rule == code]
+
+
+def test_caution_fill_shifts_between_light_card_and_dark_panel(status_site):
+    shifts = _by_rule(_check(status_site, keep_samples=False), "TC300")
+    assert [f.args["entry"] for f in shifts] == [".chip.caution"]
+    f = shifts[0]
+    assert f.severity == "warning"
+    assert f.args["delta"] > f.args["threshold"] == appearance.SHIFT_THRESHOLD
+    # simultaneous contrast: on the dark panel the amber looks lighter (common practice)
+    assert "lighter" in f.args["terms"]
+    assert {c["bg"] for c in f.args["contexts"]} == {(1.0, 1.0, 1.0), (30 / 255, 37 / 255,
+                                                                          48 / 255)}
+    # every context once, counted over all pages (replayed strips included)
+    light = next(c for c in f.args["contexts"] if c["bg"] == (1.0, 1.0, 1.0))
+    assert light["count"] == 6
+
+
+def test_red_green_pair_collapses_under_deuteranopia(status_site):
+    looks = _by_rule(_check(status_site, keep_samples=False), "TC310")
+    pairs = {(f.args["entry"], f.args["other"]): f for f in looks}
+    assert (".chip.fault", ".chip.ok") in pairs
+    f = pairs[(".chip.fault", ".chip.ok")]
+    assert "deuteranopia" in f.args["conditions"]
+    assert "normal vision" not in f.args["conditions"]
+
+
+def test_fragments_judged_once_give_the_findings_of_a_full_walk(status_site):
+    def summary(report):
+        return sorted((f.rule, f.args["entry"], f.args.get("other"), round(f.args["delta"], 6),
+                       tuple(sorted((c["bg"], c["count"]) for c in f.args["contexts"])))
+                      for f in report.findings if f.rule in ("TC300", "TC310"))
+
+    judged = summary(_check(status_site, keep_samples=False))
+    walked = summary(_check(status_site, keep_samples=True, replay=False))
+    assert judged and judged == walked
+
+
+def test_only_text_ratio_gathers_no_palette(status_site):
+    report = _check(status_site, rules=("TC100",), keep_samples=False)
+    assert all(not p.palette for p in report.pages)
+    assert not _by_rule(report, "TC300")
+
+
+def test_declared_palette_entries_name_the_findings(status_site):
+    setting = palette.palette_setting({"fault": "#c62828", "running": "#2e7d32"})
+    looks = _by_rule(_check(status_site, palette=setting, rules=("TC310",)), "TC310")
+    assert [(f.args["entry"], f.args["other"]) for f in looks] == [("fault", "running")]
+
+
+def test_palette_setting_refuses_what_is_not_a_colour():
+    with pytest.raises(ValueError, match="'alarm'"):
+        palette.palette_setting({"alarm": "loud"})
+    assert palette.palette_setting({"caution": "--tw-caution"}) == (
+        ("caution", "property", "--tw-caution"),)
+
+
+def test_a_family_needs_two_modifiers(tmp_path):
+    (tmp_path / "p.html").write_text(
+        '<style>.tag.new{color:#1565c0}.dark{background:#101418}</style>'
+        '<p><span class="tag new">New</span></p>'
+        '<div class="dark"><span class="tag new">New</span></div>')
+    report = _check(tmp_path / "p.html")
+    assert not _by_rule(report, "TC300")
+
+
+def test_text_and_json_reports_list_every_context(status_site):
+    out, err = io.StringIO(), io.StringIO()
+    assert main(["check", str(status_site), "--no-states", "--jobs", "1", "--format", "json",
+                 "--fail-on", "never"], out, err) == 0, err.getvalue()
+    doc = json.loads(out.getvalue())
+    jsonschema.Draft202012Validator(schema()).validate(doc)
+    shift = next(f for f in doc["findings"] if f["rule"] == "TC300")
+    assert shift["appearance"]["entry"] == ".chip.caution"
+    assert {c["background"] for c in shift["appearance"]["contexts"]} == {"#ffffff", "#1e2530"}
+    assert all(c["declaration"].startswith("site.css:") for c in shift["appearance"]["contexts"])
+
+    out = io.StringIO()
+    main(["check", str(status_site), "--no-states", "--jobs", "1", "--fail-on", "never",
+          "--color", "never"], out, io.StringIO())
+    text = out.getvalue()
+    assert "palette colour .chip.caution shifts with its surround" in text
+    assert "#e0a000 on #1e2530" in text and "#e0a000 on #ffffff" in text
+    assert "look alike" in text and "deuteranopia" in text
+    assert "ISO 3864" in text and "not a WCAG 2 failure" in text
+
+
+def test_cli_palette_option(status_site):
+    out, err = io.StringIO(), io.StringIO()
+    assert main(["check", str(status_site), "--palette", "nonsense"], out, err) == 2
+    assert "NAME=COLOUR" in err.getvalue()
+    out = io.StringIO()
+    main(["check", str(status_site), "--no-states", "--jobs", "1", "--fail-on", "never",
+          "--format", "json", "--palette", "stop=#c62828", "--palette", "go=#2e7d32"],
+         out, io.StringIO())
+    doc = json.loads(out.getvalue())
+    looks = [f["appearance"] for f in doc["findings"] if f["rule"] == "TC310"]
+    assert [(a["entry"], a["other"]) for a in looks] == [("go", "stop")]
