@@ -187,8 +187,9 @@ SURROUND_SHIFT = Rule(
             "signal word) in every context where the site shows it: its immediate background, "
             "in every colour scheme. Palette colours are found without configuration from "
             "families of classes (.chip.ok, .chip.fault, .admonition.warning: a base class and "
-            "modifiers, at least two on the site) and from chromatic colours that custom "
-            "properties name; the palette option declares them by name. Each context's "
+            "modifiers, at least two on the site) and from chromatic colours that families of "
+            "custom properties name (--tw-state-ok, --tw-state-fault: at least two members); "
+            "the palette option (or --palette NAME=COLOUR) declares them by name. Each context's "
             "appearance is modelled with CIECAM02 (" + _NOTICE_SHIFT.strip() + "), and the "
             "rule reports a colour whose two most different contexts lie more than 10 "
             "CAM02-UCS units apart. One unit is about one just-noticeable difference between "
@@ -259,7 +260,7 @@ LOOKALIKE = Rule(
     docs=Docs(
         checks=(
             "Pairs of palette colours of one family (the modifiers of one base class, the "
-            "colours custom properties name, or the declared palette) that are different "
+            "members of one family of custom properties, or the declared palette) that are different "
             "colours but look alike where the site shows them: in one colour scheme, the two "
             "closest contexts (colour on its immediate background) are compared in CAM02-UCS "
             "after CIECAM02, for normal vision and under simulated protanopia, deuteranopia "

@@ -7,8 +7,11 @@ A palette entry is found three ways, in this order:
    selector with a compound of two or more classes (``.badge.fail``, ``.admonition.warning``),
    the first class being the family and the others the modifier; a family counts once at least
    two modifiers of it occur on the site;
-3. a colour named by a custom property (``--tw-caution: #b26b00`` and every ``var(--tw-caution)``
-   that paints it).
+3. a colour named by a custom property (``--tw-state-caution: #b26b00`` and every
+   ``var(--tw-state-caution)`` that paints it); its family is the name without its last
+   hyphenated part (``--tw-state``), and it counts once at least two members of the family
+   occur on the site (``--tw-state-ok``, ``--tw-state-fault``): a theme's many single
+   variables (a brand colour, a link colour, syntax colours) are styles, not codes.
 
 Discovered entries (2 and 3) must be chromatic: greys are text and rules, not codes.
 
@@ -38,11 +41,11 @@ _COMPOUND = re.compile(r"(?:^|[\s>+~(,])((?:[a-zA-Z*][\w-]*)?(?:\.[\w-]+){2,})")
 @dataclass(frozen=True, slots=True)
 class Entry:
     """A palette entry: its name, how it was found, and its family (entries compared as meanings
-    of one code: the same base class, the custom properties, or the user's palette)."""
+    of one code: the same base class, the same property stem, or the user's palette)."""
 
     name: str  # "--tw-caution", ".badge.fail", or the user's name
     source: str  # "palette", "property", "modifier"
-    family: str  # "palette", "properties", or the base class ("badge")
+    family: str  # "palette", the base class ("badge") or the property's stem ("--tw-state")
 
 
 @dataclass(slots=True)
@@ -131,20 +134,21 @@ def merge(into: dict, more: dict, times: int = 1) -> dict:
 
 
 def families(uses) -> dict:
-    """Base class -> the modifiers seen with it, over a site's uses."""
+    """Family -> the discovered entries seen in it, over a site's uses."""
     seen: dict = {}
     for entry, *_ in uses:
-        if entry.source == "modifier":
+        if entry.source != "palette":
             seen.setdefault(entry.family, set()).add(entry.name)
     return seen
 
 
 def retained(uses: dict) -> dict:
-    """The uses whose entry counts as a palette colour site-wide (modifier families need two
-    members)."""
+    """The uses whose entry counts as a palette colour site-wide: declared ones, and discovered
+    ones whose family has at least two members on the site (one class with one modifier, or one
+    custom property, is a style, not a code)."""
     members = families(uses)
     return {key: use for key, use in uses.items()
-            if key[0].source != "modifier" or len(members[key[0].family]) >= 2}
+            if key[0].source == "palette" or len(members[key[0].family]) >= 2}
 
 
 def entries(cause, rgb, palette: tuple = ()) -> tuple:
@@ -178,8 +182,14 @@ def _discovered(cause) -> tuple:
         if len(classes) >= 2:
             return (Entry("." + ".".join(classes), "modifier", classes[0]),)
     if target.property.startswith("--"):
-        return (Entry(target.property, "property", "properties"),)
+        return (Entry(target.property, "property", property_family(target.property)),)
     return ()
+
+
+def property_family(name: str) -> str:
+    """``--tw-status-ok`` -> ``--tw-status``: the name without its last hyphenated part."""
+    head, _, last = name[2:].rstrip("-").rpartition("-")
+    return "--" + head if head and last else name
 
 
 @lru_cache(maxsize=4096)
