@@ -135,7 +135,7 @@ def _shifts(groups, model, options) -> list:
             "entry": entry.name, "source": entry.source, "role": role,
             "delta": float(d[i, j]), "threshold": threshold, "terms": ", ".join(words) or
             "different", "from_bg": contexts[i]["bg"], "to_bg": contexts[j]["bg"],
-            "contexts": tuple(_context(c, model) for c in contexts)}))
+            "contexts": _contexts(contexts, model)}))
     return findings
 
 
@@ -172,8 +172,8 @@ def _lookalikes(groups, model, options) -> list:
                     "threshold": threshold, "condition": worst["condition"],
                     "conditions": ", ".join(f["condition"] for f in found),
                     "other_colour": cb["colour"], "collapses": tuple(found),
-                    "contexts": tuple(_context(c, model) for c in groups[a]),
-                    "other_contexts": tuple(_context(c, model) for c in groups[b])},
+                    "contexts": _contexts(groups[a], model),
+                    "other_contexts": _contexts(groups[b], model)},
                     other_cause=cb["cause"]))
     return findings
 
@@ -198,12 +198,36 @@ def _collapse(first, second, model, delta_e, threshold) -> list:
     return found
 
 
-def _context(c, model) -> dict:
-    J, M, h = (float(x) for x in model.jmh[model.index[(c["colour"], c["bg"])]])
-    d = c["cause"].declaration if c["cause"] is not None else None
-    return {"role": c["role"], "colour": c["colour"], "bg": c["bg"], "scheme": c["scheme"],
-            "count": c["count"], "where": tuple(c["where"]), "J": J, "M": M, "h": h,
-            "declaration": d.where() if d is not None else ""}
+def _contexts(contexts, model) -> tuple:
+    """Contexts for the report, each (role, colour, background) once: the schemes in which it
+    occurs are listed together (the appearance does not depend on the scheme's name)."""
+    merged: dict = {}
+    for c in contexts:
+        key = (c["role"], c["colour"], c["bg"])
+        got = merged.get(key)
+        if got is None:
+            J, M, h = (float(x) for x in model.jmh[model.index[(c["colour"], c["bg"])]])
+            d = _declaration(c["cause"])
+            merged[key] = {"role": c["role"], "colour": c["colour"], "bg": c["bg"],
+                           "schemes": [c["scheme"]], "count": c["count"],
+                           "where": list(c["where"]), "J": J, "M": M, "h": h,
+                           "declaration": d.where() if d is not None else ""}
+            continue
+        got["schemes"].append(c["scheme"])
+        got["count"] += c["count"]
+        got["where"] += [w for w in c["where"] if w not in got["where"]]
+        del got["where"][palette_mod.EXAMPLES:]
+    out = []
+    for c in merged.values():
+        c["schemes"], c["where"] = tuple(sorted(set(c["schemes"]))), tuple(c["where"])
+        out.append(c)
+    return tuple(out)
+
+
+def _declaration(cause):
+    from tinctura.problems import target_declaration
+
+    return target_declaration(cause)
 
 
 def _finding(rule, context, other, args, other_cause=None) -> Finding:
@@ -228,3 +252,37 @@ def _luminance(rgb) -> float:
 # Default thresholds in CAM02-UCS dE' units (see the rules' documentation in catalogue.py).
 SHIFT_THRESHOLD = 10.0
 LOOKALIKE_THRESHOLD = 10.0
+
+
+def shift_between(colour, bg, other_bg, options=None) -> dict:
+    """How ``colour`` (sRGB) on ``bg`` compares with itself on ``other_bg``: J, M, h on each,
+    dE' and the change in opponent terms (``tinctura pair --on``)."""
+    from tinctura.colour import cam02ucs, ciecam02
+
+    spec = ciecam02.appearance([colour, colour], [bg, other_bg], viewing_conditions(options))
+    jab = cam02ucs.jab(spec.J, spec.M, spec.h)
+    jmh = np.stack([spec.J, spec.M, spec.h], axis=-1)
+    return {"jmh": [tuple(float(x) for x in row) for row in jmh],
+            "delta": float(cam02ucs.delta_e(jab[0], jab[1])),
+            "terms": opponent_terms(jab[0], jab[1], jmh), "threshold": SHIFT_THRESHOLD}
+
+
+def lookalike_between(colour, other, bg, options=None) -> list:
+    """dE' between ``colour`` and ``other`` on ``bg`` for normal vision and each simulated
+    deficiency (``tinctura pair --vs``): [(condition, dE', looks alike)]."""
+    from tinctura.colour import cam02ucs, ciecam02
+    from tinctura.colour import cvd as cvd_mod
+
+    fgs, bgs = [colour, other], [bg, bg]
+    rows_fg, rows_bg = [np.array(fgs, dtype=float)], [np.array(bgs, dtype=float)]
+    for deficiency in CONDITIONS[1:]:
+        rows_fg.append(cvd_mod.simulate(np.array(fgs, dtype=float), deficiency))
+        rows_bg.append(cvd_mod.simulate(np.array(bgs, dtype=float), deficiency))
+    spec = ciecam02.appearance(np.concatenate(rows_fg), np.concatenate(rows_bg),
+                               viewing_conditions(options))
+    jab = cam02ucs.jab(spec.J, spec.M, spec.h)
+    out = []
+    for k, condition in enumerate(CONDITIONS):
+        d = float(cam02ucs.delta_e(jab[2 * k], jab[2 * k + 1]))
+        out.append((condition, d, d < LOOKALIKE_THRESHOLD))
+    return out

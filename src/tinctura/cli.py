@@ -129,6 +129,11 @@ def build_parser() -> argparse.ArgumentParser:
                       help="font weight, 1-1000, normal or bold (default 400)")
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.add_argument("--on", metavar="OTHER_BG",
+                      help="also show how FG's appearance (CIECAM02) shifts on this background")
+    pair.add_argument("--vs", metavar="OTHER_FG",
+                      help="also show whether FG and this colour look alike on BG, for normal "
+                           "vision and each simulated colour-vision deficiency")
     pair.set_defaults(run=run_pair)
 
     trace_cmd = sub.add_parser(
@@ -343,7 +348,30 @@ def run_pair(args, stdout, stderr) -> int:
             tw.line(f"        nearest passing: {' or '.join(parts)}")
         else:
             tw.line("        no single-colour change reaches it; change both colours")
+    pair_appearance(args, fg, bg, tw)
     return exit_status()
+
+
+def pair_appearance(args, fg, bg, tw) -> None:
+    """``--on OTHER_BG`` and ``--vs OTHER_FG``: appearance in context (TC300, TC310)."""
+    from tinctura.colour.composite import over
+    from tinctura.report import appearance as words
+    from tinctura.rules import appearance
+
+    def opaque(text, what, under):
+        raw = parse_pair_colour(text, what)
+        return tuple(over(raw, under)[:3]) if raw[3] < 1.0 else tuple(raw[:3])
+
+    if getattr(args, "on", None):
+        other_bg = opaque(args.on, "other background colour", (1.0, 1.0, 1.0, 1.0))
+        shift = appearance.shift_between(fg, bg, other_bg)
+        for line in words.shift_lines(fg, bg, other_bg, shift):
+            tw.line(line)
+    if getattr(args, "vs", None):
+        other = opaque(args.vs, "other text colour", bg + (1.0,))
+        for line in words.lookalike_lines(fg, other, bg,
+                                          appearance.lookalike_between(fg, other, bg)):
+            tw.line(line)
 
 
 def describe_rule(rule, tw: TerminalWriter) -> None:

@@ -218,13 +218,11 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
-    site_findings = judge_site(report.palette, options)
+    site_findings = sorted(judge_site(report.palette, options), key=_finding_order)
     if findings_to is None:
         report.findings.extend(site_findings)
-    else:  # filed under the page of each finding's first location
-        by_name = {p.page: p for p in report.pages}
-        for f in site_findings:
-            findings_to(by_name.get(f.sample.page) or PageResult(f.sample.page), [f])
+    elif site_findings:  # after every page: reports list them last, under the whole site
+        findings_to(PageResult(palette_mod.SITE_PAGE), site_findings)
     return report
 
 

@@ -77,6 +77,13 @@ def palette_setting(mapping) -> tuple:
 
 
 SITE_RULES = ("TC300", "TC310")
+# Reports group site-level findings under this name, after every page: they compare pages.
+SITE_PAGE = "(whole site)"
+
+
+def report_page(finding) -> str:
+    """The page a report lists a finding under: its own, or the whole site for site rules."""
+    return SITE_PAGE if finding.rule in SITE_RULES else finding.sample.page
 
 
 def collect_for(samples, options) -> dict:

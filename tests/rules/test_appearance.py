@@ -84,7 +84,8 @@ def test_red_green_pair_collapses_under_deuteranopia(status_site):
 def test_fragments_judged_once_give_the_findings_of_a_full_walk(status_site):
     def summary(report):
         return sorted((f.rule, f.args["entry"], f.args.get("other"), round(f.args["delta"], 6),
-                       tuple(sorted((c["bg"], c["count"]) for c in f.args["contexts"])))
+                       tuple(sorted((c["bg"], c["count"], c["schemes"])
+                                    for c in f.args["contexts"])))
                       for f in report.findings if f.rule in ("TC300", "TC310"))
 
     judged = summary(_check(status_site, keep_samples=False))
@@ -152,3 +153,22 @@ def test_cli_palette_option(status_site):
     doc = json.loads(out.getvalue())
     looks = [f["appearance"] for f in doc["findings"] if f["rule"] == "TC310"]
     assert [(a["entry"], a["other"]) for a in looks] == [("go", "stop")]
+
+
+def test_pair_on_and_vs():
+    """Simultaneous contrast (common practice): amber looks lighter on a dark panel; a red and
+    a green of similar lightness collapse under deuteranopia (Machado 2009)."""
+    out = io.StringIO()
+    assert main(["pair", "#e0a000", "white", "--on", "#1e2530", "--color", "never"], out,
+                io.StringIO()) == 0
+    text = out.getvalue()
+    assert "lightness J" in text and "colourfulness M" in text and "hue h" in text
+    assert "on #1e2530 it looks lighter" in text and "over the 10 units of TC300" in text
+    out = io.StringIO()
+    main(["pair", "#c62828", "white", "--vs", "#2e7d32", "--color", "never"], out, io.StringIO())
+    lines = {line.split(":")[0].strip(): line for line in out.getvalue().splitlines()}
+    assert "looks alike" in lines["deuteranopia"]
+    assert "looks alike" not in lines["normal vision"]
+    err = io.StringIO()
+    assert main(["pair", "#000", "white", "--on", "nope"], io.StringIO(), err) == 2
+    assert "'nope' is not a CSS colour" in err.getvalue()

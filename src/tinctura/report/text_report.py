@@ -7,6 +7,7 @@ from tinctura.problems import target_declaration
 
 from . import messages as m
 from .appearance import headline as appearance_headline
+from .appearance import finding_lines as appearance_finding_lines
 from .appearance import is_appearance
 from .appearance import problem_lines as appearance_lines
 from .base import Formatter, Header
@@ -110,6 +111,11 @@ class TextFormatter(Formatter):
         tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
         for f in findings:
             s = f.sample
+            if is_appearance(f):  # site-level: the entries and their contexts
+                tw.line(f"  {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
+                for line in appearance_finding_lines(f, self.many_schemes):
+                    tw.line(f"      {line}")
+                continue
             fg, bg = m.finding_colours(f)
             tw.line(f"  {s.line}: {s.xpath}  \"{m.excerpt(s.text)}\"{self.context(s)}")
             tw.line(f"      {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
