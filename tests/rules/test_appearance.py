@@ -172,3 +172,15 @@ def test_pair_on_and_vs():
     err = io.StringIO()
     assert main(["pair", "#000", "white", "--on", "nope"], io.StringIO(), err) == 2
     assert "'nope' is not a CSS colour" in err.getvalue()
+
+
+@pytest.mark.parametrize("surround, expected", [
+    ((0.9, 0.1, 0.1), {"greener"}),  # red surround -> towards green (opponent of red)
+    ((0.1, 0.1, 0.8), {"yellower"}),  # blue surround -> towards yellow (opponent of blue)
+    ((0.0, 0.0, 0.0), {"lighter"}),  # black surround (vs a grey one) -> lighter
+])
+def test_shifts_are_explained_in_opponent_terms(surround, expected):
+    """Simultaneous contrast (common practice): a mid grey moved from a grey surround to a
+    chromatic one takes on the opponent hue; to a black one it looks lighter."""
+    shift = appearance.shift_between((0.5, 0.5, 0.5), (0.5, 0.5, 0.5), surround)
+    assert expected <= set(shift["terms"])
