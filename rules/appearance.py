@@ -46,16 +46,31 @@ def check_site(uses: dict, options, only: str | None = None) -> list:
     wanted = {SURROUND_SHIFT.code, LOOKALIKE.code} & codes
     if only is not None:
         wanted = {only}
-    groups = _groups(palette_mod.retained(uses))
-    if not wanted or not groups:
+    groups = _groups(palette_mod.retained(uses)) if wanted else {}
+    shifting = {key: cs for key, cs in groups.items()
+                if len({(c["bg"], c["colour"]) for c in cs}) >= 2} \
+        if SURROUND_SHIFT.code in wanted else {}
+    pairs = _pairs(groups) if LOOKALIKE.code in wanted else []
+    if not shifting and not pairs:  # nothing to compare: colour-science is not even imported
         return []
-    model = _Model(groups, options, cvd=LOOKALIKE.code in wanted)
-    findings = []
-    if SURROUND_SHIFT.code in wanted:
-        findings.extend(_shifts(groups, model, options))
-    if LOOKALIKE.code in wanted:
-        findings.extend(_lookalikes(groups, model, options))
-    return findings
+    involved = dict(shifting)
+    involved.update((key, groups[key]) for pair in pairs for key in pair)
+    model = _Model(involved, options, cvd=bool(pairs))
+    return _shifts(shifting, model, options) + _lookalikes(pairs, groups, model, options)
+
+
+def _pairs(groups) -> list:
+    """Pairs of colours that could be confused: two entries of one family, in the same role
+    (two text colours, or two fills), shown in at least one common scheme."""
+    keys = sorted(groups, key=lambda k: (k[0].family, k[0].name, k[1], k[2]))
+    out = []
+    for n, a in enumerate(keys):
+        schemes = {c["scheme"] for c in groups[a]}
+        for b in keys[n + 1:]:
+            if (a[0].family == b[0].family and a[0].name != b[0].name and a[1] == b[1]
+                    and schemes & {c["scheme"] for c in groups[b]}):
+                out.append((a, b))
+    return out
 
 
 def _groups(uses: dict) -> dict:
@@ -119,8 +134,6 @@ def _shifts(groups, model, options) -> list:
     threshold = float(getattr(options, "shift_threshold", 0) or SHIFT_THRESHOLD)
     findings = []
     for (entry, role, _), contexts in groups.items():
-        if len({(c["bg"], c["colour"]) for c in contexts}) < 2:
-            continue
         jab = model.of(contexts)
         d = delta_e(jab[:, None, :], jab[None, :, :])
         i, j = np.unravel_index(int(np.argmax(d)), d.shape)
@@ -153,28 +166,25 @@ def opponent_terms(first, second, jmh) -> list:
     return words
 
 
-def _lookalikes(groups, model, options) -> list:
+def _lookalikes(pairs, groups, model, options) -> list:
     from tinctura.colour.cam02ucs import delta_e
 
     threshold = float(getattr(options, "lookalike_threshold", 0) or LOOKALIKE_THRESHOLD)
-    keys = sorted(groups, key=lambda k: (k[0].family, k[0].name, k[1], k[2]))
     findings = []
-    for a_n, a in enumerate(keys):
-        for b in keys[a_n + 1:]:
-            if a[0].family != b[0].family or a[0].name == b[0].name:
-                continue
-            found = _collapse(groups[a], groups[b], model, delta_e, threshold)
-            if found:
-                worst = min(found, key=lambda f: f["delta"])
-                ca, cb = groups[a][worst["a"]], groups[b][worst["b"]]
-                findings.append(_finding(LOOKALIKE, ca, cb, {
-                    "entry": a[0].name, "other": b[0].name, "delta": worst["delta"],
-                    "threshold": threshold, "condition": worst["condition"],
-                    "conditions": ", ".join(f["condition"] for f in found),
-                    "other_colour": cb["colour"], "collapses": tuple(found),
-                    "contexts": _contexts(groups[a], model),
-                    "other_contexts": _contexts(groups[b], model)},
-                    other_cause=cb["cause"]))
+    for a, b in pairs:
+        found = _collapse(groups[a], groups[b], model, delta_e, threshold)
+        if not found:
+            continue
+        worst = min(found, key=lambda f: f["delta"])
+        ca, cb = groups[a][worst["a"]], groups[b][worst["b"]]
+        findings.append(_finding(LOOKALIKE, ca, cb, {
+            "entry": a[0].name, "other": b[0].name, "delta": worst["delta"],
+            "threshold": threshold, "condition": worst["condition"],
+            "conditions": ", ".join(f["condition"] for f in found),
+            "other_colour": cb["colour"], "collapses": tuple(found),
+            "contexts": _contexts(groups[a], model),
+            "other_contexts": _contexts(groups[b], model)},
+            other_cause=cb["cause"]))
     return findings
 
 

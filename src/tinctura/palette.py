@@ -100,16 +100,36 @@ def collect_for(samples, options) -> dict:
 def collect(samples, palette: tuple = ()) -> dict:
     """Uses of palette entries among ``samples``: {(entry, role, colour, bg, scheme): Use}."""
     uses: dict = {}
+    memo = _memo(palette)  # (cause, colour) -> entries: a site repeats a few dozen of them
     for s in samples:
-        if s.status != DETERMINED or s.state != REST or s.fg is None or s.bg is None:
+        if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None:
             continue
-        for entry in entries(s.fg_cause, quantize(s.fg), palette):
+        found = memo.get((s.fg_cause, s.fg))
+        if found is None:
+            found = memo[(s.fg_cause, s.fg)] = entries(s.fg_cause, quantize(s.fg), palette)
+        for entry in found:
             _add(uses, (entry, "text", quantize(s.fg), quantize(s.bg), s.scheme), s, s.fg_cause)
-        if s.surround is not None and s.bg_cause is not None:
-            for entry in entries(s.bg_cause, quantize(s.bg), palette):
-                _add(uses, (entry, "fill", quantize(s.bg), quantize(s.surround), s.scheme), s,
-                     s.bg_cause)
+        if s.surround is None or s.bg_cause is None:
+            continue
+        found = memo.get((s.bg_cause, s.bg))
+        if found is None:
+            found = memo[(s.bg_cause, s.bg)] = entries(s.bg_cause, quantize(s.bg), palette)
+        for entry in found:
+            _add(uses, (entry, "fill", quantize(s.bg), quantize(s.surround), s.scheme), s,
+                 s.bg_cause)
     return uses
+
+
+_MEMOS: dict = {}
+_MEMO_LIMIT = 20000
+
+
+def _memo(palette: tuple) -> dict:
+    memo = _MEMOS.get(palette)
+    if memo is None or len(memo) > _MEMO_LIMIT:
+        _MEMOS.clear()  # bounded; entries() is pure, so this only saves time
+        memo = _MEMOS[palette] = {}
+    return memo
 
 
 def _add(uses: dict, key, sample, cause, times: int = 1) -> None:
