@@ -180,8 +180,9 @@ def judge_gradients(samples, level: str) -> None:
         ratios = [wcag.contrast_ratio(foreground_on(s, bg), bg) for bg in backgrounds(s)]
         if min(ratios) < required <= max(ratios):
             s.status = UNDETERMINED
-            s.reason = (f"backgrounds disagree (gradient stops or an outlining text shadow): "
-                        f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1 against {required:g}:1")
+            s.reason = ("backgrounds disagree (gradient stops, a partial inset shadow or an "
+                        f"outlining text shadow): {min(ratios):.2f}:1 to {max(ratios):.2f}:1 "
+                        f"against {required:g}:1")
 
 
 def check_paths(paths, options: Options | None = None, findings_to=None) -> Report:
