@@ -75,8 +75,10 @@ def serve(site_dir):
 # ---- browser ----------------------------------------------------------------------------------
 
 @contextlib.contextmanager
-def browser(window=WINDOW):
-    """A headless Chromium driven by selenium, with a throw-away profile."""
+def browser(window=WINDOW, scripts=False):
+    """A headless Chromium driven by selenium, with a throw-away profile.
+
+    Page scripts are off unless ``scripts`` (tests of what a theme's script changes)."""
     from selenium import webdriver
     from selenium.webdriver.chrome.service import Service
 
@@ -88,7 +90,8 @@ def browser(window=WINDOW):
     options.add_argument(f"--user-data-dir={profile}")
     options.add_argument(f"--window-size={window[0]},{window[1]}")
     # Page scripts off; selenium's own scripts still run through the DevTools protocol.
-    options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
+    if not scripts:
+        options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
     driver = webdriver.Chrome(service=Service(CHROMEDRIVER), options=options)
     try:
         # A page rewritten between loads (tests) must not come from the cache.
