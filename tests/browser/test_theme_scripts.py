@@ -70,7 +70,10 @@ for (const td of document.querySelectorAll('table td')) {
     path = '/' + el.tagName.toLowerCase() + (same > 1 ? '[' + i + ']' : '') + path;
     el = el.parentElement;
   }
-  out.push([td.textContent.trim(), path, Math.round(r.left + 2), Math.round(r.top + 2)]);
+  // the computed colour (alpha left out; compared with tinctura's computed colour)
+  const c = getComputedStyle(td).color.match(/[\d.]+/g).slice(0, 3).map(Number);
+  const hex = '#' + c.map(v => Math.round(v).toString(16).padStart(2, '0')).join('');
+  out.push([td.textContent.trim(), path, Math.round(r.left + 2), Math.round(r.top + 2), hex]);
 }
 return out;
 """
@@ -90,12 +93,13 @@ def _browser_cells(driver, url, media="light"):
         "document.adoptedStyleSheets = [...document.adoptedStyleSheets, s];", ref.NO_TRANSITIONS)
     cells = driver.execute_script(_CELLS_JS)
     image = _screenshot(driver)
-    return {text: (path, png.pixel(image, x, y)) for text, path, x, y in cells
+    return {text: (path, png.pixel(image, x, y), fg) for text, path, x, y, fg in cells
             if text in CELLS or text in ("shaded", "tinted", "plain")}
 
 
 def _tinctura_cells(site, scheme):
     result = Site(str(site), Options(states=False)).check_page("index.html")
+    scheme = scheme or result.schemes[0].name
     return {s.text: s for s in result.samples
             if s.scheme == scheme and s.xpath.split("/")[-1].startswith("td")
             and (s.text in CELLS or s.text in ("shaded", "tinted", "plain"))}
@@ -111,9 +115,10 @@ def test_mkdocs_theme_striped_tables(tmp_path):
     ours = _tinctura_cells(site, "light")
     assert len(browser) == 8 and set(browser) == set(ours)
     backgrounds = set()
-    for text, (path, pixel) in browser.items():
+    for text, (path, pixel, fg) in browser.items():
         assert ours[text].xpath == path
         assert _close(pixel, to_hex(ours[text].bg)), (text, pixel, to_hex(ours[text].bg))
+        assert _close(fg, to_hex(ours[text].fg_raw[:3])), (text, fg)
         backgrounds.add(pixel)
     assert len(backgrounds) == 2  # striped: the script's classes took effect on both sides
 
@@ -126,11 +131,12 @@ def test_readthedocs_theme_wraps_and_stripes_tables(tmp_path):
         browser = _browser_cells(driver, base + "index.html")
     ours = _tinctura_cells(site, "light")
     assert len(browser) == 8 and set(browser) == set(ours)
-    assert all("div[" in path or "/div/table" in path for path, _ in browser.values())
-    for text, (path, pixel) in browser.items():
+    assert all("/div/table" in path for path, _, _ in browser.values())
+    for text, (path, pixel, fg) in browser.items():
         assert ours[text].xpath == path
         assert _close(pixel, to_hex(ours[text].bg)), (text, pixel, to_hex(ours[text].bg))
-    assert len({pixel for _, pixel in browser.values()}) == 2
+        assert _close(fg, to_hex(ours[text].fg_raw[:3])), (text, fg)
+    assert len({pixel for _, pixel, _ in browser.values()}) == 2
 
 
 MATERIAL_AUTO = """site_name: Gauge
@@ -156,6 +162,26 @@ theme:
       accent: amber
       toggle: {icon: material/brightness-4, name: Light again}
 """
+
+
+def test_material_script_wraps_tables_and_drops_no_js(tmp_path):
+    """The bundle replaces `no-js` with `js` on <html> and wraps content tables in two divs:
+    tinctura's XPaths, colours and html classes are the ones Chromium shows with it running."""
+    site = _build(tmp_path, "site_name: Gauge\ntheme:\n  name: material\n  font: false\n")
+    with ref.serve(site) as base, ref.browser(scripts=True) as driver:
+        browser = _browser_cells(driver, base + "index.html")
+        html_class = driver.execute_script("return document.documentElement.className")
+    ours = _tinctura_cells(site, None)
+    assert len(browser) == 8 and set(browser) == set(ours)
+    for text, (path, pixel, fg) in browser.items():
+        assert ours[text].xpath == path and "/article/div/div/table/" in path
+        assert _close(pixel, to_hex(ours[text].bg)) and _close(fg, to_hex(ours[text].fg_raw[:3]))
+    from tinctura.extract import behaviours
+    from tinctura.extract.html import parse_html
+
+    root = parse_html((site / "index.html").read_bytes())
+    behaviours.apply(root)
+    assert set(root.get("class").split()) == set(html_class.split())
 
 
 def test_material_automatic_palette_entry_resolves_like_the_theme_script(tmp_path):
@@ -200,4 +226,5 @@ def test_inset_shadow_backdrop_matches_the_screenshot(tmp_path):
     ours = _tinctura_cells(tmp_path, "light")
     for text in ("shaded", "tinted", "plain"):
         assert _close(browser[text][1], to_hex(ours[text].bg)), (text, browser[text][1])
+        assert ours[text].xpath == browser[text][0]
     assert to_hex(ours["shaded"].bg) == "#bfbfbf"

@@ -6,8 +6,8 @@ wrappers). Each :class:`Behaviour` restates one such change, found in the theme'
 (named in ``source``), so the cascade sees the tree the reader's browser sees. Each entry is
 checked against Chromium running the theme's real script (tests/browser/test_theme_scripts.py).
 
-A behaviour applies to a page when the page loads the theme's script (``script``: the end of a
-``<script src>``) and has the theme's marker (``marker``: a CSS selector). Users declare their own
+A behaviour applies to a page when the page loads the theme's script (a ``<script src>``
+contains ``script``) and has the theme's marker (``marker``: a CSS selector). Users declare their own
 behaviours for their own scripts in the configuration (``behaviours``: the same fields, with
 ``script`` optional). What a script changes later, on scroll or on click (the current
 table-of-contents entry, opened menus), is not modelled: :data:`NOT_MODELLED` says so once per
@@ -15,26 +15,40 @@ site for the themes in the table.
 """
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from functools import lru_cache
 
 from lxml import etree
 
-ACTIONS = ("add-class", "wrap")
+ACTIONS = ("add-class", "remove-class", "wrap")
 
 
 @dataclass(frozen=True)
 class Behaviour:
     theme: str  # a readable name for reports
-    action: str  # "add-class": add the classes in ``value``; "wrap": wrap in ``value``
+    action: str  # "add-class" / "remove-class": the classes in ``value``; "wrap": in ``value``
     selector: str  # the elements changed (CSS selector)
-    value: str  # classes ("a b"), or the wrapper as tag.class.class ("div.wrapper")
+    value: str  # classes ("a b"), or the wrappers, outermost first ("div.outer > div.inner")
     marker: str = ""  # the page has the theme when this selector matches ("" always)
-    script: str = ""  # ... and loads a script whose src ends with this ("" any page)
+    script: str = ""  # ... and loads a script whose src contains this ("" any page)
     source: str = ""  # where the theme's script does it
 
 
+_MATERIAL = ("body", "assets/javascripts/bundle.")  # any page of the theme; its script bundle
+
 BUILTIN = (
+    # mkdocs-material's bundle: document.documentElement.classList.remove("no-js"), then
+    # .add("js") (rules under .no-js hide the search box), and its focus-visible polyfill adds
+    # "js-focus-visible"; content tables without a class are
+    # wrapped: <div class="md-typeset__scrollwrap"><div class="md-typeset__table">table</div></div>
+    Behaviour("mkdocs-material", "remove-class", "html", "no-js", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "add-class", "html", "js js-focus-visible", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "wrap", "[data-md-component=content] table:not([class])",
+              "div.md-typeset__scrollwrap > div.md-typeset__table", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
     # MkDocs' own theme, js/base.js: document.querySelectorAll('table').forEach(table =>
     # table.classList.add('table', 'table-striped', 'table-hover'))
     Behaviour("mkdocs", "add-class", "table", "table table-striped table-hover",
@@ -54,6 +68,8 @@ BUILTIN = (
 )
 
 NOT_MODELLED = {
+    "mkdocs-material": "the theme's script also marks the current table-of-contents entry on "
+                       "scroll and adds buttons (copy, tabs); those are not checked",
     "mkdocs": "the theme's script also changes classes on click (menus) and on scroll; "
               "those states are not checked",
     "readthedocs": "the theme's script also marks the current navigation entry from the URL "
@@ -96,13 +112,13 @@ def apply(root, behaviours=BUILTIN) -> list:
     scripts = [el.get("src") or "" for el in root.iter("script") if el.get("src")]
     applied = []
     for b in behaviours:
-        if b.script and not any(src.split("?")[0].endswith(b.script) for src in scripts):
+        if b.script and not any(b.script in src.split("?")[0] for src in scripts):
             continue
         if b.marker and not _select(root, b.marker):
             continue
         targets = _select(root, b.selector)
         for el in targets:
-            _add_classes(el, b.value) if b.action == "add-class" else _wrap(el, b.value)
+            _ACT[b.action](el, b.value)
         if b.theme not in applied:
             applied.append(b.theme)
     return applied
@@ -113,28 +129,81 @@ def _add_classes(el, value: str) -> None:
     el.set("class", " ".join(have + [c for c in value.split() if c not in have]))
 
 
+def _remove_classes(el, value: str) -> None:
+    gone = set(value.split())
+    kept = [c for c in (el.get("class") or "").split() if c not in gone]
+    if kept:
+        el.set("class", " ".join(kept))
+    else:
+        el.attrib.pop("class", None)
+
+
 def _wrap(el, value: str) -> None:
-    tag, *classes = value.split(".")
-    wrapper = etree.Element(tag or "div")
-    if classes:
-        wrapper.set("class", " ".join(classes))
     parent = el.getparent()
     if parent is None:
         return
-    wrapper.tail, el.tail = el.tail, None
-    # a wrapper inserted by a script has no source line; give it the element's
-    wrapper.sourceline = el.sourceline
-    parent.replace(el, wrapper)
-    wrapper.append(el)
+    outer = inner = None
+    for part in value.split(">"):
+        tag, *classes = part.strip().split(".")
+        made = etree.Element(tag or "div")
+        if classes:
+            made.set("class", " ".join(classes))
+        made.sourceline = el.sourceline  # a script's element has no line; give it the wrapped one
+        if inner is None:
+            outer = made
+        else:
+            inner.append(made)
+        inner = made
+    outer.tail, el.tail = el.tail, None
+    parent.replace(el, outer)
+    inner.append(el)
+
+
+_ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wrap}
 
 
 def _select(root, selector: str) -> list:
+    """Elements matching ``selector``. Runs on every page: only the elements of the rightmost
+    compound's tag are tested, and cssselect2 wrappers are built for them and their ancestors
+    alone (a full wrapped walk costs about 15 ms on a theme page)."""
+    selector = selector.strip()
+    if selector in ("html", ":root"):
+        return [root]
+    if selector == "body":
+        body = root.find("body")
+        return [body] if body is not None else []
+    compiled = _compiled(selector)
+    tag = _rightmost_tag(selector)
+    candidates = list(root.iter(tag)) if tag else list(root.iter())
+    if not candidates:
+        return []
     import cssselect2
 
-    compiled = _compiled(selector)
-    wrapper = cssselect2.ElementWrapper.from_html_root(root)
-    return [w.etree_element for w in wrapper.iter_subtree()
-            if any(c.test(w) for c in compiled)]
+    wrappers = {root: cssselect2.ElementWrapper.from_html_root(root)}
+    return [el for el in candidates if isinstance(el.tag, str)
+            and any(c.test(_wrapper(wrappers, el)) for c in compiled)]
+
+
+def _wrapper(wrappers: dict, el):
+    missing = []
+    up = el
+    while up not in wrappers:
+        missing.append(up)
+        up = up.getparent()
+    for item in reversed(missing):
+        for child in wrappers[item.getparent()].iter_children():  # siblings: `previous`
+            wrappers[child.etree_element] = child
+    return wrappers[el]
+
+
+def _rightmost_tag(selector: str) -> str:
+    """The type selector of the rightmost compound ("" when it has none)."""
+    flat = re.sub(r"\([^()]*\)", "", selector)  # arguments of :not() and the like
+    if "," in flat:
+        return ""  # a list: its compounds may name different tags
+    last = re.split(r"[\s>+~]+", flat.strip())[-1]
+    found = re.match(r"[A-Za-z][\w-]*", last)
+    return found.group(0).lower() if found else ""
 
 
 @lru_cache(maxsize=256)
