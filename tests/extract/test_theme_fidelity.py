@@ -111,3 +111,63 @@ def test_partial_shadow_that_disagrees_makes_the_text_undetermined(tmp_path):
     sample = report.pages[0].samples[0]
     assert sample.status == "undetermined" and "inset shadow" in sample.reason
     assert report.findings == []
+
+
+def test_user_behaviours_apply_before_the_cascade(render):
+    from tinctura.extract.behaviours import from_setting
+
+    behaviours = from_setting([{"action": "add-class", "selector": "article p", "value": "dim"},
+                               {"action": "wrap", "selector": "pre", "value": "div.frame"}])
+    got = render("<article><p>note</p><pre>code</pre></article>",
+                 ".dim { color: #999; } .frame pre { color: #123456; }", behaviours=behaviours)
+    assert hexes(got[("light", "rest", "note")])[0] == "#999999"
+    code = got[("light", "rest", "code")]
+    assert hexes(code)[0] == "#123456" and code.xpath.endswith("/article/div/pre")
+
+
+@pytest.mark.parametrize("entry, message", [
+    ({"action": "paint", "selector": "p", "value": "x"}, "action must be one of"),
+    ({"action": "wrap", "selector": "", "value": "div"}, "selector must be a non-empty"),
+    ({"action": "wrap", "selector": "p[", "value": "div"}, "invalid selector"),
+    ({"action": "wrap", "selector": "p", "value": "div", "colour": "red"}, "unknown keys colour"),
+])
+def test_bad_behaviours_are_named(entry, message):
+    from tinctura.extract.behaviours import from_setting
+
+    with pytest.raises(ValueError, match=message):
+        from_setting([entry])
+
+
+def test_builtin_behaviours_can_be_turned_off(tmp_path):
+    from tinctura.engine import Options, Site
+
+    (tmp_path / "index.html").write_text(
+        '<html data-bs-theme="light"><head><style>.table-striped td { color: #aaa; }</style>'
+        '</head><body><table><tr><td>cell</td></tr></table><script src="js/base.js"></script>'
+        "</body></html>")
+    on = Site(str(tmp_path), Options(states=False)).check_page("index.html")
+    off = Site(str(tmp_path), Options(states=False, theme_behaviours=False)).check_page(
+        "index.html")
+    cell = {s.scheme: hexes(s)[0] for s in on.samples if s.text == "cell"}
+    assert set(cell.values()) == {"#aaaaaa"}
+    assert {hexes(s)[0] for s in off.samples if s.text == "cell"} == {"#000000"}
+    assert any("mkdocs theme" in d.message for d in on.diagnostics)
+
+
+def test_stylesheet_under_the_site_url_prefix_resolves_inside_the_site(tmp_path):
+    from tinctura.engine import Options, Site
+
+    (tmp_path / "assets").mkdir()
+    (tmp_path / "assets" / "site.css").write_text("p { color: #767676; }")
+    # a page section named like the prefix, with its own stylesheet: without the prefix the
+    # absolute link would resolve to it
+    (tmp_path / "project" / "assets").mkdir(parents=True)
+    (tmp_path / "project" / "assets" / "site.css").write_text("p { color: #ff0000; }")
+    (tmp_path / "index.html").write_text(
+        '<html><head><link rel="stylesheet" href="/project/assets/site.css"></head>'
+        "<body><p>text</p></body></html>")
+    result = Site(str(tmp_path), Options(states=False, site_url="https://docs.invalid/project/")
+                  ).check_page("index.html")
+    assert hexes(result.samples[0])[0] == "#767676" and not result.diagnostics
+    guessed = Site(str(tmp_path), Options(states=False)).check_page("index.html")
+    assert hexes(guessed.samples[0])[0] == "#ff0000"
