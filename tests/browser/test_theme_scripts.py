@@ -228,3 +228,52 @@ def test_inset_shadow_backdrop_matches_the_screenshot(tmp_path):
         assert _close(browser[text][1], to_hex(ours[text].bg)), (text, browser[text][1])
         assert ours[text].xpath == browser[text][0]
     assert to_hex(ours["shaded"].bg) == "#bfbfbf"
+
+
+TABS = """# Mounting
+
+=== "Quay wall"
+
+    Bolt the bracket to the quay wall.
+
+=== "Pile"
+
+    Clamp the bracket to the pile.
+"""
+
+_LABELS_JS = """
+const out = [];
+for (const label of document.querySelectorAll('.tabbed-labels > label')) {
+  const el = label.firstElementChild || label;
+  let path = '', up = el;
+  while (up && up.nodeType === 1) {
+    let i = 1, sib = up;
+    while ((sib = sib.previousElementSibling)) if (sib.tagName === up.tagName) i++;
+    const same = up.parentElement ? Array.from(up.parentElement.children).filter(c => c.tagName === up.tagName).length : 1;
+    path = '/' + up.tagName.toLowerCase() + (same > 1 ? '[' + i + ']' : '') + path;
+    up = up.parentElement;
+  }
+  const c = getComputedStyle(el).color.match(/[\\d.]+/g).slice(0, 3).map(Number);
+  out.push([el.textContent.trim(), path, '#' + c.map(v => Math.round(v).toString(16).padStart(2, '0')).join('')]);
+}
+return out;
+"""
+
+
+def test_material_script_links_content_tab_labels(tmp_path):
+    """The bundle wraps each content-tab label's content in a link (and marks the labels
+    linked): the label texts tinctura checks are those links, with the browser's colours."""
+    config = ("site_name: Gauge\ntheme:\n  name: material\n  font: false\nmarkdown_extensions:\n"
+              "  - pymdownx.superfences\n  - pymdownx.tabbed:\n      alternate_style: true\n")
+    site = _build(tmp_path, config, TABS)
+    with ref.serve(site) as base, ref.browser(scripts=True) as driver:
+        driver.get(base + "index.html")
+        time.sleep(0.5)
+        browser = {text: (path, fg) for text, path, fg in driver.execute_script(_LABELS_JS)}
+    result = Site(str(site), Options(states=False)).check_page("index.html")
+    ours = {s.text: s for s in result.samples if s.scheme == result.schemes[0].name}
+    assert set(browser) == {"Quay wall", "Pile"}
+    for text, (path, fg) in browser.items():
+        assert path.endswith("/label[1]/a") or path.endswith("/label[2]/a"), path
+        assert ours[text].xpath == path
+        assert _close(fg, to_hex(ours[text].fg_raw[:3])), (text, fg)

@@ -21,15 +21,18 @@ from functools import lru_cache
 
 from lxml import etree
 
-ACTIONS = ("add-class", "remove-class", "wrap")
+ACTIONS = ("add-class", "remove-class", "wrap", "wrap-children")
 
 
 @dataclass(frozen=True)
 class Behaviour:
     theme: str  # a readable name for reports
-    action: str  # "add-class" / "remove-class": the classes in ``value``; "wrap": in ``value``
+    action: str  # "add-class" / "remove-class": the classes in ``value``; "wrap": wrap the
+    # element in ``value``; "wrap-children": wrap its content (text and children) in ``value``
     selector: str  # the elements changed (CSS selector)
-    value: str  # classes ("a b"), or the wrappers, outermost first ("div.outer > div.inner")
+    # classes ("a b"), or the wrappers, outermost first ("div.outer > div.inner"), each
+    # tag.class[attribute=value], where {name} in a value stands for the element's attribute
+    value: str
     marker: str = ""  # the page has the theme when this selector matches ("" always)
     script: str = ""  # ... and loads a script whose src contains this ("" any page)
     source: str = ""  # where the theme's script does it
@@ -48,6 +51,14 @@ BUILTIN = (
               "mkdocs-material assets/javascripts/bundle.*.min.js"),
     Behaviour("mkdocs-material", "wrap", "[data-md-component=content] table:not([class])",
               "div.md-typeset__scrollwrap > div.md-typeset__table", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    # content tabs ([data-tabs]): the labels' container is marked linked and each label's
+    # content is wrapped in <a href="#{for}" tabindex="-1">
+    Behaviour("mkdocs-material", "add-class", "[data-tabs] > .tabbed-labels",
+              "tabbed-labels--linked", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "wrap-children", "[data-tabs] > .tabbed-labels > label[for]",
+              "a[href=#{for}][tabindex=-1]", *_MATERIAL,
               "mkdocs-material assets/javascripts/bundle.*.min.js"),
     # MkDocs' own theme, js/base.js: document.querySelectorAll('table').forEach(table =>
     # table.classList.add('table', 'table-striped', 'table-hover'))
@@ -97,6 +108,9 @@ def from_setting(entries) -> tuple:
         behaviour = Behaviour(entry.get("theme", "configuration"), entry["action"],
                               entry["selector"], entry["value"], entry.get("marker", ""),
                               entry.get("script", ""), "configuration")
+        if behaviour.action.startswith("wrap") and not all(
+                _PART.fullmatch(p.strip()) for p in behaviour.value.split(">")):
+            raise ValueError(f"{where}: value must be tag.class[attribute=value] > ...")
         try:
             _compiled(behaviour.selector)
             if behaviour.marker:
@@ -142,24 +156,46 @@ def _wrap(el, value: str) -> None:
     parent = el.getparent()
     if parent is None:
         return
-    outer = inner = None
-    for part in value.split(">"):
-        tag, *classes = part.strip().split(".")
-        made = etree.Element(tag or "div")
-        if classes:
-            made.set("class", " ".join(classes))
-        made.sourceline = el.sourceline  # a script's element has no line; give it the wrapped one
-        if inner is None:
-            outer = made
-        else:
-            inner.append(made)
-        inner = made
+    outer, inner = _wrappers(el, value)
     outer.tail, el.tail = el.tail, None
     parent.replace(el, outer)
     inner.append(el)
 
 
-_ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wrap}
+def _wrap_children(el, value: str) -> None:
+    outer, inner = _wrappers(el, value)
+    inner.text, el.text = el.text, None
+    for child in list(el):
+        inner.append(child)  # moves it, with its tail
+    el.append(outer)
+
+
+_PART = re.compile(r"([\w-]*)((?:\.[\w-]+)*)((?:\[[^\]]*\])*)")
+
+
+def _wrappers(el, value: str) -> tuple:
+    """(outermost, innermost) of the elements ``value`` describes, nested."""
+    outer = inner = None
+    for part in value.split(">"):
+        tag, classes, attrs = _PART.fullmatch(part.strip()).groups()
+        made = etree.Element(tag or "div")
+        if classes:
+            made.set("class", " ".join(classes.strip(".").split(".")))
+        for attr in re.findall(r"\[([^\]]*)\]", attrs):
+            name, _, text = attr.partition("=")
+            made.set(name.strip(), re.sub(r"\{([\w-]+)\}", lambda m: el.get(m.group(1), ""),
+                                          text.strip().strip("\"'")))
+        made.sourceline = el.sourceline  # a script's element has no line; give it the element's
+        if inner is None:
+            outer = made
+        else:
+            inner.append(made)
+        inner = made
+    return outer, inner
+
+
+_ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wrap,
+        "wrap-children": _wrap_children}
 
 
 def _select(root, selector: str) -> list:
