@@ -131,7 +131,7 @@ def viewing_conditions(options):
 def _shifts(groups, model, options) -> list:
     from tinctura.colour.cam02ucs import delta_e
 
-    threshold = float(getattr(options, "shift_threshold", 0) or SHIFT_THRESHOLD)
+    threshold = float(getattr(options, "shift_threshold", SHIFT_THRESHOLD))
     findings = []
     for (entry, role, _), contexts in groups.items():
         jab = model.of(contexts)
@@ -169,7 +169,7 @@ def opponent_terms(first, second, jmh) -> list:
 def _lookalikes(pairs, groups, model, options) -> list:
     from tinctura.colour.cam02ucs import delta_e
 
-    threshold = float(getattr(options, "lookalike_threshold", 0) or LOOKALIKE_THRESHOLD)
+    threshold = float(getattr(options, "lookalike_threshold", LOOKALIKE_THRESHOLD))
     findings = []
     for a, b in pairs:
         found = _collapse(groups[a], groups[b], model, delta_e, threshold)
@@ -259,7 +259,8 @@ def _luminance(rgb) -> float:
     return relative_luminance(rgb)
 
 
-# Default thresholds in CAM02-UCS dE' units (see the rules' documentation in catalogue.py).
+# Default thresholds in CAM02-UCS dE' units (see the rules' documentation in catalogue.py);
+# engine.Options.shift_threshold and lookalike_threshold override them.
 SHIFT_THRESHOLD = 10.0
 LOOKALIKE_THRESHOLD = 10.0
 

@@ -184,3 +184,18 @@ def test_shifts_are_explained_in_opponent_terms(surround, expected):
     chromatic one takes on the opponent hue; to a black one it looks lighter."""
     shift = appearance.shift_between((0.5, 0.5, 0.5), (0.5, 0.5, 0.5), surround)
     assert expected <= set(shift["terms"])
+
+
+def test_worker_processes_give_the_same_site_findings(status_site):
+    def summary(report):
+        return sorted((f.rule, f.args["entry"], f.args.get("other"), round(f.args["delta"], 6))
+                      for f in report.findings if f.rule in ("TC300", "TC310"))
+
+    one = summary(_check(status_site, keep_samples=False, jobs=1))
+    assert one and summary(_check(status_site, keep_samples=False, jobs=2)) == one
+
+
+def test_thresholds_are_options(status_site):
+    report = _check(status_site, keep_samples=False, shift_threshold=30.0,
+                    lookalike_threshold=2.0)
+    assert not _by_rule(report, "TC300") and not _by_rule(report, "TC310")
