@@ -192,10 +192,12 @@ SURROUND_SHIFT = Rule(
             "the palette option (or --palette NAME=COLOUR) declares them by name. Each context's "
             "appearance is modelled with CIECAM02 (" + _NOTICE_SHIFT.strip() + "), and the "
             "rule reports a colour whose two most different contexts lie more than 10 "
-            "CAM02-UCS units apart. One unit is about one just-noticeable difference between "
-            "large patches; 10 units is a difference a reader sees at a glance, the size that "
-            "separates neighbouring shades such as amber and orange, so the colour no longer "
-            "reads as one code. The shift is explained in opponent terms: lighter or darker, "
+            "CAM02-UCS units apart. The threshold is this project's default, not a published "
+            "limit: one unit is roughly a just-noticeable difference between large patches "
+            "side by side, while chips, icons and words are small and seen on different parts "
+            "of a page or on different pages, so a shift must be several times larger before a "
+            "reader may no longer take it for the same code; 10 units is about the step between "
+            "neighbouring shades such as amber and orange. The shift is explained in opponent terms: lighter or darker, "
             "redder or greener, yellower or bluer, more or less colourful. " + _SAFETY
         ),
         why=(
@@ -266,8 +268,9 @@ LOOKALIKE = Rule(
             "after CIECAM02, for normal vision and under simulated protanopia, deuteranopia "
             "and tritanopia (Machado, Oliveira and Fernandes 2009, severity 1). The rule "
             "reports a pair closer than 10 units under any of them and names the conditions. "
-            "10 units is the smallest difference at which two colours read as different codes "
-            "at a glance when not side by side (see TC300); two names for the very same colour "
+            "The threshold of 10 units is this project's default, for the reason given under "
+            "TC300: codes are small and rarely side by side, so a few just-noticeable "
+            "differences are not enough to tell them apart; two names for the very same colour "
             "(under 0.5 units for normal vision) are an alias, not a collapse. " + _SAFETY
         ),
         why=(
