@@ -199,3 +199,33 @@ def test_thresholds_are_options(status_site):
     report = _check(status_site, keep_samples=False, shift_threshold=30.0,
                     lookalike_threshold=2.0)
     assert not _by_rule(report, "TC300") and not _by_rule(report, "TC310")
+
+
+PROPERTY_PAGE = (
+    '<!doctype html><html><head><style>'
+    ':root { --amber: #e0a000; --state-ok: #2e7d32; --state-fault: #c62828; }'
+    '.dark { background: #1e2530; }'
+    '.warn { background: var(--amber); color: #1a1a1a; }'
+    '.ok { color: var(--state-ok); } .fault { color: var(--state-fault); }'
+    '</style></head><body style="background:#ffffff">'
+    '<p><span class="warn">Battery low</span> <span class="ok">Level logged</span> '
+    '<span class="fault">Level missing</span></p>'
+    '<div class="dark"><p><span class="warn">Battery low</span></p></div></body></html>'
+)
+
+
+def test_custom_properties_declared_and_discovered(tmp_path):
+    page = tmp_path / "p.html"
+    page.write_text(PROPERTY_PAGE, encoding="utf-8")
+    # a lone property is a style until declared; a family of two (--state-*) is a code
+    report = _check(page, keep_samples=False)
+    assert not _by_rule(report, "TC300")
+    looks = _by_rule(report, "TC310")
+    assert [(f.args["entry"], f.args["other"]) for f in looks] == [
+        ("--state-fault", "--state-ok")]
+    assert "deuteranopia" in looks[0].args["conditions"]
+    declared = _check(page, keep_samples=False,
+                      palette=palette.palette_setting({"caution": "--amber"}))
+    shifts = _by_rule(declared, "TC300")
+    assert [f.args["entry"] for f in shifts] == ["caution"]
+    assert shifts[0].args["contexts"][0]["declaration"].startswith("p.html")
