@@ -7,7 +7,8 @@ from __future__ import annotations
 from . import appearance, text
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
-__all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Example", "Rule", "get", "selected", "run"]
+__all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Example", "Rule",
+           "get", "selected", "run"]
 
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {

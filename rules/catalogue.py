@@ -197,8 +197,9 @@ SURROUND_SHIFT = Rule(
             "side by side, while chips, icons and words are small and seen on different parts "
             "of a page or on different pages, so a shift must be several times larger before a "
             "reader may no longer take it for the same code; 10 units is about the step between "
-            "neighbouring shades such as amber and orange. The shift is explained in opponent terms: lighter or darker, "
-            "redder or greener, yellower or bluer, more or less colourful. " + _SAFETY
+            "neighbouring shades such as amber and orange. The shift is explained in opponent "
+            "terms: lighter or darker, redder or greener, yellower or bluer, more or less "
+            "colourful. " + _SAFETY
         ),
         why=(
             "A colour is never seen alone. The same caution amber looks lighter and more "
@@ -262,8 +263,8 @@ LOOKALIKE = Rule(
     docs=Docs(
         checks=(
             "Pairs of palette colours of one family (the modifiers of one base class, the "
-            "members of one family of custom properties, or the declared palette) that are different "
-            "colours but look alike where the site shows them: in one colour scheme, the two "
+            "members of one family of custom properties, or the declared palette) that are "
+            "different colours but look alike where the site shows them: in one colour scheme, the two "
             "closest contexts (colour on its immediate background) are compared in CAM02-UCS "
             "after CIECAM02, for normal vision and under simulated protanopia, deuteranopia "
             "and tritanopia (Machado, Oliveira and Fernandes 2009, severity 1). The rule "
