@@ -398,7 +398,11 @@ def describe_rule(rule, tw: TerminalWriter) -> None:
 
     criteria = ", ".join(f"SC {c.number} {c.name} ({c.level})" for c in rule.criteria)
     tw.line(f"{rule.code} {rule.slug}: {rule.title}", "bold")
-    tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
+    if rule.code in rules.SITE_LEVEL:  # risks around colour codes, not a test of the criterion
+        tw.line(f"  default severity {rule.severity}; related to WCAG 2 {criteria} (a risk to "
+                f"review, not a test of it)")
+    else:
+        tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
     para("What it checks", rule.docs.checks)
     para("Why", rule.docs.why)
     for label, example in (("Failing example", rule.docs.bad), ("Passing example", rule.docs.good)):
