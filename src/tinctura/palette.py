@@ -65,6 +65,8 @@ def palette_setting(mapping) -> tuple:
     out = []
     for name, value in dict(mapping or {}).items():
         text = str(value).strip()
+        wrapped = re.fullmatch(r"var\(\s*(--[\w-]+)\s*\)", text)
+        text = wrapped.group(1) if wrapped else text  # var(--x) names the property --x
         if text.startswith("--"):
             out.append((str(name), "property", text))
             continue

@@ -110,6 +110,8 @@ def test_palette_setting_refuses_what_is_not_a_colour():
         palette.palette_setting({"alarm": "loud"})
     assert palette.palette_setting({"caution": "--tw-caution"}) == (
         ("caution", "property", "--tw-caution"),)
+    assert palette.palette_setting({"caution": "var(--tw-caution)"}) == (
+        ("caution", "property", "--tw-caution"),)
 
 
 def test_a_family_needs_two_modifiers(tmp_path):
