@@ -5,15 +5,17 @@ A palette entry is found three ways, in this order:
 1. declared by the user (``Options.palette``: name -> a CSS colour or a custom property);
 2. a modifier family: the declaration that holds the colour (past ``var()`` aliases) has a
    selector with a compound of two or more classes (``.badge.fail``, ``.admonition.warning``),
-   the first class being the family and the others the modifier; a family counts once at least
-   two modifiers of it occur on the site;
+   the first class being the family and the others the modifier; or, failing that, a family of
+   variants: selectors that differ only in their last class (``.status .ok``, ``.status .fault``;
+   another class must stay fixed). A family counts once at least two members occur on the site;
 3. a colour named by a custom property (``--tw-state-caution: #b26b00`` and every
    ``var(--tw-state-caution)`` that paints it); its family is the name without its last
    hyphenated part (``--tw-state``), and it counts once at least two members of the family
    occur on the site (``--tw-state-ok``, ``--tw-state-fault``): a theme's many single
    variables (a brand colour, a link colour, syntax colours) are styles, not codes.
 
-Discovered entries (2 and 3) must be chromatic: greys are text and rules, not codes.
+Discovered entries (2 and 3) must be chromatic and opaque: greys are text and rules, and a
+translucent tint is a shade of whatever lies below it, not a code of its own.
 
 Each judged sample whose text colour (role ``text``) or background (role ``fill``, judged on the
 area around it, ``Sample.surround``) comes from an entry adds one *use*: the entry, the colour as
@@ -35,6 +37,7 @@ EXAMPLES = 3  # example locations kept per distinct use
 NEUTRAL_CHROMA = 0.03  # OKLab chroma below which a discovered colour is a grey, not a code
 USES_LIMIT = 5000  # distinct uses kept per site; beyond that, new situations are counted only
 
+_CLASS = re.compile(r"\.[A-Za-z_][\w-]*")
 _COMPOUND = re.compile(r"(?:^|[\s>+~(,])((?:[a-zA-Z*][\w-]*)?(?:\.[\w-]+){2,})")
 
 
@@ -44,8 +47,9 @@ class Entry:
     of one code: the same base class, the same property stem, or the user's palette)."""
 
     name: str  # "--tw-caution", ".badge.fail", or the user's name
-    source: str  # "palette", "property", "modifier"
-    family: str  # "palette", the base class ("badge") or the property's stem ("--tw-state")
+    source: str  # "palette", "modifier", "variant", "property"
+    family: str  # "palette", the base class ("badge"), the selector with its last class open
+    # (".status .*") or the property's stem ("--tw-state")
 
 
 @dataclass(slots=True)
@@ -203,16 +207,39 @@ def _discovered(cause) -> tuple:
     from .problems import target_declaration
 
     target = target_declaration(cause)
-    if target is None:
+    if target is None or _translucent(target.value):
         return ()
     # the meaning lives in the modifier when there is one (`.lamp.ok { --state: green }`)
-    for compound in _COMPOUND.findall(target.selector or ""):
+    selector = target.selector or ""
+    for compound in _COMPOUND.findall(selector):
         classes = compound.split(".")[1:]
         if len(classes) >= 2:
             return (Entry("." + ".".join(classes), "modifier", classes[0]),)
+    # rules that differ only in one class name are variants of one thing (`.status .ok`,
+    # `.status .fault`): the family is the selector with its last class left open
+    last = None
+    for last in _CLASS.finditer(selector):
+        pass
+    if last is not None and _CLASS.search(selector[:last.start()]):
+        # (another class must stay fixed: `.ok` alone would make every class one family)
+        family = selector[:last.start()] + ".*" + selector[last.end():]
+        return (Entry(selector, "variant", family),)
     if target.property.startswith("--"):
         return (Entry(target.property, "property", property_family(target.property)),)
     return ()
+
+
+def _translucent(value: str) -> bool:
+    """A translucent colour is a tint of whatever lies below (it looks different on purpose on
+    each background and in each scheme): a style, not a code of its own."""
+    from .colour.parse import parse_color
+
+    text = re.sub(r"\s*!\s*important\s*$", "", value or "", flags=re.I)
+    try:
+        parsed = parse_color(text)
+    except Exception:  # a value the parser cannot read on its own (var(), keywords)
+        return False
+    return isinstance(parsed, tuple) and len(parsed) > 3 and parsed[3] < 1.0
 
 
 def property_family(name: str) -> str:

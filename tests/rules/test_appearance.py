@@ -231,3 +231,29 @@ def test_custom_properties_declared_and_discovered(tmp_path):
     shifts = _by_rule(declared, "TC300")
     assert [f.args["entry"] for f in shifts] == ["caution"]
     assert shifts[0].args["contexts"][0]["declaration"].startswith("p.html")
+
+
+VARIANT_PAGE = (
+    '<!doctype html><html><head><style>'
+    '.dark { background: #1e2530; }'
+    '.board .ok { color: #2e7d32; } .board .fault { color: #c62828; }'
+    '.board .tint { background: #c628281a; } .board .tint2 { background: #2e7d321a; }'
+    '.lone { color: #1565c0; }'
+    '</style></head><body style="background:#ffffff">'
+    '<div class="board"><p><span class="ok">Logged</span> <span class="fault">Missing</span> '
+    '<span class="tint">Tinted</span> <span class="tint2">Tinted</span> '
+    '<span class="lone">Blue</span></p>'
+    '<div class="dark"><p><span class="tint">Tinted</span> <span class="lone">Blue</span></p>'
+    '</div></div></body></html>'
+)
+
+
+def test_selector_variants_are_a_family_but_tints_and_lone_classes_are_not(tmp_path):
+    page = tmp_path / "p.html"
+    page.write_text(VARIANT_PAGE, encoding="utf-8")
+    report = _check(page, keep_samples=False)
+    looks = _by_rule(report, "TC310")
+    assert [(f.args["entry"], f.args["other"]) for f in looks] == [(".board .fault",
+                                                                    ".board .ok")]
+    # the translucent tints differ on each background by design; `.lone` has no family
+    assert not _by_rule(report, "TC300")
