@@ -262,7 +262,7 @@ def _luminance(rgb) -> float:
 # Default thresholds in CAM02-UCS dE' units (see the rules' documentation in catalogue.py);
 # engine.Options.shift_threshold and lookalike_threshold override them.
 SHIFT_THRESHOLD = 10.0
-LOOKALIKE_THRESHOLD = 10.0
+LOOKALIKE_THRESHOLD = 15.0
 
 
 def shift_between(colour, bg, other_bg, options=None) -> dict:
@@ -275,7 +275,8 @@ def shift_between(colour, bg, other_bg, options=None) -> dict:
     jmh = np.stack([spec.J, spec.M, spec.h], axis=-1)
     return {"jmh": [tuple(float(x) for x in row) for row in jmh],
             "delta": float(cam02ucs.delta_e(jab[0], jab[1])),
-            "terms": opponent_terms(jab[0], jab[1], jmh), "threshold": SHIFT_THRESHOLD}
+            "terms": opponent_terms(jab[0], jab[1], jmh),
+            "threshold": float(getattr(options, "shift_threshold", SHIFT_THRESHOLD))}
 
 
 def lookalike_between(colour, other, bg, options=None) -> list:
@@ -292,8 +293,9 @@ def lookalike_between(colour, other, bg, options=None) -> list:
     spec = ciecam02.appearance(np.concatenate(rows_fg), np.concatenate(rows_bg),
                                viewing_conditions(options))
     jab = cam02ucs.jab(spec.J, spec.M, spec.h)
+    threshold = float(getattr(options, "lookalike_threshold", LOOKALIKE_THRESHOLD))
     out = []
     for k, condition in enumerate(CONDITIONS):
         d = float(cam02ucs.delta_e(jab[2 * k], jab[2 * k + 1]))
-        out.append((condition, d, d < LOOKALIKE_THRESHOLD))
+        out.append((condition, d, d < threshold))
     return out

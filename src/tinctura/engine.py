@@ -51,7 +51,7 @@ class Options:
     surround: str = "Average"  # "Average", "Dim" or "Dark"
     white_luminance: float = 80.0  # cd/m2 of the display white
     shift_threshold: float = 10.0  # TC300: CAM02-UCS units (rules/catalogue.py says why)
-    lookalike_threshold: float = 10.0  # TC310: CAM02-UCS units
+    lookalike_threshold: float = 15.0  # TC310: CAM02-UCS units
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours

@@ -5,9 +5,10 @@ A palette entry is found three ways, in this order:
 1. declared by the user (``Options.palette``: name -> a CSS colour or a custom property);
 2. a modifier family: the declaration that holds the colour (past ``var()`` aliases) has a
    selector with a compound of two or more classes (``.badge.fail``, ``.admonition.warning``),
-   the first class being the family and the others the modifier; or, failing that, a family of
-   variants: selectors that differ only in their last class (``.status .ok``, ``.status .fault``;
-   another class must stay fixed). A family counts once at least two members occur on the site;
+   the first class being the family and the others the modifier (it counts even alone); or,
+   failing that, a family of variants: selectors that differ only in their last class
+   (``.status .ok``, ``.status .fault``; another class must stay fixed), which counts once at
+   least two members occur on the site;
 3. a colour named by a custom property (``--tw-state-caution: #b26b00`` and every
    ``var(--tw-state-caution)`` that paints it); its family is the name without its last
    hyphenated part (``--tw-state``), and it counts once at least two members of the family
@@ -176,12 +177,13 @@ def families(uses) -> dict:
 
 
 def retained(uses: dict) -> dict:
-    """The uses whose entry counts as a palette colour site-wide: declared ones, and discovered
-    ones whose family has at least two members on the site (one class with one modifier, or one
-    custom property, is a style, not a code)."""
+    """The uses whose entry counts as a palette colour site-wide: declared ones, a base class
+    with a modifier (``.badge.warn`` says what it means even alone), and other discovered ones
+    whose family has at least two members on the site (one custom property, or one rule, is a
+    style, not a code)."""
     members = families(uses)
     return {key: use for key, use in uses.items()
-            if key[0].source == "palette" or len(members[key[0].family]) >= 2}
+            if key[0].source in ("palette", "modifier") or len(members[key[0].family]) >= 2}
 
 
 def entries(cause, rgb, palette: tuple = ()) -> tuple:

@@ -114,13 +114,13 @@ def test_palette_setting_refuses_what_is_not_a_colour():
         ("caution", "property", "--tw-caution"),)
 
 
-def test_a_family_needs_two_modifiers(tmp_path):
+def test_a_lone_modifier_counts_but_a_lone_class_does_not(tmp_path):
     (tmp_path / "p.html").write_text(
-        '<style>.tag.new{color:#1565c0}.dark{background:#101418}</style>'
-        '<p><span class="tag new">New</span></p>'
-        '<div class="dark"><span class="tag new">New</span></div>')
+        '<style>.tag.new{color:#1565c0}.old{color:#1565c0}.dark{background:#101418}</style>'
+        '<p><span class="tag new">New</span> <span class="old">Old</span></p>'
+        '<div class="dark"><span class="tag new">New</span> <span class="old">Old</span></div>')
     report = _check(tmp_path / "p.html")
-    assert not _by_rule(report, "TC300")
+    assert [f.args["entry"] for f in _by_rule(report, "TC300")] == [".tag.new"]
 
 
 def test_text_and_json_reports_list_every_context(status_site):
