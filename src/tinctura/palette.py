@@ -107,24 +107,29 @@ def collect_for(samples, options) -> dict:
 def collect(samples, palette: tuple = ()) -> dict:
     """Uses of palette entries among ``samples``: {(entry, role, colour, bg, scheme): Use}."""
     uses: dict = {}
-    memo = _memo(palette)  # (cause, colour) -> entries: a site repeats a few dozen of them
+    memo = _memo(palette)
     for s in samples:
         if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None:
             continue
-        found = memo.get((s.fg_cause, s.fg))
-        if found is None:
-            found = memo[(s.fg_cause, s.fg)] = entries(s.fg_cause, quantize(s.fg), palette)
-        for entry in found:
+        for entry in _entries_of(memo, s.fg_cause, s.fg, palette):
             _add(uses, (entry, "text", quantize(s.fg), quantize(s.bg), s.scheme), s, s.fg_cause)
         if s.surround is None or s.bg_cause is None:
             continue
-        found = memo.get((s.bg_cause, s.bg))
-        if found is None:
-            found = memo[(s.bg_cause, s.bg)] = entries(s.bg_cause, quantize(s.bg), palette)
-        for entry in found:
+        for entry in _entries_of(memo, s.bg_cause, s.bg, palette):
             _add(uses, (entry, "fill", quantize(s.bg), quantize(s.surround), s.scheme), s,
                  s.bg_cause)
     return uses
+
+
+def _entries_of(memo: dict, cause, rgb, palette) -> tuple:
+    """:func:`entries`, memoized per cause object and colour: a page has thousands of samples
+    and few causes. Keyed by the cause's id (hashing the record costs more than the lookup);
+    the memo keeps the cause alive, so the id cannot be reused while the entry exists."""
+    key = (id(cause), rgb)
+    hit = memo.get(key)
+    if hit is None:
+        hit = memo[key] = (cause, entries(cause, quantize(rgb), palette))
+    return hit[1]
 
 
 _MEMOS: dict = {}
