@@ -12,6 +12,7 @@ import traceback
 from tinctura import engine, problems, report, rules
 from tinctura.model import Diagnostic
 from tinctura.report import messages as m
+from tinctura.report.scope import scope_of
 from tinctura.report.store import FindingStore
 from tinctura.report.status import ERROR, FAIL_ON, exit_status
 from tinctura.report.terminal import TerminalWriter
@@ -238,6 +239,7 @@ def run_check(args, stdout, stderr) -> int:
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
+        scope=scope_of(args.paths, options),
     )
     with output(args.output, stdout) as stream:
         report.render(stream, args.format, header, result.pages, result.findings, found,

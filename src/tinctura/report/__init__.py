@@ -1,7 +1,10 @@
-"""Reports: formatters that turn a run's records into text or JSON, and the exit status."""
+"""Reports: formatters that turn a run's records into text, JSON, HTML or CSV, and the exit
+status."""
 from __future__ import annotations
 
 from .base import Formatter, Header, emit
+from .csv_report import CsvFormatter
+from .html_report import HtmlFormatter
 from .json_report import JsonFormatter
 from .notice import DISCLAIMER
 from .status import exit_status
@@ -13,7 +16,8 @@ __all__ = [
     "emit", "exit_status", "render", "summarise",
 ]
 
-FORMATS = {"text": TextFormatter, "json": JsonFormatter}
+FORMATS = {"text": TextFormatter, "json": JsonFormatter, "html": HtmlFormatter,
+           "csv": CsvFormatter}
 
 
 def render(stream, fmt: str, header: Header, pages, findings, problems, diagnostics=(),

@@ -21,6 +21,7 @@ class Header:
     group: str = "cause"  # "cause" (problems first) or "page"
     fail_on: str = "error"
     schemes: list = field(default_factory=list)  # scheme names evaluated
+    scope: object = None  # report.scope.Scope: how the run was made (the audit report shows it)
 
 
 class Formatter:
