@@ -12,6 +12,7 @@ import traceback
 from tinctura import engine, problems, report, rules
 from tinctura.model import Diagnostic
 from tinctura.report import messages as m
+from tinctura.report import progress
 from tinctura.report.scope import scope_of
 from tinctura.report.store import FindingStore
 from tinctura.report.status import ERROR, FAIL_ON, exit_status
@@ -224,13 +225,18 @@ def run_check(args, stdout, stderr) -> int:
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings
     store, collector = FindingStore(), problems.Collector()
+    show = progress.wanted(stderr, getattr(args, "quiet", False))
+    bar = progress.Progress(stderr, progress.count_pages(args.paths, options) if show else 0,
+                            enabled=show)
 
     def keep(page, findings):
         store.add(page.page, findings)
         for f in findings:
             collector.add(f)
+        bar.advance()
 
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
+    bar.finish()
     result.findings = store
     found = collector.problems(result.uses)
     header = report.Header(
