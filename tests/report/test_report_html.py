@@ -167,3 +167,16 @@ def test_no_findings_report():
     html, _, _ = build([make_sample("#111", "white")])
     assert "No contrast problems were found" in html
     assert "No page has findings" in html
+
+
+def test_source_locations_from_whatever_the_run_knows():
+    from tinctura.report.html_report import source_of
+
+    s = make_sample("#777", "white", page="guide/index.html")
+    assert source_of(s) == ""
+    located = types.SimpleNamespace(source=types.SimpleNamespace(file="docs/guide.md", line=12))
+    assert source_of(s, types.SimpleNamespace(locate=lambda sample: located)) == "docs/guide.md:12"
+    assert source_of(s, types.SimpleNamespace(source={"guide/index.html": ("docs/guide.md", 3)})) \
+        == "docs/guide.md:3"
+    assert source_of(s, types.SimpleNamespace(source=lambda page: ("docs/guide.md", 0))) \
+        == "docs/guide.md"

@@ -16,8 +16,7 @@ __all__ = [
     "emit", "exit_status", "render", "summarise",
 ]
 
-FORMATS = {"text": TextFormatter, "json": JsonFormatter, "html": HtmlFormatter,
-           "csv": CsvFormatter}
+FORMATS = {"text": TextFormatter, "json": JsonFormatter}
 
 
 def render(stream, fmt: str, header: Header, pages, findings, problems, diagnostics=(),
@@ -30,3 +29,7 @@ def render(stream, fmt: str, header: Header, pages, findings, problems, diagnost
         formatter = FORMATS[fmt](stream, header)
     emit(formatter, pages, findings, problems, diagnostics, summary)
     return summary
+
+
+FORMATS["html"] = HtmlFormatter  # the audit report
+FORMATS["csv"] = CsvFormatter  # one row per finding, for spreadsheets

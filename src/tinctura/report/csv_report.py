@@ -33,7 +33,7 @@ def _declaration(cause) -> tuple:
     return f"{d.property}: {d.value}", d.where()
 
 
-def row(f) -> list:
+def row(f, header=None) -> list:
     from .html_report import source_of
 
     s = f.sample
@@ -45,7 +45,7 @@ def row(f) -> list:
             m.message_args(f)["sc"], m.excerpt(s.text, 200)]
     numbers = [m.colour(fg), m.colour(bg), f"{f.ratio:.4f}", m.required(f.required)]
     tail = [fix.get("foreground", ""), fix.get("background", ""), fg_decl, fg_where, bg_decl,
-            bg_where, source_of(s), m.message(f)]
+            bg_where, source_of(s, header), m.message(f)]
     return [safe(v) for v in text] + numbers + [safe(v) for v in tail]
 
 
@@ -59,4 +59,4 @@ class CsvFormatter(Formatter):
 
     def page(self, page, findings) -> None:
         for f in findings:
-            self.writer.writerow(row(f))
+            self.writer.writerow(row(f, self.header))

@@ -13,6 +13,7 @@ from __future__ import annotations
 from html import escape
 import re
 
+from tinctura.colour import wcag
 from tinctura.problems import target_declaration
 
 from . import audit, charts, swatch
@@ -82,7 +83,8 @@ class HtmlFormatter(Formatter):
     def stop(self, summary) -> None:
         self.summary = summary
         scope = self.header.scope
-        self.chosen = audit.selected_rules(getattr(scope, "rules", ()) or ())
+        self.chosen = audit.selected_rules(getattr(self.header, "rules", ()) or
+                                           getattr(scope, "rules", ()) or ())
         w = self.stream.write
         w(HEAD.format(title=e(self.title()), version=e(self.header.version), css=CSS))
         w(self.cover())
@@ -362,12 +364,16 @@ class HtmlFormatter(Formatter):
             rows.append((f"{name.capitalize()} (simulated)", sfg, sbg, sfix))
         head = ('<th scope="col">As published</th>'
                 + (f'<th scope="col">{e(fix[1])}: {e(m.colour(fix[0]))}</th>' if fix else ""))
+        def cell(fg_, bg_, label):
+            ratio = m.ratio(wcag.contrast_ratio(fg_, bg_))
+            return (f"<td>{swatch.image(text, fg_, bg_, size, weight, label)}"
+                    f'<span class="ratio">{e(m.colour(fg_))} on {e(m.colour(bg_))}, '
+                    f"{ratio}:1</span></td>")
+
         body = []
         for label, a, b, c in rows:
-            fixed = "" if c is None else (
-                f"<td>{swatch.image(text, c, b, size, weight, label + ', suggested')}</td>")
-            body.append(f'<tr><th scope="row">{e(label)}</th>'
-                        f"<td>{swatch.image(text, a, b, size, weight, label)}</td>{fixed}</tr>")
+            fixed = "" if c is None else cell(c, b, label + ", suggested")
+            body.append(f'<tr><th scope="row">{e(label)}</th>{cell(a, b, label)}{fixed}</tr>')
         return (f'<table class="pictures"><caption>The words as readers see them</caption>'
                 f'<thead><tr><th scope="col">Vision</th>{head}</tr></thead>'
                 f"<tbody>{''.join(body)}</tbody></table>")
@@ -388,7 +394,7 @@ class HtmlFormatter(Formatter):
         for f in chosen:
             s = f.sample
             efg, ebg = m.finding_colours(f)
-            source = source_of(s)
+            source = source_of(s, self.header)
             state = "" if s.state == "rest" else f" (:{s.state})"
             rows.append(
                 f"<tr><td>{e(s.page)}:{s.line}{e(state)}"
@@ -449,17 +455,38 @@ def sentence(text: str) -> str:
     return text[:1].upper() + text[1:]
 
 
-def source_of(sample) -> str:
-    """The Markdown source location of a sample, when the run recorded one ("" otherwise)."""
-    source = getattr(sample, "source", None)
-    if not source:
+def source_of(sample, header=None) -> str:
+    """The Markdown source location of a sample, when the run can tell ("" otherwise).
+
+    Asks, in turn, the header's ``locate`` (sample -> location with a ``source`` that has a
+    ``file`` and a ``line``), the header's ``source`` (page -> ``(path, line)``), and the
+    sample's own ``source``; a run without source locations gives "".
+    """
+    found = None
+    locate = getattr(header, "locate", None)
+    if callable(locate):
+        found = getattr(locate(sample), "source", None)
+    source = getattr(header, "source", None)
+    if found is None and source is not None:
+        found = source(sample.page) if callable(source) else source.get(sample.page)
+    if found is None:
+        found = getattr(sample, "source", None)
+    return _where(found)
+
+
+def _where(found) -> str:
+    if not found:
         return ""
-    if isinstance(source, str):
-        return source
-    path, line = getattr(source, "path", None), getattr(source, "line", None)
-    if path:
-        return f"{path}:{line}" if line else str(path)
-    return str(source)
+    if isinstance(found, str):
+        return found
+    if isinstance(found, tuple):
+        path, line = (tuple(found) + (0,))[:2]
+    else:
+        path = getattr(found, "file", None) or getattr(found, "path", None)
+        line = getattr(found, "line", 0)
+    if not path:
+        return ""
+    return f"{path}:{line}" if line else str(path)
 
 
 TOC = (
@@ -517,7 +544,7 @@ nav h2{font-size:1rem;border:0;margin:1rem 0 0;padding:0}
 .caution{background-color:var(--review-bg);color:var(--ink);border-left:6px solid var(--review);
 padding:.25rem 1rem;margin-top:1.5rem}
 .caution h2{border:0;margin-top:.75rem;padding-top:0}
-.figures{display:grid;grid-template-columns:repeat(auto-fill,minmax(10rem,1fr));gap:.75rem;
+.figures{display:grid;grid-template-columns:repeat(auto-fill,minmax(8.5rem,1fr));gap:.75rem;
 margin:0}
 .figures div{background-color:var(--panel);color:var(--ink);padding:.6rem .8rem;
 border:1px solid var(--line)}
@@ -559,9 +586,11 @@ margin:1.25rem 0;background-color:var(--bg)}
 .sev{font-weight:700;color:var(--fail)}
 .pictures{width:auto}
 .pictures img{display:block;max-width:100%;height:auto;border:1px solid var(--line)}
+.pictures .ratio{display:block;font-size:.85rem;color:var(--muted)}
 .occurrences td:nth-child(3){max-width:18rem}
 footer{margin-top:3rem;padding-top:1rem;border-top:2px solid var(--line);color:var(--muted);
 font-size:.9rem}
+@page{margin:16mm 14mm}
 @media print{
 :root{--bg:#ffffff;--ink:#000000;--muted:#333333;--line:#777777;--panel:#f2f2f2;--link:#000000;
 --bar:#3b5b8f;--low:#a3401a;--hatch:#ffffff;--fail:#8f1d13;--fail-bg:#ffffff;--pass:#155a2f;

@@ -37,7 +37,7 @@ def image(text: str, fg, bg, size_px: float = 16.0, weight: int = 400, label: st
     """An ``<img>`` of ``text`` in ``fg`` on ``bg``; ``label`` opens its alternative text."""
     size = min(max(float(size_px or 16.0), 12.0), 30.0)
     height = int(size * 2.2)
-    words = m.excerpt(text, max(8, int((WIDTH - 24) / (size * 0.56)))) or "Aa"
+    words = m.excerpt(text, max(8, int((WIDTH - 24) / (size * 0.54)))) or "Aa"
     fg_hex, bg_hex = m.colour(fg), m.colour(bg)
     svg = (f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}">'
            f'<rect width="100%" height="100%" fill="{bg_hex}"/>'
