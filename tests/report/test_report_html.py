@@ -44,7 +44,7 @@ def hostile_samples():
     return [
         make_sample("#777", "white", page=page, fg_cause=fg, bg_cause=bg, text=HOSTILE,
                     xpath='/html/body/p[@class="</code><script>"]'),
-        make_sample("#999", "white", page="b.html", scheme="dark", text="Ebb <i>tide</i>"),
+        make_sample("#999", "white", page="b.html", scheme=HOSTILE, text="Ebb <i>tide</i>"),
         make_sample("#111", "white", page="b.html", status=UNDETERMINED, reason=HOSTILE),
     ]
 

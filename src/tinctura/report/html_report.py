@@ -16,11 +16,13 @@ import re
 from tinctura.colour import wcag
 from tinctura.problems import target_declaration
 
+from tinctura import distribution
+
 from . import audit, charts, swatch
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
-from .text_report import examples
+from .text_report import cause_fix_lines, examples
 
 BEYOND = (
     "APCA and the colour-appearance rules (surround, look-alike colours, viewing conditions, "
@@ -116,9 +118,8 @@ class HtmlFormatter(Formatter):
                 f"WCAG 2.2 level {e(self.header.level)}.</p>{TOC}</header>\n")
 
     def caution(self) -> str:
-        return (f'<section id="caution" class="caution" aria-labelledby="caution-h">'
-                f'<h2 id="caution-h">Read this first</h2><p>{e(DISCLAIMER)}</p>'
-                f"<p>{e(BEYOND)}</p></section>\n")
+        return section("caution", "Read this first", f"<p>{e(DISCLAIMER)}</p><p>{e(BEYOND)}</p>",
+                       cls="caution")
 
     def glance(self) -> str:
         s = self.summary
@@ -130,10 +131,10 @@ class HtmlFormatter(Formatter):
         cells = "".join(f'<div><dt>{e(label)}</dt><dd data-figure="{e(label)}">{n:,}</dd></div>'
                         for label, n in figures)
         sev = ", ".join(f"{n:,} {e(name)}" for name, n in s.by_severity.items())
-        return (f'<section id="glance" aria-labelledby="glance-h"><h2 id="glance-h">At a glance'
-                f'</h2><dl class="figures">{cells}</dl><p>Findings by severity: {sev}. A '
-                f"problem groups the findings that one pair of declarations causes: fixing the "
-                f"declaration fixes every occurrence.</p></section>\n")
+        return section("glance", "At a glance", f'<dl class="figures">{cells}</dl>',
+                       f"<p>Findings by severity: {sev}. A problem groups the findings that one "
+                       f"pair of declarations causes: fixing the declaration fixes every "
+                       f"occurrence.</p>")
 
     def judged(self) -> int:
         return sum(sum(bins.values()) for bins in self.summary.ratios.values())
@@ -162,14 +163,15 @@ class HtmlFormatter(Formatter):
             for r in self.chosen)
         dl = "".join(f"<div><dt>{e(k)}</dt><dd>{e(v)}</dd></div>" for k, v in rows)
         pages = "".join(f"<li>{e(p)}</li>" for p in self.tally.pages)
-        return (f'<section id="scope" aria-labelledby="scope-h"><h2 id="scope-h">Scope and method'
-                f'</h2><dl class="scope">{dl}</dl><h3>Rules run</h3><ul>{rule_items}</ul>'
-                f"<p>Each page was read as built, with its stylesheets; the cascade was resolved "
-                f"without a browser, for every scheme and state above, and every text judged "
-                f"against its effective background. Ratios are shown floored to two decimals "
-                f"(4.499 shows as 4.49 and fails 4.5).</p>"
-                f"<details><summary>Every page checked ({len(self.tally.pages):,})</summary>"
-                f'<ul class="columns">{pages}</ul></details></section>\n')
+        return section(
+            "scope", "Scope and method", f'<dl class="scope">{dl}</dl>',
+            f"<h3>Rules run</h3><ul>{rule_items}</ul>",
+            "<p>Each page was read as built, with its stylesheets; the cascade was resolved "
+            "without a browser, for every scheme and state above, and every text judged against "
+            "its effective background. Ratios are shown floored to two decimals (4.499 shows as "
+            "4.49 and fails 4.5).</p>",
+            f"<details><summary>Every page checked ({len(self.tally.pages):,})</summary>"
+            f'<ul class="columns">{pages}</ul></details>')
 
     def excluded(self) -> str:
         sc = self.header.scope
@@ -177,8 +179,8 @@ class HtmlFormatter(Formatter):
         patterns = getattr(sc, "exclude", []) or []
         if not patterns:
             return "none"
-        return f"{len(pages):,} ({', '.join(pages[:20])}{', ...' if len(pages) > 20 else ''}) " \
-               f"by the patterns {', '.join(patterns)}"
+        shown = ", ".join(pages[:20]) + (", ..." if len(pages) > 20 else "")
+        return f"{len(pages):,} ({shown}) by the patterns {', '.join(patterns)}"
 
     def criteria(self) -> str:
         per_rule: dict = {}
@@ -186,46 +188,35 @@ class HtmlFormatter(Formatter):
             per_rule[p.rule] = per_rule.get(p.rule, 0) + 1
         rows = audit.criteria_rows(self.header.level, self.chosen, self.summary.by_rule,
                                    per_rule, self.summary.undetermined)
-        body = "".join(
-            f'<tr data-criterion="{e(r.criterion.number)}"><th scope="row">'
-            f'<a href="{e(r.criterion.url)}">{e(r.criterion.number)} {e(r.criterion.name)}</a>'
-            f'</th><td>{e(r.criterion.level)}</td><td><span class="status '
-            f'{STATUS_CLASS[r.status]}">{e(r.status.capitalize())}</span></td>'
-            f"<td>{e(', '.join(r.rules) or 'none')}</td><td class='num'>{r.findings:,}</td><td>{e(r.note)}</td>"
-            f"</tr>" for r in rows)
-        return (f'<section id="criteria" aria-labelledby="criteria-h"><h2 id="criteria-h">'
-                f"WCAG success criteria about colour</h2><p>\u201cPass\u201d means this tool "
-                f"found no failure in the text it could judge; it is not a statement of "
-                f"conformance.</p>"
-                f"<table><caption>Results per success criterion (WCAG 2.2)</caption><thead><tr>"
-                f'<th scope="col">Success criterion</th><th scope="col">Level</th>'
-                f'<th scope="col">Result</th><th scope="col">Rules</th>'
-                f'<th scope="col">Findings</th><th scope="col">Notes</th></tr></thead>'
-                f"<tbody>{body}</tbody></table></section>\n")
+        body = [row(f'<a href="{e(r.criterion.url)}">{e(r.criterion.number)} '
+                    f"{e(r.criterion.name)}</a>",
+                    e(r.criterion.level),
+                    f'<span class="status {STATUS_CLASS[r.status]}">'
+                    f"{e(r.status.capitalize())}</span>",
+                    e(", ".join(r.rules) or "none"), r.findings, e(r.note),
+                    attrs=f' data-criterion="{e(r.criterion.number)}"') for r in rows]
+        return section(
+            "criteria", "WCAG success criteria about colour",
+            "<p>\u201cPass\u201d means this tool found no failure in the text it could judge; "
+            "it is not a statement of conformance.</p>",
+            table("Results per success criterion (WCAG 2.2)",
+                  ("Success criterion", "Level", "Result", "Rules", "#Findings", "Notes"), body))
 
     def rules_and_schemes(self) -> str:
         level = self.header.level
-        rules_rows = "".join(
-            f'<tr data-rule="{e(r.name)}"><th scope="row">{code(r.name)} '
-            f'{e(r.extra["rule"].slug)}</th>'
-            f"<td>{e(self.criterion_of(r.extra['rule'], level))}</td>"
-            f'<td>{e(r.extra["rule"].severity)}</td><td class="num">{r.findings:,}</td>'
-            f'<td class="num">{r.problems:,}</td><td class="num">{r.pages:,}</td></tr>'
-            for r in audit.rule_rows(self.chosen, self.summary, self.problems, self.tally))
-        scheme_rows = "".join(
-            f'<tr data-scheme="{e(r.name)}"><th scope="row">{e(r.name)}</th>'
-            f"<td class='num'>{r.extra['judged']:,}</td><td class='num'>{r.findings:,}</td><td class='num'>{r.problems:,}</td>"
-            f"<td class='num'>{r.pages:,}</td></tr>"
-            for r in audit.scheme_rows(self.summary, self.problems, self.tally))
-        head = ('<th scope="col">Findings</th><th scope="col">Problems</th>'
-                '<th scope="col">Pages</th>')
-        return (f'<section id="rules" aria-labelledby="rules-h"><h2 id="rules-h">Results per rule'
-                f" and per colour scheme</h2><table><caption>Per rule</caption><thead><tr>"
-                f'<th scope="col">Rule</th><th scope="col">WCAG 2</th>'
-                f'<th scope="col">Severity</th>{head}</tr></thead><tbody>{rules_rows}</tbody>'
-                f"</table><table><caption>Per colour scheme</caption><thead><tr>"
-                f'<th scope="col">Scheme</th><th scope="col">Texts judged</th>{head}</tr>'
-                f"</thead><tbody>{scheme_rows}</tbody></table></section>\n")
+        by_rule = [row(f"{code(r.name)} {e(r.extra['rule'].slug)}",
+                       e(self.criterion_of(r.extra["rule"], level)),
+                       e(r.extra["rule"].severity), r.findings, r.problems, r.pages,
+                       attrs=f' data-rule="{e(r.name)}"')
+                   for r in audit.rule_rows(self.chosen, self.summary, self.problems, self.tally)]
+        by_scheme = [row(e(r.name), r.extra["judged"], r.findings, r.problems, r.pages,
+                         attrs=f' data-scheme="{e(r.name)}"')
+                     for r in audit.scheme_rows(self.summary, self.problems, self.tally)]
+        counts = ("#Findings", "#Problems", "#Pages")
+        return section(
+            "rules", "Results per rule and per colour scheme",
+            table("Per rule", ("Rule", "WCAG 2", "Severity") + counts, by_rule),
+            table("Per colour scheme", ("Scheme", "#Texts judged") + counts, by_scheme))
 
     @staticmethod
     def criterion_of(rule, level: str) -> str:
@@ -235,54 +226,46 @@ class HtmlFormatter(Formatter):
     def ratios(self) -> str:
         hist = self.summary.ratios
         marks = audit.thresholds(self.header.level)
+        lines = " and ".join(m.required(t) + ":1" for t in marks)
         peak = max((n for bins in hist.values() for n in bins.values()), default=1)
         figures = []
         for name in self.summary.schemes or sorted(hist):
             bins = hist.get(name, {})
-            rows = "".join(
-                f"<tr><td>{lo:g} to {hi:g}</td><td class='num'>{n:,}</td></tr>"
-                for lo, hi, n in ((*self.bounds(k), n) for k, n in sorted(bins.items())))
+            rows = [row(e(f"{lo:g} to {hi:g}"), n)
+                    for lo, hi, n in ((*self.bounds(k), n) for k, n in sorted(bins.items()))]
             figures.append(
                 f'<figure class="chart-box">{charts.ratio_histogram(bins, marks, name, peak)}'
                 f"<figcaption>Scheme {e(name)}: {sum(bins.values()):,} texts judged. Dashed "
-                f"lines: {' and '.join(m.required(t) + ':1' for t in marks)}, the ratios large "
-                f"and normal text need at level {e(self.header.level)}; hatched bars lie below "
-                f"{m.required(max(marks))}:1.</figcaption>"
-                f"<details><summary>The numbers (scheme {e(name)})</summary><table><caption>"
-                f"Texts per contrast ratio, scheme {e(name)}</caption><thead><tr>"
-                f'<th scope="col">Ratio</th><th scope="col">Texts</th></tr></thead><tbody>'
-                f"{rows}</tbody></table></details></figure>")
-        return (f'<section id="ratios" aria-labelledby="ratios-h"><h2 id="ratios-h">How the '
-                f"contrast ratios are spread</h2><p>Every text judged, in every state, by its "
-                f"contrast ratio against its background. Text close to a threshold passes "
-                f"today but has little margin.</p>{''.join(figures)}</section>\n")
+                f"lines: {lines}, the ratios large and normal text need at level "
+                f"{e(self.header.level)}; hatched bars lie below {m.required(max(marks))}:1."
+                f"</figcaption><details><summary>The numbers (scheme {e(name)})</summary>"
+                + table(f"Texts per contrast ratio, scheme {name}", ("Ratio", "#Texts"), rows)
+                + "</details></figure>")
+        return section("ratios", "How the contrast ratios are spread",
+                       "<p>Every text judged, in every state, by its contrast ratio against its "
+                       "background. Text close to a threshold passes today but has little "
+                       "margin.</p>", *figures)
 
     @staticmethod
     def bounds(k: int) -> tuple:
-        from tinctura import distribution
-
         lo, hi = distribution.bin_range(k)
         return max(lo, 1.0), hi
 
     def pages(self) -> str:
         ranked = self.tally.ranked_pages()
-        schemes = list(self.summary.schemes)
-        scheme_heads = "".join(f'<th scope="col">{e(n)}</th>' for n in schemes)
-        rows = "".join(
-            f'<tr data-page="{e(page)}"><th scope="row">{e(page)}</th><td class="num">{n:,}</td>'
-            + "".join(f"<td class='num'>{self.tally.by_page_scheme[page].get(s, 0):,}</td>" for s in schemes)
-            + "</tr>" for page, n in ranked)
-        clean = self.summary.pages - len(ranked)
         if not ranked:
-            return (f'<section id="pages" aria-labelledby="pages-h"><h2 id="pages-h">Pages'
-                    f"</h2><p>No page has findings.</p></section>\n")
-        return (f'<section id="pages" aria-labelledby="pages-h"><h2 id="pages-h">Pages ranked by '
-                f'findings</h2><figure class="chart-box">{charts.page_bars(ranked)}'
-                f"<figcaption>Findings per page, most first ({min(len(ranked), 20)} of "
-                f"{len(ranked):,} pages with findings).</figcaption></figure>"
-                f"<table><caption>Findings per page and scheme; {clean:,} other pages have "
-                f'none</caption><thead><tr><th scope="col">Page</th><th scope="col">Findings'
-                f"</th>{scheme_heads}</tr></thead><tbody>{rows}</tbody></table></section>\n")
+            return section("pages", "Pages", "<p>No page has findings.</p>")
+        schemes = list(self.summary.schemes)
+        rows = [row(e(page), n, *(self.tally.by_page_scheme[page].get(s, 0) for s in schemes),
+                    attrs=f' data-page="{e(page)}"') for page, n in ranked]
+        clean = self.summary.pages - len(ranked)
+        return section(
+            "pages", "Pages ranked by findings",
+            f'<figure class="chart-box">{charts.page_bars(ranked)}<figcaption>Findings per '
+            f"page, most first ({min(len(ranked), 20)} of {len(ranked):,} pages with findings)."
+            f"</figcaption></figure>",
+            table(f"Findings per page and scheme; {clean:,} other pages have none",
+                  ("Page", "#Findings") + tuple("#" + s for s in schemes), rows))
 
     def problem_list(self) -> str:
         if not self.problems:
@@ -291,11 +274,10 @@ class HtmlFormatter(Formatter):
             body = "".join(self.problem_article(i, p) for i, p in enumerate(self.problems, 1))
         cvd = ("" if swatch.deficiencies() else
                "<p>Colour-vision deficiency previews are not available in this version.</p>")
-        return (f'<section id="problems" aria-labelledby="problems-h"><h2 id="problems-h">'
-                f"Problems, most occurrences first</h2><p>Each problem is one text colour "
-                f"declaration on one background declaration in one scheme. The pictures show "
-                f"the words as published and with the suggested colour.</p>{cvd}{body}"
-                f"</section>\n")
+        return section("problems", "Problems, most occurrences first",
+                       "<p>Each problem is one text colour declaration on one background "
+                       "declaration in one scheme. The pictures show the words as published and "
+                       "with the suggested colour.</p>", cvd, body)
 
     def problem_article(self, index: int, p) -> str:
         worst = p.worst
@@ -362,25 +344,20 @@ class HtmlFormatter(Formatter):
             sfg, sbg = swatch.simulate(fg, name), swatch.simulate(bg, name)
             sfix = swatch.simulate(fix[0], name) if fix else None
             rows.append((f"{name.capitalize()} (simulated)", sfg, sbg, sfix))
-        head = ('<th scope="col">As published</th>'
-                + (f'<th scope="col">{e(fix[1])}: {e(m.colour(fix[0]))}</th>' if fix else ""))
+
         def cell(fg_, bg_, label):
             ratio = m.ratio(wcag.contrast_ratio(fg_, bg_))
-            return (f"<td>{swatch.image(text, fg_, bg_, size, weight, label)}"
+            return (f"{swatch.image(text, fg_, bg_, size, weight, label)}"
                     f'<span class="ratio">{e(m.colour(fg_))} on {e(m.colour(bg_))}, '
-                    f"{ratio}:1</span></td>")
+                    f"{ratio}:1</span>")
 
-        body = []
-        for label, a, b, c in rows:
-            fixed = "" if c is None else cell(c, b, label + ", suggested")
-            body.append(f'<tr><th scope="row">{e(label)}</th>{cell(a, b, label)}{fixed}</tr>')
-        return (f'<table class="pictures"><caption>The words as readers see them</caption>'
-                f'<thead><tr><th scope="col">Vision</th>{head}</tr></thead>'
-                f"<tbody>{''.join(body)}</tbody></table>")
+        body = [row(e(label), cell(a, b, label),
+                    *(() if c is None else (cell(c, b, label + ", suggested"),)))
+                for label, a, b, c in rows]
+        heads = ("Vision", "As published") + ((f"{fix[1]}: {m.colour(fix[0])}",) if fix else ())
+        return table("The words as readers see them", heads, body, cls="pictures")
 
     def fix_text(self, p, worst) -> str:
-        from .text_report import cause_fix_lines
-
         lines = cause_fix_lines(p.fix_at_cause)
         if not lines:
             other = m.fixes(worst)
@@ -396,58 +373,65 @@ class HtmlFormatter(Formatter):
             efg, ebg = m.finding_colours(f)
             source = source_of(s, self.header)
             state = "" if s.state == "rest" else f" (:{s.state})"
-            rows.append(
-                f"<tr><td>{e(s.page)}:{s.line}{e(state)}"
-                + (f"<br>source {e(source)}" if source else "")
-                + f'</td><td><code class="path">{e(m.css_path(s.xpath))}</code></td>'
-                f"<td>{e(m.excerpt(s.text, 80))}</td><td>{e(m.colour(efg))} on "
-                f"{e(m.colour(ebg))}, {m.ratio(f.ratio)}:1</td></tr>")
+            where = e(f"{s.page}:{s.line}{state}") + (f"<br>source {e(source)}" if source else "")
+            rows.append(row(where, f'<code class="path">{e(m.css_path(s.xpath))}</code>',
+                            e(m.excerpt(s.text, 80)),
+                            e(f"{m.colour(efg)} on {m.colour(ebg)}, {m.ratio(f.ratio)}:1")))
         rest = p.occurrences - len(chosen)
         more = f"; {m.plural(rest, 'more occurrence')} not shown" if rest > 0 else ""
-        return (f'<table class="occurrences"><caption>Where it occurs{e(more)}</caption><thead>'
-                f'<tr><th scope="col">Page and line</th><th scope="col">Element</th>'
-                f'<th scope="col">Text</th><th scope="col">Colours</th></tr></thead>'
-                f"<tbody>{''.join(rows)}</tbody></table>")
+        return table(f"Where it occurs{more}", ("Page and line", "Element", "Text", "Colours"),
+                     rows, cls="occurrences")
 
     def not_judged(self) -> str:
         s = self.summary
-        reasons = "".join(f"<tr><td>{e(k)}</td><td class='num'>{v:,}</td></tr>"
-                          for k, v in s.undetermined_reasons.items())
-        skipped = "".join(f"<tr><td>{e(k)}</td><td class='num'>{v:,}</td></tr>" for k, v in s.skipped.items())
-        diags = "".join(
-            f"<li>{e(d.path)}{':' + str(d.line) if d.line else ''}: {e(d.severity)}: "
-            f"{e(d.message)}</li>" for d in self.diagnostics)
-        parts = [f'<section id="not-judged" aria-labelledby="not-judged-h"><h2 id="not-judged-h">'
-                 f"Not judged, and why</h2><p>{s.undetermined:,} texts could not be judged: "
-                 f"their colours depend on something a static check cannot know (a picture, "
-                 f"backgrounds that disagree). A person must look at them. {s.exempt:,} texts "
-                 f"are exempt (for example inactive controls, which WCAG SC 1.4.3 exempts).</p>"]
-        if reasons:
-            parts.append(f'<table><caption>Texts not judged, by reason</caption><thead><tr>'
-                         f'<th scope="col">Reason</th><th scope="col">Texts</th></tr></thead>'
-                         f"<tbody>{reasons}</tbody></table>")
-            where = "".join(
-                f"<tr><th scope='row'>{e(page)}</th><td>{e(', '.join(sorted(found)))}</td>"
-                f"<td class='num'>{sum(found.values()):,}</td></tr>"
-                for page, found in sorted(self.tally.undetermined.items()))
-            parts.append(f'<table><caption>Pages with texts not judged</caption><thead><tr>'
-                         f'<th scope="col">Page</th><th scope="col">Reasons</th>'
-                         f'<th scope="col" class="num">Texts</th></tr></thead>'
-                         f"<tbody>{where}</tbody></table>")
-        if skipped:
-            parts.append(f'<table><caption>Elements not rendered, so not checked</caption>'
-                         f'<thead><tr><th scope="col">Why</th><th scope="col">Elements</th>'
-                         f"</tr></thead><tbody>{skipped}</tbody></table>")
-        if diags:
-            parts.append(f"<h3>Input that could not be read fully</h3><ul>{diags}</ul>")
-        parts.append("</section>\n")
-        return "".join(parts)
+        parts = [f"<p>{s.undetermined:,} texts could not be judged: their colours depend on "
+                 f"something a static check cannot know (a picture, backgrounds that disagree). "
+                 f"A person must look at them. {s.exempt:,} texts are exempt (for example "
+                 f"inactive controls, which WCAG SC 1.4.3 exempts).</p>"]
+        if s.undetermined_reasons:
+            parts.append(table("Texts not judged, by reason", ("Reason", "#Texts"),
+                               [row(e(k), v) for k, v in s.undetermined_reasons.items()]))
+            parts.append(table("Pages with texts not judged", ("Page", "Reasons", "#Texts"),
+                               [row(e(page), e(", ".join(sorted(found))), sum(found.values()))
+                                for page, found in sorted(self.tally.undetermined.items())]))
+        if s.skipped:
+            parts.append(table("Elements not rendered, so not checked", ("Why", "#Elements"),
+                               [row(e(k), v) for k, v in s.skipped.items()]))
+        if self.diagnostics:
+            items = "".join(f"<li>{e(d.path)}{':' + str(d.line) if d.line else ''}: "
+                            f"{e(d.severity)}: {e(d.message)}</li>" for d in self.diagnostics)
+            parts.append(f"<h3>Input that could not be read fully</h3><ul>{items}</ul>")
+        return section("not-judged", "Not judged, and why", *parts)
 
     def limits(self) -> str:
         items = "".join(f"<li>{e(t)}</li>" for t in CANNOT_JUDGE)
-        return (f'<section id="limits" aria-labelledby="limits-h"><h2 id="limits-h">What this '
-                f"check cannot judge</h2><ul>{items}</ul><p>Conformance needs a review by "
-                f"qualified people; see “Read this first”.</p></section>\n")
+        return section("limits", "What this check cannot judge", f"<ul>{items}</ul>",
+                       "<p>Conformance needs a review by qualified people; see \u201cRead this "
+                       "first\u201d.</p>")
+
+
+def section(id_: str, title: str, *body: str, cls: str = "") -> str:
+    klass = f' class="{cls}"' if cls else ""
+    return (f'<section id="{id_}"{klass} aria-labelledby="{id_}-h"><h2 id="{id_}-h">'
+            f"{e(title)}</h2>{''.join(body)}</section>\n")
+
+
+def table(caption: str, heads, rows, cls: str = "") -> str:
+    """A table with a caption and column headers (a ``#`` before a header marks a numeric
+    column); ``rows``: markup from :func:`row`."""
+    cells = "".join(f'<th scope="col" class="num">{e(h[1:])}</th>' if h.startswith("#")
+                    else f'<th scope="col">{e(h)}</th>' for h in heads)
+    klass = f' class="{cls}"' if cls else ""
+    return (f"<table{klass}><caption>{e(caption)}</caption><thead><tr>{cells}</tr></thead>"
+            f"<tbody>{''.join(rows)}</tbody></table>")
+
+
+def row(head: str, *cells, attrs: str = "") -> str:
+    """A table row: ``head`` (markup) as its header, then cells (markup; ints as numbers)."""
+    out = [f'<tr{attrs}><th scope="row">{head}</th>']
+    for c in cells:
+        out.append(f'<td class="num">{c:,}</td>' if isinstance(c, int) else f"<td>{c}</td>")
+    return "".join(out) + "</tr>"
 
 
 def sentence(text: str) -> str:

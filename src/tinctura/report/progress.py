@@ -9,15 +9,11 @@ from __future__ import annotations
 import os
 import time
 
+from .terminal import is_terminal
+
 
 def wanted(stream, quiet: bool = False) -> bool:
-    if quiet:
-        return False
-    isatty = getattr(stream, "isatty", None)
-    try:
-        return bool(isatty and isatty())
-    except ValueError:  # closed stream
-        return False
+    return not quiet and is_terminal(stream)
 
 
 def duration(seconds: float) -> str:
