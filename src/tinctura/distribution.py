@@ -43,11 +43,20 @@ def histogram(samples) -> dict:
     from tinctura.rules.text import judged
 
     out: dict = {}
+    # Samples of one style share their colour tuples: keyed by identity (the samples keep
+    # the tuples alive during the call), most lookups hash four ints, not twelve floats.
+    seen: dict = {}
     for s in samples:
-        if judged(s):
-            bins = out.setdefault(s.scheme, {})
-            k = bin_of(worst_ratio(s))
-            bins[k] = bins.get(k, 0) + 1
+        if not judged(s):
+            continue
+        same = (id(s.fg), id(s.bg), id(s.bg_alternatives), id(s.fg_raw))
+        k = seen.get(same)
+        if k is None:
+            k = seen[same] = bin_of(worst_ratio(s))
+        bins = out.get(s.scheme)
+        if bins is None:
+            bins = out[s.scheme] = {}
+        bins[k] = bins.get(k, 0) + 1
     return out
 
 
