@@ -67,9 +67,19 @@ def selected_rules(names=()) -> tuple:
     return rules.selected(tuple(names or ()))
 
 
+# Rules whose results are advice beyond WCAG 2 (APCA, colour-appearance models), even when
+# their metadata names the contrast criteria they complement. A rule may say so itself with
+# an ``advice`` attribute.
+ADVICE = frozenset({"TC200", "TC300", "TC310", "TC400", "TC500"})
+
+
+def is_advice(rule) -> bool:
+    return bool(getattr(rule, "advice", rule.code in ADVICE)) or not rule.criteria
+
+
 def applied(rule, level: str):
-    """The criterion ``rule`` applies at ``level`` (None for rules outside WCAG 2)."""
-    return rule.criterion(level) if rule.criteria else None
+    """The criterion ``rule`` applies at ``level`` (None for advice beyond WCAG 2)."""
+    return None if is_advice(rule) else rule.criterion(level)
 
 
 def criteria_rows(level: str, chosen, by_rule: dict, problems_by_rule: dict,
@@ -83,9 +93,13 @@ def criteria_rows(level: str, chosen, by_rule: dict, problems_by_rule: dict,
         probs = sum(problems_by_rule.get(code, 0) for code in checking)
         if not checking:
             above = LEVELS[criterion.level] > LEVELS.get(level, 2)
-            mentioned = any(c.number == criterion.number for r in chosen for c in r.criteria)
+            mentioned = any(c.number == criterion.number for r in chosen if not is_advice(r)
+                            for c in r.criteria)
             if above and mentioned:
                 note = f"Level {criterion.level}: run the check at level {criterion.level}. "
+            elif mentioned:
+                note = (f"This run applied level {level}; run the check at level "
+                        f"{criterion.level} for this criterion's own verdict. ")
             else:
                 note = "No rule of this run checks it. "
             rows.append(CriterionRow(criterion, NOT_CHECKED, note + f"A person must judge "

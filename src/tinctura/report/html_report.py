@@ -22,6 +22,7 @@ from . import audit, charts, swatch
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
+from .scope import Scope, now
 from .text_report import cause_fix_lines, examples
 
 BEYOND = (
@@ -84,7 +85,9 @@ class HtmlFormatter(Formatter):
 
     def stop(self, summary) -> None:
         self.summary = summary
-        scope = self.header.scope
+        # a caller that gave no scope (the plugin, say): at least the date
+        self.about = getattr(self.header, "scope", None) or Scope(date=now())
+        scope = self.about
         self.chosen = audit.selected_rules(getattr(self.header, "rules", ()) or
                                            getattr(scope, "rules", ()) or ())
         w = self.stream.write
@@ -95,7 +98,7 @@ class HtmlFormatter(Formatter):
                      self.ratios, self.pages, self.problem_list, self.not_judged, self.limits):
             w(part())
         w("</main>\n")
-        date = getattr(self.header.scope, "date", "")
+        date = getattr(self.about, "date", "")
         w(f"<footer><p>Written by tinctura {e(self.header.version)}"
           f"{' on ' + e(date) if date else ''}. Automated checks cover only part of WCAG; "
           f"conformance needs a review by qualified people.</p></footer>\n</body>\n</html>\n")
@@ -103,12 +106,12 @@ class HtmlFormatter(Formatter):
     # -- parts ---------------------------------------------------------------------------
 
     def title(self) -> str:
-        scope = self.header.scope
+        scope = self.about
         name = getattr(scope, "title", "") or ", ".join(getattr(scope, "paths", []) or [])
         return f"Colour contrast audit: {name}" if name else "Colour contrast audit"
 
     def cover(self) -> str:
-        scope = self.header.scope
+        scope = self.about
         name = getattr(scope, "title", "") or ", ".join(getattr(scope, "paths", []) or [])
         date = getattr(scope, "date", "")
         when = f" on {e(date)}" if date else ""
@@ -140,7 +143,7 @@ class HtmlFormatter(Formatter):
         return sum(sum(bins.values()) for bins in self.summary.ratios.values())
 
     def scope(self) -> str:
-        s, sc, h = self.summary, self.header.scope, self.header
+        s, sc, h = self.summary, self.about, self.header
         paths = ", ".join(getattr(sc, "paths", []) or []) or "not recorded"
         site = f"{sc.title} ({paths})" if getattr(sc, "title", "") else paths
         rows = [("Site", site),
@@ -154,6 +157,9 @@ class HtmlFormatter(Formatter):
                 ("Pages checked", f"{s.pages:,}"),
                 ("Pages excluded", self.excluded())]
         rows.extend((label, value) for label, value in getattr(sc, "extra", []) or [])
+        if swatch.deficiencies():
+            rows.append(("Colour-vision previews", ", ".join(swatch.deficiencies()) +
+                         " (Machado 2009 simulation, full severity), shown beside each problem"))
         if not any(label.lower().startswith("viewing") for label, _ in rows):
             rows.append(("Viewing profiles", "none: contrast is judged as WCAG 2 defines it, "
                                              "without ambient light"))
@@ -174,7 +180,7 @@ class HtmlFormatter(Formatter):
             f'<ul class="columns">{pages}</ul></details>')
 
     def excluded(self) -> str:
-        sc = self.header.scope
+        sc = self.about
         pages = getattr(sc, "excluded_pages", []) or []
         patterns = getattr(sc, "exclude", []) or []
         if not patterns:
@@ -213,9 +219,12 @@ class HtmlFormatter(Formatter):
                          attrs=f' data-scheme="{e(r.name)}"')
                      for r in audit.scheme_rows(self.summary, self.problems, self.tally)]
         counts = ("#Findings", "#Problems", "#Pages")
+        advice = audit.other_rules(level, self.chosen)
+        note = "" if not advice else (
+            f"<p>{e(', '.join(r.code for r in advice))}: {e(BEYOND)}</p>")
         return section(
             "rules", "Results per rule and per colour scheme",
-            table("Per rule", ("Rule", "WCAG 2", "Severity") + counts, by_rule),
+            table("Per rule", ("Rule", "WCAG 2", "Severity") + counts, by_rule), note,
             table("Per colour scheme", ("Scheme", "#Texts judged") + counts, by_scheme))
 
     @staticmethod

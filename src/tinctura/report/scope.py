@@ -35,7 +35,20 @@ def scope_of(paths, options) -> Scope:
         exclude=list(options.exclude),
         excluded_pages=excluded_pages(paths, options),
         rules=list(options.rules),
+        extra=settings(options),
     )
+
+
+def settings(options) -> list:
+    """(label, value) lines for the options of rules beyond WCAG 2, when this version has them."""
+    out = []
+    profiles = getattr(options, "profiles", None)
+    if profiles:
+        out.append(("Viewing profiles", ", ".join(profiles)))
+    severity = getattr(options, "cvd_severity", None)
+    if severity is not None:
+        out.append(("Colour-vision deficiency severity", f"{severity:g} (0 to 1)"))
+    return out
 
 
 def excluded_pages(paths, options) -> list:
@@ -63,7 +76,7 @@ def site_title(paths) -> str:
             try:
                 with open(index, "rb") as fh:
                     root = parse_html(fh.read())
-            except (OSError, ValueError):
+            except Exception:  # a title is a courtesy: never fail a report for it
                 return ""
             title = root.find(".//title")
             text = "" if title is None else " ".join("".join(title.itertext()).split())
