@@ -12,8 +12,6 @@ import traceback
 from tinctura import engine, problems, report, rules
 from tinctura.model import Diagnostic
 from tinctura.report import messages as m
-from tinctura.report import progress
-from tinctura.report.scope import scope_of
 from tinctura.report.store import FindingStore
 from tinctura.report.status import ERROR, FAIL_ON, exit_status
 from tinctura.report.terminal import TerminalWriter
@@ -238,12 +236,10 @@ def run_check(args, stdout, stderr) -> int:
     check_inputs(args.paths)
     options = options_from(args)
     options.keep_samples = False  # the report needs counts, findings and declaration uses
+    bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings
     store, collector = FindingStore(), problems.Collector()
-    show = progress.wanted(stderr, getattr(args, "quiet", False))
-    bar = progress.Progress(stderr, progress.count_pages(args.paths, options) if show else 0,
-                            enabled=show)
 
     def keep(page, findings):
         store.add(page.page, findings)
@@ -252,16 +248,15 @@ def run_check(args, stdout, stderr) -> int:
         bar.advance()
 
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
-    bar.finish()
     result.findings = store
     found = collector.problems(result.uses)
     header = report.Header(
+        scope=report.scope_of(args.paths, options),
         version=version(),
         level=args.level,
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
-        scope=scope_of(args.paths, options),
     )
     with output(args.output, stdout) as stream:
         report.render(stream, args.format, header, result.pages, result.findings, found,

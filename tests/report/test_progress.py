@@ -31,11 +31,11 @@ def test_lines_rate_time_left_and_time_taken():
     bar.advance(10)
     assert out.getvalue() == "\rchecked 10 of 40 pages, 2.0 pages/s, about 15 s left"
     clock.now += 15
-    bar.advance(30)
-    clock.now += 0.5
-    bar.finish()
+    bar.advance(30)  # the last page: the time taken replaces the line
     last = out.getvalue().split("\r")[-1]
     assert last.startswith("checked 40 pages in 20 s") and last.endswith("\n")
+    bar.finish()  # nothing more
+    assert out.getvalue().split("\r")[-1] == last
 
 
 def test_disabled_writes_nothing():
@@ -60,7 +60,7 @@ def test_check_shows_progress_on_a_terminal_only(tmp_path):
         (tmp_path / name).write_text(page)
     err = FakeTTY()
     assert cli.main(["check", str(tmp_path), "--jobs", "1"], io.StringIO(), err) == 0
-    assert "checked 2 of 2 pages" in err.getvalue()
+    assert "\rchecked 1 of 2 pages, " in err.getvalue()
     assert err.getvalue().split("\r")[-1].startswith("checked 2 pages in ")
     plain = io.StringIO()
     out = io.StringIO()

@@ -7,13 +7,15 @@ from .csv_report import CsvFormatter
 from .html_report import HtmlFormatter
 from .json_report import JsonFormatter
 from .notice import DISCLAIMER
+from .progress import progress_for
+from .scope import scope_of
 from .status import exit_status
 from .summary import Summary, summarise
 from .text_report import TextFormatter
 
 __all__ = [
     "DISCLAIMER", "FORMATS", "Formatter", "Header", "JsonFormatter", "Summary", "TextFormatter",
-    "emit", "exit_status", "render", "summarise",
+    "emit", "exit_status", "progress_for", "render", "scope_of", "summarise",
 ]
 
 FORMATS = {"text": TextFormatter, "json": JsonFormatter}

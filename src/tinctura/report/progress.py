@@ -41,7 +41,16 @@ def count_pages(paths, options) -> int:
     return total
 
 
+def progress_for(args, options, stream) -> "Progress":
+    """The progress of ``tinctura check``: shown on ``stream`` when it is a terminal and the
+    run is not quiet (``args.quiet``); a Progress that writes nothing otherwise."""
+    show = wanted(stream, getattr(args, "quiet", False))
+    return Progress(stream, count_pages(args.paths, options) if show else 0, enabled=show)
+
+
 class Progress:
+    """Call ``advance`` per page; the last page (or ``finish``) writes the time taken."""
+
     def __init__(self, stream, total: int, enabled: bool = True, clock=time.monotonic,
                  interval: float = 0.25):
         self.stream = stream
@@ -53,13 +62,17 @@ class Progress:
         self.start = clock()
         self._last = None  # when the line was last drawn
         self._width = 0  # characters drawn, to blank a shorter line
+        self._finished = False
 
     def advance(self, pages: int = 1) -> None:
         self.done += pages
-        if not self.enabled:
+        if not self.enabled or self._finished:
+            return
+        if self.done >= self.total:
+            self.finish()
             return
         now = self.clock()
-        if self._last is None or now - self._last >= self.interval or self.done == self.total:
+        if self._last is None or now - self._last >= self.interval:
             self._last = now
             self._draw(self.line(now))
 
@@ -72,8 +85,9 @@ class Progress:
         return text
 
     def finish(self) -> None:
-        if not self.enabled:
+        if not self.enabled or self._finished:
             return
+        self._finished = True
         elapsed = self.clock() - self.start
         self._draw(f"checked {self.done:,} pages in {duration(elapsed)}")
         self.stream.write("\n")
