@@ -21,7 +21,6 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
 
-from . import distribution
 from . import problems as problems_mod
 from .colour import wcag
 from .extract import behaviours as behaviour_mod
@@ -32,6 +31,7 @@ from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
+from . import distribution  # the contrast ratios of each page, for the audit report
 
 
 @dataclass
