@@ -10,13 +10,12 @@ stylesheet or the command line goes through :func:`e`.
 """
 from __future__ import annotations
 
-from html import escape
 import re
-
-from tinctura.colour import wcag
-from tinctura.problems import target_declaration
+from html import escape
 
 from tinctura import distribution
+from tinctura.colour import wcag
+from tinctura.problems import target_declaration
 
 from . import audit, charts, swatch
 from . import messages as m
@@ -295,10 +294,8 @@ class HtmlFormatter(Formatter):
         rule = self.rule(p.rule)
         sc = audit.applied(rule, worst.level) if rule else None
         where = f"SC {sc.number}" if sc else "beyond WCAG 2"
-        title = (f"{index}. {self.value(p.fg_cause, fg, 'text')} on "
-                 f"{self.value(p.bg_cause, bg, 'background')}: "
-                 f"{m.ratio(p.worst_ratio)}:1, needs {m.required(p.required)}:1")
-        title = prose(title)
+        title = prose(f"{index}. {self.value(p.fg_cause, fg, 'text')} on "
+                      f"{self.value(p.bg_cause, bg, 'background')}: {measure(rule, worst)}")
         facts = (f'<p class="facts"><span class="sev">{e(p.severity.capitalize())}</span> '
                  f"{code(p.rule)} {e(p.slug)}, {e(where)}; scheme {e(p.scheme)}; "
                  f"{m.plural(p.occurrences, 'occurrence')} on {m.plural(p.pages, 'page')}.</p>"
@@ -441,6 +438,17 @@ def row(head: str, *cells, attrs: str = "") -> str:
     for c in cells:
         out.append(f'<td class="num">{c:,}</td>' if isinstance(c, int) else f"<td>{c}</td>")
     return "".join(out) + "</tr>"
+
+
+def measure(rule, finding) -> str:
+    """``2.32:1, needs 4.5:1``, or what the rule measures instead (its ``measure`` template)."""
+    template = getattr(rule, "measure", None)
+    if template:
+        try:
+            return template.format(**m.message_args(finding))
+        except (KeyError, IndexError, ValueError):  # a template this version cannot fill
+            pass
+    return f"{m.ratio(finding.ratio)}:1, needs {m.required(finding.required)}:1"
 
 
 def sentence(text: str) -> str:
