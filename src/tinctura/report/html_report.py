@@ -406,7 +406,7 @@ class HtmlFormatter(Formatter):
         if self.diagnostics:
             items = "".join(f"<li>{e(d.path)}{':' + str(d.line) if d.line else ''}: "
                             f"{e(d.severity)}: {e(d.message)}</li>" for d in self.diagnostics)
-            parts.append(f"<h3>Input that could not be read fully</h3><ul>{items}</ul>")
+            parts.append(f"<h3>What the check could not read or model</h3><ul>{items}</ul>")
         return section("not-judged", "Not judged, and why", *parts)
 
     def limits(self) -> str:
