@@ -180,3 +180,10 @@ def test_source_locations_from_whatever_the_run_knows():
         == "docs/guide.md:3"
     assert source_of(s, types.SimpleNamespace(source=lambda page: ("docs/guide.md", 0))) \
         == "docs/guide.md"
+
+
+def test_same_run_same_document():
+    scope = Scope(paths=["site"], date="2026-01-01 00:00 UTC")
+    first, _, _ = build(hostile_samples(), scope=scope)
+    again, _, _ = build(hostile_samples(), scope=scope)
+    assert first == again

@@ -2,22 +2,19 @@
 
 Labels are drawn before the shapes, and never over them: a static check (tinctura's own) takes
 shapes drawn earlier as possible backgrounds of later text. Colours come from the report's
-stylesheet (classes ``bar``, ``bar-low``, ``rule``, ``axis``), so
-the charts follow its light and dark schemes and print. Bars that fall below a threshold are
-hatched as well as coloured: the difference never rests on colour alone (WCAG SC 1.4.1). Every
-chart has a title and a description for assistive technology; the report gives the numbers in a
-table beside it.
+stylesheet (classes ``bar``, ``bar-low``, ``rule``, ``axis``), so the charts follow its light
+and dark schemes and print. Bars that fall below a threshold are hatched as well as coloured:
+the difference never rests on colour alone (WCAG SC 1.4.1). Every chart has a title and a
+description for assistive technology; the report gives the numbers in a table beside it.
 """
 from __future__ import annotations
 
+import hashlib
 from html import escape
-from itertools import count
 
 from tinctura import distribution
 
 from . import messages as m
-
-_IDS = count(1)
 
 HATCH = (
     '<defs><pattern id="{id}" width="6" height="6" patternUnits="userSpaceOnUse" '
@@ -27,7 +24,8 @@ HATCH = (
 
 
 def _open(width: int, height: int, title: str, desc: str) -> tuple:
-    n = next(_IDS)
+    # ids from the title (unique per chart in a report): the same data, the same document
+    n = hashlib.blake2b(title.encode("utf-8", "surrogatepass"), digest_size=5).hexdigest()
     head = (f'<svg class="chart" viewBox="0 0 {width} {height}" width="{width}" '
             f'height="{height}" role="img" aria-labelledby="chart{n}-t chart{n}-d" '
             f'xmlns="http://www.w3.org/2000/svg">'
