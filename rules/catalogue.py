@@ -59,6 +59,7 @@ class Rule:
     criteria: tuple  # tuple[Criterion]; the one applied depends on the level checked
     message: str  # template, formatted late by the reports (see tinctura.report.messages)
     docs: Docs
+    measure: str = ""  # what a finding measures, when it is not a contrast ratio (reports)
 
     def criterion(self, level: str) -> Criterion:
         """The success criterion that applies when checking at ``level`` ("AA" or "AAA")."""
@@ -181,6 +182,7 @@ SURROUND_SHIFT = Rule(
         "{delta:.1f} CAM02-UCS units apart, over {threshold:g} (a risk to review, not a WCAG 2 "
         "failure)"
     ),
+    measure="{delta:.1f} CAM02-UCS units between its contexts, over {threshold:g}",
     docs=Docs(
         checks=(
             "Each palette colour (a colour that carries a meaning: a status, a callout type, a "
@@ -261,12 +263,14 @@ LOOKALIKE = Rule(
         "CAM02-UCS units apart under {condition}, under {threshold:g} (a risk to review, not a "
         "WCAG 2 failure)"
     ),
+    measure="{delta:.1f} CAM02-UCS units apart under {condition}, under {threshold:g}",
     docs=Docs(
         checks=(
             "Pairs of palette colours of one family (the modifiers of one base class, the "
-            "members of one family of custom properties, or the declared palette) that are "
-            "different colours but look alike where the site shows them: in one colour scheme, the two "
-            "closest contexts (colour on its immediate background) are compared in CAM02-UCS "
+            "variants of one rule, the members of one family of custom properties, or the "
+            "declared palette), in the same role (two text colours or two fills), that are "
+            "different colours but look alike where the site shows them: in one colour scheme, "
+            "the two closest contexts (colour on its immediate background) are compared in CAM02-UCS "
             "after CIECAM02, for normal vision and under simulated protanopia, deuteranopia "
             "and tritanopia (Machado, Oliveira and Fernandes 2009, severity 1). The rule "
             "reports a pair closer than 15 units under any of them and names the conditions. "
@@ -274,8 +278,9 @@ LOOKALIKE = Rule(
             "so a few just-noticeable differences are not enough to tell them apart, and "
             "palettes of categorical colours are commonly built with differences of about 10 "
             "to 20 units between categories (common practice, in CIEDE2000 units, which are "
-            "of about the same size); 15 is the middle of that range. Two names for the very same colour "
-            "(under 0.5 units for normal vision) are an alias, not a collapse. " + _SAFETY
+            "of about the same size); 15 is the middle of that range. Two names for the very "
+            "same colour (under 0.5 units for normal vision) are an alias, not a collapse. "
+            + _SAFETY
         ),
         why=(
             "About 8 % of men and 0.5 % of women of Northern European descent have a red-green "
