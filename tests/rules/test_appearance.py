@@ -257,3 +257,17 @@ def test_selector_variants_are_a_family_but_tints_and_lone_classes_are_not(tmp_p
                                                                     ".board .ok")]
     # the translucent tints differ on each background by design; `.lone` has no family
     assert not _by_rule(report, "TC300")
+
+
+def test_html_and_csv_reports_carry_the_appearance_findings(status_site):
+    out = io.StringIO()
+    assert main(["check", str(status_site), "--no-states", "--jobs", "1", "--fail-on", "never",
+                 "--format", "html"], out, io.StringIO()) == 0
+    html = out.getvalue()
+    assert "Palette colours and contexts" in html
+    assert "CAM02-UCS units between its contexts, over 10" in html
+    assert "ISO 3864" in html
+    out = io.StringIO()
+    main(["check", str(status_site), "--no-states", "--jobs", "1", "--fail-on", "never",
+          "--format", "csv"], out, io.StringIO())
+    assert "TC300" in out.getvalue() and "TC310" in out.getvalue()
