@@ -99,7 +99,6 @@ def test_pair_bad_colour(argv, needle):
 @pytest.mark.parametrize("argv", [
     ("pair", "#777", "white", "--size", "0"),
     ("pair", "#777", "white", "--weight", "heavy"),
-    ("check",),
     ("check", ".", "--level", "A"),
     ("check", ".", "--fail-on", "sometimes"),
     ("frobnicate",),
