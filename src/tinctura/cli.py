@@ -113,6 +113,10 @@ def build_parser() -> argparse.ArgumentParser:
                       help="font weight, 1-1000, normal or bold (default 400)")
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.add_argument("--level", choices=("AA", "AAA"), default="AA", type=str.upper,
+                      help="the level whose failure makes the exit status 1 (default AA)")
+    pair.add_argument("-q", "--quiet", action="store_true",
+                      help="print only the summary line (the ratio and the verdict)")
     pair.set_defaults(run=run_pair)
 
     trace_cmd = sub.add_parser(
@@ -365,6 +369,13 @@ def run_pair(args, stdout, stderr) -> int:
                      f"composited over the background: {m.colour(fg)}")
     ratio = wcag.contrast_ratio(fg, bg)
     large = wcag.is_large_text(args.size, args.weight)
+    selected_need = wcag.required_ratio(args.level, large)
+    failed = not wcag.passes(ratio, selected_need)
+    if args.quiet:
+        verdict = "fails" if failed else "passes"
+        tw.line(f"{m.colour(fg)} on {m.colour(bg)}: {m.ratio(ratio)}:1, {verdict} "
+                f"{args.level} ({m.required(selected_need)}:1)")
+        return exit_status(failed=failed)
     tw.line(f"{m.colour(fg)} on {m.colour(bg)}: {m.ratio(ratio)}:1", "bold")
     for note in notes:
         tw.line(f"note: {note}", "dim")
@@ -388,7 +399,7 @@ def run_pair(args, stdout, stderr) -> int:
             tw.line(f"        nearest passing: {' or '.join(parts)}")
         else:
             tw.line("        no single-colour change reaches it; change both colours")
-    return exit_status()
+    return exit_status(failed=failed)
 
 
 def describe_rule(rule, tw: TerminalWriter) -> None:

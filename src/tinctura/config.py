@@ -163,7 +163,10 @@ def allow_entries(value):
         pages = [pages] if isinstance(pages, str) else strings(pages)
         selector = entry.get("selector")
         if selector is not None:
-            _check_selector(text(selector))
+            try:
+                _check_selector(text(selector))
+            except ValueError as exc:
+                raise ValueError(f"entry {n}: {exc}") from None
         out.append({"pages": pages, "rules": rule_names(entry.get("rules", [])),
                     "selector": selector, "reason": entry["reason"].strip()})
     return out
@@ -175,7 +178,8 @@ def _check_selector(selector: str) -> None:
     try:
         cssselect2.compile_selector_list(selector)
     except Exception as exc:  # cssselect2 raises its own SelectorError and ValueError
-        raise ValueError(f"selector {selector!r} cannot be used: {exc}") from None
+        reason = exc.args[-1] if exc.args else exc
+        raise ValueError(f"selector {selector!r} cannot be used: {reason}") from None
 
 
 def schemes(value):
