@@ -12,8 +12,6 @@ from __future__ import annotations
 import hashlib
 import re
 
-from tinctura.report import messages as m
-
 VERSION = "v1"  # part of the SARIF partialFingerprints key; change when the recipe changes
 _INDEX = re.compile(r"\[\d+\]")
 
@@ -25,6 +23,8 @@ def locator(sample) -> str:
 
 
 def parts(finding) -> tuple:
+    from tinctura.report import messages as m  # (the reports import this module)
+
     s = finding.sample
     fg, bg = m.finding_colours(finding)
     return (s.page, finding.rule, s.scheme, s.state, locator(s), m.colour(fg), m.colour(bg))
