@@ -251,6 +251,7 @@ def run_check(args, stdout, stderr) -> int:
         schemes=[getattr(s, "name", s) for s in result.schemes],
         rules=options.rules,
         uri=built_uri(args.paths),
+        source=markdown_source(args),
         gone=gate.gone(),
     )
     outputs.write_reports(specs, stdout, header, result.pages, store, found,
@@ -259,7 +260,7 @@ def run_check(args, stdout, stderr) -> int:
     if note:
         stderr.write(f"{PROG}: {note}\n")
     unreadable = input_errors(result, stderr)
-    if args.write_baseline:
+    if args.write_baseline:  # the same as --format baseline:FILE, and exit 0
         with outputs.atomic_output(args.write_baseline) as fh:
             fh.write(baseline_mod.dumps(written, version()))
         stderr.write(f"{PROG}: wrote {m.plural(len(written), 'finding')} to the baseline "
@@ -298,6 +299,31 @@ def make_gate(args, options) -> gated.Gate:
             raise UsageError(str(exc)) from None
     return gated.Gate(allow=args.allow, allow_source=args.config_path or "configuration",
                       baseline=base, rules_run=options.rules, read=gated.site_reader(args.paths))
+
+
+def markdown_source(args):
+    """page -> (Markdown source path, line or 0) when ``--config`` named an mkdocs.yml, else
+    None. The hook a source map (page and line -> Markdown file and line) plugs into; until
+    then the file follows MkDocs' page naming and the line is unknown (0)."""
+    if not getattr(args, "mkdocs_config", None):
+        return None
+    from mkdocs.utils.yaml import yaml_load
+
+    base = os.path.dirname(os.path.abspath(args.mkdocs_config))
+    with open(args.mkdocs_config, encoding="utf-8") as fh:
+        docs = os.path.join(base, (yaml_load(fh) or {}).get("docs_dir") or "docs")
+
+    def source(page: str, line: int):
+        stem = page[: -len("index.html")].rstrip("/") if page.endswith("index.html") \
+            else page.rsplit(".", 1)[0]
+        for candidate in (f"{stem}.md", f"{stem}/index.md", f"{stem}/README.md", "index.md"
+                          if not stem else None):
+            if candidate and os.path.isfile(os.path.join(docs, candidate)):
+                path = os.path.relpath(os.path.join(docs, candidate))
+                return (path if not path.startswith("..") else os.path.join(docs, candidate)
+                        ).replace(os.sep, "/"), 0
+        return None
+    return source
 
 
 def built_uri(paths):

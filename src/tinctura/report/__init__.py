@@ -22,12 +22,14 @@ def register(name: str, formatter) -> None:
 
 
 from .annotations import AnnotationsFormatter  # noqa: E402  (they import this package's modules)
+from .baseline_report import BaselineFormatter  # noqa: E402
 from .junit import JunitFormatter  # noqa: E402
 from .sarif import SarifFormatter  # noqa: E402
 
 register("sarif", SarifFormatter)
 register("junit", JunitFormatter)
 register("annotations", AnnotationsFormatter)
+register("baseline", BaselineFormatter)
 
 
 def render(stream, fmt: str, header: Header, pages, findings, problems, diagnostics=(),
