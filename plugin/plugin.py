@@ -219,6 +219,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             raise PluginError(
                 f"{m.plural(len(bad), 'contrast finding')} at or above fail_on: "
                 f"{self.config.fail_on} (see the log above)"
+                + (f"; {gate.note()}" if gate.note() else "")
             )
 
     # -- the maintainer's gate and reports ------------------------------------------------
