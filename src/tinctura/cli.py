@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import argparse
 import contextlib
+import functools
 import json
 import os
 import sys
@@ -331,6 +332,7 @@ def built_uri(paths):
     site lies below it; else the site-relative path."""
     roots = [p if os.path.isdir(p) else os.path.dirname(p) or "." for p in paths]
 
+    @functools.lru_cache(maxsize=4096)  # asked once per finding, the same page many times
     def uri(page: str) -> str:
         for root in roots:
             path = os.path.join(root, page)

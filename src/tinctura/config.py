@@ -278,7 +278,8 @@ SETTINGS = (
             flag="--select", metavar="RULES", parse=comma_list, many=True),
     Setting("ignore", rule_names, [], "do not run these rules (codes or slugs)",
             flag="--ignore", metavar="RULES", parse=comma_list, many=True),
-    Setting("severity", severities, {}, "severity per rule, e.g. {TC100 = \"warning\"}",
+    Setting("severity", severities, {}, "severity per rule (in a file a table such as "
+            "{TC100 = \"warning\"}; as a flag TC100=warning)",
             flag="--severity", metavar="RULE=SEVERITY", parse=severity_text, many=True),
     Setting("allow", allow_entries, [], "reviewed exceptions: tables of pages (globs), rules, "
             "selector (CSS) and a required reason"),
@@ -443,8 +444,14 @@ def add_flags(parser, command: str) -> None:
         if s.flag is None or "cli" not in s.where or command not in s.commands:
             continue
         shown = s.default if s.default not in (None, [], {}) else None
-        kw = {"dest": s.name, "default": argparse.SUPPRESS,
-              "help": s.help + (f" (default {shown})" if shown is not None else "")}
+        help_text = s.help + (f" (default {shown})" if shown is not None else "")
+        if s.name == "report":
+            from tinctura import report
+
+            help_text += f"; formats: {', '.join(report.FORMATS)}"
+        if s.many:
+            help_text += " (repeatable)"
+        kw = {"dest": s.name, "default": argparse.SUPPRESS, "help": help_text}
         if s.check is boolean:
             kw["action"] = argparse.BooleanOptionalAction
         else:
