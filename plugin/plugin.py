@@ -76,6 +76,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             viewport_width=self.config.viewport_width,
             states=self.config.states,
             schemes=self.config.schemes,
+            behaviours=tuple(self.config.behaviours or ()),
+            theme_behaviours=self.config.theme_behaviours,
             keep_samples=False,  # a build log needs counts, findings and declaration uses
             rules=chosen,
             severity=tuple(sorted(self.config.severity.items())),
@@ -93,6 +95,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.config_dir = os.path.dirname(os.path.abspath(config.config_file_path or "."))
         self.docs_dir = config.docs_dir
         options = self.engine_options()
+        options.site_url = config.site_url or ""  # absolute links below its path
         if config.site_dir != self.site_dir or options != self.options:
             self.site = None
             self.records.clear()

@@ -19,7 +19,8 @@ def test_defaults():
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
                                    "schemes": None, "jobs": None, "select": [], "ignore": [],
-                                   "severity": {}, "allow": [], "baseline": None, "report": []}
+                                   "severity": {}, "allow": [], "baseline": None, "report": [],
+                                   "behaviours": (), "theme_behaviours": True}
 
 
 @pytest.mark.parametrize("option, value, needle", [

@@ -157,6 +157,9 @@ def options_from(args) -> engine.Options:
         exclude=tuple(args.exclude),
         jobs=args.jobs or os.cpu_count() or 1,
         schemes=args.schemes,
+        site_url=args.site_url or "",
+        behaviours=tuple(args.behaviours or ()),
+        theme_behaviours=args.theme_behaviours,
         rules=chosen,
         severity=tuple(sorted(getattr(args, "severity", {}).items())),
     )

@@ -190,6 +190,14 @@ def schemes(value):
     return from_setting(value)
 
 
+def behaviours(value):
+    if value is None or value == ():
+        return ()
+    from tinctura.extract.behaviours import from_setting
+
+    return from_setting(value)
+
+
 # -- command-line text -> a value the check accepts -------------------------------------------
 
 
@@ -272,6 +280,15 @@ SETTINGS = (
             flag="--schemes", metavar="FILE", parse=json_file, commands=("check", "pairs")),
     Setting("jobs", optional(whole(1)), None, "processes checking pages (default: the cores)",
             flag="--jobs", metavar="N", parse=int_text, commands=("check", "pairs")),
+    Setting("behaviours", behaviours, (), "what the site's own scripts change before a reader "
+            "sees a page: a list of {action, selector, value[, marker, script]} (the command "
+            "line: a JSON file of that list)", flag="--behaviours", metavar="FILE",
+            parse=json_file, commands=("check", "pairs")),
+    Setting("theme_behaviours", boolean, True, "apply the themes' script behaviours",
+            where=frozenset({"file", "plugin"})),
+    Setting("site_url", lambda v: "" if v in (None, "") else text(v), "", "the site's public URL (mkdocs.yml site_url; the "
+            "plugin reads it there): absolute links under its path resolve inside the site",
+            flag="--site-url", metavar="URL", where=FILE_AND_CLI, commands=("check", "pairs")),
     Setting("log_every", boolean, False, "one log line per occurrence, not per problem",
             where=frozenset({"plugin"})),
     Setting("select", rule_names, [], "run only these rules (codes or slugs; default: all)",
@@ -426,6 +443,7 @@ def read_mkdocs(path: str) -> Loaded:
     options.pop("enabled", None)  # MkDocs' own
     values = check_table(options, "plugin", f"{path}: plugins.tinctura", base)
     values["site_dir"] = rebase_path(data.get("site_dir") or "site", base)
+    values["site_url"] = data.get("site_url") or ""
     return Loaded(values, path, mkdocs_config=path)
 
 
@@ -474,12 +492,16 @@ def add_flags(parser, command: str) -> None:
 def _flag_type(s: Setting) -> Callable:
     import argparse
 
-    def convert(value: str):
+    def convert(text: str):
         try:
-            value = s.parse(value) if s.parse else value
-            return value if s.many else s.check(value)
+            value = s.parse(text) if s.parse else text
         except ValueError as exc:
             raise argparse.ArgumentTypeError(str(exc)) from None
+        try:
+            return value if s.many else s.check(value)
+        except ValueError as exc:  # a file's content: name the file
+            where = f"{text}: " if s.parse is json_file else ""
+            raise argparse.ArgumentTypeError(f"{where}{exc}") from None
     convert.__name__ = s.name  # argparse names the type in some messages
     return convert
 
@@ -488,7 +510,7 @@ def apply(args, command: str) -> Loaded:
     """Settings for ``command``: defaults, then the configuration file, then the flags given;
     set as attributes of ``args``. Returns what was read from the file."""
     loaded = Loaded() if getattr(args, "no_config", False) else load(getattr(args, "config", None))
-    values = defaults("cli")
+    values = {**defaults("file"), **defaults("cli")}  # file-only ones reach the engine too
     values.update({k: v for k, v in loaded.values.items() if k in values})
     for s in SETTINGS:
         if s.flag is None or not hasattr(args, s.name) or command not in s.commands:
