@@ -168,3 +168,26 @@ def test_severity_override_changes_the_exit_status(site, tmp_path):
 def test_ignoring_every_rule_is_a_usage_error(site):
     status, _, err = call("check", site, "--ignore", "TC100")
     assert status == 2 and "leave no rule to run" in err
+
+
+def test_pre_commit_hook_checks_the_configured_site_without_building():
+    import pathlib
+
+    import yaml
+
+    hooks = yaml.safe_load((pathlib.Path(__file__).resolve().parents[2] /
+                            ".pre-commit-hooks.yaml").read_text())
+    assert [(h["id"], h["entry"], h["pass_filenames"]) for h in hooks] == [
+        ("tinctura", "tinctura check", False)]
+
+
+def test_without_a_site_or_configuration_the_message_says_what_to_do(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    status, out, err = call("check")
+    assert status == 2 and out == "" and "set site_dir in the configuration" in err
+
+
+def test_pairs_reads_the_configuration_too(site, tmp_path):
+    write_pyproject(tmp_path, 'exclude = ["tuning/*"]\n')
+    status, out, _ = call("pairs", site, "--jobs", 1)
+    assert status == 0 and {json.loads(line)["page"] for line in out.splitlines()} == {"index.html"}

@@ -3,10 +3,12 @@ import json
 import subprocess
 import sys
 
+import jsonschema
 import pytest
 
 from tinctura import suppress
 from tinctura.extract.html import parse_html
+from tinctura.report.json_report import schema as report_schema
 
 from conftest import CASTING, call, page
 
@@ -29,6 +31,7 @@ def test_comment_silences_exactly_the_next_element(site):
                       "Polish the crown last.": None,
                       "Strike note within two cents.": None}
     assert doc["summary"]["findings"] == 2  # the suppressed one does not count
+    jsonschema.Draft202012Validator(report_schema()).validate(doc)
     grouped = [doc["findings"][i] for p in doc["problems"] for i in p["findings"]]
     assert sorted(f["text"] for f in grouped) == ["Polish the crown last.",
                                                   "Strike note within two cents."]
