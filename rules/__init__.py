@@ -7,7 +7,8 @@ from __future__ import annotations
 from . import text
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
-__all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected", "selection", "with_severity", "run"]
+__all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected",
+           "selection", "with_severity", "run"]
 
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {

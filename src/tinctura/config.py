@@ -82,6 +82,11 @@ def text(value):
     return value
 
 
+def optional_text(value):
+    """A string that may be empty (None: empty)."""
+    return "" if value in (None, "") else text(value)
+
+
 def strings(value):
     if not isinstance(value, (list, tuple)) or not all(isinstance(v, str) for v in value):
         raise ValueError(f"expected a list of strings, got {_type_name(value)} {value!r}")
@@ -286,7 +291,7 @@ SETTINGS = (
             parse=json_file, commands=("check", "pairs")),
     Setting("theme_behaviours", boolean, True, "apply the themes' script behaviours",
             where=frozenset({"file", "plugin"})),
-    Setting("site_url", lambda v: "" if v in (None, "") else text(v), "", "the site's public URL (mkdocs.yml site_url; the "
+    Setting("site_url", optional_text, "", "the site's public URL (mkdocs.yml site_url; the "
             "plugin reads it there): absolute links under its path resolve inside the site",
             flag="--site-url", metavar="URL", where=FILE_AND_CLI, commands=("check", "pairs")),
     Setting("log_every", boolean, False, "one log line per occurrence, not per problem",

@@ -14,7 +14,9 @@ from .base import findings_by_page
 
 
 def active(finding) -> bool:
-    return not getattr(finding, "suppressed", "") and getattr(finding, "baseline", "") != "unchanged"
+    """True when a finding counts: not suppressed, not already in the baseline."""
+    return not getattr(finding, "suppressed", "") and \
+        getattr(finding, "baseline", "") != "unchanged"
 
 
 def count(findings) -> dict:
