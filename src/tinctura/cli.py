@@ -193,14 +193,11 @@ def check_inputs(paths) -> None:
 
 @contextlib.contextmanager
 def output(path: str | None, stdout):
+    """``stdout``, or ``path`` written atomically (a temporary file renamed at the end)."""
     if not path:
         yield stdout
         return
-    try:
-        stream = open(path, "w", encoding="utf-8")
-    except OSError as e:
-        raise UsageError(f"{path}: cannot write: {e.strerror or e}") from None
-    with stream:
+    with outputs.atomic_output(path) as stream:  # names the path when it cannot write
         yield stream
 
 

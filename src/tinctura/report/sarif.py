@@ -139,7 +139,8 @@ class SarifFormatter(Formatter):
     def stop(self, summary) -> None:
         for entry in self.header.gone or ():
             self._write(self.gone_result(entry))
-        invocations = [{"executionSuccessful": True,
+        failed = any(n["level"] == "error" for n in self.notifications)  # unreadable input
+        invocations = [{"executionSuccessful": not failed,
                         "toolExecutionNotifications": self.notifications}]
         properties = {"disclaimer": DISCLAIMER, "schemes": list(summary.schemes),
                       "level": self.header.level}
