@@ -260,6 +260,14 @@ def run_check(args, stdout, stderr) -> int:
     note = gate.note()
     if note:
         stderr.write(f"{PROG}: {note}\n")
+    gone = header.gone
+    for entry in gone[:GONE_SHOWN]:  # fixed since the baseline: worth removing from it
+        stderr.write(f"{PROG}: gone from the baseline: {entry.get('page')} {entry.get('rule')} "
+                     f"[{entry.get('scheme')}, {entry.get('state')}] "
+                     f"\u201c{m.excerpt(entry.get('text', ''), 60)}\u201d\n")
+    if len(gone) > GONE_SHOWN:
+        stderr.write(f"{PROG}: ... and {len(gone) - GONE_SHOWN:,} more gone (SARIF lists them "
+                     f"all as absent)\n")
     unreadable = input_errors(result, stderr)
     if args.write_baseline:  # the same as --format baseline:FILE, and exit 0
         with outputs.atomic_output(args.write_baseline) as fh:
@@ -268,6 +276,9 @@ def run_check(args, stdout, stderr) -> int:
                      f"{args.write_baseline}\n")
         return exit_status(error=unreadable)
     return exit_status(gate, args.fail_on, error=unreadable)
+
+
+GONE_SHOWN = 20  # baseline entries no longer found, named on stderr
 
 
 def report_specs(args) -> list:

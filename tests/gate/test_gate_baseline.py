@@ -54,6 +54,8 @@ def test_baseline_gates_only_new_findings(site, tmp_path):
     site.write("tuning/index.html", TUNING.replace('class="faint"', ""))
     status, _, err = call("check", site, "--baseline", baseline, "--jobs", 1)
     assert status == 1 and "1 new, 1 unchanged (not failing), 1 gone" in err
+    assert "gone from the baseline: tuning/index.html TC100 [light, rest] " \
+           "\u201cStrike note within two cents.\u201d" in err
 
 
 def test_baseline_from_the_configuration(site, tmp_path):

@@ -130,3 +130,10 @@ def test_markdown_comment_and_attribute_list_in_an_mkdocs_build(tmp_path):
     located = {r["locations"][0]["physicalLocation"]["artifactLocation"]["uri"]
                for r in sarif["runs"][0]["results"]}
     assert "docs/index.md" in located  # the plugin knows the Markdown source
+
+
+def test_a_directive_with_no_element_after_it_is_reported(site):
+    site.write("index.html", CASTING + COMMENT)
+    _, doc, _ = report(site)
+    assert any("no element follows it" in d["message"] for d in doc["diagnostics"])
+    assert all(f["suppressed"] is None for f in doc["findings"])
