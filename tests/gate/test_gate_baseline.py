@@ -1,7 +1,7 @@
 """Fingerprints survive edits elsewhere; a baseline fails only on new findings."""
 import json
 
-from conftest import CASTING, TUNING, call
+from gate_helpers import CASTING, TUNING, call, site  # noqa: F401  (site: a fixture)
 
 
 def fingerprints(site, *extra):

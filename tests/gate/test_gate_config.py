@@ -6,7 +6,7 @@ import pytest
 from tinctura import config, rules
 from tinctura.plugin import TincturaPlugin
 
-from conftest import call
+from gate_helpers import call, site  # noqa: F401  (site: a fixture)
 
 
 def write_pyproject(folder, body: str):

@@ -10,7 +10,7 @@ from tinctura import suppress
 from tinctura.extract.html import parse_html
 from tinctura.report.json_report import schema as report_schema
 
-from conftest import CASTING, call, page
+from gate_helpers import CASTING, call, page, site  # noqa: F401  (site: a fixture)
 
 COMMENT = '<!-- tinctura: allow TC100 reason="the cooling note repeats the printed tag" -->\n'
 

@@ -1,4 +1,7 @@
-"""A tiny built site of the invented Kestrow bell foundry's handbook, and the CLI runner."""
+"""A tiny built site of the invented Kestrow bell foundry's handbook, and the CLI runner.
+
+Imported by the tests, fixture included: a conftest.py in this folder would shadow the other
+folders' conftest modules that tests import by name."""
 import io
 
 import pytest
