@@ -224,6 +224,7 @@ def run_check(args, stdout, stderr) -> int:
     options.keep_samples = False  # the report needs counts, findings and declaration uses
     specs = report_specs(args)
     gate = make_gate(args, options)
+    bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings. Every finding is stored (JSON and SARIF list the
     # suppressed and baseline-known ones, marked); only those that count are grouped.
@@ -239,12 +240,14 @@ def run_check(args, stdout, stderr) -> int:
                 collector.add(f, index=start + n)
         if args.write_baseline:
             written.extend(f for f in findings if not f.suppressed)
+        bar.advance()
 
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
     result.diagnostics.extend(gate.finish())
     result.findings = store
     found = collector.problems(result.uses)
     header = report.Header(
+        scope=report.scope_of(args.paths, options),
         version=version(),
         level=args.level,
         group=args.group,
