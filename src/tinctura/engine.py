@@ -44,6 +44,7 @@ class Options:
     exclude: tuple = ()  # glob patterns on page paths
     jobs: int = 1
     rules: tuple = ()  # rule codes or slugs to run; empty: all
+    severity: tuple = ()  # (code, severity) overrides, applied by rules.run
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
     # site-level appearance rules (TC300, TC310): palette.palette_setting(name -> colour or
