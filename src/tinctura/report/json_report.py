@@ -7,6 +7,7 @@ from __future__ import annotations
 import json
 import os
 
+from . import appearance
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
@@ -64,6 +65,13 @@ def fix_dict(fix) -> dict:
 
 
 def finding_dict(f) -> dict:
+    out = _finding_dict(f)
+    if appearance.is_appearance(f):  # site-level rules: the palette entries and contexts
+        out["appearance"] = appearance.appearance_dict(f)
+    return out
+
+
+def _finding_dict(f) -> dict:
     s = f.sample
     fg, bg = m.finding_colours(f)
     return {
