@@ -21,6 +21,7 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 
 from . import problems as problems_mod
+from . import situations
 from .colour import wcag
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
@@ -168,6 +169,52 @@ def evaluate(samples, options: Options) -> list:
     return rules.run(samples, options)
 
 
+# Verdicts by situation (``situations.sample_key``) per rule selection: a site repeats a few
+# hundred colour situations thousands of times (every navigation link in every state on every
+# page); each is judged once, and each further occurrence only gets a Finding that points at
+# the shared verdict. Bounded; rules are pure, so this only saves time.
+_JUDGED: dict = {}
+JUDGED_LIMIT = 50000
+
+
+def judge(samples, options: Options) -> list:
+    """``evaluate``, with each distinct situation judged once per process."""
+    judge_gradients(samples, options.level)
+    memo = _JUDGED.setdefault(verdict_key(options), {})
+    keys, todo = [], {}
+    for s in samples:
+        k = situations.sample_key(s)
+        keys.append(k)
+        if k not in memo and k not in todo:
+            todo[k] = s
+    if todo:
+        if len(memo) + len(todo) > JUDGED_LIMIT:
+            memo.clear()
+        from . import rules
+
+        found: dict = {}
+        for f in rules.run(list(todo.values()), options):
+            found.setdefault(id(f.sample), []).append(f)
+        for k, s in todo.items():
+            memo[k] = tuple(found.get(id(s), ()))
+    out = []
+    for s, k in zip(samples, keys):
+        templates = memo.get(k)
+        if templates is None:  # cleared meanwhile: judge it alone
+            from . import rules
+
+            templates = tuple(rules.run([s], options))
+        for t in templates:
+            out.append(t if t.sample is s else situations.occurrence(t, s))
+    return out
+
+
+def verdict_key(options: Options) -> str:
+    """What a verdict may depend on: every option but those that only say how to run."""
+    return repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
+                                    exclude=()))
+
+
 def judge_gradients(samples, level: str) -> None:
     """Text with several possible backgrounds (gradient stops, an outlining text shadow) is
     judged only when all of them agree; otherwise it is undetermined."""
@@ -238,7 +285,7 @@ def _process(site, rel, options, judged, html=None):
     page = site.check_page(rel, html=html)
     if not judged:
         return page
-    findings = evaluate(page.samples, options)
+    findings = judge(page.samples, options)
     uses = problems_mod.declaration_uses(page.samples)
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
@@ -258,7 +305,7 @@ def _judge_replays(page, findings, uses, options) -> None:
     """Add what the replayed fragments contribute: their findings, re-stamped for this page,
     their declaration uses and their counts. Each fragment is judged once per site."""
     tally = {}  # verdict id -> [verdict, occurrences]
-    key = (options.level, tuple(options.rules))
+    key = verdict_key(options)
     for fragment, stamp in page.replays:
         verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
         for rel, old_base, finding in verdict.findings:
@@ -310,12 +357,12 @@ def _canonical(key, value):
 
 
 def _verdict(fragment, options) -> _Verdict:
-    key = (options.level, tuple(options.rules))
+    key = verdict_key(options)
     verdict = fragment.verdicts.get(key)
     if verdict is not None:
         return verdict
     samples = fragment.samples()
-    found = [("", fragment.base, f) for f in evaluate(samples, options)]
+    found = [("", fragment.base, f) for f in judge(samples, options)]
     uses = problems_mod.declaration_uses(samples)
     stats = sample_stats(samples)
     for rel, nested in fragment.nested():
