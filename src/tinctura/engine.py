@@ -43,6 +43,9 @@ class Options:
     rules: tuple = ()  # rule codes or slugs to run; empty: all
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
+    # share computed styles between elements and pages, and verdicts between equal colour
+    # situations (off: every element's cascade and every sample judged afresh; for tests)
+    share: bool = True
 
 
 @dataclass
@@ -132,8 +135,9 @@ class Site:
                                         cache, self.options.viewport_width, result.skipped,
                                         keep_layers=self.options.keep_samples,
                                         lazy=not self.options.keep_samples,
-                                        fingerprints=fingerprints, replay=self.options.replay,
-                                        structure=structure)
+                                        fingerprints=fingerprints,
+                                        replay=self.options.replay and self.options.share,
+                                        structure=structure, share=self.options.share)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                 finally:
@@ -212,7 +216,7 @@ def judge(samples, options: Options) -> list:
 def verdict_key(options: Options) -> str:
     """What a verdict may depend on: every option but those that only say how to run."""
     return repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
-                                    exclude=()))
+                                    exclude=(), share=True))
 
 
 def judge_gradients(samples, level: str) -> None:
@@ -285,7 +289,7 @@ def _process(site, rel, options, judged, html=None):
     page = site.check_page(rel, html=html)
     if not judged:
         return page
-    findings = judge(page.samples, options)
+    findings = (judge if options.share else evaluate)(page.samples, options)
     uses = problems_mod.declaration_uses(page.samples)
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
