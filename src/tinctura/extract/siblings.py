@@ -174,7 +174,9 @@ class SiblingIndex:
 
     def __init__(self, rules):
         self.any = False  # every element FULL
-        self.own = _Buckets()
+        self.own = _Buckets()  # by what the element itself must be
+        self.by_parent = _Buckets()  # universal compounds (`P > :first-child`), by the parent
+        self.free = []  # universal compounds without a parent requirement
         self._memo = {}
         for rule in rules:
             text = rule.selector_text
@@ -185,39 +187,40 @@ class SiblingIndex:
                 self.any = True
                 return
             for c in found:
-                self.own.add(c, c)
+                if not c.universal:
+                    self.own.add(c, c)
+                elif c.parent is not None:
+                    self.by_parent.add(c.parent, c)
+                else:
+                    self.free.append(c)
 
     def needs_children(self, parent, children) -> list | None:
         """For each child of ``parent``, what of its siblings selectors read (0: nothing);
         None when no child needs anything."""
         if self.any:
             return [FULL] * len(children)
-        candidates = [self._candidates(el) for el in children]
-        if not any(candidates):
-            return None
         context = _Ancestry(parent)
-        out = [0] * len(children)
-        for i, found in enumerate(candidates):
+        every = self._every_child(parent, context)
+        candidates = [self._candidates(el) for el in children]
+        if not every and not any(candidates):
+            return None
+        out = []
+        for found in candidates:
+            need = every
             for c in found:
-                if (out[i] & c.needs) != c.needs and context.satisfies(c):
-                    out[i] |= c.needs
+                if (need & c.needs) != c.needs and context.satisfies(c):
+                    need |= c.needs
+            out.append(need)
         return out if any(out) else None
 
-    def needs(self, el, parent) -> int:
-        """What of its siblings selectors read of ``el`` (``parent``: None at the root)."""
-        if self.any:
-            return FULL
-        if parent is None:
-            return 0
-        found = self._candidates(el)
-        if not found:
-            return 0
-        context = _Ancestry(parent)
-        needs = 0
-        for c in found:
-            if context.satisfies(c):
-                needs |= c.needs
-        return needs
+    def _every_child(self, parent, context) -> int:
+        """What universal compounds read of every child of ``parent``."""
+        need = 0
+        tag, classes, ident = _facts(parent)
+        for c in [*self.by_parent.matches(tag, classes, ident), *self.free]:
+            if (need & c.needs) != c.needs and context.satisfies(c):
+                need |= c.needs
+        return need
 
     def _candidates(self, el) -> tuple:
         """The sibling-reading compounds ``el`` itself could match (tag, classes, id)."""
