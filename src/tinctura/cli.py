@@ -228,8 +228,7 @@ def run_check(args, stdout, stderr) -> int:
     store, collector = FindingStore(), problems.Collector()
 
     def keep(page, findings):
-        for f, situation in zip(findings, store.add(page.page, findings)):
-            collector.add(f, situation)
+        collector.add_records(page.page, store.add(page.page, findings), store.situations)
 
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
     result.findings = store

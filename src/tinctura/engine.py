@@ -183,6 +183,11 @@ JUDGED_LIMIT = 50000
 
 def judge(samples, options: Options) -> list:
     """``evaluate``, with each distinct situation judged once per process."""
+    return _judge(samples, options)[0]
+
+
+def _judge(samples, options: Options) -> tuple:
+    """(findings, their ``situations.finding_key``s)."""
     judge_gradients(samples, options.level)
     memo = _JUDGED.setdefault(verdict_key(options), {})
     keys, todo = [], {}
@@ -201,7 +206,7 @@ def judge(samples, options: Options) -> list:
             found.setdefault(id(f.sample), []).append(f)
         for k, s in todo.items():
             memo[k] = tuple(found.get(id(s), ()))
-    out = []
+    out, out_keys = [], []
     for s, k in zip(samples, keys):
         templates = memo.get(k)
         if templates is None:  # cleared meanwhile: judge it alone
@@ -210,7 +215,8 @@ def judge(samples, options: Options) -> list:
             templates = tuple(rules.run([s], options))
         for t in templates:
             out.append(t if t.sample is s else situations.occurrence(t, s))
-    return out
+            out_keys.append((t.rule, k))
+    return out, out_keys
 
 
 def verdict_key(options: Options) -> str:
@@ -289,32 +295,40 @@ def _process(site, rel, options, judged, html=None):
     page = site.check_page(rel, html=html)
     if not judged:
         return page
-    findings = (judge if options.share else evaluate)(page.samples, options)
+    if options.share:
+        findings, keys = _judge(page.samples, options)
+    else:
+        findings, keys = evaluate(page.samples, options), None
     uses = problems_mod.declaration_uses(page.samples)
+    more = []
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
-        _judge_replays(page, findings, uses, options)
+        more = _judge_replays(page, uses, options)
         page.samples = []  # (their layer lists were not built: reports name the causes)
     page.replays = []
-    findings.sort(key=_finding_order)
-    return page, findings, uses
+    # findings as situations and places: replayed ones are never built, and a worker sends
+    # each situation once
+    return page, situations.PageFindings.build(page.page, findings, keys, more,
+                                               _finding_order), uses
 
 
-def _finding_order(f) -> tuple:
-    s = f.sample
-    return (s.line, s.xpath, s.scheme, s.state, f.rule)
+def _finding_order(template, where) -> tuple:
+    """Report order within a page: line, XPath, scheme, state, rule."""
+    s = template.sample
+    return (where[2], where[1], s.scheme, s.state, template.rule)
 
 
-def _judge_replays(page, findings, uses, options) -> None:
-    """Add what the replayed fragments contribute: their findings, re-stamped for this page,
-    their declaration uses and their counts. Each fragment is judged once per site."""
+def _judge_replays(page, uses, options) -> list:
+    """What the replayed fragments contribute: their findings as ``(template, key, place)``
+    for this page (returned), their declaration uses and their counts (added to ``uses`` and
+    the page's stats). Each fragment is judged once per site."""
+    found = []
     tally = {}  # verdict id -> [verdict, occurrences]
     key = verdict_key(options)
     for fragment, stamp in page.replays:
         verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
-        for rel, old_base, finding in verdict.findings:
-            findings.append(dataclasses.replace(
-                finding, sample=stamp.within(rel).sample(finding.sample, old_base)))
+        for rel, old_base, finding, fkey in verdict.findings:
+            found.append((finding, fkey, stamp.within(rel).place(finding.sample, old_base)))
         entry = tally.get(id(verdict))
         if entry is None:
             tally[id(verdict)] = [verdict, 1]
@@ -326,10 +340,12 @@ def _judge_replays(page, findings, uses, options) -> None:
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
+    return found
 
 
 class _Verdict:
-    """A fragment judged once: findings as (relative XPath, base, finding), declaration uses
+    """A fragment judged once: findings as (relative XPath, base, finding, its situation key),
+    declaration uses
     (with a hashable form, so that equal ones merge once) and counts. Equal uses and counts
     are one shared object: a large navigation has thousands of fragments and few distinct
     verdicts."""
@@ -366,12 +382,12 @@ def _verdict(fragment, options) -> _Verdict:
     if verdict is not None:
         return verdict
     samples = fragment.samples()
-    found = [("", fragment.base, f) for f in judge(samples, options)]
+    found = [("", fragment.base, f, k) for f, k in zip(*_judge(samples, options))]
     uses = problems_mod.declaration_uses(samples)
     stats = sample_stats(samples)
     for rel, nested in fragment.nested():
         inner = _verdict(nested, options)
-        found.extend((rel + deeper, base, f) for deeper, base, f in inner.findings)
+        found.extend((rel + deeper, base, f, k) for deeper, base, f, k in inner.findings)
         problems_mod.merge_uses(uses, inner.uses)
         _add_stats(stats, inner.stats)
     verdict = fragment.verdicts[key] = _Verdict(found, uses, stats)

@@ -183,7 +183,7 @@ class Collector:
             p = self._buckets[key]
             p.count += 1
             p.indexes.append(index)
-            self._note_page(key, p, finding)
+            self._note_page(key, p, finding.sample.page, lambda: finding)
             return
         key = problem_key(finding)
         if situation is not None:
@@ -207,17 +207,35 @@ class Collector:
             p.worst_finding = finding
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
-        self._note_page(key, p, finding)
+        self._note_page(key, p, finding.sample.page, lambda: finding)
         _add_backgrounds(p.backgrounds, finding.sample)
 
-    def _note_page(self, key, p, finding) -> None:
-        pages, page = self._pages[key], finding.sample.page
+    def add_records(self, page: str, records, templates) -> None:
+        """``add`` for ``FindingStore.add``'s records of ``page`` (``templates``: the store's
+        situations): a finding is built only where one is kept (the first of a situation, an
+        example candidate)."""
+        from tinctura.situations import rebuild
+
+        known, buckets = self._situations, self._buckets
+        for r in records:
+            key = known.get(r[0])
+            if key is None:
+                self.add(rebuild(templates[r[0]], r[1:], page), r[0])
+                continue
+            p = buckets[key]
+            p.count += 1
+            p.indexes.append(self._count)
+            self._count += 1
+            self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
+
+    def _note_page(self, key, p, page, finding) -> None:
+        pages = self._pages[key]
         new_page = page not in pages
         if new_page:
             pages.add(page)
         # examples take the first finding of each of the first pages, then the earliest ones
         if (new_page and len(pages) <= self.EXAMPLES) or self._seen[key] < 2 * self.EXAMPLES:
-            p.candidates.append(finding)
+            p.candidates.append(finding())
         self._seen[key] += 1
 
     def problems(self, uses: dict) -> list:

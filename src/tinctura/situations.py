@@ -71,3 +71,68 @@ def occurrence(template: Finding, sample: Sample) -> Finding:
     t = template
     return Finding(t.rule, t.slug, t.severity, sample, t.ratio, t.required, t.level, t.fixes,
                    t.args)
+
+
+class PageFindings:
+    """One page's findings as situations and places: ``templates`` (a finding per situation),
+    their ``keys`` (``finding_key``) and ``records`` ``(template index, xpath, line, text,
+    inherited_from[, layer xpaths])`` in report order. A read-only sequence of ``Finding``
+    (rebuilt on first use); pickled without them, so a worker sends each situation once."""
+
+    __slots__ = ("page", "templates", "keys", "records", "_items")
+
+    def __init__(self, page: str, templates: list, keys: list, records: list):
+        self.page = page
+        self.templates = templates
+        self.keys = keys
+        self.records = records
+        self._items = None
+
+    @classmethod
+    def build(cls, page: str, findings, keys=None, more=(), order=None) -> "PageFindings":
+        """From findings (with their ``finding_key``s when known) and ``more``:
+        ``(template, key, place)`` of findings that were never built. ``order``: sort key of
+        ``(template, place)``."""
+        templates, tkeys, index, records = [], [], {}, []
+
+        def number(key, template) -> int:
+            n = index.get(key)
+            if n is None:
+                n = index[key] = len(templates)
+                templates.append(template)
+                tkeys.append(key)
+            return n
+
+        if keys is None:
+            keys = [finding_key(f) for f in findings]
+        for f, key in zip(findings, keys):
+            records.append((number(key, f),) + place(f))
+        for template, key, where in more:
+            records.append((number(key, template),) + where)
+        if order is not None:
+            records.sort(key=lambda r: order(templates[r[0]], r))
+        return cls(page, templates, tkeys, records)
+
+    def _list(self) -> list:
+        if self._items is None:
+            t, page = self.templates, self.page
+            self._items = [rebuild(t[r[0]], r[1:], page) for r in self.records]
+        return self._items
+
+    def __len__(self) -> int:
+        return len(self.records)
+
+    def __bool__(self) -> bool:
+        return bool(self.records)
+
+    def __iter__(self):
+        return iter(self._list())
+
+    def __getitem__(self, i):
+        return self._list()[i]
+
+    def __eq__(self, other) -> bool:
+        return list(self) == list(other)
+
+    def __reduce__(self):
+        return (PageFindings, (self.page, self.templates, self.keys, self.records))

@@ -192,6 +192,23 @@ class Stamp:
             line = self._lines[rel] = resolve(self.anchor, rel).sourceline or 0
         return line
 
+    def place(self, sample: Sample, old_base: str) -> tuple:
+        """Where ``sample``, recorded around ``old_base``, stands here: the record
+        ``situations.place`` makes of a finding (XPath, line, text, inherited-from XPath and,
+        when there are background layers, theirs)."""
+        new_base = self.new_base
+        rel = sample.xpath[len(old_base):]
+        fg_cause = sample.fg_cause
+        inherited = fg_cause.inherited_from if fg_cause is not None else None
+        if inherited:
+            inherited = rebase(inherited, old_base, new_base)
+        where = (new_base + rel, self.line(rel.split("::")[0]) if sample.line else 0,
+                 sample.text, inherited)
+        if sample.bg_layers:
+            return where + (tuple(rebase(layer.xpath, old_base, new_base)
+                                  for layer in sample.bg_layers),)
+        return where
+
     def sample(self, sample: Sample, old_base: str) -> Sample:
         new_base = self.new_base
         rel = sample.xpath[len(old_base):]

@@ -51,42 +51,60 @@ class FindingStore:
             store.add(page, items)
         return store
 
-    def situation_of(self, finding) -> tuple:
-        """(situation number, whether it is new) of ``finding``."""
-        key = sit.finding_key(finding)
+    def situation(self, key, template) -> int:
+        """The number of the situation ``key`` (``situations.finding_key``), first seen as
+        ``template``."""
         sid = self._ids.get(key)
-        if sid is not None:
-            return sid, False
-        sid = self._ids[key] = len(self.situations)
-        self.situations.append(finding)
-        self.occurrence_counts.append(0)
-        return sid, True
+        if sid is None:
+            sid = self._ids[key] = len(self.situations)
+            self.situations.append(template)
+            self.occurrence_counts.append(0)
+        return sid
 
-    def add(self, page: str, findings: list) -> list:
-        """Keep ``page``'s findings; returns their situation numbers, in order."""
+    def add(self, page: str, findings) -> list:
+        """Keep ``page``'s findings (a list, or ``situations.PageFindings``); returns their
+        records ``(situation number, xpath, line, text, inherited_from[, layers])``, in order."""
         if not findings:
             return []
-        sids, records = [], []
-        per_situation: Counter = Counter()
-        for f in findings:
-            sid, _new = self.situation_of(f)
-            sids.append(sid)
-            records.append((sid,) + sit.place(f))
-            per_situation[sid] += 1
+        if isinstance(findings, sit.PageFindings):
+            local = [self.situation(k, t) for k, t in zip(findings.keys, findings.templates)]
+            records = [(local[r[0]],) + r[1:] for r in findings.records]
+        else:
+            records = [(self.situation(sit.finding_key(f), f),) + sit.place(f) for f in findings]
+        self._write(page, records)
+        return records
+
+    def _write(self, page: str, records: list) -> None:
         data = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
         self._file.seek(0, 2)
         self._where.setdefault(page, []).append((self._file.tell(), len(data)))
         self._file.write(data)
-        self._size += len(findings)
+        self._count(page, records, 1)
+
+    def _count(self, page: str, records: list, sign: int) -> None:
+        per_situation = Counter(r[0] for r in records)
         counts = self.counts
         for sid, n in per_situation.items():
             t = self.situations[sid]
-            self.occurrence_counts[sid] += n
-            counts["severity"][t.severity] += n
-            counts["rule"][t.rule] += n
-            counts["scheme"][t.sample.scheme] += n
-        counts["page"][page] += len(findings)
-        return sids
+            self.occurrence_counts[sid] += sign * n
+            counts["severity"][t.severity] += sign * n
+            counts["rule"][t.rule] += sign * n
+            counts["scheme"][t.sample.scheme] += sign * n
+        counts["page"][page] += sign * len(records)
+        self._size += sign * len(records)
+        for counter in counts.values():  # a page checked again may have lost its findings
+            for name in [k for k, v in counter.items() if v <= 0]:
+                del counter[name]
+
+    def replace(self, page: str, findings) -> list:
+        """``add`` for a page checked again (``mkdocs serve``): its earlier findings go."""
+        self.discard(page)
+        return self.add(page, findings)
+
+    def discard(self, page: str) -> None:
+        if page in self._where:
+            self._count(page, self.occurrences(page), -1)
+            del self._where[page]
 
     def occurrences(self, page: str) -> list:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
