@@ -17,7 +17,8 @@ from tinctura import engine, problems
 from tinctura.report import messages as m
 from tinctura.report.base import Header
 from tinctura.report.notice import DISCLAIMER
-from tinctura.report.status import failing
+from tinctura.report.status import at_or_above
+from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
 from tinctura.report.text_report import cause_fix_lines, headline, summary_line
 
@@ -34,7 +35,7 @@ class PageRecord:
     def __init__(self, digest, result, findings, uses):
         self.digest = digest
         self.result = result  # PageResult with samples reduced to counts (memory stays flat)
-        self.findings = findings
+        self.findings = findings  # None: they are in the plugin's FindingStore, on disk
         self.uses = uses  # declaration -> backgrounds, for fixes at the cause
 
 
@@ -49,6 +50,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.site_dir = None
         self.options = None
         self.records: dict = {}  # output path (site-relative) -> PageRecord
+        self.store = FindingStore()  # every page's findings, on disk (memory stays flat)
         self.current: dict = {}  # output path -> source path, for the pages of this build
         self.stale: set = set()  # pages whose record predates a stylesheet change
         self.sheets_checked = False
@@ -83,6 +85,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if config.site_dir != self.site_dir or options != self.options:
             self.site = None
             self.records.clear()
+            self.store.close()
+            self.store = FindingStore()
             self.stale.clear()
         self.site_dir = config.site_dir
         self.options = options
@@ -96,6 +100,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         }
         for gone in set(self.records) - set(self.current):
             del self.records[gone]
+            self.store.discard(gone)
         return files
 
     def excluded(self, src_uri: str) -> bool:
@@ -122,7 +127,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
 
     def keep(self, rel: str, key: str | None, judged) -> None:
         result, findings, uses = judged
-        self.records[rel] = PageRecord(key, result, findings, uses)
+        self.store.replace(rel, findings)
+        self.records[rel] = PageRecord(key, result, None, uses)
         self.stale.discard(rel)
 
     def submit(self, rel: str, html: str, key: str) -> None:
@@ -174,26 +180,30 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             if os.path.isfile(os.path.join(self.site_dir, rel)):
                 self.check(rel, None, None)
         self.stale.clear()
-        records = [self.records[rel] for rel in sorted(self.records)]
+        names = sorted(self.records)
+        records = [self.records[rel] for rel in names]
         pages = [r.result for r in records]
-        findings = [f for r in records for f in r.findings]
-        uses = {}
-        for r in records:
+        store = self.store
+        uses, collector = {}, problems.Collector()
+        for rel, r in zip(names, records):
             problems.merge_uses(uses, r.uses)
-        found = problems.group(findings, uses=uses)
+            collector.add_records(rel, store.occurrences(rel), store.situations)
+        found = collector.problems(uses)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
+        findings = (f for rel in names for f in store.by_page(rel))  # read only for log_every
         self.log_results(found, findings, many_schemes=len(schemes) > 1)
         for page in pages:
             for d in page.diagnostics:
                 at = f"{d.path}:{d.line}" if d.line else d.path
                 (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
-        summary = summarise(pages, findings, found, (), schemes)
+        summary = summarise(pages, store, found, (), schemes)
         log.info(summary_line(summary, Header(level=self.config.level, schemes=schemes)))
         log.info(DISCLAIMER)
-        bad = failing(findings, self.config.fail_on)
+        bad = sum(n for severity, n in store.counts["severity"].items()
+                  if at_or_above(severity, self.config.fail_on))
         if bad and self.command != "serve":  # serve keeps serving; the warnings say enough
             raise PluginError(
-                f"{m.plural(len(bad), 'contrast finding')} at or above fail_on: "
+                f"{m.plural(bad, 'contrast finding')} at or above fail_on: "
                 f"{self.config.fail_on} (see the log above)"
             )
 
