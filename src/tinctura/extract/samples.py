@@ -38,7 +38,7 @@ MAX_ALTERNATIVES = 16
 # focus, the case where :focus-visible styles show.
 STATES = (("hover", ("hover",), ("hover",)),
           ("focus", ("focus", "focus-visible", "focus-within"), ("focus-within",)))
-CACHE_LIMIT = 60000
+CACHE_LIMIT = 120000  # style keys; a large site adds about a hundred per page
 # Elements whose subtrees are scopes (and may be recorded and replayed): HTML containers. SVG
 # content is left out (shapes earlier in the same <svg> are backgrounds of later text), and so is
 # anything inside an interactive element (its :hover walk reads the keys of its descendants).
