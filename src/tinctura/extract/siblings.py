@@ -3,8 +3,8 @@
 The style-sharing key of an element includes facts about its siblings only when some rule could
 need them, and only the facts that rule reads:
 
-- ``EDGE``: ``:first-child``, ``:last-child``, ``:only-child`` read whether there is a previous
-  and a next element sibling;
+- ``FIRST``: ``:first-child`` reads whether there is a previous element sibling, ``LAST``
+  (``:last-child``) whether there is a next one, ``:only-child`` both;
 - ``INDEX``: ``:nth-child()``, ``:nth-last-child()`` read the position from both ends;
 - ``TYPE``: ``:*-of-type`` read the position among same-tag siblings from both ends;
 - ``FULL``: the right side of ``+`` / ``~`` (and ``:nth-child(An+B of S)``) reads the previous
@@ -31,8 +31,9 @@ import tinycss2
 MEMO_LIMIT = 50000
 STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type|last-of-type|"
                         r"only-of-type)", re.I)
-EDGE, INDEX, TYPE, FULL = 1, 2, 4, 8
-_NEEDS = ((re.compile(r":(first|last|only)-child", re.I), EDGE),
+FIRST, LAST, INDEX, TYPE, FULL = 1, 2, 4, 8, 16
+_NEEDS = ((re.compile(r":(first|only)-child", re.I), FIRST),
+          (re.compile(r":(last|only)-child", re.I), LAST),
           (re.compile(r":nth-(last-)?child", re.I), INDEX),
           (re.compile(r":(first|last|only|nth|nth-last)-of-type", re.I), TYPE))
 _OF_SELECTOR = re.compile(r":nth-(last-)?child\([^)]*\bof\b", re.I)
@@ -45,7 +46,7 @@ class Compound:
         self.tag, self.classes, self.ident = tag, frozenset(classes), ident
         self.parent = parent  # for `P > :nth-child(2)`: what the parent must be
         self.ancestors = ()  # compounds some ancestor must satisfy (`A B > x`: A and B)
-        self.needs = 0  # what of the siblings it reads (EDGE | INDEX | TYPE | FULL)
+        self.needs = 0  # what of the siblings it reads (FIRST | LAST | INDEX | TYPE | FULL)
 
     @property
     def universal(self) -> bool:

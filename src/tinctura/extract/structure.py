@@ -12,7 +12,7 @@ from __future__ import annotations
 import cssselect2
 
 from .html import own_text
-from .siblings import EDGE, FULL, INDEX, TYPE
+from .siblings import FIRST, FULL, INDEX, LAST, TYPE
 
 LIMIT = 60000
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
@@ -130,8 +130,10 @@ class Structure:
                 out.append(0)
                 continue
             facts = [need]
-            if need & EDGE:
-                facts += (i > 0, i < n - 1)
+            if need & FIRST:
+                facts.append(i > 0)
+            if need & LAST:
+                facts.append(i < n - 1)
             if need & INDEX:
                 facts += (i, n - 1 - i)
             if need & TYPE:
