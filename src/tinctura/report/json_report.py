@@ -117,12 +117,26 @@ def situation_dict(f, problem: int | None, occurrences: int) -> dict:
 
 
 def occurrence_list(record) -> list:
-    """``[situation, xpath, line, text]``, plus the ancestor an inherited colour comes from."""
+    """``[situation, xpath, line, text]``, plus the ancestor an inherited colour comes from:
+    how many levels up (or its XPath, should it not be an ancestor)."""
     sid, xpath, line, text, inherited = record[:5]
     out = [sid, xpath, line, m.excerpt(text, 200)]
     if inherited:
-        out.append(inherited)
+        if xpath.startswith(inherited + "/"):
+            out.append(xpath.split("::")[0][len(inherited):].count("/"))
+        else:
+            out.append(inherited)
     return out
+
+
+def inherited_xpath(occurrence: list):
+    """The XPath an occurrence's text colour is inherited from (None: set on the element)."""
+    if len(occurrence) < 5:
+        return None
+    up = occurrence[4]
+    if isinstance(up, str):
+        return up
+    return occurrence[1].split("::")[0].rsplit("/", up)[0]
 
 
 def expand(doc: dict) -> list:
@@ -136,7 +150,7 @@ def expand(doc: dict) -> list:
             sit = situations[occ[0]]
             fg_cause = sit["fg_cause"]
             if fg_cause is not None:
-                fg_cause = dict(fg_cause, inherited_from=occ[4] if len(occ) > 4 else None)
+                fg_cause = dict(fg_cause, inherited_from=inherited_xpath(occ))
             out.append({
                 "rule": sit["rule"], "slug": sit["slug"], "severity": sit["severity"],
                 "page": entry["page"], "scheme": sit["scheme"], "state": sit["state"],
@@ -345,6 +359,7 @@ class JsonFormatter(Formatter):
     def _item(self, section: str, item) -> int:
         self._open(self.SECTIONS.index(section))
         self.stream.write(",\n    " if self._count else "\n    ")
-        self.stream.write(json.dumps(item, ensure_ascii=False))
+        compact = (",", ":") if section == "pages" else None  # most of a large report
+        self.stream.write(json.dumps(item, ensure_ascii=False, separators=compact))
         self._count += 1
         return self._count - 1
