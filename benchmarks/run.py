@@ -457,7 +457,8 @@ def report_size(res: dict, jobs: int) -> dict:
     n = res["pages"]
     s = {k: summarise(v) for k, v in res["runs"].items()}
     st = res.get("site", {})
-    print(f"\n-- {res.get('variant', 'baseline')}, {n} pages: {st.get('html_files', '?')} HTML files, "
+    print(f"\n-- {res.get('variant', 'baseline')}, {n} pages: "
+          f"{st.get('html_files', '?')} HTML files, "
           f"{fmt(st.get('html_bytes_per_page', 0) / 1024, '.0f')} KB/page, "
           f"{fmt(st.get('elements_per_page'), '.0f')} elements/page, "
           f"{fmt(st.get('text_elements_per_page'), '.0f')} text elements/page "
@@ -528,7 +529,7 @@ def report_size(res: dict, jobs: int) -> dict:
 
 def report_side_by_side(summaries: list[dict], jobs: int) -> None:
     """One line per variant and size: what the README's table quotes (its worst line)."""
-    print(f"\n-- side by side (wall s; ratios to mkdocs build)")
+    print("\n-- side by side (wall s; ratios to mkdocs build)")
     print(f"   {'variant':<10}{'pages':>6}{'build':>8}{'+plugin':>16}{'check 1 core':>20}"
           f"{f'--jobs {jobs}':>10}{'parse':>8}{'JSON MB':>9}{'findings':>10}{'peak MB':>9}")
     for x in summaries:
