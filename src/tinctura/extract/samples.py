@@ -333,7 +333,7 @@ class PageWalker:
                     kid = self._key(0, self.structure.root_id())
                 else:
                     kid = self._key(parent_id, self.structure.structure.element_id(
-                        el, siblings))
+                        el, siblings, self.structure.wrapper_of))
                 style = self.style_for(el, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
                     if el is not target:

@@ -18,7 +18,8 @@ same wherever it stands among its siblings. Selectors whose sibling tests hide i
 element ``FULL``.
 
 ``:has()`` looks at an element's descendants: an element a ``:has()`` compound could match keeps
-its subtree's fingerprint in its key (``HasIndex``); every other element shares as usual. A
+in its key whether each such compound matches it (``HasIndex``: the answers are all the cascade
+reads of its subtree); every other element shares as usual. A
 ``:has()`` that looks at siblings (``:has(+ x)``, ``:has(~ x)``) or whose compound names no tag,
 class or id is not analysed: then nothing is shared (``RuleSet.uses_has``).
 """
@@ -150,8 +151,9 @@ def _needs_of(text: str) -> int:
 
 
 def has_compounds(tokens):
-    """Compounds of one selector that contain ``:has()``; None when they cannot be analysed
-    (a relative sibling selector inside, or a compound that names no tag, class or id)."""
+    """Compounds of one selector that contain ``:has()``, each with its text in
+    ``.selector``; None when they cannot be analysed (a relative sibling selector inside, or a
+    compound that names no tag, class or id)."""
     out = []
     compounds = split_compounds(tokens)
     for _comb, parts in compounds:
@@ -166,7 +168,7 @@ def has_compounds(tokens):
         req = _requirements(parts)
         if req.universal:
             return None
-        out.append(req)
+        out.append((req, text.strip()))
     return out
 
 
@@ -238,13 +240,17 @@ class SiblingIndex:
 
 
 class HasIndex:
-    """Answers "could a ``:has()`` compound match this element?" by tag, classes and id."""
+    """Answers "which ``:has()`` compounds could match this element?" by tag, classes and id,
+    and whether they do (``answers``)."""
 
     def __init__(self, rules):
+        from .sheet import compile_one
+
         self.own = _Buckets()
         self.usable = True
         self.active = False
         self._memo = {}
+        seen = {}
         for rule in rules:
             text = rule.selector_text
             if ":has(" not in text.lower():
@@ -253,21 +259,38 @@ class HasIndex:
             if found is None:
                 self.usable = False
                 return
-            for c in found:
-                self.own.add(c, c)
+            for req, compound in found:
+                if compound in seen:
+                    continue
+                compiled, _ = compile_one(compound)
+                if compiled is None:
+                    self.usable = False
+                    return
+                seen[compound] = compiled.test
+                self.own.add(req, (compound, compiled.test))
                 self.active = True
 
-    def could_match(self, el) -> bool:
+    def candidates(self, el) -> tuple:
+        """``(compound text, test)`` of the ``:has()`` compounds ``el`` could match."""
         key = (el.tag, el.get("class"), el.get("id"))
         hit = self._memo.get(key)
         if hit is None:
             tag = el.tag.lower() if isinstance(el.tag, str) else ""
             classes = frozenset(key[1].split()) if key[1] else frozenset()
-            hit = any(True for _ in self.own.matches(tag, classes, key[2]))
+            hit = tuple(sorted(set(self.own.matches(tag, classes, key[2])),
+                               key=lambda c: c[0]))
             if len(self._memo) > MEMO_LIMIT:
                 self._memo.clear()
             self._memo[key] = hit
         return hit
+
+    def could_match(self, el) -> bool:
+        return bool(self.candidates(el))
+
+    @staticmethod
+    def answers(candidates, wrapper) -> tuple:
+        """Whether each candidate compound matches the element (its cssselect2 wrapper)."""
+        return tuple(test(wrapper) for _, test in candidates)
 
 
 class _Ancestry:

@@ -55,26 +55,31 @@ class Structure:
             out.append(sig)
         return tuple(out)  # document order: the same generator writes the same order
 
-    def element_id(self, el, siblings=None) -> int:
+    def element_id(self, el, siblings=None, wrapper_of=None) -> int:
         """The structural id of ``el`` at its place among its siblings (``siblings``: what
-        ``children`` found selectors read of them; None for an element outside a list)."""
-        return self._id(el, self.attrs(el), siblings)
+        ``children`` found selectors read of them; None for an element outside a list).
+        ``wrapper_of(el)``: its cssselect2 wrapper, needed where a ``:has()`` compound can
+        match it."""
+        return self._id(el, self.attrs(el), siblings, wrapper_of)
 
-    def _id(self, el, attrs: tuple, siblings) -> int:
+    def _id(self, el, attrs: tuple, siblings, wrapper_of=None) -> int:
         empty = not len(el) and not (el.text or "").strip()
-        if self.has is not None and self.has.could_match(el):
-            # a :has() compound reads the subtree: its fingerprint is part of the identity
-            from .fragments import fingerprint
-
-            return self.intern((el.tag, attrs, siblings, empty, fingerprint(el)))
+        if self.has is not None:
+            candidates = self.has.candidates(el)
+            if candidates:
+                # a :has() compound reads the subtree: whether it matches is in the identity
+                if wrapper_of is None:
+                    wrapper_of = _standalone_wrapper
+                answers = self.has.answers(candidates, wrapper_of(el))
+                return self.intern((el.tag, attrs, siblings, empty, answers))
         if siblings:
             return self.intern((el.tag, attrs, siblings, empty))
         return self.intern((el.tag, attrs, empty))
 
-    def children(self, el) -> list:
+    def children(self, el, wrapper_of=None) -> list:
         """``(child, structural id, sibling facts)`` for the child elements of ``el``; the
         sibling facts are what sibling-reading selectors need of its place (0 where none
-        can reach it)."""
+        can reach it). ``wrapper_of``: as for ``element_id``."""
         children = [c for c in el if isinstance(c.tag, str)]
         if not children:
             return children
@@ -84,7 +89,7 @@ class Structure:
             raw_ids, out = self.raw_ids, []
             for cel in children:
                 if has is not None and has.could_match(cel):
-                    out.append((cel, self._id(cel, self.attrs(cel), 0), 0))
+                    out.append((cel, self._id(cel, self.attrs(cel), 0, wrapper_of), 0))
                     continue
                 raw = (cel.tag, tuple(cel.attrib.items()),
                        not len(cel) and not (cel.text or "").strip())
@@ -96,7 +101,7 @@ class Structure:
                 out.append((cel, ident, 0))
             return out
         facts = self._sibling_facts(children, needs)
-        return [(cel, self._id(cel, self.attrs(cel), facts[i]), facts[i])
+        return [(cel, self._id(cel, self.attrs(cel), facts[i], wrapper_of), facts[i])
                 for i, cel in enumerate(children)]
 
     def _sibling_facts(self, children, needs) -> list:
@@ -142,6 +147,14 @@ class Structure:
                 facts += (prevs[i], following[i])
             out.append(tuple(facts))
         return out
+
+
+def _standalone_wrapper(el):
+    """A cssselect2 wrapper of ``el`` in a tree of its own wrappers (callers without a page's)."""
+    wrapper = cssselect2.ElementWrapper.from_html_root(el.getroottree().getroot())
+    for node in reversed([el, *el.iterancestors()][:-1]):
+        wrapper = next(c for c in wrapper.iter_children() if c.etree_element is node)
+    return wrapper
 
 
 def steps(children) -> list:
@@ -206,7 +219,7 @@ class PageStructure:
     def children(self, el) -> list:
         kids = self.kids.get(el)
         if kids is None:
-            kids = self.kids[el] = self.structure.children(el)
+            kids = self.kids[el] = self.structure.children(el, self.wrapper_of)
             if kids:
                 paths = self.paths
                 base = paths.get(el)
@@ -223,7 +236,8 @@ class PageStructure:
         return path
 
     def root_id(self) -> int:
-        return self.structure.intern(("root", self.structure.element_id(self.root)))
+        return self.structure.intern(("root", self.structure.element_id(
+            self.root, wrapper_of=self.wrapper_of)))
 
     def changed(self, elements, attributes) -> None:
         """A scheme set ``attributes`` on ``elements``: forget what read them."""
