@@ -238,10 +238,21 @@ def _judge(samples, options: Options) -> tuple:
     return out, out_keys
 
 
+_VERDICT_KEYS: dict = {}  # id(options) -> (options, key): a run asks for every fragment
+
+
 def verdict_key(options: Options) -> str:
     """What a verdict may depend on: every option but those that only say how to run."""
-    return repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
-                                    exclude=(), share=True))
+    known = _VERDICT_KEYS.get(id(options))
+    cheap = (options.level, tuple(options.rules))  # what a caller might change in place
+    if known is not None and known[0] is options and known[2] == cheap:
+        return known[1]
+    key = repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
+                                   exclude=(), share=True))
+    if len(_VERDICT_KEYS) > 64:
+        _VERDICT_KEYS.clear()
+    _VERDICT_KEYS[id(options)] = (options, key, cheap)
+    return key
 
 
 def judge_gradients(samples, level: str) -> None:
