@@ -75,7 +75,8 @@ def test_compact_report_holds_the_same_findings(variant_site):
     docs = []
     for extra in ([], ["--flat-findings"]):
         out = io.StringIO()
-        cli.main(["check", str(site), "--jobs", "1", "--format", "json", *extra], out, io.StringIO())
+        cli.main(["check", str(site), "--jobs", "1", "--format", "json", *extra], out,
+                 io.StringIO())
         docs.append(json.loads(out.getvalue()))
     compact, flat = docs
     assert expand(compact) == flat["findings"]
