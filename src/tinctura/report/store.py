@@ -67,8 +67,15 @@ class FindingStore:
         if not findings:
             return []
         if isinstance(findings, sit.PageFindings):
-            local = [self.situation(k, t) for k, t in zip(findings.keys, findings.templates)]
-            records = [(local[r[0]],) + r[1:] for r in findings.records]
+            # numbered in order of first occurrence, as a list of the same findings would be
+            local = [None] * len(findings.templates)
+            records = []
+            for r in findings.records:
+                sid = local[r[0]]
+                if sid is None:
+                    sid = local[r[0]] = self.situation(findings.keys[r[0]],
+                                                       findings.templates[r[0]])
+                records.append((sid,) + r[1:])
         else:
             records = [(self.situation(sit.finding_key(f), f),) + sit.place(f) for f in findings]
         self._write(page, records)
