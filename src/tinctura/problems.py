@@ -175,8 +175,11 @@ class Collector:
         self.situations: dict = {}  # problem key -> its situation numbers, first seen first
         self._count = 0
 
-    def add(self, finding: Finding, situation: Optional[int] = None) -> None:
-        index = self._count
+    def add(self, finding: Finding, index: int | None = None,
+            situation: Optional[int] = None) -> None:
+        """``index``: the finding's place in the run's report when not every finding of the
+        run is added (suppressed and baseline-known ones are listed but not grouped)."""
+        index = self._count if index is None else index
         self._count += 1
         key = self._situations.get(situation) if situation is not None else None
         if key is not None:
@@ -210,21 +213,22 @@ class Collector:
         self._note_page(key, p, finding.sample.page, lambda: finding)
         _add_backgrounds(p.backgrounds, finding.sample)
 
-    def add_records(self, page: str, records, templates) -> None:
+    def add_records(self, page: str, records, templates, indexes=None) -> None:
         """``add`` for ``FindingStore.add``'s records of ``page`` (``templates``: the store's
-        situations): a finding is built only where one is kept (the first of a situation, an
-        example candidate)."""
+        situations; ``indexes``: as ``add``'s, one per record): a finding is built only where
+        one is kept (the first of a situation, an example candidate)."""
         from tinctura.situations import rebuild
 
         known, buckets = self._situations, self._buckets
-        for r in records:
+        for n, r in enumerate(records):
+            index = None if indexes is None else indexes[n]
             key = known.get(r[0])
             if key is None:
-                self.add(rebuild(templates[r[0]], r[1:], page), r[0])
+                self.add(rebuild(templates[r[0]], r[1:], page), index, situation=r[0])
                 continue
             p = buckets[key]
             p.count += 1
-            p.indexes.append(self._count)
+            p.indexes.append(self._count if index is None else index)
             self._count += 1
             self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
 

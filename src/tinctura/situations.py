@@ -43,12 +43,14 @@ def finding_key(f: Finding) -> tuple:
 
 
 def place(f: Finding) -> tuple:
-    """``(xpath, line, text, inherited_from[, layer xpaths])`` of one occurrence."""
+    """``(xpath, line, text, inherited_from, layer xpaths or None, gate marks or None)`` of one
+    occurrence; the gate's marks (``tinctura.gate``) are ``(fingerprint, suppressed,
+    baseline)``."""
     s = f.sample
     inherited = s.fg_cause.inherited_from if s.fg_cause is not None else None
-    if s.bg_layers:
-        return (s.xpath, s.line, s.text, inherited, tuple(layer.xpath for layer in s.bg_layers))
-    return (s.xpath, s.line, s.text, inherited)
+    layers = tuple(layer.xpath for layer in s.bg_layers) if s.bg_layers else None
+    marks = (f.fingerprint, f.suppressed, f.baseline) if getattr(f, "fingerprint", "") else None
+    return (s.xpath, s.line, s.text, inherited, layers, marks)
 
 
 def rebuild(template: Finding, where: tuple, page: str) -> Finding:
@@ -59,15 +61,18 @@ def rebuild(template: Finding, where: tuple, page: str) -> Finding:
     c = s.fg_cause
     if c is not None and c.inherited_from != inherited:
         s.fg_cause = Cause(c.declaration, inherited, c.chain)
-    if len(where) > 4:
+    if where[4]:
         s.bg_layers = tuple(Layer(x, layer.kind, layer.colour, layer.cause)
                             for x, layer in zip(where[4], s.bg_layers))
-    return occurrence(template, s)
+    found = occurrence(template, s)
+    if where[5]:
+        found.fingerprint, found.suppressed, found.baseline = where[5]
+    return found
 
 
 def occurrence(template: Finding, sample: Sample) -> Finding:
     """``template``'s verdict on another sample of the same situation (shares its fixes and
-    arguments, which are never changed once made)."""
+    arguments, which are never changed once made; the gate's marks are the occurrence's own)."""
     t = template
     return Finding(t.rule, t.slug, t.severity, sample, t.ratio, t.required, t.level, t.fixes,
                    t.args)
@@ -75,8 +80,8 @@ def occurrence(template: Finding, sample: Sample) -> Finding:
 
 class PageFindings:
     """One page's findings as situations and places: ``templates`` (a finding per situation),
-    their ``keys`` (``finding_key``) and ``records`` ``(template index, xpath, line, text,
-    inherited_from[, layer xpaths])`` in report order. A read-only sequence of ``Finding``
+    their ``keys`` (``finding_key``) and ``records`` ``(template index,) + place`` in report
+    order. A read-only sequence of ``Finding``
     (rebuilt on first use); pickled without them, so a worker sends each situation once."""
 
     __slots__ = ("page", "templates", "keys", "records", "_items")
@@ -112,6 +117,10 @@ class PageFindings:
         if order is not None:
             records.sort(key=lambda r: order(templates[r[0]], r))
         return cls(page, templates, tkeys, records)
+
+    def built(self):
+        """The findings, if they were built (and so may carry marks set since); else None."""
+        return self._items
 
     def _list(self) -> list:
         if self._items is None:

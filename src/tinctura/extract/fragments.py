@@ -194,20 +194,18 @@ class Stamp:
 
     def place(self, sample: Sample, old_base: str) -> tuple:
         """Where ``sample``, recorded around ``old_base``, stands here: the record
-        ``situations.place`` makes of a finding (XPath, line, text, inherited-from XPath and,
-        when there are background layers, theirs)."""
+        ``situations.place`` makes of a finding (XPath, line, text, inherited-from XPath, the
+        background layers' XPaths or None, no gate marks)."""
         new_base = self.new_base
         rel = sample.xpath[len(old_base):]
         fg_cause = sample.fg_cause
         inherited = fg_cause.inherited_from if fg_cause is not None else None
         if inherited:
             inherited = rebase(inherited, old_base, new_base)
-        where = (new_base + rel, self.line(rel.split("::")[0]) if sample.line else 0,
-                 sample.text, inherited)
-        if sample.bg_layers:
-            return where + (tuple(rebase(layer.xpath, old_base, new_base)
-                                  for layer in sample.bg_layers),)
-        return where
+        layers = tuple(rebase(layer.xpath, old_base, new_base)
+                       for layer in sample.bg_layers) if sample.bg_layers else None
+        return (new_base + rel, self.line(rel.split("::")[0]) if sample.line else 0,
+                sample.text, inherited, layers, None)
 
     def sample(self, sample: Sample, old_base: str) -> Sample:
         new_base = self.new_base

@@ -18,12 +18,19 @@ class Header:
     tool: str = "tinctura"
     version: str = ""
     level: str = "AA"
+    scope: object = None  # report.scope.Scope: how the run was made (the audit report shows it)
     group: str = "cause"  # "cause" (problems first) or "page"
     fail_on: str = "error"
     schemes: list = field(default_factory=list)  # scheme names evaluated
     # JSON: "compact" (each situation once, occurrences as small records; format 2) or
     # "flat" (every finding in full; format 1)
     findings_layout: str = "compact"
+    rules: tuple = ()  # codes of the rules run (empty: every rule)
+    # where results point: page -> (path, line or 0) of its Markdown source, or None (then the
+    # built page); the hook a source map plugs into
+    source: object = None
+    uri: object = None  # page -> the built page's path as reports name it (default: as is)
+    gone: list = field(default_factory=list)  # baseline entries no longer found
 
 
 class Formatter:
@@ -32,10 +39,15 @@ class Formatter:
     A formatter that sets ``wants_findings = False`` gets ``page(page, [])`` (nothing is read
     back from the run's store); one that sets ``wants_occurrences = True`` gets
     ``occurrences(page, records, store)`` instead of ``page``: the page's small occurrence
-    records and the ``report.store.FindingStore`` that holds each situation once."""
+    records and the ``report.store.FindingStore`` that holds each situation once.
+
+    ``marked = True``: the formatter also receives the findings held by the gate (suppressed,
+    or unchanged against the baseline), each marked; otherwise only the findings that count.
+    """
 
     wants_findings = True
     wants_occurrences = False
+    marked = False
 
     def __init__(self, stream, header: Header):
         self.stream = stream
@@ -89,6 +101,9 @@ def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) 
 def _emit_occurrences(formatter: Formatter, pages, findings) -> None:
     from .store import FindingStore
 
+    inner = getattr(findings, "_findings", None)  # an outputs.GateView over the run's store
+    if getattr(findings, "marked", False) and isinstance(inner, FindingStore):
+        findings = inner  # every finding, marked: the store as it is
     store = FindingStore.of(findings)
     listed = [page.page for page in pages]
     for page in pages:

@@ -86,7 +86,16 @@ def finding_dict(f) -> dict:
         "fix": [fix_dict(x) for x in f.fixes],
         "fg_cause": cause_dict(s.fg_cause),
         "bg_cause": cause_dict(s.bg_cause),
+        **gate_dict(f),
     }
+
+
+def gate_dict(f) -> dict:
+    """The gate's marks (tinctura.gate), when the run set them."""
+    if not getattr(f, "fingerprint", ""):
+        return {}
+    return {"fingerprint": f.fingerprint, "suppressed": f.suppressed or None,
+            "baseline": f.baseline or None}
 
 
 def situation_dict(f, problem: int | None, occurrences: int) -> dict:
@@ -118,20 +127,27 @@ def situation_dict(f, problem: int | None, occurrences: int) -> dict:
 
 def occurrence_list(record) -> list:
     """``[situation, xpath, line, text]``, plus the ancestor an inherited colour comes from:
-    how many levels up (or its XPath, should it not be an ancestor)."""
-    sid, xpath, line, text, inherited = record[:5]
+    how many levels up (or its XPath, should it not be an ancestor; null when there is none
+    but the gate's marks follow), plus the gate's marks when the run set them."""
+    sid, xpath, line, text, inherited, _layers, marks = record[:7]
     out = [sid, xpath, line, m.excerpt(text, 200)]
     if inherited:
         if xpath.startswith(inherited + "/"):
             out.append(xpath.split("::")[0][len(inherited):].count("/"))
         else:
             out.append(inherited)
+    if marks:
+        if not inherited:
+            out.append(None)
+        fingerprint, suppressed, baseline = marks
+        out.append({"fingerprint": fingerprint, "suppressed": suppressed or None,
+                    "baseline": baseline or None})
     return out
 
 
 def inherited_xpath(occurrence: list):
     """The XPath an occurrence's text colour is inherited from (None: set on the element)."""
-    if len(occurrence) < 5:
+    if len(occurrence) < 5 or occurrence[4] is None:
         return None
     up = occurrence[4]
     if isinstance(up, str):
@@ -157,7 +173,8 @@ def expand(doc: dict) -> list:
                 "xpath": occ[1], "line": occ[2], "text": occ[3], "fg": sit["fg"],
                 "bg": sit["bg"], "ratio": sit["ratio"], "required": sit["required"],
                 "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
-                "fg_cause": fg_cause, "bg_cause": sit["bg_cause"]})
+                "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
+                **(occ[5] if len(occ) > 5 else {})})
     return out
 
 
@@ -260,6 +277,7 @@ class JsonFormatter(Formatter):
 
     FLAT_SECTIONS = ("findings", "problems", "diagnostics")
     COMPACT_SECTIONS = ("pages", "problems", "situations", "diagnostics")
+    marked = True  # suppressed and baseline-known findings are listed too, marked
 
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)

@@ -63,19 +63,20 @@ class FindingStore:
 
     def add(self, page: str, findings) -> list:
         """Keep ``page``'s findings (a list, or ``situations.PageFindings``); returns their
-        records ``(situation number, xpath, line, text, inherited_from[, layers])``, in order."""
+        records ``(situation number,) + situations.place``, in order."""
         if not findings:
             return []
         if isinstance(findings, sit.PageFindings):
             # numbered in order of first occurrence, as a list of the same findings would be
             local = [None] * len(findings.templates)
+            built = findings.built()  # findings already built may carry the gate's marks
             records = []
-            for r in findings.records:
+            for n, r in enumerate(findings.records):
                 sid = local[r[0]]
                 if sid is None:
                     sid = local[r[0]] = self.situation(findings.keys[r[0]],
                                                        findings.templates[r[0]])
-                records.append((sid,) + r[1:])
+                records.append((sid,) + (sit.place(built[n]) if built else r[1:]))
         else:
             records = [(self.situation(sit.finding_key(f), f),) + sit.place(f) for f in findings]
         self._write(page, records)
