@@ -96,6 +96,9 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--color", "--colour", dest="colour", default="auto",
                        choices=("auto", "always", "never"),
                        help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
+    check.add_argument("--flat-findings", action="store_true",
+                       help="JSON report: list every finding in full (format 1) instead of "
+                            "each situation once with small occurrence records (format 2)")
     check.set_defaults(run=run_check)
 
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
@@ -260,6 +263,7 @@ def run_check(args, stdout, stderr) -> int:
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
+        findings_layout="flat" if args.flat_findings else "compact",
         rules=options.rules,
         uri=built_uri(args.paths),
         source=markdown_source(args),

@@ -28,6 +28,10 @@ class TextFormatter(Formatter):
         self.diagnostics: list = []
         self.schemes = list(header.schemes)
 
+    @property
+    def wants_findings(self) -> bool:  # grouped by cause: the problems carry the examples
+        return self.header.group == "page"
+
     # -- helpers -----------------------------------------------------------------------
 
     @property
