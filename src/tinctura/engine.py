@@ -310,7 +310,8 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
-    site_findings = sorted(judge_site(report.palette, options), key=_finding_order)
+    site_findings = sorted(judge_site(report.palette, options),
+                           key=lambda f: _finding_order(f, (None, f.sample.xpath, f.sample.line)))
     if findings_to is None:
         report.findings.extend(site_findings)
     elif site_findings:  # after every page: reports list them last, under the whole site
