@@ -16,6 +16,7 @@ import tinycss2
 from ..model import Declaration
 from ..tokens import significant, split_commas
 from . import supports as supports_mod
+from .bounds import MAX_RULES
 
 # Properties the engine reads. Custom properties (--*) are always kept: they may feed any of these.
 RELEVANT = frozenset(
@@ -78,6 +79,8 @@ class ParsedSheet:
     errors: list = field(default_factory=list)  # (line, message)
     skipped_selectors: int = 0
     uses_has: bool = False
+    max_rules: int = MAX_RULES  # style rules kept (one per selector); beyond: ``truncated``
+    truncated: bool = False
     uses_color_scheme_media: bool = False
     uses_light_dark: bool = False
     has_color_scheme_property: bool = False
@@ -97,8 +100,11 @@ def parse_declarations(content, *, relevant_only: bool = True) -> list:
     return out
 
 
-def parse_stylesheet(css: str, name: str, origin: str = "author") -> ParsedSheet:
+def parse_stylesheet(css: str, name: str, origin: str = "author",
+                     max_rules: int | None = None) -> ParsedSheet:
     sheet = ParsedSheet(name)
+    if max_rules is not None:
+        sheet.max_rules = max_rules
     rules = tinycss2.parse_stylesheet(css, skip_whitespace=True, skip_comments=True)
     _walk(rules, sheet, origin, (), (), True)
     low = css.lower()
@@ -203,6 +209,9 @@ def _style_rule(rule, sheet, origin, media, layer):
     if not decls:
         return
     for part in split_selector_list(rule.prelude):
+        if len(sheet.rules) >= sheet.max_rules:
+            sheet.truncated = True
+            return
         text = tinycss2.serialize(part).strip()
         compiled, dynamic = compile_one(text)
         if compiled is None:
