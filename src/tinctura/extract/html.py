@@ -25,9 +25,12 @@ _PARSER = lxml.etree.HTMLParser(remove_comments=False, collect_ids=False, huge_t
 
 
 def decode(data: bytes) -> str:
-    """Decode page bytes: BOM, then the declared charset, then UTF-8, then bs4's guess."""
+    """Decode page bytes: BOM (UTF-8 or UTF-16), then the declared charset, then UTF-8, then
+    bs4's guess."""
     if data.startswith(b"\xef\xbb\xbf"):
         return data[3:].decode("utf-8", "replace")
+    if data.startswith((b"\xff\xfe", b"\xfe\xff")):  # a BOM wins, as in browsers (HTML, 13.2.3)
+        return data.decode("utf-16", "replace")
     match = _META_CHARSET.search(data[:4096])
     declared = match.group(1).decode("ascii", "ignore") if match else "utf-8"
     try:

@@ -165,12 +165,16 @@ def _chunks(css: str, size: int = CHUNK_CHARS):
 
 def _walk(rules, sheet: ParsedSheet, origin, media, layer, top_level):
     for rule in rules:
-        if rule.type == "error":
-            sheet.errors.append((rule.source_line + sheet.line_offset, rule.message))
-        elif rule.type == "qualified-rule":
-            _style_rule(rule, sheet, origin, media, layer)
-        elif rule.type == "at-rule":
-            _at_rule(rule, sheet, origin, media, layer, top_level)
+        try:
+            if rule.type == "error":
+                sheet.errors.append((rule.source_line + sheet.line_offset, rule.message))
+            elif rule.type == "qualified-rule":
+                _style_rule(rule, sheet, origin, media, layer)
+            elif rule.type == "at-rule":
+                _at_rule(rule, sheet, origin, media, layer, top_level)
+        except RecursionError:  # blocks or functions nested hundreds deep: skip this rule
+            sheet.errors.append((rule.source_line + sheet.line_offset,
+                                 "rule nested too deeply to read; skipped"))
 
 
 def _at_rule(rule, sheet, origin, media, layer, top_level):
