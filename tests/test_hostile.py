@@ -190,6 +190,8 @@ def test_binary_page_is_reported_not_sampled(tmp_path):
     assert status == 2  # pages that could not be checked make the run fail
     assert "index.html: error: page not checked: not HTML" in out
     assert "logo.html: error: page not checked: not HTML: the file is a PNG image" in out
+    status, out, err = call("check", root, "--color", "never", "--allow-unchecked")
+    assert status == 0 and "logo.html: error: page not checked" in out  # reported, not failing
 
 
 @pytest.mark.parametrize("data", [

@@ -88,6 +88,9 @@ def _limit_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--max-var-tokens", type=positive_int, default=MAX_VAR_TOKENS, metavar="N",
                    help="a var() expansion longer than this is invalid "
                         f"(default {MAX_VAR_TOKENS:,})")
+    p.add_argument("--allow-unchecked", action="store_true",
+                   help="pages and stylesheets that could not be read (binary, too large, "
+                        "broken) are reported but do not make the exit status 2")
 
 
 def _add_debug(parser: argparse.ArgumentParser) -> None:
@@ -298,7 +301,7 @@ def run_check(args, stdout, stderr) -> int:
     with output(args.output, stdout) as stream:
         report.render(stream, args.format, header, result.pages, result.findings, found,
                       result.diagnostics, colour_choice=args.colour)
-    unreadable = input_errors(result, stderr)
+    unreadable = input_errors(result, stderr) and not args.allow_unchecked
     return exit_status(result.findings, args.fail_on, error=unreadable)
 
 
@@ -319,7 +322,7 @@ def run_pairs(args, stdout, stderr) -> int:
     for d in diagnostics_of(result):
         if d.severity != "error":
             stderr.write(f"{PROG}: {d.severity}: {where(d)}: {d.message}\n")
-    return exit_status(error=input_errors(result, stderr))
+    return exit_status(error=input_errors(result, stderr) and not args.allow_unchecked)
 
 
 def parse_pair_colour(text: str, what: str):
