@@ -19,10 +19,12 @@ import os
 import re
 from contextlib import contextmanager
 from dataclasses import dataclass, field
+from urllib.parse import urlsplit
 
 from . import problems as problems_mod
 from .colour import wcag
 from .extract import bounds
+from .extract import behaviours as behaviour_mod
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -50,6 +52,9 @@ class Options:
     max_rules: int = bounds.MAX_RULES  # style rules kept per stylesheet
     max_var_tokens: int = MAX_VAR_TOKENS  # longer var() expansions are invalid
     debug: bool = False  # internal errors keep their traceback in the diagnostic
+    site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
+    behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
+    theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
 
 
 @dataclass
@@ -70,8 +75,13 @@ class Site:
     def __init__(self, root: str, options: Options | None = None):
         self.root = os.path.abspath(root)
         self.options = options or Options()
-        self.loader = SheetLoader(self.root, self.options.max_file_bytes, self.options.max_rules)
+        self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path,
+                                  max_file_bytes=self.options.max_file_bytes,
+                                  max_rules=self.options.max_rules)
         self._caches = {}
+        self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
+            + tuple(self.options.behaviours)
+        self._themes_noted = set()  # themes whose unmodelled script changes were reported
 
     def pages(self) -> list:
         found = []
@@ -110,6 +120,7 @@ class Site:
             refused = _too_many_elements(root, data, self.options.max_elements)
             if refused:
                 raise bounds.Refused(refused)
+            self._script_behaviours(root, result)
         except bounds.Refused as exc:  # outside the site (a warning); too large, binary
             result.diagnostics.append(Diagnostic(rel, f"page not checked: {exc}",
                                                  severity="warning" if exc.outside else "error"))
@@ -162,6 +173,16 @@ class Site:
         except Exception as exc:  # report, keep the other pages
             result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result
+
+
+    def _script_behaviours(self, root, result) -> None:
+        """Apply what the page's theme scripts change before a reader sees it; say once per
+        site what those scripts change that tinctura does not model."""
+        for theme in behaviour_mod.apply(root, self._behaviours):
+            note = behaviour_mod.NOT_MODELLED.get(theme)
+            if note and theme not in self._themes_noted:
+                self._themes_noted.add(theme)
+                result.diagnostics.append(Diagnostic(result.page, f"{theme} theme: {note}"))
 
 
 def internal_error(rel: str, exc: BaseException, debug: bool = False) -> Diagnostic:
@@ -232,8 +253,9 @@ def judge_gradients(samples, level: str) -> None:
         ratios = [wcag.contrast_ratio(foreground_on(s, bg), bg) for bg in backgrounds(s)]
         if min(ratios) < required <= max(ratios):
             s.status = UNDETERMINED
-            s.reason = (f"backgrounds disagree (gradient stops or an outlining text shadow): "
-                        f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1 against {required:g}:1")
+            s.reason = ("backgrounds disagree (gradient stops, a partial inset shadow or an "
+                        f"outlining text shadow): {min(ratios):.2f}:1 to {max(ratios):.2f}:1 "
+                        f"against {required:g}:1")
 
 
 def check_paths(paths, options: Options | None = None, findings_to=None) -> Report:
