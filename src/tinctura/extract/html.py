@@ -5,8 +5,9 @@ does not run the HTML5 tree-construction steps browsers run. The one that matter
 generated docs is the implied ``<tbody>``: selectors such as ``table>tbody>tr`` rely on it, so it
 is inserted here. Pages of unknown or broken encoding are decoded with bs4's UnicodeDammit.
 
-libxml2 stops building the tree below about 2,000 levels of nesting (and drops what follows);
-browsers keep everything. A page that hits that limit is parsed again by ``_DeepTreeBuilder``,
+libxml2 stops building the tree below 256 levels of nesting (2,048 with its huge-tree option)
+and drops what follows; browsers keep everything. A page past 256 levels is parsed again by
+``_DeepTreeBuilder``,
 an iterative builder over the standard library's HTML tokenizer with the tree-construction
 rules that matter for styling (void elements, implied end tags of ``p``, ``li``, cells and
 rows, ``head`` and ``body``), so its text is checked rather than lost.
@@ -22,6 +23,14 @@ _META_CHARSET = re.compile(rb"<meta[^>]+charset=[\"']?([\w-]+)", re.I)
 # lxml.etree's parser, not lxml.html's: the latter picks a Python element class for every
 # element touched, which costs more than the parse itself on a large page
 _PARSER = lxml.etree.HTMLParser(remove_comments=False, collect_ids=False, huge_tree=True)
+# First try: libxml2's default limits (256 levels, 10 MB text nodes). A page past them is parsed
+# again: past the depth, by _DeepTreeBuilder (pages that deep cost time and memory in the square
+# of their depth, XPaths above all, so they get the depth cap browsers apply); past the text
+# size, by the huge-tree parser.
+_LIMITED = lxml.etree.HTMLParser(remove_comments=False, collect_ids=False, huge_tree=False)
+# Blink attaches elements nested deeper than 512 at that depth (recalled from memory: its HTML
+# tree builder's maximum DOM depth); the text is kept
+MAX_DEPTH = 512
 
 
 def decode(data: bytes) -> str:
@@ -55,9 +64,12 @@ def parse_html(text: str | bytes):
         raise ValueError("the page is empty")
     # lxml refuses str input that carries an XML encoding declaration
     text = re.sub(r"^\s*<\?xml[^>]*>", "", text)
-    root = lxml.etree.fromstring(text, parser=_PARSER)
     global _DEEP
-    _DEEP = too_deep()
+    root = lxml.etree.fromstring(text, parser=_LIMITED)
+    _DEEP = too_deep(_LIMITED)
+    if not _DEEP and any("XML_PARSE_HUGE" in e.message for e in _LIMITED.error_log):
+        root = lxml.etree.fromstring(text, parser=_PARSER)
+        _DEEP = too_deep(_PARSER)
     if _DEEP:
         root = _DeepTreeBuilder().build(text)
     if root is None:
@@ -69,15 +81,16 @@ def parse_html(text: str | bytes):
 _DEEP = False  # the last page parsed needed the deep-nesting builder
 
 
-def too_deep() -> bool:
-    return any("Excessive depth" in e.message for e in _PARSER.error_log)
+def too_deep(parser) -> bool:
+    return any("Excessive depth" in e.message for e in parser.error_log)
 
 
 def parser_warnings() -> list:
     """What the last parse did that a reader should know: (line, message)."""
     if _DEEP:
-        return [(0, "elements nested deeper than lxml keeps (about 2,000 levels): the page was "
-                    "parsed with tinctura's slower deep-nesting parser, which keeps all the text")]
+        return [(0, "elements nested more than 256 levels deep: the page was parsed with "
+                    "tinctura's slower deep-nesting parser, which keeps all the text; as in "
+                    f"browsers, elements deeper than {MAX_DEPTH} levels are placed at that depth")]
     return []
 
 
@@ -160,6 +173,8 @@ class _DeepTreeBuilder(HTMLParser):
         elif tag in ("head", "body"):
             return
         self._implied_ends(tag)
+        if len(self.stack) > MAX_DEPTH:  # as browsers do: a sibling, not a deeper child
+            self.stack.pop()
         el = self._add(self.stack[-1], tag, attrs)
         if el is not None and tag not in _VOID:
             self.stack.append(el)
