@@ -217,7 +217,9 @@ def _too_many_elements(root, data: bytes, limit: int) -> str | None:
 def _report_resolver(resolver, diagnostics) -> None:
     """Custom properties whose value was dropped for going past a bound, once per site."""
     for (sheet, line, name), why in resolver.problems.items():
-        diagnostics.append(Diagnostic(sheet, f"{name}: {why}", line=line))
+        note = Diagnostic(sheet, f"{name}: {why}", line=line)
+        if note not in diagnostics:  # met again in another scheme's walk
+            diagnostics.append(note)
     resolver.problems.clear()
 
 

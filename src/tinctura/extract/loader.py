@@ -107,6 +107,7 @@ class SheetLoader:
             if "\ufffd" in css and b"\xef\xbf\xbd" not in data:
                 diags.append(Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
                                         "replaced"))
+            del data  # a large sheet: not kept twice while it is parsed
             parsed = parse_stylesheet(css, self.rel(path), max_rules=self.max_rules)
         except bounds.Refused as exc:
             parsed, digest = None, None

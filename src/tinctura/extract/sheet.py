@@ -127,11 +127,16 @@ def parse_stylesheet(css: str, name: str, origin: str = "author",
         if was_enabled:
             gc.enable()
     sheet.line_offset = 0
-    low = css.lower()
-    sheet.uses_color_scheme_media = "prefers-color-scheme" in low
-    sheet.uses_light_dark = "light-dark(" in low
-    sheet.has_color_scheme_property = "color-scheme" in low.replace("prefers-color-scheme", "")
+    # searched without a lower-cased copy (a large sheet's copy is its size again)
+    sheet.uses_color_scheme_media = bool(_PREFERS.search(css))
+    sheet.uses_light_dark = bool(_LIGHT_DARK.search(css))
+    sheet.has_color_scheme_property = bool(_COLOR_SCHEME.search(css))
     return sheet
+
+
+_PREFERS = re.compile("prefers-color-scheme", re.I)
+_LIGHT_DARK = re.compile(r"light-dark\(", re.I)
+_COLOR_SCHEME = re.compile("(?<!prefers-)color-scheme", re.I)
 
 
 # What can hide a brace from the top-level structure: comments, strings (a bad string ends at
@@ -291,7 +296,7 @@ class LazySelector(cssselect2.compiler.CompiledSelector):
 _SELECTOR_CLASS = LazySelector if hasattr(cssselect2.compiler, "_compile_node") else \
     cssselect2.compiler.CompiledSelector
 _COMPILED: dict = {}  # selector text -> (LazySelector or None, dynamic): equal selectors once
-_COMPILED_LIMIT = 200_000
+_COMPILED_LIMIT = 20_000
 
 
 def compile_one(text: str, tokens=None):
