@@ -47,12 +47,22 @@ _STATIC_RE = re.compile(r"(%s)(?![\w-])" % "|".join(re.escape(k) for k in _STATI
 @dataclass(slots=True)  # slots: a large stylesheet has hundreds of thousands
 class Decl:
     name: str
-    tokens: list
+    parsed: list | None = field(compare=False)  # the value's tokens once read (``tokens``)
     important: bool
     line: int
     text: str  # serialized value, stripped
     column: int = 0
     _shifted: bool = False  # line already counted from the page (loader._shift_lines)
+
+    @property
+    def tokens(self) -> list:
+        """The value's tokens, read from ``text`` on first use: most declarations of a large
+        stylesheet are never matched, and their token trees were most of its memory."""
+        parsed = self.parsed
+        if parsed is None:
+            parsed = self.parsed = [t for t in tinycss2.parse_component_value_list(self.text)
+                                    if t.type != "comment"]
+        return parsed
 
     def provenance(self, sheet: str, selector: str, origin: str) -> Declaration:
         return Declaration(self.name, self.text, sheet, self.line, selector, origin,
@@ -101,9 +111,8 @@ def parse_declarations(content, *, relevant_only: bool = True, line_offset: int 
         name = item.lower_name if not item.name.startswith("--") else item.name
         if relevant_only and not name.startswith("--") and name not in RELEVANT:
             continue
-        value = [t for t in item.value if t.type != "comment"]
-        text = tinycss2.serialize(value).strip()
-        out.append(Decl(name, value, item.important, item.source_line + line_offset, text,
+        text = tinycss2.serialize([t for t in item.value if t.type != "comment"]).strip()
+        out.append(Decl(name, None, item.important, item.source_line + line_offset, text,
                         item.source_column))
     return out
 
