@@ -4,7 +4,7 @@
 """
 from __future__ import annotations
 
-from . import text
+from . import links, nontext, text
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
 __all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected", "run"]
@@ -12,6 +12,8 @@ __all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "se
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {
     "TC100": text.check_text_ratio,
+    "TC110": nontext.check_ui_ratio,
+    "TC120": links.check_link_cue,
 }
 
 

@@ -22,6 +22,8 @@ from dataclasses import dataclass, field
 
 from . import problems as problems_mod
 from .colour import wcag
+from .extract import exempt as exempt_mod
+from .extract import links as link_mod
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -42,6 +44,9 @@ class Options:
     rules: tuple = ()  # rule codes or slugs to run; empty: all
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
+    # exemptions switched on (extract/exempt.py ids); None: all of them
+    exemptions: tuple | None = None
+    logotypes: tuple = ()  # CSS selectors of logos and brand names set as text (SC 1.4.3)
 
 
 @dataclass
@@ -112,6 +117,10 @@ class Site:
             result.schemes = list(schemes)
             fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
             structure = PageStructure(root, ruleset.structure)  # likewise
+            # scope decisions mark the tree before any walk: the marks reach every style key
+            exemptions = exempt_mod.mark(root, exempt_mod.enabled_set(self.options.exemptions),
+                                         self.options.logotypes, structure.text)
+            link_mod.mark_running(root)
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 changed = [attr for _, attr, _ in scheme.attributes]
@@ -132,7 +141,7 @@ class Site:
                                         keep_layers=self.options.keep_samples,
                                         lazy=not self.options.keep_samples,
                                         fingerprints=fingerprints, replay=self.options.replay,
-                                        structure=structure)
+                                        structure=structure, exemptions=exemptions)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                 finally:
@@ -291,6 +300,7 @@ class _Verdict:
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
         self.stats = _canonical(("stats", stats["samples"], stats["exempt"],
+                                 tuple(sorted(stats["exempt_reasons"].items())),
                                  tuple(sorted(stats["undetermined"].items())),
                                  tuple(stats["schemes"])), stats)
 
@@ -332,18 +342,22 @@ def _verdict(fragment, options) -> _Verdict:
 
 def sample_stats(samples) -> dict:
     """What the summary needs of a page's samples once they are dropped."""
-    undetermined = {}
+    undetermined, exempt = {}, {}
     for s in samples:
-        if s.status == UNDETERMINED and not s.exempt:
+        if s.exempt:
+            exempt[s.exempt] = exempt.get(s.exempt, 0) + 1
+        elif s.status == UNDETERMINED:
             key = s.reason or "unknown"
             undetermined[key] = undetermined.get(key, 0) + 1
-    return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
+    return {"samples": len(samples), "exempt": sum(exempt.values()), "exempt_reasons": exempt,
             "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples})}
 
 
 def _add_stats(into: dict, more: dict, times: int = 1) -> None:
     into["samples"] += more["samples"] * times
     into["exempt"] += more["exempt"] * times
+    for reason, count in more["exempt_reasons"].items():
+        into["exempt_reasons"][reason] = into["exempt_reasons"].get(reason, 0) + count * times
     for reason, count in more["undetermined"].items():
         into["undetermined"][reason] = into["undetermined"].get(reason, 0) + count * times
     if not set(more["schemes"]) <= set(into["schemes"]):

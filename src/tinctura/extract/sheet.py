@@ -22,7 +22,11 @@ RELEVANT = frozenset(
     """color background background-color background-image background-clip -webkit-background-clip
     opacity display visibility content font font-size font-weight color-scheme
     -webkit-text-fill-color text-shadow filter mix-blend-mode backdrop-filter fill
-    position clip clip-path width height overflow all list-style list-style-type""".split()
+    position clip clip-path width height overflow all list-style list-style-type
+    text-decoration text-decoration-line border border-bottom border-block-end border-style
+    border-bottom-style border-block-end-style border-top border-block border-block-start
+    border-color border-bottom-color border-width border-bottom-width box-shadow outline
+    outline-style outline-width outline-color font-style""".split()
 )
 
 # Dynamic pseudo-classes are rewritten into attributes that the engine sets on an element to

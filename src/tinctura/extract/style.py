@@ -106,7 +106,7 @@ class Style:
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
                  "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style",
-                 "hidden_within")
+                 "hidden_within", "cues", "in_link")
 
     def __init__(self):
         self.color = BLACK
@@ -134,6 +134,8 @@ class Style:
         self.hidden_within = False  # this element or an ancestor is visually hidden
         self.svg_fill = None
         self.disabled = False
+        self.cues = frozenset()  # non-colour cues its own declarations draw (extract/links.py)
+        self.in_link = False  # inside an <a href> (itself included)
 
 
 ROOT_PARENT = Style()
