@@ -119,8 +119,9 @@ class Site:
             structure = PageStructure(root, ruleset.structure)  # likewise
             # scope decisions mark the tree before any walk: the marks reach every style key
             exemptions = exempt_mod.mark(root, exempt_mod.enabled_set(self.options.exemptions),
-                                         self.options.logotypes, structure.text)
-            link_mod.mark_running(root)
+                                         self.options.logotypes, structure.text,
+                                         source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
+                                         else data, per_link=link_mod.consider)
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 changed = [attr for _, attr, _ in scheme.attributes]

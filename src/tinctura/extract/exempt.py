@@ -16,8 +16,11 @@ text not visible to anyone, is settled in ``settle`` from the sample's own pixel
 """
 from __future__ import annotations
 
+import re
 import unicodedata
 from dataclasses import dataclass
+
+from lxml import etree
 
 MARK = "data-tinctura-exempt-"
 WCAG = "https://www.w3.org/TR/WCAG22/"
@@ -248,23 +251,54 @@ def compile_logotypes(selectors) -> list:
     return compiled
 
 
-def mark(root, enabled: frozenset = frozenset(IDS), logotypes=(), text_of=None) -> Decisions:
+def mark(root, enabled: frozenset = frozenset(IDS), logotypes=(), text_of=None,
+         source=None, per_link=None) -> Decisions:
     """Decide the page's exemptions and mark the decided elements (see the module docstring).
 
     ``text_of(el)``: the element's own text (``PageStructure.text`` shares it with the walk).
+    ``source``: the page's HTML, when at hand: a search of it skips the scans a page cannot
+    need (most pages have no disabled control and nothing hidden from assistive technology).
+    ``per_link(a)``: called for every ``a href`` on the way (one pass over the controls serves
+    both; ``extract/links.py`` marks the links in running text).
     """
     if text_of is None:
-        from .html import own_text as text_of
+        text_of = _own
     found = Decisions(enabled)
-    _inactive(root, found)
+
+    if source is not None and isinstance(source, bytes):
+        words = (b"disabled", b"aria-hidden", b"aria-label", b"title")
+        present = {w.decode(): w in source for w in words}
+        pua = any(lead in source for lead in _PUA_LEADS) and bool(_PUA_BYTES.search(source))
+    else:
+        text = source if isinstance(source, str) else None
+        present = {w: text is None or w in text
+                   for w in ("disabled", "aria-hidden", "aria-label", "title")}
+        pua = text is None or bool(_PUA_TEXT.search(text))
+    if present["disabled"]:
+        _inactive(root, found)
     if "logotype" in enabled and logotypes:
         _logotypes(root, logotypes, found)
-    _hidden(root, found, text_of)
-    if "icon" in enabled or "decorative-icon" in enabled:
-        _icons(root, found, text_of)
+    if present["aria-hidden"]:
+        _hidden(root, found, text_of)
+    if pua and ("icon" in enabled or "decorative-icon" in enabled):
+        _private_use(root, found, text_of)
+    glyphs = "icon" in enabled and (present["aria-label"] or present["title"])
+    if glyphs or per_link is not None:
+        _controls(root, found, text_of, glyphs, per_link)
     for el, ident in found.by_element.items():
         el.set(MARK + ident, "")
     return found
+
+
+# U+E000..U+F8FF in UTF-8 (EE 80 80 .. EF A3 BF), planes 15-16 (F3 B0.. F4 8F), and character
+# references in those ranges (decimal 57344-63743 or hex E000-F8FF)
+_PUA_BYTES = re.compile(rb"\xee[\x80-\xbf]|\xef[\x80-\xa3]|\xf3[\xb0-\xbf]|\xf4[\x80-\x8f]|"
+                        rb"&#[xX][eEfF][0-9a-fA-F]{3};|&#(?:5[7-9]|6[0-3])\d{3};")
+_PUA_LEADS = (b"\xee", b"\xef", b"\xf3", b"\xf4", b"&#")  # memchr-fast prefilter
+_PUA_TEXT = re.compile("[\ue000-\uf8ff\U000f0000-\U0010fffd]|&#[xX][eEfF][0-9a-fA-F]{3};|"
+                       "&#(?:5[7-9]|6[0-3])\\d{3};")
+_SHORT_TEXT = etree.XPath("//text()[string-length(normalize-space()) > 0 and "
+                          "string-length(normalize-space()) <= 4]")
 
 
 def _subtree(el, found, ident, skip=None) -> None:
@@ -326,34 +360,45 @@ def _hidden(root, found, text_of) -> None:
             found.put(el, "decoration" if text and wordless(text) else "hidden")
 
 
-def _icons(root, found, text_of) -> None:
-    # Candidates: elements with a short own text (one glyph, or a few icon-font characters).
-    for node in root.xpath("//text()[string-length(normalize-space()) > 0 and "
-                           "string-length(normalize-space()) <= 4]"):
+def _private_use(root, found, text_of) -> None:
+    """Icon-font characters as text: an icon when it carries meaning, else decoration."""
+    for node in _SHORT_TEXT(root):
         el = node.getparent()
+        if el is not None and node.is_tail:
+            el = el.getparent()
         if el is None or not isinstance(el.tag, str):
             continue
-        if node.is_tail:
-            el = el.getparent()
-            if el is None:
-                continue
-        if el in found.by_element and found.by_element[el] != "hidden":
+        if found.by_element.get(el, "hidden") != "hidden":
             continue
         text = text_of(el)
-        if not text or len(text) > 4:
+        if not text or not only_private_use(text):
             continue
-        if only_private_use(text):
-            hidden = found.by_element.get(el) == "hidden"
-            meaningful = not hidden and (_named(el) or _control_of(el) is not None)
-            if hidden:  # an aria-hidden glyph is the only visual cue of a text-less control
-                control = _control_of(el)
-                meaningful = control is not None and not _visible_words(control, text_of)
-            found.put(el, "icon" if meaningful else "decorative-icon")
-        elif single_glyph(text):
-            control = _control_of(el)
-            if control is not None and _named(control) and \
-                    " ".join("".join(control.itertext()).split()) == text:
-                found.put(el, "icon")
+        hidden = found.by_element.get(el) == "hidden"
+        control = _control_of(el)
+        if hidden:  # an aria-hidden glyph is still the only visual cue of a text-less control
+            meaningful = control is not None and not _visible_words(control, text_of)
+        else:
+            meaningful = control is not None or _named(el)
+        found.put(el, "icon" if meaningful else "decorative-icon")
+
+
+def _controls(root, found, text_of, glyphs, per_link) -> None:
+    """One pass over links and buttons: a single letter or symbol that is all the visible
+    text of a named one is an icon; each link is handed to ``per_link``."""
+    for control in root.iter("a", "button", "summary"):
+        attrib = control.attrib
+        if per_link is not None and control.tag == "a" and "href" in attrib:
+            per_link(control)
+        if not glyphs or not ("title" in attrib or "aria-label" in attrib
+                              or "aria-labelledby" in attrib) or not _named(control):
+            continue
+        text = " ".join("".join(control.itertext()).split())
+        if not text or len(text) > 4 or not single_glyph(text):
+            continue
+        for el in control.iter():
+            if isinstance(el.tag, str) and text_of(el):
+                if found.by_element.get(el, "hidden") == "hidden":
+                    found.put(el, "icon")
 
 
 def _control_of(el, depth: int = 4):

@@ -16,7 +16,7 @@ from __future__ import annotations
 import unicodedata
 
 from ..model import LinkCues
-from .sheet import STATE_ATTR, parse_declarations
+from .sheet import STATE_ATTR, parse_declarations, split_declarations
 from .style import cascade
 
 RUNNING = "data-tinctura-running"
@@ -30,18 +30,43 @@ BORDERS = ("border", "border-bottom", "border-block-end", "border-style", "borde
 # (state, pseudo-classes on the link, on its ancestors), as the walk's state samples use them
 STATE_CLASSES = {"hover": (("hover",), ("hover",)),
                  "focus": (("focus", "focus-visible", "focus-within"), ("focus-within",))}
-WEIGHT_STEP = 300  # a font-weight change this large reads as bold against regular (common practice)
+WEIGHT_STEP = 300  # a font-weight change this large reads as bold against regular (common
+# practice, no published threshold)
 
 
 def mark_running(root) -> int:
-    """Mark the links that stand inside running text; returns how many."""
-    marked = 0
-    candidates = root.xpath("//a[@href][ancestor::*[position() <= 3][text()[normalize-space()]]]")
-    for link in candidates:
-        if in_running_text(link):
-            link.set(RUNNING, "")
-            marked += 1
-    return marked
+    """Mark the links that stand inside running text; returns how many (``consider`` does
+    it link by link, inside the exemptions' pass over the page's controls)."""
+    return sum(consider(link) for link in root.iter("a") if link.get("href") is not None)
+
+
+def consider(link) -> bool:
+    """Mark ``link`` when it stands in running text. Cheap on pages of navigation links: only
+    a link with text next to it (or next to its inline wrapper) is looked at further."""
+    if _text_next_to(link) and in_running_text(link):
+        link.set(RUNNING, "")
+        return True
+    return False
+
+
+def _text_next_to(el, depth: int = 3) -> bool:
+    for _ in range(depth):
+        if el.tail and not el.tail.isspace():
+            return True
+        parent = el.getparent()
+        if parent is None:
+            return False
+        if parent.text and not parent.text.isspace():
+            return True
+        prev = el.getprevious()
+        while prev is not None:
+            if prev.tail and not prev.tail.isspace():
+                return True
+            prev = prev.getprevious()
+        if parent.tag not in INLINE:
+            return False
+        el = parent
+    return False
 
 
 def in_running_text(link) -> bool:
@@ -54,19 +79,17 @@ def in_running_text(link) -> bool:
 
 
 def _text_around(block, link) -> str:
-    """The text of ``block``'s lines outside ``link`` (nested blocks left out)."""
+    """The text of ``block``'s lines outside ``link`` (nested blocks left out), in no
+    particular order (only whether it holds words matters). Iterative: a recursive closure
+    would make a reference cycle that keeps the page's tree alive until a garbage collection."""
     parts = [block.text or ""]
-
-    def visit(el):
-        for child in el:
-            if child is link or not isinstance(child.tag, str):
-                pass
-            elif child.tag in INLINE:
-                parts.append(child.text or "")
-                visit(child)
-            parts.append(child.tail or "")
-
-    visit(block)
+    stack = list(block)
+    while stack:
+        child = stack.pop()
+        if child is not link and isinstance(child.tag, str) and child.tag in INLINE:
+            parts.append(child.text or "")
+            stack.extend(child)
+        parts.append(child.tail or "")
     return "".join(parts)
 
 
@@ -140,64 +163,80 @@ def context(walker, el, chain, fg, bg):
 
 
 def _context(walker, link, chain, at):
-    parent_el, parent = chain[at - 1]
-    text, _ = (parent.fill_color if parent.fill_color is not None
-               else (parent.color, None))
+    parent = chain[at - 1][1]
+    text = parent.fill_color[0] if parent.fill_color is not None else parent.color
     surround, parent_bg = walker._paint(chain[:at], text)[0]
-    rest = set()
-    for _, s in chain[at:]:
-        rest |= getattr(s, "cues", frozenset())
     link_style = chain[at][1]
-    rest |= _font_cues(link_style, parent)
+    rest = set(state_cues(walker, link, link_style, None))
+    if abs(chain[-1][1].font_weight - parent.font_weight) >= WEIGHT_STEP:
+        rest.add("weight")
     own_bg = walker._paint(chain[:at + 1], (0.0, 0.0, 0.0, 0.0))[0][1]
     if any(abs(a - b) > 1 / 255 for a, b in zip(own_bg, parent_bg)):
         rest.add("background")
     states = {}
     for state in ("hover", "focus"):
-        states[state] = tuple(sorted(rest | state_cues(walker, link, link_style, parent, state)))
+        states[state] = tuple(sorted(rest | state_cues(walker, link, link_style, state)))
     return LinkCues(surround=tuple(surround), rest=tuple(sorted(rest)), hover=states["hover"],
                     focus=states["focus"])
 
 
-def _font_cues(style, parent) -> set:
-    if abs(style.font_weight - parent.font_weight) >= WEIGHT_STEP:
-        return {"weight"}
-    return set()
-
-
-def state_cues(walker, link, link_style, parent_style, state) -> frozenset:
-    """Cues the link's own declarations draw with ``state`` in force (pointer over it and its
-    ancestors, or keyboard focus). The link's parent keeps its resting style: what a state
-    changes in the ancestors' inherited values is not followed here (documented in TC120).
-    Keyboard focus shows the user agent's focus ring unless the author removes it."""
+def state_cues(walker, link, link_style, state) -> frozenset:
+    """Cues the link's own declarations draw at rest (``state`` None), or with ``state`` in
+    force (pointer over it and its ancestors, or keyboard focus). Only the link's own
+    declarations count: what a state changes on its ancestors is not followed (documented in
+    TC120). Keyboard focus shows the user agent's focus ring unless the author removes it."""
     cache = walker.cache.cores
     key = ("link-state", link_style, state)
     got = cache.get(key)
     if got is not None:
         return got
-    on_self, on_path = STATE_CLASSES[state]
     marked = []
-    for el in [link] + list(link.iterancestors()):
-        for name in (on_self if el is link else on_path):
-            attr = STATE_ATTR + name
-            if el.get(attr) is None:
-                el.set(attr, "")
-                marked.append((el, attr))
+    if state is not None:
+        on_self, on_path = STATE_CLASSES[state]
+        for el in [link] + list(link.iterancestors()):
+            for name in (on_self if el is link else on_path):
+                attr = STATE_ATTR + name
+                if el.get(attr) is None:
+                    el.set(attr, "")
+                    marked.append((el, attr))
     try:
-        rules = walker.index.match(walker.structure.wrapper_of(link))
+        wrapper = walker.structure.wrapper_of(link)
+        rules = [r for r in walker.index.cue_rules if r.pseudo is None and r.compiled.test(wrapper)]
         inline = link.get("style")
-        winners = cascade(rules, parse_declarations(inline) if inline else (), walker.ruleset)
-        style = walker.resolver.compute(winners, parent_style, False)
+        decls = [d for d in split_declarations(inline)[1]] if inline else ()
+        winners = cascade(rules, decls, walker.ruleset)
     finally:
         for el, attr in marked:
             del el.attrib[attr]
-    found = set(cues(winners)) | _font_cues(style, parent_style)
-    if style.bg[3] > 0 and style.bg != link_style.bg:
-        found.add("background")
+    found = set(cues(winners))
     if state == "focus" and not _outline_removed(winners):
         found.add("outline")
+    if state is not None:
+        found |= _state_background(walker, link, link_style, state)
     got = cache[key] = frozenset(found)
     return got
 
 
-__all__ = ["RUNNING", "context", "cues", "in_running_text", "mark_running", "state_cues"]
+def _state_background(walker, link, link_style, state) -> set:
+    """A background of the link's own that appears or changes with the state."""
+    colours = walker.cache.cores.get(("link-bg", link_style, state))
+    if colours is None:
+        marked = []
+        on_self, _ = STATE_CLASSES[state]
+        for name in on_self:
+            attr = STATE_ATTR + name
+            if link.get(attr) is None:
+                link.set(attr, "")
+                marked.append(attr)
+        try:
+            rules = walker.index.match(walker.structure.wrapper_of(link))
+            inline = link.get("style")
+            winners = cascade(rules, parse_declarations(inline) if inline else (),
+                              walker.ruleset)
+            style = walker.resolver.compute(winners, link_style.parent, False)
+        finally:
+            for attr in marked:
+                del link.attrib[attr]
+        colours = walker.cache.cores[("link-bg", link_style, state)] = (style.bg,)
+    bg = colours[0]
+    return {"background"} if bg[3] > 0 and bg != link_style.bg else set()

@@ -7,6 +7,7 @@ few selectors are tested on each element.
 """
 from __future__ import annotations
 
+import dataclasses
 import re
 from functools import cached_property
 
@@ -36,9 +37,13 @@ class RuleSet:
                 ranks.setdefault(path[:k], len(ranks))
         self.unlayered_rank = len(ranks)
         self.layer_ranks = ranks
-        self.rules = rules
         for order, rule in enumerate(rules):
             rule.order = order
+        # rules drawing non-colour cues, matched apart for links (extract/links.py); rules with
+        # nothing else stay out of the colour cascade and its keys
+        self.cue_rules = [r for r in rules if r.cue_decls]
+        rules = [r for r in rules if r.decls]
+        self.rules = rules
         self.uses_has = any(":has(" in r.selector_text for r in rules)
         self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
@@ -112,10 +117,14 @@ class RuleSet:
         if idx is None:
             idx = self._indexes[env.key] = Index(
                 [r for r in self.rules if all(env.matches(m) for m in r.media)], self)
+            idx.cue_rules = [dataclasses.replace(r, decls=r.cue_decls) for r in self.cue_rules
+                             if all(env.matches(m) for m in r.media)]
         return idx
 
 
 class Index:
+    cue_rules = ()  # set by RuleSet.index: rules of non-colour cues, with those as their decls
+
     def __init__(self, rules, ruleset: RuleSet):
         self.by_id, self.by_class, self.by_tag, self.by_attr, self.other = {}, {}, {}, {}, []
         self.ruleset = ruleset

@@ -148,9 +148,10 @@ class PageWalker:
         style.has_opacity_above = parent_style.has_opacity_above or parent_style.opacity < 1
         style.disabled = parent_style.disabled or _disabled(el)
         style.hidden_within = parent_style.hidden_within or style.visually_hidden
-        style.in_link = parent_style.in_link or (el.tag == "a" and el.get("href") is not None)
-        if style.in_link:
-            style.cues = link_mod.cues(winners)
+        if parent_style.in_link:
+            style.in_link = parent_style.in_link
+        elif el.tag == "a" and el.get("href") is not None:  # 2: a link in running text
+            style.in_link = 2 if el.get(link_mod.RUNNING) is not None else 1
         pseudos = {}
         for rule in rules:
             if rule.pseudo in ("before", "after", "placeholder", "marker"):
@@ -473,7 +474,8 @@ class PageWalker:
                                        self.structure.text) if found or kind == "generated" \
                 else ""
         link = link_mod.context(self, el, chain, fg, bg) \
-            if style.in_link and self.state == REST and kind == "text" and not exempt else None
+            if style.in_link == 2 and self.state == REST and kind == "text" and not exempt \
+            else None
         # own texts arrive collapsed; generated content and attribute values may not
         text = text[:60] if kind == "text" else " ".join(text.split())[:60]
         self.samples.append(Sample(

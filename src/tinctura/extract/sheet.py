@@ -22,11 +22,15 @@ RELEVANT = frozenset(
     """color background background-color background-image background-clip -webkit-background-clip
     opacity display visibility content font font-size font-weight color-scheme
     -webkit-text-fill-color text-shadow filter mix-blend-mode backdrop-filter fill
-    position clip clip-path width height overflow all list-style list-style-type
-    text-decoration text-decoration-line border border-bottom border-block-end border-style
+    position clip clip-path width height overflow all list-style list-style-type""".split()
+)
+# Properties that draw cues other than colour (links in running text, SC 1.4.1). Kept apart in
+# ``StyleRule.cue_decls``: a rule with only these is never in the colour index (no cost to the
+# walk); ``extract/links.py`` matches them for the few links that need it.
+CUES = frozenset(
+    """text-decoration text-decoration-line border border-bottom border-block-end border-style
     border-bottom-style border-block-end-style border-top border-block border-block-start
-    border-color border-bottom-color border-width border-bottom-width box-shadow outline
-    outline-style outline-width outline-color font-style""".split()
+    box-shadow outline outline-style outline-width font-style""".split()
 )
 
 # Dynamic pseudo-classes are rewritten into attributes that the engine sets on an element to
@@ -70,6 +74,7 @@ class StyleRule:
     order: int = 0
     attr_names: tuple = ()  # attribute names the rightmost compound requires (for indexing)
     dynamic: bool = False  # uses a rewritten dynamic pseudo-class
+    cue_decls: list = field(default_factory=list)  # declarations of CUES properties
 
 
 @dataclass
@@ -87,13 +92,13 @@ class ParsedSheet:
     has_color_scheme_property: bool = False
 
 
-def parse_declarations(content, *, relevant_only: bool = True) -> list:
+def parse_declarations(content, *, relevant_only: bool = True, keep=RELEVANT) -> list:
     out = []
     for item in tinycss2.parse_blocks_contents(content, skip_whitespace=True, skip_comments=True):
         if item.type != "declaration":
             continue
         name = item.lower_name if not item.name.startswith("--") else item.name
-        if relevant_only and not name.startswith("--") and name not in RELEVANT:
+        if relevant_only and not name.startswith("--") and name not in keep:
             continue
         value = [t for t in item.value if t.type != "comment"]
         text = tinycss2.serialize(value).strip()
@@ -202,9 +207,19 @@ def compile_one(text: str):
     return compiled[0], rewritten != text
 
 
+def split_declarations(content) -> tuple:
+    """(declarations the engine reads, declarations of non-colour cues), in one parse."""
+    decls = parse_declarations(content, keep=_READ)
+    keep = [d for d in decls if d.name.startswith("--") or d.name in RELEVANT]
+    return keep, [d for d in decls if d.name in CUES]
+
+
+_READ = RELEVANT | CUES
+
+
 def _style_rule(rule, sheet, origin, media, layer):
-    decls = parse_declarations(rule.content)
-    if not decls:
+    decls, cue_decls = split_declarations(rule.content)
+    if not decls and not cue_decls:
         return
     for part in split_selector_list(rule.prelude):
         text = tinycss2.serialize(part).strip()
@@ -218,6 +233,7 @@ def _style_rule(rule, sheet, origin, media, layer):
             selector_text=text, compiled=compiled, specificity=compiled.specificity,
             pseudo=compiled.pseudo_element, decls=decls, media=media, layer=layer,
             origin=origin, sheet=sheet.name, attr_names=_rightmost_attrs(part), dynamic=dynamic,
+            cue_decls=cue_decls,
         ))
 
 
