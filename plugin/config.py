@@ -34,6 +34,29 @@ class Schemes(c.BaseConfigOption[list]):
             raise base.ValidationError(str(exc)) from None
 
 
+class Logotypes(c.ListOfItems):
+    """CSS selectors of logotypes; a selector tinctura cannot read is named in the error."""
+
+    def __init__(self, default=None) -> None:
+        super().__init__(c.Type(str), default=default)
+
+    def run_validation(self, value: object) -> list:
+        value = super().run_validation(value)
+        from tinctura.extract.exempt import compile_logotypes
+
+        try:
+            compile_logotypes(value)
+        except ValueError as exc:
+            raise base.ValidationError(str(exc)) from None
+        return value
+
+
+def _exemption_ids() -> tuple:
+    from tinctura.extract.exempt import IDS
+
+    return IDS
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -44,3 +67,6 @@ class TincturaConfig(base.Config):
     log_every = c.Type(bool, default=False)  # one log line per occurrence, not per problem
     schemes = Schemes()  # None: discover the schemes from each page
     jobs = c.Optional(PositiveInt())  # processes; unset: the number of cores
+    # exemption ids switched on (unset: all; `tinctura rules exemptions` lists them)
+    exemptions = c.Optional(c.ListOfItems(c.Choice(_exemption_ids())))
+    logotypes = Logotypes(default=[])  # CSS selectors of logos and brand names set as text

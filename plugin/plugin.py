@@ -68,6 +68,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             states=self.config.states,
             schemes=self.config.schemes,
             keep_samples=False,  # a build log needs counts, findings and declaration uses
+            exemptions=tuple(self.config.exemptions) if self.config.exemptions is not None
+            else None,
+            logotypes=tuple(self.config.logotypes),
         )
 
     def workers(self) -> int:

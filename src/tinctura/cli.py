@@ -80,6 +80,12 @@ def _site_options(p: argparse.ArgumentParser) -> None:
                    help="JSON list of colour schemes ({name, media, attributes}) replacing "
                         "discovery")
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+    p.add_argument("--no-exempt", action="append", default=[], metavar="ID",
+                   help="judge what this exemption leaves out of the contrast rules "
+                        "(repeatable; ids in `tinctura rules exemptions`)")
+    p.add_argument("--logotype", action="append", default=[], metavar="SELECTOR",
+                   help="CSS selector of a logo or brand name set as text, exempt from the "
+                        "contrast ratio (WCAG SC 1.4.3 \"Logotypes\"; repeatable)")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -144,7 +150,8 @@ def build_parser() -> argparse.ArgumentParser:
 
     rules_cmd = sub.add_parser("rules", help="describe the rules",
                                description="Describe every rule, or one by code or slug.")
-    rules_cmd.add_argument("rule", nargs="?", metavar="RULE", help="a rule code or slug, e.g. TC100")
+    rules_cmd.add_argument("rule", nargs="?", metavar="RULE",
+                           help="a rule code or slug, e.g. TC100, or `exemptions`")
     rules_cmd.set_defaults(run=run_rules)
     return parser
 
@@ -160,7 +167,21 @@ def options_from(args) -> engine.Options:
         exclude=tuple(args.exclude),
         jobs=args.jobs,
         schemes=load_schemes(args.schemes) if getattr(args, "schemes", None) else None,
+        **scope_options(getattr(args, "no_exempt", []), getattr(args, "logotype", [])),
     )
+
+
+def scope_options(no_exempt, logotypes) -> dict:
+    """The ``exemptions`` and ``logotypes`` options, checked (a usage error names the bad one)."""
+    from tinctura.extract import exempt
+
+    try:
+        off = exempt.enabled_set(no_exempt) if no_exempt else frozenset()
+        exempt.compile_logotypes(logotypes)
+    except ValueError as exc:
+        raise UsageError(str(exc)) from None
+    chosen = None if not off else tuple(i for i in exempt.IDS if i not in off)
+    return {"exemptions": chosen, "logotypes": tuple(logotypes)}
 
 
 def load_schemes(path: str) -> list:
@@ -347,7 +368,30 @@ def describe_rule(rule, tw: TerminalWriter) -> None:
         tw.line(f"    {title}: {url}")
 
 
+def describe_exemptions(tw: TerminalWriter) -> None:
+    from tinctura.extract.exempt import EXEMPTIONS
+
+    tw.line("What the contrast rules leave out, and why (WCAG 2.2 scope)", "bold")
+    tw.line("  Each can be switched off with --no-exempt ID (plugin: `exemptions`).")
+    for e in EXEMPTIONS:
+        tw.line()
+        tw.line(f"{e.id}: {e.title}" + (f" (judged by {e.judged_by})" if e.judged_by else ""),
+                "bold")
+        for line in textwrap.wrap("Applies to " + e.applies_to + ".", 84):
+            tw.line(f"    {line}")
+        for line in textwrap.wrap(f"{e.source}: \u201c{e.quote}\u201d", 84):
+            tw.line(f"    {line}")
+        tw.line(f"    {e.url}")
+        tw.line("  Exempt example", "bold")
+        tw.line(f"    {e.exempt_example}", "dim")
+        tw.line("  Judged example", "bold")
+        tw.line(f"    {e.judged_example}", "dim")
+
+
 def run_rules(args, stdout, stderr) -> int:
+    if args.rule and args.rule.strip().lower() in ("exemptions", "exempt", "scope"):
+        describe_exemptions(TerminalWriter(stdout))
+        return exit_status()
     if args.rule:
         try:
             chosen = [rules.get(args.rule)]
@@ -361,6 +405,9 @@ def run_rules(args, stdout, stderr) -> int:
         if n:
             tw.line()
         describe_rule(rule, tw)
+    if not args.rule:
+        tw.line()
+        describe_exemptions(tw)
     return exit_status()
 
 

@@ -60,8 +60,9 @@ EXEMPTIONS = (
     Exemption(
         "inactive-control", "Disabled control",
         "text of a control with the `disabled` attribute, and of everything a disabled "
-        "`fieldset` disables (all but the contents of its first `legend`)",
-        SC_1_4_3_INCIDENTAL + "; HTML Living Standard, 4.10.15 The fieldset element",
+        "`fieldset` disables: all but the contents of its first `legend` (HTML Living "
+        "Standard, the fieldset element)",
+        SC_1_4_3_INCIDENTAL,
         INCIDENTAL, WCAG + "#contrast-minimum",
         _PAGE.format(title="Exempt", body=f'<button disabled style="{_FAINT}">Subject: '
                                           'erase the log</button>'),
@@ -79,9 +80,9 @@ EXEMPTIONS = (
     Exemption(
         "inactive-widget", "Inside an aria-disabled widget or group",
         "anything inside an element with `aria-disabled=\"true\"` whose role (explicit or "
-        "implicit) is a widget, composite or group role of WAI-ARIA 1.2",
-        SC_1_4_3_INCIDENTAL + "; WAI-ARIA 1.2, aria-disabled", INCIDENTAL,
-        "https://www.w3.org/TR/wai-aria-1.2/#aria-disabled",
+        "implicit) is a widget, composite or group role, the roles WAI-ARIA 1.2 applies "
+        "aria-disabled to",
+        SC_1_4_3_INCIDENTAL, INCIDENTAL, UNDERSTANDING_1_4_3,
         _PAGE.format(title="Exempt", body=f'<div role="group" aria-disabled="true" '
                                           f'style="{_FAINT}"><span>Subject: tide table</span>'
                                           '</div>'),
@@ -121,7 +122,7 @@ EXEMPTIONS = (
         "link with an accessible name (`aria-label`, `aria-labelledby`, `title`), and "
         "characters of the Unicode Private Use Areas (icon fonts) inside a link or control "
         "or with an accessible name: graphical objects, judged at 3:1 by TC110",
-        "WCAG 2.2, definition of \"text\"; SC 1.4.11 Non-text Contrast", TEXT_DEFINITION,
+        "WCAG 2.2, definition of \"text\"", TEXT_DEFINITION,
         WCAG + "#dfn-text",
         _PAGE.format(title="Exempt", body=f'<button aria-label="Close" style="{_FAINT}">x'
                                           '</button>'),
@@ -131,7 +132,7 @@ EXEMPTIONS = (
         "decorative-icon", "Decorative icon glyph",
         "characters of the Unicode Private Use Areas outside any link or control and without "
         "an accessible name, or hidden from assistive technology: no text, no meaning to judge",
-        "WCAG 2.2, definition of \"text\"; " + SC_1_4_3_INCIDENTAL, TEXT_DEFINITION,
+        "WCAG 2.2, definition of \"text\"", TEXT_DEFINITION,
         WCAG + "#dfn-text",
         _PAGE.format(title="Exempt", body=f'<p><span style="{_FAINT}">\ue0a1</span> Tide '
                                           'table</p>'),
@@ -357,7 +358,9 @@ def _hidden(root, found, text_of) -> None:
             if not isinstance(el.tag, str):
                 continue
             text = text_of(el)
-            found.put(el, "decoration" if text and wordless(text) else "hidden")
+            # icon-font glyphs are settled by _private_use (the only cue of a text-less control)
+            found.put(el, "decoration" if text and wordless(text) and not only_private_use(text)
+                      else "hidden")
 
 
 def _private_use(root, found, text_of) -> None:
