@@ -18,7 +18,8 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
-                                   "schemes": None, "jobs": None}
+                                   "schemes": None, "jobs": None, "exemptions": None,
+                                   "logotypes": []}
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -29,6 +30,8 @@ def test_defaults():
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("jobs", 0, "at least 1"),
+    ("exemptions", ["disabled"], "Expected one of"),
+    ("logotypes", ["p["], "cannot read selector"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "Expected type: <class 'bool'>"),
     ("log_every", 1, "Expected type: <class 'bool'>"),
