@@ -169,19 +169,24 @@ UI_RATIO = Rule(
     ),
     docs=Docs(
         checks=(
-            "The WCAG 2 contrast ratio of graphical objects that carry meaning against the colour "
-            "next to them, 3:1 (SC 1.4.11). Judged today: icon glyphs, that is characters of the "
-            "Unicode Private Use Areas (icon fonts, as text or as ::before content) inside a link "
-            "or control or with an accessible name, and a single letter or symbol that is all "
-            "the visible text of a button or link with an accessible name (a close button "
-            "showing one cross). These leave TC100 (they are not text in a human language) and "
-            "are judged here. Decorative glyphs (hidden from assistive technology, or outside "
-            "any control without a name) are not judged. Not judged yet, because geometry "
-            "decides them and tinctura does not lay pages out: the boundary of form controls "
-            "(border or fill against the adjacent background, which depends on which side and "
-            "how thick), focus indicators (an outline drawn outside the element sits on the "
-            "parent's background, an inset one on the element's), and inline SVG icons (shapes "
-            "may overlap). Each of these needs a review by eye."
+            "The WCAG 2 contrast ratio of graphical objects and user-interface indicators "
+            "against the colours next to them, 3:1 (SC 1.4.11). Judged: (1) icon glyphs: "
+            "characters of the Unicode Private Use Areas (icon fonts, as text or ::before "
+            "content) inside a link or control or with an accessible name, and a single letter "
+            "or symbol that is all the visible text of a button or link with an accessible name; "
+            "they leave TC100 (not text in a human language) and are judged here; (2) the "
+            "boundary of text fields, text areas and selects whose border or fill the author "
+            "set: whichever of border and fill differs from the colour around the control must "
+            "reach 3:1 against it (buttons are identified by their text, judged by TC100; "
+            "controls left to the user agent's look are exempt); (3) an outline the author "
+            "draws on :focus or :focus-visible, against the colour around the element; (4) "
+            "inline SVG icons inside a link or control or with an accessible name, drawn with "
+            "one fill. Not judged: decorative icons (hidden from assistive technology beside "
+            "words, or neither in a control nor named) and disabled controls. Undetermined, "
+            "because geometry decides and tinctura does not lay pages out: an inset focus "
+            "outline (it lies on the element's own fill), SVG icons drawn with strokes or "
+            "several fills. Not checked: a focus indicator made of a colour change alone (its "
+            "contrast with the unfocused state), checkbox and radio marks, chart graphics."
         ),
         why=(
             "An icon that is the only visible label of a control, such as a cross that closes a "
@@ -197,6 +202,7 @@ UI_RATIO = Rule(
             fg="#b8b8b8",
             bg="#ffffff",
             exempt="icon",
+            subject="\u00d7",
             note="Light grey cross on white: 1.98:1, below 3:1 for a graphical object.",
         ),
         good=Example(
@@ -208,6 +214,7 @@ UI_RATIO = Rule(
             fg="#767676",
             bg="#ffffff",
             exempt="icon",
+            subject="\u00d7",
             note="Mid grey cross on white: 4.54:1, above 3:1.",
         ),
         fix=(

@@ -93,10 +93,24 @@ def test_exempt_where_chromium_says_so(report):
 def test_icons_below_three_to_one_as_chromium_paints_them(report):
     """TC110 (WCAG 2.2 SC 1.4.11, 3:1): exactly the icon glyphs Chromium paints below 3:1."""
     found = sorted(_key(f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath)
-                   for f in report.findings if f.rule == "TC110")
+                   for f in report.findings if f.rule == "TC110" and f.sample.kind == "text")
     expected = sorted(_key(e["page"], e["scheme"], e["state"], e["xpath"])
                       for e in EXPECTED["nontext"])
     assert found == expected
+
+
+@pytest.mark.slow
+def test_control_boundaries(report):
+    """TC110 on control boundaries: the README's rows, nothing else (SC 1.4.11)."""
+    import test_example_site as readme
+
+    rows = readme.table("boundary")
+    found = [f for f in report.findings if f.rule == "TC110" and f.sample.kind != "text"]
+    assert sorted((f.sample.page, f.sample.scheme) for f in found) == \
+        sorted((r["page"], r["scheme"]) for r in rows)
+    for f in found:
+        assert f.sample.kind == "boundary"
+        assert (to_hex(f.args["fg"]), to_hex(f.args["bg"])) == ("#d0d0d0", "#ffffff")
 
 
 @pytest.mark.slow

@@ -71,6 +71,16 @@ def test_icons_below_three_to_one():
         assert entry["ratio"] <= 3.0 - MARGIN, row
 
 
+def test_boundary_rows():
+    """Control boundaries below 3:1 (WCAG 2.2 SC 1.4.11), by the WCAG 2.2 formula."""
+    rows = table("boundary")
+    assert rows
+    for row in rows:
+        assert float(row["ratio"]) == pytest.approx(wcag_ratio(row["border"], row["around"]),
+                                                    abs=0.006), row
+        assert float(row["ratio"]) <= 3.0 - MARGIN, row
+
+
 def test_link_rows_compare_link_and_text_colours():
     """TC120 rows: the ratio between link and surrounding text (W3C technique G183: 3:1)."""
     rows = table("linkcue")

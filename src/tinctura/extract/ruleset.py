@@ -42,15 +42,21 @@ class RuleSet:
         # rules drawing non-colour cues, matched apart for links (extract/links.py); rules with
         # nothing else stay out of the colour cascade and its keys
         self.cue_rules = [r for r in rules if r.cue_decls]
+        # what selectors can read stays in the style keys for every rule (cue rules included:
+        # cues are cached per style key); only colour rules are indexed and cascaded
+        # (a cue rule with :has() is left out: one cached answer per style key)
+        keyed = [r for r in rules if r.decls or ":has(" not in r.selector_text]
         rules = [r for r in rules if r.decls]
         self.rules = rules
         self.uses_has = any(":has(" in r.selector_text for r in rules)
+        # siblings only for colour rules: a sibling-sensitive cue rule (`li + li a`) would split
+        # the keys of every navigation item; its answer is the first sibling's (documented)
         self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
         # answers to those tests (so `href` values that differ per page do not split the cache),
         # or the whole value when a test could not be read.
         tests = {}
-        for r in rules:
+        for r in keyed:
             text = r.selector_text
             found = ATTR_TEST.findall(text)
             if len(found) != text.count("["):
@@ -66,7 +72,7 @@ class RuleSet:
                     entry.append((op, value.strip("\"'"), flag.lower() == "i"))
         for name in KEEP_VALUES:
             tests[name] = None
-        texts = [r.selector_text for r in rules]
+        texts = [r.selector_text for r in keyed]
         if any("\\" in text for text in texts):
             tests["class"] = tests["id"] = None
             self.selector_classes = self.selector_ids = frozenset()

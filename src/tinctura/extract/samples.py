@@ -21,6 +21,7 @@ from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
 from . import exempt as exempt_mod
 from . import fragments as frag_mod
 from . import links as link_mod
+from . import nontext as nontext_mod
 from .sheet import STATE_ATTR, parse_declarations
 from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
@@ -274,6 +275,8 @@ class PageWalker:
             if collect and focusable and not style.disabled:
                 self.interactive.append((el, key_id))
             self._texts(el, tag, style, chain, key_id)
+            if tag in nontext_mod.TAGS:  # SC 1.4.11: boundaries, focus rings, icons
+                nontext_mod.emit(self, el, tag, style, chain)
             children = children_of(el)
             if not children:
                 continue

@@ -30,7 +30,8 @@ RELEVANT = frozenset(
 CUES = frozenset(
     """text-decoration text-decoration-line border border-bottom border-block-end border-style
     border-bottom-style border-block-end-style border-top border-block border-block-start
-    box-shadow outline outline-style outline-width font-style""".split()
+    box-shadow outline outline-style outline-width font-style border-color border-bottom-color
+    outline-color outline-offset""".split()
 )
 
 # Dynamic pseudo-classes are rewritten into attributes that the engine sets on an element to
