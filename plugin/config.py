@@ -57,6 +57,21 @@ def _exemption_ids() -> tuple:
     return IDS
 
 
+class Behaviours(c.BaseConfigOption[tuple]):
+    """What the site's own scripts change before a reader sees a page: a list of
+    {action, selector, value[, marker, script]} (tinctura.extract.behaviours)."""
+
+    def run_validation(self, value: object) -> tuple:
+        if value is None:
+            return ()
+        from tinctura.extract.behaviours import from_setting
+
+        try:
+            return from_setting(value)
+        except ValueError as exc:
+            raise base.ValidationError(str(exc)) from None
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -70,3 +85,5 @@ class TincturaConfig(base.Config):
     # exemption ids switched on (unset: all; `tinctura rules exemptions` lists them)
     exemptions = c.Optional(c.ListOfItems(c.Choice(_exemption_ids())))
     logotypes = Logotypes(default=[])  # CSS selectors of logos and brand names set as text
+    behaviours = Behaviours()  # the site's own script behaviours, besides the themes' table
+    theme_behaviours = c.Type(bool, default=True)  # apply the themes' script behaviours

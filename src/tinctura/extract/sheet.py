@@ -22,7 +22,8 @@ RELEVANT = frozenset(
     """color background background-color background-image background-clip -webkit-background-clip
     opacity display visibility content font font-size font-weight color-scheme
     -webkit-text-fill-color text-shadow filter mix-blend-mode backdrop-filter fill
-    position clip clip-path width height overflow all list-style list-style-type""".split()
+    position clip clip-path width height overflow all list-style list-style-type
+    box-shadow""".split()
 )
 # Properties that draw cues other than colour (links in running text, SC 1.4.1). Kept apart in
 # ``StyleRule.cue_decls``: a rule with only these is never in the colour index (no cost to the
