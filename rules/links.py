@@ -38,8 +38,10 @@ def check_link_cue(samples, options) -> list:
         findings.append(Finding(
             rule=LINK_CUE.code, slug=LINK_CUE.slug, severity=LINK_CUE.severity, sample=sample,
             ratio=ratio, required=REQUIRED, level=level,
+            # "bg" is the colour the ratio is taken against: the surrounding text
             args={"problems": "; ".join(problems), "sc": "1.4.1", "fg": tuple(sample.fg),
-                  "surround": tuple(link.surround), "missing": tuple(missing)},
+                  "bg": tuple(link.surround), "surround": tuple(link.surround),
+                  "missing": tuple(missing)},
         ))
     return findings
 

@@ -61,11 +61,11 @@ def emit(walker, el, tag, style, chain) -> None:
 
 
 def _append(walker, el, kind, text, fg, bg, surround, style, status=DETERMINED, reason="",
-            exempt=""):
+            exempt="", cause=None):
     walker.samples.append(Sample(
         walker.page, walker.scheme, REST, walker._getpath(el) + "::" + kind,
         el.sourceline or 0, text, kind, fg, bg, None, style.font_size, style.font_weight,
-        status, reason, (), exempt, Cause(), (), style.bg_cause, surround))
+        status, reason, (), exempt, cause or Cause(), (), style.bg_cause, surround))
 
 
 def _winners(walker, el, states=()):
@@ -96,14 +96,14 @@ def _latest(winners, names):
 
 
 def _line(winners, shorthand, colour_names, current, scheme):
-    """(colour, whether drawn, declaration text) of a border or outline, or None if unset."""
+    """(colour, whether drawn, the declaration's Cause) of a border or outline, or None."""
     w = _latest(winners, shorthand)
     c = _latest(winners, colour_names)
     if w is None and c is None:
         return None
-    colour, drawn, text = current, False, ""
+    colour, drawn, cause = current, False, Cause()
     if w is not None:
-        text = w.decl.text
+        cause = Cause(w.provenance())
         tokens = significant(w.decl.tokens)
         words = {t.lower_value for t in tokens if t.type == "ident"}
         zero = any(t.type in ("number", "dimension") and t.value == 0 for t in tokens)
@@ -119,8 +119,8 @@ def _line(winners, shorthand, colour_names, current, scheme):
         parsed = parse_color(significant(c.decl.tokens), current=current, scheme=scheme)
         if isinstance(parsed, tuple):
             colour = parsed
-        text = text or c.decl.text
-    return colour, drawn, text
+        cause = Cause(c.provenance())
+    return colour, drawn, cause
 
 
 def _boundary(walker, el, tag, style, chain) -> None:
@@ -143,7 +143,7 @@ def _boundary(walker, el, tag, style, chain) -> None:
     exempt = "inactive-control" if style.disabled else ""  # SC 1.4.11: "except for inactive
     # components"
     _append(walker, el, "boundary", f"{tag} boundary", border, fill, outer, style,
-            exempt=exempt)
+            exempt=exempt, cause=line[2] if line is not None else None)
 
 
 def _focus_ring(walker, el, style, chain) -> None:
@@ -164,7 +164,7 @@ def _focus_ring(walker, el, style, chain) -> None:
     status, reason = (UNDETERMINED, "inset focus outline: lies on the element's own fill") \
         if inset else (DETERMINED, "")
     _append(walker, el, "focus-ring", f"{el.tag} focus outline", ring, outer, outer, style,
-            status, reason)
+            status, reason, cause=line[2])
 
 
 def _svg_icon(walker, el, style, chain) -> None:
