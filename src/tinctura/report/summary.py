@@ -4,6 +4,7 @@ from __future__ import annotations
 from collections import Counter
 from dataclasses import dataclass, field
 
+from tinctura import distribution
 from tinctura.model import DETERMINED
 
 SEVERITIES = ("error", "warning", "info")  # most severe first
@@ -27,6 +28,7 @@ class Summary:
     diagnostics: int = 0
     schemes: list = field(default_factory=list)  # scheme names evaluated
     pages_with_findings: int = 0
+    ratios: dict = field(default_factory=dict)  # scheme -> {bin: judged samples} (distribution)
 
 
 def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summary:
@@ -45,6 +47,9 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         exempt.update(stats.get("exempt_reasons", {}))
     for stats in kept:
         undetermined.update(stats["undetermined"])
+    ratios = distribution.histogram(samples)
+    for stats in kept:
+        distribution.merge(ratios, stats.get("ratios", {}))
     skipped: Counter = Counter()
     for page in pages:
         skipped.update(page.skipped)
@@ -78,4 +83,5 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         diagnostics=len(diagnostics) + sum(len(p.diagnostics) for p in pages),
         schemes=names,
         pages_with_findings=len(by_page),
+        ratios=ratios,
     )
