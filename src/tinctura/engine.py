@@ -26,6 +26,7 @@ from .colour import wcag
 from .extract import behaviours as behaviour_mod
 from .extract import exempt as exempt_mod
 from .extract import links as link_mod
+from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -379,15 +380,21 @@ def _verdict(fragment, options) -> _Verdict:
 
 
 def sample_stats(samples) -> dict:
-    """What the summary needs of a page's samples once they are dropped."""
+    """What the summary needs of a page's samples once they are dropped. The counts are of
+    texts: samples of controls and graphics (``extract/nontext.py``) are judged by TC110 but
+    not counted as texts."""
     undetermined, exempt = {}, {}
+    texts = 0
     for s in samples:
+        if s.kind in NON_TEXT:
+            continue
+        texts += 1
         if s.exempt:
             exempt[s.exempt] = exempt.get(s.exempt, 0) + 1
         elif s.status == UNDETERMINED:
             key = s.reason or "unknown"
             undetermined[key] = undetermined.get(key, 0) + 1
-    return {"samples": len(samples), "exempt": sum(exempt.values()), "exempt_reasons": exempt,
+    return {"samples": texts, "exempt": sum(exempt.values()), "exempt_reasons": exempt,
             "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples}),
             "ratios": distribution.histogram(samples)}  # for the audit report's chart
 

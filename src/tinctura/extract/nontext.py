@@ -174,13 +174,16 @@ def _svg_icon(walker, el, style, chain) -> None:
             return  # decorative: hidden, beside words that carry the meaning
     elif exempt_mod._control_of(el) is None and not _named_svg(el):
         return  # neither in a control nor named: nothing says it carries meaning
+    inner = [d for d in el.iter() if isinstance(d.tag, str) and d is not el]
+    if any(d.tag in ("text", "foreignObject") for d in inner):
+        return  # a chart or diagram with text, not an icon: not judged (documented)
     fill = style.svg_fill[0] if style.svg_fill is not None else (0.0, 0.0, 0.0, 1.0)
     status, reason = DETERMINED, ""
-    own = {(d.get("fill") or "").strip().lower() for d in el.iter() if isinstance(d.tag, str)}
+    own = {(d.get("fill") or "").strip().lower() for d in inner}
     own -= {"", "currentcolor", "inherit"}
-    strokes = any(d.get("stroke") not in (None, "none") for d in el.iter()
-                  if isinstance(d.tag, str))
-    if own - {"none"} or strokes or fill[3] <= 0:
+    styled = any(d.get("class") or d.get("style") for d in inner)  # fills from CSS per shape
+    strokes = any(d.get("stroke") not in (None, "none") for d in inner)
+    if own - {"none"} or styled or strokes or fill[3] <= 0:
         status, reason = UNDETERMINED, "icon drawn with strokes or several fills: geometry decides"
     fg, bg = walker._paint(chain, fill)[0] if fill[3] > 0 else (None, None)
     if bg is None:

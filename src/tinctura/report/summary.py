@@ -37,7 +37,9 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
     ``pages``: PageResults; ``findings``: every Finding; ``diagnostics``: site-wide ones
     (page diagnostics are counted from the pages); ``schemes``: Scheme records or names.
     """
-    samples = [s for page in pages for s in page.samples]
+    from tinctura.extract.nontext import KINDS as non_text  # counted as texts: not these
+
+    samples = [s for page in pages for s in page.samples if s.kind not in non_text]
     undetermined = Counter(
         s.reason or "unknown" for s in samples if s.status != DETERMINED and not s.exempt
     )
