@@ -52,7 +52,8 @@ def findings_of(report):
 
 def problems_of(report):
     return [(p.rule, p.scheme, cause_key(p.fg_cause), cause_key(p.bg_cause), p.occurrences,
-             p.pages, round(p.worst_ratio, 9), p.fix_at_cause.colour)
+             p.pages, round(p.worst_ratio, 9),
+             p.fix_at_cause and p.fix_at_cause.colour)  # (None: TC120 is fixed by a cue)
             for p in group(report.findings, uses=report.uses)]
 
 

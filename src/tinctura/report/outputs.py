@@ -10,6 +10,8 @@ import os
 import tempfile
 from collections import Counter
 
+from tinctura.palette import report_page
+
 from .base import findings_by_page
 
 
@@ -30,7 +32,8 @@ def count(findings) -> dict:
 def add_count(counts: dict, f) -> None:
     counts["severity"][f.severity] += 1
     counts["rule"][f.rule] += 1
-    counts["page"][f.sample.page] += 1
+    # site-level findings compare pages: they count under the whole site, where reports list them
+    counts["page"][report_page(f)] += 1
     counts["scheme"][f.sample.scheme] += 1
 
 

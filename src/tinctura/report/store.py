@@ -23,6 +23,7 @@ import tempfile
 from collections import Counter
 
 from tinctura import situations as sit
+from tinctura.palette import report_page
 
 
 class FindingStore:
@@ -45,8 +46,8 @@ class FindingStore:
             return findings
         store = cls()
         pages: dict = {}
-        for f in findings:
-            pages.setdefault(f.sample.page, []).append(f)
+        for f in findings:  # site-level findings under the whole site, as a run stores them
+            pages.setdefault(report_page(f), []).append(f)
         for page, items in pages.items():
             store.add(page, items)
         return store

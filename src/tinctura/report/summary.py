@@ -57,10 +57,9 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         skipped.update(page.skipped)
     counts = getattr(findings, "counts", None)  # a FindingStore counted them as they came
     if counts is None:
-        counts = {"severity": Counter(f.severity for f in findings),
-                  "rule": Counter(f.rule for f in findings),
-                  "page": Counter(f.sample.page for f in findings),
-                  "scheme": Counter(f.sample.scheme for f in findings)}
+        from .outputs import count
+
+        counts = count(findings)
     by_severity = {name: 0 for name in SEVERITIES}
     by_severity.update(counts["severity"])
     by_page = counts["page"]
