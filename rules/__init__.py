@@ -4,7 +4,7 @@
 """
 from __future__ import annotations
 
-from . import text
+from . import deficiency, lightness, text, viewing
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
 __all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected", "run"]
@@ -12,6 +12,9 @@ __all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "se
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {
     "TC100": text.check_text_ratio,
+    "TC200": lightness.check_text_lc,
+    "TC400": deficiency.check_cvd_ratio,
+    "TC500": viewing.check_glare_ratio,
 }
 
 

@@ -26,6 +26,12 @@ def required(value: float) -> str:
     return f"{value:g}"
 
 
+def lc(value: float) -> str:
+    """APCA Lc for display, 2 decimals, cut towards zero (never overstated): -68.546 -> -68.54."""
+    shown = format_ratio(abs(value), 2)
+    return f"-{shown}" if value < 0 and float(shown) else shown
+
+
 def plural(n: int, word: str, words: str | None = None) -> str:
     return f"{n:,} {word if n == 1 else (words or word + 's')}"
 
@@ -69,6 +75,16 @@ def message_args(finding: Finding) -> dict:
             isinstance(c, float) for c in value
         ):
             args[key] = colour(value)
+    for key, value in list(args.items()):  # appearance rules' numbers (TC200, TC400, TC500)
+        if isinstance(value, float):
+            if key == "lc" or key.endswith("_lc"):
+                args[key] = lc(value)
+            elif key.endswith("_ratio"):
+                args[key] = ratio(value)
+            elif key.endswith("_cd"):
+                args[key] = f"{value:.1f}"
+            else:
+                args[key] = f"{value:g}"
     args.update(
         ratio=ratio(finding.ratio),
         required=required(finding.required),
@@ -85,6 +101,12 @@ def message_args(finding: Finding) -> dict:
 def message(finding: Finding) -> str:
     """The finding's message: its rule's template filled in late."""
     return rules.get(finding.rule).message.format(**message_args(finding))
+
+
+def measure(finding: Finding) -> str:
+    """What was measured against what is needed, e.g. ``3.45:1, needs 4.5:1`` or
+    ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's ``measure`` template."""
+    return rules.get(finding.rule).measure.format(**message_args(finding))
 
 
 def finding_colours(finding: Finding) -> tuple:
