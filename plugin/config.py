@@ -34,6 +34,35 @@ class Schemes(c.BaseConfigOption[list]):
             raise base.ValidationError(str(exc)) from None
 
 
+class LcLevels(c.BaseConfigOption[dict]):
+    """APCA Lc per text tier for TC200/TC400: {body, content, headline, any} -> number."""
+
+    def run_validation(self, value: object) -> dict | None:
+        if value is None:
+            return None
+        if not isinstance(value, dict):
+            raise base.ValidationError(f"Expected a mapping of text tier to Lc, got {value!r}")
+        from tinctura.rules.appearance import check_lc_levels
+
+        try:
+            return check_lc_levels(value)
+        except (TypeError, ValueError) as exc:
+            raise base.ValidationError(str(exc)) from None
+
+
+class Severity(c.BaseConfigOption[float]):
+    """A colour-vision deficiency severity, 0 to 1."""
+
+    def __init__(self, default: float = 1.0) -> None:
+        super().__init__()
+        self.default = default
+
+    def run_validation(self, value: object) -> float:
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0 <= value <= 1:
+            raise base.ValidationError(f"Expected a number from 0 to 1, got {value!r}")
+        return float(value)
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -44,3 +73,7 @@ class TincturaConfig(base.Config):
     log_every = c.Type(bool, default=False)  # one log line per occurrence, not per problem
     schemes = Schemes()  # None: discover the schemes from each page
     jobs = c.Optional(PositiveInt())  # processes; unset: the number of cores
+    # colour-appearance rules (TC200, TC400, TC500)
+    lc_levels = LcLevels()  # None: APCA's published levels (body 75, content 60, headline 45, any 30)
+    cvd_severity = Severity(default=1.0)
+    profiles = c.ListOfItems(c.Choice(("office", "dim", "daylight")), default=["daylight"])

@@ -195,7 +195,7 @@ TEXT_LC = Rule(
                 body='<p style="color:#b0b0b0;font-weight:300">Lamp test every evening.</p>',
             ),
             fg="#b0b0b0", bg="#1a1a1a", weight=300,
-            note="Light grey on near-black: 8.02:1 passes WCAG 2, but Lc -58.20 is below the "
+            note="Light grey on near-black: 8.02:1 passes WCAG 2, but Lc -58.21 is below the "
                  "Lc 75 advised for body text.",
         ),
         good=Example(
@@ -204,7 +204,7 @@ TEXT_LC = Rule(
                 body='<p style="color:#e0e0e0;font-weight:300">Lamp test every evening.</p>',
             ),
             fg="#e0e0e0", bg="#1a1a1a", weight=300,
-            note="Near-white on near-black: 13.18:1 and Lc -86.54.",
+            note="Near-white on near-black: 13.18:1 and Lc -86.55.",
         ),
         fix=(
             "Raise the lightness difference: lighter text on dark backgrounds, darker text on "

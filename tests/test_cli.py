@@ -56,7 +56,7 @@ def fake_engine(monkeypatch, tmp_path):
 def test_pair_777_on_white():
     # WCAG 2.2 formula: #777777 on #ffffff = 4.478:1 -> shown 4.47, fails AA body text.
     status, out, err = call("pair", "#777", "white")
-    assert status == 0 and err == ""
+    assert status == 1 and err == ""  # fails AA, the level selected by default
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "#777777 on #ffffff: 4.47:1",
         "16 px at weight 400: normal text",
@@ -64,6 +64,46 @@ def test_pair_777_on_white():
         "*nearest passing: text #767676 (4.54:1)*",
         "  AAA (SC 1.4.6) needs 7:1: fail",
     ])
+
+
+def test_pair_apca_reference_values():
+    # APCA 0.0.98G-4g reference values (shared reference values, verified by the formula):
+    # #888 on #fff = Lc 63.06, #fff on #888 = Lc -68.54; both pairs are 3.54:1 (WCAG 2.2
+    # formula), below AA's 4.5:1, so the command exits 1.
+    status, out, _ = call("pair", "#888", "white")
+    assert status == 1
+    assert "Lc 63.06 (dark on light)" in out
+    status, out, _ = call("pair", "#fff", "#888")
+    assert status == 1
+    assert "Lc -68.54 (light on dark)" in out
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "*meets the levels for: other content text (Lc 60), large headlines (Lc 45)*",
+        "*this text is body text: needs Lc 75: fail",
+    ])
+
+
+def test_pair_red_on_black_names_protanopia():
+    # #ff3030 on black: 5.71:1 (WCAG 2.2 formula) passes AA; under protanopia (Machado et al.
+    # 2009, severity 1, matrix as tabulated in colour-science) it darkens to 3.80:1.
+    status, out, _ = call("pair", "#ff3030", "black")
+    assert status == 0
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "#ff3030 on #000000: 5.71:1",
+        "  AA  (SC 1.4.3) needs 4.5:1: pass",
+        "Colour-vision deficiency*needs 4.5:1*",
+        "  protanopia   #* on #000000: 3.80:1, Lc *: fail",
+        "  deuteranopia *: pass",
+        "Viewing profiles*",
+        "  office * 5.71:1, Lc -39.34: pass",
+        "  daylight *: fail",
+    ])
+
+
+def test_pair_level_selects_the_exit_status():
+    # #595959 on white = 7.00:1 (WCAG 2.2 formula): passes AAA; #767676 = 4.54:1 passes AA only.
+    assert call("pair", "#595959", "white", "--level", "AAA")[0] == 0
+    assert call("pair", "#767676", "white")[0] == 0
+    assert call("pair", "#767676", "white", "--level", "aaa")[0] == 1
 
 
 def test_pair_large_text_passes_aa():
@@ -255,4 +295,4 @@ def test_check_real_pages(tmp_path):
 def test_python_dash_m(tmp_path):
     done = subprocess.run([sys.executable, "-m", "tinctura", "pair", "#777", "white"],
                           capture_output=True, text=True, timeout=60)
-    assert done.returncode == 0 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
+    assert done.returncode == 1 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")

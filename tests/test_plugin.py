@@ -18,7 +18,17 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
-                                   "schemes": None, "jobs": None}
+                                   "schemes": None, "jobs": None, "lc_levels": None,
+                                   "cvd_severity": 1.0, "profiles": ["daylight"]}
+
+
+def test_appearance_options_reach_the_engine():
+    plugin = TincturaPlugin()
+    assert plugin.load_config({"lc_levels": {"body": 90}, "cvd_severity": 0.5,
+                               "profiles": ["dim", "daylight"]}) == ([], [])
+    options = plugin.engine_options()
+    assert (options.lc_levels, options.cvd_severity, options.profiles) == (
+        {"body": 90.0}, 0.5, ("dim", "daylight"))
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -26,6 +36,9 @@ def test_defaults():
     ("fail_on", "info", "Expected one of: ('error', 'warning', 'never')"),
     ("exclude", "drafts/*.md", "Expected a list"),
     ("viewport_width", 0, "at least 1"),
+    ("lc_levels", {"footnote": 50}, "unknown text tier"),
+    ("cvd_severity", 2, "from 0 to 1"),
+    ("profiles", ["beach"], "Expected one of"),
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("jobs", 0, "at least 1"),

@@ -13,7 +13,7 @@ from tinctura import engine, problems, report, rules
 from tinctura.model import Diagnostic
 from tinctura.report import messages as m
 from tinctura.report.store import FindingStore
-from tinctura.report.status import ERROR, FAIL_ON, exit_status
+from tinctura.report.status import ERROR, FAIL_ON, FINDINGS, exit_status
 from tinctura.report.terminal import TerminalWriter
 
 PROG = "tinctura"
@@ -82,6 +82,49 @@ def _site_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
 
 
+def lc_levels_arg(text: str) -> dict:
+    """``body=75,content=60``: APCA Lc levels per text tier (TC200, TC400)."""
+    from tinctura.rules.appearance import check_lc_levels
+
+    try:
+        pairs = [item.split("=", 1) for item in text.split(",") if item.strip()]
+        return check_lc_levels({k.strip(): float(v) for k, v in pairs})
+    except ValueError as exc:
+        message = str(exc) if "=" not in str(exc) else f"expected TIER=LC[,...], got {text!r}"
+        raise argparse.ArgumentTypeError(message) from None
+
+
+def severity_arg(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if not 0.0 <= value <= 1.0:
+        raise argparse.ArgumentTypeError(f"expected a severity from 0 to 1, got {text}")
+    return value
+
+
+def profiles_arg(text: str) -> tuple:
+    from tinctura.colour import viewing
+
+    try:
+        return tuple(viewing.get(name).name for name in text.split(",") if name.strip())
+    except ValueError as exc:
+        raise argparse.ArgumentTypeError(str(exc)) from None
+
+
+def _appearance_options(p: argparse.ArgumentParser, profiles: bool = True) -> None:
+    p.add_argument("--lc-levels", type=lc_levels_arg, default=None, metavar="TIER=LC,...",
+                   help="APCA Lc per text tier for TC200/TC400 (tiers body, content, headline, "
+                        "any; default body=75,content=60,headline=45,any=30)")
+    p.add_argument("--cvd-severity", type=severity_arg, default=1.0, metavar="S",
+                   help="colour-vision deficiency severity for TC400, 0 to 1 (default 1)")
+    if profiles:
+        p.add_argument("--profiles", type=profiles_arg, default=("daylight",), metavar="NAMES",
+                       help="viewing profiles for TC500, comma-separated: office, dim, "
+                            "daylight (default daylight)")
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog=PROG,
@@ -106,6 +149,7 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--color", "--colour", dest="colour", default="auto",
                        choices=("auto", "always", "never"),
                        help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
+    _appearance_options(check)
     check.set_defaults(run=run_check)
 
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
@@ -125,6 +169,9 @@ def build_parser() -> argparse.ArgumentParser:
                       help="font weight, 1-1000, normal or bold (default 400)")
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.add_argument("--level", choices=("AA", "AAA"), default="AA", type=str.upper,
+                      help="exit with status 1 when the pair fails this WCAG level (default AA)")
+    _appearance_options(pair, profiles=False)
     pair.set_defaults(run=run_pair)
 
     trace_cmd = sub.add_parser(
@@ -160,6 +207,9 @@ def options_from(args) -> engine.Options:
         exclude=tuple(args.exclude),
         jobs=args.jobs,
         schemes=load_schemes(args.schemes) if getattr(args, "schemes", None) else None,
+        lc_levels=getattr(args, "lc_levels", None),
+        cvd_severity=getattr(args, "cvd_severity", 1.0),
+        profiles=getattr(args, "profiles", None) or ("daylight",),
     )
 
 
@@ -322,7 +372,18 @@ def run_pair(args, stdout, stderr) -> int:
             tw.line(f"        nearest passing: {' or '.join(parts)}")
         else:
             tw.line("        no single-colour change reaches it; change both colours")
-    return exit_status()
+    from tinctura.report.pair_text import appearance_lines
+    from tinctura.rules.appearance import lc_levels
+
+    required = wcag.required_ratio(args.level, large)
+    def mark(ok):
+        return tw.markup("pass", "green") if ok else tw.markup("fail", "red", "bold")
+
+    for text, styles in appearance_lines(fg, bg, args.size, args.weight, required,
+                                         lc_levels(args), args.cvd_severity, mark):
+        tw.line(text, *styles)
+    # 1 when the pair fails the selected WCAG level, so a palette can be gated in a script
+    return FINDINGS if not wcag.passes(ratio, required) else exit_status()
 
 
 def describe_rule(rule, tw: TerminalWriter) -> None:

@@ -27,9 +27,10 @@ def required(value: float) -> str:
 
 
 def lc(value: float) -> str:
-    """APCA Lc for display, 2 decimals, cut towards zero (never overstated): -68.546 -> -68.54."""
-    shown = format_ratio(abs(value), 2)
-    return f"-{shown}" if value < 0 and float(shown) else shown
+    """APCA Lc for display, rounded to 2 decimals as APCA's reference values are quoted
+    (#888 on #fff: 63.056 -> ``63.06``); verdicts compare the unrounded value."""
+    shown = f"{value:.2f}"
+    return "0.00" if shown == "-0.00" else shown
 
 
 def plural(n: int, word: str, words: str | None = None) -> str:
