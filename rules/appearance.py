@@ -12,6 +12,7 @@ simulated, that is only when TC400 runs or a fix for it is searched.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 from tinctura.colour import apca, viewing, wcag
 from tinctura.colour import fix as colour_fix
@@ -91,13 +92,33 @@ def simulate_all(colours, deficiencies, severity: float) -> None:
 
 
 def simulated(rgb, deficiency: str, severity: float) -> tuple:
-    """The colour a reader with ``deficiency`` sees (cached)."""
+    """The colour a reader with ``deficiency`` sees (cached). One colour at a time (the fix
+    searches' candidates) goes through plain Python: a numpy call costs more than the sum."""
     rgb = tuple(float(c) for c in rgb[:3])
-    table = _SIMULATED.get((deficiency, severity))
-    if table is None or rgb not in table:
-        simulate_all([rgb], (deficiency,), severity)
-        table = _SIMULATED[(deficiency, severity)]
-    return table[rgb]
+    table = _SIMULATED.setdefault((deficiency, severity), {})
+    found = table.get(rgb)
+    if found is None:
+        if len(table) >= _SIMULATED_LIMIT:
+            table.clear()
+        found = table[rgb] = _simulate_one(rgb, _matrix(deficiency, severity))
+    return found
+
+
+@lru_cache(maxsize=64)
+def _matrix(deficiency: str, severity: float) -> tuple:
+    from tinctura.colour import cvd
+
+    return tuple(tuple(float(x) for x in row) for row in cvd.matrix(deficiency, severity))
+
+
+def _simulate_one(rgb, m) -> tuple:
+    """cvd.simulate for one colour (same steps: linearise, matrix, clip, encode)."""
+    lin = [c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4 for c in rgb]
+    out = []
+    for row in m:
+        v = min(max(row[0] * lin[0] + row[1] * lin[1] + row[2] * lin[2], 0.0), 1.0)
+        out.append(v * 12.92 if v <= 0.0031308 else 1.055 * v ** (1 / 2.4) - 0.055)
+    return tuple(out)
 
 
 # -- the pass test every suggestion meets -------------------------------------------------------
@@ -169,8 +190,10 @@ class Verdicts:
 
 
 def finding(rule, sample, verdict, level: str) -> Finding:
-    """A finding from a shared verdict ``(ratio, required, args, fixes)``."""
+    """A finding from a shared verdict ``(ratio, required, args, fixes)``. The args and fixes
+    are shared by every finding of the situation, as replayed findings share them (read
+    only): a site repeats one situation thousands of times, and the page store pickles a
+    shared object once."""
     ratio, required, args, fixes = verdict
     return Finding(rule=rule.code, slug=rule.slug, severity=rule.severity, sample=sample,
-                   ratio=ratio, required=required, level=level, fixes=list(fixes),
-                   args=dict(args))
+                   ratio=ratio, required=required, level=level, fixes=fixes, args=args)

@@ -136,3 +136,15 @@ def test_tc100_only_run_does_not_import_colour_science(tmp_path):
     assert run_with(("TC100", "TC200", "TC500"))[1] == "False"
     assert run_with(("TC100",))[1] == "False"
     assert run_with(())[1] == "True"  # all rules: TC400 simulates the red text
+
+
+def test_one_colour_simulation_equals_the_batched_one():
+    import numpy as np
+
+    from tinctura.colour import cvd
+
+    colours = [(1.0, 0.19, 0.19), (0.1, 0.4, 0.9), (0.5, 0.5, 0.5), (0.0, 0.0, 0.0), (0.9, 0.8, 0.1)]
+    for deficiency in ("protanopia", "deuteranopia", "tritanopia"):
+        batch = cvd.simulate(np.array(colours), deficiency, 0.6)
+        one = [appearance._simulate_one(c, appearance._matrix(deficiency, 0.6)) for c in colours]
+        assert np.allclose(batch, one, atol=1e-12)

@@ -168,10 +168,10 @@ def _distance(start, rgb):
 # (hashable, so results are cached) and the search walks the lightness of the colour's OKLCh
 # hue outwards in both directions, then bisects the last step. Whether a test passes need not
 # grow with luminance; the walk finds the nearest passing step, the bisection assumes only that
-# the test does not flip back within one step (0.01 in OKLab lightness).
+# the test does not flip back within one step (0.02 in OKLab lightness).
 
-_WALK_STEP = 0.01
-_WALK_BISECT = 12
+_WALK_STEP = 0.02
+_WALK_BISECT = 14
 
 
 def nearest_foreground_where(fg, bgs, test):
