@@ -63,6 +63,21 @@ class Severity(c.BaseConfigOption[float]):
         return float(value)
 
 
+class Behaviours(c.BaseConfigOption[tuple]):
+    """What the site's own scripts change before a reader sees a page: a list of
+    {action, selector, value[, marker, script]} (tinctura.extract.behaviours)."""
+
+    def run_validation(self, value: object) -> tuple:
+        if value is None:
+            return ()
+        from tinctura.extract.behaviours import from_setting
+
+        try:
+            return from_setting(value)
+        except ValueError as exc:
+            raise base.ValidationError(str(exc)) from None
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -77,3 +92,5 @@ class TincturaConfig(base.Config):
     lc_levels = LcLevels()  # None: APCA's published levels (body 75, content 60, headline 45, any 30)
     cvd_severity = Severity(default=1.0)
     profiles = c.ListOfItems(c.Choice(("office", "dim", "daylight")), default=["daylight"])
+    behaviours = Behaviours()  # the site's own script behaviours, besides the themes' table
+    theme_behaviours = c.Type(bool, default=True)  # apply the themes' script behaviours

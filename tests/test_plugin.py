@@ -19,7 +19,8 @@ def test_defaults():
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
                                    "schemes": None, "jobs": None, "lc_levels": None,
-                                   "cvd_severity": 1.0, "profiles": ["daylight"]}
+                                   "cvd_severity": 1.0, "profiles": ["daylight"],
+                                   "behaviours": (), "theme_behaviours": True}
 
 
 def test_appearance_options_reach_the_engine():
