@@ -189,6 +189,15 @@ class Verdicts:
             return value
 
 
+def verdict(ratio, required, args, requirement, pairs, stop, large) -> tuple:
+    """A failing situation's verdict ``(ratio, required, args, fixes)``: the rule's own
+    ``args`` plus what every appearance finding carries (the pair judged, which background,
+    the pass test) and the suggested colours."""
+    fg, bg = pairs[stop]
+    args.update(large=large, fg=fg, bg=bg, stop=stop, stops=len(pairs), test=requirement)
+    return ratio, required, args, fixes_for(requirement, pairs, fg, bg)
+
+
 def finding(rule, sample, verdict, level: str) -> Finding:
     """A finding from a shared verdict ``(ratio, required, args, fixes)``. The args and fixes
     are shared by every finding of the situation, as replayed findings share them (read

@@ -85,11 +85,10 @@ def _judge(sample, level, large, need, severity):
     if not failing:
         return None
     ratio, deficiency, i, sim_fg, sim_bg, lc = min(failing)
-    fg, bg = pairs[i]
     requirement = appearance.Requirement(
         ratio=required, deficiencies=tuple(f[1] for f in failing), severity=severity,
         cvd_lc=need)
-    return (ratio, required, {
+    return appearance.verdict(ratio, required, {
         "deficiency": deficiency,
         "deficiencies": ", ".join(f[1] for f in failing),
         "severity": severity,
@@ -99,10 +98,4 @@ def _judge(sample, level, large, need, severity):
         "normal_ratio": normal[i][0],
         "normal_lc": normal[i][1],
         "lc_required": need,
-        "large": large,
-        "fg": fg,
-        "bg": bg,
-        "stop": i,
-        "stops": len(pairs),
-        "test": requirement,
-    }, appearance.fixes_for(requirement, pairs, fg, bg))
+    }, requirement, pairs, i, large)

@@ -44,15 +44,9 @@ def _judge(sample, level, tier, large, need):
         return None
     fg, bg = pairs[worst]
     requirement = appearance.Requirement(ratio=required, lc=need)
-    return (ratios[worst], required, {
+    return appearance.verdict(ratios[worst], required, {
         "lc": lcs[worst],
         "lc_required": need,
         "polarity": apca.polarity(fg, bg),
         "tier": appearance.TIER_TEXT[tier],
-        "large": large,
-        "fg": fg,
-        "bg": bg,
-        "stop": worst,
-        "stops": len(pairs),
-        "test": requirement,
-    }, appearance.fixes_for(requirement, pairs, fg, bg))
+    }, requirement, pairs, worst, large)

@@ -58,7 +58,7 @@ def _judge(sample, level, large, profiles):
     ratio, profile, i = worst
     fg, bg = pairs[i]
     requirement = appearance.Requirement(ratio=required, profiles=tuple(failing))
-    return (ratio, required, {
+    return appearance.verdict(ratio, required, {
         "profile": profile.name,
         "profiles": ", ".join(failing),
         "about": profile.about,
@@ -66,10 +66,4 @@ def _judge(sample, level, large, profiles):
         "fg_cd": viewing.luminance_cd(fg, profile),
         "bg_cd": viewing.luminance_cd(bg, profile),
         "lc": viewing.effective_lc(fg, bg, profile),
-        "large": large,
-        "fg": fg,
-        "bg": bg,
-        "stop": i,
-        "stops": len(pairs),
-        "test": requirement,
-    }, appearance.fixes_for(requirement, pairs, fg, bg))
+    }, requirement, pairs, i, large)
