@@ -284,9 +284,13 @@ def _judge_replays(page, findings, uses, options) -> None:
     key = (options.level, tuple(options.rules))
     for fragment, stamp in page.replays:
         verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
+        restamped = {}  # one sample re-stamped once, however many rules report it
         for rel, old_base, finding in verdict.findings:
-            findings.append(dataclasses.replace(
-                finding, sample=stamp.within(rel).sample(finding.sample, old_base)))
+            place = (rel, id(finding.sample))
+            sample = restamped.get(place)
+            if sample is None:
+                sample = restamped[place] = stamp.within(rel).sample(finding.sample, old_base)
+            findings.append(dataclasses.replace(finding, sample=sample))
         entry = tally.get(id(verdict))
         if entry is None:
             tally[id(verdict)] = [verdict, 1]
