@@ -99,6 +99,17 @@ def test_pair_red_on_black_names_protanopia():
     ])
 
 
+@pytest.mark.parametrize("argv, needle", [
+    (("--lc-levels", "body"), "expected TIER=LC"),
+    (("--lc-levels", "footnote=40"), "unknown text tier 'footnote'"),
+    (("--cvd-severity", "2"), "from 0 to 1"),
+    (("--profiles", "beach"), "unknown viewing profile 'beach'"),
+])
+def test_appearance_options_are_checked(tmp_path, argv, needle):
+    status, _, err = call("check", str(tmp_path), *argv)
+    assert status == 2 and needle in err
+
+
 def test_pair_level_selects_the_exit_status():
     # #595959 on white = 7.00:1 (WCAG 2.2 formula): passes AAA; #767676 = 4.54:1 passes AA only.
     assert call("pair", "#595959", "white", "--level", "AAA")[0] == 0

@@ -92,12 +92,18 @@ def lc_levels_arg(text: str) -> dict:
     """``body=75,content=60``: APCA Lc levels per text tier (TC200, TC400)."""
     from tinctura.rules.appearance import check_lc_levels
 
+    levels = {}
+    for item in filter(str.strip, text.split(",")):
+        name, _, value = item.partition("=")
+        try:
+            levels[name.strip()] = float(value)
+        except ValueError:
+            raise argparse.ArgumentTypeError(
+                f"expected TIER=LC[,...] (e.g. body=75), got {text!r}") from None
     try:
-        pairs = [item.split("=", 1) for item in text.split(",") if item.strip()]
-        return check_lc_levels({k.strip(): float(v) for k, v in pairs})
+        return check_lc_levels(levels)
     except ValueError as exc:
-        message = str(exc) if "=" not in str(exc) else f"expected TIER=LC[,...], got {text!r}"
-        raise argparse.ArgumentTypeError(message) from None
+        raise argparse.ArgumentTypeError(str(exc)) from None
 
 
 def severity_arg(text: str) -> float:
