@@ -292,6 +292,7 @@ def run_check(args, stdout, stderr) -> int:
     check_inputs(args.paths)
     options = options_from(args)
     options.keep_samples = False  # the report needs counts, findings and declaration uses
+    bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings
     store, collector = FindingStore(), problems.Collector()
@@ -300,11 +301,13 @@ def run_check(args, stdout, stderr) -> int:
         store.add(page.page, findings)
         for f in findings:
             collector.add(f)
+        bar.advance()
 
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
     result.findings = store
     found = collector.problems(result.uses)
     header = report.Header(
+        scope=report.scope_of(args.paths, options),
         version=version(),
         level=args.level,
         group=args.group,

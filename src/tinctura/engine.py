@@ -31,6 +31,7 @@ from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
+from . import distribution  # the contrast ratios of each page, for the audit report
 
 
 @dataclass
@@ -319,7 +320,8 @@ class _Verdict:
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
         self.stats = _canonical(("stats", stats["samples"], stats["exempt"],
                                  tuple(sorted(stats["undetermined"].items())),
-                                 tuple(stats["schemes"])), stats)
+                                 tuple(stats["schemes"]),
+                                 distribution.key(stats.get("ratios", {}))), stats)
 
 
 _CANONICAL: dict = {}
@@ -365,7 +367,8 @@ def sample_stats(samples) -> dict:
             key = s.reason or "unknown"
             undetermined[key] = undetermined.get(key, 0) + 1
     return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
-            "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples})}
+            "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples}),
+            "ratios": distribution.histogram(samples)}  # for the audit report's chart
 
 
 def _add_stats(into: dict, more: dict, times: int = 1) -> None:
@@ -373,6 +376,7 @@ def _add_stats(into: dict, more: dict, times: int = 1) -> None:
     into["exempt"] += more["exempt"] * times
     for reason, count in more["undetermined"].items():
         into["undetermined"][reason] = into["undetermined"].get(reason, 0) + count * times
+    distribution.merge(into.setdefault("ratios", {}), more.get("ratios", {}), times)
     if not set(more["schemes"]) <= set(into["schemes"]):
         into["schemes"] = sorted(set(into["schemes"]) | set(more["schemes"]))
 
