@@ -226,8 +226,9 @@ CVD_RATIO = Rule(
     criteria=(SC_1_4_3, SC_1_4_6),
     message=(
         "under {deficiency} the text reads as {sim_fg} on {sim_bg}: {ratio}:1 and Lc {lc}, "
-        "against {normal_ratio}:1 and Lc {normal_lc} for normal vision (needs {required}:1 "
-        "and Lc {lc_required}); fails under {deficiencies}{against}"
+        "against {normal_ratio}:1 and Lc {normal_lc} for normal vision (needs {required}:1, "
+        "and Lc {lc_required} where normal vision reaches it); fails under "
+        "{deficiencies}{against}"
     ),
     measure="{ratio}:1 under {deficiency}, needs {required}:1",
     docs=Docs(
