@@ -3,9 +3,8 @@ side by side, in alternating runs (CPU seconds of each child process: the machin
 
     python benchmarks/rules_cost.py SITE_DIR [--repeat 3]
 
-SITE_DIR is a built site (e.g. `generate_site.py 200` built with `mkdocs-plain.yml`). Until the
-command line selects rules itself, the child narrows `Options.rules` through the CLI's
-`options_from`; everything else is `tinctura check --jobs 1` as a user runs it.
+SITE_DIR is a built site (e.g. `generate_site.py 200` built with `mkdocs-plain.yml`); each child
+is `tinctura check SITE_DIR --jobs 1 --no-config [--select TC100]` as a user runs it.
 """
 from __future__ import annotations
 
@@ -19,14 +18,9 @@ CHILD = r'''
 import sys
 from tinctura import cli
 rules, site = sys.argv[1], sys.argv[2]
-options_from = cli.options_from
-def narrowed(args):
-    options = options_from(args)
-    if rules != "all":
-        options.rules = tuple(rules.split(","))
-    return options
-cli.options_from = narrowed
-sys.exit(cli.main(["check", site, "--jobs", "1", "--fail-on", "never", "-o", "/dev/null"]))
+select = [] if rules == "all" else ["--select", rules]
+sys.exit(cli.main(["check", site, "--jobs", "1", "--fail-on", "never", "--no-config",
+                   "-o", "/dev/null"] + select))
 '''
 
 

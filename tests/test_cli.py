@@ -56,7 +56,7 @@ def fake_engine(monkeypatch, tmp_path):
 def test_pair_777_on_white():
     # WCAG 2.2 formula: #777777 on #ffffff = 4.478:1 -> shown 4.47, fails AA body text.
     status, out, err = call("pair", "#777", "white")
-    assert status == 1 and err == ""  # fails AA, the level selected by default
+    assert status == 1 and err == ""  # fails the level selected (AA by default)
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "#777777 on #ffffff: 4.47:1",
         "16 px at weight 400: normal text",
@@ -64,6 +64,23 @@ def test_pair_777_on_white():
         "*nearest passing: text #767676 (4.54:1)*",
         "  AAA (SC 1.4.6) needs 7:1: fail",
     ])
+
+
+@pytest.mark.parametrize("argv, status, line", [
+    # WCAG 2.2 formula: #767676 on white = 4.54:1 (passes 4.5, fails 7); #777777 = 4.47:1.
+    (("#767676", "white"), 0, "#767676 on #ffffff: 4.54:1, passes AA (4.5:1)"),
+    (("#767676", "white", "--level", "AAA"), 1, "#767676 on #ffffff: 4.54:1, fails AAA (7:1)"),
+    (("#777", "white"), 1, "#777777 on #ffffff: 4.47:1, fails AA (4.5:1)"),
+])
+def test_pair_quiet_prints_the_verdict_and_exits_on_the_level(argv, status, line):
+    got, out, err = call("pair", "-q", *argv)
+    assert (got, out, err) == (status, line + "\n", "")
+
+
+def test_version_flags():
+    for flag in ("-V", "--version"):
+        status, out, _ = call(flag)
+        assert status == 0 and out.startswith("tinctura ")
 
 
 def test_pair_apca_reference_values():
@@ -80,6 +97,7 @@ def test_pair_apca_reference_values():
         "*meets the levels for: other content text (Lc 60), large headlines (Lc 45)*",
         "*this text is body text: needs Lc 75: fail",
     ])
+    assert "needs Lc 90: fail" in call("pair", "#000", "#888", "--lc-levels", "body=90")[1]
 
 
 def test_pair_red_on_black_names_protanopia():
@@ -97,6 +115,8 @@ def test_pair_red_on_black_names_protanopia():
         "  office * 5.71:1, Lc -39.34: pass",
         "  daylight *: fail",
     ])
+    assert "protanopia   #ff3030 on #000000: 5.71:1" in call(
+        "pair", "#ff3030", "black", "--cvd-severity", "0")[1]  # severity 0: normal vision
 
 
 @pytest.mark.parametrize("argv, needle", [
@@ -106,15 +126,8 @@ def test_pair_red_on_black_names_protanopia():
     (("--profiles", "beach"), "unknown viewing profile 'beach'"),
 ])
 def test_appearance_options_are_checked(tmp_path, argv, needle):
-    status, _, err = call("check", str(tmp_path), *argv)
+    status, _, err = call("check", str(tmp_path), "--no-config", *argv)
     assert status == 2 and needle in err
-
-
-def test_pair_level_selects_the_exit_status():
-    # #595959 on white = 7.00:1 (WCAG 2.2 formula): passes AAA; #767676 = 4.54:1 passes AA only.
-    assert call("pair", "#595959", "white", "--level", "AAA")[0] == 0
-    assert call("pair", "#767676", "white")[0] == 0
-    assert call("pair", "#767676", "white", "--level", "aaa")[0] == 1
 
 
 def test_pair_large_text_passes_aa():
@@ -150,7 +163,6 @@ def test_pair_bad_colour(argv, needle):
 @pytest.mark.parametrize("argv", [
     ("pair", "#777", "white", "--size", "0"),
     ("pair", "#777", "white", "--weight", "heavy"),
-    ("check",),
     ("check", ".", "--level", "A"),
     ("check", ".", "--fail-on", "sometimes"),
     ("frobnicate",),

@@ -43,6 +43,7 @@ class Options:
     exclude: tuple = ()  # glob patterns on page paths
     jobs: int = 1
     rules: tuple = ()  # rule codes or slugs to run; empty: all
+    severity: tuple = ()  # (code, severity) overrides, applied by rules.run
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
     lc_levels: dict | None = None  # TC200/TC400: APCA Lc per text tier (body, content, headline, any)
@@ -165,10 +166,10 @@ class Site:
         """Apply what the page's theme scripts change before a reader sees it; say once per
         site what those scripts change that tinctura does not model."""
         for theme in behaviour_mod.apply(root, self._behaviours):
-            note = behaviour_mod.NOT_MODELLED.get(theme)
+            note = behaviour_mod.NOTES_BY_THEME.get(theme)
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)
-                result.diagnostics.append(Diagnostic(result.page, f"{theme} theme: {note}"))
+                result.diagnostics.append(Diagnostic(result.page, note))
 
 
 def _forget(fingerprints: dict, elements) -> None:
@@ -250,12 +251,26 @@ def iter_pages(paths, options: Options, judged: bool = False):
             pages = site.pages()
             if not pages:
                 yield Diagnostic(path, "no HTML pages found", severity="error")
-            yield from _site_pages(site, pages, options, judged)
+            yield from _noted_once(_site_pages(site, pages, options, judged))
         elif os.path.isfile(path):
             site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
             yield from _site_pages(site, [os.path.basename(path)], options, judged)
         else:
             yield Diagnostic(path, "no such file or directory", severity="error")
+
+
+def _noted_once(results):
+    """Keep the first of the site-wide notes that each worker's Site makes once (what theme
+    scripts change that is not modelled): with --jobs N there would be up to N of them."""
+    seen = set()
+    for item in results:
+        page = item[0] if isinstance(item, tuple) else item
+        notes = [d for d in page.diagnostics if d.message in behaviour_mod.NOTES]
+        if notes:
+            page.diagnostics = [d for d in page.diagnostics
+                                if d.message not in behaviour_mod.NOTES or d.message not in seen]
+            seen.update(d.message for d in notes)
+        yield item
 
 
 def _process(site, rel, options, judged, html=None):
