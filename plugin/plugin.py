@@ -16,9 +16,12 @@ from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 from tinctura import baseline as baseline_mod
 from tinctura import engine, problems, rules
 from tinctura import gate as gated
+from tinctura import palette as palette_mod
 from tinctura.report import messages as m
 from tinctura.report import outputs
 from tinctura.report.base import Header
+from tinctura.report.appearance import is_appearance
+from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
@@ -84,6 +87,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             lc_levels=self.config.lc_levels,
             cvd_severity=self.config.cvd_severity,
             profiles=tuple(self.config.profiles),
+            palette=palette_mod.palette_setting(self.config.palette),
         )
 
     def workers(self) -> int:
@@ -205,6 +209,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         uses = {}
         for r in records:
             problems.merge_uses(uses, r.uses)
+        palette = {}
+        for r in records:
+            palette_mod.merge(palette, r.result.palette)
+        findings += engine.judge_site(palette, self.options)  # site-level appearance rules
         found = problems.group(findings, uses=uses)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         self.log_results(found, findings, many_schemes=len(schemes) > 1)
@@ -293,6 +301,9 @@ def plugin_version() -> str:
 
 def problem_line(problem, many_schemes: bool = False) -> str:
     """One log message per problem: count, cause, ratio, an example and the fix."""
+    if is_appearance(problem.worst):  # site-level appearance rules: entries and contexts
+        return (f"{problem.rule} {problem.slug}: {m.message(problem.worst)}\n  "
+                + "\n  ".join(appearance_lines(problem, many_schemes)))
     fg, bg = m.finding_colours(problem.worst)
     example = problem.worst.sample
     scheme = f" [scheme {problem.scheme}]" if many_schemes else ""

@@ -4,11 +4,11 @@
 """
 from __future__ import annotations
 
-from . import deficiency, lightness, text, viewing
+from . import appearance, deficiency, lightness, text, viewing
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
-__all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected",
-           "selection", "with_severity", "run"]
+__all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Example", "Rule",
+           "get", "selected", "selection", "with_severity", "run"]
 
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {
@@ -16,7 +16,13 @@ CHECKS = {
     "TC200": lightness.check_text_lc,
     "TC400": deficiency.check_cvd_ratio,
     "TC500": viewing.check_glare_ratio,
+    "TC300": appearance.check_surround_shift,
+    "TC310": appearance.check_lookalike,
 }
+
+# Rules that compare colours across a whole site: ``run`` leaves them out (it judges one page or
+# fragment); the engine gathers palette uses and calls ``run_site`` once, at the end.
+SITE_LEVEL = frozenset({"TC300", "TC310"})
 
 
 def get(name: str) -> Rule:
@@ -62,5 +68,11 @@ def run(samples, options) -> list:
     samples = list(samples)
     findings = []
     for rule in selected(getattr(options, "rules", ()) or ()):
-        findings.extend(CHECKS[rule.code](samples, options))
+        if rule.code not in SITE_LEVEL:
+            findings.extend(CHECKS[rule.code](samples, options))
     return with_severity(findings, getattr(options, "severity", ()))
+
+
+def run_site(uses: dict, options) -> list:
+    """The site-level rules selected, over a site's merged palette uses (``tinctura.palette``)."""
+    return with_severity(appearance.check_site(uses, options), getattr(options, "severity", ()))

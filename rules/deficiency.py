@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from tinctura.colour import apca, wcag
 
-from . import appearance
+from . import perception as appearance
 from .catalogue import CVD_RATIO
 from .text import backgrounds, foreground_on, judged
 

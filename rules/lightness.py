@@ -6,7 +6,7 @@ its size and weight call for (``appearance.tier``). Text below the WCAG 2 ratio 
 from __future__ import annotations
 
 from tinctura.colour import apca, wcag
-from . import appearance
+from . import perception as appearance
 from .catalogue import TEXT_LC
 from .text import backgrounds, foreground_on, judged
 

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from tinctura.colour import viewing, wcag
 
-from . import appearance
+from . import perception as appearance
 from .catalogue import GLARE_RATIO
 from .text import backgrounds, foreground_on, judged
 

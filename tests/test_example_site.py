@@ -108,7 +108,7 @@ def test_appearance_faults_pass_wcag_and_fail_their_rule():
     def parse_hex(text):
         return tuple(int(text[i:i + 2], 16) / 255 for i in (1, 3, 5))
 
-    rows = table("appearance")
+    rows = table("readability")
     assert {r["rule"] for r in rows} == {"TC200", "TC400", "TC500"}
     for row in rows:
         fg, bg = row["fg"], row["bg"]

@@ -14,6 +14,7 @@ from tinctura import baseline as baseline_mod
 from tinctura import config, engine, problems, report, rules
 from tinctura import gate as gated
 from tinctura.model import Diagnostic
+from tinctura.palette import palette_setting
 from tinctura.report import messages as m
 from tinctura.report import outputs
 from tinctura.report.store import FindingStore
@@ -95,6 +96,9 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--color", "--colour", dest="colour", default="auto",
                        choices=("auto", "always", "never"),
                        help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
+    check.add_argument("--flat-findings", action="store_true",
+                       help="JSON report: list every finding in full (format 1) instead of "
+                            "each situation once with small occurrence records (format 2)")
     check.set_defaults(run=run_check)
 
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
@@ -114,6 +118,11 @@ def build_parser() -> argparse.ArgumentParser:
                       help="font weight, 1-1000, normal or bold (default 400)")
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.add_argument("--on", metavar="OTHER_BG",
+                      help="also show how FG's appearance (CIECAM02) shifts on this background")
+    pair.add_argument("--vs", metavar="OTHER_FG",
+                      help="also show whether FG and this colour look alike on BG, for normal "
+                           "vision and each simulated colour-vision deficiency")
     pair.add_argument("--level", choices=("AA", "AAA"), default="AA", type=str.upper,
                       help="the level whose failure makes the exit status 1 (default AA)")
     pair.add_argument("-q", "--quiet", action="store_true",
@@ -170,6 +179,7 @@ def options_from(args) -> engine.Options:
         lc_levels=getattr(args, "lc_levels", None),
         cvd_severity=getattr(args, "cvd_severity", 1.0),
         profiles=tuple(getattr(args, "profiles", None) or ("daylight",)),
+        palette=palette_setting(getattr(args, "palette", None) or {}),  # checked by config
     )
 
 
@@ -261,6 +271,7 @@ def run_check(args, stdout, stderr) -> int:
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
+        findings_layout="flat" if args.flat_findings else "compact",
         rules=options.rules,
         uri=built_uri(args.paths),
         source=markdown_source(args),
@@ -450,7 +461,7 @@ def run_pair(args, stdout, stderr) -> int:
         else:
             tw.line("        no single-colour change reaches it; change both colours")
     from tinctura.report.pair_text import appearance_lines
-    from tinctura.rules.appearance import lc_levels
+    from tinctura.rules.perception import lc_levels
 
     def mark(ok):
         return tw.markup("pass", "green") if ok else tw.markup("fail", "red", "bold")
@@ -458,7 +469,30 @@ def run_pair(args, stdout, stderr) -> int:
     for text, styles in appearance_lines(fg, bg, args.size, args.weight, selected_need,
                                          lc_levels(args), args.cvd_severity, mark):
         tw.line(text, *styles)
+    pair_appearance(args, fg, bg, tw)
     return exit_status(failed=failed)
+
+
+def pair_appearance(args, fg, bg, tw) -> None:
+    """``--on OTHER_BG`` and ``--vs OTHER_FG``: appearance in context (TC300, TC310)."""
+    from tinctura.colour.composite import over
+    from tinctura.report import appearance as words
+    from tinctura.rules import appearance
+
+    def opaque(text, what, under):
+        raw = parse_pair_colour(text, what)
+        return tuple(over(raw, under)[:3]) if raw[3] < 1.0 else tuple(raw[:3])
+
+    if getattr(args, "on", None):
+        other_bg = opaque(args.on, "other background colour", (1.0, 1.0, 1.0, 1.0))
+        shift = appearance.shift_between(fg, bg, other_bg)
+        for line in words.shift_lines(fg, bg, other_bg, shift):
+            tw.line(line)
+    if getattr(args, "vs", None):
+        other = opaque(args.vs, "other text colour", bg + (1.0,))
+        for line in words.lookalike_lines(fg, other, bg,
+                                          appearance.lookalike_between(fg, other, bg)):
+            tw.line(line)
 
 
 def describe_rule(rule, tw: TerminalWriter) -> None:
@@ -469,7 +503,11 @@ def describe_rule(rule, tw: TerminalWriter) -> None:
 
     criteria = ", ".join(f"SC {c.number} {c.name} ({c.level})" for c in rule.criteria)
     tw.line(f"{rule.code} {rule.slug}: {rule.title}", "bold")
-    tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
+    if rule.code in rules.SITE_LEVEL:  # risks around colour codes, not a test of the criterion
+        tw.line(f"  default severity {rule.severity}; related to WCAG 2 {criteria} (a risk to "
+                f"review, not a test of it)")
+    else:
+        tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
     para("What it checks", rule.docs.checks)
     para("Why", rule.docs.why)
     for label, example in (("Failing example", rule.docs.bad), ("Passing example", rule.docs.good)):

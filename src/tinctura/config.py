@@ -209,7 +209,7 @@ def lc_levels(value):
         raise ValueError(f"expected a table of tier = Lc, got {_type_name(value)} {value!r}")
     if not all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in value.values()):
         raise ValueError(f"expected numbers, got {value!r}")
-    from tinctura.rules.appearance import check_lc_levels
+    from tinctura.rules.perception import check_lc_levels
 
     return check_lc_levels(value)
 
@@ -226,6 +226,14 @@ def profiles(value):
     from tinctura.colour import viewing
 
     return tuple(viewing.get(name).name for name in strings(value))
+def palette(value):
+    """``{name: CSS colour or --custom-property}`` (tinctura.palette), checked; kept as given."""
+    if not isinstance(value, dict):
+        raise ValueError(f"expected a table of name = colour, got {_type_name(value)} {value!r}")
+    from tinctura.palette import palette_setting
+
+    palette_setting(value)  # ValueError naming the entry
+    return {str(name): str(colour) for name, colour in value.items()}
 
 
 # -- command-line text -> a value the check accepts -------------------------------------------
@@ -269,6 +277,11 @@ def float_text(text: str) -> float:
         return float(text)
     except ValueError:
         raise ValueError(f"expected a number, got {text!r}") from None
+def palette_text(text: str) -> dict:
+    name, sep, colour = text.partition("=")
+    if not sep or not name.strip() or not colour.strip():
+        raise ValueError(f"expected NAME=COLOUR or NAME=--property, got {text!r}")
+    return {name.strip(): colour.strip()}
 
 
 def json_file(path: str):
@@ -365,6 +378,10 @@ SETTINGS = (
             flag="--cvd-severity", metavar="S", parse=float_text),
     Setting("profiles", profiles, ("daylight",), "viewing profiles for TC500: office, dim, "
             "daylight", flag="--profiles", metavar="NAMES", parse=comma_list),
+    Setting("palette", palette, {}, "colours that carry a meaning, for the appearance rules "
+            "(TC300, TC310): name = CSS colour or custom property (--name); as a flag "
+            "NAME=COLOUR, repeatable; default: discovered", flag="--palette",
+            metavar="NAME=COLOUR", parse=palette_text, many=True),
 )
 
 BY_NAME = {s.name: s for s in SETTINGS}

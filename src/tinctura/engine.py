@@ -21,7 +21,9 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
 
+from . import palette as palette_mod
 from . import problems as problems_mod
+from . import situations
 from .colour import wcag
 from .extract import behaviours as behaviour_mod
 from .extract import schemes as scheme_mod
@@ -49,6 +51,16 @@ class Options:
     lc_levels: dict | None = None  # TC200/TC400: APCA Lc per text tier (body, content, headline, any)
     cvd_severity: float = 1.0  # TC400: Machado 2009 severity, 0..1
     profiles: tuple = ("daylight",)  # TC500: viewing profiles judged (office, dim, daylight)
+    # site-level appearance rules (TC300, TC310): palette.palette_setting(name -> colour or
+    # --property) pairs, and the viewing conditions of CIECAM02
+    palette: tuple = ()
+    surround: str = "Average"  # "Average", "Dim" or "Dark"
+    white_luminance: float = 80.0  # cd/m2 of the display white
+    shift_threshold: float = 10.0  # TC300: CAM02-UCS units (rules/catalogue.py says why)
+    lookalike_threshold: float = 15.0  # TC310: CAM02-UCS units
+    # share computed styles between elements and pages, and verdicts between equal colour
+    # situations (off: every element's cascade and every sample judged afresh; for tests)
+    share: bool = True
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
@@ -61,6 +73,7 @@ class Report:
     diagnostics: list = field(default_factory=list)  # site-wide diagnostics
     schemes: list = field(default_factory=list)  # list[model.Scheme] evaluated
     uses: dict = field(default_factory=dict)  # declaration -> {background: schemes} (problems)
+    palette: dict = field(default_factory=dict)  # palette uses of the site (site-level rules)
 
 
 _REFRESH = re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", re.I)
@@ -145,8 +158,9 @@ class Site:
                                         cache, self.options.viewport_width, result.skipped,
                                         keep_layers=self.options.keep_samples,
                                         lazy=not self.options.keep_samples,
-                                        fingerprints=fingerprints, replay=self.options.replay,
-                                        structure=structure)
+                                        fingerprints=fingerprints,
+                                        replay=self.options.replay and self.options.share,
+                                        structure=structure, share=self.options.share)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                 finally:
@@ -192,6 +206,69 @@ def evaluate(samples, options: Options) -> list:
     return rules.run(samples, options)
 
 
+# Verdicts by situation (``situations.sample_key``) per rule selection: a site repeats a few
+# hundred colour situations thousands of times (every navigation link in every state on every
+# page); each is judged once, and each further occurrence only gets a Finding that points at
+# the shared verdict. Bounded; rules are pure, so this only saves time.
+_JUDGED: dict = {}
+JUDGED_LIMIT = 50000
+
+
+def judge(samples, options: Options) -> list:
+    """``evaluate``, with each distinct situation judged once per process."""
+    return _judge(samples, options)[0]
+
+
+def _judge(samples, options: Options) -> tuple:
+    """(findings, their ``situations.finding_key``s)."""
+    judge_gradients(samples, options.level)
+    memo = _JUDGED.setdefault(verdict_key(options), {})
+    keys, todo = [], {}
+    for s in samples:
+        k = situations.sample_key(s)
+        keys.append(k)
+        if k not in memo and k not in todo:
+            todo[k] = s
+    if todo:
+        if len(memo) + len(todo) > JUDGED_LIMIT:
+            memo.clear()
+        from . import rules
+
+        found: dict = {}
+        for f in rules.run(list(todo.values()), options):
+            found.setdefault(id(f.sample), []).append(f)
+        for k, s in todo.items():
+            memo[k] = tuple(found.get(id(s), ()))
+    out, out_keys = [], []
+    for s, k in zip(samples, keys):
+        templates = memo.get(k)
+        if templates is None:  # cleared meanwhile: judge it alone
+            from . import rules
+
+            templates = tuple(rules.run([s], options))
+        for t in templates:
+            out.append(t if t.sample is s else situations.occurrence(t, s))
+            out_keys.append((t.rule, k))
+    return out, out_keys
+
+
+_VERDICT_KEYS: dict = {}  # id(options) -> (options, key): a run asks for every fragment
+
+
+def verdict_key(options: Options) -> str:
+    """What a verdict may depend on: every option but those that only say how to run."""
+    known = _VERDICT_KEYS.get(id(options))
+    cheap = (options.level, tuple(options.rules))  # what a caller might change in place
+    if known is not None and known[0] is options and known[2] == cheap:
+        return known[1]
+    key = repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
+                                   exclude=(), share=True))
+    if len(_VERDICT_KEYS) > 64:
+        _VERDICT_KEYS.clear()
+    _VERDICT_KEYS[id(options)] = (options, key, cheap)
+    return key
+
+
 def judge_gradients(samples, level: str) -> None:
     """Text with several possible backgrounds (gradient stops, an outlining text shadow) is
     judged only when all of them agree; otherwise it is undetermined."""
@@ -232,10 +309,25 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         else:
             findings_to(page, findings)
         problems_mod.merge_uses(report.uses, uses)
+        palette_mod.merge(report.palette, page.palette)
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
+    site_findings = sorted(judge_site(report.palette, options), key=_finding_order)
+    if findings_to is None:
+        report.findings.extend(site_findings)
+    elif site_findings:  # after every page: reports list them last, under the whole site
+        findings_to(PageResult(palette_mod.SITE_PAGE), site_findings)
     return report
+
+
+def judge_site(palette_uses: dict, options: Options) -> list:
+    """The site-level rules (palette colours across pages and contexts), run once at the end."""
+    if not palette_uses:
+        return []
+    from . import rules
+
+    return rules.run_site(palette_uses, options)
 
 
 def iter_pages(paths, options: Options, judged: bool = False):
@@ -277,36 +369,41 @@ def _process(site, rel, options, judged, html=None):
     page = site.check_page(rel, html=html)
     if not judged:
         return page
-    findings = evaluate(page.samples, options)
+    if options.share:
+        findings, keys = _judge(page.samples, options)
+    else:
+        findings, keys = evaluate(page.samples, options), None
     uses = problems_mod.declaration_uses(page.samples)
+    page.palette = palette_mod.collect_for(page.samples, options)
+    more = []
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
-        _judge_replays(page, findings, uses, options)
+        more = _judge_replays(page, uses, options)
         page.samples = []  # (their layer lists were not built: reports name the causes)
     page.replays = []
-    findings.sort(key=_finding_order)
-    return page, findings, uses
+    # findings as situations and places: replayed ones are never built, and a worker sends
+    # each situation once
+    return page, situations.PageFindings.build(page.page, findings, keys, more,
+                                               _finding_order), uses
 
 
-def _finding_order(f) -> tuple:
-    s = f.sample
-    return (s.line, s.xpath, s.scheme, s.state, f.rule)
+def _finding_order(template, where) -> tuple:
+    """Report order within a page: line, XPath, scheme, state, rule."""
+    s = template.sample
+    return (where[2], where[1], s.scheme, s.state, template.rule)
 
 
-def _judge_replays(page, findings, uses, options) -> None:
-    """Add what the replayed fragments contribute: their findings, re-stamped for this page,
-    their declaration uses and their counts. Each fragment is judged once per site."""
+def _judge_replays(page, uses, options) -> list:
+    """What the replayed fragments contribute: their findings as ``(template, key, place)``
+    for this page (returned), their declaration uses and their counts (added to ``uses`` and
+    the page's stats). Each fragment is judged once per site."""
+    found = []
     tally = {}  # verdict id -> [verdict, occurrences]
-    key = (options.level, tuple(options.rules))
+    key = verdict_key(options)
     for fragment, stamp in page.replays:
         verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
-        restamped = {}  # one sample re-stamped once, however many rules report it
-        for rel, old_base, finding in verdict.findings:
-            place = (rel, id(finding.sample))
-            sample = restamped.get(place)
-            if sample is None:
-                sample = restamped[place] = stamp.within(rel).sample(finding.sample, old_base)
-            findings.append(dataclasses.replace(finding, sample=sample))
+        for rel, old_base, finding, fkey in verdict.findings:
+            found.append((finding, fkey, stamp.within(rel).place(finding.sample, old_base)))
         entry = tally.get(id(verdict))
         if entry is None:
             tally[id(verdict)] = [verdict, 1]
@@ -315,21 +412,25 @@ def _judge_replays(page, findings, uses, options) -> None:
     merged = set()
     for verdict, times in tally.values():
         _add_stats(page.stats, verdict.stats, times)
+        palette_mod.merge(page.palette, verdict.palette, times)
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
+    return found
 
 
 class _Verdict:
-    """A fragment judged once: findings as (relative XPath, base, finding), declaration uses
+    """A fragment judged once: findings as (relative XPath, base, finding, its situation key),
+    declaration uses
     (with a hashable form, so that equal ones merge once) and counts. Equal uses and counts
     are one shared object: a large navigation has thousands of fragments and few distinct
     verdicts."""
 
-    __slots__ = ("findings", "uses", "uses_key", "stats")
+    __slots__ = ("findings", "uses", "uses_key", "stats", "palette")
 
-    def __init__(self, findings, uses, stats):
+    def __init__(self, findings, uses, stats, palette=None):
         self.findings = findings or ()
+        self.palette = palette or {}  # palette uses (site-level rules), merged per replay
         uses_key = frozenset((decl, bg, frozenset(schemes))
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
@@ -354,20 +455,22 @@ def _canonical(key, value):
 
 
 def _verdict(fragment, options) -> _Verdict:
-    key = (options.level, tuple(options.rules))
+    key = verdict_key(options)
     verdict = fragment.verdicts.get(key)
     if verdict is not None:
         return verdict
     samples = fragment.samples()
-    found = [("", fragment.base, f) for f in evaluate(samples, options)]
+    found = [("", fragment.base, f, k) for f, k in zip(*_judge(samples, options))]
     uses = problems_mod.declaration_uses(samples)
     stats = sample_stats(samples)
+    palette = palette_mod.collect_for(samples, options)
     for rel, nested in fragment.nested():
         inner = _verdict(nested, options)
-        found.extend((rel + deeper, base, f) for deeper, base, f in inner.findings)
+        found.extend((rel + deeper, base, f, k) for deeper, base, f, k in inner.findings)
         problems_mod.merge_uses(uses, inner.uses)
+        palette_mod.merge(palette, inner.palette)
         _add_stats(stats, inner.stats)
-    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats)
+    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats, palette)
     if not options.keep_samples:
         # judged: its samples are not needed again (only failing ones, kept in the findings)
         fragment.items = fragment.nested()

@@ -11,7 +11,7 @@ import re
 from functools import cached_property
 
 from .media import Environment
-from .siblings import SiblingIndex
+from .siblings import HasIndex, SiblingIndex
 
 EVALUATED_STATES = re.compile(r":(hover|focus)", re.I)
 ATTR_IN_SELECTOR = re.compile(r"\[\s*([\w:-]+)")
@@ -39,7 +39,10 @@ class RuleSet:
         self.rules = rules
         for order, rule in enumerate(rules):
             rule.order = order
-        self.uses_has = any(":has(" in r.selector_text for r in rules)
+        self.has_index = HasIndex(rules)
+        # :has() that cannot be analysed: nothing is shared (see ``siblings``)
+        self.uses_has = any(":has(" in r.selector_text for r in rules) and \
+            not self.has_index.usable
         self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
         # answers to those tests (so `href` values that differ per page do not split the cache),

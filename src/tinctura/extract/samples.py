@@ -38,7 +38,7 @@ MAX_ALTERNATIVES = 16
 # focus, the case where :focus-visible styles show.
 STATES = (("hover", ("hover",), ("hover",)),
           ("focus", ("focus", "focus-visible", "focus-within"), ("focus-within",)))
-CACHE_LIMIT = 60000
+CACHE_LIMIT = 120000  # style keys; a large site adds about a hundred per page
 # Elements whose subtrees are scopes (and may be recorded and replayed): HTML containers. SVG
 # content is left out (shapes earlier in the same <svg> are backgrounds of later text), and so is
 # anything inside an interactive element (its :hover walk reads the keys of its descendants).
@@ -90,7 +90,7 @@ class StyleCache:
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
                  viewport_width, skipped, keep_layers=True, lazy=False, fingerprints=None,
-                 replay=True, structure=None):
+                 replay=True, structure=None, share=True):
         self.page = page
         self.keep_layers = keep_layers  # `check` reports name causes, not every layer
         # lazy: replayed fragments go to ``replays`` as (fragment, Stamp) for the engine to
@@ -107,7 +107,7 @@ class PageWalker:
         self.resolver = Resolver(ruleset, preferred, viewport_width)
         self.skipped = skipped
         self.samples = []
-        self.uncached = ruleset.uses_has
+        self.uncached = ruleset.uses_has or not share
         # the page's wrappers and structural ids, shared with the other schemes' walks
         self.structure = structure if structure is not None else \
             PageStructure(root, ruleset.structure)
@@ -272,10 +272,10 @@ class PageWalker:
                 continue
             scopable = scopable and not focusable and tag != "svg"
             items = []
-            for child, element_id, prev_chain, following in children:
+            for child, element_id, siblings in children:
                 cid = key(key_id, element_id)
                 if collect:
-                    meta[child] = (prev_chain, following, cid)
+                    meta[child] = (siblings, cid)
                 items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
@@ -287,7 +287,7 @@ class PageWalker:
         # the descendants' style keys (from the resting walk) stand for their tags, attributes
         # and ancestors; which of them carry text decides which samples exist
         meta, texts = self.meta, self.texts
-        sig = tuple((meta[d][2] if d in meta else d.tag, d in texts) for d in el.iter()
+        sig = tuple((meta[d][1] if d in meta else d.tag, d in texts) for d in el.iter()
                     if isinstance(d.tag, str))
         memo_key = (kid, state, sig)
         template = self.cache.states.get(memo_key)
@@ -328,12 +328,12 @@ class PageWalker:
                             return
                         parent_style, parent_id, chain = hit
                         continue
-                prev_id, following, _ = self.meta.get(el, (0, 0, 0))
+                siblings, _ = self.meta.get(el, (0, 0))
                 if k == 0:  # the root
                     kid = self._key(0, self.structure.root_id())
                 else:
                     kid = self._key(parent_id, self.structure.structure.element_id(
-                        el, prev_id, following))
+                        el, siblings, self.structure.wrapper_of))
                 style = self.style_for(el, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
                     if el is not target:
@@ -562,6 +562,8 @@ class PageWalker:
                 opaque_seen = True
         if not opaque_seen:
             layers.append((None, "canvas", self.canvas, None))
+        elif surround is None:  # nothing painted around the element's background: the canvas
+            surround = tuple(self.canvas[:3])
         return layers, bg_cause, reason, surround
 
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from tinctura.model import PageResult
+from tinctura.palette import report_page
 
 
 @dataclass
@@ -22,6 +23,9 @@ class Header:
     group: str = "cause"  # "cause" (problems first) or "page"
     fail_on: str = "error"
     schemes: list = field(default_factory=list)  # scheme names evaluated
+    # JSON: "compact" (each situation once, occurrences as small records; format 2) or
+    # "flat" (every finding in full; format 1)
+    findings_layout: str = "compact"
     rules: tuple = ()  # codes of the rules run (empty: every rule)
     # where results point: page -> (path, line or 0) of its Markdown source, or None (then the
     # built page); the hook a source map plugs into
@@ -33,10 +37,17 @@ class Header:
 class Formatter:
     """start, then page* (stable order), problem* (largest first), diagnostic*, then stop.
 
+    A formatter that sets ``wants_findings = False`` gets ``page(page, [])`` (nothing is read
+    back from the run's store); one that sets ``wants_occurrences = True`` gets
+    ``occurrences(page, records, store)`` instead of ``page``: the page's small occurrence
+    records and the ``report.store.FindingStore`` that holds each situation once.
+
     ``marked = True``: the formatter also receives the findings held by the gate (suppressed,
     or unchanged against the baseline), each marked; otherwise only the findings that count.
     """
 
+    wants_findings = True
+    wants_occurrences = False
     marked = False
 
     def __init__(self, stream, header: Header):
@@ -61,8 +72,8 @@ class Formatter:
 
 def findings_by_page(findings) -> dict:
     out: dict = {}
-    for f in findings:
-        out.setdefault(f.sample.page, []).append(f)
+    for f in findings:  # site-level findings (they compare pages) under the whole site
+        out.setdefault(report_page(f), []).append(f)
     for items in out.values():
         items.sort(key=lambda f: (f.sample.line, f.sample.xpath, f.sample.scheme, f.sample.state))
     return out
@@ -71,6 +82,38 @@ def findings_by_page(findings) -> dict:
 def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) -> None:
     """Feed one run to ``formatter``. ``diagnostics``: site-wide ones; page ones come along."""
     formatter.start(summary)
+    if formatter.wants_occurrences:
+        _emit_occurrences(formatter, pages, findings)
+    elif not formatter.wants_findings:
+        for page in pages:
+            formatter.page(page, [])
+    else:
+        _emit_pages(formatter, pages, findings)
+    for index, problem in enumerate(problems, 1):
+        formatter.problem(index, problem)
+    for diagnostic in diagnostics:
+        formatter.diagnostic(diagnostic)
+    for page in pages:
+        for diagnostic in page.diagnostics:
+            formatter.diagnostic(diagnostic)
+    formatter.stop(summary)
+
+
+def _emit_occurrences(formatter: Formatter, pages, findings) -> None:
+    from .store import FindingStore
+
+    inner = getattr(findings, "_findings", None)  # an outputs.GateView over the run's store
+    if getattr(findings, "marked", False) and isinstance(inner, FindingStore):
+        findings = inner  # every finding, marked: the store as it is
+    store = FindingStore.of(findings)
+    listed = [page.page for page in pages]
+    for page in pages:
+        formatter.occurrences(page, store.occurrences(page.page), store)
+    for name in sorted(set(store.pages()) - set(listed)):  # pages the run did not list
+        formatter.occurrences(PageResult(name), store.occurrences(name), store)
+
+
+def _emit_pages(formatter: Formatter, pages, findings) -> None:
     if hasattr(findings, "by_page"):  # a FindingStore: one page in memory at a time
         grouped = {name: None for name in findings.pages()}
 
@@ -87,11 +130,3 @@ def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) 
         formatter.page(page, of(page.page))
     for name in sorted(set(grouped) - seen):  # findings on pages the run did not list
         formatter.page(PageResult(name), of(name))
-    for index, problem in enumerate(problems, 1):
-        formatter.problem(index, problem)
-    for diagnostic in diagnostics:
-        formatter.diagnostic(diagnostic)
-    for page in pages:
-        for diagnostic in page.diagnostics:
-            formatter.diagnostic(diagnostic)
-    formatter.stop(summary)

@@ -7,11 +7,13 @@ from __future__ import annotations
 import json
 import os
 
+from . import appearance
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2  # the compact layout; the flat one keeps writing format 1
+FLAT_VERSION = 1
 SCHEMA_PATH = os.path.join(os.path.dirname(os.path.dirname(__file__)), "data", "report-schema.json")
 
 
@@ -64,6 +66,13 @@ def fix_dict(fix) -> dict:
 
 
 def finding_dict(f) -> dict:
+    out = _finding_dict(f)
+    if appearance.is_appearance(f):  # site-level rules: the palette entries and contexts
+        out["appearance"] = appearance.appearance_dict(f)
+    return out
+
+
+def _finding_dict(f) -> dict:
     s = f.sample
     fg, bg = m.finding_colours(f)
     return {
@@ -95,6 +104,86 @@ def gate_dict(f) -> dict:
         return {}
     return {"fingerprint": f.fingerprint, "suppressed": f.suppressed or None,
             "baseline": f.baseline or None}
+
+
+def situation_dict(f, problem: int | None, occurrences: int) -> dict:
+    """What every occurrence of one situation shares (compact layout)."""
+    s = f.sample
+    fg, bg = m.finding_colours(f)
+    fg_cause = cause_dict(s.fg_cause)
+    if fg_cause is not None:
+        fg_cause["inherited_from"] = None  # per occurrence: its fifth field
+    return {
+        "problem": problem,
+        "rule": f.rule,
+        "slug": f.slug,
+        "severity": f.severity,
+        "scheme": s.scheme,
+        "state": s.state,
+        "fg": m.colour(fg),
+        "bg": m.colour(bg),
+        "ratio": float(f.ratio),
+        "required": float(f.required),
+        "level": f.level,
+        "message": m.message(f),
+        "fix": [fix_dict(x) for x in f.fixes],
+        "fg_cause": fg_cause,
+        "bg_cause": cause_dict(s.bg_cause),
+        "occurrences": occurrences,
+    }
+
+
+def occurrence_list(record) -> list:
+    """``[situation, xpath, line, text]``, plus the ancestor an inherited colour comes from:
+    how many levels up (or its XPath, should it not be an ancestor; null when there is none
+    but the gate's marks follow), plus the gate's marks when the run set them."""
+    sid, xpath, line, text, inherited, _layers, marks = record[:7]
+    out = [sid, xpath, line, m.excerpt(text, 200)]
+    if inherited:
+        if xpath.startswith(inherited + "/"):
+            out.append(xpath.split("::")[0][len(inherited):].count("/"))
+        else:
+            out.append(inherited)
+    if marks:
+        if not inherited:
+            out.append(None)
+        fingerprint, suppressed, baseline = marks
+        out.append({"fingerprint": fingerprint, "suppressed": suppressed or None,
+                    "baseline": baseline or None})
+    return out
+
+
+def inherited_xpath(occurrence: list):
+    """The XPath an occurrence's text colour is inherited from (None: set on the element)."""
+    if len(occurrence) < 5 or occurrence[4] is None:
+        return None
+    up = occurrence[4]
+    if isinstance(up, str):
+        return up
+    return occurrence[1].split("::")[0].rsplit("/", up)[0]
+
+
+def expand(doc: dict) -> list:
+    """Every finding of a report as format 1 writes it (a compact report's situations and
+    occurrences put back together), in report order."""
+    if "findings" in doc:
+        return doc["findings"]
+    situations, out = doc["situations"], []
+    for entry in doc["pages"]:
+        for occ in entry["occurrences"]:
+            sit = situations[occ[0]]
+            fg_cause = sit["fg_cause"]
+            if fg_cause is not None:
+                fg_cause = dict(fg_cause, inherited_from=inherited_xpath(occ))
+            out.append({
+                "rule": sit["rule"], "slug": sit["slug"], "severity": sit["severity"],
+                "page": entry["page"], "scheme": sit["scheme"], "state": sit["state"],
+                "xpath": occ[1], "line": occ[2], "text": occ[3], "fg": sit["fg"],
+                "bg": sit["bg"], "ratio": sit["ratio"], "required": sit["required"],
+                "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
+                "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
+                **(occ[5] if len(occ) > 5 else {})})
+    return out
 
 
 def cause_fix_dict(fix) -> dict | None:
@@ -185,22 +274,35 @@ def sample_dict(s) -> dict:
 
 
 class JsonFormatter(Formatter):
-    """Writes one JSON document as the run goes: findings as their pages arrive, one per line,
-    so that a large site's report is never held in memory twice."""
+    """Writes one JSON document as the run goes, so that a large site's report is never held in
+    memory twice.
 
-    SECTIONS = ("findings", "problems", "diagnostics")
+    Compact layout (format 2, the default): ``pages`` as they arrive, each with its occurrences
+    as small records ``[situation, xpath, line, text(, inherited_from)]``; ``problems``, each
+    listing its situations; ``situations``, what their occurrences share (message, colours,
+    ratio, fix, causes), each once. Flat layout (format 1, ``Header.findings_layout="flat"``):
+    every finding in full, one per line, and problems listing finding indexes."""
+
+    FLAT_SECTIONS = ("findings", "problems", "diagnostics")
+    COMPACT_SECTIONS = ("pages", "problems", "situations", "diagnostics")
     marked = True  # suppressed and baseline-known findings are listed too, marked
 
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)
+        self.flat = getattr(header, "findings_layout", "compact") == "flat"
+        self.wants_occurrences = not self.flat
+        self.SECTIONS = self.FLAT_SECTIONS if self.flat else self.COMPACT_SECTIONS
         self.index_of: dict = {}  # id(finding) -> index in "findings", for the problems
+        self.store = None  # compact: the run's FindingStore
+        self._situation_problem: dict = {}  # situation -> problem index (compact)
+        self._by_problem = None  # problem key -> its situations (compact)
         self._section = -1  # index in SECTIONS of the open list
         self._count = 0  # items written to the open list
 
     def start(self, summary) -> None:
         head = {
             "tool": {"name": self.header.tool, "version": self.header.version},
-            "format_version": SCHEMA_VERSION,
+            "format_version": FLAT_VERSION if self.flat else SCHEMA_VERSION,
             "level": self.header.level,
             "schemes": list(self.header.schemes or summary.schemes),
         }
@@ -213,13 +315,53 @@ class JsonFormatter(Formatter):
         for f in findings:
             self.index_of[id(f)] = self._item("findings", finding_dict(f))
 
+    def occurrences(self, page, records, store) -> None:
+        self.store = store
+        if records:
+            self._item("pages", {"page": page.page,
+                                 "occurrences": [occurrence_list(r) for r in records]})
+
     def problem(self, index, problem) -> None:
-        self._item("problems", problem_dict(problem, self.index_of))
+        if self.flat:
+            self._item("problems", problem_dict(problem, self.index_of))
+            return
+        item = problem_dict(problem, {})
+        del item["findings"]
+        item["situations"] = sids = self._situations_of(problem)
+        for sid in sids:
+            self._situation_problem[sid] = index - 1
+        self._item("problems", item)
+
+    def _situations_of(self, problem) -> list:
+        from tinctura.problems import cause_key, problem_key
+
+        if self.store is None:
+            return []
+        if self._by_problem is None:
+            self._by_problem = {}
+            for sid, template in enumerate(self.store.situations):
+                self._by_problem.setdefault(problem_key(template), []).append(sid)
+        key = (problem.rule, problem.scheme, cause_key(problem.fg_cause),
+               cause_key(problem.bg_cause))
+        return self._by_problem.get(key, [])
+
+    def _situations(self) -> None:
+        """The compact layout's situations, once every problem is written."""
+        if self.flat or self._section >= self.SECTIONS.index("situations"):
+            return
+        self._open(self.SECTIONS.index("situations"))
+        if self.store is None:
+            return
+        for sid, template in enumerate(self.store.situations):
+            self._item("situations", situation_dict(
+                template, self._situation_problem.get(sid), self.store.occurrence_counts[sid]))
 
     def diagnostic(self, diagnostic) -> None:
+        self._situations()
         self._item("diagnostics", diagnostic_dict(diagnostic))
 
     def stop(self, summary) -> None:
+        self._situations()
         self._open(len(self.SECTIONS))
         self._field("summary", summary_dict(summary))
         self.stream.write(",\n")
@@ -243,6 +385,7 @@ class JsonFormatter(Formatter):
     def _item(self, section: str, item) -> int:
         self._open(self.SECTIONS.index(section))
         self.stream.write(",\n    " if self._count else "\n    ")
-        self.stream.write(json.dumps(item, ensure_ascii=False))
+        compact = (",", ":") if section == "pages" else None  # most of a large report
+        self.stream.write(json.dumps(item, ensure_ascii=False, separators=compact))
         self._count += 1
         return self._count - 1

@@ -90,7 +90,7 @@ def message_args(finding: Finding) -> dict:
                 args[key] = ratio(value)
             elif key.endswith("_cd"):
                 args[key] = f"{value:.1f}"
-            else:
+            elif key == "lc_required":
                 args[key] = f"{value:g}"
     args.update(
         ratio=ratio(finding.ratio),
@@ -113,7 +113,8 @@ def message(finding: Finding) -> str:
 def measure(finding: Finding) -> str:
     """What was measured against what is needed, e.g. ``3.45:1, needs 4.5:1`` or
     ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's ``measure`` template."""
-    return rules.get(finding.rule).measure.format(**message_args(finding))
+    template = rules.get(finding.rule).measure or "{ratio}:1, needs {required}:1"
+    return template.format(**message_args(finding))
 
 
 def finding_colours(finding: Finding) -> tuple:

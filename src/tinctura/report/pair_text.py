@@ -16,8 +16,8 @@ TIER_NAMES = {"body": "body text", "content": "other content text",
 def appearance_lines(fg, bg, size_px: float, weight: int, required: float, levels: dict,
                      severity: float = 1.0, mark=lambda ok: "pass" if ok else "fail") -> list:
     """Lines for the pair ``fg`` on ``bg`` (opaque); ``required`` is the WCAG 2 ratio the text
-    needs at the selected level, ``levels`` the Lc per tier (rules.appearance)."""
-    from tinctura.rules import appearance
+    needs at the selected level, ``levels`` the Lc per tier (rules.perception)."""
+    from tinctura.rules import perception as appearance
     from tinctura.rules.deficiency import DEFICIENCIES
 
     lines = []

@@ -6,6 +6,10 @@ import textwrap
 from tinctura.problems import target_declaration
 
 from . import messages as m
+from .appearance import headline as appearance_headline
+from .appearance import finding_lines as appearance_finding_lines
+from .appearance import is_appearance
+from .appearance import problem_lines as appearance_lines
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 from .summary import SEVERITIES
@@ -23,6 +27,10 @@ class TextFormatter(Formatter):
         self.tw = TerminalWriter(stream, colour, environ, choice)
         self.diagnostics: list = []
         self.schemes = list(header.schemes)
+
+    @property
+    def wants_findings(self) -> bool:  # grouped by cause: the problems carry the examples
+        return self.header.group == "page"
 
     # -- helpers -----------------------------------------------------------------------
 
@@ -60,6 +68,9 @@ class TextFormatter(Formatter):
             return
         tw = self.tw
         worst = problem.worst
+        if is_appearance(worst):  # site-level: entries and contexts, no ratio or fix
+            self.appearance_problem(index, problem)
+            return
         fg, bg = m.finding_colours(worst)
         where = f" [scheme {problem.scheme}]" if self.many_schemes else ""
         tw.line(
@@ -89,6 +100,14 @@ class TextFormatter(Formatter):
             tw.line(f"        and {m.plural(rest, 'more occurrence')}", "dim")
         tw.line()
 
+    def appearance_problem(self, index: int, problem) -> None:
+        self.tw.line(f"{index}. {appearance_headline(problem)}", "bold")
+        self.tw.line(f"   {self.severity(problem.severity)} {problem.rule} {problem.slug}: "
+                     f"{m.message(problem.worst)}")
+        for line in appearance_lines(problem, self.many_schemes):
+            self.tw.line(f"   {line}")
+        self.tw.line()
+
     def page(self, page, findings) -> None:
         if self.header.group != "page" or not findings:
             return
@@ -96,6 +115,11 @@ class TextFormatter(Formatter):
         tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
         for f in findings:
             s = f.sample
+            if is_appearance(f):  # site-level: the entries and their contexts
+                tw.line(f"  {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
+                for line in appearance_finding_lines(f, self.many_schemes):
+                    tw.line(f"      {line}")
+                continue
             fg, bg = m.finding_colours(f)
             tw.line(f"  {s.line}: {s.xpath}  \"{m.excerpt(s.text)}\"{self.context(s)}")
             tw.line(f"      {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")

@@ -9,7 +9,7 @@ from wcag_reference import ratio
 
 from tinctura import engine
 from tinctura.colour.convert import to_hex
-from tinctura.rules import appearance, run
+from tinctura.rules import perception as appearance, run
 from tinctura.rules.examples import make_sample
 
 
