@@ -170,7 +170,8 @@ def test_pair_bad_colour(argv, needle):
 ])
 def test_usage_errors_exit_2(argv):
     status, _, err = call(*argv)
-    assert status == 2 and "usage:" in err and "Traceback" not in err
+    # one line naming the mistake and where help is
+    assert status == 2 and err.count("\n") == 1 and "error:" in err and "--help" in err
 
 
 # -- rules ---------------------------------------------------------------------------------

@@ -70,16 +70,63 @@ def font_weight(text: str) -> int:
     return value
 
 
+def byte_size(text: str) -> int:
+    """A size in bytes: a whole number, optionally with K, M or G (powers of 1024)."""
+    units = {"k": 1 << 10, "m": 1 << 20, "g": 1 << 30}
+    scale = units.get(text[-1:].lower(), 1)
+    return positive_int(text[:-1] if scale > 1 else text) * scale
+
+
+def _limit_options(p: argparse.ArgumentParser) -> None:
+    """Bounds on hostile or broken input; the defaults are far above any real site."""
+    from tinctura.extract import bounds
+    from tinctura.extract.style import MAX_VAR_TOKENS
+
+    p.add_argument("--max-file-size", type=byte_size, default=bounds.MAX_FILE_BYTES,
+                   metavar="BYTES", help="pages and stylesheets larger than this are not read "
+                   f"(K, M, G suffixes; default {bounds.MAX_FILE_BYTES >> 20}M)")
+    p.add_argument("--max-elements", type=positive_int, default=bounds.MAX_ELEMENTS,
+                   metavar="N", help="pages with more elements are not checked "
+                   f"(default {bounds.MAX_ELEMENTS:,})")
+    p.add_argument("--max-rules", type=positive_int, default=bounds.MAX_RULES, metavar="N",
+                   help=f"style rules read per stylesheet (default {bounds.MAX_RULES:,})")
+    p.add_argument("--max-var-tokens", type=positive_int, default=MAX_VAR_TOKENS, metavar="N",
+                   help="a var() expansion longer than this is invalid "
+                        f"(default {MAX_VAR_TOKENS:,})")
+    p.add_argument("--allow-unchecked", action="store_true",
+                   help="pages and stylesheets that could not be read (binary, too large, "
+                        "broken) are reported but do not make the exit status 2")
+
+
+def _add_debug(parser: argparse.ArgumentParser) -> None:
+    """``--debug`` before or after the command: internal errors show their traceback."""
+    parser.add_argument("--debug", action="store_true",
+                        help="show the traceback of an internal error (for a bug report)")
+    for action in parser._actions:
+        if isinstance(action, argparse._SubParsersAction):
+            for sub in action.choices.values():
+                sub.add_argument("--debug", action="store_true", default=argparse.SUPPRESS,
+                                 help=argparse.SUPPRESS)
+
+
 def _site_options(p: argparse.ArgumentParser, command: str) -> None:
     p.add_argument("paths", nargs="*", metavar="PATH",
                    help="built site directories or HTML files (default: site_dir from the "
                         "configuration)")
     config.add_flags(p, command)  # every setting with a flag, from the one table
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+    _limit_options(p)
+
+
+class _Parser(argparse.ArgumentParser):
+    """Usage mistakes in one line (with where to find help), exit status 2."""
+
+    def error(self, message):
+        self.exit(2, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
 
 
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog=PROG,
         description="Check colour contrast in built documentation sites.",
     )
@@ -153,6 +200,7 @@ def build_parser() -> argparse.ArgumentParser:
                                description="Describe every rule, or one by code or slug.")
     rules_cmd.add_argument("rule", nargs="?", metavar="RULE", help="a rule code or slug, e.g. TC100")
     rules_cmd.set_defaults(run=run_rules)
+    _add_debug(parser)
     return parser
 
 
@@ -180,7 +228,18 @@ def options_from(args) -> engine.Options:
         cvd_severity=getattr(args, "cvd_severity", 1.0),
         profiles=tuple(getattr(args, "profiles", None) or ("daylight",)),
         palette=palette_setting(getattr(args, "palette", None) or {}),  # checked by config
+        **limits_from(args),
     )
+
+
+def limits_from(args) -> dict:
+    """The input bounds and --debug given on the command line, as Options fields."""
+    names = ("max_file_bytes", "max_elements", "max_rules", "max_var_tokens")
+    flags = ("max_file_size", "max_elements", "max_rules", "max_var_tokens")
+    found = {name: getattr(args, flag) for name, flag in zip(names, flags)
+             if getattr(args, flag, None) is not None}
+    found["debug"] = bool(getattr(args, "debug", False))
+    return found
 
 
 def settle(args, command: str) -> None:
@@ -290,7 +349,7 @@ def run_check(args, stdout, stderr) -> int:
     if len(gone) > GONE_SHOWN:
         stderr.write(f"{PROG}: ... and {len(gone) - GONE_SHOWN:,} more gone (SARIF lists them "
                      f"all as absent)\n")
-    unreadable = input_errors(result, stderr)
+    unreadable = input_errors(result, stderr) and not args.allow_unchecked
     if args.write_baseline:  # the same as --format baseline:FILE, and exit 0
         with outputs.atomic_output(args.write_baseline) as fh:
             fh.write(baseline_mod.dumps(written, version()))
@@ -394,7 +453,7 @@ def run_pairs(args, stdout, stderr) -> int:
     for d in diagnostics_of(result):
         if d.severity != "error":
             stderr.write(f"{PROG}: {d.severity}: {where(d)}: {d.message}\n")
-    return exit_status(error=input_errors(result, stderr))
+    return exit_status(error=input_errors(result, stderr) and not args.allow_unchecked)
 
 
 def parse_pair_colour(text: str, what: str):
@@ -546,11 +605,15 @@ def run_trace(args, stdout, stderr) -> int:
         raise UsageError(f"{args.page}: no such file")
     root = os.path.abspath(args.site) if args.site else _site_root(page)
     rel = os.path.relpath(page, root).replace(os.sep, "/")
+    from tinctura.extract.bounds import Refused
+
     try:
         result = trace(root, rel, args.target,
-                       engine.Options(viewport_width=args.viewport_width))
+                       engine.Options(viewport_width=args.viewport_width, **limits_from(args)))
     except LookupError as exc:
         raise UsageError(str(exc)) from None
+    except (Refused, ValueError) as exc:  # outside the site, too large, empty
+        raise UsageError(f"{args.page}: {exc}") from None
     stdout.write(format_trace(result) + "\n")
     return exit_status()
 
@@ -585,7 +648,13 @@ def main(argv=None, stdout=None, stderr=None) -> int:
     except OSError as e:  # a file that exists but cannot be read
         where = f"{e.filename}: " if e.filename else ""
         stderr.write(f"{PROG}: error: {where}{e.strerror or e}\n")
-    except Exception:
-        stderr.write(f"{PROG}: internal error (please report it with the traceback below)\n")
-        traceback.print_exc(file=stderr)
+    except Exception as exc:  # a bug in tinctura: never a silent pass
+        stderr.write(f"{PROG}: internal error: {type(exc).__name__}: {exc}\n")
+        if getattr(args, "debug", False):
+            traceback.print_exc(file=stderr)
+            stderr.write(f"{PROG}: please report this to the tinctura maintainers with the "
+                         "command, the input it read and the traceback above\n")
+        else:
+            stderr.write(f"{PROG}: please report this to the tinctura maintainers: run the same "
+                         "command again with --debug and send its output with the input\n")
     return exit_status(error=True)

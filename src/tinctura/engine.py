@@ -25,12 +25,14 @@ from . import palette as palette_mod
 from . import problems as problems_mod
 from . import situations
 from .colour import wcag
+from .extract import bounds
 from .extract import behaviours as behaviour_mod
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
+from .extract.style import MAX_VAR_TOKENS
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
 from . import distribution  # the contrast ratios of each page, for the audit report
@@ -61,6 +63,12 @@ class Options:
     # share computed styles between elements and pages, and verdicts between equal colour
     # situations (off: every element's cascade and every sample judged afresh; for tests)
     share: bool = True
+    # bounds on hostile or broken input (extract/bounds.py); each is reported when hit
+    max_file_bytes: int = bounds.MAX_FILE_BYTES  # pages and stylesheets larger are not read
+    max_elements: int = bounds.MAX_ELEMENTS  # pages with more elements are not checked
+    max_rules: int = bounds.MAX_RULES  # style rules kept per stylesheet
+    max_var_tokens: int = MAX_VAR_TOKENS  # longer var() expansions are invalid
+    debug: bool = False  # internal errors keep their traceback in the diagnostic
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
@@ -85,7 +93,9 @@ class Site:
     def __init__(self, root: str, options: Options | None = None):
         self.root = os.path.abspath(root)
         self.options = options or Options()
-        self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path)
+        self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path,
+                                  max_file_bytes=self.options.max_file_bytes,
+                                  max_rules=self.options.max_rules)
         self._caches = {}
         self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
             + tuple(self.options.behaviours)
@@ -113,16 +123,26 @@ class Site:
         path = os.path.join(self.root, rel)
         try:
             if html is None:
-                with open(path, "rb") as fh:
-                    html = fh.read()
+                html = bounds.read_inside(path, self.loader.real_root,
+                                          self.options.max_file_bytes)
             data = html.encode("utf-8") if isinstance(html, str) else html
             if _is_redirect(data):
                 result.skipped["redirect page"] = 1
                 return result
+            refused = _refuse_page(data, self.options)
+            if refused:
+                raise bounds.Refused(refused)
             root = parse_html(html)
             for line, message in parser_warnings():
                 result.diagnostics.append(Diagnostic(rel, message, line=line))
+            refused = _too_many_elements(root, data, self.options.max_elements)
+            if refused:
+                raise bounds.Refused(refused)
             self._script_behaviours(root, result)
+        except bounds.Refused as exc:  # outside the site (a warning); too large, binary
+            result.diagnostics.append(Diagnostic(rel, f"page not checked: {exc}",
+                                                 severity="warning" if exc.outside else "error"))
+            return result
         except (OSError, ValueError) as exc:
             message = exc.strerror if isinstance(exc, OSError) and exc.strerror else str(exc)
             result.diagnostics.append(Diagnostic(rel, f"cannot read page: {message}",
@@ -161,18 +181,16 @@ class Site:
                                         fingerprints=fingerprints,
                                         replay=self.options.replay and self.options.share,
                                         structure=structure, share=self.options.share)
+                    walker.resolver.max_var_tokens = self.options.max_var_tokens
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
+                    _report_resolver(walker.resolver, result.diagnostics)
                 finally:
                     restore()
                     _forget(fingerprints, restore.elements)
                     structure.changed(restore.elements, changed)
         except Exception as exc:  # report, keep the other pages
-            import traceback
-
-            result.diagnostics.append(Diagnostic(
-                rel, f"internal error while checking: {exc!r}\n{traceback.format_exc(limit=4)}",
-                severity="error"))
+            result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result
 
 
@@ -184,6 +202,44 @@ class Site:
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)
                 result.diagnostics.append(Diagnostic(result.page, note))
+
+
+def internal_error(rel: str, exc: BaseException, debug: bool = False) -> Diagnostic:
+    """An error in tinctura itself while checking a page: short, with what to report; the
+    traceback only when debugging."""
+    message = (f"page not checked: internal error ({type(exc).__name__}: {exc}); please report "
+               "it with the page and the output of the same command with --debug")
+    if debug:
+        import traceback
+
+        message += "\n" + "".join(traceback.format_exception(type(exc), exc, exc.__traceback__))
+    return Diagnostic(rel, message, severity="error")
+
+
+def _refuse_page(data: bytes, options: Options) -> str | None:
+    """Why a page's bytes are not checked (too large, not text), or None."""
+    if len(data) > options.max_file_bytes:
+        return bounds.too_large(len(data), options.max_file_bytes)
+    return bounds.not_text(data)
+
+
+def _too_many_elements(root, data: bytes, limit: int) -> str | None:
+    if data.count(b"<") <= limit:  # every element needs a tag: cheap upper bound
+        return None
+    count = sum(1 for _ in root.iter())
+    if count <= limit:
+        return None
+    return (f"{count:,} elements, above the limit of {limit:,} per page "
+            "(--max-elements)")
+
+
+def _report_resolver(resolver, diagnostics) -> None:
+    """Custom properties whose value was dropped for going past a bound, once per site."""
+    for (sheet, line, name), why in resolver.problems.items():
+        note = Diagnostic(sheet, f"{name}: {why}", line=line)
+        if note not in diagnostics:  # met again in another scheme's walk
+            diagnostics.append(note)
+    resolver.problems.clear()
 
 
 def _forget(fingerprints: dict, elements) -> None:
@@ -313,7 +369,8 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
-    site_findings = sorted(judge_site(report.palette, options), key=_finding_order)
+    site_findings = sorted(judge_site(report.palette, options),
+                           key=lambda f: _finding_order(f, (None, f.sample.xpath, f.sample.line)))
     if findings_to is None:
         report.findings.extend(site_findings)
     elif site_findings:  # after every page: reports list them last, under the whole site

@@ -120,23 +120,31 @@ class RuleSet:
 
 class Index:
     def __init__(self, rules, ruleset: RuleSet):
+        # buckets of (test, rule), filled from the raw buckets of rules on first lookup: a
+        # selector is compiled to Python only when an element could match it (a large
+        # stylesheet's selectors are mostly never tried)
         self.by_id, self.by_class, self.by_tag, self.by_attr, self.other = {}, {}, {}, {}, []
+        self._raw = {}  # id(bucket dict) -> {key: [rule]}
+        raw_id, raw_class, raw_tag, raw_attr = {}, {}, {}, {}
         self.ruleset = ruleset
         for rule in rules:
             c = rule.compiled
             if c.never_matches:
                 continue
-            entry = (c.test, rule)
             if c.id is not None:
-                self.by_id.setdefault(c.id, []).append(entry)
+                raw_id.setdefault(c.id, []).append(rule)
             elif c.class_name is not None:
-                self.by_class.setdefault(c.class_name, []).append(entry)
+                raw_class.setdefault(c.class_name, []).append(rule)
             elif c.local_name is not None:
-                self.by_tag.setdefault(c.lower_local_name, []).append(entry)
+                raw_tag.setdefault(c.lower_local_name, []).append(rule)
             elif rule.attr_names:
-                self.by_attr.setdefault(rule.attr_names[0], []).append(entry)
+                raw_attr.setdefault(rule.attr_names[0], []).append(rule)
             else:
-                self.other.append(entry)
+                self.other.append((c.test, rule))
+        for bucket, raw in ((self.by_id, raw_id), (self.by_class, raw_class),
+                            (self.by_tag, raw_tag), (self.by_attr, raw_attr)):
+            self._raw[id(bucket)] = raw
+        self.has_attr_rules = bool(raw_attr)
         # only the states tinctura evaluates: :visited, :target, :active never hold here
         self.dynamic_rules = [r for r in rules if r.dynamic and not r.compiled.never_matches
                               and EVALUATED_STATES.search(r.selector_text)]
@@ -175,6 +183,16 @@ class Index:
                 return True
         return False
 
+    def _fill(self, bucket: dict, key) -> list:
+        """The (test, rule) list of a bucket key, compiling its selectors on first use."""
+        rules = self._raw[id(bucket)].pop(key, None)
+        if rules is None:  # no selector names it (ids are not kept: they are many)
+            if bucket is not self.by_id:
+                bucket[key] = ()
+            return ()
+        entries = bucket[key] = [(rule.compiled.test, rule) for rule in rules]
+        return entries
+
     def match(self, wrapper) -> list:
         """StyleRules whose selector matches, in no particular order."""
         el = wrapper.etree_element
@@ -182,27 +200,35 @@ class Index:
         attrib = el.attrib
         ident = attrib.get("id")
         if ident is not None:
-            for test, rule in self.by_id.get(ident, ()):
+            bucket = self.by_id.get(ident)
+            for test, rule in bucket if bucket is not None else self._fill(self.by_id, ident):
                 if test(wrapper):
                     out.append(rule)
         cls = attrib.get("class")
         if cls:
             seen = set()
+            by_class = self.by_class
             for name in cls.split():
                 if name in seen:
                     continue
                 seen.add(name)
-                for test, rule in self.by_class.get(name, ()):
+                bucket = by_class.get(name)
+                for test, rule in bucket if bucket is not None else self._fill(by_class, name):
                     if test(wrapper):
                         out.append(rule)
         tag = el.tag
         if isinstance(tag, str):
-            for test, rule in self.by_tag.get(tag.lower(), ()):
+            tag = tag.lower()
+            bucket = self.by_tag.get(tag)
+            for test, rule in bucket if bucket is not None else self._fill(self.by_tag, tag):
                 if test(wrapper):
                     out.append(rule)
-        if self.by_attr:
+        if self.has_attr_rules:
             for name in attrib:
-                for test, rule in self.by_attr.get(name.lower(), ()):
+                name = name.lower()
+                bucket = self.by_attr.get(name)
+                for test, rule in bucket if bucket is not None else self._fill(self.by_attr,
+                                                                                name):
                     if test(wrapper):
                         out.append(rule)
         for test, rule in self.other:

@@ -130,6 +130,7 @@ def situation_dict(f, problem: int | None, occurrences: int) -> dict:
         "fg_cause": fg_cause,
         "bg_cause": cause_dict(s.bg_cause),
         "occurrences": occurrences,
+        **({"appearance": appearance.appearance_dict(f)} if appearance.is_appearance(f) else {}),
     }
 
 
@@ -182,6 +183,7 @@ def expand(doc: dict) -> list:
                 "bg": sit["bg"], "ratio": sit["ratio"], "required": sit["required"],
                 "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
                 "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
+                **({"appearance": sit["appearance"]} if "appearance" in sit else {}),
                 **(occ[5] if len(occ) > 5 else {})})
     return out
 
