@@ -22,7 +22,8 @@ def test_defaults():
                                    "severity": {}, "allow": [], "baseline": None, "report": [],
                                    "behaviours": (), "theme_behaviours": True,
                                    "lc_levels": None, "cvd_severity": 1.0,
-                                   "profiles": ("daylight",), "palette": {}}
+                                   "profiles": ("daylight",), "palette": {},
+                                   "no_exempt": [], "logotypes": []}
 
 
 def test_appearance_options_reach_the_engine():
@@ -47,6 +48,8 @@ def test_appearance_options_reach_the_engine():
     ("jobs", 0, "at least 1"),
     ("palette", {"fault": "not-a-colour"}, "neither a CSS colour nor a custom property"),
     ("palette", ["#c62828"], "expected a table of name = colour"),
+    ("no_exempt", ["disabled"], "unknown exemption"),
+    ("logotypes", ["p["], "cannot read selector"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "expected true or false"),
     ("log_every", 1, "expected true or false"),

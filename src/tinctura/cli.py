@@ -198,7 +198,8 @@ def build_parser() -> argparse.ArgumentParser:
 
     rules_cmd = sub.add_parser("rules", help="describe the rules",
                                description="Describe every rule, or one by code or slug.")
-    rules_cmd.add_argument("rule", nargs="?", metavar="RULE", help="a rule code or slug, e.g. TC100")
+    rules_cmd.add_argument("rule", nargs="?", metavar="RULE",
+                           help="a rule code or slug, e.g. TC100, or `exemptions`")
     rules_cmd.set_defaults(run=run_rules)
     _add_debug(parser)
     return parser
@@ -229,6 +230,8 @@ def options_from(args) -> engine.Options:
         profiles=tuple(getattr(args, "profiles", None) or ("daylight",)),
         palette=palette_setting(getattr(args, "palette", None) or {}),  # checked by config
         **limits_from(args),
+        exemptions=config.exemptions_kept(getattr(args, "no_exempt", [])),
+        logotypes=tuple(getattr(args, "logotypes", ()) or ()),
     )
 
 
@@ -580,7 +583,30 @@ def describe_rule(rule, tw: TerminalWriter) -> None:
         tw.line(f"    {title}: {url}")
 
 
+def describe_exemptions(tw: TerminalWriter) -> None:
+    from tinctura.extract.exempt import EXEMPTIONS
+
+    tw.line("What the contrast rules leave out, and why (WCAG 2.2 scope)", "bold")
+    tw.line("  Each can be switched off with --no-exempt ID (plugin and configuration: no_exempt).")
+    for e in EXEMPTIONS:
+        tw.line()
+        tw.line(f"{e.id}: {e.title}" + (f" (judged by {e.judged_by})" if e.judged_by else ""),
+                "bold")
+        for line in textwrap.wrap("Applies to " + e.applies_to + ".", 84):
+            tw.line(f"    {line}")
+        for line in textwrap.wrap(f"{e.source}: \u201c{e.quote}\u201d", 84):
+            tw.line(f"    {line}")
+        tw.line(f"    {e.url}")
+        tw.line("  Exempt example", "bold")
+        tw.line(f"    {e.exempt_example}", "dim")
+        tw.line("  Judged example", "bold")
+        tw.line(f"    {e.judged_example}", "dim")
+
+
 def run_rules(args, stdout, stderr) -> int:
+    if args.rule and args.rule.strip().lower() in ("exemptions", "exempt", "scope"):
+        describe_exemptions(TerminalWriter(stdout))
+        return exit_status()
     if args.rule:
         try:
             chosen = [rules.get(args.rule)]
@@ -594,6 +620,9 @@ def run_rules(args, stdout, stderr) -> int:
         if n:
             tw.line()
         describe_rule(rule, tw)
+    if not args.rule:
+        tw.line()
+        describe_exemptions(tw)
     return exit_status()
 
 

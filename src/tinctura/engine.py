@@ -27,6 +27,9 @@ from . import situations
 from .colour import wcag
 from .extract import bounds
 from .extract import behaviours as behaviour_mod
+from .extract import exempt as exempt_mod
+from .extract import links as link_mod
+from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -69,6 +72,9 @@ class Options:
     max_rules: int = bounds.MAX_RULES  # style rules kept per stylesheet
     max_var_tokens: int = MAX_VAR_TOKENS  # longer var() expansions are invalid
     debug: bool = False  # internal errors keep their traceback in the diagnostic
+    # exemptions switched on (extract/exempt.py ids); None: all of them
+    exemptions: tuple | None = None
+    logotypes: tuple = ()  # CSS selectors of logos and brand names set as text (SC 1.4.3)
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
@@ -159,6 +165,11 @@ class Site:
             result.schemes = list(schemes)
             fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
             structure = PageStructure(root, ruleset.structure)  # likewise
+            # scope decisions mark the tree before any walk: the marks reach every style key
+            exemptions = exempt_mod.mark(root, exempt_mod.enabled_set(self.options.exemptions),
+                                         self.options.logotypes, structure.text,
+                                         source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
+                                         else data, per_link=link_mod.consider)
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 changed = [attr for _, attr, _ in scheme.attributes]
@@ -180,7 +191,8 @@ class Site:
                                         lazy=not self.options.keep_samples,
                                         fingerprints=fingerprints,
                                         replay=self.options.replay and self.options.share,
-                                        structure=structure, share=self.options.share)
+                                        structure=structure, share=self.options.share,
+                                        exemptions=exemptions)
                     walker.resolver.max_var_tokens = self.options.max_var_tokens
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
@@ -492,6 +504,7 @@ class _Verdict:
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
         self.stats = _canonical(("stats", stats["samples"], stats["exempt"],
+                                 tuple(sorted(stats["exempt_reasons"].items())),
                                  tuple(sorted(stats["undetermined"].items())),
                                  tuple(stats["schemes"]),
                                  distribution.key(stats.get("ratios", {}))), stats)
@@ -535,13 +548,21 @@ def _verdict(fragment, options) -> _Verdict:
 
 
 def sample_stats(samples) -> dict:
-    """What the summary needs of a page's samples once they are dropped."""
-    undetermined = {}
+    """What the summary needs of a page's samples once they are dropped. The counts are of
+    texts: samples of controls and graphics (``extract/nontext.py``) are judged by TC110 but
+    not counted as texts."""
+    undetermined, exempt = {}, {}
+    texts = 0
     for s in samples:
-        if s.status == UNDETERMINED and not s.exempt:
+        if s.kind in NON_TEXT:
+            continue
+        texts += 1
+        if s.exempt:
+            exempt[s.exempt] = exempt.get(s.exempt, 0) + 1
+        elif s.status == UNDETERMINED:
             key = s.reason or "unknown"
             undetermined[key] = undetermined.get(key, 0) + 1
-    return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
+    return {"samples": texts, "exempt": sum(exempt.values()), "exempt_reasons": exempt,
             "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples}),
             "ratios": distribution.histogram(samples)}  # for the audit report's chart
 
@@ -549,6 +570,8 @@ def sample_stats(samples) -> dict:
 def _add_stats(into: dict, more: dict, times: int = 1) -> None:
     into["samples"] += more["samples"] * times
     into["exempt"] += more["exempt"] * times
+    for reason, count in more["exempt_reasons"].items():
+        into["exempt_reasons"][reason] = into["exempt_reasons"].get(reason, 0) + count * times
     for reason, count in more["undetermined"].items():
         into["undetermined"][reason] = into["undetermined"].get(reason, 0) + count * times
     distribution.merge(into.setdefault("ratios", {}), more.get("ratios", {}), times)

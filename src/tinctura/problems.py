@@ -285,8 +285,14 @@ def _add_backgrounds(bucket: dict, sample) -> None:
 _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgrounds
 
 
-def fix_at_cause(problem: Problem, uses: dict) -> CauseFix | None:
-    if problem.required <= 1.0:  # no ratio is required (site-level appearance rules)
+# Rules whose verdict is not a colour against the background: no colour fix at the cause (TC120
+# is met by an underline or another cue; the rule's documentation says how)
+NO_COLOUR_FIX = frozenset({"TC120"})
+
+
+def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
+    if problem.rule in NO_COLOUR_FIX or problem.required <= 1.0:
+        # (no ratio is required: the site-level appearance rules)
         return None
     declaration = target_declaration(problem.fg_cause)
     backgrounds: dict = {}  # background -> schemes it appears in

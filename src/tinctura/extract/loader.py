@@ -235,7 +235,7 @@ def _shift_lines(parsed, offset):
         return parsed
     for rule in parsed.rules:
         if isinstance(rule, StyleRule):
-            for d in rule.decls:
+            for d in rule.decls + rule.cue_decls:  # (cue_decls: extract/links.py)
                 if not getattr(d, "_shifted", False):
                     d.line += offset - 1
                     d._shifted = True

@@ -7,6 +7,7 @@ few selectors are tested on each element.
 """
 from __future__ import annotations
 
+import dataclasses
 import re
 from functools import cached_property
 
@@ -36,19 +37,29 @@ class RuleSet:
                 ranks.setdefault(path[:k], len(ranks))
         self.unlayered_rank = len(ranks)
         self.layer_ranks = ranks
-        self.rules = rules
         for order, rule in enumerate(rules):
             rule.order = order
+        # rules drawing non-colour cues, matched apart for links (extract/links.py); rules with
+        # nothing else stay out of the colour cascade and its keys
+        self.cue_rules = [r for r in rules if r.cue_decls]
+        # what selectors can read stays in the style keys for every rule (cue rules included:
+        # cues are cached per style key); only colour rules are indexed and cascaded
+        # (a cue rule with :has() is left out: one cached answer per style key)
+        keyed = [r for r in rules if r.decls or ":has(" not in r.selector_text]
+        rules = [r for r in rules if r.decls]
+        self.rules = rules
         self.has_index = HasIndex(rules)
         # :has() that cannot be analysed: nothing is shared (see ``siblings``)
         self.uses_has = any(":has(" in r.selector_text for r in rules) and \
             not self.has_index.usable
+        # siblings only for colour rules: a sibling-sensitive cue rule (`li + li a`) would split
+        # the keys of every navigation item; its answer is the first sibling's (documented)
         self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
         # answers to those tests (so `href` values that differ per page do not split the cache),
         # or the whole value when a test could not be read.
         tests = {}
-        for r in rules:
+        for r in keyed:
             text = r.selector_text
             found = ATTR_TEST.findall(text)
             if len(found) != text.count("["):
@@ -64,7 +75,7 @@ class RuleSet:
                     entry.append((op, value.strip("\"'"), flag.lower() == "i"))
         for name in KEEP_VALUES:
             tests[name] = None
-        texts = [r.selector_text for r in rules]
+        texts = [r.selector_text for r in keyed]
         if any("\\" in text for text in texts):
             tests["class"] = tests["id"] = None
             self.selector_classes = self.selector_ids = frozenset()
@@ -115,10 +126,14 @@ class RuleSet:
         if idx is None:
             idx = self._indexes[env.key] = Index(
                 [r for r in self.rules if all(env.matches(m) for m in r.media)], self)
+            idx.cue_rules = [dataclasses.replace(r, decls=r.cue_decls) for r in self.cue_rules
+                             if all(env.matches(m) for m in r.media)]
         return idx
 
 
 class Index:
+    cue_rules = ()  # set by RuleSet.index: rules of non-colour cues, with those as their decls
+
     def __init__(self, rules, ruleset: RuleSet):
         # buckets of (test, rule), filled from the raw buckets of rules on first lookup: a
         # selector is compiled to Python only when an element could match it (a large

@@ -30,6 +30,15 @@ RELEVANT = frozenset(
     position clip clip-path width height overflow all list-style list-style-type
     box-shadow""".split()
 )
+# Properties that draw cues other than colour (links in running text, SC 1.4.1). Kept apart in
+# ``StyleRule.cue_decls``: a rule with only these is never in the colour index (no cost to the
+# walk); ``extract/links.py`` matches them for the few links that need it.
+CUES = frozenset(
+    """text-decoration text-decoration-line border border-bottom border-block-end border-style
+    border-bottom-style border-block-end-style border-top border-block border-block-start
+    box-shadow outline outline-style outline-width font-style border-color border-bottom-color
+    outline-color outline-offset""".split()
+)
 
 # Dynamic pseudo-classes are rewritten into attributes that the engine sets on an element to
 # evaluate a state; in the resting state no element has them, so `:hover` never matches and
@@ -83,6 +92,7 @@ class StyleRule:
     order: int = 0
     attr_names: tuple = ()  # attribute names the rightmost compound requires (for indexing)
     dynamic: bool = False  # uses a rewritten dynamic pseudo-class
+    cue_decls: list = field(default_factory=list)  # declarations of CUES properties
 
 
 @dataclass
@@ -103,13 +113,14 @@ class ParsedSheet:
     has_color_scheme_property: bool = False
 
 
-def parse_declarations(content, *, relevant_only: bool = True, line_offset: int = 0) -> list:
+def parse_declarations(content, *, relevant_only: bool = True, line_offset: int = 0,
+                       keep=RELEVANT) -> list:
     out = []
     for item in tinycss2.parse_blocks_contents(content, skip_whitespace=True, skip_comments=True):
         if item.type != "declaration":
             continue
         name = item.lower_name if not item.name.startswith("--") else item.name
-        if relevant_only and not name.startswith("--") and name not in RELEVANT:
+        if relevant_only and not name.startswith("--") and name not in keep:
             continue
         text = tinycss2.serialize([t for t in item.value if t.type != "comment"]).strip()
         out.append(Decl(name, None, item.important, item.source_line + line_offset, text,
@@ -331,9 +342,19 @@ def compile_one(text: str, tokens=None):
     return got
 
 
+def split_declarations(content, line_offset: int = 0) -> tuple:
+    """(declarations the engine reads, declarations of non-colour cues), in one parse."""
+    decls = parse_declarations(content, keep=_READ, line_offset=line_offset)
+    keep = [d for d in decls if d.name.startswith("--") or d.name in RELEVANT]
+    return keep, [d for d in decls if d.name in CUES]
+
+
+_READ = RELEVANT | CUES
+
+
 def _style_rule(rule, sheet, origin, media, layer):
-    decls = parse_declarations(rule.content, line_offset=sheet.line_offset)
-    if not decls:
+    decls, cue_decls = split_declarations(rule.content, sheet.line_offset)
+    if not decls and not cue_decls:
         return
     for part in split_selector_list(rule.prelude):
         if len(sheet.rules) >= sheet.max_rules:
@@ -350,6 +371,7 @@ def _style_rule(rule, sheet, origin, media, layer):
             selector_text=text, compiled=compiled, specificity=compiled.specificity,
             pseudo=compiled.pseudo_element, decls=decls, media=media, layer=layer,
             origin=origin, sheet=sheet.name, attr_names=_rightmost_attrs(part), dynamic=dynamic,
+            cue_decls=cue_decls,
         ))
 
 

@@ -138,7 +138,7 @@ class Style:
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
                  "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style",
-                 "hidden_within", "shadows")
+                 "hidden_within", "shadows", "in_link")
 
     def __init__(self):
         self.color = BLACK
@@ -167,6 +167,7 @@ class Style:
         self.hidden_within = False  # this element or an ancestor is visually hidden
         self.svg_fill = None
         self.disabled = False
+        self.in_link = 0  # inside an <a href> (itself included): 1; one in running text: 2
 
 
 ROOT_PARENT = Style()

@@ -244,10 +244,19 @@ def summary_dict(s) -> dict:
         "undetermined": s.undetermined,
         "undetermined_reasons": dict(s.undetermined_reasons),
         "exempt": s.exempt,
+        "exempt_reasons": dict(s.exempt_reasons),
         "skipped": dict(s.skipped),
         "diagnostics": s.diagnostics,
         "schemes": list(s.schemes),
     }
+
+
+def link_dict(link):
+    """A link's context for SC 1.4.1 (TC120), or None for samples outside running-text links."""
+    if link is None:
+        return None
+    return {"surround": None if link.surround is None else m.colour(link.surround),
+            "rest": list(link.rest), "hover": list(link.hover), "focus": list(link.focus)}
 
 
 def sample_dict(s) -> dict:
@@ -268,6 +277,7 @@ def sample_dict(s) -> dict:
         "status": s.status,
         "reason": s.reason,
         "exempt": s.exempt,
+        "link": link_dict(s.link),
         "bg_alternatives": [m.colour(b) for b in s.bg_alternatives if b is not None],
         "fg_cause": cause_dict(s.fg_cause),
         "bg_cause": cause_dict(s.bg_cause),
