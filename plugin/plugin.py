@@ -26,7 +26,7 @@ from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
-from tinctura.report.text_report import cause_fix_lines, headline, summary_line
+from tinctura.report.text_report import cause_fix_lines, headline, problem_measure, summary_line
 
 from .config import TincturaConfig
 
@@ -85,6 +85,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             keep_samples=False,  # a build log needs counts, findings and declaration uses
             rules=chosen,
             severity=tuple(sorted(self.config.severity.items())),
+            lc_levels=self.config.lc_levels,
+            cvd_severity=self.config.cvd_severity,
+            profiles=tuple(self.config.profiles),
             palette=palette_mod.palette_setting(self.config.palette),
             exemptions=config_mod.exemptions_kept(self.config.no_exempt),
             logotypes=tuple(self.config.logotypes),
@@ -311,7 +314,7 @@ def problem_line(problem, many_schemes: bool = False) -> str:
         f"{problem.rule} {problem.slug}{scheme}: "
         f"{m.plural(problem.occurrences, 'occurrence')} on {m.plural(problem.pages, 'page')}: "
         f"{headline(problem.fg_cause, fg, 'color')} on {headline(problem.bg_cause, bg, 'background')}, "
-        f"{m.ratio(problem.worst_ratio)}:1, needs {m.required(problem.required)}:1; "
+        f"{problem_measure(problem)}; "
         f"e.g. {example.page}:{example.line} {m.css_path(example.xpath)}"
     )
     lines = cause_fix_lines(problem.fix_at_cause)

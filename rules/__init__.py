@@ -4,7 +4,7 @@
 """
 from __future__ import annotations
 
-from . import appearance, links, nontext, text
+from . import appearance, deficiency, lightness, links, nontext, text, viewing
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
 __all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Example", "Rule",
@@ -15,6 +15,9 @@ CHECKS = {
     "TC100": text.check_text_ratio,
     "TC110": nontext.check_ui_ratio,
     "TC120": links.check_link_cue,
+    "TC200": lightness.check_text_lc,
+    "TC400": deficiency.check_cvd_ratio,
+    "TC500": viewing.check_glare_ratio,
     "TC300": appearance.check_surround_shift,
     "TC310": appearance.check_lookalike,
 }

@@ -494,4 +494,205 @@ LINK_CUE = Rule(
     ),
 )
 
-RULES = (TEXT_RATIO, UI_RATIO, LINK_CUE, SURROUND_SHIFT, LOOKALIKE)
+_PANEL = (
+    '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>{title}</title></head>'
+    '<body style="margin:0;background-color:{bg};color:{fg}">{body}</body></html>'
+)
+_APCA_REFERENCES = (
+    ("W3C, WCAG 3 Working Drafts, where APCA 0.0.98G-4g was published for review (the "
+     "readability levels are quoted from memory; APCA is not a WCAG 2 requirement)",
+     "https://www.w3.org/TR/wcag-3.0/"),
+)
+_NOT_WCAG2 = (
+    " This is advice beyond WCAG 2: the WCAG 2 success criteria ask only for the contrast "
+    "ratio (TC100), and text that fails it is left to TC100. Automated checks cover only part "
+    "of WCAG; conformance needs a review by qualified people."
+)
+
+TEXT_LC = Rule(
+    code="TC200",
+    slug="text-lc",
+    title="Text lightness contrast (APCA Lc)",
+    family="lightness",
+    severity="warning",
+    criteria=(SC_1_4_3, SC_1_4_6),
+    message=(
+        "lightness contrast Lc {lc} ({polarity}) is below the Lc {lc_required} advised for "
+        "{tier}; the WCAG 2 ratio {ratio}:1 passes{against}"
+    ),
+    measure="Lc {lc}, needs Lc {lc_required} ({polarity})",
+    docs=Docs(
+        checks=(
+            "The APCA lightness contrast Lc (version 0.0.98G-4g) of each text that meets the "
+            "WCAG 2 ratio, against the level its size and weight call for. Default levels, from "
+            "the published APCA readability guidance (quoted from memory): body text Lc 75; "
+            "other content text Lc 60; large headlines Lc 45; placeholder text Lc 30. Our "
+            "mapping of size and weight to those levels (a judgement; weight 700 or more is "
+            "bold): 36 px, or 24 px bold, and up is a headline; 24 px, or 16 px bold, and up "
+            "other content text; anything smaller body text. Lc is signed: positive for dark "
+            "text on a light background, negative for light on dark; the level applies to its "
+            "magnitude, and the report names the polarity. The levels are the `lc_levels` "
+            "setting (body, content, headline, any)." + _NOT_WCAG2
+        ),
+        why=(
+            "The WCAG 2 ratio treats dark-on-light and light-on-dark alike and overrates "
+            "pairs of dark colours, so thin light text on a dark panel can pass 4.5:1 and still "
+            "read poorly. APCA models how lightness contrast is perceived, including polarity "
+            "and the reader's adaptation to the brighter colour."
+        ),
+        bad=Example(
+            html=_PANEL.format(
+                title="Night log", bg="#1a1a1a", fg="#f0f0f0",
+                body='<p style="color:#b0b0b0;font-weight:300">Lamp test every evening.</p>',
+            ),
+            fg="#b0b0b0", bg="#1a1a1a", weight=300,
+            note="Light grey on near-black: 8.02:1 passes WCAG 2, but Lc -58.21 is below the "
+                 "Lc 75 advised for body text.",
+        ),
+        good=Example(
+            html=_PANEL.format(
+                title="Night log", bg="#1a1a1a", fg="#f0f0f0",
+                body='<p style="color:#e0e0e0;font-weight:300">Lamp test every evening.</p>',
+            ),
+            fg="#e0e0e0", bg="#1a1a1a", weight=300,
+            note="Near-white on near-black: 13.18:1 and Lc -86.55.",
+        ),
+        fix=(
+            "Raise the lightness difference: lighter text on dark backgrounds, darker text on "
+            "light ones, or a larger or bolder font (which lowers the level required). The "
+            "suggested colour keeps the hue and meets both this level and the WCAG 2 ratio."
+        ),
+        references=_APCA_REFERENCES + (
+            ("WCAG 2.2, Understanding SC 1.4.3 Contrast (Minimum)", SC_1_4_3.url),
+        ),
+    ),
+)
+
+CVD_RATIO = Rule(
+    code="TC400",
+    slug="cvd-ratio",
+    title="Text contrast under colour-vision deficiency",
+    family="deficiency",
+    severity="warning",
+    criteria=(SC_1_4_3, SC_1_4_6),
+    message=(
+        "under {deficiency} the text reads as {sim_fg} on {sim_bg}: {ratio}:1 and Lc {lc}, "
+        "against {normal_ratio}:1 and Lc {normal_lc} for normal vision (needs {required}:1, "
+        "and Lc {lc_required} where normal vision reaches it); fails under "
+        "{deficiencies}{against}"
+    ),
+    measure="{ratio}:1 under {deficiency}, needs {required}:1",
+    docs=Docs(
+        checks=(
+            "Each text that meets the WCAG 2 ratio for normal vision is seen as a reader with "
+            "protanopia, deuteranopia or tritanopia would see it (Machado, Oliveira and "
+            "Fernandes 2009, in linear-light sRGB; severity 1.0 by default, the `cvd_severity` "
+            "setting, 0 to 1). It is reported when, under a deficiency, it falls below the "
+            "WCAG 2 ratio, or below the APCA Lc level of its size (as TC200) that it reached "
+            "for normal vision. The finding names every deficiency that fails and shows the "
+            "simulated colours. The choice of measures and of severity 1.0 (the strongest "
+            "form) is our judgement. Greys look alike to every reader in this model and are "
+            "not simulated." + _NOT_WCAG2
+        ),
+        why=(
+            "About 8 % of men and 0.5 % of women of Northern European descent have a red-green "
+            "deficiency (common practice); tritan defects are rare. For a protan reader, red "
+            "looks much darker: a red warning on black that passes for most readers can sink "
+            "towards the background."
+        ),
+        bad=Example(
+            html=_PANEL.format(
+                title="Alarm panel", bg="#000000", fg="#f0f0f0",
+                body='<p style="color:#ff3030">Flood alarm active</p>',
+            ),
+            fg="#ff3030", bg="#000000",
+            note="Red on black: 5.71:1 for normal vision, 3.80:1 under protanopia.",
+        ),
+        good=Example(
+            html=_PANEL.format(
+                title="Alarm panel", bg="#000000", fg="#f0f0f0",
+                body='<p style="color:#ffd23c">Flood alarm active</p>',
+            ),
+            fg="#ffd23c", bg="#000000",
+            note="Amber on black: 14.53:1, and at least 13.46:1 under each deficiency.",
+        ),
+        fix=(
+            "Prefer a lightness difference to a hue difference: make the text lighter (or the "
+            "background darker) until the contrast holds for every reader, or choose a hue that "
+            "keeps its lightness under the deficiency (amber or yellow rather than red on dark "
+            "backgrounds). Never signal by colour alone. Safety colours and signs follow their "
+            "own standards (ISO 3864, ANSI Z535) and local rules, which this rule does not check."
+        ),
+        references=(
+            ("G. M. Machado, M. M. Oliveira, L. A. F. Fernandes, A physiologically-based model "
+             "for simulation of color vision deficiency, IEEE TVCG 15(6), 2009",
+             "https://doi.org/10.1109/TVCG.2009.113"),
+            ("colour-science, colour.blindness (the matrices)",
+             "https://colour.readthedocs.io/en/latest/colour.blindness.html"),
+            ("WCAG 2.2, Understanding SC 1.4.3 Contrast (Minimum)", SC_1_4_3.url),
+        ),
+    ),
+)
+
+GLARE_RATIO = Rule(
+    code="TC500",
+    slug="glare-ratio",
+    title="Text contrast in bright ambient light",
+    family="viewing",
+    severity="info",
+    criteria=(SC_1_4_3, SC_1_4_6),
+    message=(
+        "in {profile} viewing ({about}) light reflected by the screen lowers the contrast to "
+        "{ratio}:1 (text {fg_cd} cd/m2 on {bg_cd} cd/m2, Lc {lc}), below {required}:1; "
+        "{office_ratio}:1 in the office{against}"
+    ),
+    measure="{ratio}:1 in {profile}, needs {required}:1",
+    docs=Docs(
+        checks=(
+            "Each text that meets the WCAG 2 ratio in the office is judged under the selected "
+            "viewing profiles (the `profiles` setting; default daylight). Light of illuminance "
+            "E on a screen of reflectance R adds F = R E / (pi Lw) of the white luminance Lw to "
+            "text and background alike; the effective ratio is (L1 + F) / (L2 + F). Office is "
+            "the sRGB reference viewing conditions (IEC 61966-2-1: 64 lux, 80 cd/m2, flare 1 %); "
+            "dim is 50 lux on a matte screen; daylight is a tablet in shade (5,000 lux, "
+            "500 cd/m2, R 2 %). Our judgement: WCAG's own 0.05 flare term stands for office "
+            "viewing, so a profile adds what it reflects beyond the office (F = 0.05 + "
+            "F_profile - F_office) and office gives exactly the WCAG 2 ratio. The profile "
+            "values are typical, not measured on your readers' devices." + _NOT_WCAG2
+        ),
+        why=(
+            "Manuals are read on site: a tablet outdoors reflects daylight, which lifts dark "
+            "colours far more than light ones, so pale text and dark backgrounds wash out first."
+        ),
+        bad=Example(
+            html=_PAGE.format(
+                title="Survey notes",
+                body='<p style="color:#6b6b6b">Photograph the staff gauge at each visit.</p>',
+            ),
+            fg="#6b6b6b", bg="#ffffff",
+            note="Grey on white: 5.32:1 in the office, 4.40:1 in daylight.",
+        ),
+        good=Example(
+            html=_PAGE.format(
+                title="Survey notes",
+                body='<p style="color:#4d4d4d">Photograph the staff gauge at each visit.</p>',
+            ),
+            fg="#4d4d4d", bg="#ffffff",
+            note="Dark grey on white: 8.45:1 in the office, 6.20:1 in daylight.",
+        ),
+        fix=(
+            "Keep more than the minimum contrast for content read outdoors: darker text on "
+            "light backgrounds (or lighter backgrounds under light text). The suggested colour "
+            "keeps the hue and meets the ratio in every selected profile and in the office."
+        ),
+        references=(
+            ("IEC 61966-2-1:1999, sRGB, reference viewing environment",
+             "https://webstore.iec.ch/publication/6169"),
+            ("WCAG 2.2, definition of contrast ratio (the flare term)",
+             "https://www.w3.org/TR/WCAG22/#dfn-contrast-ratio"),
+            ("WCAG 2.2, Understanding SC 1.4.3 Contrast (Minimum)", SC_1_4_3.url),
+        ),
+    ),
+)
+
+RULES = (TEXT_RATIO, UI_RATIO, LINK_CUE, TEXT_LC, SURROUND_SHIFT, LOOKALIKE, CVD_RATIO, GLARE_RATIO)

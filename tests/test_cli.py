@@ -83,6 +83,53 @@ def test_version_flags():
         assert status == 0 and out.startswith("tinctura ")
 
 
+def test_pair_apca_reference_values():
+    # APCA 0.0.98G-4g reference values (shared reference values, verified by the formula):
+    # #888 on #fff = Lc 63.06, #fff on #888 = Lc -68.54; both pairs are 3.54:1 (WCAG 2.2
+    # formula), below AA's 4.5:1, so the command exits 1.
+    status, out, _ = call("pair", "#888", "white")
+    assert status == 1
+    assert "Lc 63.06 (dark on light)" in out
+    status, out, _ = call("pair", "#fff", "#888")
+    assert status == 1
+    assert "Lc -68.54 (light on dark)" in out
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "*meets the levels for: other content text (Lc 60), large headlines (Lc 45)*",
+        "*this text is body text: needs Lc 75: fail",
+    ])
+    assert "needs Lc 90: fail" in call("pair", "#000", "#888", "--lc-levels", "body=90")[1]
+
+
+def test_pair_red_on_black_names_protanopia():
+    # #ff3030 on black: 5.71:1 (WCAG 2.2 formula) passes AA; under protanopia (Machado et al.
+    # 2009, severity 1, matrix as tabulated in colour-science) it darkens to 3.80:1.
+    status, out, _ = call("pair", "#ff3030", "black")
+    assert status == 0
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "#ff3030 on #000000: 5.71:1",
+        "  AA  (SC 1.4.3) needs 4.5:1: pass",
+        "Colour-vision deficiency*needs 4.5:1*",
+        "  protanopia   #* on #000000: 3.80:1, Lc *: fail",
+        "  deuteranopia *: pass",
+        "Viewing profiles*",
+        "  office * 5.71:1, Lc -39.34: pass",
+        "  daylight *: fail",
+    ])
+    assert "protanopia   #ff3030 on #000000: 5.71:1" in call(
+        "pair", "#ff3030", "black", "--cvd-severity", "0")[1]  # severity 0: normal vision
+
+
+@pytest.mark.parametrize("argv, needle", [
+    (("--lc-levels", "body"), "expected TIER=LC"),
+    (("--lc-levels", "footnote=40"), "unknown text tier 'footnote'"),
+    (("--cvd-severity", "2"), "from 0 to 1"),
+    (("--profiles", "beach"), "unknown viewing profile 'beach'"),
+])
+def test_appearance_options_are_checked(tmp_path, argv, needle):
+    status, _, err = call("check", str(tmp_path), "--no-config", *argv)
+    assert status == 2 and needle in err
+
+
 def test_pair_large_text_passes_aa():
     # #949494 on white = 3.03:1 (WCAG formula): large text (24 px) meets AA's 3:1.
     status, out, _ = call("pair", "#949494", "#fff", "--size", "24")

@@ -66,6 +66,45 @@ def test_exactly_the_planted_findings(report):
                        for i in (1, 3, 5)), (key, mine, theirs)
 
 
+APPEARANCE_PAGE = "faults/appearance/index.html"
+READABILITY = ("TC200", "TC400", "TC500")
+
+
+@pytest.mark.slow
+def test_exactly_the_planted_appearance_findings(report):
+    """faults/appearance.md: each planted text meets the WCAG 2 ratio and fails exactly one
+    colour-appearance rule, in both schemes (explicit colours); the page's "Clean" texts and
+    every planted fault of the other pages get no appearance finding. The expected rows are
+    example_site/README.md's table, whose numbers tests/test_example_site.py recomputes from
+    outside sources; the colours are those Chromium paints (tests/browser)."""
+    from test_example_site import table
+
+    rows = table("readability")
+    expected = sorted((r["rule"], r["scheme"], r["text starts with"], r["fg"], r["bg"])
+                      for r in rows)
+    planted = [f for f in report.findings if f.rule in READABILITY
+               and f.sample.text.startswith("Fault") and f.sample.page == APPEARANCE_PAGE]
+    got = []
+    for f in planted:
+        prefix = next(r["text starts with"] for r in rows
+                      if f.sample.text.startswith(r["text starts with"]))
+        got.append((f.rule, f.sample.scheme, prefix, to_hex(f.args["fg"]), to_hex(f.args["bg"])))
+    assert sorted(got) == expected
+    on_page = [f for f in report.findings if f.sample.page == APPEARANCE_PAGE]
+    assert not [f for f in on_page if f.sample.text.startswith("Clean")]
+    assert not [f for f in on_page if f.rule == "TC100"]  # all of it meets the WCAG 2 ratio
+    # text below the WCAG 2 ratio is TC100's alone: the appearance rules do not judge it again
+    def where(f):
+        return (f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath)
+
+    below = {where(f) for f in report.findings if f.rule == "TC100"}
+    assert not [f for f in report.findings if f.rule in READABILITY and where(f) in below]
+    for f in planted:  # the numbers a reviewer needs
+        if f.rule == "TC400":
+            assert f.args["deficiency"] == "protanopia" and f.args["deficiencies"] == "protanopia"
+        assert f.fixes and f.args["test"](f.fixes[0].colour, f.args["bg"])
+
+
 @pytest.mark.slow
 def test_exactly_the_planted_appearance_risks(report):
     """The status board's risks (example_site/README.md, "Palette colours in context"): the

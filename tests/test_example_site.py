@@ -118,3 +118,53 @@ def test_site_sources_reach_no_network():
         if path.suffix in (".md", ".css", ".svg", ".html", ".js"):
             text = path.read_text(encoding="utf-8")
             assert not re.search(r"(?<![\w.])(https?:)?//[a-z0-9-]+\.[a-z]", text.replace("http://www.w3.org/2000/svg", "")), path
+
+
+def test_appearance_faults_pass_wcag_and_fail_their_rule():
+    """The README's colour-appearance table, recomputed: WCAG 2.2 ratio (tests/wcag_reference.py),
+    the protanopia matrix from colour-science (Machado et al. 2009, general-purpose reference
+    library), APCA Lc from tinctura.colour.apca (itself tested against the APCA reference
+    values in tests/colour/test_apca.py), the daylight flare from its definition
+    (F = R E / (pi Lw), viewing.py's stated profile values)."""
+    import math
+
+    import numpy as np
+    from wcag_reference import luminance
+
+    from tinctura.colour.apca import lightness_contrast
+
+    def parse_hex(text):
+        return tuple(int(text[i:i + 2], 16) / 255 for i in (1, 3, 5))
+
+    rows = table("readability")
+    assert {r["rule"] for r in rows} == {"TC200", "TC400", "TC500"}
+    for row in rows:
+        fg, bg = row["fg"], row["bg"]
+        assert float(row["ratio"]) == pytest.approx(wcag_ratio(fg, bg), abs=0.006), row
+        assert wcag_ratio(fg, bg) >= 4.5  # every planted text passes TC100 (normal size)
+        if row["measure"] == "the same":
+            continue
+        quoted = [float(x) for x in re.findall(r"-?\d+\.\d\d", row["measure"])]
+        if row["rule"] == "TC200":
+            assert lightness_contrast(parse_hex(fg), parse_hex(bg)) == pytest.approx(quoted[0], abs=0.006)
+            assert abs(quoted[0]) < 75 - 10  # well below the body-text level
+        elif row["rule"] == "TC400":
+            import colour
+
+            m = colour.blindness.matrix_cvd_Machado2009("Protanomaly", 1.0)
+            lin = lambda hexa: np.array([c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4
+                                         for c in parse_hex(hexa)])
+            enc = lambda v: [12.92 * c if c <= 0.0031308 else 1.055 * c ** (1 / 2.4) - 0.055
+                             for c in np.clip(m @ v, 0, 1)]
+            sim = lightness_contrast(enc(lin(fg)), enc(lin(bg)))
+            assert sim == pytest.approx(quoted[0], abs=0.006)
+            assert abs(sim) < 45 - 3 and abs(lightness_contrast(parse_hex(fg), parse_hex(bg))) > 45 + 3
+        else:
+            f_office = 0.01  # IEC 61966-2-1 viewing flare, 1 % of white (from memory)
+            f_day = 0.02 * 5000 / (math.pi * 500)
+            f = 0.05 + f_day - f_office
+            l1, l2 = sorted((luminance(fg), luminance(bg)), reverse=True)
+            daylight = (l1 + f) / (l2 + f)
+            assert int(daylight * 100) / 100 == quoted[0]
+            assert daylight < 4.5 - 0.05
+            assert lightness_contrast(parse_hex(fg), parse_hex(bg)) > 75  # TC200 passes

@@ -20,8 +20,19 @@ def test_defaults():
                                    "viewport_width": 1280, "states": True, "log_every": False,
                                    "schemes": None, "jobs": None, "select": [], "ignore": [],
                                    "severity": {}, "allow": [], "baseline": None, "report": [],
-                                   "behaviours": (), "theme_behaviours": True, "palette": {},
+                                   "behaviours": (), "theme_behaviours": True,
+                                   "lc_levels": None, "cvd_severity": 1.0,
+                                   "profiles": ("daylight",), "palette": {},
                                    "no_exempt": [], "logotypes": []}
+
+
+def test_appearance_options_reach_the_engine():
+    plugin = TincturaPlugin()
+    assert plugin.load_config({"lc_levels": {"body": 90}, "cvd_severity": 0.5,
+                               "profiles": ["dim", "daylight"]}) == ([], [])
+    options = plugin.engine_options()
+    assert (options.lc_levels, options.cvd_severity, options.profiles) == (
+        {"body": 90.0}, 0.5, ("dim", "daylight"))
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -29,6 +40,9 @@ def test_defaults():
     ("fail_on", "sometimes", "expected one of error, warning, info, never"),
     ("exclude", "drafts/*.md", "expected a list of strings"),
     ("viewport_width", 0, "at least 1"),
+    ("lc_levels", {"footnote": 50}, "unknown text tier"),
+    ("cvd_severity", 2, "from 0 to 1"),
+    ("profiles", ["beach"], "unknown viewing profile"),
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("jobs", 0, "at least 1"),

@@ -174,6 +174,11 @@ def build_parser() -> argparse.ArgumentParser:
                       help="the level whose failure makes the exit status 1 (default AA)")
     pair.add_argument("-q", "--quiet", action="store_true",
                       help="print only the summary line (the ratio and the verdict)")
+    for name in ("lc_levels", "cvd_severity"):  # the colour-appearance lines' settings
+        setting = config.BY_NAME[name]
+        pair.add_argument(setting.flag, dest=name, default=setting.default,
+                          type=config._flag_type(setting), metavar=setting.metavar,
+                          help=setting.help)
     pair.set_defaults(run=run_pair)
 
     trace_cmd = sub.add_parser(
@@ -220,6 +225,9 @@ def options_from(args) -> engine.Options:
         theme_behaviours=args.theme_behaviours,
         rules=chosen,
         severity=tuple(sorted(getattr(args, "severity", {}).items())),
+        lc_levels=getattr(args, "lc_levels", None),
+        cvd_severity=getattr(args, "cvd_severity", 1.0),
+        profiles=tuple(getattr(args, "profiles", None) or ("daylight",)),
         palette=palette_setting(getattr(args, "palette", None) or {}),  # checked by config
         **limits_from(args),
         exemptions=config.exemptions_kept(getattr(args, "no_exempt", [])),
@@ -514,6 +522,15 @@ def run_pair(args, stdout, stderr) -> int:
             tw.line(f"        nearest passing: {' or '.join(parts)}")
         else:
             tw.line("        no single-colour change reaches it; change both colours")
+    from tinctura.report.pair_text import appearance_lines
+    from tinctura.rules.perception import lc_levels
+
+    def mark(ok):
+        return tw.markup("pass", "green") if ok else tw.markup("fail", "red", "bold")
+
+    for text, styles in appearance_lines(fg, bg, args.size, args.weight, selected_need,
+                                         lc_levels(args), args.cvd_severity, mark):
+        tw.line(text, *styles)
     pair_appearance(args, fg, bg, tw)
     return exit_status(failed=failed)
 

@@ -203,6 +203,29 @@ def behaviours(value):
     return from_setting(value)
 
 
+def lc_levels(value):
+    """APCA Lc per text tier (TC200, TC400): ``{body, content, headline, any} -> number``."""
+    if not isinstance(value, dict):
+        raise ValueError(f"expected a table of tier = Lc, got {_type_name(value)} {value!r}")
+    if not all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in value.values()):
+        raise ValueError(f"expected numbers, got {value!r}")
+    from tinctura.rules.perception import check_lc_levels
+
+    return check_lc_levels(value)
+
+
+def fraction(value):
+    """A number from 0 to 1 (a colour-vision deficiency's severity)."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0 <= value <= 1:
+        raise ValueError(f"expected a number from 0 to 1, got {value!r}")
+    return float(value)
+
+
+def profiles(value):
+    """Viewing profiles (TC500): a list of names of ``tinctura.colour.viewing.PROFILES``."""
+    from tinctura.colour import viewing
+
+    return tuple(viewing.get(name).name for name in strings(value))
 def palette(value):
     """``{name: CSS colour or --custom-property}`` (tinctura.palette), checked; kept as given."""
     if not isinstance(value, dict):
@@ -263,6 +286,23 @@ def severity_text(text: str) -> dict:
     return out
 
 
+def lc_levels_text(text: str) -> dict:
+    """``body=75,content=60`` -> ``{"body": 75.0, "content": 60.0}``."""
+    out = {}
+    for part in comma_list(text):
+        name, _, value = part.partition("=")
+        try:
+            out[name.strip()] = float(value)
+        except ValueError:
+            raise ValueError(f"expected TIER=LC[,...] (e.g. body=75), got {text!r}") from None
+    return out
+
+
+def float_text(text: str) -> float:
+    try:
+        return float(text)
+    except ValueError:
+        raise ValueError(f"expected a number, got {text!r}") from None
 def palette_text(text: str) -> dict:
     name, sep, colour = text.partition("=")
     if not sep or not name.strip() or not colour.strip():
@@ -357,6 +397,13 @@ SETTINGS = (
             "path is given", where=FILE_AND_CLI, rebase=rebase_path),
     Setting("group", choice("cause", "page"), "cause", "text report: problems grouped by cause "
             "or findings by page", flag="--group", where=FILE_AND_CLI, choices=("cause", "page")),
+    Setting("lc_levels", optional(lc_levels), None, "APCA Lc per text tier for TC200 and TC400 "
+            "(tiers body, content, headline, any; default body=75, content=60, headline=45, "
+            "any=30)", flag="--lc-levels", metavar="TIER=LC,...", parse=lc_levels_text),
+    Setting("cvd_severity", fraction, 1.0, "colour-vision deficiency severity for TC400, 0 to 1",
+            flag="--cvd-severity", metavar="S", parse=float_text),
+    Setting("profiles", profiles, ("daylight",), "viewing profiles for TC500: office, dim, "
+            "daylight", flag="--profiles", metavar="NAMES", parse=comma_list),
     Setting("palette", palette, {}, "colours that carry a meaning, for the appearance rules "
             "(TC300, TC310): name = CSS colour or custom property (--name); as a flag "
             "NAME=COLOUR, repeatable; default: discovered", flag="--palette",

@@ -53,6 +53,9 @@ class Options:
     severity: tuple = ()  # (code, severity) overrides, applied by rules.run
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
+    lc_levels: dict | None = None  # TC200/TC400: APCA Lc per text tier (body, content, headline, any)
+    cvd_severity: float = 1.0  # TC400: Machado 2009 severity, 0..1
+    profiles: tuple = ("daylight",)  # TC500: viewing profiles judged (office, dim, daylight)
     # site-level appearance rules (TC300, TC310): palette.palette_setting(name -> colour or
     # --property) pairs, and the viewing conditions of CIECAM02
     palette: tuple = ()

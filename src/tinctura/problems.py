@@ -307,16 +307,25 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
     ordered = tuple(sorted(backgrounds, key=wcag.relative_luminance))
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
-    found = colour_fix.passing_foreground_for_all(start, list(ordered), problem.required)
+    test = worst.args.get("test")  # rules beyond the WCAG 2 ratio: what a fix must meet
+    found = _passing_for_all(start, list(ordered), problem.required, test)
     if found is not None:
         return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1])
-    contexts = split_contexts(start, ordered, problem.required)
+    contexts = split_contexts(start, ordered, problem.required, test)
     for context in contexts:
         context.schemes = tuple(sorted(set().union(*(backgrounds[b] for b in context.backgrounds))))
     return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts)
 
 
-def split_contexts(start, ordered, required: float) -> tuple:
+def _passing_for_all(start, backgrounds, required: float, test=None):
+    """One text colour near ``start`` passing on every background: the WCAG 2 ratio, or
+    ``test(text, background)`` when the rule gave one (it includes the ratio)."""
+    if test is None:
+        return colour_fix.passing_foreground_for_all(start, backgrounds, required)
+    return colour_fix.nearest_foreground_where(start, backgrounds, test)
+
+
+def split_contexts(start, ordered, required: float, test=None) -> tuple:
     """Split backgrounds (darkest first) into runs that one foreground value can serve.
 
     Greedy in luminance order: a run grows while one value still passes on all of it. Any
@@ -326,14 +335,14 @@ def split_contexts(start, ordered, required: float) -> tuple:
     run: list = []
     run_fix = None
     for bg in ordered:
-        trial = colour_fix.passing_foreground_for_all(start, run + [bg], required)
+        trial = _passing_for_all(start, run + [bg], required, test)
         if trial is not None or not run:
             run.append(bg)
             run_fix = trial
             continue
         contexts.append(_context(run, run_fix))
         run = [bg]
-        run_fix = colour_fix.passing_foreground_for_all(start, run, required)
+        run_fix = _passing_for_all(start, run, required, test)
     if run:
         contexts.append(_context(run, run_fix))
     return tuple(contexts)

@@ -13,7 +13,8 @@ PAGE = ("# Casting\n\nLet the mould cool for three days.\n{: .faint }\n\n"
 def build(project, **options):
     lines = ["site_name: Kestrow handbook", "theme: {name: mkdocs}", "extra_css: [extra.css]",
              "markdown_extensions: [attr_list]", "plugins:", "  - tinctura:",
-             "      states: false", "      jobs: 1"]
+             "      states: false", "      jobs: 1",
+             '      select: ["TC100"]']  # the baseline mechanism, shown on the WCAG 2 ratio
     lines += [f"      {key}: {json.dumps(value)}" for key, value in options.items()]
     (project / "mkdocs.yml").write_text("\n".join(lines) + "\n")
     env = dict(os.environ, NO_MKDOCS_2_WARNING="1")

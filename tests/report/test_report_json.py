@@ -145,3 +145,23 @@ def test_sample_line_has_the_pairs_fields():
     # 50 % black over white, source-over in sRGB (CSS Compositing 1): 127.5 -> #808080.
     assert line["fg"] == "#808080" and line["bg"] == "#ffffff"
     assert line["fg_cause"]["declaration"]["value"] == "rgb(0 0 0 / 50%)"
+
+
+def test_appearance_findings_validate():
+    """TC200/TC400/TC500 findings keep a WCAG 2 ratio in ``ratio`` and carry their own numbers in
+    the message (colours from the rules' documented examples; ratios by the WCAG 2.2 formula)."""
+    appearance = [
+        make_sample("#b0b0b0", "#1a1a1a", page="c.html", weight=300),  # TC200: Lc -58.21
+        make_sample("#ff3030", "#000", page="c.html", xpath="/html/body/p[2]"),  # TC400
+        make_sample("#6b6b6b", "#fff", page="c.html", xpath="/html/body/p[3]"),  # TC500
+    ]
+    doc = build(appearance)
+    VALIDATOR(schema()).validate(doc)
+    by_rule = {}
+    for f in doc["findings"]:
+        by_rule.setdefault(f["rule"], []).append(f)
+    assert {"TC200", "TC400", "TC500"} <= set(by_rule)
+    assert any("Lc -58.21 (light on dark)" in f["message"] for f in by_rule["TC200"])
+    assert any("under protanopia" in f["message"] for f in by_rule["TC400"])
+    assert any("in daylight viewing" in f["message"] for f in by_rule["TC500"])
+    assert "TC100" not in by_rule  # every pair meets the WCAG 2 ratio

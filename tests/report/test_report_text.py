@@ -183,3 +183,20 @@ def test_schemes_found_in_samples_when_the_header_has_none():
     samples = site_samples() + [make_sample("#777777", "#ffffff", scheme="dark", page="guide/p0.html")]
     text, _ = report(samples, schemes=())
     assert "[scheme light]" in text and "in 2 schemes (dark, light)" in text
+
+
+def test_appearance_findings_say_what_they_measured():
+    # #b0b0b0 on #1a1a1a: 8.03:1 (WCAG 2.2 formula) but APCA Lc -58.21 (reference formula,
+    # tests/colour/test_apca.py), below the body-text level 75.
+    night = Cause(decl("color", "#b0b0b0", 12, ".night"))
+    panel = Cause(decl("background-color", "#1a1a1a", 11, ".panel"))
+    sample = make_sample("#b0b0b0", "#1a1a1a", weight=300, fg_cause=night, bg_cause=panel)
+    out, _ = report([sample])
+    pytest.LineMatcher(out.splitlines()).fnmatch_lines([
+        "*color `#b0b0b0` at assets/site.css:12 on background-color `#1a1a1a`*, "
+        "Lc -58.21, needs Lc 75 (light on dark)",
+        "*warning TC200 text-lc: lightness contrast Lc -58.21 (light on dark) is below the Lc 75*",
+        "*fix at the cause: set `color` at assets/site.css:12 to #*",
+    ])
+    out, _ = report([sample], group_by="page")
+    assert "#b0b0b0 on #1a1a1a, Lc -58.21, needs Lc 75 (light on dark); try text #" in out

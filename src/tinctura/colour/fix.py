@@ -160,3 +160,86 @@ def _settle(lightness, step, chroma, hue, others, required):
 
 def _distance(start, rgb):
     return math.dist(start, srgb_to_oklab(rgb))
+
+
+# -- search by predicate --------------------------------------------------------------------
+# Rules beyond the WCAG 2 ratio (APCA Lc, a simulated colour-vision deficiency, a viewing
+# profile) pass where no closed form says: they give a test ``test(text, background) -> bool``
+# (hashable, so results are cached) and the search walks the lightness of the colour's OKLCh
+# hue outwards in both directions, then bisects the last step. Whether a test passes need not
+# grow with luminance; the walk finds the nearest passing step, the bisection assumes only that
+# the test does not flip back within one step (0.02 in OKLab lightness).
+
+_WALK_STEP = 0.02
+_WALK_BISECT = 14
+
+
+def nearest_foreground_where(fg, bgs, test):
+    """Nearest colour to ``fg`` (same hue) for which ``test(colour, bg)`` holds on every
+    background in ``bgs``; ``(rgb, worst WCAG 2 ratio)`` or None. ``fg`` itself when it passes."""
+    bgs = tuple(_key(b) for b in bgs)
+    if not bgs:
+        return None
+    return _nearest_where(_key(fg), bgs, test)
+
+
+def nearest_background_where(fg, bg, test):
+    """Nearest colour to ``bg`` (same hue) for which ``test(fg, colour)`` holds."""
+    return _nearest_where(_key(bg), (_key(fg),), _Swapped(test))
+
+
+class _Swapped:
+    """``test`` with its arguments swapped: the candidate is the background."""
+
+    __slots__ = ("test",)
+
+    def __init__(self, test):
+        self.test = test
+
+    def __call__(self, candidate, other):
+        return self.test(other, candidate)
+
+    def __eq__(self, other):
+        return isinstance(other, _Swapped) and other.test == self.test
+
+    def __hash__(self):
+        return hash(("swapped", self.test))
+
+
+@lru_cache(maxsize=4096)
+def _nearest_where(colour, others, test):
+    def ok(rgb):
+        return all(test(rgb, other) for other in others)
+
+    if ok(colour):
+        return colour, _worst_ratio(colour, others)
+    start = srgb_to_oklab(colour)
+    lightness, chroma, hue = to_polar(start)
+    candidates = [found for found in (_walk(lightness, chroma, hue, step, ok)
+                                      for step in (-_WALK_STEP, _WALK_STEP)) if found is not None]
+    if not candidates:
+        return None
+    best = min(candidates, key=lambda rgb: _distance(start, rgb))
+    return best, _worst_ratio(best, others)
+
+
+def _walk(lightness, chroma, hue, step, ok):
+    """First passing 8-bit colour walking lightness by ``step``, refined by bisection."""
+    previous = lightness
+    for k in range(1, int(1 / abs(step)) + 2):
+        current = min(max(lightness + k * step, 0.0), 1.0)  # ends included once
+        rgb = quantize(_in_gamut_colour(current, chroma, hue))
+        if ok(rgb):
+            failing, passing = previous, current
+            for _ in range(_WALK_BISECT):
+                mid = (failing + passing) / 2
+                trial = quantize(_in_gamut_colour(mid, chroma, hue))
+                if ok(trial):
+                    passing, rgb = mid, trial
+                else:
+                    failing = mid
+            return rgb
+        if current in (0.0, 1.0):
+            return None
+        previous = current
+    return None

@@ -26,6 +26,13 @@ def required(value: float) -> str:
     return f"{value:g}"
 
 
+def lc(value: float) -> str:
+    """APCA Lc for display, rounded to 2 decimals as APCA's reference values are quoted
+    (#888 on #fff: 63.056 -> ``63.06``); verdicts compare the unrounded value."""
+    shown = f"{value:.2f}"
+    return "0.00" if shown == "-0.00" else shown
+
+
 def plural(n: int, word: str, words: str | None = None) -> str:
     return f"{n:,} {word if n == 1 else (words or word + 's')}"
 
@@ -75,6 +82,16 @@ def message_args(finding: Finding) -> dict:
             isinstance(c, float) for c in value
         ):
             args[key] = colour(value)
+    for key, value in list(args.items()):  # appearance rules' numbers (TC200, TC400, TC500)
+        if isinstance(value, float):
+            if key == "lc" or key.endswith("_lc"):
+                args[key] = lc(value)
+            elif key.endswith("_ratio"):
+                args[key] = ratio(value)
+            elif key.endswith("_cd"):
+                args[key] = f"{value:.1f}"
+            elif key == "lc_required":
+                args[key] = f"{value:g}"
     args.update(
         ratio=ratio(finding.ratio),
         required=required(finding.required),
@@ -91,6 +108,13 @@ def message_args(finding: Finding) -> dict:
 def message(finding: Finding) -> str:
     """The finding's message: its rule's template filled in late."""
     return rules.get(finding.rule).message.format(**message_args(finding))
+
+
+def measure(finding: Finding) -> str:
+    """What was measured against what is needed, e.g. ``3.45:1, needs 4.5:1`` or
+    ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's ``measure`` template."""
+    template = rules.get(finding.rule).measure or "{ratio}:1, needs {required}:1"
+    return template.format(**message_args(finding))
 
 
 def finding_colours(finding: Finding) -> tuple:

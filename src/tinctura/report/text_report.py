@@ -78,7 +78,7 @@ class TextFormatter(Formatter):
             f"{m.plural(problem.pages, 'page')}{where}: "
             f"{headline(problem.fg_cause, fg, 'color')} on "
             f"{headline(problem.bg_cause, bg, 'background')}, "
-            f"{m.ratio(problem.worst_ratio)}:1, needs {m.required(problem.required)}:1",
+            f"{problem_measure(problem)}",
             "bold",
         )
         tw.line(f"   {self.severity(problem.severity)} {problem.rule} {problem.slug}: "
@@ -93,7 +93,7 @@ class TextFormatter(Formatter):
             lead = "e.g." if n == 0 else "    "
             tw.line(
                 f"   {lead} {s.page}:{s.line}  {m.css_path(s.xpath)}  \"{m.excerpt(s.text)}\"  "
-                f"{m.colour(efg)} on {m.colour(ebg)}, {m.ratio(f.ratio)}:1{self.context(s)}"
+                f"{m.colour(efg)} on {m.colour(ebg)}, {example_measure(f)}{self.context(s)}"
             )
         rest = problem.occurrences - min(EXAMPLES, problem.occurrences)
         if rest:
@@ -125,8 +125,7 @@ class TextFormatter(Formatter):
             tw.line(f"      {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
             fix = m.fixes(f)
             tail = f"; try {fix}" if fix else ""
-            tw.line(f"      {m.colour(fg)} on {m.colour(bg)}, {m.ratio(f.ratio)}:1, "
-                    f"needs {m.required(f.required)}:1{tail}")
+            tw.line(f"      {m.colour(fg)} on {m.colour(bg)}, {m.measure(f)}{tail}")
         tw.line()
 
     def diagnostic(self, diagnostic) -> None:
@@ -154,6 +153,20 @@ def headline(cause, rgb, what: str) -> str:
     if d is None:
         return f"{what} {m.colour(rgb)} (not declared)"
     return f"{d.property} `{d.value}` at {d.where()}"
+
+
+def problem_measure(problem) -> str:
+    """The problem's worst value against the requirement (rules other than the WCAG 2 ratio
+    say what they measured: Lc, a deficiency, a viewing profile)."""
+    if problem.rule == "TC100":
+        return f"{m.ratio(problem.worst_ratio)}:1, needs {m.required(problem.required)}:1"
+    return m.measure(problem.worst)
+
+
+def example_measure(f) -> str:
+    if f.rule == "TC100":
+        return f"{m.ratio(f.ratio)}:1"
+    return m.measure(f).split(", needs")[0]
 
 
 def examples(findings) -> list:

@@ -1,0 +1,50 @@
+"""What the rules beyond TC100 cost: `tinctura check` with TC100 alone and with every rule,
+side by side, in alternating runs (CPU seconds of each child process: the machine is shared).
+
+    python benchmarks/rules_cost.py SITE_DIR [--repeat 3]
+
+SITE_DIR is a built site (e.g. `generate_site.py 200` built with `mkdocs-plain.yml`); each child
+is `tinctura check SITE_DIR --jobs 1 --no-config [--select TC100]` as a user runs it.
+"""
+from __future__ import annotations
+
+import argparse
+import resource
+import statistics
+import subprocess
+import sys
+
+CHILD = r'''
+import sys
+from tinctura import cli
+rules, site = sys.argv[1], sys.argv[2]
+select = [] if rules == "all" else ["--select", rules]
+sys.exit(cli.main(["check", site, "--jobs", "1", "--fail-on", "never", "--no-config",
+                   "-o", "/dev/null"] + select))
+'''
+
+
+def cpu_seconds(rules: str, site: str) -> float:
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    subprocess.run([sys.executable, "-c", CHILD, rules, site], check=True)
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("site")
+    parser.add_argument("--repeat", type=int, default=3)
+    args = parser.parse_args()
+    runs = {"TC100": [], "all": []}
+    for _ in range(args.repeat):
+        for rules in runs:
+            runs[rules].append(cpu_seconds(rules, args.site))
+    medians = {rules: statistics.median(v) for rules, v in runs.items()}
+    for rules, values in runs.items():
+        print(f"{rules:6} CPU median {medians[rules]:.2f} s  runs {[round(v, 2) for v in values]}")
+    print(f"all rules / TC100 alone: {medians['all'] / medians['TC100']:.2f}x")
+
+
+if __name__ == "__main__":
+    main()
