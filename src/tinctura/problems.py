@@ -1,4 +1,7 @@
-"""Findings grouped by cause: one *problem* per rule, scheme, foreground and background cause.
+"""Findings grouped by cause: one *problem* per rule, foreground and background cause.
+
+The same cause failing in several colour schemes is one problem that lists its schemes, each
+with its own count and worst ratio (``Problem.schemes``).
 
 A site with one bad colour declaration yields thousands of findings and one problem; fixing the
 declaration fixes them all. Pure: records in, records out.
@@ -69,6 +72,12 @@ class Problem:
     candidates: Optional[list] = None
     indexes: Optional[list] = None
     backgrounds: Optional[dict] = None
+    # scheme name -> SchemeFigures, in the order the schemes were met
+    schemes: dict = field(default_factory=dict)
+
+    @property
+    def scheme_names(self) -> list:
+        return list(self.schemes) or [self.scheme]
 
     @property
     def occurrences(self) -> int:
@@ -94,9 +103,31 @@ def cause_key(cause: Optional[Cause]) -> tuple:
     return (d.sheet, d.line, d.column, d.property, d.value) if d is not None else ("initial",)
 
 
+@dataclass
+class SchemeFigures:
+    """One scheme's share of a problem: its occurrences, worst ratio and worst finding."""
+
+    count: int = 0
+    worst_ratio: float = 21.0
+    worst: Optional[Finding] = None
+
+    def add(self, finding: Finding) -> None:
+        self.count += 1
+        if self.worst is None or finding.ratio < self.worst_ratio:
+            self.worst_ratio, self.worst = finding.ratio, finding
+
+
 def problem_key(finding: Finding) -> tuple:
+    """One problem per cause across schemes: the scheme is not part of the key."""
     s = finding.sample
-    return (finding.rule, s.scheme, cause_key(s.fg_cause), cause_key(s.bg_cause))
+    return (finding.rule, cause_key(s.fg_cause), cause_key(s.bg_cause))
+
+
+def _add_scheme(problem, finding: Finding) -> None:
+    figures = problem.schemes.get(finding.sample.scheme)
+    if figures is None:
+        figures = problem.schemes[finding.sample.scheme] = SchemeFigures()
+    figures.add(finding)
 
 
 _ALIAS = re.compile(r"^\s*var\(\s*--[^\s,()]+\s*(,.*)?\)\s*(!\s*important\s*)?$", re.I | re.S)
@@ -148,6 +179,8 @@ def group(findings, samples=(), uses=None) -> list:
             worst_ratio=min(f.ratio for f in members),
             required=max(f.required for f in members),
         )
+        for f in members:
+            _add_scheme(problem, f)
         problem.fix_at_cause = fix_at_cause(problem, uses)
         problems.append(problem)
     problems.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
@@ -184,6 +217,7 @@ class Collector:
             self._seen[key] = 0
         p.count += 1
         p.indexes.append(index)
+        _add_scheme(p, finding)
         if SEVERITY_RANK.get(finding.severity, 9) < SEVERITY_RANK.get(p.severity, 9):
             p.severity = finding.severity
         if finding.ratio < p.worst_finding.ratio:

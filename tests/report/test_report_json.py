@@ -73,7 +73,7 @@ def test_problems_point_at_findings():
         assert p["occurrences"] == len(p["findings"])
         for i in p["findings"]:
             assert doc["findings"][i]["rule"] == p["rule"]
-            assert doc["findings"][i]["scheme"] == p["scheme"]
+            assert doc["findings"][i]["scheme"] in [s["name"] for s in p["schemes"]]
 
 
 def test_gradient_finding_reports_its_worst_background():

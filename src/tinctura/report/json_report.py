@@ -122,6 +122,8 @@ def problem_dict(problem, index_of: dict) -> dict:
         "fg_cause": cause_dict(problem.fg_cause),
         "bg_cause": cause_dict(problem.bg_cause),
         "fix_at_cause": cause_fix_dict(problem.fix_at_cause),
+        "schemes": [{"name": name, "occurrences": f.count, "worst_ratio": float(f.worst_ratio)}
+                    for name, f in problem.schemes.items()],
         "findings": list(problem.indexes) if problem.indexes is not None else
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
     }
