@@ -278,8 +278,7 @@ def parse_pair_colour(text: str, what: str):
 
 
 def run_pair(args, stdout, stderr) -> int:
-    from tinctura.colour import fix as colour_fix
-    from tinctura.colour import wcag
+    from tinctura.colour import suggest, wcag
     from tinctura.colour.composite import over
 
     fg_raw = parse_pair_colour(args.fg, "text colour")
@@ -311,17 +310,19 @@ def run_pair(args, stdout, stderr) -> int:
         tw.line(f"  {rule_level:<3} (SC {criterion}) needs {m.required(need)}:1: {verdict}")
         if ok:
             continue
-        parts = []
-        found = colour_fix.nearest_passing_foreground(fg, bg, need)
-        if found is not None:
-            parts.append(f"text {m.colour(found[0])} ({m.ratio(found[1])}:1)")
-        found = colour_fix.nearest_passing_background(fg, bg, need)
-        if found is not None:
-            parts.append(f"background {m.colour(found[0])} ({m.ratio(found[1])}:1)")
+        parts, missing = [], []
+        for what, found, moving, other in (
+                ("text", suggest.foreground(fg, bg, need), fg, bg),
+                ("background", suggest.background(fg, bg, need), bg, fg)):
+            if found is not None:
+                parts.append(f"{what} {m.colour(found[0])} ({m.ratio(found[1])}:1)")
+            else:
+                missing.append(f"no {suggest.describe_side(moving, other)} {what} colour")
         if parts:
             tw.line(f"        nearest passing: {' or '.join(parts)}")
-        else:
-            tw.line("        no single-colour change reaches it; change both colours")
+        if missing:
+            tw.line(f"        {' and '.join(missing)} of this hue reaches it"
+                    + ("" if parts else "; change both colours"))
     return exit_status()
 
 

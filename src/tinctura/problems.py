@@ -13,7 +13,7 @@ from functools import lru_cache
 from dataclasses import dataclass, field
 from typing import Optional
 
-from tinctura.colour import fix as colour_fix
+from tinctura.colour import suggest
 from tinctura.colour import wcag
 from tinctura.colour.convert import quantize
 from tinctura.model import DETERMINED, Cause, Declaration, Finding
@@ -290,7 +290,7 @@ def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
     ordered = tuple(sorted(backgrounds, key=wcag.relative_luminance))
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
-    found = colour_fix.passing_foreground_for_all(start, list(ordered), problem.required)
+    found = suggest.nearest_same_side(start, ordered, problem.required)
     if found is not None:
         return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1])
     contexts = split_contexts(start, ordered, problem.required)
@@ -302,21 +302,22 @@ def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
 def split_contexts(start, ordered, required: float) -> tuple:
     """Split backgrounds (darkest first) into runs that one foreground value can serve.
 
-    Greedy in luminance order: a run grows while one value still passes on all of it. Any
-    subset of a servable set is servable, so this gives the fewest runs of neighbours.
+    Greedy in luminance order: a run grows while one value still passes on all of it, staying
+    on the side of each background the text is on today. Any subset of a servable set is
+    servable, so this gives the fewest runs of neighbours.
     """
     contexts = []
     run: list = []
     run_fix = None
     for bg in ordered:
-        trial = colour_fix.passing_foreground_for_all(start, run + [bg], required)
+        trial = suggest.nearest_same_side(start, run + [bg], required)
         if trial is not None or not run:
             run.append(bg)
             run_fix = trial
             continue
         contexts.append(_context(run, run_fix))
         run = [bg]
-        run_fix = colour_fix.passing_foreground_for_all(start, run, required)
+        run_fix = suggest.nearest_same_side(start, run, required)
     if run:
         contexts.append(_context(run, run_fix))
     return tuple(contexts)
