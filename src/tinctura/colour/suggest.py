@@ -5,7 +5,8 @@ background for dark text gets lighter (or cannot be found), a suggested text col
 page gets lighter. Each suggestion:
 
 - stays on its side of every colour it is paired with (lighter stays lighter, darker stays
-  darker: ``sides``), so the set of passing luminances is one interval;
+  darker: ``sides``), so the set of passing luminances is one interval; a pair below
+  ``AMBIGUOUS`` (1.5:1) has no clear polarity and may go either way;
 - keeps the OKLCh hue and moves lightness the least it must (``colour.fix`` does the search and
   the 8-bit rounding);
 - keeps the chroma where the sRGB gamut allows; where the gamut forces a lower chroma, the
@@ -27,10 +28,13 @@ from functools import lru_cache
 
 from . import fix as _fix
 from .convert import srgb_to_oklab, to_polar
-from .wcag import relative_luminance
+from .wcag import contrast_ratio, relative_luminance
 
 LIGHTER, DARKER = 1, -1
 _CHROMA_STEPS = (1.0, 0.75, 0.5, 0.25, 0.0)  # fractions of the original chroma tried
+# Below this ratio a pair has no clear polarity (text nearly as dark as its background):
+# either side may be suggested, the nearer wins. Common practice, not a published threshold.
+AMBIGUOUS = 1.5
 
 
 def side(colour, other) -> int:
@@ -62,8 +66,18 @@ def nearest_same_side(colour, others, required: float, sides=None):
     if not others:
         return None
     if sides is None:
-        sides = tuple(side(colour, o) for o in others)
-    return _nearest(colour, others, float(required), tuple(sides))
+        sides = tuple(side(colour, o) if contrast_ratio(colour, o) >= AMBIGUOUS else 0
+                      for o in others)
+    options = [tuple(sides)]
+    for i, s in enumerate(sides):  # either side of a nearly equal colour: try both
+        if s == 0:
+            options = [o[:i] + (d,) + o[i + 1:] for o in options for d in (LIGHTER, DARKER)]
+    found = [r for r in (_nearest(colour, others, float(required), o) for o in options[:16])
+             if r is not None]
+    if not found:
+        return None
+    start = srgb_to_oklab(colour)
+    return min(found, key=lambda r: math.dist(start, srgb_to_oklab(r[0])))
 
 
 def foreground(fg, bg, required: float):
