@@ -46,6 +46,7 @@ class CauseFix:
     colour: Optional[tuple]
     ratio: Optional[float]
     contexts: tuple = ()  # tuple[Context], only when colour is None
+    schemes: tuple = ()  # every scheme where the declaration's colour is used
 
     @property
     def possible(self) -> bool:
@@ -290,13 +291,16 @@ def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
     ordered = tuple(sorted(backgrounds, key=wcag.relative_luminance))
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
+    schemes = tuple(sorted(set().union(*backgrounds.values()))) if backgrounds else ()
     found = suggest.nearest_same_side(start, ordered, problem.required)
     if found is not None:
-        return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1])
+        return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1],
+                        schemes=schemes)
     contexts = split_contexts(start, ordered, problem.required)
     for context in contexts:
         context.schemes = tuple(sorted(set().union(*(backgrounds[b] for b in context.backgrounds))))
-    return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts)
+    return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts,
+                    schemes=schemes)
 
 
 def split_contexts(start, ordered, required: float) -> tuple:
