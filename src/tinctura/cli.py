@@ -106,6 +106,12 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--color", "--colour", dest="colour", default="auto",
                        choices=("auto", "always", "never"),
                        help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
+    check.add_argument("--config", metavar="FILE",
+                       help="the site's mkdocs.yml: findings point at Markdown lines and fixes "
+                            "at the site's own stylesheets (extra_css)")
+    check.add_argument("--write-fixes", metavar="FILE",
+                       help="write every verified fix into one stylesheet FILE and say how to "
+                            "add it to mkdocs.yml")
     check.set_defaults(run=run_check)
 
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
@@ -229,21 +235,72 @@ def run_check(args, stdout, stderr) -> int:
         for f in findings:
             collector.add(f)
 
+    project = load_project(args.config) if getattr(args, "config", None) else None
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
     result.findings = store
     found = collector.problems(result.uses)
+    aid = writer_aid(args.paths, project)
+    if aid is not None and found:
+        aid.plan_overrides(found, result.schemes, options, store.pages())
     header = report.Header(
         version=version(),
         level=args.level,
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
+        locate=aid.locate if aid is not None else None,
     )
     with output(args.output, stdout) as stream:
         report.render(stream, args.format, header, result.pages, result.findings, found,
                       result.diagnostics, colour_choice=args.colour)
+    if getattr(args, "write_fixes", None):
+        report_written_fixes(args.write_fixes, found, project, stderr)
     unreadable = input_errors(result, stderr)
     return exit_status(result.findings, args.fail_on, error=unreadable)
+
+
+def load_project(path: str):
+    """The MkDocs project of ``--config``. (A tinctura settings file given to ``--config``
+    would be read elsewhere; only mkdocs.yml is understood here.)"""
+    from tinctura import mkdocs_project
+
+    if not os.path.isfile(path):
+        raise UsageError(f"{path}: no such file")
+    if not mkdocs_project.is_mkdocs_config(path):
+        raise UsageError(f"{path}: not an MkDocs configuration (mkdocs.yml)")
+    try:
+        return mkdocs_project.load(path)
+    except ValueError as exc:
+        raise UsageError(str(exc)) from None
+
+
+def writer_aid(paths, project):
+    """Locations and overrides for the first site directory checked (or a page's folder)."""
+    from tinctura.writer import WriterAid
+
+    for path in paths:
+        if os.path.isdir(path):
+            return WriterAid(path, project)
+        if os.path.isfile(path):
+            return WriterAid(os.path.dirname(os.path.abspath(path)) or ".", project)
+    return None
+
+
+def report_written_fixes(path: str, found, project, stderr) -> None:
+    from tinctura.writer import write_fixes
+
+    try:
+        count, how = write_fixes(path, found, project)
+    except OSError as exc:
+        raise UsageError(f"{path}: cannot write: {exc.strerror or exc}") from None
+    skipped = sum(1 for p in found if getattr(p, "override", None) is not None
+                  and not p.override.verified)
+    none = sum(1 for p in found if getattr(p, "override", None) is None)
+    stderr.write(f"{PROG}: wrote {m.plural(count, 'verified fix', 'verified fixes')} to {path}")
+    if skipped or none:
+        stderr.write(f" ({skipped} not verified and {none} without a fix left out: "
+                     f"see the report)")
+    stderr.write(f".\n{how}\n")
 
 
 def run_pairs(args, stdout, stderr) -> int:

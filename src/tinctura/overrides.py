@@ -55,6 +55,11 @@ class Override:
     target: str = "foreground"  # or "background": what it changes
     note: str = ""  # what the writer should know (e.g. "a new file: add it to extra_css")
     verified: Optional[bool] = None  # None: not re-checked
+    shown_file: str = ""  # ``file`` as the writer sees it (relative to mkdocs.yml), when known
+
+    @property
+    def where(self) -> str:
+        return self.shown_file or self.file
 
     def css(self) -> str:
         return "".join(rule.css() for rule in self.rules)

@@ -75,6 +75,7 @@ class Problem:
     backgrounds: Optional[dict] = None
     # scheme name -> SchemeFigures, in the order the schemes were met
     schemes: dict = field(default_factory=dict)
+    override: Optional[object] = None  # overrides.Override: the fix as the site's own CSS
 
     @property
     def scheme_names(self) -> list:

@@ -8,6 +8,7 @@ import json
 import os
 
 from . import messages as m
+from . import plain
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
@@ -109,7 +110,25 @@ def cause_fix_dict(fix) -> dict | None:
     }
 
 
-def problem_dict(problem, index_of: dict) -> dict:
+def override_dict(o) -> dict | None:
+    """A problem's fix as the site's own CSS: ``{file, css}`` (and whether a re-check proved it)."""
+    if o is None:
+        return None
+    out = {"file": o.where, "css": o.css(), "verified": bool(o.verified)}
+    if o.note:
+        out["note"] = o.note
+    return out
+
+
+def source_dict(source) -> dict | None:
+    if source is None:
+        return None
+    return {"file": source.file, "line": source.line, "near": source.near,
+            "template": source.template}
+
+
+def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = False) -> dict:
+    location = locate(problem.worst.sample) if locate is not None else None
     return {
         "rule": problem.rule,
         "slug": problem.slug,
@@ -124,8 +143,10 @@ def problem_dict(problem, index_of: dict) -> dict:
         "fix_at_cause": cause_fix_dict(problem.fix_at_cause),
         "schemes": [{"name": name, "occurrences": f.count, "worst_ratio": float(f.worst_ratio)}
                     for name, f in problem.schemes.items()],
+        "fix": override_dict(getattr(problem, "override", None)),
         "findings": list(problem.indexes) if problem.indexes is not None else
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
+        "sentence": plain.sentence(problem, location, many_schemes or len(problem.schemes) > 1),
     }
 
 
@@ -202,11 +223,20 @@ class JsonFormatter(Formatter):
             self.stream.write(",\n")
 
     def page(self, page, findings) -> None:
+        locate = self.header.locate
         for f in findings:
-            self.index_of[id(f)] = self._item("findings", finding_dict(f))
+            item = finding_dict(f)
+            if locate is not None:
+                location = locate(f.sample)
+                if location.locator:
+                    item["locator"] = location.locator
+                if location.source is not None:
+                    item["source"] = source_dict(location.source)
+            self.index_of[id(f)] = self._item("findings", item)
 
     def problem(self, index, problem) -> None:
-        self._item("problems", problem_dict(problem, self.index_of))
+        self._item("problems", problem_dict(problem, self.index_of, self.header.locate,
+                                            len(self.header.schemes) > 1))
 
     def diagnostic(self, diagnostic) -> None:
         self._item("diagnostics", diagnostic_dict(diagnostic))
