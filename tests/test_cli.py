@@ -158,8 +158,8 @@ def test_check_text_report(fake_engine):
     assert status == 1 and err == ""
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "1 problem (1 occurrence on 1 page), largest first",
-        "1. 1 occurrence on 1 page: color #777777 (not declared) on background #ffffff (not declared), 4.47:1, needs 4.5:1",
-        "*e.g. a.html:1*\"Seed swap on Saturday\"*",
+        "1. Grey text on white is too faint: 4.47:1, needs 4.5:1.",
+        "   Where: a.html:1 \"Seed swap on Saturday\"*",
         "Checked 1 page at level AA, 1 text sample; 1 error, 0 warnings, 0 info; 1 problem; 0 undetermined.",
         "*ISO 3864*",
     ])
