@@ -75,9 +75,16 @@ def from_mkdocs_config(config) -> Project:
     """A Project from a loaded MkDocs configuration (the plugin's ``config``)."""
     from mkdocs.structure.files import get_files
 
-    files = get_files(config)
+    return from_files(config, get_files(config))
+
+
+def from_files(config, files) -> Project:
+    """A Project from a configuration and its MkDocs ``Files`` (theme files among them are
+    not the writer's: only files under docs_dir are)."""
+    docs = os.path.abspath(config.docs_dir) + os.sep
     pages = {f.dest_uri: f.src_uri for f in files.documentation_pages()}
-    static = {f.dest_uri for f in files if f.dest_uri not in pages}
+    static = {f.dest_uri for f in files if f.dest_uri not in pages
+              and os.path.abspath(f.abs_src_path or "").startswith(docs)}
     return from_parts(config, pages, static)
 
 

@@ -303,17 +303,27 @@ def inject(html: str, css: str) -> str:
     return html + block if at < 0 else html[:at] + block + html[at:]
 
 
-def verify(site_root, options, problems, overrides, pages) -> dict:
+def verify(site_root, options, problems, overrides, pages, loader=None, cache=None) -> dict:
     """Check ``pages`` again with every override applied; mark each override verified when
     its problem is gone and the override's own values cause no finding. Returns the counts
-    ``{"pages": n, "remaining": findings left on them}``."""
+    ``{"pages": n, "remaining": findings left on them}``.
+
+    ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
+    between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice."""
     from tinctura import engine
     from tinctura.problems import problem_key
 
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
+    key = (css, tuple(pages))
+    if cache is not None and cache.get("key") == key:
+        remaining_keys, bad, counts = cache["result"]
+        _mark(problems, overrides, remaining_keys, bad)
+        return counts
     site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
+    if loader is not None:
+        site.loader = loader  # parsed sheets reused; rule sets are keyed by their sheets
     remaining_keys, bad = set(), set()
     remaining = 0
     for rel in pages:
@@ -330,12 +340,21 @@ def verify(site_root, options, problems, overrides, pages) -> dict:
                 for d in _declarations(cause):
                     if "<style>" in d.sheet and d.line and _injected(d, css):
                         bad.add((_normal(d.selector), d.property))
+    counts = {"pages": len(pages), "remaining": remaining}
+    if cache is not None:
+        cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
+    _mark(problems, overrides, remaining_keys, bad)
+    return counts
+
+
+def _mark(problems, overrides, remaining_keys, bad) -> None:
+    from tinctura.problems import problem_key
+
     for problem, override in zip(problems, overrides):
         if override is None:
             continue
         mine = {(_normal(r.selector), d[0]) for r in override.rules for d in r.declarations}
         override.verified = problem_key(problem.worst) not in remaining_keys and not (mine & bad)
-    return {"pages": len(pages), "remaining": remaining}
 
 
 def _declarations(cause):

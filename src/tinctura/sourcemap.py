@@ -102,12 +102,17 @@ class SourceMap:
         shown = self.project.docs_path(src)
         for candidate, near in ((text, False), (fallback_text, True)):
             wanted = words(candidate)
-            if len(wanted) < 2:  # "3." or "Caution:" would match anywhere: use the element's
+            if len(wanted) < 2:  # "3." or "Caution:" would match anywhere: try the element's
                 continue
             line = self._find(src, wanted[:EXCERPT_WORDS])
             if line:
                 return Source(shown, line, near)
             line = self._find(src, wanted[:NEAR_WORDS])
+            if line:
+                return Source(shown, line, True)
+        for candidate in (text, fallback_text):  # a one-word text: its first long word, near
+            long = [w for w in words(candidate) if len(w) >= 4]
+            line = self._find(src, long[:1]) if long else 0
             if line:
                 return Source(shown, line, True)
         return Source(shown, 0, True)

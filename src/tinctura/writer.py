@@ -77,7 +77,8 @@ class WriterAid:
 
     # -- overrides -----------------------------------------------------------------------
 
-    def plan_overrides(self, problems, schemes, options, pages_with_findings) -> dict:
+    def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
+                       cache=None) -> dict:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
         counts."""
         first = pages_with_findings[0] if pages_with_findings else None
@@ -91,7 +92,7 @@ class WriterAid:
         if not any(planned):
             return {"pages": 0, "remaining": 0}
         return overrides_mod.verify(self.site_root, options, problems, planned,
-                                    list(pages_with_findings))
+                                    list(pages_with_findings), loader, cache)
 
 
 def write_fixes(path: str, problems, project=None) -> tuple:

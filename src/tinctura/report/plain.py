@@ -8,10 +8,11 @@ from tinctura.colour.convert import srgb_to_oklab, to_polar
 
 from . import messages as m
 
-# OKLCh hue angles (degrees) where each name starts; measured on the sRGB primaries and
-# secondaries (red 29, orange 70, yellow 110, green 142, cyan 195, blue 264, magenta 328)
-_HUES = ((20, "red"), (50, "orange"), (85, "yellow"), (125, "green"), (175, "teal"),
-         (225, "blue"), (290, "purple"), (335, "pink"), (360, "red"))
+# OKLCh hue angles (degrees) below which each name applies, set between the hues of the sRGB
+# primaries and secondaries as computed by colour.convert (red 29, orange #ffa500 71, yellow
+# 110, green 142, cyan 195, blue 264, magenta 328)
+_HUES = ((50, "red"), (90, "orange"), (125, "yellow"), (170, "green"), (220, "teal"),
+         (295, "blue"), (345, "purple"), (360, "red"))
 _GREY_CHROMA = 0.035
 STATES = {"hover": "when hovered", "focus": "when focused",
           "focus-visible": "when focused from the keyboard"}
@@ -36,9 +37,9 @@ def colour_name(rgb) -> str:
     name = next(n for start, n in _HUES if hue < start)
     if name in ("orange", "yellow") and lightness < 0.55:
         name = "brown"
-    if lightness > 0.85:
+    if lightness > 0.9 and chroma < 0.12:
         return f"pale {name}"
-    if lightness > 0.72:
+    if lightness > 0.82:
         return f"light {name}"
     if lightness < 0.42:
         return f"dark {name}"
