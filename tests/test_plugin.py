@@ -273,6 +273,7 @@ def test_serve_logs_what_was_checked_again_and_what_is_new_or_fixed(tmp_path, ca
 @slow
 def test_quiet_build_error_carries_the_counts_and_first_problems(tmp_path, caplog):
     config = configure(make_project(tmp_path))
+    config.plugins.on_startup(command="build", dirty=False)  # the object outlives serve tests
     with pytest.raises(Abort):
         build(config)
     (error,) = [r.getMessage() for r in caplog.records if r.levelno >= logging.ERROR]
@@ -287,7 +288,9 @@ def test_hover_only_failure_is_named_in_the_log(tmp_path, caplog):
     css = "a { color: #1a1a1a; }\na:hover { color: #aaaaaa; }\n"
     project = make_project(tmp_path, {"states": True, "fail_on": "never"}, css=css)
     (project / "docs" / "index.md").write_text("# Seeds\n\nSee the [lending rules](lending.md).\n")
-    build(configure(project))
+    config = configure(project)
+    config.plugins.on_startup(command="build", dirty=False)
+    build(config)
     (warning,) = [w for w in messages(caplog) if "2.32:1" in w]
     assert warning.startswith("Grey link text on white is too faint when hovered: 2.32:1")
 
