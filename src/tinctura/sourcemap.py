@@ -54,12 +54,13 @@ class Source:
 def theme_area(landmarks, theme: str = "") -> Optional[tuple]:
     """``(template, description)`` when the element is in a part the theme renders, None when
     it is in the page's content. ``landmarks``: (tag, classes, id) innermost first."""
-    for tag, classes, _ in landmarks:
+    for tag, classes, _ in landmarks:  # a theme's own class names say the most
         if tag == "article" or any(c in _CONTENT for c in classes):
             return None
         for cls, template, description in _AREAS:
             if cls in classes:
                 return (template if theme == "material" else None), description
+    for tag, classes, _ in landmarks:  # else the nearest landmark element
         if tag in _TAGS:
             return None, _TAGS[tag]
     return None

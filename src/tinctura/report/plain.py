@@ -5,6 +5,7 @@ problem in one sentence ("Grey text on white in warning boxes is too faint: 2.32
 from __future__ import annotations
 
 from tinctura.colour.convert import srgb_to_oklab, to_polar
+from tinctura.sourcemap import theme_area
 
 from . import messages as m
 
@@ -57,19 +58,10 @@ def area(landmarks) -> str:
             return " in tables"
         if tag in ("pre", "code") or "highlight" in classes:
             return " in code"
-        if "md-header" in classes or tag == "header":
-            return " in the site header"
-        if "md-tabs" in classes:
-            return " in the navigation tabs"
-        if "md-nav--secondary" in classes:
-            return " in the table of contents"
-        if "md-nav" in classes or tag == "nav":
-            return " in the navigation"
-        if "md-footer" in classes or tag == "footer":
-            return " in the footer"
         if tag == "article" or "md-content" in classes:
             return ""
-    return ""
+    found = theme_area(landmarks)
+    return f" in {found[1]}" if found else ""
 
 
 def subject(sample, landmarks) -> str:
