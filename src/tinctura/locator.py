@@ -47,7 +47,7 @@ def readable(el, below: int = MAX_BELOW) -> str:
     path = []
     node = el
     while node is not None and isinstance(node.tag, str):
-        if named(node):
+        if named(node) or node.tag == "body":
             path.append(compound(node))
             break
         path.append(node.tag)
