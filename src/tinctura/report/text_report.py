@@ -47,12 +47,12 @@ class TextFormatter(Formatter):
         return f"{text} ({source})" if source else text
 
     def context(self, sample) -> str:
-        """`` [scheme slate, :hover]`` when it matters, else empty."""
+        """`` [scheme slate, when hovered]`` when it matters, else empty."""
         bits = []
         if self.many_schemes:
             bits.append(f"scheme {sample.scheme}")
         if sample.state and sample.state != "rest":
-            bits.append(f":{sample.state}")
+            bits.append(plain.STATES.get(sample.state, sample.state))
         return f" [{', '.join(bits)}]" if bits else ""
 
     # -- events ------------------------------------------------------------------------
