@@ -92,7 +92,29 @@ class WriterAid:
         if not any(planned):
             return {"pages": 0, "remaining": 0}
         return overrides_mod.verify(self.site_root, options, problems, planned,
-                                    list(pages_with_findings), loader, cache)
+                                    verification_pages(problems), loader, cache)
+
+
+VERIFY_PAGES = 3  # pages per problem checked again with the overrides applied
+VERIFY_LIMIT = 60  # pages in all: a site-wide cause costs a few pages, not the whole site
+
+
+def verification_pages(problems) -> list:
+    """The pages of each problem's examples (a cause fixed there is fixed everywhere the
+    same declarations meet), in problem order, bounded."""
+    pages: dict = {}
+    for problem in problems:
+        if getattr(problem, "override", None) is None:
+            continue
+        mine = []
+        for f in problem.example_pool():
+            if f.sample.page not in mine:
+                mine.append(f.sample.page)
+            if len(mine) == VERIFY_PAGES:
+                break
+        for page in mine:
+            pages.setdefault(page, None)
+    return list(pages)[:VERIFY_LIMIT]
 
 
 def write_fixes(path: str, problems, project=None) -> tuple:
