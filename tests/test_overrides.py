@@ -127,3 +127,20 @@ def test_readable_locator_and_selector():
     deep = root.find(".//main//p")
     assert readable(deep) == "body > \u2026 > section > div > p"
     assert selector(deep) == "body > main > section > div > p"
+
+
+def test_one_rule_fixing_several_problems_says_so():
+    from tinctura.overrides import plan_all
+
+    class Fixed:  # a planner returning prepared overrides
+        def __init__(self, overrides):
+            self.overrides = iter(overrides)
+
+        def plan(self, problem, element_selector=None):
+            return next(self.overrides)
+
+    same = Rule('[data-md-color-primary="light-blue"]', (("--md-primary-fg-color", "#007db8", False),))
+    other = Rule(".a", (("color", "#111111", False),))
+    planned = plan_all([1, 2, 3], Fixed([Override("x.css", [same]), Override("x.css", [other]),
+                                          Override("x.css", [same, other])]))
+    assert [o.shared_with for o in planned] == [(3,), (3,), (1, 2)]

@@ -56,6 +56,12 @@ class Override:
     note: str = ""  # what the writer should know (e.g. "a new file: add it to extra_css")
     verified: Optional[bool] = None  # None: not re-checked
     shown_file: str = ""  # ``file`` as the writer sees it (relative to mkdocs.yml), when known
+    shared_with: tuple = ()  # numbers (from 1) of other problems this same CSS fixes
+
+    def keys(self) -> set:
+        """What it sets: (media, selector, property, value) for every declaration."""
+        return {(r.media, _normal(r.selector), d[0], d[1]) for r in self.rules
+                for d in r.declarations if not d[1].startswith("var(")}
 
     @property
     def where(self) -> str:
@@ -270,8 +276,17 @@ def _first_compound(selector: str):
 
 
 def plan_all(problems, planner: Planner, element_selector=None) -> list:
-    """One Override (or None) per problem, in the problems' order."""
-    return [planner.plan(p, element_selector) for p in problems]
+    """One Override (or None) per problem, in the problems' order; overrides that set the same
+    property on the same selector name each other (one rule fixes several problems)."""
+    planned = [planner.plan(p, element_selector) for p in problems]
+    owners: dict = {}
+    for n, o in enumerate(planned, 1):
+        for key in (o.keys() if o is not None else ()):
+            owners.setdefault(key, []).append(n)
+    for n, o in enumerate(planned, 1):
+        if o is not None:
+            o.shared_with = tuple(sorted({m for key in o.keys() for m in owners[key]} - {n}))
+    return planned
 
 
 def combined_css(overrides) -> str:

@@ -288,6 +288,10 @@ def fix_lines(problem) -> list:
     out = [(1, head, "green" if override.verified else None, True)]
     if override.note:
         out.append((2, f"({override.note})", "dim", True))
+    if override.shared_with:
+        others = ", ".join(str(n) for n in override.shared_with)
+        out.append((2, f"(the same rule also fixes problem{'s' if len(override.shared_with) > 1 else ''} "
+                       f"{others}: add it once)", "dim", True))
     for line in override.css().rstrip("\n").splitlines():
         out.append((2, line, "green" if override.verified else None, False))
     return out
