@@ -194,7 +194,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         found = problems.group(findings, uses=uses)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         aid = self.writer_aid(found, pages, records)
-        locate = aid.locate if aid is not None else None
+        locate = aid  # callable: sample -> Location
         changes = self.log_changes(found) if self.serving_again() else None
         if changes is None:
             self.log_results(found, findings, many_schemes=len(schemes) > 1, locate=locate)

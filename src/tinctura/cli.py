@@ -248,7 +248,7 @@ def run_check(args, stdout, stderr) -> int:
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
-        locate=aid.locate if aid is not None else None,
+        locate=aid,
     )
     with output(args.output, stdout) as stream:
         report.render(stream, args.format, header, result.pages, result.findings, found,

@@ -45,7 +45,7 @@ class WriterAid:
         else:
             marks = tuple(landmarks(el))
             source = None
-            if self.sources is not None:
+            if self.sources is not None and sample.text:
                 own = " ".join("".join(el.itertext()).split())
                 source = self.sources.locate(sample.page, sample.text, marks, own)
             got = Location(readable(el) + pseudo(sample.xpath), source, marks)
@@ -53,6 +53,13 @@ class WriterAid:
             self._cache.clear()
         self._cache[key] = got
         return got
+
+    __call__ = locate  # reports call the aid itself to locate a sample
+
+    def locator(self, page: str, xpath: str) -> str:
+        """The readable locator of any element of a page (an ancestor a colour came from)."""
+        el = self.pages.element(page, xpath)
+        return xpath if el is None else readable(el) + pseudo(xpath)
 
     def element_selector(self, finding) -> Optional[str]:
         el = self.pages.element(finding.sample.page, finding.sample.xpath)

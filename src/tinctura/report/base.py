@@ -21,7 +21,8 @@ class Header:
     group: str = "cause"  # "cause" (problems first) or "page"
     fail_on: str = "error"
     schemes: list = field(default_factory=list)  # scheme names evaluated
-    # sample -> writer.Location (readable locator, Markdown source), when the run can tell
+    # callable sample -> writer.Location (readable locator, Markdown source), when the run can
+    # tell (a writer.WriterAid)
     locate: object = None
 
 

@@ -234,8 +234,13 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
     fg, bg = m.finding_colours(worst)
     out.append((2, f"{problem.severity} {problem.rule} {problem.slug}: {m.message(worst)}",
                 "severity", True))
-    out.append((2, f"text colour: {m.cause(problem.fg_cause, 'no declaration (initial value)')}",
-                None, True))
+    text_colour = m.cause(problem.fg_cause, "no declaration (initial value)")
+    inherited = problem.fg_cause.inherited_from if problem.fg_cause is not None else None
+    if inherited and hasattr(locate, "locator"):  # a WriterAid: ancestors get locators too
+        text_colour = text_colour.replace(
+            f"inherited from {inherited}",
+            f"inherited from {locate.locator(worst.sample.page, inherited)}")
+    out.append((2, f"text colour: {text_colour}", None, True))
     out.append((2, f"background: {m.cause(problem.bg_cause, 'no declaration (the canvas)')}",
                 None, True))
     if getattr(problem, "override", None) is not None:  # else the fix above said it
