@@ -108,7 +108,8 @@ def test_group_by_page():
         "guide/p0.html (3 findings)",
         "  10: /html/body/main/p[1]  \"Sow the marsh marigold seeds in autumn,\u2026\"",
         "      error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required *",
-        "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1)",
+        "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1); no lighter*",
+        "*this hue reaches it",
         "guide/p1.html (2 findings)",
         "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 undetermined (background image 1).",
     ])

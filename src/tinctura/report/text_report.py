@@ -4,6 +4,7 @@ from __future__ import annotations
 import shutil
 import textwrap
 
+from tinctura.colour import suggest
 from tinctura.problems import target_declaration
 
 from . import messages as m
@@ -86,15 +87,25 @@ class TextFormatter(Formatter):
             return
         tw = self.tw
         tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
+        width = self.width
         for f in findings:
             s = f.sample
             fg, bg = m.finding_colours(f)
-            tw.line(f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\"{self.context(s)}")
-            tw.line(f"      {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
+            for line in wrapped(0, f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\""
+                                   f"{self.context(s)}", width, 6):
+                tw.line(line)
+            message = f"{f.severity} {f.rule} {f.slug}: {m.message(f)}"
+            for line in wrapped(2, message, width, 2):
+                tw.line(line.replace(f.severity, self.severity(f.severity), 1))
             fix = m.fixes(f)
             tail = f"; try {fix}" if fix else ""
-            tw.line(f"      {m.colour(fg)} on {m.colour(bg)}, {m.ratio(f.ratio)}:1, "
-                    f"needs {m.required(f.required)}:1{tail}")
+            if not any(x.target == "background" for x in f.fixes) and fg is not None \
+                    and bg is not None:
+                tail += (f"; no {suggest.describe_side(bg, fg)} background of this hue "
+                         f"reaches it")
+            for line in wrapped(2, f"{m.colour(fg)} on {m.colour(bg)}, {m.ratio(f.ratio)}:1, "
+                                   f"needs {m.required(f.required)}:1{tail}", width, 2):
+                tw.line(line)
         tw.line()
 
     def diagnostic(self, diagnostic) -> None:
