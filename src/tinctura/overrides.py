@@ -339,6 +339,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
     if loader is not None:
         site.loader = loader  # parsed sheets reused; rule sets are keyed by their sheets
+    _same_line_for_overrides(site.loader)
     remaining_keys, bad = set(), set()
     remaining = 0
     for rel in pages:
@@ -360,6 +361,24 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
     _mark(problems, overrides, remaining_keys, bad)
     return counts
+
+
+def _same_line_for_overrides(loader) -> None:
+    """Rule sets are keyed by their sheets, a ``<style>`` by its text and line: the injected
+    block sits at a different line on every page, which would give every page its own rule set
+    (and cold style caches). It is given line 1 on every page instead."""
+    if getattr(loader, "_overrides_pinned", False):
+        return
+    original = loader.ruleset_for
+
+    def ruleset_for(root_el, page_path):
+        for el in root_el.iter("style"):
+            if el.get(f"data-{MARK}") is not None:
+                el.sourceline = 1
+        return original(root_el, page_path)
+
+    loader.ruleset_for = ruleset_for
+    loader._overrides_pinned = True
 
 
 def _mark(problems, overrides, remaining_keys, bad) -> None:

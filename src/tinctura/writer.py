@@ -102,8 +102,8 @@ class WriterAid:
                                     verification_pages(problems), loader, cache)
 
 
-VERIFY_PAGES = 3  # pages per problem checked again with the overrides applied
-VERIFY_LIMIT = 60  # pages in all: a site-wide cause costs a few pages, not the whole site
+VERIFY_PAGES = 1  # pages per problem checked again with the overrides applied
+VERIFY_LIMIT = 24  # pages in all: a site-wide cause costs a few pages, not the whole site
 
 
 def verification_pages(problems) -> list:
@@ -113,6 +113,8 @@ def verification_pages(problems) -> list:
     for problem in problems:
         if getattr(problem, "override", None) is None:
             continue
+        if any(f.sample.page in pages for f in problem.example_pool()):
+            continue  # already checked on a page chosen for an earlier problem
         mine = []
         for f in problem.example_pool():
             if f.sample.page not in mine:

@@ -11,8 +11,7 @@ page gets lighter. Each suggestion:
   the 8-bit rounding);
 - keeps the chroma where the sRGB gamut allows; where the gamut forces a lower chroma, the
   candidates at several chromas are ranked by their distance to the original in CAM02-UCS
-  (Luo, Cui & Li 2006), computed with colour-science, imported only then (its import costs
-  about a second).
+  (Luo, Cui & Li 2006; ``colour.cam02ucs``).
 
 Returns ``None`` when no colour on the same side reaches the ratio: callers say so rather than
 suggest the opposite polarity.
@@ -26,6 +25,7 @@ from __future__ import annotations
 import math
 from functools import lru_cache
 
+from . import cam02ucs
 from . import fix as _fix
 from .convert import srgb_to_oklab, to_polar
 from .wcag import contrast_ratio, relative_luminance
@@ -134,20 +134,5 @@ def _chroma_reduced(rgb, chroma: float) -> bool:
 
 
 def cam02ucs_distance(a, b) -> float:
-    """Euclidean distance of two sRGB colours in CAM02-UCS (colour-science's defaults: average
-    surround, L_A 64 cd/m2, Y_b 20)."""
-    return math.dist(_cam02ucs(tuple(a)), _cam02ucs(tuple(b)))
-
-
-@lru_cache(maxsize=4096)
-def _cam02ucs(rgb) -> tuple:
-    import os
-    import warnings
-
-    os.environ.setdefault("COLOUR_SCIENCE__FILTER_USAGE_WARNINGS", "True")
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        import colour
-        import numpy
-
-        return tuple(float(v) for v in colour.convert(numpy.array(rgb), "sRGB", "CAM02UCS"))
+    """Euclidean distance of two sRGB colours in CAM02-UCS (``colour.cam02ucs``)."""
+    return cam02ucs.distance(a, b)
