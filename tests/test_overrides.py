@@ -144,3 +144,19 @@ def test_one_rule_fixing_several_problems_says_so():
     planned = plan_all([1, 2, 3], Fixed([Override("x.css", [same]), Override("x.css", [other]),
                                           Override("x.css", [same, other])]))
     assert [o.shared_with for o in planned] == [(3,), (3,), (1, 2)]
+
+
+def test_text_faded_by_an_ancestors_opacity_gets_no_colour_override():
+    from dataclasses import replace
+
+    from tinctura.overrides import faded
+
+    translucent = run([make_sample("rgba(0, 0, 0, 0.4)", "#ffffff")], Options())[0]
+    assert not faded(translucent)  # its colour over white is exactly what is seen
+    # #000000de text in a parent at opacity 0.45 over white: seen as #9b9b9b (CSS Color 4
+    # compositing, by hand: 255 * (1 - 0.45 * 0.8706) = 155)
+    sample = replace(make_sample("#9b9b9b", "#ffffff"), fg_raw=(0.0, 0.0, 0.0, 0.8706))
+    (finding,) = run([sample], Options())
+    assert faded(finding)
+    (problem,) = group([finding], [sample])
+    assert Planner([DAY]).plan(problem) is None

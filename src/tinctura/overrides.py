@@ -129,12 +129,13 @@ class Planner:
     # -- per problem ----------------------------------------------------------------------
 
     def plan(self, problem, element_selector=None) -> Optional[Override]:
-        """The override for one problem, or None when no colour on the same side exists.
+        """The override for one problem, or None when no colour on the same side exists or
+        the text is faded by an ancestor's opacity (``faded``), which no colour undoes.
 
         ``element_selector(finding)`` gives a CSS selector for a finding's element (used when
         the colour comes from a style attribute or from no declaration at all)."""
         fix = problem.fix_at_cause
-        if fix is None:
+        if fix is None or faded(problem.worst):
             return None
         decl = target_declaration(problem.fg_cause)
         failing = list(problem.schemes) or [problem.scheme]
@@ -235,6 +236,18 @@ class Planner:
         if self.last_own:
             return self.last_own, ""
         return DEFAULT_FILE, "a new stylesheet: add it last to extra_css in mkdocs.yml"
+
+
+def faded(finding) -> bool:
+    """True when the text is fainter than its colour over its background: an ancestor's
+    opacity fades it (a translucent colour alone composites to exactly what is seen)."""
+    from tinctura.colour.composite import over
+
+    s = finding.sample
+    if s.fg_raw is None or s.fg is None or s.bg is None:
+        return False
+    seen = over(tuple(s.fg_raw), tuple(s.bg))[:3]
+    return max(abs(a - b) for a, b in zip(seen, s.fg)) > 2 / 255
 
 
 def _context_for(contexts, scheme, finding):

@@ -5,6 +5,7 @@ problem in one sentence ("Grey text on white in warning boxes is too faint: 2.32
 from __future__ import annotations
 
 from tinctura.colour.convert import srgb_to_oklab, to_polar
+from tinctura.overrides import faded
 from tinctura.sourcemap import theme_area
 
 from . import messages as m
@@ -89,6 +90,8 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
     marks = location.landmarks if location is not None else ()
     what = f"{colour_name(fg)} {subject(worst.sample, marks)} on {colour_name(bg)}{area(marks)}"
     state = STATES.get(worst.sample.state)
+    if faded(worst):
+        what += ", faded by an element's opacity,"
     text = what[0].upper() + what[1:] + " is too faint"
     if state:
         text += f" {state}"

@@ -5,6 +5,7 @@ import shutil
 import textwrap
 
 from tinctura.colour import suggest
+from tinctura.overrides import faded
 from tinctura.problems import target_declaration
 
 from . import messages as m
@@ -283,6 +284,9 @@ def example_place(f, locate=None, many_schemes: bool = False) -> str:
 def fix_lines(problem) -> list:
     """The fix as CSS for the site's own stylesheet, or why there is none."""
     override = getattr(problem, "override", None)
+    if override is None and faded(problem.worst):
+        return [(1, "Fix: raise (or remove) the opacity of the element around the text that "
+                    "fades it, rather than change the text colour.", "green", True)]
     if override is None:
         fix = problem.fix_at_cause
         if fix is not None and not fix.possible and not any(c.colour for c in fix.contexts):
