@@ -13,6 +13,7 @@ site's stylesheets; reports format the records.
 """
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import dataclass, field
 from typing import Optional
@@ -128,14 +129,18 @@ class Planner:
 
     # -- per problem ----------------------------------------------------------------------
 
-    def plan(self, problem, element_selector=None) -> Optional[Override]:
+    def plan(self, problem, element_selector=None, opacity_of=None) -> Optional[Override]:
         """The override for one problem, or None when no colour on the same side exists or
         the text is faded by an ancestor's opacity (``faded``), which no colour undoes.
 
         ``element_selector(finding)`` gives a CSS selector for a finding's element (used when
-        the colour comes from a style attribute or from no declaration at all)."""
+        the colour comes from a style attribute or from no declaration at all);
+        ``opacity_of(finding)`` the ``(declaration, value)`` of the opacities that fade it,
+        nearest first (then the fix raises the nearest one)."""
+        if faded(problem.worst):
+            return self._opacity(problem, opacity_of) if opacity_of is not None else None
         fix = problem.fix_at_cause
-        if fix is None or faded(problem.worst):
+        if fix is None:
             return None
         decl = target_declaration(problem.fg_cause)
         failing = list(problem.schemes) or [problem.scheme]
@@ -172,6 +177,26 @@ class Planner:
                                 target_declaration(problem.bg_cause))
         return Override(file, rules, tuple(schemes), target, note)
 
+    def _opacity(self, problem, opacity_of) -> Optional[Override]:
+        """Faded text: the least opacity of the nearest fading element that lets every
+        failing scheme's text pass (in steps of 0.05)."""
+        needed, decl = 0.0, None
+        for name in list(problem.schemes) or [problem.scheme]:
+            figures = problem.schemes.get(name)
+            worst = figures.worst if figures is not None else problem.worst
+            layers = opacity_of(worst) or []
+            if not layers or layers[0][0] is None or not layers[0][0].selector:
+                return None
+            decl, value = layers[0]
+            others = math.prod(v for _, v in layers[1:])
+            found = _least_opacity(worst, value, others, problem.required)
+            if found is None:
+                return None
+            needed = max(needed, found)
+        rule = Rule(decl.selector, (("opacity", f"{needed:g}", decl.important),))
+        file, note = self._file(decl)
+        return Override(file, [rule], (), "opacity", note)
+
     def _fg_rules(self, problem, decl, scope, colour, element_selector, per_bg_finding):
         value = to_hex(colour)
         important = bool(decl is not None and (decl.important or decl.origin == "inline"))
@@ -202,7 +227,7 @@ class Planner:
             return []
         out = []
         for step in cause.chain:
-            if step is decl:
+            if step == decl:  # equal, not identical: target_declaration is cached
                 break
             if step.property.startswith("--") and _normal(step.selector) != _normal(selector):
                 out.append((step.property, step.value, step.important))
@@ -236,6 +261,22 @@ class Planner:
         if self.last_own:
             return self.last_own, ""
         return DEFAULT_FILE, "a new stylesheet: add it last to extra_css in mkdocs.yml"
+
+
+def _least_opacity(finding, current: float, others: float, required: float):
+    """The least opacity (0.05 steps, above ``current``) at which the text passes; None when
+    even 1 does not. The text's colour is composited with the product of the opacities."""
+    from tinctura.colour.composite import over
+    from tinctura.colour.wcag import contrast_ratio
+
+    s = finding.sample
+    r, g, b, a = (tuple(s.fg_raw) + (1.0,))[:4]
+    steps = [round(0.05 * k, 2) for k in range(1, 21)]
+    for value in [v for v in steps if v > current] or [1.0]:
+        seen = over((r, g, b, a * value * others), tuple(s.bg))[:3]
+        if contrast_ratio(seen, tuple(s.bg)) >= required:
+            return value
+    return None
 
 
 def faded(finding) -> bool:
@@ -288,10 +329,10 @@ def _first_compound(selector: str):
     return selector[:i], selector[i:]
 
 
-def plan_all(problems, planner: Planner, element_selector=None) -> list:
+def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None) -> list:
     """One Override (or None) per problem, in the problems' order; overrides that set the same
     property on the same selector name each other (one rule fixes several problems)."""
-    planned = [planner.plan(p, element_selector) for p in problems]
+    planned = [planner.plan(p, element_selector, opacity_of) for p in problems]
     owners: dict = {}
     for n, o in enumerate(planned, 1):
         for key in (o.keys() if o is not None else ()):

@@ -31,6 +31,9 @@ class WriterAid:
         self.pages = Pages([self.site_root])
         self.sources = SourceMap(project) if project is not None else None
         self._cache: dict = {}
+        self._options = None
+        self._layered = None  # a Site keeping background layers, for faded text
+        self._samples: dict = {}
 
     # -- locations -----------------------------------------------------------------------
 
@@ -65,6 +68,27 @@ class WriterAid:
         el = self.pages.element(finding.sample.page, finding.sample.xpath)
         return None if el is None else selector(el) + pseudo(finding.sample.xpath)
 
+    def opacity_of(self, finding) -> list:
+        """``(declaration, value)`` of the opacities fading a finding's text, nearest first:
+        its page checked once more with background layers kept (only for faded text)."""
+        from dataclasses import replace
+
+        from tinctura import engine
+
+        if self._layered is None:
+            self._layered = engine.Site(self.site_root, replace(self._options, keep_samples=True))
+        s = finding.sample
+        key = (s.page, s.scheme)
+        if key not in self._samples:
+            result = self._layered.check_page(s.page)
+            self._samples[key] = {(x.xpath, x.state): x for x in result.samples
+                                  if x.scheme == s.scheme}
+        sample = self._samples[key].get((s.xpath, s.state))
+        if sample is None:
+            return []
+        return [(layer.cause.declaration if layer.cause is not None else None,
+                 layer.colour[3]) for layer in sample.bg_layers if layer.kind == "opacity"]
+
     def sheet_order(self, page: str) -> list:
         """Site-relative stylesheets a page links, in order."""
         tree = self.pages.tree(page)
@@ -91,7 +115,9 @@ class WriterAid:
         first = pages_with_findings[0] if pages_with_findings else None
         planner = overrides_mod.Planner(schemes, self.project,
                                         self.sheet_order(first) if first else ())
-        planned = overrides_mod.plan_all(problems, planner, self.element_selector)
+        self._options = options
+        planned = overrides_mod.plan_all(problems, planner, self.element_selector,
+                                         self.opacity_of)
         for problem, override in zip(problems, planned):
             problem.override = override
             if override is not None and self.project is not None:

@@ -284,7 +284,7 @@ def example_place(f, locate=None, many_schemes: bool = False) -> str:
 def fix_lines(problem) -> list:
     """The fix as CSS for the site's own stylesheet, or why there is none."""
     override = getattr(problem, "override", None)
-    if override is None and faded(problem.worst):
+    if override is None and faded(problem.worst):  # the fading element was not found
         return [(1, "Fix: raise (or remove) the opacity of the element around the text that "
                     "fades it, rather than change the text colour.", "green", True)]
     if override is None:
