@@ -34,6 +34,21 @@ class Schemes(c.BaseConfigOption[list]):
             raise base.ValidationError(str(exc)) from None
 
 
+class Behaviours(c.BaseConfigOption[tuple]):
+    """What the site's own scripts change before a reader sees a page: a list of
+    {action, selector, value[, marker, script]} (tinctura.extract.behaviours)."""
+
+    def run_validation(self, value: object) -> tuple:
+        if value is None:
+            return ()
+        from tinctura.extract.behaviours import from_setting
+
+        try:
+            return from_setting(value)
+        except ValueError as exc:
+            raise base.ValidationError(str(exc)) from None
+
+
 class TincturaConfig(base.Config):
     # `enabled` is deliberately absent: MkDocs 1.6 provides it for every plugin.
     level = c.Choice(("AA", "AAA"), default="AA")
@@ -44,3 +59,5 @@ class TincturaConfig(base.Config):
     log_every = c.Type(bool, default=False)  # one log line per occurrence, not per problem
     schemes = Schemes()  # None: discover the schemes from each page
     jobs = c.Optional(PositiveInt())  # processes; unset: the number of cores
+    behaviours = Behaviours()  # the site's own script behaviours, besides the themes' table
+    theme_behaviours = c.Type(bool, default=True)  # apply the themes' script behaviours

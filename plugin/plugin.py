@@ -74,6 +74,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             viewport_width=self.config.viewport_width,
             states=self.config.states,
             schemes=self.config.schemes,
+            behaviours=tuple(self.config.behaviours or ()),
+            theme_behaviours=self.config.theme_behaviours,
             keep_samples=False,  # a build log needs counts, findings and declaration uses
         )
 
@@ -87,6 +89,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
 
     def on_pre_build(self, *, config) -> None:
         options = self.engine_options()
+        options.site_url = config.site_url or ""  # absolute links below its path
         if config.site_dir != self.site_dir or options != self.options:
             self.site = None
             self.records.clear()

@@ -18,7 +18,8 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
-                                   "schemes": None, "jobs": None}
+                                   "schemes": None, "jobs": None, "behaviours": (),
+                                   "theme_behaviours": True}
 
 
 @pytest.mark.parametrize("option, value, needle", [

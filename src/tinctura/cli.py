@@ -79,6 +79,12 @@ def _site_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--schemes", metavar="FILE",
                    help="JSON list of colour schemes ({name, media, attributes}) replacing "
                         "discovery")
+    p.add_argument("--site-url", default="", metavar="URL",
+                   help="the site's public URL (mkdocs.yml site_url): absolute links under its "
+                        "path resolve inside the site directory")
+    p.add_argument("--behaviours", metavar="FILE",
+                   help="JSON list of what the site's own scripts change before a reader sees "
+                        "the page ({action, selector, value[, marker, script]})")
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
 
 
@@ -166,13 +172,23 @@ def options_from(args) -> engine.Options:
         exclude=tuple(args.exclude),
         jobs=args.jobs,
         schemes=load_schemes(args.schemes) if getattr(args, "schemes", None) else None,
+        site_url=getattr(args, "site_url", ""),
+        behaviours=load_json_setting(args.behaviours, "behaviours")
+        if getattr(args, "behaviours", None) else (),
     )
 
 
 def load_schemes(path: str) -> list:
     """Schemes from a JSON file (the same structure as the plugin's `schemes` option)."""
-    from tinctura.extract.schemes import from_setting
+    return load_json_setting(path, "schemes")
 
+
+def load_json_setting(path: str, name: str):
+    """A setting (``schemes`` or ``behaviours``) from a JSON file, validated like the plugin's
+    option of the same name; UsageError naming the file and what is wrong."""
+    from tinctura.extract import behaviours, schemes
+
+    from_setting = {"schemes": schemes.from_setting, "behaviours": behaviours.from_setting}[name]
     try:
         with open(path, encoding="utf-8") as fh:
             data = json.load(fh)

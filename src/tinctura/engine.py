@@ -19,9 +19,11 @@ import os
 import re
 from contextlib import contextmanager
 from dataclasses import dataclass, field
+from urllib.parse import urlsplit
 
 from . import problems as problems_mod
 from .colour import wcag
+from .extract import behaviours as behaviour_mod
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -42,6 +44,9 @@ class Options:
     rules: tuple = ()  # rule codes or slugs to run; empty: all
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
+    site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
+    behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
+    theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
 
 
 @dataclass
@@ -62,8 +67,11 @@ class Site:
     def __init__(self, root: str, options: Options | None = None):
         self.root = os.path.abspath(root)
         self.options = options or Options()
-        self.loader = SheetLoader(self.root)
+        self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path)
         self._caches = {}
+        self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
+            + tuple(self.options.behaviours)
+        self._themes_noted = set()  # themes whose unmodelled script changes were reported
 
     def pages(self) -> list:
         found = []
@@ -96,6 +104,7 @@ class Site:
             root = parse_html(html)
             for line, message in parser_warnings():
                 result.diagnostics.append(Diagnostic(rel, message, line=line))
+            self._script_behaviours(root, result)
         except (OSError, ValueError) as exc:
             message = exc.strerror if isinstance(exc, OSError) and exc.strerror else str(exc)
             result.diagnostics.append(Diagnostic(rel, f"cannot read page: {message}",
@@ -148,6 +157,16 @@ class Site:
         return result
 
 
+    def _script_behaviours(self, root, result) -> None:
+        """Apply what the page's theme scripts change before a reader sees it; say once per
+        site what those scripts change that tinctura does not model."""
+        for theme in behaviour_mod.apply(root, self._behaviours):
+            note = behaviour_mod.NOT_MODELLED.get(theme)
+            if note and theme not in self._themes_noted:
+                self._themes_noted.add(theme)
+                result.diagnostics.append(Diagnostic(result.page, f"{theme} theme: {note}"))
+
+
 def _forget(fingerprints: dict, elements) -> None:
     """Drop the fingerprints a scheme's attribute changes made stale (elements and ancestors)."""
     for el in elements:
@@ -180,8 +199,9 @@ def judge_gradients(samples, level: str) -> None:
         ratios = [wcag.contrast_ratio(foreground_on(s, bg), bg) for bg in backgrounds(s)]
         if min(ratios) < required <= max(ratios):
             s.status = UNDETERMINED
-            s.reason = (f"backgrounds disagree (gradient stops or an outlining text shadow): "
-                        f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1 against {required:g}:1")
+            s.reason = ("backgrounds disagree (gradient stops, a partial inset shadow or an "
+                        f"outlining text shadow): {min(ratios):.2f}:1 to {max(ratios):.2f}:1 "
+                        f"against {required:g}:1")
 
 
 def check_paths(paths, options: Options | None = None, findings_to=None) -> Report:

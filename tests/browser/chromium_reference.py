@@ -75,8 +75,10 @@ def serve(site_dir):
 # ---- browser ----------------------------------------------------------------------------------
 
 @contextlib.contextmanager
-def browser(window=WINDOW):
-    """A headless Chromium driven by selenium, with a throw-away profile."""
+def browser(window=WINDOW, scripts=False):
+    """A headless Chromium driven by selenium, with a throw-away profile.
+
+    Page scripts are off unless ``scripts`` (tests of what a theme's script changes)."""
     from selenium import webdriver
     from selenium.webdriver.chrome.service import Service
 
@@ -88,7 +90,8 @@ def browser(window=WINDOW):
     options.add_argument(f"--user-data-dir={profile}")
     options.add_argument(f"--window-size={window[0]},{window[1]}")
     # Page scripts off; selenium's own scripts still run through the DevTools protocol.
-    options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
+    if not scripts:
+        options.add_experimental_option("prefs", {"profile.managed_default_content_settings.javascript": 2})
     driver = webdriver.Chrome(service=Service(CHROMEDRIVER), options=options)
     try:
         # A page rewritten between loads (tests) must not come from the cache.
@@ -131,21 +134,45 @@ def discover_schemes(driver) -> list[dict]:
     """
     found = driver.execute_script(_DISCOVER_JS)
     if found["kind"] == "material":
-        entries = found["entries"]
-        shared = {e["scheme"] for e in entries if sum(x["scheme"] == e["scheme"] for x in entries) > 1}
-        schemes = []
-        for e in entries:
-            m = _PREFERS.search(e["media"])
-            name = e["scheme"] + ("/" + e["primary"] if e["scheme"] in shared else "")
-            attributes = [["body", f"data-md-color-{key}", e[key]]
-                          for key in ("media", "scheme", "primary", "accent")]
-            schemes.append({"name": name, "media": {"prefers-color-scheme": m.group(1)} if m else {},
-                            "attributes": attributes})
-        return schemes
+        return _material_schemes(found["entries"])
     if found["kind"] == "bootstrap":  # MkDocs' own theme
         return [{"name": v, "media": {"prefers-color-scheme": v}, "attributes": [["html", "data-bs-theme", v]]}
                 for v in ("light", "dark")]
     return [{"name": v, "media": {"prefers-color-scheme": v}, "attributes": []} for v in ("light", "dark")]
+
+
+def _material_schemes(entries) -> list[dict]:
+    """The entries a reader can get, as mkdocs-material's palette script applies them.
+
+    The script resolves an automatic entry (media ``(prefers-color-scheme)``) to the first entry
+    whose media is ``(prefers-color-scheme: light)`` or ``: dark``, whichever matches the system
+    (``tests/browser/test_theme_scripts.py`` checks this against the script itself); entries that
+    set the same colours under the same preference are one scheme.
+    """
+    explicit, automatic = [], []
+    for e in entries:
+        m = _PREFERS.search(e["media"])
+        key = (e["scheme"], e["primary"], e["accent"])
+        if m:
+            explicit.append((key, m.group(1), e))
+        elif "prefers-color-scheme" in e["media"]:
+            automatic.append((key, e))
+        else:
+            explicit.append((key, "dark" if e["scheme"] == "slate" else "light", e))
+    covered = {pref for _, pref, _ in explicit}
+    for key, e in automatic:
+        explicit.extend((key, pref, e) for pref in ("light", "dark") if pref not in covered)
+    unique = list({(key, pref): (key, pref, e) for key, pref, e in explicit}.values())
+    schemes = []
+    for key, pref, e in unique:
+        full = key + (pref,)
+        for width in (1, 2, 3, 4):
+            if sum((k + (p,))[:width] == full[:width] for k, p, _ in unique) == 1:
+                break
+        name = "/".join(part for part in full[:width] if part)
+        attributes = [["body", f"data-md-color-{k}", e[k]] for k in ("media", "scheme", "primary", "accent")]
+        schemes.append({"name": name, "media": {"prefers-color-scheme": pref}, "attributes": attributes})
+    return schemes
 
 
 def apply_scheme(driver, scheme: dict) -> None:

@@ -31,8 +31,11 @@ def user_agent_sheet():
 class SheetLoader:
     """Per-site cache of parsed stylesheets and of rule sets by list of sheets."""
 
-    def __init__(self, root: str):
+    def __init__(self, root: str, prefix: str = ""):
         self.root = os.path.abspath(root)
+        # the path the site is served under ("/project/" for https://host/project/): absolute
+        # links start with it
+        self.prefix = "/" + prefix.strip("/") + "/" if prefix.strip("/") else ""
         self._sheets = {}  # path -> (mtime, ParsedSheet, diagnostics)
         self._rulesets = {}
         self.generation = 0  # bumped when a stylesheet changed on disk
@@ -50,7 +53,9 @@ class SheetLoader:
         path = unquote(parts.path)
         if not path:
             return None, "empty stylesheet URL"
-        if path.startswith("/"):
+        if self.prefix and path.startswith(self.prefix):
+            candidate = os.path.normpath(os.path.join(self.root, path[len(self.prefix):]))
+        elif path.startswith("/"):
             candidate = os.path.normpath(os.path.join(self.root, path.lstrip("/")))
             if not os.path.isfile(candidate):
                 # a site served below a path prefix: try dropping leading segments

@@ -535,6 +535,11 @@ class PageWalker:
         opaque_seen = False
         for at in range(len(chain) - 1, -1, -1):
             s = chain[at][1]
+            if s.shadows and not opaque_seen:  # painted above the backgrounds
+                shadows, cause = s.shadows
+                for colour, _whole in reversed(shadows):
+                    layers.append((at, "shadow", colour, cause))
+                bg_cause = bg_cause or cause
             if s.images and not opaque_seen:
                 images, cause = s.images
                 for kind, data in images:
@@ -602,15 +607,19 @@ def outline_shadows(value: str, text_colour, style) -> list:
 
 
 def _paints(style):
-    """The colours one element paints behind its content: bg colour, with each gradient stop."""
+    """The colours one element paints behind its content: bg colour, each gradient stop, then
+    inset box shadows (above the backgrounds, below the content)."""
     base = style.bg
-    if not style.images:
+    if not style.images and not style.shadows:
         return [base]
-    images, _ = style.images
     options = [base]
-    for kind, data in images:
+    for kind, data in (style.images[0] if style.images else ()):
         if kind == "gradient":
             options = [over(stop, b) for b in options for stop in data]
+    for colour, whole in (style.shadows[0] if style.shadows else ()):
+        shaded = [over(colour, b) for b in options]
+        # a shadow over part of the box: the text may sit on it or beside it
+        options = shaded if whole else options + shaded
     return _dedupe(options)[:MAX_ALTERNATIVES]
 
 

@@ -51,22 +51,14 @@ class SchemeFacts:
 
 
 def _material_palette(root) -> list:
-    inputs = [el for el in root.iter("input")
-              if el.get("data-md-color-scheme") is not None
-              and "md-option" in (el.get("class") or "").split()]
-    if not inputs:
+    """One scheme per palette entry a reader can get (see :func:`_palette_entries`)."""
+    entries = _palette_entries(root)
+    if not entries:
         return []
-    schemes, names = [], {}
-    for el in inputs:
-        scheme = el.get("data-md-color-scheme")
-        names[scheme] = names.get(scheme, 0) + 1
-    for el in inputs:
-        scheme = el.get("data-md-color-scheme")
-        primary = el.get("data-md-color-primary") or ""
-        accent = el.get("data-md-color-accent") or ""
-        name = scheme if names[scheme] == 1 else f"{scheme}/{primary}"
-        found = _PREFERS.search(el.get("data-md-color-media") or "")
-        pref = found.group(1).lower() if found else ("dark" if scheme == "slate" else "light")
+    names = _entry_names(entries)
+    schemes = []
+    for entry, name in zip(entries, names):
+        scheme, primary, accent, pref = entry
         attrs = [("body", "data-md-color-scheme", scheme)]
         if primary:
             attrs.append(("body", "data-md-color-primary", primary))
@@ -74,6 +66,50 @@ def _material_palette(root) -> list:
             attrs.append(("body", "data-md-color-accent", accent))
         schemes.append(Scheme(name, (("prefers-color-scheme", pref),), tuple(attrs), "palette"))
     return schemes
+
+
+def _palette_entries(root) -> list:
+    """(scheme, primary, accent, preference) of each distinct entry a reader can select.
+
+    - An automatic entry (media ``(prefers-color-scheme)`` with no value) follows the reader's
+      system setting: the theme's palette script then applies the entry whose media is
+      ``(prefers-color-scheme: light)`` or ``: dark``, whichever matches. It is folded into those
+      entries and yields no scheme of its own, unless no entry names that preference (then its
+      own colours are what the reader gets, for that preference).
+    - Entries are deduplicated by what they set (scheme, primary, accent, preference), not by
+      name: two toggles that set the same colours are one scheme.
+    """
+    inputs = [el for el in root.iter("input")
+              if el.get("data-md-color-scheme") is not None
+              and "md-option" in (el.get("class") or "").split()]
+    explicit, automatic = [], []
+    for el in inputs:
+        media = el.get("data-md-color-media") or ""
+        found = _PREFERS.search(media)
+        scheme = el.get("data-md-color-scheme")
+        attrs = (scheme, el.get("data-md-color-primary") or "", el.get("data-md-color-accent") or "")
+        if found:
+            explicit.append(attrs + (found.group(1).lower(),))
+        elif "prefers-color-scheme" in media.lower():
+            automatic.append(attrs)
+        else:  # no media: the scheme's own polarity
+            explicit.append(attrs + ("dark" if scheme == "slate" else "light",))
+    covered = {entry[3] for entry in explicit}
+    for attrs in automatic:
+        explicit.extend(attrs + (pref,) for pref in ("light", "dark") if pref not in covered)
+    return list(dict.fromkeys(explicit))
+
+
+def _entry_names(entries) -> list:
+    """Readable unique names: the scheme, then /primary, /accent, /preference as needed."""
+    names = []
+    for entry in entries:
+        for width in (1, 2, 3, 4):
+            name = "/".join(part for part in entry[:width] if part) if width > 1 else entry[0]
+            if sum(e[:width] == entry[:width] for e in entries) == 1:
+                break
+        names.append(name)
+    return names
 
 
 def apply(root, scheme):

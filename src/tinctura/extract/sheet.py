@@ -22,7 +22,8 @@ RELEVANT = frozenset(
     """color background background-color background-image background-clip -webkit-background-clip
     opacity display visibility content font font-size font-weight color-scheme
     -webkit-text-fill-color text-shadow filter mix-blend-mode backdrop-filter fill
-    position clip clip-path width height overflow all list-style list-style-type""".split()
+    position clip clip-path width height overflow all list-style list-style-type
+    box-shadow""".split()
 )
 
 # Dynamic pseudo-classes are rewritten into attributes that the engine sets on an element to

@@ -106,7 +106,7 @@ class Style:
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
                  "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style",
-                 "hidden_within")
+                 "hidden_within", "shadows")
 
     def __init__(self):
         self.color = BLACK
@@ -115,6 +115,7 @@ class Style:
         self.bg = TRANSPARENT
         self.bg_cause = None
         self.images = ()
+        self.shadows = ()  # (((colour, covers whole box), ...), Cause): inset box shadows
         self.opacity = 1.0
         self.opacity_cause = None
         self.display = "inline"
@@ -354,6 +355,14 @@ class Resolver:
                 if images:
                     s.images = (tuple(images), Cause(w.provenance("background-image"), None,
                                                      chain))
+
+        kind, w = keyword("box-shadow")
+        if kind == "value":
+            toks, chain = self.value(w, s)
+            ctx = V.LengthContext(s.font_size, self.root_font_size, self.vw)
+            shadows = V.inset_shadows(toks or [], s.color, s.scheme, ctx)
+            if shadows:
+                s.shadows = (tuple(shadows), Cause(w.provenance("box-shadow"), None, chain))
 
         kind, w = keyword("opacity")
         if kind == "value":

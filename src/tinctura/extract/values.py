@@ -251,6 +251,52 @@ def _image(t, kind, current, scheme):
     return ("gradient", stops)
 
 
+# An inset shadow is painted above the element's backgrounds and below its content (CSS
+# Backgrounds and Borders 3, "box-shadow"): inside the padding box, outside the box shrunk by the
+# spread and moved by the offset. Without the box's geometry, tinctura classifies it:
+# - it covers the whole box when the spread is at least half the viewport width: no text box is
+#   wider than the viewport, so the unshadowed inner box is empty (the `inset 0 0 0 9999px`
+#   idiom that CSS frameworks use to tint table rows);
+# - it draws only an edge, like a border, when it reaches at most INSET_EDGE_PX into the box
+#   (padding keeps text off such an edge: a judgement of ours, common practice for inner rings);
+# - otherwise it covers part of the box: its colour is one more background the text may sit on.
+INSET_EDGE_PX = 4.0
+
+
+def inset_shadows(tokens, current, scheme, ctx: LengthContext) -> list:
+    """[(colour, covers_whole_box)] of the inset shadows in a ``box-shadow`` value, bottom first.
+
+    Outset shadows paint outside the border box, never behind the text: they are left out.
+    """
+    out = []
+    for part in split_commas(tokens):
+        sig = significant(part)
+        if not any(t.type == "ident" and t.lower_value == "inset" for t in sig):
+            continue
+        lengths, colour = [], current
+        for t in sig:
+            if t.type == "ident" and t.lower_value == "inset":
+                continue
+            v = length(t, ctx) if t.type in ("dimension", "number", "function") else None
+            if v is not None:
+                lengths.append(v)
+                continue
+            c = parse_color([t], current=current, scheme=scheme)
+            if isinstance(c, tuple):
+                colour = c
+        if len(lengths) < 2 or colour[3] <= 0:
+            continue
+        ox, oy = lengths[0], lengths[1]
+        blur = max(0.0, lengths[2]) if len(lengths) > 2 else 0.0
+        spread = lengths[3] if len(lengths) > 3 else 0.0
+        if spread >= ctx.vw / 2:
+            out.append((colour, True))
+        elif max(abs(ox), abs(oy)) + max(spread, 0.0) + blur / 2 > INSET_EDGE_PX:
+            out.append((colour, False))
+    out.reverse()  # the first shadow in the list is painted on top
+    return out
+
+
 def background_images(tokens, current, scheme) -> list:
     images = []
     for layer in split_commas(tokens):

@@ -1,0 +1,251 @@
+"""What themes' scripts change in the page before a reader sees it, as a declarative table.
+
+tinctura reads the built HTML; documentation themes run scripts at load time that add classes and
+wrap elements, and theme stylesheets style the result (striped table rows, responsive table
+wrappers). Each :class:`Behaviour` restates one such change, found in the theme's own script
+(named in ``source``), so the cascade sees the tree the reader's browser sees. Each entry is
+checked against Chromium running the theme's real script (tests/browser/test_theme_scripts.py).
+
+A behaviour applies to a page when the page loads the theme's script (a ``<script src>``
+contains ``script``) and has the theme's marker (``marker``: a CSS selector). Users declare their own
+behaviours for their own scripts in the configuration (``behaviours``: the same fields, with
+``script`` optional). What a script changes later, on scroll or on click (the current
+table-of-contents entry, opened menus), is not modelled: :data:`NOT_MODELLED` says so once per
+site for the themes in the table.
+"""
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+from lxml import etree
+
+ACTIONS = ("add-class", "remove-class", "wrap", "wrap-children")
+
+
+@dataclass(frozen=True)
+class Behaviour:
+    theme: str  # a readable name for reports
+    action: str  # "add-class" / "remove-class": the classes in ``value``; "wrap": wrap the
+    # element in ``value``; "wrap-children": wrap its content (text and children) in ``value``
+    selector: str  # the elements changed (CSS selector)
+    # classes ("a b"), or the wrappers, outermost first ("div.outer > div.inner"), each
+    # tag.class[attribute=value], where {name} in a value stands for the element's attribute
+    value: str
+    marker: str = ""  # the page has the theme when this selector matches ("" always)
+    script: str = ""  # ... and loads a script whose src contains this ("" any page)
+    source: str = ""  # where the theme's script does it
+
+
+_MATERIAL = ("body", "assets/javascripts/bundle.")  # any page of the theme; its script bundle
+
+BUILTIN = (
+    # mkdocs-material's bundle: document.documentElement.classList.remove("no-js"), then
+    # .add("js") (rules under .no-js hide the search box), and its focus-visible polyfill adds
+    # "js-focus-visible"; content tables without a class are
+    # wrapped: <div class="md-typeset__scrollwrap"><div class="md-typeset__table">table</div></div>
+    Behaviour("mkdocs-material", "remove-class", "html", "no-js", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "add-class", "html", "js js-focus-visible", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "wrap", "[data-md-component=content] table:not([class])",
+              "div.md-typeset__scrollwrap > div.md-typeset__table", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    # content tabs ([data-tabs]): the labels' container is marked linked and each label's
+    # content is wrapped in <a href="#{for}" tabindex="-1">
+    Behaviour("mkdocs-material", "add-class", "[data-tabs] > .tabbed-labels",
+              "tabbed-labels--linked", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "wrap-children", "[data-tabs] > .tabbed-labels > label[for]",
+              "a[href=#{for}][tabindex=-1]", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    # MkDocs' own theme, js/base.js: document.querySelectorAll('table').forEach(table =>
+    # table.classList.add('table', 'table-striped', 'table-hover'))
+    Behaviour("mkdocs", "add-class", "table", "table table-striped table-hover",
+              "html[data-bs-theme]", "js/base.js", "mkdocs theme js/base.js"),
+    # MkDocs' readthedocs theme: js/theme_extra.js adds 'docutils' to content tables, then
+    # js/theme.js wraps them: $("table.docutils:not(.field-list,.footnote,.citation)")
+    # .wrap("<div class='wy-table-responsive'></div>"), footnotes and citations likewise.
+    Behaviour("readthedocs", "add-class", "div.rst-content table", "docutils",
+              "body.wy-body-for-nav", "js/theme_extra.js", "readthedocs theme js/theme_extra.js"),
+    Behaviour("readthedocs", "wrap", "table.docutils:not(.field-list, .footnote, .citation)",
+              "div.wy-table-responsive", "body.wy-body-for-nav", "js/theme.js",
+              "readthedocs theme js/theme.js"),
+    Behaviour("readthedocs", "wrap", "table.docutils.footnote", "div.wy-table-responsive.footnote",
+              "body.wy-body-for-nav", "js/theme.js", "readthedocs theme js/theme.js"),
+    Behaviour("readthedocs", "wrap", "table.docutils.citation", "div.wy-table-responsive.citation",
+              "body.wy-body-for-nav", "js/theme.js", "readthedocs theme js/theme.js"),
+)
+
+NOT_MODELLED = {
+    "mkdocs-material": "the theme's script also marks the current table-of-contents entry on "
+                       "scroll and adds buttons (copy, tabs); those are not checked",
+    "mkdocs": "the theme's script also changes classes on click (menus) and on scroll; "
+              "those states are not checked",
+    "readthedocs": "the theme's script also marks the current navigation entry from the URL "
+                   "fragment and adds expand buttons; those are not checked",
+}
+
+
+def from_setting(entries) -> tuple:
+    """User behaviours from a setting; ValueError naming the entry and what is wrong."""
+    if not isinstance(entries, list):
+        raise ValueError("behaviours must be a list")
+    out = []
+    for n, entry in enumerate(entries, 1):
+        where = f"behaviour #{n}"
+        if not isinstance(entry, dict):
+            raise ValueError(f"{where}: expected a mapping with action, selector, value")
+        unknown = set(entry) - {"action", "selector", "value", "marker", "script", "theme"}
+        if unknown:
+            raise ValueError(f"{where}: unknown keys {', '.join(sorted(unknown))}")
+        if entry.get("action") not in ACTIONS:
+            raise ValueError(f"{where}: action must be one of {', '.join(ACTIONS)}")
+        for key in ("selector", "value"):
+            if not isinstance(entry.get(key), str) or not entry[key].strip():
+                raise ValueError(f"{where}: {key} must be a non-empty string")
+        behaviour = Behaviour(entry.get("theme", "configuration"), entry["action"],
+                              entry["selector"], entry["value"], entry.get("marker", ""),
+                              entry.get("script", ""), "configuration")
+        if behaviour.action.startswith("wrap") and not all(
+                _PART.fullmatch(p.strip()) for p in behaviour.value.split(">")):
+            raise ValueError(f"{where}: value must be tag.class[attribute=value] > ...")
+        try:
+            _compiled(behaviour.selector)
+            if behaviour.marker:
+                _compiled(behaviour.marker)
+        except Exception as exc:
+            raise ValueError(f"{where}: invalid selector: {exc}") from None
+        out.append(behaviour)
+    return tuple(out)
+
+
+def apply(root, behaviours=BUILTIN) -> list:
+    """Apply the behaviours whose theme the page has, in order; returns the themes applied."""
+    scripts = [el.get("src") or "" for el in root.iter("script") if el.get("src")]
+    applied = []
+    for b in behaviours:
+        if b.script and not any(b.script in src.split("?")[0] for src in scripts):
+            continue
+        if b.marker and not _select(root, b.marker):
+            continue
+        targets = _select(root, b.selector)
+        for el in targets:
+            _ACT[b.action](el, b.value)
+        if b.theme not in applied:
+            applied.append(b.theme)
+    return applied
+
+
+def _add_classes(el, value: str) -> None:
+    have = (el.get("class") or "").split()
+    el.set("class", " ".join(have + [c for c in value.split() if c not in have]))
+
+
+def _remove_classes(el, value: str) -> None:
+    gone = set(value.split())
+    kept = [c for c in (el.get("class") or "").split() if c not in gone]
+    if kept:
+        el.set("class", " ".join(kept))
+    else:
+        el.attrib.pop("class", None)
+
+
+def _wrap(el, value: str) -> None:
+    parent = el.getparent()
+    if parent is None:
+        return
+    outer, inner = _wrappers(el, value)
+    outer.tail, el.tail = el.tail, None
+    parent.replace(el, outer)
+    inner.append(el)
+
+
+def _wrap_children(el, value: str) -> None:
+    outer, inner = _wrappers(el, value)
+    inner.text, el.text = el.text, None
+    for child in list(el):
+        inner.append(child)  # moves it, with its tail
+    el.append(outer)
+
+
+_PART = re.compile(r"([\w-]*)((?:\.[\w-]+)*)((?:\[[^\]]*\])*)")
+
+
+def _wrappers(el, value: str) -> tuple:
+    """(outermost, innermost) of the elements ``value`` describes, nested."""
+    outer = inner = None
+    for part in value.split(">"):
+        tag, classes, attrs = _PART.fullmatch(part.strip()).groups()
+        made = etree.Element(tag or "div")
+        if classes:
+            made.set("class", " ".join(classes.strip(".").split(".")))
+        for attr in re.findall(r"\[([^\]]*)\]", attrs):
+            name, _, text = attr.partition("=")
+            made.set(name.strip(), re.sub(r"\{([\w-]+)\}", lambda m: el.get(m.group(1), ""),
+                                          text.strip().strip("\"'")))
+        made.sourceline = el.sourceline  # a script's element has no line; give it the element's
+        if inner is None:
+            outer = made
+        else:
+            inner.append(made)
+        inner = made
+    return outer, inner
+
+
+_ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wrap,
+        "wrap-children": _wrap_children}
+
+
+def _select(root, selector: str) -> list:
+    """Elements matching ``selector``. Runs on every page: only the elements of the rightmost
+    compound's tag are tested, and cssselect2 wrappers are built for them and their ancestors
+    alone (a full wrapped walk costs about 15 ms on a theme page)."""
+    selector = selector.strip()
+    if selector in ("html", ":root"):
+        return [root]
+    if selector == "body":
+        body = root.find("body")
+        return [body] if body is not None else []
+    compiled = _compiled(selector)
+    tag = _rightmost_tag(selector)
+    candidates = list(root.iter(tag)) if tag else list(root.iter())
+    if not candidates:
+        return []
+    import cssselect2
+
+    wrappers = {root: cssselect2.ElementWrapper.from_html_root(root)}
+    return [el for el in candidates if isinstance(el.tag, str)
+            and any(c.test(_wrapper(wrappers, el)) for c in compiled)]
+
+
+def _wrapper(wrappers: dict, el):
+    missing = []
+    up = el
+    while up not in wrappers:
+        missing.append(up)
+        up = up.getparent()
+    for item in reversed(missing):
+        for child in wrappers[item.getparent()].iter_children():  # siblings: `previous`
+            wrappers[child.etree_element] = child
+    return wrappers[el]
+
+
+def _rightmost_tag(selector: str) -> str:
+    """The type selector of the rightmost compound ("" when it has none)."""
+    flat = re.sub(r"\([^()]*\)", "", selector)  # arguments of :not() and the like
+    if "," in flat:
+        return ""  # a list: its compounds may name different tags
+    last = re.split(r"[\s>+~]+", flat.strip())[-1]
+    found = re.match(r"[A-Za-z][\w-]*", last)
+    return found.group(0).lower() if found else ""
+
+
+@lru_cache(maxsize=256)
+def _compiled(selector: str) -> tuple:
+    import cssselect2
+    import tinycss2
+
+    return tuple(cssselect2.compile_selector_list(
+        tinycss2.parse_component_value_list(selector)))
