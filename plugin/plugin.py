@@ -226,7 +226,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         """Overrides for the site's own stylesheets (verified) and Markdown locations."""
         if self.site_dir is None:
             return None
-        aid = WriterAid(self.site_dir, self.project)
+        aid = WriterAid(self.site_dir, self.project, self.options)
         if found:
             schemes = {}
             for page in pages:

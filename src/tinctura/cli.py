@@ -255,7 +255,7 @@ def run_check(args, stdout, stderr) -> int:
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
     result.findings = store
     found = collector.problems(result.uses)
-    aid = writer_aid(args.paths, project)
+    aid = writer_aid(args.paths, project, options)
     if aid is not None and found:
         aid.plan_overrides(found, result.schemes, options, store.pages())
     header = report.Header(
@@ -290,15 +290,15 @@ def load_project(path: str):
         raise UsageError(str(exc)) from None
 
 
-def writer_aid(paths, project):
+def writer_aid(paths, project, options=None):
     """Locations and overrides for the first site directory checked (or a page's folder)."""
     from tinctura.writer import WriterAid
 
     for path in paths:
         if os.path.isdir(path):
-            return WriterAid(path, project)
+            return WriterAid(path, project, options)
         if os.path.isfile(path):
-            return WriterAid(os.path.dirname(os.path.abspath(path)) or ".", project)
+            return WriterAid(os.path.dirname(os.path.abspath(path)) or ".", project, options)
     return None
 
 

@@ -89,8 +89,9 @@ class Pages:
 
     KEEP = 8
 
-    def __init__(self, roots):
+    def __init__(self, roots, behaviours=()):
         self.roots = [os.path.abspath(r) for r in roots]
+        self.behaviours = tuple(behaviours)  # theme script behaviours the engine applied
         self._trees: OrderedDict = OrderedDict()
 
     def tree(self, page: str):
@@ -106,6 +107,10 @@ class Pages:
                 try:
                     with open(path, "rb") as fh:
                         tree = parse_html(fh.read())
+                    if self.behaviours:  # the XPaths are those of the tree the engine walked
+                        from tinctura.extract import behaviours
+
+                        behaviours.apply(tree, self.behaviours)
                 except Exception:  # an unreadable page: no locator, the XPath remains
                     tree = None
                 break

@@ -25,10 +25,10 @@ class Location:
 
 
 class WriterAid:
-    def __init__(self, site_root: str, project=None):
+    def __init__(self, site_root: str, project=None, options=None):
         self.site_root = os.path.abspath(site_root)
         self.project = project
-        self.pages = Pages([self.site_root])
+        self.pages = Pages([self.site_root], script_behaviours(options))
         self.sources = SourceMap(project) if project is not None else None
         self._cache: dict = {}
         self._options = None
@@ -126,6 +126,16 @@ class WriterAid:
             return {"pages": 0, "remaining": 0}
         return overrides_mod.verify(self.site_root, options, problems, planned,
                                     verification_pages(problems), loader, cache)
+
+
+def script_behaviours(options) -> tuple:
+    """The theme script behaviours the engine applies to pages with these options."""
+    if options is None:
+        return ()
+    from tinctura.extract import behaviours
+
+    return ((behaviours.BUILTIN if getattr(options, "theme_behaviours", True) else ())
+            + tuple(getattr(options, "behaviours", ()) or ()))
 
 
 VERIFY_PAGES = 1  # pages per problem checked again with the overrides applied
