@@ -174,3 +174,17 @@ def test_equal_causes_from_another_run_give_the_same_override():
 
     first = plan()
     assert plan() == first and first.count("--ink:") == 1
+
+
+def test_how_to_add_the_written_file(tmp_path):
+    from tinctura.writer import how_to_add
+
+    docs = tmp_path / "docs"
+    project = Project(config_file=str(tmp_path / "mkdocs.yml"), docs_dir=str(docs),
+                      extra_css=["stylesheets/extra.css"])
+    fresh = how_to_add(str(docs / "stylesheets" / "colour-fixes.css"), project)
+    assert fresh.endswith("extra_css:\n    - stylesheets/colour-fixes.css")
+    assert "docs/stylesheets/colour-fixes.css" in fresh
+    project.extra_css.append("stylesheets/colour-fixes.css")
+    again = how_to_add(str(docs / "stylesheets" / "colour-fixes.css"), project)
+    assert again.startswith("docs/stylesheets/colour-fixes.css is listed in extra_css already")

@@ -183,6 +183,8 @@ def how_to_add(path: str, project=None) -> str:
         if absolute.startswith(project.docs_dir + os.sep):
             target = os.path.relpath(absolute, project.docs_dir).replace(os.sep, "/")
         where = f"{project.docs_path(target)}"
+        if target in project.extra_css:
+            return f"{where} is listed in extra_css already: build the site again to apply it."
     else:
         where = f"docs/{target}"
     return (f"Copy it to {where} (if it is not there yet) and list it last under extra_css in "
