@@ -287,8 +287,9 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
             where = f" ({location.source.where()})"
         lines.append(f"  {n}. {plain.sentence(problem, location, many_schemes)}{where}")
     if len(failing_problems) > first:
-        lines.append(f"  and {m.plural(len(failing_problems) - first, 'more problem')}; the "
-                     f"warnings above (hidden by -q) and `tinctura check` give each one's fix")
+        lines.append(f"  and {m.plural(len(failing_problems) - first, 'more problem')}: each "
+                     f"with its fix in the warnings (not shown with -q) and in `tinctura check "
+                     f"SITE_DIR --config mkdocs.yml`")
     return "\n".join(lines)
 
 
