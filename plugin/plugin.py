@@ -125,6 +125,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             if changed is None or changed():
                 self.site = None
                 self.stale = set(self.records)
+                self.verify_cache.clear()  # fixes were verified against the old stylesheets
         self.sheets_checked = True
         if self.site is None:
             self.site = engine.Site(self.site_dir, self.options)

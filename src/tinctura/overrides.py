@@ -385,7 +385,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
-    key = (css, tuple(pages))
+    key = (css, tuple(_stamp(site_root, rel) for rel in pages))
     if cache is not None and cache.get("key") == key:
         remaining_keys, bad, counts = cache["result"]
         _mark(problems, overrides, remaining_keys, bad)
@@ -415,6 +415,17 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
     _mark(problems, overrides, remaining_keys, bad)
     return counts
+
+
+def _stamp(root, rel) -> tuple:
+    """A page as the cache of verifications knows it: path, size and modification time."""
+    import os
+
+    try:
+        st = os.stat(os.path.join(root, rel))
+    except OSError:
+        return (rel, None, None)
+    return (rel, st.st_size, st.st_mtime_ns)
 
 
 def _same_line_for_overrides(loader) -> None:
