@@ -127,6 +127,9 @@ def test_readable_locator_and_selector():
     deep = root.find(".//main//p")
     assert readable(deep) == "body > \u2026 > section > div > p"
     assert selector(deep) == "body > main > section > div > p"
+    two = etree.fromstring('<html><body><div class="tw-panel"><p>a</p><p>b <span>c</span></p>'
+                           '</div></body></html>')
+    assert selector(two.find(".//span")) == "div.tw-panel > p:nth-of-type(2) > span"
 
 
 def test_one_rule_fixing_several_problems_says_so():

@@ -60,17 +60,26 @@ def readable(el, below: int = MAX_BELOW) -> str:
 
 def selector(el) -> str:
     """A CSS selector for ``el`` that a stylesheet can use: the nearest element with an id or
-    classes and the child path below it (``div.tw-panel > p > span``)."""
+    classes and the child path below it, each step numbered among its siblings of the same
+    tag where it has any (``div.tw-panel > p:nth-of-type(2) > span``)."""
     path = []
     node = el
     while node is not None and isinstance(node.tag, str):
         if named(node) or node.tag in ("body", "html"):
             path.append(compound(node))
             break
-        path.append(node.tag)
+        path.append(node.tag + _nth_of_type(node))
         node = node.getparent()
     path.reverse()
     return " > ".join(path)
+
+
+def _nth_of_type(el) -> str:
+    parent = el.getparent()
+    if parent is None:
+        return ""
+    same = [c for c in parent if c.tag == el.tag]
+    return f":nth-of-type({same.index(el) + 1})" if len(same) > 1 else ""
 
 
 def landmarks(el) -> list:

@@ -175,6 +175,9 @@ class Planner:
             return None
         file, note = self._file(decl if target == "foreground" else
                                 target_declaration(problem.bg_cause))
+        if target == "foreground" and decl is not None and decl.origin == "inline":
+            note = ("the colour is set by a style attribute in the page: changing it there is "
+                    "better than this rule")
         return Override(file, rules, tuple(schemes), target, note)
 
     def _opacity(self, problem, opacity_of) -> Optional[Override]:
