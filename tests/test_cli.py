@@ -256,3 +256,30 @@ def test_python_dash_m(tmp_path):
     done = subprocess.run([sys.executable, "-m", "tinctura", "pair", "#777", "white"],
                           capture_output=True, text=True, timeout=60)
     assert done.returncode == 0 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
+
+
+def test_check_config_must_be_an_mkdocs_configuration(fake_engine, tmp_path):
+    _, _, site = fake_engine
+    settings = tmp_path / "tinctura.toml"
+    settings.write_text("[tool.tinctura]\n")
+    status, out, err = call("check", site, "--config", str(settings))
+    assert status == 2 and out == ""
+    assert err == f"tinctura: error: {settings}: not an MkDocs configuration (mkdocs.yml)\n"
+    missing = tmp_path / "mkdocs.yml"
+    status, _, err = call("check", site, "--config", str(missing))
+    assert status == 2 and err == f"tinctura: error: {missing}: no such file\n"
+    broken = tmp_path / "broken" / "mkdocs.yml"
+    broken.parent.mkdir()
+    broken.write_text("site_name: [unclosed\n")
+    status, _, err = call("check", site, "--config", str(broken))
+    assert status == 2 and "cannot read the MkDocs configuration" in err
+
+
+def test_write_fixes_says_how_to_add_the_file(fake_engine, tmp_path):
+    _, _, site = fake_engine
+    target = tmp_path / "colour-fixes.css"
+    status, _, err = call("check", site, "--write-fixes", str(target))
+    assert status == 1
+    assert "Automated checks cover only part of WCAG" in target.read_text()
+    assert f"wrote 0 verified fixes to {target}" in err  # the fake site has no stylesheet
+    assert "extra_css:\n    - stylesheets/colour-fixes.css" in err
