@@ -242,6 +242,7 @@ def run_check(args, stdout, stderr) -> int:
     check_inputs(args.paths)
     options = options_from(args)
     options.keep_samples = False  # the report needs counts, findings and declaration uses
+    bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings
     store, collector = FindingStore(), problems.Collector()
@@ -250,6 +251,7 @@ def run_check(args, stdout, stderr) -> int:
         store.add(page.page, findings)
         for f in findings:
             collector.add(f)
+        bar.advance()
 
     project = load_project(args.config) if getattr(args, "config", None) else None
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
@@ -259,6 +261,7 @@ def run_check(args, stdout, stderr) -> int:
     if aid is not None and found:
         aid.plan_overrides(found, result.schemes, options, store.pages())
     header = report.Header(
+        scope=report.scope_of(args.paths, options),
         version=version(),
         level=args.level,
         group=args.group,

@@ -31,6 +31,7 @@ from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
+from . import distribution  # the contrast ratios of each page, for the audit report
 
 
 @dataclass
@@ -161,10 +162,10 @@ class Site:
         """Apply what the page's theme scripts change before a reader sees it; say once per
         site what those scripts change that tinctura does not model."""
         for theme in behaviour_mod.apply(root, self._behaviours):
-            note = behaviour_mod.NOT_MODELLED.get(theme)
+            note = behaviour_mod.NOTES_BY_THEME.get(theme)
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)
-                result.diagnostics.append(Diagnostic(result.page, f"{theme} theme: {note}"))
+                result.diagnostics.append(Diagnostic(result.page, note))
 
 
 def _forget(fingerprints: dict, elements) -> None:
@@ -246,12 +247,26 @@ def iter_pages(paths, options: Options, judged: bool = False):
             pages = site.pages()
             if not pages:
                 yield Diagnostic(path, "no HTML pages found", severity="error")
-            yield from _site_pages(site, pages, options, judged)
+            yield from _noted_once(_site_pages(site, pages, options, judged))
         elif os.path.isfile(path):
             site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
             yield from _site_pages(site, [os.path.basename(path)], options, judged)
         else:
             yield Diagnostic(path, "no such file or directory", severity="error")
+
+
+def _noted_once(results):
+    """Keep the first of the site-wide notes that each worker's Site makes once (what theme
+    scripts change that is not modelled): with --jobs N there would be up to N of them."""
+    seen = set()
+    for item in results:
+        page = item[0] if isinstance(item, tuple) else item
+        notes = [d for d in page.diagnostics if d.message in behaviour_mod.NOTES]
+        if notes:
+            page.diagnostics = [d for d in page.diagnostics
+                                if d.message not in behaviour_mod.NOTES or d.message not in seen]
+            seen.update(d.message for d in notes)
+        yield item
 
 
 def _process(site, rel, options, judged, html=None):
@@ -312,7 +327,8 @@ class _Verdict:
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
         self.stats = _canonical(("stats", stats["samples"], stats["exempt"],
                                  tuple(sorted(stats["undetermined"].items())),
-                                 tuple(stats["schemes"])), stats)
+                                 tuple(stats["schemes"]),
+                                 distribution.key(stats.get("ratios", {}))), stats)
 
 
 _CANONICAL: dict = {}
@@ -358,7 +374,8 @@ def sample_stats(samples) -> dict:
             key = s.reason or "unknown"
             undetermined[key] = undetermined.get(key, 0) + 1
     return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
-            "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples})}
+            "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples}),
+            "ratios": distribution.histogram(samples)}  # for the audit report's chart
 
 
 def _add_stats(into: dict, more: dict, times: int = 1) -> None:
@@ -366,6 +383,7 @@ def _add_stats(into: dict, more: dict, times: int = 1) -> None:
     into["exempt"] += more["exempt"] * times
     for reason, count in more["undetermined"].items():
         into["undetermined"][reason] = into["undetermined"].get(reason, 0) + count * times
+    distribution.merge(into.setdefault("ratios", {}), more.get("ratios", {}), times)
     if not set(more["schemes"]) <= set(into["schemes"]):
         into["schemes"] = sorted(set(into["schemes"]) | set(more["schemes"]))
 

@@ -171,3 +171,17 @@ def test_stylesheet_under_the_site_url_prefix_resolves_inside_the_site(tmp_path)
     assert hexes(result.samples[0])[0] == "#767676" and not result.diagnostics
     guessed = Site(str(tmp_path), Options(states=False)).check_page("index.html")
     assert hexes(guessed.samples[0])[0] == "#ff0000"
+
+
+def test_unmodelled_script_changes_are_noted_once_per_site(tmp_path):
+    # with --jobs 2 each worker's Site notes the theme once: the run keeps one
+    from tinctura.engine import Options, check_paths
+
+    page = ('<html data-bs-theme="light"><body><p>text</p><script src="js/base.js"></script>'
+            "</body></html>")
+    for n in range(6):
+        (tmp_path / f"p{n}.html").write_text(page)
+    for jobs in (1, 2):
+        report = check_paths([str(tmp_path)], Options(states=False, jobs=jobs))
+        notes = [d for p in report.pages for d in p.diagnostics if "mkdocs theme" in d.message]
+        assert len(notes) == 1, jobs

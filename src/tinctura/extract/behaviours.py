@@ -88,6 +88,10 @@ NOT_MODELLED = {
 }
 
 
+NOTES_BY_THEME = {theme: f"{theme} theme: {note}" for theme, note in NOT_MODELLED.items()}
+NOTES = frozenset(NOTES_BY_THEME.values())  # as the reports show them
+
+
 def from_setting(entries) -> tuple:
     """User behaviours from a setting; ValueError naming the entry and what is wrong."""
     if not isinstance(entries, list):

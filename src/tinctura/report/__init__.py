@@ -1,16 +1,21 @@
-"""Reports: formatters that turn a run's records into text or JSON, and the exit status."""
+"""Reports: formatters that turn a run's records into text, JSON, HTML or CSV, and the exit
+status."""
 from __future__ import annotations
 
 from .base import Formatter, Header, emit
+from .csv_report import CsvFormatter
+from .html_report import HtmlFormatter
 from .json_report import JsonFormatter
 from .notice import DISCLAIMER
+from .progress import progress_for
+from .scope import scope_of
 from .status import exit_status
 from .summary import Summary, summarise
 from .text_report import TextFormatter
 
 __all__ = [
     "DISCLAIMER", "FORMATS", "Formatter", "Header", "JsonFormatter", "Summary", "TextFormatter",
-    "emit", "exit_status", "render", "summarise",
+    "emit", "exit_status", "progress_for", "render", "scope_of", "summarise",
 ]
 
 FORMATS = {"text": TextFormatter, "json": JsonFormatter}
@@ -26,3 +31,7 @@ def render(stream, fmt: str, header: Header, pages, findings, problems, diagnost
         formatter = FORMATS[fmt](stream, header)
     emit(formatter, pages, findings, problems, diagnostics, summary)
     return summary
+
+
+FORMATS["html"] = HtmlFormatter  # the audit report
+FORMATS["csv"] = CsvFormatter  # one row per finding, for spreadsheets

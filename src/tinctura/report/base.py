@@ -18,6 +18,7 @@ class Header:
     tool: str = "tinctura"
     version: str = ""
     level: str = "AA"
+    scope: object = None  # report.scope.Scope: how the run was made (the audit report shows it)
     group: str = "cause"  # "cause" (problems first) or "page"
     fail_on: str = "error"
     schemes: list = field(default_factory=list)  # scheme names evaluated

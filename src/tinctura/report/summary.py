@@ -4,6 +4,7 @@ from __future__ import annotations
 from collections import Counter
 from dataclasses import dataclass, field
 
+from tinctura import distribution
 from tinctura.model import DETERMINED
 
 SEVERITIES = ("error", "warning", "info")  # most severe first
@@ -26,6 +27,7 @@ class Summary:
     diagnostics: int = 0
     schemes: list = field(default_factory=list)  # scheme names evaluated
     pages_with_findings: int = 0
+    ratios: dict = field(default_factory=dict)  # scheme -> {bin: judged samples} (distribution)
 
 
 def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summary:
@@ -41,6 +43,9 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
     kept = [page.stats for page in pages if page.stats is not None]  # samples dropped
     for stats in kept:
         undetermined.update(stats["undetermined"])
+    ratios = distribution.histogram(samples)
+    for stats in kept:
+        distribution.merge(ratios, stats.get("ratios", {}))
     skipped: Counter = Counter()
     for page in pages:
         skipped.update(page.skipped)
@@ -73,4 +78,5 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         diagnostics=len(diagnostics) + sum(len(p.diagnostics) for p in pages),
         schemes=names,
         pages_with_findings=len(by_page),
+        ratios=ratios,
     )

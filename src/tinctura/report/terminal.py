@@ -33,6 +33,11 @@ def should_colour(stream, environ=None, choice: str = "auto") -> bool:
         return True
     if env.get("TERM") == "dumb":
         return False
+    return is_terminal(stream)
+
+
+def is_terminal(stream) -> bool:
+    """True when ``stream`` is an interactive terminal (False for pipes, files, closed ones)."""
     isatty = getattr(stream, "isatty", None)
     try:
         return bool(isatty and isatty())

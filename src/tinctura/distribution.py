@@ -1,0 +1,73 @@
+"""How the contrast ratios of every judged text are spread, per colour scheme.
+
+The audit report charts them (failures alone do not show how close the passing text is to a
+threshold). Counted while checking, page by page, in bins of half a ratio unit, so the counts
+travel with a page's statistics after its samples are dropped. Pure.
+"""
+from __future__ import annotations
+
+from tinctura.colour import wcag
+
+STEP = 0.5  # bin width; the WCAG thresholds 3, 4.5 and 7 fall on bin edges
+LAST = int(20.5 / STEP)  # the bin holding 20.5..21 (21:1 is the highest ratio)
+_MEMO: dict = {}  # (fg, bg, alternatives, fg_raw) -> worst ratio; a site has few of them
+_MEMO_LIMIT = 20000
+
+
+def bin_of(ratio: float) -> int:
+    """Index of the bin holding ``ratio``: bin ``k`` covers ``k * STEP`` up to ``(k+1) * STEP``."""
+    return min(max(int(ratio / STEP), 0), LAST)
+
+
+def bin_range(k: int) -> tuple:
+    return k * STEP, min((k + 1) * STEP, 21.0)
+
+
+def worst_ratio(sample) -> float:
+    """The ratio a text rule judges: the worst over every background the text may sit on."""
+    from tinctura.rules.text import backgrounds, foreground_on
+
+    key = (sample.fg, sample.bg, sample.bg_alternatives, sample.fg_raw)
+    ratio = _MEMO.get(key)
+    if ratio is None:
+        ratio = min(wcag.contrast_ratio(foreground_on(sample, bg), bg)
+                    for bg in backgrounds(sample))
+        if len(_MEMO) >= _MEMO_LIMIT:
+            _MEMO.clear()
+        _MEMO[key] = ratio
+    return ratio
+
+
+def histogram(samples) -> dict:
+    """``{scheme: {bin: count}}`` over the samples a text rule can judge."""
+    from tinctura.rules.text import judged
+
+    out: dict = {}
+    # Samples of one style share their colour tuples: keyed by identity (the samples keep
+    # the tuples alive during the call), most lookups hash four ints, not twelve floats.
+    seen: dict = {}
+    for s in samples:
+        if not judged(s):
+            continue
+        same = (id(s.fg), id(s.bg), id(s.bg_alternatives), id(s.fg_raw))
+        k = seen.get(same)
+        if k is None:
+            k = seen[same] = bin_of(worst_ratio(s))
+        bins = out.get(s.scheme)
+        if bins is None:
+            bins = out[s.scheme] = {}
+        bins[k] = bins.get(k, 0) + 1
+    return out
+
+
+def merge(into: dict, more: dict, times: int = 1) -> dict:
+    for scheme, bins in more.items():
+        target = into.setdefault(scheme, {})
+        for k, n in bins.items():
+            target[k] = target.get(k, 0) + n * times
+    return into
+
+
+def key(hist: dict) -> tuple:
+    """A hashable form, for sharing equal statistics."""
+    return tuple(sorted((scheme, tuple(sorted(bins.items()))) for scheme, bins in hist.items()))
