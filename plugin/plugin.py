@@ -13,9 +13,11 @@ import os
 from mkdocs.exceptions import PluginError
 from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 
-from tinctura import engine, mkdocs_project, problems
+from tinctura import baseline as baseline_mod
+from tinctura import engine, mkdocs_project, problems, rules
+from tinctura import gate as gated
 from tinctura.report import messages as m
-from tinctura.report import plain
+from tinctura.report import outputs, plain
 from tinctura.report.base import Header
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
@@ -49,6 +51,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.command = "build"
         self.site = None
         self.site_dir = None
+        self.config_dir = "."  # the folder of mkdocs.yml: option paths are relative to it
+        self.docs_dir = "."
         self.options = None
         self.records: dict = {}  # output path (site-relative) -> PageRecord
         self.current: dict = {}  # output path -> source path, for the pages of this build
@@ -69,6 +73,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.previous = None  # the first build of a session logs every problem
 
     def engine_options(self) -> engine.Options:
+        try:
+            chosen = rules.selection(self.config.select, self.config.ignore)
+        except ValueError as exc:
+            raise PluginError(f"tinctura: {exc}") from None
         return engine.Options(
             level=self.config.level,
             viewport_width=self.config.viewport_width,
@@ -77,6 +85,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             behaviours=tuple(self.config.behaviours or ()),
             theme_behaviours=self.config.theme_behaviours,
             keep_samples=False,  # a build log needs counts, findings and declaration uses
+            rules=chosen,
+            severity=tuple(sorted(self.config.severity.items())),
         )
 
     def workers(self) -> int:
@@ -88,6 +98,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         return max(0, jobs - 1)
 
     def on_pre_build(self, *, config) -> None:
+        self.config_dir = os.path.dirname(os.path.abspath(config.config_file_path or "."))
+        self.docs_dir = config.docs_dir
         options = self.engine_options()
         options.site_url = config.site_url or ""  # absolute links below its path
         if config.site_dir != self.site_dir or options != self.options:
@@ -105,10 +117,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             f.dest_uri: f.src_uri for f in files.documentation_pages()
             if not self.excluded(f.src_uri)
         }
-        self.project = mkdocs_project.from_files(config, files)
-        self.rechecked = []
         for gone in set(self.records) - set(self.current):
             del self.records[gone]
+        self.project = mkdocs_project.from_files(config, files)
+        self.rechecked = []
         return files
 
     def excluded(self, src_uri: str) -> bool:
@@ -191,7 +203,13 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.stale.clear()
         records = [self.records[rel] for rel in sorted(self.records)]
         pages = [r.result for r in records]
-        findings = [f for r in records for f in r.findings]
+        gate = self.make_gate()
+        gate_notes = []
+        for r in records:
+            gate_notes.extend(gate.page(r.result.page, r.findings))
+        gate_notes.extend(gate.finish())
+        every = [f for r in records for f in r.findings]
+        findings = [f for f in every if gated.active(f)]  # not suppressed, not in the baseline
         uses = {}
         for r in records:
             problems.merge_uses(uses, r.uses)
@@ -206,22 +224,68 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.log_results(changes[0], findings, many_schemes=len(schemes) > 1,
                              locate=locate, label="New: ")
         self.previous = {problems.problem_key(p.worst): plain.sentence(p) for p in found}
-        for page in pages:
-            for d in page.diagnostics:
-                at = f"{d.path}:{d.line}" if d.line else d.path
-                (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
+        for d in [d for page in pages for d in page.diagnostics] + gate_notes:
+            at = f"{d.path}:{d.line}" if d.line else d.path
+            (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
+        header = Header(level=self.config.level, schemes=schemes, fail_on=self.config.fail_on,
+                        rules=self.options.rules, source=self.source_of, uri=self.built_uri,
+                        gone=gate.gone(), version=plugin_version(), locate=aid)
+        self.write_reports(header, pages, every, found, gate_notes, gate.counts)
         summary = summarise(pages, findings, found, (), schemes)
-        total = summary_line(summary, Header(level=self.config.level, schemes=schemes))
+        total = summary_line(summary, header)
         if changes is not None:
             total = (f"{m.plural(len(changes[0]), 'new problem')}, "
                      f"{m.plural(len(changes[1]), 'problem')} fixed; " + total)
         log.info(total)
+        if gate.note():
+            log.info(gate.note())
         if changes is None:
             log.info(DISCLAIMER)
         bad = failing(findings, self.config.fail_on)
         if bad and self.command != "serve":  # serve keeps serving; the warnings say enough
-            raise PluginError(quiet_summary(bad, found, self.config.fail_on, locate,
-                                            len(schemes) > 1))
+            raise PluginError(
+                quiet_summary(bad, found, self.config.fail_on, locate, len(schemes) > 1)
+                + (f"\n{gate.note()}" if gate.note() else ""))
+
+    # -- the maintainer's gate and reports ------------------------------------------------
+
+    def path(self, value: str) -> str:
+        """A path from the options, relative to the folder of mkdocs.yml."""
+        return value if os.path.isabs(value) else os.path.join(self.config_dir, value)
+
+    def make_gate(self) -> gated.Gate:
+        base = None
+        if self.config.baseline:
+            try:
+                base = baseline_mod.load(self.path(self.config.baseline))
+            except baseline_mod.BaselineError as exc:
+                raise PluginError(f"tinctura: {exc}") from None
+        return gated.Gate(allow=self.config.allow, allow_source="mkdocs.yml: plugins.tinctura",
+                          baseline=base, rules_run=self.options.rules,
+                          read=gated.site_reader([self.site_dir]))
+
+    def source_of(self, page: str, line: int):
+        """The Markdown source of a built page (line unknown: 0), from the working folder."""
+        src = self.current.get(page)
+        if src is None:
+            return None
+        return (_shown(os.path.join(self.docs_dir, src)), 0)
+
+    def built_uri(self, page: str) -> str:
+        return _shown(os.path.join(self.site_dir, page))
+
+    def write_reports(self, header, pages, findings, found, diagnostics, counts) -> None:
+        specs = [(name, self.path(path) if path else None) for name, path in self.config.report]
+        for name, path in specs:
+            if path is None:
+                raise PluginError(f"tinctura: report {name!r} needs a file (FORMAT:FILE)")
+        try:
+            outputs.write_reports(specs, None, header, pages, findings, found, diagnostics,
+                                  counts=counts)
+        except OSError as exc:
+            raise PluginError(f"tinctura: {exc.filename}: {exc.strerror or exc}") from None
+        for name, path in specs:
+            log.info(f"{name} report written to {path}")
 
     def writer_aid(self, found, pages, records):
         """Overrides for the site's own stylesheets (verified) and Markdown locations."""
@@ -272,6 +336,18 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         for problem in found:
             emit = log.info if problem.severity == "info" else log.warning
             emit(label + problem_line(problem, many_schemes, locate))
+
+
+def _shown(path: str) -> str:
+    """``path`` relative to the working folder (where CI runs) when it lies below it."""
+    rel = os.path.relpath(path)
+    return (path if rel.startswith("..") else rel).replace(os.sep, "/")
+
+
+def plugin_version() -> str:
+    from tinctura.cli import version
+
+    return version()
 
 
 def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: int = 3) -> str:

@@ -7,7 +7,8 @@ from __future__ import annotations
 from . import text
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
-__all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected", "run"]
+__all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected",
+           "selection", "with_severity", "run"]
 
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {
@@ -24,12 +25,33 @@ def get(name: str) -> Rule:
     raise KeyError(name)
 
 
-def selected(names=()) -> tuple:
-    """The rules named by code or slug, in catalogue order; all rules when ``names`` is empty."""
-    if not names:
-        return RULES
-    wanted = {get(name).code for name in names}
+def selected(names=(), ignore=()) -> tuple:
+    """The rules named by code or slug, in catalogue order (all rules when ``names`` is empty),
+    less those in ``ignore``. The one selection used by the CLI, the config file and the plugin.
+    """
+    wanted = {get(name).code for name in names} if names else {rule.code for rule in RULES}
+    wanted -= {get(name).code for name in ignore}
     return tuple(rule for rule in RULES if rule.code in wanted)
+
+
+def selection(select=(), ignore=()) -> tuple:
+    """``Options.rules`` for ``--select``/``--ignore``: the codes to run; ``()`` means all.
+    ValueError when nothing is left to run."""
+    if not ignore:
+        return tuple(get(name).code for name in select)
+    chosen = selected(select, ignore)
+    if not chosen:
+        raise ValueError("select and ignore leave no rule to run")
+    return tuple(rule.code for rule in chosen)
+
+
+def with_severity(findings, overrides) -> list:
+    """Apply per-rule severity overrides (``{code: severity}`` or its items) to findings."""
+    overrides = dict(overrides or ())
+    if overrides:
+        for f in findings:
+            f.severity = overrides.get(f.rule, f.severity)
+    return findings
 
 
 def run(samples, options) -> list:
@@ -38,4 +60,4 @@ def run(samples, options) -> list:
     findings = []
     for rule in selected(getattr(options, "rules", ()) or ()):
         findings.extend(CHECKS[rule.code](samples, options))
-    return findings
+    return with_severity(findings, getattr(options, "severity", ()))

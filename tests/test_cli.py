@@ -56,7 +56,7 @@ def fake_engine(monkeypatch, tmp_path):
 def test_pair_777_on_white():
     # WCAG 2.2 formula: #777777 on #ffffff = 4.478:1 -> shown 4.47, fails AA body text.
     status, out, err = call("pair", "#777", "white")
-    assert status == 0 and err == ""
+    assert status == 1 and err == ""  # fails the level selected (AA by default)
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "#777777 on #ffffff: 4.47:1",
         "16 px at weight 400: normal text",
@@ -64,6 +64,23 @@ def test_pair_777_on_white():
         "*nearest passing: text #767676 (4.54:1)*",
         "  AAA (SC 1.4.6) needs 7:1: fail",
     ])
+
+
+@pytest.mark.parametrize("argv, status, line", [
+    # WCAG 2.2 formula: #767676 on white = 4.54:1 (passes 4.5, fails 7); #777777 = 4.47:1.
+    (("#767676", "white"), 0, "#767676 on #ffffff: 4.54:1, passes AA (4.5:1)"),
+    (("#767676", "white", "--level", "AAA"), 1, "#767676 on #ffffff: 4.54:1, fails AAA (7:1)"),
+    (("#777", "white"), 1, "#777777 on #ffffff: 4.47:1, fails AA (4.5:1)"),
+])
+def test_pair_quiet_prints_the_verdict_and_exits_on_the_level(argv, status, line):
+    got, out, err = call("pair", "-q", *argv)
+    assert (got, out, err) == (status, line + "\n", "")
+
+
+def test_version_flags():
+    for flag in ("-V", "--version"):
+        status, out, _ = call(flag)
+        assert status == 0 and out.startswith("tinctura ")
 
 
 def test_pair_large_text_passes_aa():
@@ -99,7 +116,6 @@ def test_pair_bad_colour(argv, needle):
 @pytest.mark.parametrize("argv", [
     ("pair", "#777", "white", "--size", "0"),
     ("pair", "#777", "white", "--weight", "heavy"),
-    ("check",),
     ("check", ".", "--level", "A"),
     ("check", ".", "--fail-on", "sometimes"),
     ("frobnicate",),
@@ -255,24 +271,17 @@ def test_check_real_pages(tmp_path):
 def test_python_dash_m(tmp_path):
     done = subprocess.run([sys.executable, "-m", "tinctura", "pair", "#777", "white"],
                           capture_output=True, text=True, timeout=60)
-    assert done.returncode == 0 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
+    assert done.returncode == 1 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
 
 
-def test_check_config_must_be_an_mkdocs_configuration(fake_engine, tmp_path):
+def test_check_config_mkdocs_yml_that_mkdocs_cannot_load(fake_engine, tmp_path):
     _, _, site = fake_engine
-    settings = tmp_path / "tinctura.toml"
-    settings.write_text("[tool.tinctura]\n")
-    status, out, err = call("check", site, "--config", str(settings))
-    assert status == 2 and out == ""
-    assert err == f"tinctura: error: {settings}: not an MkDocs configuration (mkdocs.yml)\n"
-    missing = tmp_path / "mkdocs.yml"
-    status, _, err = call("check", site, "--config", str(missing))
-    assert status == 2 and err == f"tinctura: error: {missing}: no such file\n"
     broken = tmp_path / "broken" / "mkdocs.yml"
     broken.parent.mkdir()
-    broken.write_text("site_name: [unclosed\n")
-    status, _, err = call("check", site, "--config", str(broken))
-    assert status == 2 and "cannot read the MkDocs configuration" in err
+    broken.write_text("site_name: Brindlemoor\ntheme:\n  name: no-such-theme\n")
+    status, out, err = call("check", site, "--config", str(broken))
+    assert status == 1 and "Grey text on white is too faint" in out  # the check goes on
+    assert "note:" in err and "cannot read the MkDocs configuration" in err
 
 
 def test_write_fixes_says_how_to_add_the_file(fake_engine, tmp_path):

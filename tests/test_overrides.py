@@ -9,7 +9,7 @@ import pytest
 from lxml import etree
 
 from tinctura.locator import readable, selector
-from tinctura.mkdocs_project import Project, is_mkdocs_config, owned
+from tinctura.mkdocs_project import Project, owned
 from tinctura.model import Cause, Declaration, Scheme
 from tinctura.engine import Options
 from tinctura.overrides import Planner, Rule, Scope, combined_css, inject, Override
@@ -42,15 +42,6 @@ def test_with_a_project_extra_css_and_docs_files_are_the_writers():
     project = Project(extra_css=["stylesheets/extra.css"], static={"css/local.css"})
     assert owned("stylesheets/extra.css", project) and owned("css/local.css", project)
     assert not owned("assets/stylesheets/palette.fb2fffe2.min.css", project)
-
-
-def test_mkdocs_config_is_told_from_other_files(tmp_path):
-    yml = tmp_path / "site.yml"
-    yml.write_text("site_name: Brindlemoor\n")
-    toml = tmp_path / "tinctura.toml"
-    toml.write_text("[tool.tinctura]\n")
-    assert is_mkdocs_config(str(tmp_path / "mkdocs.yml")) and is_mkdocs_config(str(yml))
-    assert not is_mkdocs_config(str(toml))
 
 
 @pytest.mark.parametrize("scheme, declared, expected", [

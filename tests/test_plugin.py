@@ -18,21 +18,26 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
-                                   "schemes": None, "jobs": None, "behaviours": (),
-                                   "theme_behaviours": True}
+                                   "schemes": None, "jobs": None, "select": [], "ignore": [],
+                                   "severity": {}, "allow": [], "baseline": None, "report": [],
+                                   "behaviours": (), "theme_behaviours": True}
 
 
 @pytest.mark.parametrize("option, value, needle", [
-    ("level", "A", "Expected one of: ('AA', 'AAA')"),
-    ("fail_on", "info", "Expected one of: ('error', 'warning', 'never')"),
-    ("exclude", "drafts/*.md", "Expected a list"),
+    ("level", "A", "expected one of AA, AAA, got 'A'"),
+    ("fail_on", "sometimes", "expected one of error, warning, info, never"),
+    ("exclude", "drafts/*.md", "expected a list of strings"),
     ("viewport_width", 0, "at least 1"),
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("jobs", 0, "at least 1"),
     ("viewport_width", "wide", "whole number"),
-    ("states", "yes", "Expected type: <class 'bool'>"),
-    ("log_every", 1, "Expected type: <class 'bool'>"),
+    ("states", "yes", "expected true or false"),
+    ("log_every", 1, "expected true or false"),
+    ("select", ["TC999"], "unknown rule 'TC999'"),
+    ("severity", {"text-ratio": "fatal"}, "expected one of error, warning, info"),
+    ("report", ["pdf:x.pdf"], "unknown format 'pdf'"),
+    ("allow", [{"pages": "a/*"}], "a reason is required"),
 ])
 def test_bad_values_give_clear_errors(option, value, needle):
     errors, _ = TincturaPlugin().load_config({option: value})

@@ -3,17 +3,21 @@ from __future__ import annotations
 
 import argparse
 import contextlib
+import functools
 import json
 import os
 import sys
 import textwrap
 import traceback
 
-from tinctura import engine, problems, report, rules
+from tinctura import baseline as baseline_mod
+from tinctura import config, engine, problems, report, rules
+from tinctura import gate as gated
 from tinctura.model import Diagnostic
 from tinctura.report import messages as m
+from tinctura.report import outputs
 from tinctura.report.store import FindingStore
-from tinctura.report.status import ERROR, FAIL_ON, exit_status
+from tinctura.report.status import ERROR, exit_status
 from tinctura.report.terminal import TerminalWriter
 
 PROG = "tinctura"
@@ -65,26 +69,11 @@ def font_weight(text: str) -> int:
     return value
 
 
-def _site_options(p: argparse.ArgumentParser) -> None:
-    p.add_argument("paths", nargs="+", metavar="PATH",
-                   help="built site directories or HTML files")
-    p.add_argument("--viewport-width", type=positive_int, default=1280, metavar="N",
-                   help="viewport width in CSS pixels for media queries (default 1280)")
-    p.add_argument("--jobs", type=positive_int, default=os.cpu_count() or 1, metavar="N",
-                   help="processes checking pages in parallel (default: the number of cores)")
-    p.add_argument("--no-states", action="store_true",
-                   help="check only the resting state, not :hover / :focus / :focus-visible")
-    p.add_argument("--exclude", action="append", default=[], metavar="GLOB",
-                   help="skip pages whose site-relative path matches GLOB (repeatable)")
-    p.add_argument("--schemes", metavar="FILE",
-                   help="JSON list of colour schemes ({name, media, attributes}) replacing "
-                        "discovery")
-    p.add_argument("--site-url", default="", metavar="URL",
-                   help="the site's public URL (mkdocs.yml site_url): absolute links under its "
-                        "path resolve inside the site directory")
-    p.add_argument("--behaviours", metavar="FILE",
-                   help="JSON list of what the site's own scripts change before a reader sees "
-                        "the page ({action, selector, value[, marker, script]})")
+def _site_options(p: argparse.ArgumentParser, command: str) -> None:
+    p.add_argument("paths", nargs="*", metavar="PATH",
+                   help="built site directories or HTML files (default: site_dir from the "
+                        "configuration)")
+    config.add_flags(p, command)  # every setting with a flag, from the one table
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
 
 
@@ -93,28 +82,19 @@ def build_parser() -> argparse.ArgumentParser:
         prog=PROG,
         description="Check colour contrast in built documentation sites.",
     )
-    parser.add_argument("--version", action="version", version=f"%(prog)s {version()}")
+    parser.add_argument("-V", "--version", action="version", version=f"%(prog)s {version()}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     sub.required = True
 
     check = sub.add_parser("check", help="check built pages and report findings",
                            description="Check built pages and report contrast findings.")
-    _site_options(check)
-    check.add_argument("--level", choices=("AA", "AAA"), default="AA",
-                       type=str.upper, help="WCAG conformance level to check (default AA)")
-    check.add_argument("--format", choices=tuple(report.FORMATS), default="text",
-                       help="report format (default text)")
-    check.add_argument("--fail-on", choices=FAIL_ON, default="error",
-                       help="exit with status 1 when findings of this severity or worse exist "
-                            "(default error)")
-    check.add_argument("--group", choices=("cause", "page"), default="cause",
-                       help="text report: problems grouped by cause (default) or findings by page")
+    _site_options(check, "check")
+    check.add_argument("--write-baseline", metavar="FILE",
+                       help="record the current findings in FILE (then exit 0 unless the run "
+                            "failed)")
     check.add_argument("--color", "--colour", dest="colour", default="auto",
                        choices=("auto", "always", "never"),
                        help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
-    check.add_argument("--config", metavar="FILE",
-                       help="the site's mkdocs.yml: findings point at Markdown lines and fixes "
-                            "at the site's own stylesheets (extra_css)")
     check.add_argument("--write-fixes", metavar="FILE",
                        help="write every verified fix into one stylesheet FILE and say how to "
                             "add it to mkdocs.yml")
@@ -123,7 +103,7 @@ def build_parser() -> argparse.ArgumentParser:
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
                            description="Print every rendered text (per scheme and state) with its "
                                        "colours and their provenance, one JSON object a line.")
-    _site_options(pairs)
+    _site_options(pairs, "pairs")
     pairs.set_defaults(run=run_pairs)
 
     pair = sub.add_parser("pair", help="contrast ratio of one text and background colour",
@@ -137,6 +117,10 @@ def build_parser() -> argparse.ArgumentParser:
                       help="font weight, 1-1000, normal or bold (default 400)")
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.add_argument("--level", choices=("AA", "AAA"), default="AA", type=str.upper,
+                      help="the level whose failure makes the exit status 1 (default AA)")
+    pair.add_argument("-q", "--quiet", action="store_true",
+                      help="print only the summary line (the ratio and the verdict)")
     pair.set_defaults(run=run_pair)
 
     trace_cmd = sub.add_parser(
@@ -165,40 +149,41 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def options_from(args) -> engine.Options:
+    try:
+        chosen = rules.selection(getattr(args, "select", ()), getattr(args, "ignore", ()))
+    except ValueError as exc:
+        raise UsageError(str(exc)) from None
     return engine.Options(
         level=getattr(args, "level", "AA"),
         viewport_width=args.viewport_width,
-        states=not args.no_states,
+        states=args.states,
         exclude=tuple(args.exclude),
-        jobs=args.jobs,
-        schemes=load_schemes(args.schemes) if getattr(args, "schemes", None) else None,
-        site_url=getattr(args, "site_url", ""),
-        behaviours=load_json_setting(args.behaviours, "behaviours")
-        if getattr(args, "behaviours", None) else (),
+        jobs=args.jobs or os.cpu_count() or 1,
+        schemes=args.schemes,
+        site_url=args.site_url or "",
+        behaviours=tuple(args.behaviours or ()),
+        theme_behaviours=args.theme_behaviours,
+        rules=chosen,
+        severity=tuple(sorted(getattr(args, "severity", {}).items())),
     )
 
 
-def load_schemes(path: str) -> list:
-    """Schemes from a JSON file (the same structure as the plugin's `schemes` option)."""
-    return load_json_setting(path, "schemes")
-
-
-def load_json_setting(path: str, name: str):
-    """A setting (``schemes`` or ``behaviours``) from a JSON file, validated like the plugin's
-    option of the same name; UsageError naming the file and what is wrong."""
-    from tinctura.extract import behaviours, schemes
-
-    from_setting = {"schemes": schemes.from_setting, "behaviours": behaviours.from_setting}[name]
+def settle(args, command: str) -> None:
+    """Settings from the configuration file and the flags; the site to check."""
     try:
-        with open(path, encoding="utf-8") as fh:
-            data = json.load(fh)
-        return from_setting(data)
-    except OSError as exc:
-        raise UsageError(f"{path}: cannot read: {exc.strerror}") from None
-    except json.JSONDecodeError as exc:
-        raise UsageError(f"{path}: not valid JSON: {exc}") from None
-    except ValueError as exc:
-        raise UsageError(f"{path}: {exc}") from None
+        config.apply(args, command)
+    except config.ConfigError as exc:
+        raise UsageError(str(exc)) from None
+    if not args.paths:
+        if not args.site_dir:
+            raise UsageError("no site to check: name a built site directory, or set site_dir "
+                             "in the configuration (pyproject.toml [tool.tinctura] or "
+                             "tinctura.toml)")
+        if not os.path.isdir(args.site_dir):
+            where = f" in {args.config_path}" if args.config_path else ""
+            raise UsageError(f"{args.site_dir}: the built site named by site_dir{where} does "
+                             f"not exist; build the site first (for example: mkdocs build)")
+        args.paths = [args.site_dir]
 
 
 def check_inputs(paths) -> None:
@@ -211,14 +196,11 @@ def check_inputs(paths) -> None:
 
 @contextlib.contextmanager
 def output(path: str | None, stdout):
+    """``stdout``, or ``path`` written atomically (a temporary file renamed at the end)."""
     if not path:
         yield stdout
         return
-    try:
-        stream = open(path, "w", encoding="utf-8")
-    except OSError as e:
-        raise UsageError(f"{path}: cannot write: {e.strerror or e}") from None
-    with stream:
+    with outputs.atomic_output(path) as stream:  # names the path when it cannot write
         yield stream
 
 
@@ -239,22 +221,36 @@ def input_errors(result, stderr) -> bool:
 
 
 def run_check(args, stdout, stderr) -> int:
+    settle(args, "check")
     check_inputs(args.paths)
     options = options_from(args)
     options.keep_samples = False  # the report needs counts, findings and declaration uses
+    specs = report_specs(args)
+    gate = make_gate(args, options)
     bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
-    # grow with the number of findings
+    # grow with the number of findings. Every finding is stored (JSON and SARIF list the
+    # suppressed and baseline-known ones, marked); only those that count are grouped.
     store, collector = FindingStore(), problems.Collector()
+    written = []
 
     def keep(page, findings):
+        page.diagnostics.extend(gate.page(page.page, findings))
+        start = len(store)
         store.add(page.page, findings)
-        for f in findings:
-            collector.add(f)
+        for n, f in enumerate(findings):
+            if gated.active(f):
+                collector.add(f, index=start + n)
+        if args.write_baseline:
+            written.extend(f for f in findings if not f.suppressed)
         bar.advance()
 
-    project = load_project(args.config) if getattr(args, "config", None) else None
+    # --config naming an mkdocs.yml (config.py tells it from tinctura's own settings): the
+    # Markdown sources and the site's own stylesheets
+    project = load_project(args.mkdocs_config, stderr) \
+        if getattr(args, "mkdocs_config", None) else None
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
+    result.diagnostics.extend(gate.finish())
     result.findings = store
     found = collector.problems(result.uses)
     aid = writer_aid(args.paths, project, options)
@@ -267,30 +263,126 @@ def run_check(args, stdout, stderr) -> int:
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
+        rules=options.rules,
+        uri=built_uri(args.paths),
+        source=markdown_source(args),
+        gone=gate.gone(),
         locate=aid,
     )
-    with output(args.output, stdout) as stream:
-        report.render(stream, args.format, header, result.pages, result.findings, found,
-                      result.diagnostics, colour_choice=args.colour)
+    outputs.write_reports(specs, stdout, header, result.pages, store, found,
+                          result.diagnostics, counts=gate.counts, colour_choice=args.colour)
     if getattr(args, "write_fixes", None):
         report_written_fixes(args.write_fixes, found, project, stderr)
+    note = gate.note()
+    if note:
+        stderr.write(f"{PROG}: {note}\n")
+    gone = header.gone
+    for entry in gone[:GONE_SHOWN]:  # fixed since the baseline: worth removing from it
+        stderr.write(f"{PROG}: gone from the baseline: {entry.get('page')} {entry.get('rule')} "
+                     f"[{entry.get('scheme')}, {entry.get('state')}] "
+                     f"\u201c{m.excerpt(entry.get('text', ''), 60)}\u201d\n")
+    if len(gone) > GONE_SHOWN:
+        stderr.write(f"{PROG}: ... and {len(gone) - GONE_SHOWN:,} more gone (SARIF lists them "
+                     f"all as absent)\n")
     unreadable = input_errors(result, stderr)
-    return exit_status(result.findings, args.fail_on, error=unreadable)
+    if args.write_baseline:  # the same as --format baseline:FILE, and exit 0
+        with outputs.atomic_output(args.write_baseline) as fh:
+            fh.write(baseline_mod.dumps(written, version()))
+        stderr.write(f"{PROG}: wrote {m.plural(len(written), 'finding')} to the baseline "
+                     f"{args.write_baseline}\n")
+        return exit_status(error=unreadable)
+    return exit_status(gate, args.fail_on, error=unreadable)
 
 
-def load_project(path: str):
-    """The MkDocs project of ``--config``. (A tinctura settings file given to ``--config``
-    would be read elsewhere; only mkdocs.yml is understood here.)"""
+GONE_SHOWN = 20  # baseline entries no longer found, named on stderr
+
+
+def report_specs(args) -> list:
+    """(format, file or None) for each report; ``--output`` takes the first one without a
+    file; without ``--output``, text goes to the terminal when no report does."""
+    specs = list(args.report) or [("text", None)]
+    if args.output:
+        for n, (name, path) in enumerate(specs):
+            if path is None:
+                specs[n] = (name, args.output)
+                break
+        else:
+            raise UsageError("--output names the file of a report given without one "
+                             "(--format FORMAT); every --format here names its file")
+    on_terminal = [name for name, path in specs if path is None]
+    if len(on_terminal) > 1:
+        raise UsageError(f"only one report can go to the terminal, not {', '.join(on_terminal)}"
+                         f"; give the others a file (--format FORMAT:FILE)")
+    if not on_terminal and not args.output:
+        specs.append(("text", None))
+    return specs
+
+
+def make_gate(args, options) -> gated.Gate:
+    base = None
+    if args.baseline and not args.write_baseline:
+        try:
+            base = baseline_mod.load(args.baseline)
+        except baseline_mod.BaselineError as exc:
+            raise UsageError(str(exc)) from None
+    return gated.Gate(allow=args.allow, allow_source=args.config_path or "configuration",
+                      baseline=base, rules_run=options.rules, read=gated.site_reader(args.paths))
+
+
+def markdown_source(args):
+    """page -> (Markdown source path, line or 0) when ``--config`` named an mkdocs.yml, else
+    None. The hook a source map (page and line -> Markdown file and line) plugs into; until
+    then the file follows MkDocs' page naming and the line is unknown (0)."""
+    if not getattr(args, "mkdocs_config", None):
+        return None
+    from mkdocs.utils.yaml import yaml_load
+
+    base = os.path.dirname(os.path.abspath(args.mkdocs_config))
+    with open(args.mkdocs_config, encoding="utf-8") as fh:
+        docs = os.path.join(base, (yaml_load(fh) or {}).get("docs_dir") or "docs")
+
+    def source(page: str, line: int):
+        stem = page[: -len("index.html")].rstrip("/") if page.endswith("index.html") \
+            else page.rsplit(".", 1)[0]
+        for candidate in (f"{stem}.md", f"{stem}/index.md", f"{stem}/README.md", "index.md"
+                          if not stem else None):
+            if candidate and os.path.isfile(os.path.join(docs, candidate)):
+                path = os.path.relpath(os.path.join(docs, candidate))
+                return (path if not path.startswith("..") else os.path.join(docs, candidate)
+                        ).replace(os.sep, "/"), 0
+        return None
+    return source
+
+
+def built_uri(paths):
+    """page -> the built page's path from the working directory (where CI runs), when the
+    site lies below it; else the site-relative path."""
+    roots = [p if os.path.isdir(p) else os.path.dirname(p) or "." for p in paths]
+
+    @functools.lru_cache(maxsize=4096)  # asked once per finding, the same page many times
+    def uri(page: str) -> str:
+        for root in roots:
+            path = os.path.join(root, page)
+            if os.path.isfile(path):
+                rel = os.path.relpath(path)
+                return page if rel.startswith("..") else rel.replace(os.sep, "/")
+        return page
+    return uri
+
+
+def load_project(path: str, stderr):
+    """The MkDocs project of an mkdocs.yml given to ``--config``: which Markdown file each page
+    comes from, which stylesheets are the site's own (read with MkDocs' own loader). When MkDocs
+    cannot load it (a docs folder that is not there, a theme not installed), the check goes on
+    without them and says so."""
     from tinctura import mkdocs_project
 
-    if not os.path.isfile(path):
-        raise UsageError(f"{path}: no such file")
-    if not mkdocs_project.is_mkdocs_config(path):
-        raise UsageError(f"{path}: not an MkDocs configuration (mkdocs.yml)")
     try:
         return mkdocs_project.load(path)
     except ValueError as exc:
-        raise UsageError(str(exc)) from None
+        stderr.write(f"{PROG}: note: {exc}; findings point at the built pages and fixes at "
+                     f"stylesheets judged by their names\n")
+        return None
 
 
 def writer_aid(paths, project, options=None):
@@ -325,6 +417,7 @@ def report_written_fixes(path: str, found, project, stderr) -> None:
 def run_pairs(args, stdout, stderr) -> int:
     from tinctura.report.json_report import sample_dict
 
+    settle(args, "pairs")
     check_inputs(args.paths)
     result = engine.Report()
     with output(args.output, stdout) as stream:  # streamed page by page: memory stays flat
@@ -374,6 +467,13 @@ def run_pair(args, stdout, stderr) -> int:
                      f"composited over the background: {m.colour(fg)}")
     ratio = wcag.contrast_ratio(fg, bg)
     large = wcag.is_large_text(args.size, args.weight)
+    selected_need = wcag.required_ratio(args.level, large)
+    failed = not wcag.passes(ratio, selected_need)
+    if args.quiet:
+        verdict = "fails" if failed else "passes"
+        tw.line(f"{m.colour(fg)} on {m.colour(bg)}: {m.ratio(ratio)}:1, {verdict} "
+                f"{args.level} ({m.required(selected_need)}:1)")
+        return exit_status(failed=failed)
     tw.line(f"{m.colour(fg)} on {m.colour(bg)}: {m.ratio(ratio)}:1", "bold")
     for note in notes:
         tw.line(f"note: {note}", "dim")
@@ -399,7 +499,7 @@ def run_pair(args, stdout, stderr) -> int:
         if missing:
             tw.line(f"        {' and '.join(missing)} of this hue reaches it"
                     + ("" if parts else "; change both colours"))
-    return exit_status()
+    return exit_status(failed=failed)
 
 
 def describe_rule(rule, tw: TerminalWriter) -> None:

@@ -43,6 +43,7 @@ class Options:
     exclude: tuple = ()  # glob patterns on page paths
     jobs: int = 1
     rules: tuple = ()  # rule codes or slugs to run; empty: all
+    severity: tuple = ()  # (code, severity) overrides, applied by rules.run
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links

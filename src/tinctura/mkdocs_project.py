@@ -2,8 +2,8 @@
 which stylesheets the writer owns, which theme renders the rest.
 
 The plugin builds a ``Project`` from the configuration MkDocs hands it; the command line reads
-``mkdocs.yml`` with MkDocs' own loader (``--config mkdocs.yml``). Kept apart from any reader of
-tinctura's own settings so that a ``--config`` option can accept either kind of file.
+``mkdocs.yml`` with MkDocs' own loader when ``--config`` names one (``config.py`` tells it
+from tinctura's own settings files).
 """
 from __future__ import annotations
 
@@ -55,20 +55,6 @@ def owned(sheet: str, project: Project | None = None) -> bool:
     if _HASHED.search(name) or name.endswith(".min.css"):
         return False
     return not any(name.startswith(folder) for folder in _THEME_FOLDERS)
-
-
-def is_mkdocs_config(path: str) -> bool:
-    """An mkdocs.yml (by name, or by a ``site_name`` key), not a tinctura settings file."""
-    name = os.path.basename(path).lower()
-    if name in ("mkdocs.yml", "mkdocs.yaml"):
-        return True
-    if not name.endswith((".yml", ".yaml")):
-        return False
-    try:
-        with open(path, encoding="utf-8") as fh:
-            return any(line.startswith("site_name:") for line in fh)
-    except OSError:
-        return False
 
 
 def from_mkdocs_config(config) -> Project:

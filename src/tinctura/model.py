@@ -156,6 +156,11 @@ class Finding:
     level: str = "AA"
     fixes: list = field(default_factory=list)  # list[Fix]
     args: dict = field(default_factory=dict)  # extra template arguments
+    # Set after the rules, by the maintainer's gate (tinctura.gate): a stable identity, the
+    # reason when a reviewed suppression silences it, and "new"/"unchanged" against a baseline.
+    fingerprint: str = ""
+    suppressed: str = ""
+    baseline: str = ""
 
 
 @dataclass(slots=True)

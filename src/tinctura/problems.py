@@ -203,8 +203,10 @@ class Collector:
         self._seen: dict = {}  # problem key -> findings seen so far
         self._count = 0
 
-    def add(self, finding: Finding) -> None:
-        index = self._count
+    def add(self, finding: Finding, index: int | None = None) -> None:
+        """``index``: the finding's place in the run's report when not every finding of the
+        run is added (suppressed and baseline-known ones are listed but not grouped)."""
+        index = self._count if index is None else index
         self._count += 1
         key = problem_key(finding)
         p = self._buckets.get(key)

@@ -21,6 +21,22 @@ __all__ = [
 FORMATS = {"text": TextFormatter, "json": JsonFormatter}
 
 
+def register(name: str, formatter) -> None:
+    """Add an output format (a Formatter class taking ``(stream, header)``)."""
+    FORMATS[name] = formatter
+
+
+from .annotations import AnnotationsFormatter  # noqa: E402  (they import this package's modules)
+from .baseline_report import BaselineFormatter  # noqa: E402
+from .junit import JunitFormatter  # noqa: E402
+from .sarif import SarifFormatter  # noqa: E402
+
+register("sarif", SarifFormatter)
+register("junit", JunitFormatter)
+register("annotations", AnnotationsFormatter)
+register("baseline", BaselineFormatter)
+
+
 def render(stream, fmt: str, header: Header, pages, findings, problems, diagnostics=(),
            colour_choice: str = "auto", environ=None) -> Summary:
     """Write one report to ``stream`` in format ``fmt``; return its summary."""

@@ -25,10 +25,22 @@ class Header:
     # callable sample -> writer.Location (readable locator, Markdown source), when the run can
     # tell (a writer.WriterAid)
     locate: object = None
+    rules: tuple = ()  # codes of the rules run (empty: every rule)
+    # where results point: page -> (path, line or 0) of its Markdown source, or None (then the
+    # built page); the hook a source map plugs into
+    source: object = None
+    uri: object = None  # page -> the built page's path as reports name it (default: as is)
+    gone: list = field(default_factory=list)  # baseline entries no longer found
 
 
 class Formatter:
-    """start, then page* (stable order), problem* (largest first), diagnostic*, then stop."""
+    """start, then page* (stable order), problem* (largest first), diagnostic*, then stop.
+
+    ``marked = True``: the formatter also receives the findings held by the gate (suppressed,
+    or unchanged against the baseline), each marked; otherwise only the findings that count.
+    """
+
+    marked = False
 
     def __init__(self, stream, header: Header):
         self.stream = stream

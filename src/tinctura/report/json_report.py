@@ -86,7 +86,16 @@ def finding_dict(f) -> dict:
         "fix": [fix_dict(x) for x in f.fixes],
         "fg_cause": cause_dict(s.fg_cause),
         "bg_cause": cause_dict(s.bg_cause),
+        **gate_dict(f),
     }
+
+
+def gate_dict(f) -> dict:
+    """The gate's marks (tinctura.gate), when the run set them."""
+    if not getattr(f, "fingerprint", ""):
+        return {}
+    return {"fingerprint": f.fingerprint, "suppressed": f.suppressed or None,
+            "baseline": f.baseline or None}
 
 
 def cause_fix_dict(fix) -> dict | None:
@@ -203,6 +212,7 @@ class JsonFormatter(Formatter):
     so that a large site's report is never held in memory twice."""
 
     SECTIONS = ("findings", "problems", "diagnostics")
+    marked = True  # suppressed and baseline-known findings are listed too, marked
 
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)

@@ -30,9 +30,15 @@ def plural(n: int, word: str, words: str | None = None) -> str:
     return f"{n:,} {word if n == 1 else (words or word + 's')}"
 
 
+_CONTROL = re.compile("[\x00-\x08\x0e-\x1f\x7f-\x9f]")
+
+
 def excerpt(text: str, limit: int = EXCERPT) -> str:
-    """Whitespace collapsed, cut at ``limit`` characters with an ellipsis."""
+    """Whitespace collapsed, control characters shown as ``\\xNN`` (page text must not drive
+    a terminal), cut at ``limit`` characters with an ellipsis."""
     text = " ".join((text or "").split())
+    if _CONTROL.search(text):
+        text = _CONTROL.sub(lambda mo: f"\\x{ord(mo.group()):02x}", text)
     return text if len(text) <= limit else text[: limit - 1].rstrip() + "\u2026"
 
 

@@ -23,10 +23,14 @@ def failing(findings, fail_on: str = "error") -> list:
     return [f for f in findings if at_or_above(f.severity, fail_on)]
 
 
-def exit_status(findings=(), fail_on: str = "error", error: bool = False) -> int:
-    """0 clean, 1 findings at or above ``fail_on``, 2 when the run itself failed (``error``)."""
+def exit_status(findings=(), fail_on: str = "error", error: bool = False,
+                failed: bool = False) -> int:
+    """0 clean, 1 findings at or above ``fail_on`` (or ``failed``: a verdict decided by the
+    caller, e.g. one colour pair), 2 when the run itself failed (``error``)."""
     if error:
         return ERROR
+    if failed:
+        return FINDINGS
     counts = getattr(findings, "counts", None)  # a FindingStore: no need to read it back
     if counts is not None:
         if fail_on not in FAIL_ON:

@@ -1,0 +1,99 @@
+"""JUnit XML, for test dashboards: one test case per page and rule.
+
+A test case fails when the page has findings of that rule that count (not suppressed, not
+already in the baseline); the failure lists them. Held findings are named in the case's
+``system-out``. Names are unique (``page: code slug``). Page text is escaped by the XML
+serializer; characters XML 1.0 cannot carry at all (most control characters) are written as
+``\\xNN``.
+"""
+from __future__ import annotations
+
+import re
+import xml.etree.ElementTree as ET
+
+from tinctura import rules
+
+from . import messages as m
+from .base import Formatter
+from .notice import DISCLAIMER
+from .outputs import active
+
+_NOT_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
+
+
+def xml_text(text: str) -> str:
+    """``text`` with the characters XML 1.0 forbids written as ``\\xNN`` (or ``\\uNNNN``)."""
+    return _NOT_XML.sub(lambda mo: f"\\x{ord(mo.group()):02x}" if ord(mo.group()) < 256
+                        else f"\\u{ord(mo.group()):04x}", text or "")
+
+
+def finding_line(f) -> str:
+    s = f.sample
+    fg, bg = m.finding_colours(f)
+    state = "" if s.state == "rest" else f" :{s.state}"
+    return (f"{s.page}:{s.line} {s.xpath} [scheme {s.scheme}{state}] {f.severity}: "
+            f"{m.message(f)} ({m.colour(fg)} on {m.colour(bg)}) \u201c{m.excerpt(s.text, 80)}\u201d"
+            + (f" [fingerprint {f.fingerprint}]" if f.fingerprint else ""))
+
+
+def held_line(f) -> str:
+    why = f"suppressed: {f.suppressed}" if f.suppressed else "unchanged against the baseline"
+    return f"{finding_line(f)} ({why})"
+
+
+class JunitFormatter(Formatter):
+    marked = True
+
+    def __init__(self, stream, header):
+        super().__init__(stream, header)
+        chosen = set(header.rules or ())
+        self.rules = [r for r in rules.RULES if not chosen or r.code in chosen]
+        self.cases: list = []
+        self.failures = 0
+        self.names: set = set()
+
+    def page(self, page, findings) -> None:
+        by_rule: dict = {}
+        for f in findings:
+            by_rule.setdefault(f.rule, []).append(f)
+        codes = [r.code for r in self.rules] + sorted(set(by_rule) - {r.code for r in self.rules})
+        for code in codes:
+            self.cases.append(self.case(page.page, code, by_rule.get(code, [])))
+
+    def case(self, page: str, code: str, findings) -> ET.Element:
+        try:
+            slug = rules.get(code).slug
+        except KeyError:
+            slug = ""
+        name = xml_text(f"{page}: {code} {slug}".strip())
+        while name in self.names:  # unique even if two inputs share a page path
+            name += " (again)"
+        self.names.add(name)
+        case = ET.Element("testcase", classname=xml_text(page), name=name)
+        counting = [f for f in findings if active(f)]
+        held = [f for f in findings if not active(f)]
+        if counting:
+            self.failures += 1
+            failure = ET.SubElement(case, "failure", type=code,
+                                    message=xml_text(f"{m.plural(len(counting), 'finding')}: "
+                                                     f"{m.message(counting[0])}"))
+            failure.text = xml_text("\n".join(finding_line(f) for f in counting))
+        if held:
+            out = ET.SubElement(case, "system-out")
+            out.text = xml_text("\n".join(held_line(f) for f in held))
+        return case
+
+    def stop(self, summary) -> None:
+        suites = ET.Element("testsuites", name="tinctura", tests=str(len(self.cases)),
+                            failures=str(self.failures), errors="0")
+        suite = ET.SubElement(suites, "testsuite", name=f"tinctura {self.header.level}",
+                              tests=str(len(self.cases)), failures=str(self.failures),
+                              errors="0", skipped="0")
+        props = ET.SubElement(suite, "properties")
+        ET.SubElement(props, "property", name="disclaimer", value=DISCLAIMER)
+        ET.SubElement(props, "property", name="schemes", value=", ".join(summary.schemes))
+        suite.extend(self.cases)
+        ET.indent(suites)
+        self.stream.write('<?xml version="1.0" encoding="UTF-8"?>\n')
+        self.stream.write(ET.tostring(suites, encoding="unicode"))
+        self.stream.write("\n")

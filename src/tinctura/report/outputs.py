@@ -1,0 +1,115 @@
+"""Several reports from one run: ``--format FORMAT[:FILE]`` (repeatable) and the plugin's
+``report`` option. Each format is a Formatter registered by name in ``report.FORMATS``
+(``report.register``); a report written to a file goes to a temporary file first, then
+replaces the file (``atomic_output``), so a reader never sees half a report.
+"""
+from __future__ import annotations
+
+import contextlib
+import os
+import tempfile
+from collections import Counter
+
+from .base import findings_by_page
+
+
+def active(finding) -> bool:
+    """True when a finding counts: not suppressed, not already in the baseline."""
+    return not getattr(finding, "suppressed", "") and \
+        getattr(finding, "baseline", "") != "unchanged"
+
+
+def count(findings) -> dict:
+    """The counts a summary needs, in FindingStore's shape, over the findings that count."""
+    counts = {"severity": Counter(), "rule": Counter(), "page": Counter(), "scheme": Counter()}
+    for f in findings:
+        add_count(counts, f)
+    return counts
+
+
+def add_count(counts: dict, f) -> None:
+    counts["severity"][f.severity] += 1
+    counts["rule"][f.rule] += 1
+    counts["page"][f.sample.page] += 1
+    counts["scheme"][f.sample.scheme] += 1
+
+
+class GateView:
+    """A run's findings as one report sees them: only those that count (``marked=False``), or
+    all of them, marked (``marked=True``). Counts (summaries, exit status) are always of the
+    findings that count. Works over a list or a FindingStore (read one page at a time)."""
+
+    def __init__(self, findings, marked: bool, counts: dict | None = None):
+        self._findings = findings
+        self.marked = marked
+        if hasattr(findings, "by_page"):
+            self._pages, self._grouped = findings.pages(), None
+        else:
+            self._grouped = findings_by_page(findings)
+            self._pages = list(self._grouped)
+        self.counts = counts if counts is not None else count(f for f in self._all() if active(f))
+
+    def _all(self):
+        for name in self._pages:
+            yield from self._page(name)
+
+    def _page(self, name):
+        if self._grouped is not None:
+            return self._grouped.get(name, [])
+        return self._findings.by_page(name)
+
+    def pages(self) -> list:
+        return list(self._pages)
+
+    def by_page(self, name) -> list:
+        items = self._page(name)
+        return list(items) if self.marked else [f for f in items if active(f)]
+
+    def __iter__(self):
+        for name in self._pages:
+            yield from self.by_page(name)
+
+    def __len__(self) -> int:
+        return sum(self.counts["severity"].values())
+
+    def __bool__(self) -> bool:
+        return len(self) > 0
+
+
+@contextlib.contextmanager
+def atomic_output(path: str):
+    """A text stream for ``path``: written to a temporary file beside it, renamed over it when
+    the block ends without an error (removed otherwise)."""
+    folder = os.path.dirname(os.path.abspath(path))
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=f".{os.path.basename(path)}.", suffix=".tmp",
+                                   dir=folder)
+    except OSError as exc:
+        raise OSError(exc.errno, f"cannot write: {exc.strerror or exc}", path) from None
+    try:
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp, 0o666 & ~umask)  # as open() would create it, not mkstemp's 0600
+        with os.fdopen(fd, "w", encoding="utf-8", newline="") as stream:
+            yield stream
+        os.replace(tmp, path)
+    except BaseException:
+        with contextlib.suppress(OSError):
+            os.unlink(tmp)
+        raise
+
+
+def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=(),
+                  counts=None, colour_choice: str = "auto") -> None:
+    """Write each ``(format, file or None)`` of ``specs``; no file: ``stdout``."""
+    from . import FORMATS, render
+
+    for name, path in specs:
+        view = GateView(findings, FORMATS[name].marked, counts)
+        if path:
+            with atomic_output(path) as stream:
+                render(stream, name, header, pages, view, problems, diagnostics,
+                       colour_choice="never")
+        else:
+            render(stdout, name, header, pages, view, problems, diagnostics,
+                   colour_choice=colour_choice)

@@ -1,0 +1,174 @@
+"""SARIF, JUnit and CI annotations; several reports at once; escaping of page text."""
+import io
+import json
+import os
+import pathlib
+import xml.etree.ElementTree as ET
+
+import jsonschema
+import pytest
+
+from tinctura import engine, fingerprint
+from tinctura.model import Diagnostic, PageResult
+from tinctura.report import FORMATS, Header, outputs
+from tinctura.report.annotations import escape_data, escape_property
+from tinctura.report.json_report import schema as report_schema
+from tinctura.rules.examples import make_sample
+
+# SARIF 2.1.0 JSON Schema, OASIS; copied unmodified from the OASIS SARIF TC repository
+# (tests/data/README.md names the commit).
+SARIF_SCHEMA = json.loads((pathlib.Path(__file__).resolve().parents[1] / "data" /
+                           "sarif-schema-2.1.0.json").read_text(encoding="utf-8"))
+NASTY = 'Bell <b>"metal"</b> & \'tin\'\r\nline two\x1b[31m red\x00 ::error file=x::boom 100%, a:b'
+
+
+def run(texts=("Let the mould cool.", "Polish the crown."), marks=None, gone=()):
+    """Hand-built findings on one page; ``marks`` sets (suppressed, baseline) per finding."""
+    samples = [make_sample("#949494", "white", page="casting/index.html", text=t,
+                           xpath=f"/html/body/main/p[{n}]", line=10 + n)
+               for n, t in enumerate(texts, 1)]
+    findings = engine.evaluate(samples, engine.Options())
+    fingerprint.assign(findings)
+    for f, (suppressed, baseline) in zip(findings, marks or [("", "")] * len(findings)):
+        f.suppressed, f.baseline = suppressed, baseline
+        if suppressed:
+            f.args = {**f.args, "suppressed_by": "comment"}
+    pages = [PageResult("casting/index.html", samples), PageResult("alloys/index.html")]
+    header = Header(version="0.1.0", schemes=["light"], rules=("TC100",), gone=list(gone))
+    return header, pages, findings
+
+
+def render(fmt, header, pages, findings, diagnostics=()):
+    from tinctura import problems
+
+    found = problems.group([f for f in findings if outputs.active(f)])
+    stream = io.StringIO()
+    outputs.write_reports([(fmt, None)], stream, header, pages, findings, found, diagnostics,
+                          colour_choice="never")
+    return stream.getvalue()
+
+
+def sarif(*args, **kwargs):
+    doc = json.loads(render("sarif", *run(*args, **kwargs)))
+    jsonschema.validate(doc, SARIF_SCHEMA)
+    return doc["runs"][0]
+
+
+def test_sarif_is_valid_and_carries_rules_fingerprints_and_locations():
+    run_ = sarif()
+    rule = run_["tool"]["driver"]["rules"][0]
+    assert rule["id"] == "TC100" and rule["name"] == "text-ratio" and rule["help"]["text"]
+    results = run_["results"]
+    assert len(results) == 2
+    first = results[0]
+    assert first["ruleId"] == "TC100" and first["level"] == "error"
+    assert first["partialFingerprints"]["tinctura/v1"]
+    loc = first["locations"][0]
+    assert loc["physicalLocation"]["artifactLocation"]["uri"] == "casting/index.html"
+    assert loc["physicalLocation"]["region"]["startLine"] == 11
+    assert loc["logicalLocations"][0]["fullyQualifiedName"] == "/html/body/main/p[1]"
+    assert first["suppressions"] == [] and "baselineState" not in first
+    assert "qualified people" in run_["properties"]["disclaimer"]
+
+
+def test_sarif_suppressions_and_baseline_states():
+    gone = [{"fingerprint": "abc", "rule": "TC100", "page": "casting/index.html",
+             "scheme": "light", "state": "rest", "text": "Old note"}]
+    results = sarif(marks=[("reviewed: stamped tag", "unchanged"), ("", "new")],
+                    gone=gone)["results"]
+    assert results[0]["suppressions"] == [{"kind": "inSource", "status": "accepted",
+                                           "justification": "reviewed: stamped tag"}]
+    assert [r["baselineState"] for r in results] == ["unchanged", "new", "absent"]
+
+
+def test_sarif_points_at_the_markdown_source_when_known():
+    header, pages, findings = run()
+    header.source = lambda page, line: ("docs/casting.md", 4)
+    doc = json.loads(render("sarif", header, pages, findings))
+    jsonschema.validate(doc, SARIF_SCHEMA)
+    result = doc["runs"][0]["results"][0]
+    assert result["locations"][0]["physicalLocation"] == {
+        "artifactLocation": {"uri": "docs/casting.md"}, "region": {"startLine": 4}}
+    assert result["relatedLocations"][0]["physicalLocation"]["artifactLocation"]["uri"] == \
+        "casting/index.html"
+
+
+def test_junit_one_case_per_page_and_rule_with_unique_names():
+    header, pages, findings = run(marks=[("reviewed", ""), ("", "")])
+    root = ET.fromstring(render("junit", header, pages, findings))
+    cases = root.iter("testcase")
+    got = {(c.get("classname"), c.get("name")): c for c in cases}
+    assert set(got) == {("casting/index.html", "casting/index.html: TC100 text-ratio"),
+                        ("alloys/index.html", "alloys/index.html: TC100 text-ratio")}
+    failing = got[("casting/index.html", "casting/index.html: TC100 text-ratio")]
+    failure = failing.find("failure")
+    assert failure.get("message").startswith("1 finding: ") and "Polish the crown." in failure.text
+    assert "reviewed" in failing.find("system-out").text  # the suppressed one, named
+    assert root.get("failures") == "1" and root.get("tests") == "2"
+
+
+def test_annotations_workflow_commands_and_summary():
+    header, pages, findings = run(marks=[("reviewed", ""), ("", "")])
+    lines = render("annotations", header, pages, findings).splitlines()
+    assert len(lines) == 2  # one annotation (the suppressed finding is not annotated), summary
+    assert lines[0].startswith("::error file=casting/index.html,line=12,title=TC100 text-ratio::")
+    assert lines[1].startswith("tinctura: 1 finding (1 error) on 1 page of 2 checked")
+
+
+def test_annotation_escaping_as_documented():
+    # workflow-command escaping, as CI runners document it: data % CR LF; properties also : ,
+    assert escape_data("100%\r\nnext") == "100%25%0D%0Anext"
+    assert escape_property("a:b,c%") == "a%3Ab%2Cc%25"
+
+
+@pytest.mark.parametrize("fmt", sorted(FORMATS))
+def test_every_format_escapes_page_text(fmt, tmp_path):
+    header, pages, findings = run(texts=(NASTY,))
+    diagnostics = [Diagnostic("casting/index.html", "odd <comment> \"here\"\n& there", line=3)]
+    text = render(fmt, header, pages, findings, diagnostics)
+    assert "\x1b" not in text and "\x00" not in text
+    if fmt == "json":
+        doc = json.loads(text)
+        jsonschema.Draft202012Validator(report_schema()).validate(doc)
+        assert doc["findings"][0]["text"].startswith('Bell <b>"metal"</b> & \'tin\' line two')
+    elif fmt == "sarif":
+        doc = json.loads(text)
+        jsonschema.validate(doc, SARIF_SCHEMA)
+        assert "Bell <b>\"metal\"</b>" in doc["runs"][0]["results"][0]["message"]["text"]
+    elif fmt == "junit":
+        root = ET.fromstring(text)
+        assert "Bell <b>\"metal\"</b> & 'tin'" in root.find(".//failure").text
+    elif fmt == "annotations":
+        commands = [line for line in text.splitlines() if line.startswith("::")]
+        assert len(commands) == 1  # the page's newline did not start a second command
+        head, _, message = commands[0].partition("::error ")[2].partition("::")
+        assert head == "file=casting/index.html,line=11,title=TC100 text-ratio"
+        assert "::error file=x::boom 100%25," in message and "\r" not in message
+    elif fmt == "baseline":
+        assert json.loads(text)["findings"][0]["text"].startswith("Bell <b>")
+    elif fmt == "html":
+        assert "Bell <b>" not in text and "Bell &lt;b&gt;" in text
+    elif fmt == "csv":
+        import csv
+
+        cells = [c for row in csv.reader(io.StringIO(text)) for c in row]
+        assert any(c.startswith('Bell <b>"metal"</b>') for c in cells)
+    else:  # text, and formats added later: at least the text is there, controls shown
+        assert "Bell <b>" in text or fmt != "text"
+
+
+def test_several_reports_at_once_written_atomically(tmp_path, monkeypatch):
+    header, pages, findings = run()
+    specs = [("sarif", str(tmp_path / "r.sarif")), ("junit", str(tmp_path / "r.xml")),
+             ("json", str(tmp_path / "r.json"))]
+    outputs.write_reports(specs, io.StringIO(), header, pages, findings, [], [])
+    assert sorted(os.listdir(tmp_path)) == ["r.json", "r.sarif", "r.xml"]  # no temporary left
+    jsonschema.validate(json.loads((tmp_path / "r.sarif").read_text()), SARIF_SCHEMA)
+
+    def broken(self, summary):
+        raise RuntimeError("disk full")
+    monkeypatch.setattr(FORMATS["sarif"], "stop", broken)
+    with pytest.raises(RuntimeError):
+        outputs.write_reports(specs[:1], io.StringIO(), header, pages, findings, [], [])
+    assert json.loads((tmp_path / "r.sarif").read_text())  # the old report is intact
+    assert sorted(os.listdir(tmp_path)) == ["r.json", "r.sarif", "r.xml"]
