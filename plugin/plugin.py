@@ -16,9 +16,12 @@ from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 from tinctura import baseline as baseline_mod
 from tinctura import engine, mkdocs_project, problems, rules
 from tinctura import gate as gated
+from tinctura import palette as palette_mod
 from tinctura.report import messages as m
 from tinctura.report import outputs, plain
 from tinctura.report.base import Header
+from tinctura.report.appearance import is_appearance
+from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
@@ -87,6 +90,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             keep_samples=False,  # a build log needs counts, findings and declaration uses
             rules=chosen,
             severity=tuple(sorted(self.config.severity.items())),
+            palette=palette_mod.palette_setting(self.config.palette),
         )
 
     def workers(self) -> int:
@@ -213,6 +217,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         uses = {}
         for r in records:
             problems.merge_uses(uses, r.uses)
+        palette = {}
+        for r in records:
+            palette_mod.merge(palette, r.result.palette)
+        findings += engine.judge_site(palette, self.options)  # site-level appearance rules
         found = problems.group(findings, uses=uses)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         aid = self.writer_aid(found, pages, records)
@@ -223,7 +231,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         else:
             self.log_results(changes[0], findings, many_schemes=len(schemes) > 1,
                              locate=locate, label="New: ")
-        self.previous = {problems.problem_key(p.worst): plain.sentence(p) for p in found}
+        self.previous = {problems.problem_key(p.worst): m.message(p.worst) if
+                         is_appearance(p.worst) else plain.sentence(p) for p in found}
         for d in [d for page in pages for d in page.diagnostics] + gate_notes:
             at = f"{d.path}:{d.line}" if d.line else d.path
             (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
@@ -362,7 +371,9 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
         where = ""
         if location is not None and location.source is not None and location.source.where():
             where = f" ({location.source.where()})"
-        lines.append(f"  {n}. {plain.sentence(problem, location, many_schemes)}{where}")
+        said = m.message(problem.worst) if is_appearance(problem.worst) else \
+            plain.sentence(problem, location, many_schemes)
+        lines.append(f"  {n}. {said}{where}")
     if len(failing_problems) > first:
         lines.append(f"  and {m.plural(len(failing_problems) - first, 'more problem')}: each "
                      f"with its fix in the warnings (not shown with -q) and in `tinctura check "
@@ -372,6 +383,9 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
 
 def problem_line(problem, many_schemes: bool = False, locate=None) -> str:
     """One log message per problem: the plain sentence, where, the fix as CSS, the detail."""
+    if is_appearance(problem.worst):  # site-level appearance rules: entries and contexts
+        return (f"{problem.rule} {problem.slug}: {m.message(problem.worst)}\n  "
+                + "\n  ".join(appearance_lines(problem, many_schemes)))
     width = terminal_width()
     lines = problem_lines(0, problem, locate, many_schemes)
     # MkDocs puts "WARNING -  tinctura: " before the first line only

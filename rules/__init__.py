@@ -4,16 +4,22 @@
 """
 from __future__ import annotations
 
-from . import text
+from . import appearance, text
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
-__all__ = ["RULES", "CHECKS", "Criterion", "Docs", "Example", "Rule", "get", "selected",
-           "selection", "with_severity", "run"]
+__all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Example", "Rule",
+           "get", "selected", "selection", "with_severity", "run"]
 
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {
     "TC100": text.check_text_ratio,
+    "TC300": appearance.check_surround_shift,
+    "TC310": appearance.check_lookalike,
 }
+
+# Rules that compare colours across a whole site: ``run`` leaves them out (it judges one page or
+# fragment); the engine gathers palette uses and calls ``run_site`` once, at the end.
+SITE_LEVEL = frozenset({"TC300", "TC310"})
 
 
 def get(name: str) -> Rule:
@@ -59,5 +65,11 @@ def run(samples, options) -> list:
     samples = list(samples)
     findings = []
     for rule in selected(getattr(options, "rules", ()) or ()):
-        findings.extend(CHECKS[rule.code](samples, options))
+        if rule.code not in SITE_LEVEL:
+            findings.extend(CHECKS[rule.code](samples, options))
     return with_severity(findings, getattr(options, "severity", ()))
+
+
+def run_site(uses: dict, options) -> list:
+    """The site-level rules selected, over a site's merged palette uses (``tinctura.palette``)."""
+    return with_severity(appearance.check_site(uses, options), getattr(options, "severity", ()))

@@ -35,6 +35,8 @@ class Example:
     weight: int = 400
     bg_alternatives: tuple = ()  # other backgrounds (gradient stops) as CSS colours
     note: str = ""
+    # site-level rules: the palette uses the page shows, as (entry, colour, background, scheme)
+    contexts: tuple = ()
 
 
 @dataclass(frozen=True)
@@ -57,6 +59,7 @@ class Rule:
     criteria: tuple  # tuple[Criterion]; the one applied depends on the level checked
     message: str  # template, formatted late by the reports (see tinctura.report.messages)
     docs: Docs
+    measure: str = ""  # what a finding measures, when it is not a contrast ratio (reports)
 
     def criterion(self, level: str) -> Criterion:
         """The success criterion that applies when checking at ``level`` ("AA" or "AAA")."""
@@ -73,6 +76,12 @@ SC_1_4_3 = Criterion(
 SC_1_4_6 = Criterion(
     "1.4.6", "Contrast (Enhanced)", "AAA",
     "https://www.w3.org/WAI/WCAG22/Understanding/contrast-enhanced.html",
+)
+# Related, not tested: the appearance rules report risks around colour codes (SC 1.4.1 asks
+# that colour is not the only means of conveying information), never a failure of it.
+SC_1_4_1 = Criterion(
+    "1.4.1", "Use of Color", "A",
+    "https://www.w3.org/WAI/WCAG22/Understanding/use-of-color.html",
 )
 
 _PAGE = (
@@ -141,4 +150,183 @@ TEXT_RATIO = Rule(
     ),
 )
 
-RULES = (TEXT_RATIO,)
+
+_SAFETY = (
+    "This is a risk to review, not a failure of a WCAG 2 success criterion. Safety colours and "
+    "signs (warnings, hazards, emergency stops) follow their own standards, ISO 3864 and ANSI "
+    "Z535, and local rules, which tinctura does not check or replace."
+)
+
+_BOARD = (
+    '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Pump status</title>'
+    '<style>.card{{background:#ffffff;padding:8px}}.panel{{background:#1e2530;padding:8px}}'
+    '.chip{{color:#1a1a1a}}{css}</style></head>'
+    '<body style="margin:0;background-color:#ffffff;color:#1a1a1a">{body}</body></html>'
+)
+
+_NOTICE_SHIFT = (
+    "Appearance: CIECAM02 (CIE 159:2004) with a D65 display white of 80 cd/m2, an adapting "
+    "luminance of 20 % of it, the luminance factor of the colour's immediate background as Y_b "
+    "and an Average surround; differences in CAM02-UCS (Luo, Cui and Li 2006). "
+)
+
+SURROUND_SHIFT = Rule(
+    code="TC300",
+    slug="surround-shift",
+    title="Palette colour shifts with its surround",
+    family="appearance",
+    severity="warning",
+    criteria=(SC_1_4_1,),
+    message=(
+        "palette colour {entry} looks {terms} on {to_bg} than on {from_bg}: "
+        "{delta:.1f} CAM02-UCS units apart, over {threshold:g} (a risk to review, not a WCAG 2 "
+        "failure)"
+    ),
+    measure="{delta:.1f} CAM02-UCS units between its contexts, over {threshold:g}",
+    docs=Docs(
+        checks=(
+            "Each palette colour (a colour that carries a meaning: a status, a callout type, a "
+            "signal word) in every context where the site shows it: its immediate background, "
+            "in every colour scheme. Palette colours are found without configuration from "
+            "a base class with a modifier class (.chip.caution, .admonition.warning), from "
+            "families of rules that differ only in their last class (.status .ok, .status "
+            ".fault) and of custom properties (--tw-state-ok, --tw-state-fault) with at least "
+            "two members on the site, when the colour is chromatic and opaque; "
+            "the palette option (or --palette NAME=COLOUR) declares them by name. Each context's "
+            "appearance is modelled with CIECAM02 (" + _NOTICE_SHIFT.strip() + "), and the "
+            "rule reports a colour whose two most different contexts lie more than 10 "
+            "CAM02-UCS units apart. The threshold is this project's default, not a published "
+            "limit: one unit is roughly a just-noticeable difference between large patches "
+            "side by side, while chips, icons and words are small and seen on different parts "
+            "of a page or on different pages, so a shift must be several times larger before a "
+            "reader may no longer take it for the same code; 10 units is about the step between "
+            "neighbouring shades such as amber and orange. The shift is explained in opponent "
+            "terms: lighter or darker, redder or greener, yellower or bluer, more or less "
+            "colourful. " + _SAFETY
+        ),
+        why=(
+            "A colour is never seen alone. The same caution amber looks lighter and more "
+            "colourful on a dark panel than on a white card (simultaneous contrast), so readers "
+            "who learnt the code on one page may not recognise it on the next, or may take it "
+            "for another code. Manuals rely on such codes for states and hazards."
+        ),
+        bad=Example(
+            html=_BOARD.format(
+                css=".chip.caution{background:#e0a000}.chip.ok{background:#7cc47f}",
+                body='<div class="card"><span class="chip caution">Caution: low battery</span>'
+                     '</div><div class="panel"><span class="chip caution">Caution: low battery'
+                     '</span></div><div class="card"><span class="chip ok">Running</span></div>'),
+            fg="#1a1a1a",
+            bg="#e0a000",
+            contexts=(("caution", "#e0a000", "#ffffff", "light"),
+                      ("caution", "#e0a000", "#1e2530", "light")),
+            note="The amber chip on a white card and on a dark panel: 13.9 units apart.",
+        ),
+        good=Example(
+            html=_BOARD.format(
+                css=".chip.caution{background:#e0a000}.chip.ok{background:#7cc47f}",
+                body='<div class="card"><span class="chip caution">Caution: low battery</span>'
+                     '</div><div class="card"><span class="chip ok">Running</span></div>'),
+            fg="#1a1a1a",
+            bg="#e0a000",
+            contexts=(("caution", "#e0a000", "#ffffff", "light"),
+                      ("caution", "#e0a000", "#f4f4f0", "light")),
+            note="The amber chip on white and on an off-white card: under one unit apart.",
+        ),
+        fix=(
+            "Show the code on one kind of surround (cards of the same lightness), or give it a "
+            "companion value for dark surrounds that looks like the light one: `tinctura pair "
+            "FG BG --on OTHER_BG` shows how a colour's lightness, colourfulness and hue move "
+            "between two backgrounds. Pair the colour with a word or an icon, so that the "
+            "meaning never rests on the colour alone."
+        ),
+        references=(
+            ("CIE 159:2004, A colour appearance model for colour management systems: CIECAM02",
+             "https://cie.co.at/publications/colour-appearance-model-colour-management-systems-ciecam02"),
+            ("M. R. Luo, G. Cui, C. Li, Uniform colour spaces based on CIECAM02 colour appearance "
+             "model, Color Research & Application 31(4), 2006", "https://doi.org/10.1002/col.20227"),
+            ("WCAG 2.2, Understanding SC 1.4.1 Use of Color",
+             "https://www.w3.org/WAI/WCAG22/Understanding/use-of-color.html"),
+        ),
+    ),
+)
+
+LOOKALIKE = Rule(
+    code="TC310",
+    slug="lookalike",
+    title="Palette colours that look alike",
+    family="appearance",
+    severity="warning",
+    criteria=(SC_1_4_1,),
+    message=(
+        "palette colours {entry} and {other} look alike under {conditions}: {delta:.1f} "
+        "CAM02-UCS units apart under {condition}, under {threshold:g} (a risk to review, not a "
+        "WCAG 2 failure)"
+    ),
+    measure="{delta:.1f} CAM02-UCS units apart under {condition}, under {threshold:g}",
+    docs=Docs(
+        checks=(
+            "Pairs of palette colours of one family (the modifiers of one base class, the "
+            "variants of one rule, the members of one family of custom properties, or the "
+            "declared palette), in the same role (two text colours or two fills), that are "
+            "different colours but look alike where the site shows them: in one colour scheme, "
+            "the two closest contexts (colour on its immediate background) are compared in CAM02-UCS "
+            "after CIECAM02, for normal vision and under simulated protanopia, deuteranopia "
+            "and tritanopia (Machado, Oliveira and Fernandes 2009, severity 1). The rule "
+            "reports a pair closer than 15 units under any of them and names the conditions. "
+            "The threshold is this project's default: codes are small and rarely side by side, "
+            "so a few just-noticeable differences are not enough to tell them apart, and "
+            "palettes of categorical colours are commonly built with differences of about 10 "
+            "to 20 units between categories (common practice, in CIEDE2000 units, which are "
+            "of about the same size); 15 is the middle of that range. Two names for the very "
+            "same colour (under 0.5 units for normal vision) are an alias, not a collapse. "
+            + _SAFETY
+        ),
+        why=(
+            "About 8 % of men and 0.5 % of women of Northern European descent have a red-green "
+            "colour-vision deficiency (common figure). To them a 'fault' red and an 'ok' green "
+            "of similar lightness are one colour: the code collapses and the manual misinforms."
+        ),
+        bad=Example(
+            html=_BOARD.format(
+                css=".chip{color:#ffffff}.chip.ok{background:#2e7d32}"
+                    ".chip.fault{background:#c62828}",
+                body='<div class="card"><span class="chip ok">Pump running</span> '
+                     '<span class="chip fault">Pump stopped</span></div>'),
+            fg="#ffffff",
+            bg="#2e7d32",
+            contexts=(("ok", "#2e7d32", "#ffffff", "light"),
+                      ("fault", "#c62828", "#ffffff", "light")),
+            note="Green and red of similar lightness: 7.6 units apart under deuteranopia.",
+        ),
+        good=Example(
+            html=_BOARD.format(
+                css=".chip{color:#ffffff}.chip.ok{background:#1565c0}"
+                    ".chip.fault{background:#c62828}",
+                body='<div class="card"><span class="chip ok">Pump running</span> '
+                     '<span class="chip fault">Pump stopped</span></div>'),
+            fg="#ffffff",
+            bg="#1565c0",
+            contexts=(("ok", "#1565c0", "#ffffff", "light"),
+                      ("fault", "#c62828", "#ffffff", "light")),
+            note="Blue and red: over 40 units apart for every condition.",
+        ),
+        fix=(
+            "Make the two colours differ in lightness, not only in hue (a dark red against a "
+            "light green survives every deficiency), or use a blue-orange pair, and always add "
+            "a second cue: a word, an icon or a shape. `tinctura pair FG BG --vs OTHER_FG` "
+            "shows how far apart two colours stay under each deficiency."
+        ),
+        references=(
+            ("G. M. Machado, M. M. Oliveira, L. A. F. Fernandes, A physiologically-based model "
+             "for simulation of color vision deficiency, IEEE TVCG 15(6), 2009",
+             "https://doi.org/10.1109/TVCG.2009.113"),
+            ("M. R. Luo, G. Cui, C. Li, Uniform colour spaces based on CIECAM02 colour appearance "
+             "model, Color Research & Application 31(4), 2006", "https://doi.org/10.1002/col.20227"),
+            ("WCAG 2.2, Understanding SC 1.4.1 Use of Color",
+             "https://www.w3.org/WAI/WCAG22/Understanding/use-of-color.html"),
+        ),
+    ),
+)
+
+RULES = (TEXT_RATIO, SURROUND_SHIFT, LOOKALIKE)

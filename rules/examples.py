@@ -44,3 +44,18 @@ def example_sample(example: Example, **fields) -> Sample:
     """The sample a documented example renders."""
     return make_sample(example.fg, example.bg, size_px=example.size_px, weight=example.weight,
                        bg_alternatives=example.bg_alternatives, page="example.html", **fields)
+
+
+def example_samples(example: Example) -> list:
+    """The samples a site-level rule's example shows: one per (entry, colour, background,
+    scheme) context, the colour as the text colour."""
+    return [make_sample(colour, bg, page="example.html", scheme=scheme, text=entry,
+                        xpath=f"/html/body/p[{n + 1}]", line=n + 1)
+            for n, (entry, colour, bg, scheme) in enumerate(example.contexts)]
+
+
+def example_palette(example: Example) -> tuple:
+    """The palette an example's contexts declare (entry name -> its colour)."""
+    from tinctura.palette import palette_setting
+
+    return palette_setting({entry: colour for entry, colour, _, _ in example.contexts})

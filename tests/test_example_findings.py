@@ -14,6 +14,7 @@ import pytest
 
 from tinctura.colour.convert import to_hex
 from tinctura.engine import Options, check_paths
+from tinctura.rules import SITE_LEVEL
 
 HERE = pathlib.Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE / "browser"))
@@ -41,10 +42,12 @@ def test_exactly_the_planted_findings(report):
             expected[_key(u["page"], u["scheme"], u["state"], u["xpath"])] = u
     # Chromium's harness does not collect list markers: a marker ("3.") takes its item's
     # colour, so a marker finding is expected exactly where its list item has one.
-    markers = [f for f in report.findings if f.sample.xpath.endswith("::marker")]
+    markers = [f for f in report.findings
+               if f.sample.xpath.endswith("::marker") and f.rule not in SITE_LEVEL]
     assert all(_key(f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath) in expected
                for f in markers)
-    others = [f for f in report.findings if not f.sample.xpath.endswith("::marker")]
+    others = [f for f in report.findings
+              if not f.sample.xpath.endswith("::marker") and f.rule not in SITE_LEVEL]
     keys = [_key(f.sample.page, f.sample.scheme, f.sample.state, f.sample.xpath) for f in others]
     assert len(keys) == len(set(keys))
     found = dict(zip(keys, others))
@@ -61,6 +64,27 @@ def test_exactly_the_planted_findings(report):
         for mine, theirs in ((got_fg, fg), (got_bg, bg)):
             assert all(abs(int(mine[i:i + 2], 16) - int(theirs[i:i + 2], 16)) <= 1
                        for i in (1, 3, 5)), (key, mine, theirs)
+
+
+@pytest.mark.slow
+def test_exactly_the_planted_appearance_risks(report):
+    """The status board's risks (example_site/README.md, "Palette colours in context"): the
+    caution amber shifts between the light card and the dark panel, lighter on the panel
+    (simultaneous contrast, common practice); the running green and stopped red collapse under
+    deuteranopia only (Machado 2009). Nothing else on the site."""
+    site = [f for f in report.findings if f.rule in SITE_LEVEL]
+    assert sorted((f.rule, f.args["entry"], f.args.get("other")) for f in site) == [
+        ("TC300", ".tw-chip.tw-state-caution", None),
+        ("TC310", ".tw-chip.tw-state-running", ".tw-chip.tw-state-stopped"),
+    ]
+    shift = next(f for f in site if f.rule == "TC300")
+    assert {to_hex(c["bg"]) for c in shift.args["contexts"]} == {"#ffffff", "#1e2530"}
+    assert to_hex(shift.args["to_bg"]) == "#1e2530" and "lighter" in shift.args["terms"]
+    assert all(f.sample.page == "faults/status-board/index.html" for f in site)
+    assert all(f.severity == "warning" for f in site)
+    collapse = next(f for f in site if f.rule == "TC310")
+    assert "deuteranopia" in collapse.args["conditions"]
+    assert "normal vision" not in collapse.args["conditions"]
 
 
 @pytest.mark.slow

@@ -20,7 +20,7 @@ def test_defaults():
                                    "viewport_width": 1280, "states": True, "log_every": False,
                                    "schemes": None, "jobs": None, "select": [], "ignore": [],
                                    "severity": {}, "allow": [], "baseline": None, "report": [],
-                                   "behaviours": (), "theme_behaviours": True}
+                                   "behaviours": (), "theme_behaviours": True, "palette": {}}
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -31,6 +31,8 @@ def test_defaults():
     ("viewport_width", True, "whole number"),
     ("schemes", [{"name": "x", "colour": "y"}], "unknown keys colour"),
     ("jobs", 0, "at least 1"),
+    ("palette", {"fault": "not-a-colour"}, "neither a CSS colour nor a custom property"),
+    ("palette", ["#c62828"], "expected a table of name = colour"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "expected true or false"),
     ("log_every", 1, "expected true or false"),
@@ -357,3 +359,27 @@ def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatc
     assert any("Grey text on white is too faint" in w for w in warnings), warnings
     infos = [r.getMessage() for r in caplog.records]
     assert any("checking it here" in m for m in infos), infos
+
+
+@slow
+def test_site_level_appearance_findings_are_logged(tmp_path, caplog):
+    """A declared palette colour used on a light and a dark surround (TC300) and a red/green
+    pair (TC310): logged once each after the build, with their contexts."""
+    css = (".muted { color: #1a1a1a; }\n.dark { background: #1e2530; color: #ffffff; }\n"
+           ".lamp { color: #1a1a1a; }\n")
+    project = make_project(tmp_path, {"fail_on": "never"}, css=css)
+    (project / "docs" / "board.md").write_text(
+        '# Board\n\n<p><span style="background:#e0a000">Battery low</span> '
+        '<span style="background:#2e7d32;color:#fff">Running</span> '
+        '<span style="background:#c62828;color:#fff">Stopped</span></p>\n\n'
+        '<div class="dark"><p><span style="background:#e0a000;color:#1a1a1a">Battery low'
+        '</span></p></div>\n', encoding="utf-8")
+    with open(project / "mkdocs.yml", "a", encoding="utf-8") as fh:
+        fh.write("      palette: {caution: '#e0a000', running: '#2e7d32', stopped: '#c62828'}\n")
+    build(configure(project))
+    warnings = messages(caplog)
+    shift = [w for w in warnings if w.startswith("TC300 surround-shift")]
+    alike = [w for w in warnings if w.startswith("TC310 lookalike")]
+    assert len(shift) == 1 and "caution" in shift[0] and "#e0a000 on #1e2530" in shift[0]
+    assert len(alike) == 1 and "running and stopped" in alike[0]
+    assert "deuteranopia" in alike[0] and "ISO 3864" in alike[0]

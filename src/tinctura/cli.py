@@ -14,6 +14,7 @@ from tinctura import baseline as baseline_mod
 from tinctura import config, engine, problems, report, rules
 from tinctura import gate as gated
 from tinctura.model import Diagnostic
+from tinctura.palette import palette_setting
 from tinctura.report import messages as m
 from tinctura.report import outputs
 from tinctura.report.store import FindingStore
@@ -117,6 +118,11 @@ def build_parser() -> argparse.ArgumentParser:
                       help="font weight, 1-1000, normal or bold (default 400)")
     pair.add_argument("--color", "--colour", dest="colour", default="auto",
                       choices=("auto", "always", "never"), help="colour output (default auto)")
+    pair.add_argument("--on", metavar="OTHER_BG",
+                      help="also show how FG's appearance (CIECAM02) shifts on this background")
+    pair.add_argument("--vs", metavar="OTHER_FG",
+                      help="also show whether FG and this colour look alike on BG, for normal "
+                           "vision and each simulated colour-vision deficiency")
     pair.add_argument("--level", choices=("AA", "AAA"), default="AA", type=str.upper,
                       help="the level whose failure makes the exit status 1 (default AA)")
     pair.add_argument("-q", "--quiet", action="store_true",
@@ -165,6 +171,7 @@ def options_from(args) -> engine.Options:
         theme_behaviours=args.theme_behaviours,
         rules=chosen,
         severity=tuple(sorted(getattr(args, "severity", {}).items())),
+        palette=palette_setting(getattr(args, "palette", None) or {}),  # checked by config
     )
 
 
@@ -499,7 +506,30 @@ def run_pair(args, stdout, stderr) -> int:
         if missing:
             tw.line(f"        {' and '.join(missing)} of this hue reaches it"
                     + ("" if parts else "; change both colours"))
+    pair_appearance(args, fg, bg, tw)
     return exit_status(failed=failed)
+
+
+def pair_appearance(args, fg, bg, tw) -> None:
+    """``--on OTHER_BG`` and ``--vs OTHER_FG``: appearance in context (TC300, TC310)."""
+    from tinctura.colour.composite import over
+    from tinctura.report import appearance as words
+    from tinctura.rules import appearance
+
+    def opaque(text, what, under):
+        raw = parse_pair_colour(text, what)
+        return tuple(over(raw, under)[:3]) if raw[3] < 1.0 else tuple(raw[:3])
+
+    if getattr(args, "on", None):
+        other_bg = opaque(args.on, "other background colour", (1.0, 1.0, 1.0, 1.0))
+        shift = appearance.shift_between(fg, bg, other_bg)
+        for line in words.shift_lines(fg, bg, other_bg, shift):
+            tw.line(line)
+    if getattr(args, "vs", None):
+        other = opaque(args.vs, "other text colour", bg + (1.0,))
+        for line in words.lookalike_lines(fg, other, bg,
+                                          appearance.lookalike_between(fg, other, bg)):
+            tw.line(line)
 
 
 def describe_rule(rule, tw: TerminalWriter) -> None:
@@ -510,7 +540,11 @@ def describe_rule(rule, tw: TerminalWriter) -> None:
 
     criteria = ", ".join(f"SC {c.number} {c.name} ({c.level})" for c in rule.criteria)
     tw.line(f"{rule.code} {rule.slug}: {rule.title}", "bold")
-    tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
+    if rule.code in rules.SITE_LEVEL:  # risks around colour codes, not a test of the criterion
+        tw.line(f"  default severity {rule.severity}; related to WCAG 2 {criteria} (a risk to "
+                f"review, not a test of it)")
+    else:
+        tw.line(f"  default severity {rule.severity}; WCAG 2 {criteria}")
     para("What it checks", rule.docs.checks)
     para("Why", rule.docs.why)
     for label, example in (("Failing example", rule.docs.bad), ("Passing example", rule.docs.good)):

@@ -203,6 +203,16 @@ def behaviours(value):
     return from_setting(value)
 
 
+def palette(value):
+    """``{name: CSS colour or --custom-property}`` (tinctura.palette), checked; kept as given."""
+    if not isinstance(value, dict):
+        raise ValueError(f"expected a table of name = colour, got {_type_name(value)} {value!r}")
+    from tinctura.palette import palette_setting
+
+    palette_setting(value)  # ValueError naming the entry
+    return {str(name): str(colour) for name, colour in value.items()}
+
+
 # -- command-line text -> a value the check accepts -------------------------------------------
 
 
@@ -225,6 +235,13 @@ def severity_text(text: str) -> dict:
             raise ValueError(f"expected RULE=SEVERITY, got {part!r}")
         out[name.strip()] = severity.strip()
     return out
+
+
+def palette_text(text: str) -> dict:
+    name, sep, colour = text.partition("=")
+    if not sep or not name.strip() or not colour.strip():
+        raise ValueError(f"expected NAME=COLOUR or NAME=--property, got {text!r}")
+    return {name.strip(): colour.strip()}
 
 
 def json_file(path: str):
@@ -314,6 +331,10 @@ SETTINGS = (
             "path is given", where=FILE_AND_CLI, rebase=rebase_path),
     Setting("group", choice("cause", "page"), "cause", "text report: problems grouped by cause "
             "or findings by page", flag="--group", where=FILE_AND_CLI, choices=("cause", "page")),
+    Setting("palette", palette, {}, "colours that carry a meaning, for the appearance rules "
+            "(TC300, TC310): name = CSS colour or custom property (--name); as a flag "
+            "NAME=COLOUR, repeatable; default: discovered", flag="--palette",
+            metavar="NAME=COLOUR", parse=palette_text, many=True),
 )
 
 BY_NAME = {s.name: s for s in SETTINGS}

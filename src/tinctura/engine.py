@@ -21,6 +21,7 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
 
+from . import palette as palette_mod
 from . import problems as problems_mod
 from .colour import wcag
 from .extract import behaviours as behaviour_mod
@@ -46,6 +47,13 @@ class Options:
     severity: tuple = ()  # (code, severity) overrides, applied by rules.run
     keep_samples: bool = True  # False: drop each page's samples once judged (large sites)
     replay: bool = True  # replay repeated subtrees instead of walking them (off: for tests)
+    # site-level appearance rules (TC300, TC310): palette.palette_setting(name -> colour or
+    # --property) pairs, and the viewing conditions of CIECAM02
+    palette: tuple = ()
+    surround: str = "Average"  # "Average", "Dim" or "Dark"
+    white_luminance: float = 80.0  # cd/m2 of the display white
+    shift_threshold: float = 10.0  # TC300: CAM02-UCS units (rules/catalogue.py says why)
+    lookalike_threshold: float = 15.0  # TC310: CAM02-UCS units
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
@@ -58,6 +66,7 @@ class Report:
     diagnostics: list = field(default_factory=list)  # site-wide diagnostics
     schemes: list = field(default_factory=list)  # list[model.Scheme] evaluated
     uses: dict = field(default_factory=dict)  # declaration -> {background: schemes} (problems)
+    palette: dict = field(default_factory=dict)  # palette uses of the site (site-level rules)
 
 
 _REFRESH = re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", re.I)
@@ -229,10 +238,25 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         else:
             findings_to(page, findings)
         problems_mod.merge_uses(report.uses, uses)
+        palette_mod.merge(report.palette, page.palette)
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
+    site_findings = sorted(judge_site(report.palette, options), key=_finding_order)
+    if findings_to is None:
+        report.findings.extend(site_findings)
+    elif site_findings:  # after every page: reports list them last, under the whole site
+        findings_to(PageResult(palette_mod.SITE_PAGE), site_findings)
     return report
+
+
+def judge_site(palette_uses: dict, options: Options) -> list:
+    """The site-level rules (palette colours across pages and contexts), run once at the end."""
+    if not palette_uses:
+        return []
+    from . import rules
+
+    return rules.run_site(palette_uses, options)
 
 
 def iter_pages(paths, options: Options, judged: bool = False):
@@ -276,6 +300,7 @@ def _process(site, rel, options, judged, html=None):
         return page
     findings = evaluate(page.samples, options)
     uses = problems_mod.declaration_uses(page.samples)
+    page.palette = palette_mod.collect_for(page.samples, options)
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
         _judge_replays(page, findings, uses, options)
@@ -308,6 +333,7 @@ def _judge_replays(page, findings, uses, options) -> None:
     merged = set()
     for verdict, times in tally.values():
         _add_stats(page.stats, verdict.stats, times)
+        palette_mod.merge(page.palette, verdict.palette, times)
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
@@ -319,10 +345,11 @@ class _Verdict:
     are one shared object: a large navigation has thousands of fragments and few distinct
     verdicts."""
 
-    __slots__ = ("findings", "uses", "uses_key", "stats")
+    __slots__ = ("findings", "uses", "uses_key", "stats", "palette")
 
-    def __init__(self, findings, uses, stats):
+    def __init__(self, findings, uses, stats, palette=None):
         self.findings = findings or ()
+        self.palette = palette or {}  # palette uses (site-level rules), merged per replay
         uses_key = frozenset((decl, bg, frozenset(schemes))
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
@@ -355,12 +382,14 @@ def _verdict(fragment, options) -> _Verdict:
     found = [("", fragment.base, f) for f in evaluate(samples, options)]
     uses = problems_mod.declaration_uses(samples)
     stats = sample_stats(samples)
+    palette = palette_mod.collect_for(samples, options)
     for rel, nested in fragment.nested():
         inner = _verdict(nested, options)
         found.extend((rel + deeper, base, f) for deeper, base, f in inner.findings)
         problems_mod.merge_uses(uses, inner.uses)
+        palette_mod.merge(palette, inner.palette)
         _add_stats(stats, inner.stats)
-    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats)
+    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats, palette)
     if not options.keep_samples:
         # judged: its samples are not needed again (only failing ones, kept in the findings)
         fragment.items = fragment.nested()

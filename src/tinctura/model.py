@@ -178,6 +178,8 @@ class PageResult:
     # Repeated subtrees not turned into samples (findings-only checks): (fragment, stamp) pairs
     # the engine judges once per fragment; emptied before the result leaves the engine.
     replays: list = field(default_factory=list)
+    # Palette uses (tinctura.palette) for the site-level rules, merged over the site.
+    palette: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True, slots=True)

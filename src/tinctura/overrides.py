@@ -137,6 +137,8 @@ class Planner:
         the colour comes from a style attribute or from no declaration at all);
         ``opacity_of(finding)`` the ``(declaration, value)`` of the opacities that fade it,
         nearest first (then the fix raises the nearest one)."""
+        if "contexts" in problem.worst.args and "delta" in problem.worst.args:
+            return None  # a site-level appearance finding: no single colour pair to fix
         if faded(problem.worst):
             return self._opacity(problem, opacity_of) if opacity_of is not None else None
         fix = problem.fix_at_cause

@@ -280,7 +280,9 @@ def _add_backgrounds(bucket: dict, sample) -> None:
 _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgrounds
 
 
-def fix_at_cause(problem: Problem, uses: dict) -> CauseFix:
+def fix_at_cause(problem: Problem, uses: dict) -> CauseFix | None:
+    if problem.required <= 1.0:  # no ratio is required (site-level appearance rules)
+        return None
     declaration = target_declaration(problem.fg_cause)
     backgrounds: dict = {}  # background -> schemes it appears in
     if problem.backgrounds is not None:

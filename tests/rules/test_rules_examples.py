@@ -10,19 +10,28 @@ from wcag_reference import ratio
 
 from tinctura import engine
 from tinctura.colour.convert import to_hex
-from tinctura.rules import RULES, run
-from tinctura.rules.examples import example_sample, rgba
+from tinctura.rules import CHECKS, RULES, SITE_LEVEL, run
+from tinctura.rules.examples import example_palette, example_sample, example_samples, rgba
+
+
+def _run_example(rule, example):
+    """Per-sample rules judge the example's one sample; site-level rules (TC300, TC310) take the
+    palette contexts the example lists, with its entries declared as the palette."""
+    if rule.code in SITE_LEVEL:
+        options = engine.Options(rules=(rule.code,), palette=example_palette(example))
+        return CHECKS[rule.code](example_samples(example), options)
+    return run([example_sample(example)], engine.Options(rules=(rule.code,)))
 
 
 @pytest.mark.parametrize("rule", RULES, ids=lambda r: r.code)
 def test_bad_example_fails(rule):
-    findings = run([example_sample(rule.docs.bad)], engine.Options(rules=(rule.code,)))
-    assert [f.rule for f in findings] == [rule.code]
+    findings = _run_example(rule, rule.docs.bad)
+    assert findings and {f.rule for f in findings} == {rule.code}
 
 
 @pytest.mark.parametrize("rule", RULES, ids=lambda r: r.code)
 def test_good_example_passes(rule):
-    assert run([example_sample(rule.docs.good)], engine.Options(rules=(rule.code,))) == []
+    assert _run_example(rule, rule.docs.good) == []
 
 
 def _engine_findings(tmp_path, html, code):
@@ -45,8 +54,13 @@ def test_example_html_renders_what_the_docs_say(tmp_path, rule, which):
     report = _engine_findings(tmp_path, example.html, rule.code)
     samples = [s for p in report.pages for s in p.samples]
     assert samples, "the example page has text"
-    assert {to_hex(s.fg) for s in samples} == {to_hex(rgba(example.fg))}
-    assert {to_hex(s.bg) for s in samples} == {to_hex(rgba(example.bg))}
+    if rule.code in SITE_LEVEL:  # several contexts: each listed colour is on the page
+        seen = {to_hex(c) for s in samples for c in (s.fg, s.bg, s.surround) if c}
+        assert {to_hex(rgba(c[1])) for c in example.contexts} <= seen
+        assert to_hex(rgba(example.fg)) in seen
+    else:
+        assert {to_hex(s.fg) for s in samples} == {to_hex(rgba(example.fg))}
+        assert {to_hex(s.bg) for s in samples} == {to_hex(rgba(example.bg))}
     codes = {f.rule for f in report.findings}
     assert codes == ({rule.code} if which == "bad" else set())
 

@@ -11,7 +11,7 @@ page gets lighter. Each suggestion:
   the 8-bit rounding);
 - keeps the chroma where the sRGB gamut allows; where the gamut forces a lower chroma, the
   candidates at several chromas are ranked by their distance to the original in CAM02-UCS
-  (Luo, Cui & Li 2006; ``colour.cam02ucs``).
+  (Luo, Cui & Li 2006; ``colour.ucs_distance``).
 
 Returns ``None`` when no colour on the same side reaches the ratio: callers say so rather than
 suggest the opposite polarity.
@@ -25,7 +25,7 @@ from __future__ import annotations
 import math
 from functools import lru_cache
 
-from . import cam02ucs
+from . import ucs_distance
 from . import fix as _fix
 from .convert import srgb_to_oklab, to_polar
 from .wcag import contrast_ratio, relative_luminance
@@ -134,5 +134,5 @@ def _chroma_reduced(rgb, chroma: float) -> bool:
 
 
 def cam02ucs_distance(a, b) -> float:
-    """Euclidean distance of two sRGB colours in CAM02-UCS (``colour.cam02ucs``)."""
-    return cam02ucs.distance(a, b)
+    """Euclidean distance of two sRGB colours in CAM02-UCS (``colour.ucs_distance``)."""
+    return ucs_distance.distance(a, b)

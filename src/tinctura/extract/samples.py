@@ -562,6 +562,8 @@ class PageWalker:
                 opaque_seen = True
         if not opaque_seen:
             layers.append((None, "canvas", self.canvas, None))
+        elif surround is None:  # nothing painted around the element's background: the canvas
+            surround = tuple(self.canvas[:3])
         return layers, bg_cause, reason, surround
 
 

@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 
 from tinctura import rules
 from tinctura.model import DETERMINED
+from tinctura.palette import SITE_PAGE
 from tinctura.rules.catalogue import Criterion
 
 _U = "https://www.w3.org/WAI/WCAG22/Understanding/"
@@ -135,16 +136,17 @@ class Tally:
         self.undetermined: dict = {}  # page -> {reason: texts not judged}
 
     def add(self, page: str, findings, undetermined=None) -> None:
-        self.pages.append(page)
+        if page != SITE_PAGE:  # the site-level findings' group is not a page
+            self.pages.append(page)
         if undetermined:
             self.undetermined[page] = dict(undetermined)
         for f in findings:
-            scheme = f.sample.scheme
-            self.by_page[page] += 1
-            self.by_page_scheme.setdefault(page, Counter())[scheme] += 1
-            self.by_page_severity.setdefault(page, Counter())[f.severity] += 1
-            self.pages_of_rule.setdefault(f.rule, set()).add(page)
-            self.pages_of_scheme.setdefault(scheme, set()).add(page)
+            scheme, at = f.sample.scheme, f.sample.page  # site-level findings: their first page
+            self.by_page[at] += 1
+            self.by_page_scheme.setdefault(at, Counter())[scheme] += 1
+            self.by_page_severity.setdefault(at, Counter())[f.severity] += 1
+            self.pages_of_rule.setdefault(f.rule, set()).add(at)
+            self.pages_of_scheme.setdefault(scheme, set()).add(at)
 
     def ranked_pages(self) -> list:
         """(page, findings) with most findings first, then by name."""

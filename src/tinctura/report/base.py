@@ -9,6 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from tinctura.model import PageResult
+from tinctura.palette import report_page
 
 
 @dataclass
@@ -64,8 +65,8 @@ class Formatter:
 
 def findings_by_page(findings) -> dict:
     out: dict = {}
-    for f in findings:
-        out.setdefault(f.sample.page, []).append(f)
+    for f in findings:  # site-level findings (they compare pages) under the whole site
+        out.setdefault(report_page(f), []).append(f)
     for items in out.values():
         items.sort(key=lambda f: (f.sample.line, f.sample.xpath, f.sample.scheme, f.sample.state))
     return out

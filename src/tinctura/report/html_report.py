@@ -18,6 +18,8 @@ from tinctura.colour import wcag
 from tinctura.problems import target_declaration
 
 from . import audit, charts, swatch
+from .appearance import is_appearance
+from .appearance import problem_lines as appearance_lines
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
@@ -307,6 +309,10 @@ class HtmlFormatter(Formatter):
                  f"<div><dt>Background</dt><dd>"
                  f"{prose(m.cause(p.bg_cause, 'no declaration (the canvas)'))}</dd></div>"
                  f"<div><dt>Fix at the cause</dt><dd>{self.fix_text(p, worst)}</dd></div></dl>")
+        if is_appearance(worst):  # site-level: the palette entries and every context instead
+            cause = ('<dl class="cause"><div><dt>Palette colours and contexts</dt><dd>'
+                     + "<br>".join(prose(line) for line in appearance_lines(p))
+                     + "</dd></div></dl>")
         return (f'<article class="problem" id="problem-{index}" data-rule="{e(p.rule)}" '
                 f'data-occurrences="{p.occurrences}" aria-labelledby="problem-{index}-h">'
                 f'<h3 id="problem-{index}-h">{title}</h3>{facts}{pictures}{cause}'

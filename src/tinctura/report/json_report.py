@@ -7,8 +7,10 @@ from __future__ import annotations
 import json
 import os
 
+from . import appearance
 from . import messages as m
 from . import plain
+from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
@@ -65,6 +67,13 @@ def fix_dict(fix) -> dict:
 
 
 def finding_dict(f) -> dict:
+    out = _finding_dict(f)
+    if appearance.is_appearance(f):  # site-level rules: the palette entries and contexts
+        out["appearance"] = appearance.appearance_dict(f)
+    return out
+
+
+def _finding_dict(f) -> dict:
     s = f.sample
     fg, bg = m.finding_colours(f)
     return {
@@ -155,7 +164,8 @@ def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = Fals
         "fix": override_dict(getattr(problem, "override", None)),
         "findings": list(problem.indexes) if problem.indexes is not None else
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
-        "sentence": plain.sentence(problem, location, many_schemes or len(problem.schemes) > 1),
+        "sentence": m.message(problem.worst) if is_appearance(problem.worst) else
+        plain.sentence(problem, location, many_schemes or len(problem.schemes) > 1),
     }
 
 

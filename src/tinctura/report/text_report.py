@@ -10,6 +10,10 @@ from tinctura.problems import target_declaration
 
 from . import messages as m
 from . import plain
+from .appearance import headline as appearance_headline
+from .appearance import finding_lines as appearance_finding_lines
+from .appearance import is_appearance
+from .appearance import problem_lines as appearance_lines
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 from .summary import SEVERITIES
@@ -73,6 +77,9 @@ class TextFormatter(Formatter):
     def problem(self, index: int, problem) -> None:
         if self.header.group != "cause":
             return
+        if is_appearance(problem.worst):  # site-level: entries and contexts, no ratio or fix
+            self.appearance_problem(index, problem)
+            return
         for indent, text, style, wrap in problem_lines(index, problem, self.header.locate,
                                                         self.many_schemes):
             if style == "severity":
@@ -83,6 +90,14 @@ class TextFormatter(Formatter):
                 self.tw.line(line, *((style,) if style else ()))
         self.tw.line()
 
+    def appearance_problem(self, index: int, problem) -> None:
+        self.tw.line(f"{index}. {appearance_headline(problem)}", "bold")
+        self.tw.line(f"   {self.severity(problem.severity)} {problem.rule} {problem.slug}: "
+                     f"{m.message(problem.worst)}")
+        for line in appearance_lines(problem, self.many_schemes):
+            self.tw.line(f"   {line}")
+        self.tw.line()
+
     def page(self, page, findings) -> None:
         if self.header.group != "page" or not findings:
             return
@@ -91,6 +106,11 @@ class TextFormatter(Formatter):
         width = self.width
         for f in findings:
             s = f.sample
+            if is_appearance(f):  # site-level: the entries and their contexts
+                tw.line(f"  {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
+                for line in appearance_finding_lines(f, self.many_schemes):
+                    tw.line(f"      {line}")
+                continue
             fg, bg = m.finding_colours(f)
             for line in wrapped(0, f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\""
                                    f"{self.context(s)}", width, 6):
