@@ -2,6 +2,7 @@
 """Write a synthetic N-page mkdocs-material project for benchmarks.
 
     python benchmarks/generate_site.py N OUTDIR [--seed 7] [--plugin | --no-plugin]
+                                       [--variant baseline|varied|states|many]
 
 The subject is invented: the manual of "Tidewright", a berth and ferry scheduler run by the
 harbour office of the fictional town of Brindlemoor. Every page is listed in the navigation
@@ -31,6 +32,21 @@ SECTION_SIZE = 20
 # The light scheme's accent colours links on hover and focus. This one passes on white, so
 # findings stay the few planted ones; most other accents fail there on every navigation link.
 DEFAULT_ACCENT = "deep purple"
+FAILING_ACCENT = "teal"  # fails on white: every navigation link fails on :hover and :focus
+
+# Named site shapes the benchmark runs side by side. "baseline" is the original generator
+# (mixed pages, collapsed navigation sections, an accent that passes); the others are what
+# other manuals look like: pages of one kind each, every navigation section expanded (so every
+# page shows a link to every page), structural and :has() selectors in the site's own CSS,
+# an accent that fails in a state, and a page of faint colours on every page.
+VARIANTS = {
+    "baseline": dict(kinds=False, expand=False, structural=False, accent=DEFAULT_ACCENT,
+                     many=False),
+    "varied": dict(kinds=True, expand=True, structural=True, accent=DEFAULT_ACCENT, many=False),
+    "states": dict(kinds=True, expand=True, structural=True, accent=FAILING_ACCENT, many=False),
+    "many": dict(kinds=True, expand=True, structural=True, accent=FAILING_ACCENT, many=True),
+}
+PAGE_KINDS = ("code", "table", "prose", "api")
 
 # Invented vocabulary; nothing here names a real product, place, company or person.
 TOPICS = [
@@ -114,6 +130,25 @@ EXTRA_CSS = """\
 """
 
 
+# Selectors a theme customisation often has: a structural one whose rightmost compound matches
+# list items in the navigation, and :has() ones. Their colours pass; they only test whether the
+# checker's sharing of styles survives them.
+STRUCTURAL_CSS = """
+/* separators between navigation items, and tables that hold code */
+.md-nav--primary ul > li:not(:first-child) { color: var(--md-default-fg-color); }
+.md-typeset table:has(code) { background-color: var(--md-default-bg-color); }
+.md-typeset .admonition:has(> ul) { color: var(--md-default-fg-color); }
+.md-typeset ol > li:nth-child(2n) { color: var(--md-default-fg-color); }
+"""
+
+# The "many findings" variant: faint colours used all over the article.
+MANY_CSS = """
+.md-typeset td:not(:first-child) { color: #a4a4a4; }           /* planted: faint table cells */
+.md-typeset .highlight .c1, .md-typeset .highlight .ch { color: #b8b8b8; }  /* faint comments */
+.md-typeset li code { color: #9aa5b1; }                        /* planted: faint inline code */
+"""
+
+
 def slug(text: str) -> str:
     return "".join(c if c.isalnum() else "-" for c in text.lower()).strip("-")
 
@@ -152,11 +187,13 @@ def relative_link(from_path: str, to_path: str) -> str:
 
 
 class PageWriter:
-    def __init__(self, rng: random.Random, all_pages: list, path: str, index: int):
+    def __init__(self, rng: random.Random, all_pages: list, path: str, index: int,
+                 kinds: bool = False):
         self.rng = rng
         self.all_pages = all_pages
         self.path = path
         self.index = index
+        self.kind = PAGE_KINDS[index % len(PAGE_KINDS)] if kinds else "mixed"
 
     def link(self) -> str:
         title, target = self.rng.choice(self.all_pages)
@@ -240,6 +277,53 @@ class PageWriter:
                 items.append(f"    - `{command} --{option}`")
         return "\n".join(items)
 
+    def long_code_block(self) -> str:
+        """A long highlighted block, as code-heavy pages have (line numbers on most)."""
+        r = self.rng
+        lang = r.choice(["python", "yaml", "bash"])
+        body = "\n".join(CODE_SAMPLES[lang](r) for _ in range(r.randint(4, 8)))
+        attrs = ['linenums="1"'] if r.random() < 0.7 else []
+        if r.random() < 0.4:
+            attrs.append('hl_lines="3 4 9"')
+        return f"``` {lang} {' '.join(attrs)}".rstrip() + f"\n{body}\n```"
+
+    def api_entry(self) -> str:
+        """One function of an API reference: signature, description, parameters, returns."""
+        r = self.rng
+        name = f"{r.choice(VERBS)[:-1]}_{slug(r.choice(NOUNS)).replace('-', '_')}"
+        params = r.sample(IDENTS, k=r.randint(2, 5))
+        lines = [f"### `tidewright.{name}()`", "",
+                 "```python", f"def {name}({', '.join(params)}, *, strict=False) -> Ledger", "```",
+                 "", self.paragraph(2), "", "| Parameter | Type | Description |",
+                 "|---|---|---|"]
+        for p in params:
+            lines.append(f"| `{p}` | `{r.choice(['str', 'int', 'Tide', 'Berth', 'date'])}` | "
+                         f"{r.choice(VERBS).capitalize()} the {r.choice(NOUNS)}. |")
+        lines += ["", f"`{r.choice(IDENTS)}`", f":   {self.sentence(links=False)}", "",
+                  f"**Returns:** a `Ledger` of {r.choice(ADJECTIVES)} {r.choice(NOUNS)}s.", ""]
+        if r.random() < 0.3:
+            lines += ["!!! note", "", "    " + self.sentence(links=False), ""]
+        return "\n".join(lines)
+
+    def kind_sections(self) -> list:
+        r = self.rng
+        out = []
+        if self.kind == "api":
+            for _ in range(r.randint(5, 9)):
+                out += [self.api_entry(), ""]
+            return out
+        for _ in range(r.randint(3, 5)):
+            out += [f"## {r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s", ""]
+            if self.kind == "code":
+                out += [self.paragraph(1), "", self.long_code_block(), "", self.code_block(), ""]
+            elif self.kind == "table":
+                out += [self.paragraph(1), "", self.table(), "", self.table(), "",
+                        self.bullet_list(), ""]
+            else:  # prose
+                out += [self.paragraph(5), "", self.paragraph(4), "", self.bullet_list(), "",
+                        self.admonition(), ""]
+        return out
+
     def render(self, title: str) -> str:
         r = self.rng
         out = [f"# {title}", "", self.paragraph(3), ""]
@@ -247,7 +331,9 @@ class PageWriter:
             out += [f'<span class="tw-badge">since 2.{self.index % 9}</span> '
                     f'<span class="tw-muted">Maintained by the {r.choice(ROLES)}.</span>', ""]
         blocks = [self.table, self.code_block, self.admonition, self.bullet_list, self.paragraph]
-        for _ in range(r.randint(3, 5)):
+        if self.kind != "mixed":
+            out += self.kind_sections()
+        for _ in range(r.randint(3, 5) if self.kind == "mixed" else 0):
             heading = f"## {r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s"
             out += [heading, "", self.paragraph(), ""]
             for block in r.sample(blocks, k=r.randint(2, 4)):
@@ -330,7 +416,8 @@ def home_page(sections) -> str:
     return "\n".join(lines)
 
 
-def mkdocs_yml(home, sections, plugin: bool, accent: str = DEFAULT_ACCENT) -> str:
+def mkdocs_yml(home, sections, plugin: bool, accent: str = DEFAULT_ACCENT,
+               expand: bool = False) -> str:
     nav = [f"  - {home[0]}: {home[1]}"]
     for title, _sdir, pages in sections:
         nav.append(f"  - \"{title}\":")
@@ -339,6 +426,8 @@ def mkdocs_yml(home, sections, plugin: bool, accent: str = DEFAULT_ACCENT) -> st
     # fail_on: never: the planted colours are findings by design, and a benchmark build
     # must finish to be timed.
     plugins = "  - search\n" + ("  - tinctura:\n      fail_on: never\n" if plugin else "")
+    # expanded: every section of the navigation open on every page (links all visible)
+    features = "    - navigation.sections\n    - navigation.expand\n" if expand else ""
     return f"""\
 # Generated by benchmarks/generate_site.py; do not edit.
 site_name: Tidewright harbour scheduler
@@ -350,7 +439,7 @@ theme:
   features:
     - navigation.top
     - content.code.copy
-  palette:
+{features}  palette:
     - media: "(prefers-color-scheme: light)"
       scheme: default
       primary: indigo
@@ -386,16 +475,20 @@ plugins:
 
 
 def generate(n_pages: int, outdir: Path, seed: int = 7, plugin: bool = False,
-             accent: str = DEFAULT_ACCENT) -> dict:
+             accent: str | None = None, variant: str = "baseline") -> dict:
     if n_pages < 1:
         raise ValueError("need at least one page")
+    shape = VARIANTS[variant]
+    accent = accent or shape["accent"]
+    css = EXTRA_CSS + (STRUCTURAL_CSS if shape["structural"] else "") + \
+        (MANY_CSS if shape["many"] else "")
     rng = random.Random(seed)
     home, sections = page_layout(n_pages, rng)
     docs = outdir / "docs"
     if docs.exists():
         shutil.rmtree(docs)
     (docs / "stylesheets").mkdir(parents=True)
-    (docs / "stylesheets" / "tidewright.css").write_text(EXTRA_CSS, encoding="utf-8")
+    (docs / "stylesheets" / "tidewright.css").write_text(css, encoding="utf-8")
     (docs / "index.md").write_text(home_page(sections), encoding="utf-8")
     all_pages = [home] + [p for _t, _d, pages in sections for p in pages]
     index = 1
@@ -404,14 +497,15 @@ def generate(n_pages: int, outdir: Path, seed: int = 7, plugin: bool = False,
         for ptitle, path in pages:
             # One generator per page: a page keeps its shape when N changes (link targets differ).
             page_rng = random.Random(f"{seed}:{index}")
-            text = PageWriter(page_rng, all_pages, path, index).render(ptitle)
+            text = PageWriter(page_rng, all_pages, path, index,
+                              kinds=shape["kinds"]).render(ptitle)
             (docs / path).write_text(text, encoding="utf-8")
             index += 1
     for name, with_plugin in (("mkdocs-plain.yml", False), ("mkdocs-plugin.yml", True),
                               ("mkdocs.yml", plugin)):
-        (outdir / name).write_text(mkdocs_yml(home, sections, with_plugin, accent),
-                                   encoding="utf-8")
-    return {"pages": len(all_pages), "sections": len(sections)}
+        (outdir / name).write_text(mkdocs_yml(home, sections, with_plugin, accent,
+                                              expand=shape["expand"]), encoding="utf-8")
+    return {"pages": len(all_pages), "sections": len(sections), "variant": variant}
 
 
 def main(argv=None) -> int:
@@ -422,13 +516,19 @@ def main(argv=None) -> int:
     ap.add_argument("--plugin", action=argparse.BooleanOptionalAction, default=False,
                     help="list tinctura in mkdocs.yml (mkdocs-plain.yml and mkdocs-plugin.yml "
                          "are written either way)")
-    ap.add_argument("--accent", default=DEFAULT_ACCENT,
-                    help="accent of the light scheme (default %(default)r passes on white; "
-                         "'teal' fails on hover/focus, so every navigation link of every page "
-                         "becomes a finding: N*N findings, a stress test of the report)")
+    ap.add_argument("--variant", choices=tuple(VARIANTS), default="baseline",
+                    help="site shape (default baseline): varied = page kinds, expanded "
+                         "navigation, structural and :has() selectors; states = varied with an "
+                         "accent failing on hover/focus; many = states plus faint colours all "
+                         "over the article")
+    ap.add_argument("--accent", default=None,
+                    help="accent of the light scheme (default: the variant's; 'deep purple' "
+                         "passes on white; 'teal' fails on hover/focus, so every navigation "
+                         "link of every page becomes a finding: N*N findings)")
     args = ap.parse_args(argv)
-    info = generate(args.pages, args.outdir, args.seed, args.plugin, args.accent)
-    print(f"wrote {info['pages']} pages in {info['sections']} sections to {args.outdir}")
+    info = generate(args.pages, args.outdir, args.seed, args.plugin, args.accent, args.variant)
+    print(f"wrote {info['pages']} pages ({info['variant']}) in {info['sections']} sections "
+          f"to {args.outdir}")
     return 0
 
 

@@ -319,6 +319,9 @@ def count_findings(data):
     if isinstance(data, list):
         return len(data)
     if isinstance(data, dict):
+        summary = data.get("summary")
+        if isinstance(summary, dict) and isinstance(summary.get("findings"), int):
+            return summary["findings"]
         for key in ("findings", "results", "issues"):
             if isinstance(data.get(key), list):
                 return len(data[key])
@@ -330,16 +333,17 @@ def count_findings(data):
     return None
 
 
-def bench_size(n_pages: int, args, env: dict, steps: list[str]) -> dict:
+def bench_size(n_pages: int, args, env: dict, steps: list[str], variant: str = "baseline") -> dict:
     sys.path.insert(0, str(HERE))
     from generate_site import generate
 
-    base = args.out / "sites" / f"p{n_pages}"
+    base = args.out / "sites" / (f"p{n_pages}" if variant == "baseline" else
+                                 f"{variant}-p{n_pages}")
     logdir = base / "logs"
     py = sys.executable
-    print(f"\n== {n_pages} pages: generating into {base}", flush=True)
+    print(f"\n== {variant}, {n_pages} pages: generating into {base}", flush=True)
     t0 = time.perf_counter()
-    generate(n_pages, base, seed=args.seed, plugin=False, accent=args.accent)
+    generate(n_pages, base, seed=args.seed, plugin=False, accent=args.accent, variant=variant)
     gen_s = time.perf_counter() - t0
 
     site = base / "site-plain"
@@ -381,6 +385,7 @@ def bench_size(n_pages: int, args, env: dict, steps: list[str]) -> dict:
                 data = read_json(outputs[step])
                 r["report_ok"] = data is not None
                 r["findings"] = count_findings(data)
+                r["report_mb"] = outputs[step].stat().st_size / 1e6 if data is not None else None
                 r["ok"] = (not r.get("timed_out")) and data is not None and \
                     (r.get("returncode") or 0) >= 0
             if step == "parse_only" and r["ok"]:
@@ -398,7 +403,8 @@ def bench_size(n_pages: int, args, env: dict, steps: list[str]) -> dict:
                     print("      | " + t.replace("\n", "\n      | "), flush=True)
 
     stats = site_stats(site) if site.exists() else {}
-    return {"pages": n_pages, "generate_s": gen_s, "site": stats, "runs": runs}
+    return {"pages": n_pages, "variant": variant, "generate_s": gen_s, "site": stats,
+            "runs": runs}
 
 
 def part_site(site: Path, part: Path) -> int:
@@ -431,6 +437,9 @@ def summarise(step_runs: list[dict]) -> dict | None:
     findings = [r.get("findings") for r in good if r.get("findings") is not None]
     if findings:
         out["findings"] = findings[-1]
+    sizes = [r.get("report_mb") for r in good if r.get("report_mb") is not None]
+    if sizes:
+        out["report_mb"] = sizes[-1]
     return out
 
 
@@ -448,7 +457,8 @@ def report_size(res: dict, jobs: int) -> dict:
     n = res["pages"]
     s = {k: summarise(v) for k, v in res["runs"].items()}
     st = res.get("site", {})
-    print(f"\n-- {n} pages: {st.get('html_files', '?')} HTML files, "
+    print(f"\n-- {res.get('variant', 'baseline')}, {n} pages: "
+          f"{st.get('html_files', '?')} HTML files, "
           f"{fmt(st.get('html_bytes_per_page', 0) / 1024, '.0f')} KB/page, "
           f"{fmt(st.get('elements_per_page'), '.0f')} elements/page, "
           f"{fmt(st.get('text_elements_per_page'), '.0f')} text elements/page "
@@ -464,6 +474,8 @@ def report_size(res: dict, jobs: int) -> dict:
         note = ""
         if "findings" in m:
             note = f"{m['findings']} findings"
+        if "report_mb" in m:
+            note += f", JSON {m['report_mb']:.1f} MB"
         if step == "parse_only":
             d = res["runs"][step][-1].get("detail", {})
             note = f"in-process: html {fmt(d.get('html_s'))} s, css {fmt(d.get('css_s'))} s"
@@ -508,13 +520,37 @@ def report_size(res: dict, jobs: int) -> dict:
     if "check_part" in res["runs"]:
         print(f"   {'peak RSS, all pages / first fifth':<34}{pct(growth):>10}{'':>10}  "
               f"<= +{FLAT_GROWTH * 100:.0f} % (flat)  {verdict(growth, FLAT_GROWTH)}")
-    return {"pages": n, "site": st, "steps": s, "ratios": {
+    return {"pages": n, "variant": res.get("variant", "baseline"), "site": st, "steps": s,
+            "ratios": {
         "check_over_build": check_build, "plugin_overhead": plugin_over,
         "check_over_parse": check_parse, "jobs_speedup": speedup, "check_peak_rss_mb": peak,
         "part_peak_rss_mb": part, "memory_growth_with_pages": growth, "cpu": cpu}}
 
 
+def report_side_by_side(summaries: list[dict], jobs: int) -> None:
+    """One line per variant and size: what the README's table quotes (its worst line)."""
+    print("\n-- side by side (wall s; ratios to mkdocs build)")
+    print(f"   {'variant':<10}{'pages':>6}{'build':>8}{'+plugin':>16}{'check 1 core':>20}"
+          f"{f'--jobs {jobs}':>10}{'parse':>8}{'JSON MB':>9}{'findings':>10}{'peak MB':>9}")
+    for x in summaries:
+        st, r = x["steps"], x["ratios"]
+
+        def wall(step):
+            return st[step]["wall_s"] if st.get(step) else None
+
+        plugin = "n/a" if wall("build_plugin") is None else \
+            f"{wall('build_plugin'):.1f} ({(r['plugin_overhead'] or 0) * 100:+.0f}%)"
+        check = "n/a" if wall("check_1") is None else \
+            f"{wall('check_1'):.1f} ({fmt(r['check_over_build'])}x)"
+        c1 = st.get("check_1") or {}
+        print(f"   {x.get('variant', 'baseline'):<10}{x['pages']:>6}{fmt(wall('build'), '.1f'):>8}"
+              f"{plugin:>16}{check:>20}{fmt(wall('check_n'), '.1f'):>10}"
+              f"{fmt(wall('parse_only'), '.1f'):>8}{fmt(c1.get('report_mb'), '.1f'):>9}"
+              f"{c1.get('findings', 'n/a')!s:>10}{fmt(c1.get('peak_rss_mb'), '.0f'):>9}")
+
+
 def report_memory(summaries: list[dict]) -> dict | None:
+    summaries = [x for x in summaries if x.get("variant", "baseline") == "baseline"]
     pts = [(x["pages"], x["ratios"]["check_peak_rss_mb"]) for x in summaries
            if x["ratios"]["check_peak_rss_mb"] is not None]
     if len(pts) < 2:
@@ -546,9 +582,12 @@ def main(argv=None) -> int:
     ap.add_argument("--steps", default="build,build_plugin,check_1,check_n,parse_only,check_part",
                     help="comma-separated subset of the steps")
     ap.add_argument("--seed", type=int, default=7)
-    ap.add_argument("--accent", default="deep purple",
-                    help="light-scheme accent of the generated site; 'teal' makes every "
-                         "navigation link a hover/focus finding (N*N findings)")
+    ap.add_argument("--variants", default="baseline",
+                    help="comma-separated site shapes of generate_site.py (baseline, varied, "
+                         "states, many; 'all' for every one), each measured at every size")
+    ap.add_argument("--accent", default=None,
+                    help="light-scheme accent of the generated site (default: the variant's); "
+                         "'teal' makes every navigation link a hover/focus finding (N*N findings)")
     ap.add_argument("--timeout", type=float, default=1800, help="seconds per step")
     ap.add_argument("--out", type=Path, default=DEFAULT_OUT)
     args = ap.parse_args(argv)
@@ -562,9 +601,16 @@ def main(argv=None) -> int:
     unknown = set(steps) - set(STEP_LABELS)
     if unknown:
         ap.error(f"unknown steps: {', '.join(sorted(unknown))}")
-    plan = [(n, steps) for n in sizes]
+    sys.path.insert(0, str(HERE))
+    from generate_site import VARIANTS
+
+    variants = list(VARIANTS) if args.variants == "all" else \
+        [v.strip() for v in args.variants.split(",") if v.strip()]
+    if set(variants) - set(VARIANTS):
+        ap.error(f"unknown variants: {', '.join(sorted(set(variants) - set(VARIANTS)))}")
+    plan = [(n, steps, v) for n in sizes for v in variants]
     if args.small and len(set(sizes)) < 2 and args.small not in sizes:
-        plan.insert(0, (args.small, [s for s in ("build", "check_1") if s in steps]))
+        plan.insert(0, (args.small, [s for s in ("build", "check_1") if s in steps], variants[0]))
 
     args.out.mkdir(parents=True, exist_ok=True)
     env = dict(os.environ, NO_MKDOCS_2_WARNING="1", PYTHONUNBUFFERED="1")
@@ -579,13 +625,14 @@ def main(argv=None) -> int:
               "the plugin build and the checks will fail")
 
     results, summaries = [], []
-    for n, st in plan:
-        res = bench_size(n, args, env, st)
+    for n, st, variant in plan:
+        res = bench_size(n, args, env, st, variant)
         results.append(res)
     print("\n================ results (median of runs; a loaded machine stretches wall time, "
           "CPU time less so)")
     for res in results:
         summaries.append(report_size(res, args.jobs))
+    report_side_by_side(summaries, args.jobs)
     memory = report_memory(summaries)
     load_after = os.getloadavg()
     print(f"\nload average before {load_before[0]:.2f}, after {load_after[0]:.2f} "

@@ -14,6 +14,7 @@ from mkdocs.exceptions import PluginError
 from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 
 from tinctura import baseline as baseline_mod
+from tinctura import config as config_mod
 from tinctura import engine, mkdocs_project, problems, rules
 from tinctura import gate as gated
 from tinctura import palette as palette_mod
@@ -91,6 +92,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             rules=chosen,
             severity=tuple(sorted(self.config.severity.items())),
             palette=palette_mod.palette_setting(self.config.palette),
+            exemptions=config_mod.exemptions_kept(self.config.no_exempt),
+            logotypes=tuple(self.config.logotypes),
         )
 
     def workers(self) -> int:

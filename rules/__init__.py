@@ -4,7 +4,7 @@
 """
 from __future__ import annotations
 
-from . import appearance, text
+from . import appearance, links, nontext, text
 from .catalogue import RULES, Criterion, Docs, Example, Rule
 
 __all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Example", "Rule",
@@ -13,6 +13,8 @@ __all__ = ["RULES", "CHECKS", "SITE_LEVEL", "run_site", "Criterion", "Docs", "Ex
 # code -> check function (samples, options) -> list[Finding]
 CHECKS = {
     "TC100": text.check_text_ratio,
+    "TC110": nontext.check_ui_ratio,
+    "TC120": links.check_link_cue,
     "TC300": appearance.check_surround_shift,
     "TC310": appearance.check_lookalike,
 }

@@ -37,6 +37,12 @@ class Example:
     note: str = ""
     # site-level rules: the palette uses the page shows, as (entry, colour, background, scheme)
     contexts: tuple = ()
+    subject: str = ""  # the judged sample's text begins with this (pages with other texts)
+    exempt: str = ""  # the sample's exemption (TC110 judges "icon" glyphs)
+    surround: str = ""  # a link's surrounding text colour (TC120)
+    cues: tuple = ()  # a link's non-colour cues at rest, with hover, with focus (TC120)
+    hover: tuple = ()
+    focus: tuple = ("outline",)
 
 
 @dataclass(frozen=True)
@@ -77,8 +83,9 @@ SC_1_4_6 = Criterion(
     "1.4.6", "Contrast (Enhanced)", "AAA",
     "https://www.w3.org/WAI/WCAG22/Understanding/contrast-enhanced.html",
 )
-# Related, not tested: the appearance rules report risks around colour codes (SC 1.4.1 asks
-# that colour is not the only means of conveying information), never a failure of it.
+# SC 1.4.1 asks that colour is not the only means of conveying information: TC120 tests links
+# told apart by colour alone; the appearance rules (TC300, TC310) report risks around colour
+# codes, never a failure of it.
 SC_1_4_1 = Criterion(
     "1.4.1", "Use of Color", "A",
     "https://www.w3.org/WAI/WCAG22/Understanding/use-of-color.html",
@@ -329,4 +336,162 @@ LOOKALIKE = Rule(
     ),
 )
 
-RULES = (TEXT_RATIO, SURROUND_SHIFT, LOOKALIKE)
+SC_1_4_11 = Criterion(
+    "1.4.11", "Non-text Contrast", "AA",
+    "https://www.w3.org/WAI/WCAG22/Understanding/non-text-contrast.html",
+)
+
+UI_RATIO = Rule(
+    code="TC110",
+    slug="ui-ratio",
+    title="Non-text contrast of icons and controls",
+    family="nontext",
+    severity="error",
+    criteria=(SC_1_4_11,),
+    message=(
+        "{what} contrast {ratio}:1 is below the {required}:1 required for graphical objects and "
+        "user-interface components (WCAG SC 1.4.11){against}"
+    ),
+    docs=Docs(
+        checks=(
+            "The WCAG 2 contrast ratio of graphical objects and user-interface indicators "
+            "against the colours next to them, 3:1 (SC 1.4.11). Judged: (1) icon glyphs: "
+            "characters of the Unicode Private Use Areas (icon fonts, as text or ::before "
+            "content) inside a link or control or with an accessible name, and a single letter "
+            "or symbol that is all the visible text of a button or link with an accessible name; "
+            "they leave TC100 (not text in a human language) and are judged here; (2) the "
+            "boundary of text fields, text areas and selects whose border or fill the author "
+            "set: whichever of border and fill differs from the colour around the control must "
+            "reach 3:1 against it (buttons are identified by their text, judged by TC100; "
+            "controls left to the user agent's look are exempt); (3) an outline the author "
+            "draws on :focus or :focus-visible, against the colour around the element; (4) "
+            "inline SVG icons inside a link or control or with an accessible name, drawn with "
+            "one fill. Not judged: decorative icons (hidden from assistive technology beside "
+            "words, or neither in a control nor named) and disabled controls. Undetermined, "
+            "because geometry decides and tinctura does not lay pages out: an inset focus "
+            "outline (it lies on the element's own fill), SVG icons drawn with strokes or "
+            "several fills. Not checked: a focus indicator made of a colour change alone (its "
+            "contrast with the unfocused state), checkbox and radio marks, chart graphics."
+        ),
+        why=(
+            "An icon that is the only visible label of a control, such as a cross that closes a "
+            "panel, must be seen to be used. Readers with low vision need the same difference "
+            "in luminance for it as for large text."
+        ),
+        bad=Example(
+            html=_PAGE.format(
+                title="Tide alarms",
+                body='<button aria-label="Close the alarm list" style="color:#b8b8b8;'
+                     'background-color:#ffffff;border:0">\u00d7</button>',
+            ),
+            fg="#b8b8b8",
+            bg="#ffffff",
+            exempt="icon",
+            subject="\u00d7",
+            note="Light grey cross on white: 1.98:1, below 3:1 for a graphical object.",
+        ),
+        good=Example(
+            html=_PAGE.format(
+                title="Tide alarms",
+                body='<button aria-label="Close the alarm list" style="color:#767676;'
+                     'background-color:#ffffff;border:0">\u00d7</button>',
+            ),
+            fg="#767676",
+            bg="#ffffff",
+            exempt="icon",
+            subject="\u00d7",
+            note="Mid grey cross on white: 4.54:1, above 3:1.",
+        ),
+        fix=(
+            "Darken the icon (or lighten what is behind it) until it reaches 3:1. Where the icon "
+            "is not needed to use the control, hide it from assistive technology "
+            "(aria-hidden=\"true\") and give the control a visible text label instead."
+        ),
+        references=(
+            ("WCAG 2.2, Understanding SC 1.4.11 Non-text Contrast", SC_1_4_11.url),
+            ("WCAG 2.2, definition of text", "https://www.w3.org/TR/WCAG22/#dfn-text"),
+        ),
+    ),
+)
+
+_LINK_PAGE = (
+    '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Tide log</title>'
+    '<style>a{{color:{link};text-decoration:none}}{extra}</style></head>'
+    '<body style="margin:0;background-color:#ffffff;color:#1a1a1a"><p>Copy the readings '
+    'to the <a href="log.html">Subject: harbour log</a> before the next high water.</p>'
+    '</body></html>'
+)
+
+LINK_CUE = Rule(
+    code="TC120",
+    slug="link-cue",
+    title="Links told apart by colour alone",
+    family="links",
+    severity="error",
+    criteria=(SC_1_4_1,),
+    message=(
+        "a link in running text is told apart by colour alone: {problems} (WCAG SC 1.4.1, "
+        "technique G183)"
+    ),
+    docs=Docs(
+        checks=(
+            "Links inside a block of running text whose only cue at rest is colour (no "
+            "underline or other text decoration, border, box shadow, background of their own, "
+            "or weight change) must differ from the surrounding text by at least 3:1 (WCAG 2 "
+            "contrast ratio between the two text colours) and must get a cue other than colour "
+            "on hover and on keyboard focus (W3C technique G183; failure F73 describes links "
+            "that do neither). Keyboard focus counts the user agent's focus ring unless the "
+            "author removes the outline. Links alone in their block (a navigation list item, a "
+            "table cell or a paragraph holding only the link) are not judged: their place tells "
+            "them apart. Each colour scheme is judged on its own. The surrounding text is the "
+            "text colour of the link's parent element; what :hover or :focus changes on the "
+            "link's ancestors is not followed."
+        ),
+        why=(
+            "Readers who do not see the difference between the link colour and the text colour, "
+            "because of a colour-vision deficiency, low vision or a bright room, cannot find "
+            "the links in a paragraph. Underlines are the common cue; colour alone is enough "
+            "only when the difference is large and another cue appears on pointing or focus."
+        ),
+        bad=Example(
+            html=_LINK_PAGE.format(link="#2f5fa8", extra=""),
+            fg="#2f5fa8",
+            bg="#ffffff",
+            subject="Subject: harbour log",
+            surround="#1a1a1a",
+            cues=(),
+            hover=(),
+            focus=("outline",),
+            note="Blue #2f5fa8: 6.31:1 on white, but only 2.75:1 against the near-black "
+                 "#1a1a1a text around it, and no underline on hover.",
+        ),
+        good=Example(
+            html=_LINK_PAGE.format(link="#2f5fa8",
+                                   extra="p a{text-decoration:underline}"),
+            fg="#2f5fa8",
+            bg="#ffffff",
+            subject="Subject: harbour log",
+            surround="#1a1a1a",
+            cues=("underline",),
+            hover=("underline",),
+            focus=("outline", "underline"),
+            note="The same blue, underlined: 6.31:1 on white, and the underline tells it apart.",
+        ),
+        fix=(
+            "Underline links in running text (the simplest cue, and what readers expect), or "
+            "give them another cue that is not colour. If the design keeps colour alone, make "
+            "the link colour differ from the text colour by 3:1 and add an underline on :hover "
+            "and :focus."
+        ),
+        references=(
+            ("WCAG 2.2, Understanding SC 1.4.1 Use of Color", SC_1_4_1.url),
+            ("W3C technique G183: using a contrast ratio of 3:1 with surrounding text and "
+             "providing additional visual cues on hover and focus",
+             "https://www.w3.org/WAI/WCAG22/Techniques/general/G183"),
+            ("W3C failure F73: creating links that are not visually evident without color vision",
+             "https://www.w3.org/WAI/WCAG22/Techniques/failures/F73"),
+        ),
+    ),
+)
+
+RULES = (TEXT_RATIO, UI_RATIO, LINK_CUE, SURROUND_SHIFT, LOOKALIKE)

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from tinctura.colour.composite import over
 from tinctura.colour.parse import parse_color
-from tinctura.model import DETERMINED, REST, Sample
+from tinctura.model import DETERMINED, REST, LinkCues, Sample
 
 from .catalogue import Example
 
@@ -27,7 +27,7 @@ def make_sample(fg, bg, *, size_px: float = 16.0, weight: int = 400, bg_alternat
                 page: str = "index.html", scheme: str = "light", state: str = REST,
                 xpath: str = "/html/body/p", line: int = 1, text: str = "Sample text",
                 kind: str = "text", status: str = DETERMINED, reason: str = "",
-                exempt: str = "", fg_cause=None, bg_cause=None) -> Sample:
+                exempt: str = "", fg_cause=None, bg_cause=None, link=None) -> Sample:
     """A Sample of text ``fg`` on opaque ``bg`` (a translucent ``fg`` is composited over it)."""
     raw = rgba(fg)
     back = rgba(bg)[:3]
@@ -36,14 +36,20 @@ def make_sample(fg, bg, *, size_px: float = 16.0, weight: int = 400, bg_alternat
         fg=tuple(over(raw, back)[:3]), bg=back, fg_raw=raw,
         font_size_px=size_px, font_weight=weight, status=status, reason=reason,
         bg_alternatives=tuple(rgba(b)[:3] for b in bg_alternatives), exempt=exempt,
-        fg_cause=fg_cause, bg_cause=bg_cause,
+        fg_cause=fg_cause, bg_cause=bg_cause, link=link,
     )
 
 
 def example_sample(example: Example, **fields) -> Sample:
     """The sample a documented example renders."""
+    link = None
+    if example.surround:  # a link in running text (TC120)
+        link = LinkCues(tuple(over(rgba(example.surround), rgba(example.bg)[:3])[:3]),
+                        tuple(example.cues), tuple(example.hover), tuple(example.focus))
+    fields.setdefault("exempt", example.exempt)
     return make_sample(example.fg, example.bg, size_px=example.size_px, weight=example.weight,
-                       bg_alternatives=example.bg_alternatives, page="example.html", **fields)
+                       bg_alternatives=example.bg_alternatives, page="example.html", link=link,
+                       **fields)
 
 
 def example_samples(example: Example) -> list:

@@ -11,11 +11,15 @@ from tinctura.model import DETERMINED, Finding, Fix, Sample
 
 from .catalogue import TEXT_RATIO
 
+# samples of graphics and controls (extract/nontext.py), judged by TC110 only
+NOT_TEXT = frozenset({"boundary", "focus-ring", "svg-icon"})
+
 
 def judged(sample: Sample) -> bool:
     """True when a text rule can judge the sample: colours known and WCAG applies."""
     return (
         sample.status == DETERMINED
+        and sample.kind not in NOT_TEXT
         and not sample.exempt
         and sample.fg is not None
         and sample.bg is not None

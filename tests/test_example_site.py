@@ -63,6 +63,34 @@ def test_exempt_controls():
         assert float(row["ratio"]) == pytest.approx(wcag_ratio(row["fg"], row["bg"]), abs=0.006), row
 
 
+def test_icons_below_three_to_one():
+    """TC110 rows: Chromium's icon glyphs below 3:1 (WCAG 2.2 SC 1.4.11)."""
+    for row, entry in _match(table("nontext"), EXPECTED["nontext"], ("page", "scheme", "state")):
+        assert (row["fg"], row["bg"]) == (entry["fg"], entry["bg"]), row
+        assert float(row["ratio"]) == pytest.approx(wcag_ratio(row["fg"], row["bg"]), abs=0.006)
+        assert entry["ratio"] <= 3.0 - MARGIN, row
+
+
+def test_boundary_rows():
+    """Control boundaries below 3:1 (WCAG 2.2 SC 1.4.11), by the WCAG 2.2 formula."""
+    rows = table("boundary")
+    assert rows
+    for row in rows:
+        assert float(row["ratio"]) == pytest.approx(wcag_ratio(row["border"], row["around"]),
+                                                    abs=0.006), row
+        assert float(row["ratio"]) <= 3.0 - MARGIN, row
+
+
+def test_link_rows_compare_link_and_text_colours():
+    """TC120 rows: the ratio between link and surrounding text (W3C technique G183: 3:1)."""
+    rows = table("linkcue")
+    assert rows
+    for row in rows:
+        assert float(row["ratio"]) == pytest.approx(wcag_ratio(row["link"], row["surrounding text"]),
+                                                    abs=0.006), row
+        assert float(row["ratio"]) <= 3.0 - MARGIN, row
+
+
 def test_undetermined_backgrounds():
     entries = [dict(e, state="rest") for e in EXPECTED["undetermined"]]
     for row, entry in _match(table("undetermined"), entries, ("page", "scheme")):

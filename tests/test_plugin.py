@@ -20,7 +20,8 @@ def test_defaults():
                                    "viewport_width": 1280, "states": True, "log_every": False,
                                    "schemes": None, "jobs": None, "select": [], "ignore": [],
                                    "severity": {}, "allow": [], "baseline": None, "report": [],
-                                   "behaviours": (), "theme_behaviours": True, "palette": {}}
+                                   "behaviours": (), "theme_behaviours": True, "palette": {},
+                                   "no_exempt": [], "logotypes": []}
 
 
 @pytest.mark.parametrize("option, value, needle", [
@@ -33,6 +34,8 @@ def test_defaults():
     ("jobs", 0, "at least 1"),
     ("palette", {"fault": "not-a-colour"}, "neither a CSS colour nor a custom property"),
     ("palette", ["#c62828"], "expected a table of name = colour"),
+    ("no_exempt", ["disabled"], "unknown exemption"),
+    ("logotypes", ["p["], "cannot read selector"),
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "expected true or false"),
     ("log_every", 1, "expected true or false"),

@@ -189,5 +189,5 @@ def test_the_collector_builds_the_problems_group_builds(pages):
                                             c.worst_ratio, c.required, c.fg_cause, c.bg_cause)
         assert g.worst is c.worst
         assert examples(g.example_pool()) == examples(c.example_pool())
-        assert [index[id(f)] for f in g.findings] == c.indexes
+        assert [index[id(f)] for f in g.findings] == list(c.indexes)
         assert g.fix_at_cause == c.fix_at_cause

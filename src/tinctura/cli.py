@@ -70,16 +70,63 @@ def font_weight(text: str) -> int:
     return value
 
 
+def byte_size(text: str) -> int:
+    """A size in bytes: a whole number, optionally with K, M or G (powers of 1024)."""
+    units = {"k": 1 << 10, "m": 1 << 20, "g": 1 << 30}
+    scale = units.get(text[-1:].lower(), 1)
+    return positive_int(text[:-1] if scale > 1 else text) * scale
+
+
+def _limit_options(p: argparse.ArgumentParser) -> None:
+    """Bounds on hostile or broken input; the defaults are far above any real site."""
+    from tinctura.extract import bounds
+    from tinctura.extract.style import MAX_VAR_TOKENS
+
+    p.add_argument("--max-file-size", type=byte_size, default=bounds.MAX_FILE_BYTES,
+                   metavar="BYTES", help="pages and stylesheets larger than this are not read "
+                   f"(K, M, G suffixes; default {bounds.MAX_FILE_BYTES >> 20}M)")
+    p.add_argument("--max-elements", type=positive_int, default=bounds.MAX_ELEMENTS,
+                   metavar="N", help="pages with more elements are not checked "
+                   f"(default {bounds.MAX_ELEMENTS:,})")
+    p.add_argument("--max-rules", type=positive_int, default=bounds.MAX_RULES, metavar="N",
+                   help=f"style rules read per stylesheet (default {bounds.MAX_RULES:,})")
+    p.add_argument("--max-var-tokens", type=positive_int, default=MAX_VAR_TOKENS, metavar="N",
+                   help="a var() expansion longer than this is invalid "
+                        f"(default {MAX_VAR_TOKENS:,})")
+    p.add_argument("--allow-unchecked", action="store_true",
+                   help="pages and stylesheets that could not be read (binary, too large, "
+                        "broken) are reported but do not make the exit status 2")
+
+
+def _add_debug(parser: argparse.ArgumentParser) -> None:
+    """``--debug`` before or after the command: internal errors show their traceback."""
+    parser.add_argument("--debug", action="store_true",
+                        help="show the traceback of an internal error (for a bug report)")
+    for action in parser._actions:
+        if isinstance(action, argparse._SubParsersAction):
+            for sub in action.choices.values():
+                sub.add_argument("--debug", action="store_true", default=argparse.SUPPRESS,
+                                 help=argparse.SUPPRESS)
+
+
 def _site_options(p: argparse.ArgumentParser, command: str) -> None:
     p.add_argument("paths", nargs="*", metavar="PATH",
                    help="built site directories or HTML files (default: site_dir from the "
                         "configuration)")
     config.add_flags(p, command)  # every setting with a flag, from the one table
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+    _limit_options(p)
+
+
+class _Parser(argparse.ArgumentParser):
+    """Usage mistakes in one line (with where to find help), exit status 2."""
+
+    def error(self, message):
+        self.exit(2, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
 
 
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog=PROG,
         description="Check colour contrast in built documentation sites.",
     )
@@ -99,6 +146,9 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--write-fixes", metavar="FILE",
                        help="write every verified fix into one stylesheet FILE and say how to "
                             "add it to mkdocs.yml")
+    check.add_argument("--flat-findings", action="store_true",
+                       help="JSON report: list every finding in full (format 1) instead of "
+                            "each situation once with small occurrence records (format 2)")
     check.set_defaults(run=run_check)
 
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",
@@ -146,8 +196,10 @@ def build_parser() -> argparse.ArgumentParser:
 
     rules_cmd = sub.add_parser("rules", help="describe the rules",
                                description="Describe every rule, or one by code or slug.")
-    rules_cmd.add_argument("rule", nargs="?", metavar="RULE", help="a rule code or slug, e.g. TC100")
+    rules_cmd.add_argument("rule", nargs="?", metavar="RULE",
+                           help="a rule code or slug, e.g. TC100, or `exemptions`")
     rules_cmd.set_defaults(run=run_rules)
+    _add_debug(parser)
     return parser
 
 
@@ -172,7 +224,20 @@ def options_from(args) -> engine.Options:
         rules=chosen,
         severity=tuple(sorted(getattr(args, "severity", {}).items())),
         palette=palette_setting(getattr(args, "palette", None) or {}),  # checked by config
+        **limits_from(args),
+        exemptions=config.exemptions_kept(getattr(args, "no_exempt", [])),
+        logotypes=tuple(getattr(args, "logotypes", ()) or ()),
     )
+
+
+def limits_from(args) -> dict:
+    """The input bounds and --debug given on the command line, as Options fields."""
+    names = ("max_file_bytes", "max_elements", "max_rules", "max_var_tokens")
+    flags = ("max_file_size", "max_elements", "max_rules", "max_var_tokens")
+    found = {name: getattr(args, flag) for name, flag in zip(names, flags)
+             if getattr(args, flag, None) is not None}
+    found["debug"] = bool(getattr(args, "debug", False))
+    return found
 
 
 def settle(args, command: str) -> None:
@@ -270,6 +335,7 @@ def run_check(args, stdout, stderr) -> int:
         group=args.group,
         fail_on=args.fail_on,
         schemes=[getattr(s, "name", s) for s in result.schemes],
+        findings_layout="flat" if args.flat_findings else "compact",
         rules=options.rules,
         uri=built_uri(args.paths),
         source=markdown_source(args),
@@ -291,7 +357,7 @@ def run_check(args, stdout, stderr) -> int:
     if len(gone) > GONE_SHOWN:
         stderr.write(f"{PROG}: ... and {len(gone) - GONE_SHOWN:,} more gone (SARIF lists them "
                      f"all as absent)\n")
-    unreadable = input_errors(result, stderr)
+    unreadable = input_errors(result, stderr) and not args.allow_unchecked
     if args.write_baseline:  # the same as --format baseline:FILE, and exit 0
         with outputs.atomic_output(args.write_baseline) as fh:
             fh.write(baseline_mod.dumps(written, version()))
@@ -439,7 +505,7 @@ def run_pairs(args, stdout, stderr) -> int:
     for d in diagnostics_of(result):
         if d.severity != "error":
             stderr.write(f"{PROG}: {d.severity}: {where(d)}: {d.message}\n")
-    return exit_status(error=input_errors(result, stderr))
+    return exit_status(error=input_errors(result, stderr) and not args.allow_unchecked)
 
 
 def parse_pair_colour(text: str, what: str):
@@ -558,7 +624,30 @@ def describe_rule(rule, tw: TerminalWriter) -> None:
         tw.line(f"    {title}: {url}")
 
 
+def describe_exemptions(tw: TerminalWriter) -> None:
+    from tinctura.extract.exempt import EXEMPTIONS
+
+    tw.line("What the contrast rules leave out, and why (WCAG 2.2 scope)", "bold")
+    tw.line("  Each can be switched off with --no-exempt ID (plugin and configuration: no_exempt).")
+    for e in EXEMPTIONS:
+        tw.line()
+        tw.line(f"{e.id}: {e.title}" + (f" (judged by {e.judged_by})" if e.judged_by else ""),
+                "bold")
+        for line in textwrap.wrap("Applies to " + e.applies_to + ".", 84):
+            tw.line(f"    {line}")
+        for line in textwrap.wrap(f"{e.source}: \u201c{e.quote}\u201d", 84):
+            tw.line(f"    {line}")
+        tw.line(f"    {e.url}")
+        tw.line("  Exempt example", "bold")
+        tw.line(f"    {e.exempt_example}", "dim")
+        tw.line("  Judged example", "bold")
+        tw.line(f"    {e.judged_example}", "dim")
+
+
 def run_rules(args, stdout, stderr) -> int:
+    if args.rule and args.rule.strip().lower() in ("exemptions", "exempt", "scope"):
+        describe_exemptions(TerminalWriter(stdout))
+        return exit_status()
     if args.rule:
         try:
             chosen = [rules.get(args.rule)]
@@ -572,6 +661,9 @@ def run_rules(args, stdout, stderr) -> int:
         if n:
             tw.line()
         describe_rule(rule, tw)
+    if not args.rule:
+        tw.line()
+        describe_exemptions(tw)
     return exit_status()
 
 
@@ -583,11 +675,15 @@ def run_trace(args, stdout, stderr) -> int:
         raise UsageError(f"{args.page}: no such file")
     root = os.path.abspath(args.site) if args.site else _site_root(page)
     rel = os.path.relpath(page, root).replace(os.sep, "/")
+    from tinctura.extract.bounds import Refused
+
     try:
         result = trace(root, rel, args.target,
-                       engine.Options(viewport_width=args.viewport_width))
+                       engine.Options(viewport_width=args.viewport_width, **limits_from(args)))
     except LookupError as exc:
         raise UsageError(str(exc)) from None
+    except (Refused, ValueError) as exc:  # outside the site, too large, empty
+        raise UsageError(f"{args.page}: {exc}") from None
     stdout.write(format_trace(result) + "\n")
     return exit_status()
 
@@ -622,7 +718,13 @@ def main(argv=None, stdout=None, stderr=None) -> int:
     except OSError as e:  # a file that exists but cannot be read
         where = f"{e.filename}: " if e.filename else ""
         stderr.write(f"{PROG}: error: {where}{e.strerror or e}\n")
-    except Exception:
-        stderr.write(f"{PROG}: internal error (please report it with the traceback below)\n")
-        traceback.print_exc(file=stderr)
+    except Exception as exc:  # a bug in tinctura: never a silent pass
+        stderr.write(f"{PROG}: internal error: {type(exc).__name__}: {exc}\n")
+        if getattr(args, "debug", False):
+            traceback.print_exc(file=stderr)
+            stderr.write(f"{PROG}: please report this to the tinctura maintainers with the "
+                         "command, the input it read and the traceback above\n")
+        else:
+            stderr.write(f"{PROG}: please report this to the tinctura maintainers: run the same "
+                         "command again with --debug and send its output with the input\n")
     return exit_status(error=True)

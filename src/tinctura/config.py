@@ -213,6 +213,32 @@ def palette(value):
     return {str(name): str(colour) for name, colour in value.items()}
 
 
+def exemption_ids(value):
+    """Exemption ids (extract/exempt.py) -> the list; unknown ids are an error."""
+    from tinctura.extract import exempt
+
+    names = strings(value)
+    exempt.enabled_set(names)  # ValueError naming the unknown ones
+    return names
+
+
+def logotype_selectors(value):
+    from tinctura.extract import exempt
+
+    selectors = strings(value)
+    exempt.compile_logotypes(selectors)  # ValueError naming the selector
+    return selectors
+
+
+def exemptions_kept(no_exempt) -> tuple | None:
+    """``Options.exemptions`` from the ``no_exempt`` setting: None (all) when it is empty."""
+    from tinctura.extract import exempt
+
+    if not no_exempt:
+        return None
+    return tuple(i for i in exempt.IDS if i not in set(no_exempt))
+
+
 # -- command-line text -> a value the check accepts -------------------------------------------
 
 
@@ -335,6 +361,14 @@ SETTINGS = (
             "(TC300, TC310): name = CSS colour or custom property (--name); as a flag "
             "NAME=COLOUR, repeatable; default: discovered", flag="--palette",
             metavar="NAME=COLOUR", parse=palette_text, many=True),
+    Setting("no_exempt", exemption_ids, [], "judge what these exemptions leave out of the "
+            "contrast rules (ids in `tinctura rules exemptions`; default: WCAG's scope applies)",
+            flag="--no-exempt", metavar="ID", parse=lambda t: [t], many=True,
+            commands=("check", "pairs")),
+    Setting("logotypes", logotype_selectors, [], "CSS selectors of logos and brand names set as "
+            "text: exempt from the contrast ratio (WCAG SC 1.4.3 \"Logotypes\")",
+            flag="--logotype", metavar="SELECTOR", parse=lambda t: [t], many=True,
+            commands=("check", "pairs")),
 )
 
 BY_NAME = {s.name: s for s in SETTINGS}

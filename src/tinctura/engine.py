@@ -23,13 +23,19 @@ from urllib.parse import urlsplit
 
 from . import palette as palette_mod
 from . import problems as problems_mod
+from . import situations
 from .colour import wcag
+from .extract import bounds
 from .extract import behaviours as behaviour_mod
+from .extract import exempt as exempt_mod
+from .extract import links as link_mod
+from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
 from .extract.html import parse_html, parser_warnings
 from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
+from .extract.style import MAX_VAR_TOKENS
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
 from . import distribution  # the contrast ratios of each page, for the audit report
@@ -54,6 +60,18 @@ class Options:
     white_luminance: float = 80.0  # cd/m2 of the display white
     shift_threshold: float = 10.0  # TC300: CAM02-UCS units (rules/catalogue.py says why)
     lookalike_threshold: float = 15.0  # TC310: CAM02-UCS units
+    # share computed styles between elements and pages, and verdicts between equal colour
+    # situations (off: every element's cascade and every sample judged afresh; for tests)
+    share: bool = True
+    # bounds on hostile or broken input (extract/bounds.py); each is reported when hit
+    max_file_bytes: int = bounds.MAX_FILE_BYTES  # pages and stylesheets larger are not read
+    max_elements: int = bounds.MAX_ELEMENTS  # pages with more elements are not checked
+    max_rules: int = bounds.MAX_RULES  # style rules kept per stylesheet
+    max_var_tokens: int = MAX_VAR_TOKENS  # longer var() expansions are invalid
+    debug: bool = False  # internal errors keep their traceback in the diagnostic
+    # exemptions switched on (extract/exempt.py ids); None: all of them
+    exemptions: tuple | None = None
+    logotypes: tuple = ()  # CSS selectors of logos and brand names set as text (SC 1.4.3)
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
@@ -78,7 +96,9 @@ class Site:
     def __init__(self, root: str, options: Options | None = None):
         self.root = os.path.abspath(root)
         self.options = options or Options()
-        self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path)
+        self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path,
+                                  max_file_bytes=self.options.max_file_bytes,
+                                  max_rules=self.options.max_rules)
         self._caches = {}
         self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
             + tuple(self.options.behaviours)
@@ -106,16 +126,26 @@ class Site:
         path = os.path.join(self.root, rel)
         try:
             if html is None:
-                with open(path, "rb") as fh:
-                    html = fh.read()
+                html = bounds.read_inside(path, self.loader.real_root,
+                                          self.options.max_file_bytes)
             data = html.encode("utf-8") if isinstance(html, str) else html
             if _is_redirect(data):
                 result.skipped["redirect page"] = 1
                 return result
+            refused = _refuse_page(data, self.options)
+            if refused:
+                raise bounds.Refused(refused)
             root = parse_html(html)
             for line, message in parser_warnings():
                 result.diagnostics.append(Diagnostic(rel, message, line=line))
+            refused = _too_many_elements(root, data, self.options.max_elements)
+            if refused:
+                raise bounds.Refused(refused)
             self._script_behaviours(root, result)
+        except bounds.Refused as exc:  # outside the site (a warning); too large, binary
+            result.diagnostics.append(Diagnostic(rel, f"page not checked: {exc}",
+                                                 severity="warning" if exc.outside else "error"))
+            return result
         except (OSError, ValueError) as exc:
             message = exc.strerror if isinstance(exc, OSError) and exc.strerror else str(exc)
             result.diagnostics.append(Diagnostic(rel, f"cannot read page: {message}",
@@ -132,6 +162,11 @@ class Site:
             result.schemes = list(schemes)
             fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
             structure = PageStructure(root, ruleset.structure)  # likewise
+            # scope decisions mark the tree before any walk: the marks reach every style key
+            exemptions = exempt_mod.mark(root, exempt_mod.enabled_set(self.options.exemptions),
+                                         self.options.logotypes, structure.text,
+                                         source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
+                                         else data, per_link=link_mod.consider)
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 changed = [attr for _, attr, _ in scheme.attributes]
@@ -151,20 +186,20 @@ class Site:
                                         cache, self.options.viewport_width, result.skipped,
                                         keep_layers=self.options.keep_samples,
                                         lazy=not self.options.keep_samples,
-                                        fingerprints=fingerprints, replay=self.options.replay,
-                                        structure=structure)
+                                        fingerprints=fingerprints,
+                                        replay=self.options.replay and self.options.share,
+                                        structure=structure, share=self.options.share,
+                                        exemptions=exemptions)
+                    walker.resolver.max_var_tokens = self.options.max_var_tokens
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
+                    _report_resolver(walker.resolver, result.diagnostics)
                 finally:
                     restore()
                     _forget(fingerprints, restore.elements)
                     structure.changed(restore.elements, changed)
         except Exception as exc:  # report, keep the other pages
-            import traceback
-
-            result.diagnostics.append(Diagnostic(
-                rel, f"internal error while checking: {exc!r}\n{traceback.format_exc(limit=4)}",
-                severity="error"))
+            result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result
 
 
@@ -176,6 +211,44 @@ class Site:
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)
                 result.diagnostics.append(Diagnostic(result.page, note))
+
+
+def internal_error(rel: str, exc: BaseException, debug: bool = False) -> Diagnostic:
+    """An error in tinctura itself while checking a page: short, with what to report; the
+    traceback only when debugging."""
+    message = (f"page not checked: internal error ({type(exc).__name__}: {exc}); please report "
+               "it with the page and the output of the same command with --debug")
+    if debug:
+        import traceback
+
+        message += "\n" + "".join(traceback.format_exception(type(exc), exc, exc.__traceback__))
+    return Diagnostic(rel, message, severity="error")
+
+
+def _refuse_page(data: bytes, options: Options) -> str | None:
+    """Why a page's bytes are not checked (too large, not text), or None."""
+    if len(data) > options.max_file_bytes:
+        return bounds.too_large(len(data), options.max_file_bytes)
+    return bounds.not_text(data)
+
+
+def _too_many_elements(root, data: bytes, limit: int) -> str | None:
+    if data.count(b"<") <= limit:  # every element needs a tag: cheap upper bound
+        return None
+    count = sum(1 for _ in root.iter())
+    if count <= limit:
+        return None
+    return (f"{count:,} elements, above the limit of {limit:,} per page "
+            "(--max-elements)")
+
+
+def _report_resolver(resolver, diagnostics) -> None:
+    """Custom properties whose value was dropped for going past a bound, once per site."""
+    for (sheet, line, name), why in resolver.problems.items():
+        note = Diagnostic(sheet, f"{name}: {why}", line=line)
+        if note not in diagnostics:  # met again in another scheme's walk
+            diagnostics.append(note)
+    resolver.problems.clear()
 
 
 def _forget(fingerprints: dict, elements) -> None:
@@ -196,6 +269,69 @@ def evaluate(samples, options: Options) -> list:
 
     judge_gradients(samples, options.level)
     return rules.run(samples, options)
+
+
+# Verdicts by situation (``situations.sample_key``) per rule selection: a site repeats a few
+# hundred colour situations thousands of times (every navigation link in every state on every
+# page); each is judged once, and each further occurrence only gets a Finding that points at
+# the shared verdict. Bounded; rules are pure, so this only saves time.
+_JUDGED: dict = {}
+JUDGED_LIMIT = 50000
+
+
+def judge(samples, options: Options) -> list:
+    """``evaluate``, with each distinct situation judged once per process."""
+    return _judge(samples, options)[0]
+
+
+def _judge(samples, options: Options) -> tuple:
+    """(findings, their ``situations.finding_key``s)."""
+    judge_gradients(samples, options.level)
+    memo = _JUDGED.setdefault(verdict_key(options), {})
+    keys, todo = [], {}
+    for s in samples:
+        k = situations.sample_key(s)
+        keys.append(k)
+        if k not in memo and k not in todo:
+            todo[k] = s
+    if todo:
+        if len(memo) + len(todo) > JUDGED_LIMIT:
+            memo.clear()
+        from . import rules
+
+        found: dict = {}
+        for f in rules.run(list(todo.values()), options):
+            found.setdefault(id(f.sample), []).append(f)
+        for k, s in todo.items():
+            memo[k] = tuple(found.get(id(s), ()))
+    out, out_keys = [], []
+    for s, k in zip(samples, keys):
+        templates = memo.get(k)
+        if templates is None:  # cleared meanwhile: judge it alone
+            from . import rules
+
+            templates = tuple(rules.run([s], options))
+        for t in templates:
+            out.append(t if t.sample is s else situations.occurrence(t, s))
+            out_keys.append((t.rule, k))
+    return out, out_keys
+
+
+_VERDICT_KEYS: dict = {}  # id(options) -> (options, key): a run asks for every fragment
+
+
+def verdict_key(options: Options) -> str:
+    """What a verdict may depend on: every option but those that only say how to run."""
+    known = _VERDICT_KEYS.get(id(options))
+    cheap = (options.level, tuple(options.rules))  # what a caller might change in place
+    if known is not None and known[0] is options and known[2] == cheap:
+        return known[1]
+    key = repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
+                                   exclude=(), share=True))
+    if len(_VERDICT_KEYS) > 64:
+        _VERDICT_KEYS.clear()
+    _VERDICT_KEYS[id(options)] = (options, key, cheap)
+    return key
 
 
 def judge_gradients(samples, level: str) -> None:
@@ -242,7 +378,8 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
-    site_findings = sorted(judge_site(report.palette, options), key=_finding_order)
+    site_findings = sorted(judge_site(report.palette, options),
+                           key=lambda f: _finding_order(f, (None, f.sample.xpath, f.sample.line)))
     if findings_to is None:
         report.findings.extend(site_findings)
     elif site_findings:  # after every page: reports list them last, under the whole site
@@ -298,33 +435,41 @@ def _process(site, rel, options, judged, html=None):
     page = site.check_page(rel, html=html)
     if not judged:
         return page
-    findings = evaluate(page.samples, options)
+    if options.share:
+        findings, keys = _judge(page.samples, options)
+    else:
+        findings, keys = evaluate(page.samples, options), None
     uses = problems_mod.declaration_uses(page.samples)
     page.palette = palette_mod.collect_for(page.samples, options)
+    more = []
     if not options.keep_samples:
         page.stats = sample_stats(page.samples)
-        _judge_replays(page, findings, uses, options)
+        more = _judge_replays(page, uses, options)
         page.samples = []  # (their layer lists were not built: reports name the causes)
     page.replays = []
-    findings.sort(key=_finding_order)
-    return page, findings, uses
+    # findings as situations and places: replayed ones are never built, and a worker sends
+    # each situation once
+    return page, situations.PageFindings.build(page.page, findings, keys, more,
+                                               _finding_order), uses
 
 
-def _finding_order(f) -> tuple:
-    s = f.sample
-    return (s.line, s.xpath, s.scheme, s.state, f.rule)
+def _finding_order(template, where) -> tuple:
+    """Report order within a page: line, XPath, scheme, state, rule."""
+    s = template.sample
+    return (where[2], where[1], s.scheme, s.state, template.rule)
 
 
-def _judge_replays(page, findings, uses, options) -> None:
-    """Add what the replayed fragments contribute: their findings, re-stamped for this page,
-    their declaration uses and their counts. Each fragment is judged once per site."""
+def _judge_replays(page, uses, options) -> list:
+    """What the replayed fragments contribute: their findings as ``(template, key, place)``
+    for this page (returned), their declaration uses and their counts (added to ``uses`` and
+    the page's stats). Each fragment is judged once per site."""
+    found = []
     tally = {}  # verdict id -> [verdict, occurrences]
-    key = (options.level, tuple(options.rules))
+    key = verdict_key(options)
     for fragment, stamp in page.replays:
         verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
-        for rel, old_base, finding in verdict.findings:
-            findings.append(dataclasses.replace(
-                finding, sample=stamp.within(rel).sample(finding.sample, old_base)))
+        for rel, old_base, finding, fkey in verdict.findings:
+            found.append((finding, fkey, stamp.within(rel).place(finding.sample, old_base)))
         entry = tally.get(id(verdict))
         if entry is None:
             tally[id(verdict)] = [verdict, 1]
@@ -337,10 +482,12 @@ def _judge_replays(page, findings, uses, options) -> None:
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
+    return found
 
 
 class _Verdict:
-    """A fragment judged once: findings as (relative XPath, base, finding), declaration uses
+    """A fragment judged once: findings as (relative XPath, base, finding, its situation key),
+    declaration uses
     (with a hashable form, so that equal ones merge once) and counts. Equal uses and counts
     are one shared object: a large navigation has thousands of fragments and few distinct
     verdicts."""
@@ -354,6 +501,7 @@ class _Verdict:
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
         self.stats = _canonical(("stats", stats["samples"], stats["exempt"],
+                                 tuple(sorted(stats["exempt_reasons"].items())),
                                  tuple(sorted(stats["undetermined"].items())),
                                  tuple(stats["schemes"]),
                                  distribution.key(stats.get("ratios", {}))), stats)
@@ -374,18 +522,18 @@ def _canonical(key, value):
 
 
 def _verdict(fragment, options) -> _Verdict:
-    key = (options.level, tuple(options.rules))
+    key = verdict_key(options)
     verdict = fragment.verdicts.get(key)
     if verdict is not None:
         return verdict
     samples = fragment.samples()
-    found = [("", fragment.base, f) for f in evaluate(samples, options)]
+    found = [("", fragment.base, f, k) for f, k in zip(*_judge(samples, options))]
     uses = problems_mod.declaration_uses(samples)
     stats = sample_stats(samples)
     palette = palette_mod.collect_for(samples, options)
     for rel, nested in fragment.nested():
         inner = _verdict(nested, options)
-        found.extend((rel + deeper, base, f) for deeper, base, f in inner.findings)
+        found.extend((rel + deeper, base, f, k) for deeper, base, f, k in inner.findings)
         problems_mod.merge_uses(uses, inner.uses)
         palette_mod.merge(palette, inner.palette)
         _add_stats(stats, inner.stats)
@@ -397,13 +545,21 @@ def _verdict(fragment, options) -> _Verdict:
 
 
 def sample_stats(samples) -> dict:
-    """What the summary needs of a page's samples once they are dropped."""
-    undetermined = {}
+    """What the summary needs of a page's samples once they are dropped. The counts are of
+    texts: samples of controls and graphics (``extract/nontext.py``) are judged by TC110 but
+    not counted as texts."""
+    undetermined, exempt = {}, {}
+    texts = 0
     for s in samples:
-        if s.status == UNDETERMINED and not s.exempt:
+        if s.kind in NON_TEXT:
+            continue
+        texts += 1
+        if s.exempt:
+            exempt[s.exempt] = exempt.get(s.exempt, 0) + 1
+        elif s.status == UNDETERMINED:
             key = s.reason or "unknown"
             undetermined[key] = undetermined.get(key, 0) + 1
-    return {"samples": len(samples), "exempt": sum(1 for s in samples if s.exempt),
+    return {"samples": texts, "exempt": sum(exempt.values()), "exempt_reasons": exempt,
             "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples}),
             "ratios": distribution.histogram(samples)}  # for the audit report's chart
 
@@ -411,6 +567,8 @@ def sample_stats(samples) -> dict:
 def _add_stats(into: dict, more: dict, times: int = 1) -> None:
     into["samples"] += more["samples"] * times
     into["exempt"] += more["exempt"] * times
+    for reason, count in more["exempt_reasons"].items():
+        into["exempt_reasons"][reason] = into["exempt_reasons"].get(reason, 0) + count * times
     for reason, count in more["undetermined"].items():
         into["undetermined"][reason] = into["undetermined"].get(reason, 0) + count * times
     distribution.merge(into.setdefault("ratios", {}), more.get("ratios", {}), times)

@@ -128,10 +128,23 @@ class Sample:
     bg_layers: tuple = ()  # tuple[Layer], top-most first
     bg_cause: Optional[Cause] = None  # the layer that made the background opaque
     surround: Optional[RGB] = None  # colour of the area around the element's background
+    link: Optional["LinkCues"] = None  # a link in running text: what SC 1.4.1 needs (TC120)
 
     @property
     def fg_alpha_raw(self) -> float:
         return 1.0 if self.fg_raw is None else self.fg_raw[3]
+
+
+@dataclass(frozen=True, slots=True)
+class LinkCues:
+    """A link inside running text, as the walk saw it (``extract/links.py``): the colour of the
+    text around it and the cues other than colour that tell it apart, per state. Carried on the
+    link's own sample so that TC120 judges one sample at a time."""
+
+    surround: Optional[RGB]  # the surrounding text's colour as the reader sees it (over bg)
+    rest: tuple = ()  # non-colour cues at rest: "underline", "border", "shadow", "weight"...
+    hover: tuple = ()  # non-colour cues with :hover (those of rest included)
+    focus: tuple = ()  # likewise with :focus / :focus-visible ("outline" for a focus ring)
 
 
 @dataclass(slots=True)

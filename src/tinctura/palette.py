@@ -32,6 +32,7 @@ from dataclasses import dataclass, field
 from functools import lru_cache
 
 from .colour.convert import linear_srgb_to_oklab, quantize, srgb_to_linear
+from .extract.nontext import KINDS as NONTEXT_KINDS
 from .model import DETERMINED, REST
 
 EXAMPLES = 3  # example locations kept per distinct use
@@ -109,7 +110,8 @@ def collect(samples, palette: tuple = ()) -> dict:
     uses: dict = {}
     memo = _memo(palette)
     for s in samples:
-        if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None:
+        if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None \
+                or s.kind in NONTEXT_KINDS:  # control boundaries, focus rings: not a colour code
             continue
         for entry in _entries_of(memo, s.fg_cause, s.fg, palette):
             _add(uses, (entry, "text", quantize(s.fg), quantize(s.bg), s.scheme), s, s.fg_cause)

@@ -9,6 +9,7 @@ declaration fixes them all. Pure: records in, records out.
 from __future__ import annotations
 
 import re
+from array import array
 from functools import lru_cache
 from dataclasses import dataclass, field
 from typing import Optional
@@ -193,7 +194,11 @@ class Collector:
     """Problems built finding by finding, in run order, keeping per problem only what reports
     need (count, pages, worst, a few example candidates, indexes, backgrounds): the findings
     themselves can go to disk (``report.store``), so memory does not grow with them. Gives the
-    same problems as ``group`` over the same findings."""
+    same problems as ``group`` over the same findings.
+
+    ``add(finding, situation)``: with the finding's situation number (``FindingStore.add``), an
+    occurrence of a situation already seen costs a count, an index and its page: its problem,
+    severity, ratio and backgrounds are those of the first one."""
 
     EXAMPLES = 3  # as many as a report shows (text_report.EXAMPLES)
 
@@ -201,14 +206,28 @@ class Collector:
         self._buckets: dict = {}  # problem key -> Problem
         self._pages: dict = {}  # problem key -> its pages
         self._seen: dict = {}  # problem key -> findings seen so far
+        self._situations: dict = {}  # situation number -> problem key
+        self.situations: dict = {}  # problem key -> its situation numbers, first seen first
         self._count = 0
 
-    def add(self, finding: Finding, index: int | None = None) -> None:
+    def add(self, finding: Finding, index: int | None = None,
+            situation: Optional[int] = None) -> None:
         """``index``: the finding's place in the run's report when not every finding of the
         run is added (suppressed and baseline-known ones are listed but not grouped)."""
         index = self._count if index is None else index
         self._count += 1
+        key = self._situations.get(situation) if situation is not None else None
+        if key is not None:
+            p = self._buckets[key]
+            p.count += 1
+            p.indexes.append(index)
+            p.schemes[finding.sample.scheme].count += 1  # a known situation: same scheme, ratio
+            self._note_page(key, p, finding.sample.page, lambda: finding)
+            return
         key = problem_key(finding)
+        if situation is not None:
+            self._situations[situation] = key
+            self.situations.setdefault(key, []).append(situation)
         p = self._buckets.get(key)
         if p is None:
             s = finding.sample
@@ -216,7 +235,7 @@ class Collector:
                 rule=finding.rule, slug=finding.slug, severity=finding.severity,
                 scheme=s.scheme, fg_cause=s.fg_cause, bg_cause=s.bg_cause, pages=0,
                 worst_ratio=finding.ratio, required=finding.required, count=0,
-                worst_finding=finding, candidates=[], indexes=[], backgrounds={})
+                worst_finding=finding, candidates=[], indexes=array("L"), backgrounds={})
             self._pages[key] = set()
             self._seen[key] = 0
         p.count += 1
@@ -228,14 +247,38 @@ class Collector:
             p.worst_finding = finding
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
-        pages, page = self._pages[key], finding.sample.page
+        self._note_page(key, p, finding.sample.page, lambda: finding)
+        _add_backgrounds(p.backgrounds, finding.sample)
+
+    def add_records(self, page: str, records, templates, indexes=None) -> None:
+        """``add`` for ``FindingStore.add``'s records of ``page`` (``templates``: the store's
+        situations; ``indexes``: as ``add``'s, one per record): a finding is built only where
+        one is kept (the first of a situation, an example candidate)."""
+        from tinctura.situations import rebuild
+
+        known, buckets = self._situations, self._buckets
+        for n, r in enumerate(records):
+            index = None if indexes is None else indexes[n]
+            key = known.get(r[0])
+            if key is None:
+                self.add(rebuild(templates[r[0]], r[1:], page), index, situation=r[0])
+                continue
+            p = buckets[key]
+            p.count += 1
+            p.schemes[templates[r[0]].sample.scheme].count += 1
+            p.indexes.append(self._count if index is None else index)
+            self._count += 1
+            self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
+
+    def _note_page(self, key, p, page, finding) -> None:
+        pages = self._pages[key]
         new_page = page not in pages
-        pages.add(page)
+        if new_page:
+            pages.add(page)
         # examples take the first finding of each of the first pages, then the earliest ones
         if (new_page and len(pages) <= self.EXAMPLES) or self._seen[key] < 2 * self.EXAMPLES:
-            p.candidates.append(finding)
+            p.candidates.append(finding())
         self._seen[key] += 1
-        _add_backgrounds(p.backgrounds, finding.sample)
 
     def problems(self, uses: dict) -> list:
         out = []
@@ -280,8 +323,14 @@ def _add_backgrounds(bucket: dict, sample) -> None:
 _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgrounds
 
 
-def fix_at_cause(problem: Problem, uses: dict) -> CauseFix | None:
-    if problem.required <= 1.0:  # no ratio is required (site-level appearance rules)
+# Rules whose verdict is not a colour against the background: no colour fix at the cause (TC120
+# is met by an underline or another cue; the rule's documentation says how)
+NO_COLOUR_FIX = frozenset({"TC120"})
+
+
+def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
+    if problem.rule in NO_COLOUR_FIX or problem.required <= 1.0:
+        # (no ratio is required: the site-level appearance rules)
         return None
     declaration = target_declaration(problem.fg_cause)
     backgrounds: dict = {}  # background -> schemes it appears in

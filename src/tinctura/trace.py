@@ -11,11 +11,13 @@ import os
 from dataclasses import dataclass, field
 
 import cssselect2
+import lxml.etree
 import tinycss2
 
 from .colour.convert import to_hex
 from .colour.wcag import contrast_ratio, truncate
 from .engine import Options, Site
+from .extract import bounds
 from .extract import schemes as scheme_mod
 from .extract.html import own_text, parse_html
 from .extract.media import Environment
@@ -50,8 +52,14 @@ class Trace:
 def find_element(root, target: str):
     target = target.strip()
     if target.startswith("/"):
-        found = root.xpath(target)
-        return found[0] if found and not isinstance(found[0], str) else None
+        try:
+            found = root.xpath(target)
+        except lxml.etree.XPathError as exc:
+            raise LookupError(f"not a valid XPath: {target!r} ({exc})") from None
+        if not isinstance(found, list):  # count(), string(): a value, not an element
+            raise LookupError(f"the XPath {target!r} selects a value, not an element")
+        found = [el for el in found if isinstance(el, lxml.etree._Element)]
+        return found[0] if found else None
     try:
         compiled = cssselect2.compile_selector_list(tinycss2.parse_component_value_list(target))
         wrapper = cssselect2.ElementWrapper.from_html_root(root)
@@ -73,8 +81,7 @@ def trace(site_root: str, page: str, target: str, options: Options | None = None
     options = options or Options()
     site = Site(site_root, options)
     path = os.path.join(site.root, page)
-    with open(path, "rb") as fh:
-        root = parse_html(fh.read())
+    root = parse_html(bounds.read_inside(path, site.loader.real_root, options.max_file_bytes))
     el = find_element(root, target)
     if el is None:
         raise LookupError(f"{page}: no element matches {target!r}")

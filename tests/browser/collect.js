@@ -282,6 +282,66 @@ function chainOf(el, pseudo) {
   return layers;
 }
 
+// WCAG 2.2 scope of SC 1.4.3, decided from the browser's DOM: ":disabled" as Chromium matches it
+// (native controls, and everything a disabled fieldset disables but its first legend),
+// label.control, aria-labelledby, aria-hidden, and the characters of the text (Unicode
+// properties as the JavaScript engine knows them). Colours are compared by the caller.
+const DISABLEABLE = new Set(("application button checkbox combobox grid gridcell group link listbox " +
+  "menu menubar menuitem menuitemcheckbox menuitemradio option radio radiogroup row scrollbar " +
+  "searchbox separator slider spinbutton switch tab tablist tabpanel textbox toolbar tree treegrid " +
+  "treeitem").split(" "));
+const IMPLICIT = {button: "button", select: "combobox", textarea: "textbox", fieldset: "group",
+                  details: "group", optgroup: "group", option: "option", summary: "button", tr: "row"};
+function roleOf(e) {
+  const explicit = (e.getAttribute("role") || "").trim().split(/\s+/)[0];
+  if (explicit) return explicit.toLowerCase();
+  const tag = e.localName;
+  if (tag === "a") return e.hasAttribute("href") ? "link" : "";
+  if (tag === "input") return "textbox";
+  return IMPLICIT[tag] || "";
+}
+const PUA = /^[\s\uE000-\uF8FF]+$/u;
+function named(e) {
+  return ["aria-label", "aria-labelledby", "title"].some(a => (e.getAttribute(a) || "").trim());
+}
+function inactive(el) {  // inside a :disabled control; a disabled fieldset's first legend is not
+  for (let e = el; e; e = e.parentElement) {
+    if (!e.matches(":disabled")) continue;
+    if (e.localName !== "fieldset") return true;
+    const legend = [...e.children].find(c => c.localName === "legend");
+    if (!(legend && legend.contains(el))) return true;
+  }
+  return false;
+}
+function scopeOf(el, text) {
+  if (inactive(el)) return "inactive-control";
+  const label = el.closest("label");
+  if (label && label.control && label.control.matches(":disabled")) return "inactive-label";
+  for (const c of document.querySelectorAll(":disabled[aria-labelledby]")) {
+    for (const id of c.getAttribute("aria-labelledby").trim().split(/\s+/)) {
+      const target = document.getElementById(id);
+      if (target && target.contains(el)) return "inactive-label";
+    }
+  }
+  for (let e = el; e; e = e.parentElement) {
+    if ((e.getAttribute("aria-disabled") || "").trim().toLowerCase() === "true" && DISABLEABLE.has(roleOf(e)))
+      return "inactive-widget";
+  }
+  const hidden = !!el.closest('[aria-hidden="true" i]');
+  const control = el.closest("a[href], button, summary");
+  if (PUA.test(text)) {
+    const visibleWords = control && [...control.querySelectorAll("*"), control].some(
+      d => !d.closest('[aria-hidden="true" i]') && ownText(d) && !PUA.test(ownText(d)));
+    const meaningful = hidden ? (control && !visibleWords) : (control || named(el));
+    return meaningful ? "icon" : "decorative-icon";
+  }
+  if (hidden) return /[\p{L}\p{N}]/u.test(text) ? "hidden" : "decoration";
+  const glyphs = [...text.replace(/\s/g, "")];
+  if (control && named(control) && glyphs.length === 1 && !/\p{N}/u.test(glyphs[0]) &&
+      control.textContent.replace(/\s+/g, " ").trim() === text.trim()) return "icon";
+  return "";
+}
+
 function sample(el, pseudo, kind, text) {
   const layers = chainOf(el, pseudo);
   const computed = layers[0].computed;
@@ -292,6 +352,7 @@ function sample(el, pseudo, kind, text) {
     font_size_px: parseFloat(computed.fontSize), font_weight: parseInt(computed.fontWeight, 10),
     fg_computed: raw, status: "determined", reason: "",
     disabled: !!(el.matches(":disabled") || el.closest(":disabled")),
+    scope: scopeOf(el, text || ""),
   };
   if (pseudo) rec.pseudo = pseudo;
   if (!colour) {
@@ -308,6 +369,7 @@ function sample(el, pseudo, kind, text) {
   }
   rec.fg = hex(p.fg);
   rec.bg = hex(p.bg);
+  if (rec.scope === "hidden") rec.scope = rec.fg === rec.bg ? "invisible" : "";
   rec.fg_float = p.fg;
   rec.bg_float = p.bg;
   rec.fg_raw = colour;

@@ -59,9 +59,12 @@ def _entry(sample: dict, source: str) -> dict:
     return entry
 
 
+ICON_RATIO = 3.0  # WCAG 2.2 SC 1.4.11 Non-text Contrast: 3:1
+
+
 def build(records) -> dict:
     """Findings (determined, failing), exempt failures and undetermined samples."""
-    source, findings, exempt, undetermined = "chromium", [], [], []
+    source, findings, exempt, undetermined, nontext = "chromium", [], [], [], []
     for r in records:
         if r["type"] == "meta":
             source = r["source"]
@@ -73,8 +76,12 @@ def build(records) -> dict:
             if ratio >= need:
                 continue
             entry = dict(_entry(r, source), ratio=round(ratio, 3))
-            (exempt if r.get("disabled") else findings).append(
-                dict(entry, exempt="disabled control") if r.get("disabled") else entry)
+            # "scope": the WCAG 2.2 scope decided in the page (collect.js); older sample files
+            # carry only "disabled"
+            scope = r["scope"] if "scope" in r else ("inactive-control" if r.get("disabled") else "")
+            if scope == "icon" and ratio < ICON_RATIO:
+                nontext.append(dict(entry, exempt=scope))
+            (exempt if scope else findings).append(dict(entry, exempt=scope) if scope else entry)
         else:
             entry = dict(_entry(r, source), reason=r["reason"])
             if r.get("images"):
@@ -97,6 +104,8 @@ def build(records) -> dict:
         "findings": sorted(findings, key=order),
         "exempt": sorted(exempt, key=order),
         "undetermined": sorted(undetermined, key=order),
+        # icon glyphs (not text in a human language) below 3:1: WCAG 2.2 SC 1.4.11 (TC110)
+        "nontext": sorted(nontext, key=order),
     }
 
 

@@ -63,3 +63,73 @@ def test_the_root_element_is_keyed_by_its_attributes(tmp_path):
     })
     assert got[("a.html", "grey page")] == "#555555"
     assert got[("b.html", "black page")] == "#000000"
+
+
+# -- keys hold what a selector reads, no more ---------------------------------------------------
+# Expected colours: Selectors 4 (:first-child, :nth-child, :nth-of-type, :has, the child and
+# next-sibling combinators) applied by hand to the HTML below.
+
+def structural_ids(site_dir, body: str, css: str) -> tuple:
+    """(the page's elements by id attribute -> structural id, the RuleSet) of one page."""
+    from tinctura.extract.html import parse_html
+    from tinctura.extract.structure import PageStructure
+
+    (site_dir / "site.css").write_text(css)
+    html = (f'<!doctype html><html><head><link rel="stylesheet" href="site.css"></head>'
+            f'<body>{body}</body></html>')
+    (site_dir / "a.html").write_text(html)
+    site = Site(str(site_dir), Options(states=False))
+    root = parse_html(html.encode())
+    ruleset, _ = site.loader.ruleset_for(root, str(site_dir / "a.html"))
+    page = PageStructure(root, ruleset.structure)
+    ids, todo = {}, [root]
+    while todo:
+        el = todo.pop()
+        for child, ident, _ in page.children(el):
+            if child.get("id"):
+                ids[child.get("id")] = ident
+            todo.append(child)
+    return ids, ruleset
+
+
+NAV = ('<nav class="side"><ul><li id="a" class="item">A</li>'
+       '<li id="b" class="item active">B</li><li id="c" class="item">C</li>'
+       '<li id="d" class="item">D</li></ul></nav><ol><li id="e">E</li><li id="f">F</li></ol>')
+
+
+def test_first_child_reads_only_whether_a_sibling_comes_before(tmp_path):
+    ids, _ = structural_ids(tmp_path, NAV, ".side ul > li:not(:first-child) { color: #555 }")
+    assert ids["a"] != ids["c"]  # first or not
+    assert ids["c"] == ids["d"]  # later items share although their previous siblings differ
+    # an <li> outside .side cannot match: its siblings are not in its key
+    assert ids["e"] == ids["f"]
+
+
+def test_nth_child_reads_positions_and_plus_reads_the_siblings(tmp_path):
+    ids, _ = structural_ids(tmp_path, NAV, "li:nth-child(2n) { color: #555 }")
+    assert len({ids[k] for k in "abcd"}) == 4  # positions 1-4 from both ends all differ
+    ids, _ = structural_ids(tmp_path, NAV, ".active + li { color: #555 }")
+    assert ids["c"] != ids["d"]  # right after the active item or not
+
+
+def test_first_child_colours_follow_the_position(tmp_path):
+    got = colours(tmp_path, {
+        "a.html": ("", '<ul class="n"><li class="x">one</li><li>two</li><li>three</li></ul>'),
+        "b.html": ("", '<ul class="n"><li>uno</li><li class="x">dos</li><li>tres</li></ul>'),
+    }, css=".n > li:not(:first-child) { color: #555555 }")
+    assert got[("a.html", "one")] == got[("b.html", "uno")] == "#000000"
+    assert {got[k] for k in [("a.html", "two"), ("a.html", "three"), ("b.html", "dos"),
+                             ("b.html", "tres")]} == {"#555555"}
+
+
+def test_has_keeps_only_the_elements_it_can_match_apart(tmp_path):
+    body = ('<table id="t1"><tr><td><code>x</code></td></tr></table>'
+            '<table id="t2"><tr><td>y</td></tr></table><p id="p1">a</p><p id="p2">b</p>'
+            '<table id="t3"><tr><td>z <b>w</b> <code>v</code></td></tr></table>')
+    ids, ruleset = structural_ids(tmp_path, body, "table:has(code) { color: #555 }")
+    assert not ruleset.uses_has  # analysed: sharing stays on
+    assert ids["t1"] != ids["t2"]  # :has(code) holds for one, not the other
+    assert ids["t1"] == ids["t3"]  # different subtrees, same answer: what the cascade reads
+    assert ids["p1"] == ids["p2"]
+    _, ruleset = structural_ids(tmp_path, body, "table:has(+ p) { color: #555 }")
+    assert ruleset.uses_has  # a :has() that reads siblings: nothing is shared

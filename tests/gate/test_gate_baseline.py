@@ -1,12 +1,14 @@
 """Fingerprints survive edits elsewhere; a baseline fails only on new findings."""
 import json
 
+from tinctura.report.json_report import expand
+
 from gate_helpers import CASTING, TUNING, call, site  # noqa: F401  (site: a fixture)
 
 
 def fingerprints(site, *extra):
     status, out, _ = call("check", site, "--format", "json", "--jobs", 1, *extra)
-    return status, [(f["page"], f["fingerprint"], f["baseline"]) for f in json.loads(out)["findings"]]
+    return status, [(f["page"], f["fingerprint"], f["baseline"]) for f in expand(json.loads(out))]
 
 
 def test_fingerprints_ignore_edits_elsewhere_and_sibling_indexes(site):

@@ -9,7 +9,7 @@ from tinctura.engine import Options
 from tinctura.model import Cause, Declaration, Diagnostic, PageResult, UNDETERMINED
 from tinctura.problems import group
 from tinctura.report import DISCLAIMER, Header, render
-from tinctura.report.json_report import sample_dict, schema
+from tinctura.report.json_report import expand, sample_dict, schema
 from tinctura.rules import run
 from tinctura.rules.examples import make_sample
 
@@ -20,15 +20,43 @@ def decl(prop, value, line):
     return Declaration(prop, value, "assets/site.css", line, ".x", "author")
 
 
-def build(samples, diagnostics=()):
+def build(samples, diagnostics=(), layout="flat"):
     findings = run(samples, Options())
     problems = group(findings, samples)
     names = sorted({s.page for s in samples})
     pages = [PageResult(n, [s for s in samples if s.page == n], {"hidden": 2}) for n in names]
     out = io.StringIO()
-    render(out, "json", Header(version="1.2.3", level="AA", schemes=["light", "dark"]), pages,
+    render(out, "json", Header(version="1.2.3", level="AA", schemes=["light", "dark"],
+                               findings_layout=layout), pages,
            findings, problems, list(diagnostics))
     return json.loads(out.getvalue())
+
+
+@pytest.mark.parametrize("layout", ["flat", "compact"])
+def test_both_layouts_validate(layout):
+    doc = build(samples(), [Diagnostic("x.css", "cannot read", 3, "error")], layout=layout)
+    VALIDATOR(schema()).validate(doc)
+    assert doc["format_version"] == (1 if layout == "flat" else 2)
+
+
+def test_compact_layout_holds_the_flat_findings_and_problems():
+    """Format 2 writes each situation once; put back together, its findings are format 1's,
+    in the same order, and each problem covers the same findings."""
+    first = samples()[0]
+    again = make_sample("#777", "white", page="b.html", fg_cause=first.fg_cause,
+                        bg_cause=first.bg_cause, line=9, xpath="/html/body/p[4]", text="Reap")
+    flat = build(samples() + [again])
+    compact = build(samples() + [again], layout="compact")
+    assert expand(compact) == flat["findings"]
+    assert len(compact["situations"]) == len(flat["findings"]) - 1  # one situation, twice
+    order = [(p["page"], occ[0]) for p in compact["pages"] for occ in p["occurrences"]]
+    for fp, cp in zip(flat["problems"], compact["problems"]):
+        assert {k: v for k, v in fp.items() if k != "findings"} == \
+            {k: v for k, v in cp.items() if k != "situations"}
+        assert fp["findings"] == [i for i, (_, sid) in enumerate(order)
+                                  if sid in cp["situations"]]
+        assert all(compact["situations"][sid]["problem"] == compact["problems"].index(cp)
+                   for sid in cp["situations"])
 
 
 def samples():

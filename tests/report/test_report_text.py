@@ -125,7 +125,7 @@ def test_summary_counts_skipped_exempt_and_diagnostics():
     pytest.LineMatcher(text.splitlines()).fnmatch_lines([
         "Not everything could be checked:",
         "  assets/remote.css: warning: remote stylesheet not loaded",
-        "Checked 4 pages *; 1 undetermined (background image 1); 1 exempt; 12 skipped (hidden 12); 1 diagnostic.",
+        "Checked 4 pages *; 1 undetermined (background image 1); 1 exempt (disabled control 1); 12 skipped (hidden 12); 1 diagnostic.",
     ])
 
 

@@ -13,7 +13,7 @@ import pytest
 
 from tinctura import engine, palette
 from tinctura.cli import main
-from tinctura.report.json_report import schema
+from tinctura.report.json_report import expand, schema
 from tinctura.rules import appearance
 
 CSS = """
@@ -129,7 +129,7 @@ def test_text_and_json_reports_list_every_context(status_site):
                  "--fail-on", "never"], out, err) == 0, err.getvalue()
     doc = json.loads(out.getvalue())
     jsonschema.Draft202012Validator(schema()).validate(doc)
-    shift = next(f for f in doc["findings"] if f["rule"] == "TC300")
+    shift = next(f for f in expand(doc) if f["rule"] == "TC300")
     assert shift["appearance"]["entry"] == ".chip.caution"
     assert {c["background"] for c in shift["appearance"]["contexts"]} == {"#ffffff", "#1e2530"}
     assert all(c["declaration"].startswith("site.css:") for c in shift["appearance"]["contexts"])
@@ -153,7 +153,7 @@ def test_cli_palette_option(status_site):
           "--format", "json", "--palette", "stop=#c62828", "--palette", "go=#2e7d32"],
          out, io.StringIO())
     doc = json.loads(out.getvalue())
-    looks = [f["appearance"] for f in doc["findings"] if f["rule"] == "TC310"]
+    looks = [f["appearance"] for f in expand(doc) if f["rule"] == "TC310"]
     assert [(a["entry"], a["other"]) for a in looks] == [("go", "stop")]
 
 

@@ -52,13 +52,15 @@ needs_engine = pytest.mark.skipif(
 def test_example_html_renders_what_the_docs_say(tmp_path, rule, which):
     example = getattr(rule.docs, which)
     report = _engine_findings(tmp_path, example.html, rule.code)
-    samples = [s for p in report.pages for s in p.samples]
+    samples = [s for p in report.pages for s in p.samples
+               if s.text.startswith(example.subject)]  # the judged text, where others surround it
     assert samples, "the example page has text"
     if rule.code in SITE_LEVEL:  # several contexts: each listed colour is on the page
         seen = {to_hex(c) for s in samples for c in (s.fg, s.bg, s.surround) if c}
         assert {to_hex(rgba(c[1])) for c in example.contexts} <= seen
         assert to_hex(rgba(example.fg)) in seen
     else:
+        assert {s.exempt for s in samples} == {example.exempt}
         assert {to_hex(s.fg) for s in samples} == {to_hex(rgba(example.fg))}
         assert {to_hex(s.bg) for s in samples} == {to_hex(rgba(example.bg))}
     codes = {f.rule for f in report.findings}

@@ -124,12 +124,24 @@ def _finish(token, scheme, current, clip):
     if colour is None:
         return None
     space, coords, alpha = colour
-    rgb = convert.to_srgb(space, tuple(0.0 if c is None else c for c in coords))
-    return _clip((*rgb, 0.0 if alpha is None else alpha), clip)
+    rgb = convert.to_srgb(space, tuple(_finite(c) for c in coords))
+    return _clip((*rgb, _finite(alpha)), clip)
+
+
+_LARGEST = 1e6  # far outside every gamut, small enough that conversions stay finite
+
+
+def _finite(c) -> float:
+    """A component as a finite number: missing and NaN count as 0, and ``1e999`` (infinite
+    as a float) is clamped, as CSS Values 4 clamps numbers too large to represent."""
+    if c is None or c != c:
+        return 0.0
+    return max(-_LARGEST, min(_LARGEST, c))
 
 
 def _clip(rgba, clip):
-    return convert.clip(rgba) if clip else tuple(float(c) for c in rgba)
+    return convert.clip(tuple(_finite(c) for c in rgba)) if clip else \
+        tuple(_finite(float(c)) for c in rgba)
 
 
 def resolve(token, scheme="light", current=None):

@@ -69,7 +69,8 @@ BUILTIN = (
     # .wrap("<div class='wy-table-responsive'></div>"), footnotes and citations likewise.
     Behaviour("readthedocs", "add-class", "div.rst-content table", "docutils",
               "body.wy-body-for-nav", "js/theme_extra.js", "readthedocs theme js/theme_extra.js"),
-    Behaviour("readthedocs", "wrap", "table.docutils:not(.field-list, .footnote, .citation)",
+    Behaviour("readthedocs", "wrap",
+              "table.docutils:not(.field-list):not(.footnote):not(.citation)",
               "div.wy-table-responsive", "body.wy-body-for-nav", "js/theme.js",
               "readthedocs theme js/theme.js"),
     Behaviour("readthedocs", "wrap", "table.docutils.footnote", "div.wy-table-responsive.footnote",
@@ -203,53 +204,21 @@ _ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wra
 
 
 def _select(root, selector: str) -> list:
-    """Elements matching ``selector``. Runs on every page: only the elements of the rightmost
-    compound's tag are tested, and cssselect2 wrappers are built for them and their ancestors
-    alone (a full wrapped walk costs about 15 ms on a theme page)."""
+    """Elements matching ``selector``. Runs on every page: the selector is translated to XPath
+    once (cssselect) and evaluated by libxml2; a walk of cssselect2 wrappers cost several
+    milliseconds on a page with a large navigation."""
     selector = selector.strip()
     if selector in ("html", ":root"):
         return [root]
     if selector == "body":
         body = root.find("body")
         return [body] if body is not None else []
-    compiled = _compiled(selector)
-    tag = _rightmost_tag(selector)
-    candidates = list(root.iter(tag)) if tag else list(root.iter())
-    if not candidates:
-        return []
-    import cssselect2
-
-    wrappers = {root: cssselect2.ElementWrapper.from_html_root(root)}
-    return [el for el in candidates if isinstance(el.tag, str)
-            and any(c.test(_wrapper(wrappers, el)) for c in compiled)]
-
-
-def _wrapper(wrappers: dict, el):
-    missing = []
-    up = el
-    while up not in wrappers:
-        missing.append(up)
-        up = up.getparent()
-    for item in reversed(missing):
-        for child in wrappers[item.getparent()].iter_children():  # siblings: `previous`
-            wrappers[child.etree_element] = child
-    return wrappers[el]
-
-
-def _rightmost_tag(selector: str) -> str:
-    """The type selector of the rightmost compound ("" when it has none)."""
-    flat = re.sub(r"\([^()]*\)", "", selector)  # arguments of :not() and the like
-    if "," in flat:
-        return ""  # a list: its compounds may name different tags
-    last = re.split(r"[\s>+~]+", flat.strip())[-1]
-    found = re.match(r"[A-Za-z][\w-]*", last)
-    return found.group(0).lower() if found else ""
+    return _compiled(selector)(root)
 
 
 @lru_cache(maxsize=256)
-def _compiled(selector: str) -> tuple:
-    import cssselect2
-    import tinycss2
+def _compiled(selector: str):
+    from cssselect import HTMLTranslator
 
-    return tuple(cssselect2.compile_selector_list(
-        tinycss2.parse_component_value_list(selector)))
+    # relative to the document: descendant-or-self of the root element
+    return etree.XPath(HTMLTranslator().css_to_xpath(selector, prefix="descendant-or-self::"))

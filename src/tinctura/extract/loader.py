@@ -2,7 +2,9 @@
 
 ``<link rel=stylesheet>`` (relative URLs, ``?v=hash`` query strings, ``media``), ``<style>`` and
 ``@import`` are followed inside the site root. Nothing is fetched from the network: a remote
-stylesheet is recorded as not loaded. Parsed sheets are cached per site by path and mtime.
+stylesheet is recorded as not loaded. A file whose real path (symbolic links resolved) lies
+outside the site root is not read either (``bounds.read_inside``). Parsed sheets are cached per
+site by path and mtime.
 """
 from __future__ import annotations
 
@@ -12,6 +14,7 @@ import os
 from urllib.parse import unquote, urlsplit
 
 from ..model import Diagnostic
+from . import bounds
 from .ruleset import RuleSet
 from .sheet import StyleRule, parse_stylesheet
 
@@ -31,8 +34,12 @@ def user_agent_sheet():
 class SheetLoader:
     """Per-site cache of parsed stylesheets and of rule sets by list of sheets."""
 
-    def __init__(self, root: str, prefix: str = ""):
+    def __init__(self, root: str, prefix: str = "", max_file_bytes: int = bounds.MAX_FILE_BYTES,
+                 max_rules: int = bounds.MAX_RULES):
         self.root = os.path.abspath(root)
+        self.real_root = bounds.real_root(self.root)
+        self.max_file_bytes = max_file_bytes
+        self.max_rules = max_rules
         # the path the site is served under ("/project/" for https://host/project/): absolute
         # links start with it
         self.prefix = "/" + prefix.strip("/") + "/" if prefix.strip("/") else ""
@@ -71,6 +78,9 @@ class SheetLoader:
             return None, "stylesheet outside the site directory not loaded"
         if not os.path.isfile(candidate):
             return None, "stylesheet file not found"
+        if not bounds.inside(candidate, self.real_root):
+            return None, ("stylesheet is a symbolic link leading outside the site directory; "
+                          "not loaded")
         return candidate, None
 
     def sheet(self, path: str):
@@ -85,8 +95,7 @@ class SheetLoader:
             return cached[1], cached[2]
         diags = []
         try:
-            with open(path, "rb") as fh:
-                data = fh.read()
+            data = bounds.read_inside(path, self.real_root, self.max_file_bytes)
             digest = hashlib.sha1(data).digest()
             if cached and cached[3] == digest:  # copied again, same content (a fresh build)
                 self._sheets[path] = (mtime,) + cached[1:]
@@ -98,7 +107,12 @@ class SheetLoader:
             if "\ufffd" in css and b"\xef\xbf\xbd" not in data:
                 diags.append(Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
                                         "replaced"))
-            parsed = parse_stylesheet(css, self.rel(path))
+            del data  # a large sheet: not kept twice while it is parsed
+            parsed = parse_stylesheet(css, self.rel(path), max_rules=self.max_rules)
+        except bounds.Refused as exc:
+            parsed, digest = None, None
+            diags.append(Diagnostic(self.rel(path), f"stylesheet not loaded: {exc}",
+                                    severity="error"))
         except OSError as exc:
             parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
@@ -107,6 +121,8 @@ class SheetLoader:
             parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"cannot parse stylesheet: {exc}",
                                     severity="error"))
+        if parsed is not None and parsed.truncated:
+            diags.append(_truncated(parsed, self.rel(path)))
         if parsed is not None:
             for line, message in parsed.errors[:20]:
                 diags.append(Diagnostic(self.rel(path), f"CSS: {message}", line=line))
@@ -122,10 +138,10 @@ class SheetLoader:
             try:
                 if os.stat(path).st_mtime_ns == mtime:
                     continue
-                with open(path, "rb") as fh:
-                    if hashlib.sha1(fh.read()).digest() != digest:
-                        return True
-            except OSError:
+                data = bounds.read_inside(path, self.real_root, self.max_file_bytes)
+                if hashlib.sha1(data).digest() != digest:
+                    return True
+            except (OSError, bounds.Refused):
                 return True
         return False
 
@@ -172,11 +188,13 @@ class SheetLoader:
                 n_style += 1
                 name = f"{self.rel(page_path)} <style> #{n_style}"
                 try:
-                    parsed = parse_stylesheet(e[1], name)
+                    parsed = parse_stylesheet(e[1], name, max_rules=self.max_rules)
                 except Exception as exc:
                     diags.append(Diagnostic(name, f"cannot parse: {exc}", line=e[3],
                                             severity="error"))
                     continue
+                if parsed.truncated:
+                    diags.append(_truncated(parsed, name, e[3]))
                 parsed = _shift_lines(parsed, e[3])
                 self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(), diags,
                              base=base_dir)
@@ -206,13 +224,18 @@ class SheetLoader:
                              seen | {path}, diags, base=os.path.dirname(path))
 
 
+def _truncated(parsed, name, line=0):
+    return Diagnostic(name, f"more than {parsed.max_rules:,} style rules (one per selector): "
+                            "the rest were not read (--max-rules)", line=line, severity="error")
+
+
 def _shift_lines(parsed, offset):
     """<style> blocks: make declaration lines count from the page's first line."""
     if offset <= 1:
         return parsed
     for rule in parsed.rules:
         if isinstance(rule, StyleRule):
-            for d in rule.decls:
+            for d in rule.decls + rule.cue_decls:  # (cue_decls: extract/links.py)
                 if not getattr(d, "_shifted", False):
                     d.line += offset - 1
                     d._shifted = True

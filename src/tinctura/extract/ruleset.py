@@ -7,11 +7,12 @@ few selectors are tested on each element.
 """
 from __future__ import annotations
 
+import dataclasses
 import re
 from functools import cached_property
 
 from .media import Environment
-from .siblings import SiblingIndex
+from .siblings import HasIndex, SiblingIndex
 
 EVALUATED_STATES = re.compile(r":(hover|focus)", re.I)
 ATTR_IN_SELECTOR = re.compile(r"\[\s*([\w:-]+)")
@@ -36,16 +37,29 @@ class RuleSet:
                 ranks.setdefault(path[:k], len(ranks))
         self.unlayered_rank = len(ranks)
         self.layer_ranks = ranks
-        self.rules = rules
         for order, rule in enumerate(rules):
             rule.order = order
-        self.uses_has = any(":has(" in r.selector_text for r in rules)
+        # rules drawing non-colour cues, matched apart for links (extract/links.py); rules with
+        # nothing else stay out of the colour cascade and its keys
+        self.cue_rules = [r for r in rules if r.cue_decls]
+        # what selectors can read stays in the style keys for every rule (cue rules included:
+        # cues are cached per style key); only colour rules are indexed and cascaded
+        # (a cue rule with :has() is left out: one cached answer per style key)
+        keyed = [r for r in rules if r.decls or ":has(" not in r.selector_text]
+        rules = [r for r in rules if r.decls]
+        self.rules = rules
+        self.has_index = HasIndex(rules)
+        # :has() that cannot be analysed: nothing is shared (see ``siblings``)
+        self.uses_has = any(":has(" in r.selector_text for r in rules) and \
+            not self.has_index.usable
+        # siblings only for colour rules: a sibling-sensitive cue rule (`li + li a`) would split
+        # the keys of every navigation item; its answer is the first sibling's (documented)
         self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
         # answers to those tests (so `href` values that differ per page do not split the cache),
         # or the whole value when a test could not be read.
         tests = {}
-        for r in rules:
+        for r in keyed:
             text = r.selector_text
             found = ATTR_TEST.findall(text)
             if len(found) != text.count("["):
@@ -61,7 +75,7 @@ class RuleSet:
                     entry.append((op, value.strip("\"'"), flag.lower() == "i"))
         for name in KEEP_VALUES:
             tests[name] = None
-        texts = [r.selector_text for r in rules]
+        texts = [r.selector_text for r in keyed]
         if any("\\" in text for text in texts):
             tests["class"] = tests["id"] = None
             self.selector_classes = self.selector_ids = frozenset()
@@ -112,28 +126,40 @@ class RuleSet:
         if idx is None:
             idx = self._indexes[env.key] = Index(
                 [r for r in self.rules if all(env.matches(m) for m in r.media)], self)
+            idx.cue_rules = [dataclasses.replace(r, decls=r.cue_decls) for r in self.cue_rules
+                             if all(env.matches(m) for m in r.media)]
         return idx
 
 
 class Index:
+    cue_rules = ()  # set by RuleSet.index: rules of non-colour cues, with those as their decls
+
     def __init__(self, rules, ruleset: RuleSet):
+        # buckets of (test, rule), filled from the raw buckets of rules on first lookup: a
+        # selector is compiled to Python only when an element could match it (a large
+        # stylesheet's selectors are mostly never tried)
         self.by_id, self.by_class, self.by_tag, self.by_attr, self.other = {}, {}, {}, {}, []
+        self._raw = {}  # id(bucket dict) -> {key: [rule]}
+        raw_id, raw_class, raw_tag, raw_attr = {}, {}, {}, {}
         self.ruleset = ruleset
         for rule in rules:
             c = rule.compiled
             if c.never_matches:
                 continue
-            entry = (c.test, rule)
             if c.id is not None:
-                self.by_id.setdefault(c.id, []).append(entry)
+                raw_id.setdefault(c.id, []).append(rule)
             elif c.class_name is not None:
-                self.by_class.setdefault(c.class_name, []).append(entry)
+                raw_class.setdefault(c.class_name, []).append(rule)
             elif c.local_name is not None:
-                self.by_tag.setdefault(c.lower_local_name, []).append(entry)
+                raw_tag.setdefault(c.lower_local_name, []).append(rule)
             elif rule.attr_names:
-                self.by_attr.setdefault(rule.attr_names[0], []).append(entry)
+                raw_attr.setdefault(rule.attr_names[0], []).append(rule)
             else:
-                self.other.append(entry)
+                self.other.append((c.test, rule))
+        for bucket, raw in ((self.by_id, raw_id), (self.by_class, raw_class),
+                            (self.by_tag, raw_tag), (self.by_attr, raw_attr)):
+            self._raw[id(bucket)] = raw
+        self.has_attr_rules = bool(raw_attr)
         # only the states tinctura evaluates: :visited, :target, :active never hold here
         self.dynamic_rules = [r for r in rules if r.dynamic and not r.compiled.never_matches
                               and EVALUATED_STATES.search(r.selector_text)]
@@ -172,6 +198,16 @@ class Index:
                 return True
         return False
 
+    def _fill(self, bucket: dict, key) -> list:
+        """The (test, rule) list of a bucket key, compiling its selectors on first use."""
+        rules = self._raw[id(bucket)].pop(key, None)
+        if rules is None:  # no selector names it (ids are not kept: they are many)
+            if bucket is not self.by_id:
+                bucket[key] = ()
+            return ()
+        entries = bucket[key] = [(rule.compiled.test, rule) for rule in rules]
+        return entries
+
     def match(self, wrapper) -> list:
         """StyleRules whose selector matches, in no particular order."""
         el = wrapper.etree_element
@@ -179,27 +215,35 @@ class Index:
         attrib = el.attrib
         ident = attrib.get("id")
         if ident is not None:
-            for test, rule in self.by_id.get(ident, ()):
+            bucket = self.by_id.get(ident)
+            for test, rule in bucket if bucket is not None else self._fill(self.by_id, ident):
                 if test(wrapper):
                     out.append(rule)
         cls = attrib.get("class")
         if cls:
             seen = set()
+            by_class = self.by_class
             for name in cls.split():
                 if name in seen:
                     continue
                 seen.add(name)
-                for test, rule in self.by_class.get(name, ()):
+                bucket = by_class.get(name)
+                for test, rule in bucket if bucket is not None else self._fill(by_class, name):
                     if test(wrapper):
                         out.append(rule)
         tag = el.tag
         if isinstance(tag, str):
-            for test, rule in self.by_tag.get(tag.lower(), ()):
+            tag = tag.lower()
+            bucket = self.by_tag.get(tag)
+            for test, rule in bucket if bucket is not None else self._fill(self.by_tag, tag):
                 if test(wrapper):
                     out.append(rule)
-        if self.by_attr:
+        if self.has_attr_rules:
             for name in attrib:
-                for test, rule in self.by_attr.get(name.lower(), ()):
+                name = name.lower()
+                bucket = self.by_attr.get(name)
+                for test, rule in bucket if bucket is not None else self._fill(self.by_attr,
+                                                                                name):
                     if test(wrapper):
                         out.append(rule)
         for test, rule in self.other:

@@ -18,7 +18,10 @@ from __future__ import annotations
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
+from . import exempt as exempt_mod
 from . import fragments as frag_mod
+from . import links as link_mod
+from . import nontext as nontext_mod
 from .sheet import STATE_ATTR, parse_declarations
 from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
@@ -38,7 +41,7 @@ MAX_ALTERNATIVES = 16
 # focus, the case where :focus-visible styles show.
 STATES = (("hover", ("hover",), ("hover",)),
           ("focus", ("focus", "focus-visible", "focus-within"), ("focus-within",)))
-CACHE_LIMIT = 60000
+CACHE_LIMIT = 120000  # style keys; a large site adds about a hundred per page
 # Elements whose subtrees are scopes (and may be recorded and replayed): HTML containers. SVG
 # content is left out (shapes earlier in the same <svg> are backgrounds of later text), and so is
 # anything inside an interactive element (its :hover walk reads the keys of its descendants).
@@ -90,8 +93,9 @@ class StyleCache:
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
                  viewport_width, skipped, keep_layers=True, lazy=False, fingerprints=None,
-                 replay=True, structure=None):
+                 replay=True, structure=None, share=True, exemptions=None):
         self.page = page
+        self.exemptions = exemptions  # exempt.Decisions of the page (None: disabled only)
         self.keep_layers = keep_layers  # `check` reports name causes, not every layer
         # lazy: replayed fragments go to ``replays`` as (fragment, Stamp) for the engine to
         # judge once, instead of being re-stamped sample by sample into ``samples``
@@ -107,7 +111,7 @@ class PageWalker:
         self.resolver = Resolver(ruleset, preferred, viewport_width)
         self.skipped = skipped
         self.samples = []
-        self.uncached = ruleset.uses_has
+        self.uncached = ruleset.uses_has or not share
         # the page's wrappers and structural ids, shared with the other schemes' walks
         self.structure = structure if structure is not None else \
             PageStructure(root, ruleset.structure)
@@ -145,6 +149,10 @@ class PageWalker:
         style.has_opacity_above = parent_style.has_opacity_above or parent_style.opacity < 1
         style.disabled = parent_style.disabled or _disabled(el)
         style.hidden_within = parent_style.hidden_within or style.visually_hidden
+        if parent_style.in_link:
+            style.in_link = parent_style.in_link
+        elif el.tag == "a" and el.get("href") is not None:  # 2: a link in running text
+            style.in_link = 2 if el.get(link_mod.RUNNING) is not None else 1
         pseudos = {}
         for rule in rules:
             if rule.pseudo in ("before", "after", "placeholder", "marker"):
@@ -267,15 +275,17 @@ class PageWalker:
             if collect and focusable and not style.disabled:
                 self.interactive.append((el, key_id))
             self._texts(el, tag, style, chain, key_id)
+            if tag in nontext_mod.TAGS:  # SC 1.4.11: boundaries, focus rings, icons
+                nontext_mod.emit(self, el, tag, style, chain)
             children = children_of(el)
             if not children:
                 continue
             scopable = scopable and not focusable and tag != "svg"
             items = []
-            for child, element_id, prev_chain, following in children:
+            for child, element_id, siblings in children:
                 cid = key(key_id, element_id)
                 if collect:
-                    meta[child] = (prev_chain, following, cid)
+                    meta[child] = (siblings, cid)
                 items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
@@ -287,7 +297,7 @@ class PageWalker:
         # the descendants' style keys (from the resting walk) stand for their tags, attributes
         # and ancestors; which of them carry text decides which samples exist
         meta, texts = self.meta, self.texts
-        sig = tuple((meta[d][2] if d in meta else d.tag, d in texts) for d in el.iter()
+        sig = tuple((meta[d][1] if d in meta else d.tag, d in texts) for d in el.iter()
                     if isinstance(d.tag, str))
         memo_key = (kid, state, sig)
         template = self.cache.states.get(memo_key)
@@ -328,12 +338,12 @@ class PageWalker:
                             return
                         parent_style, parent_id, chain = hit
                         continue
-                prev_id, following, _ = self.meta.get(el, (0, 0, 0))
+                siblings, _ = self.meta.get(el, (0, 0))
                 if k == 0:  # the root
                     kid = self._key(0, self.structure.root_id())
                 else:
                     kid = self._key(parent_id, self.structure.structure.element_id(
-                        el, prev_id, following))
+                        el, siblings, self.structure.wrapper_of))
                 style = self.style_for(el, parent_style, kid, k == 0)
                 if style.display == "none" or style.opacity <= 0:
                     if el is not target:
@@ -460,12 +470,21 @@ class PageWalker:
                              fg_cause.chain)
         layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
                        for at, kind_, colour, cause in layers) if self.keep_layers else ()
+        decisions = self.exemptions
+        if decisions is not None:  # per element, after the caches (extract/exempt.py)
+            found = decisions.by_element.get(el, "")
+            exempt = exempt_mod.settle(el, found, kind, text, fg, bg, decisions.enabled,
+                                       self.structure.text) if found or kind == "generated" \
+                else ""
+        link = link_mod.context(self, el, chain, fg, bg) \
+            if style.in_link == 2 and self.state == REST and kind == "text" and not exempt \
+            else None
         # own texts arrive collapsed; generated content and attribute values may not
         text = text[:60] if kind == "text" else " ".join(text.split())[:60]
         self.samples.append(Sample(
             self.page, self.scheme, self.state, xpath, el.sourceline or 0, text, kind, fg, bg,
             fg_raw, size, weight, status, reason, alts, exempt, fg_cause, layers, bg_cause,
-            surround))
+            surround, link))
 
     def _core(self, el, style, chain, kind, shapes=()):
         if kind == "svg-text":  # SVG text paints with fill, initially black
@@ -504,7 +523,7 @@ class PageWalker:
                 # as against the background, so it is one more background to pass against
                 alts = alts + tuple(tuple(over(c, bg + (1.0,))[:3]) for c in outline)
         status = UNDETERMINED if reasons else DETERMINED
-        exempt = "disabled control (WCAG 1.4.3 exempts inactive user-interface components)" \
+        exempt = "inactive-control" \
             if style.disabled or any(s.disabled for _, s in chain) else ""
         return (fg, bg, text_colour, status, "; ".join(reasons), alts, exempt, fg_cause,
                 inherited_at, tuple(layers), bg_cause, surround)

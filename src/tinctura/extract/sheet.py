@@ -7,15 +7,20 @@ colour, visibility or font size are dropped here, and so are rules left with non
 """
 from __future__ import annotations
 
+import gc
 import re
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import cssselect2
+import cssselect2.compiler
+import cssselect2.parser
 import tinycss2
 
 from ..model import Declaration
 from ..tokens import significant, split_commas
 from . import supports as supports_mod
+from .bounds import MAX_RULES
 
 # Properties the engine reads. Custom properties (--*) are always kept: they may feed any of these.
 RELEVANT = frozenset(
@@ -24,6 +29,15 @@ RELEVANT = frozenset(
     -webkit-text-fill-color text-shadow filter mix-blend-mode backdrop-filter fill
     position clip clip-path width height overflow all list-style list-style-type
     box-shadow""".split()
+)
+# Properties that draw cues other than colour (links in running text, SC 1.4.1). Kept apart in
+# ``StyleRule.cue_decls``: a rule with only these is never in the colour index (no cost to the
+# walk); ``extract/links.py`` matches them for the few links that need it.
+CUES = frozenset(
+    """text-decoration text-decoration-line border border-bottom border-block-end border-style
+    border-bottom-style border-block-end-style border-top border-block border-block-start
+    box-shadow outline outline-style outline-width font-style border-color border-bottom-color
+    outline-color outline-offset""".split()
 )
 
 # Dynamic pseudo-classes are rewritten into attributes that the engine sets on an element to
@@ -39,21 +53,32 @@ _STATIC_PSEUDO = {":defined": "", ":placeholder-shown": "", ":indeterminate": ":
 _STATIC_RE = re.compile(r"(%s)(?![\w-])" % "|".join(re.escape(k) for k in _STATIC_PSEUDO), re.I)
 
 
-@dataclass
+@dataclass(slots=True)  # slots: a large stylesheet has hundreds of thousands
 class Decl:
     name: str
-    tokens: list
+    parsed: list | None = field(compare=False)  # the value's tokens once read (``tokens``)
     important: bool
     line: int
     text: str  # serialized value, stripped
     column: int = 0
+    _shifted: bool = False  # line already counted from the page (loader._shift_lines)
+
+    @property
+    def tokens(self) -> list:
+        """The value's tokens, read from ``text`` on first use: most declarations of a large
+        stylesheet are never matched, and their token trees were most of its memory."""
+        parsed = self.parsed
+        if parsed is None:
+            parsed = self.parsed = [t for t in tinycss2.parse_component_value_list(self.text)
+                                    if t.type != "comment"]
+        return parsed
 
     def provenance(self, sheet: str, selector: str, origin: str) -> Declaration:
         return Declaration(self.name, self.text, sheet, self.line, selector, origin,
                            self.important, self.column)
 
 
-@dataclass
+@dataclass(slots=True)
 class StyleRule:
     selector_text: str
     compiled: object  # cssselect2 CompiledSelector
@@ -67,6 +92,7 @@ class StyleRule:
     order: int = 0
     attr_names: tuple = ()  # attribute names the rightmost compound requires (for indexing)
     dynamic: bool = False  # uses a rewritten dynamic pseudo-class
+    cue_decls: list = field(default_factory=list)  # declarations of CUES properties
 
 
 @dataclass
@@ -79,44 +105,102 @@ class ParsedSheet:
     errors: list = field(default_factory=list)  # (line, message)
     skipped_selectors: int = 0
     uses_has: bool = False
+    line_offset: int = 0  # lines before the chunk being parsed (``_chunks``)
+    max_rules: int = MAX_RULES  # style rules kept (one per selector); beyond: ``truncated``
+    truncated: bool = False
     uses_color_scheme_media: bool = False
     uses_light_dark: bool = False
     has_color_scheme_property: bool = False
 
 
-def parse_declarations(content, *, relevant_only: bool = True) -> list:
+def parse_declarations(content, *, relevant_only: bool = True, line_offset: int = 0,
+                       keep=RELEVANT) -> list:
     out = []
     for item in tinycss2.parse_blocks_contents(content, skip_whitespace=True, skip_comments=True):
         if item.type != "declaration":
             continue
         name = item.lower_name if not item.name.startswith("--") else item.name
-        if relevant_only and not name.startswith("--") and name not in RELEVANT:
+        if relevant_only and not name.startswith("--") and name not in keep:
             continue
-        value = [t for t in item.value if t.type != "comment"]
-        text = tinycss2.serialize(value).strip()
-        out.append(Decl(name, value, item.important, item.source_line, text, item.source_column))
+        text = tinycss2.serialize([t for t in item.value if t.type != "comment"]).strip()
+        out.append(Decl(name, None, item.important, item.source_line + line_offset, text,
+                        item.source_column))
     return out
 
 
-def parse_stylesheet(css: str, name: str, origin: str = "author") -> ParsedSheet:
+def parse_stylesheet(css: str, name: str, origin: str = "author",
+                     max_rules: int | None = None) -> ParsedSheet:
     sheet = ParsedSheet(name)
-    rules = tinycss2.parse_stylesheet(css, skip_whitespace=True, skip_comments=True)
-    _walk(rules, sheet, origin, (), (), True)
-    low = css.lower()
-    sheet.uses_color_scheme_media = "prefers-color-scheme" in low
-    sheet.uses_light_dark = "light-dark(" in low
-    sheet.has_color_scheme_property = "color-scheme" in low.replace("prefers-color-scheme", "")
+    if max_rules is not None:
+        sheet.max_rules = max_rules
+    # The cyclic garbage collector rescans everything parsed so far each time it runs: on a
+    # 20 MB stylesheet that made parsing quadratic (half the time at 8 MB, measured). Parsing
+    # makes no reference cycles, so it runs without it.
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        for offset, chunk in _chunks(css):
+            sheet.line_offset = offset
+            rules = tinycss2.parse_stylesheet(chunk, skip_whitespace=True, skip_comments=True)
+            _walk(rules, sheet, origin, (), (), True)
+    finally:
+        if was_enabled:
+            gc.enable()
+    sheet.line_offset = 0
+    # searched without a lower-cased copy (a large sheet's copy is its size again)
+    sheet.uses_color_scheme_media = bool(_PREFERS.search(css))
+    sheet.uses_light_dark = bool(_LIGHT_DARK.search(css))
+    sheet.has_color_scheme_property = bool(_COLOR_SCHEME.search(css))
     return sheet
+
+
+_PREFERS = re.compile("prefers-color-scheme", re.I)
+_LIGHT_DARK = re.compile(r"light-dark\(", re.I)
+_COLOR_SCHEME = re.compile("(?<!prefers-)color-scheme", re.I)
+
+
+# What can hide a brace from the top-level structure: comments, strings (a bad string ends at
+# its newline, as in CSS Syntax 3), escapes and unquoted url()s; and the braces themselves.
+_STRUCTURE = re.compile(r"""/\*[\s\S]*?(?:\*/|\Z)|"(?:[^"\\\n]|\\[\s\S])*"?"""
+                        r"""|'(?:[^'\\\n]|\\[\s\S])*'?|\\[\s\S]|(?i:url)\([^)"']*\)?|[{}]""")
+CHUNK_CHARS = 1 << 18
+
+
+def _chunks(css: str, size: int = CHUNK_CHARS):
+    """(lines before, text) pieces of a stylesheet cut after top-level blocks.
+
+    tinycss2 builds the whole token tree of what it is given; a 20 MB stylesheet would hold
+    gigabytes at once. Cut between top-level rules, each piece parses to the same rules, and
+    only one piece's tree is alive at a time."""
+    if len(css) <= size:
+        yield 0, css
+        return
+    depth, start, lines = 0, 0, 0
+    for m in _STRUCTURE.finditer(css):
+        char = m.group()
+        if char == "{":
+            depth += 1
+        elif char == "}" and depth:  # a stray top-level } is part of the next prelude
+            depth -= 1
+            if not depth and m.end() - start >= size:
+                yield lines, css[start:m.end()]
+                lines += css.count("\n", start, m.end())
+                start = m.end()
+    yield lines, css[start:]
 
 
 def _walk(rules, sheet: ParsedSheet, origin, media, layer, top_level):
     for rule in rules:
-        if rule.type == "error":
-            sheet.errors.append((rule.source_line, rule.message))
-        elif rule.type == "qualified-rule":
-            _style_rule(rule, sheet, origin, media, layer)
-        elif rule.type == "at-rule":
-            _at_rule(rule, sheet, origin, media, layer, top_level)
+        try:
+            if rule.type == "error":
+                sheet.errors.append((rule.source_line + sheet.line_offset, rule.message))
+            elif rule.type == "qualified-rule":
+                _style_rule(rule, sheet, origin, media, layer)
+            elif rule.type == "at-rule":
+                _at_rule(rule, sheet, origin, media, layer, top_level)
+        except RecursionError:  # blocks or functions nested hundreds deep: skip this rule
+            sheet.errors.append((rule.source_line + sheet.line_offset,
+                                 "rule nested too deeply to read; skipped"))
 
 
 def _at_rule(rule, sheet, origin, media, layer, top_level):
@@ -136,7 +220,8 @@ def _at_rule(rule, sheet, origin, media, layer, top_level):
             for n in names:
                 sheet.layer_names.append(layer + tuple(n.split(".")))
         else:
-            path = layer + (tuple(names[0].split(".")) if names else (f"#anon{id(rule)}",))
+            path = layer + (tuple(names[0].split(".")) if names else (
+                f"#anon:{sheet.name}:{rule.source_line + sheet.line_offset}:{rule.source_column}",))
             sheet.layer_names.append(path)
             inner = tinycss2.parse_blocks_contents(rule.content, skip_whitespace=True,
                                                    skip_comments=True)
@@ -145,7 +230,8 @@ def _at_rule(rule, sheet, origin, media, layer, top_level):
         _import(rule, sheet, media, layer)
     elif kw in ("container", "scope", "starting-style", "document", "-moz-document"):
         # Depend on layout or on states a static page does not have: not applied, counted.
-        sheet.errors.append((rule.source_line, f"@{kw} rules are not evaluated"))
+        sheet.errors.append((rule.source_line + sheet.line_offset,
+                             f"@{kw} rules are not evaluated"))
     # @font-face, @keyframes, @page, @property, @namespace, @charset: nothing for colour
 
 
@@ -159,12 +245,12 @@ def _import(rule, sheet, media, layer):
     elif first.type == "function" and first.lower_name == "url" and first.arguments:
         url = first.arguments[0].value
     else:
-        sheet.errors.append((rule.source_line, "@import without a URL"))
+        sheet.errors.append((rule.source_line + sheet.line_offset, "@import without a URL"))
         return
     rest = tokens[1:]
     imp_layer = layer
     if rest and rest[0].type == "ident" and rest[0].lower_value == "layer":
-        imp_layer = layer + (f"#anon-import{rule.source_line}",)
+        imp_layer = layer + (f"#anon-import{rule.source_line + sheet.line_offset}",)
         rest = rest[1:]
     elif rest and rest[0].type == "function" and rest[0].lower_name == "layer":
         imp_layer = layer + tuple(tinycss2.serialize(rest[0].arguments).strip().split("."))
@@ -177,7 +263,7 @@ def _import(rule, sheet, media, layer):
     if imp_layer != layer:
         sheet.layer_names.append(imp_layer)
     sheet.rules.append(("import", url, media + ((query,) if query else ()), imp_layer,
-                        rule.source_line))
+                        rule.source_line + sheet.line_offset))
 
 
 def split_selector_list(prelude) -> list:
@@ -185,27 +271,97 @@ def split_selector_list(prelude) -> list:
     return [p for p in split_commas(prelude) if significant(p)]
 
 
-def compile_one(text: str):
-    """Compile one selector (no commas at top level); None when cssselect2 cannot."""
+class LazySelector(cssselect2.compiler.CompiledSelector):
+    """A cssselect2 compiled selector whose Python test is built on first use.
+
+    cssselect2 turns every selector into Python source and ``eval``s it: on a large stylesheet
+    that is a quarter of the parse time and half of the memory, for selectors that are mostly
+    never tried (``ruleset.Index`` asks for ``test`` only when an element could match). The
+    other attributes are set as ``CompiledSelector.__init__`` sets them."""
+
+    def __init__(self, parsed_selector):  # noqa: super().__init__ would compile
+        self._source = cssselect2.compiler._compile_node(parsed_selector.parsed_tree)
+        self.never_matches = self._source == "0"
+        self.specificity = parsed_selector.specificity
+        self.pseudo_element = parsed_selector.pseudo_element
+        self.id = self.class_name = self.local_name = self.lower_local_name = None
+        self.namespace = None
+        self.requires_lang_attr = False
+        node = parsed_selector.parsed_tree
+        if isinstance(node, cssselect2.parser.CombinedSelector):
+            node = node.right
+        for simple in node.simple_selectors:
+            if isinstance(simple, cssselect2.parser.IDSelector):
+                self.id = simple.ident
+            elif isinstance(simple, cssselect2.parser.ClassSelector):
+                self.class_name = simple.class_name
+            elif isinstance(simple, cssselect2.parser.LocalNameSelector):
+                self.local_name = simple.local_name
+                self.lower_local_name = simple.lower_local_name
+            elif isinstance(simple, cssselect2.parser.NamespaceSelector):
+                self.namespace = simple.namespace
+            elif isinstance(simple, cssselect2.parser.AttributeSelector) \
+                    and simple.name == "lang":
+                self.requires_lang_attr = True
+
+    @cached_property
+    def test(self):
+        return eval("lambda el: " + self._source, {  # as cssselect2 builds it
+            "split_whitespace": cssselect2.compiler.split_whitespace,
+            "ascii_lower": cssselect2.compiler.ascii_lower,
+            "urlparse": cssselect2.compiler.urlparse}, {})
+
+
+# cssselect2's private source builder, used by LazySelector; without it, compile at once
+_SELECTOR_CLASS = LazySelector if hasattr(cssselect2.compiler, "_compile_node") else \
+    cssselect2.compiler.CompiledSelector
+_COMPILED: dict = {}  # selector text -> (LazySelector or None, dynamic): equal selectors once
+_COMPILED_LIMIT = 20_000
+
+
+def compile_one(text: str, tokens=None):
+    """Compile one selector (no commas at top level); None when cssselect2 cannot.
+
+    ``tokens``: the selector's tinycss2 tokens when the caller has them (saves a tokenizing)."""
+    got = _COMPILED.get(text)
+    if got is not None:
+        return got
     rewritten = _DYNAMIC_RE.sub(lambda m: f"[{STATE_ATTR}{m.group(1).lower().lstrip('-')}]", text)
     rewritten = _STATIC_RE.sub(lambda m: _STATIC_PSEUDO[m.group(1).lower()], rewritten)
+    dynamic = rewritten != text
     try:
-        tokens = tinycss2.parse_component_value_list(rewritten)
-        compiled = cssselect2.compile_selector_list(tokens)
+        if dynamic or tokens is None:
+            tokens = tinycss2.parse_component_value_list(rewritten)
+        parsed = list(cssselect2.parser.parse(tokens))
+        compiled = _SELECTOR_CLASS(parsed[0]) if len(parsed) == 1 else None
     except Exception:  # cssselect2 raises SelectorError, and sometimes SyntaxError
-        return None, rewritten != text
-    if len(compiled) != 1:
-        return None, rewritten != text
-    return compiled[0], rewritten != text
+        compiled = None
+    if len(_COMPILED) >= _COMPILED_LIMIT:
+        _COMPILED.clear()
+    got = _COMPILED[text] = (compiled, dynamic)
+    return got
+
+
+def split_declarations(content, line_offset: int = 0) -> tuple:
+    """(declarations the engine reads, declarations of non-colour cues), in one parse."""
+    decls = parse_declarations(content, keep=_READ, line_offset=line_offset)
+    keep = [d for d in decls if d.name.startswith("--") or d.name in RELEVANT]
+    return keep, [d for d in decls if d.name in CUES]
+
+
+_READ = RELEVANT | CUES
 
 
 def _style_rule(rule, sheet, origin, media, layer):
-    decls = parse_declarations(rule.content)
-    if not decls:
+    decls, cue_decls = split_declarations(rule.content, sheet.line_offset)
+    if not decls and not cue_decls:
         return
     for part in split_selector_list(rule.prelude):
+        if len(sheet.rules) >= sheet.max_rules:
+            sheet.truncated = True
+            return
         text = tinycss2.serialize(part).strip()
-        compiled, dynamic = compile_one(text)
+        compiled, dynamic = compile_one(text, part)
         if compiled is None:
             sheet.skipped_selectors += 1
             continue
@@ -215,6 +371,7 @@ def _style_rule(rule, sheet, origin, media, layer):
             selector_text=text, compiled=compiled, specificity=compiled.specificity,
             pseudo=compiled.pseudo_element, decls=decls, media=media, layer=layer,
             origin=origin, sheet=sheet.name, attr_names=_rightmost_attrs(part), dynamic=dynamic,
+            cue_decls=cue_decls,
         ))
 
 

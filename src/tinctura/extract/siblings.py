@@ -1,27 +1,53 @@
-"""Which elements can a sibling-sensitive selector reach?
+"""Which elements can a sibling-sensitive or ``:has()`` selector reach, and what does it read?
 
-The style-sharing key of an element includes its siblings only when some rule could need them:
-a compound selector with a structural pseudo-class (``:nth-child``, ``:last-of-type``...) or on the
-right of ``+`` / ``~``. Each such compound is reduced to what it requires of the element itself
-(tag, classes, id); an element that satisfies none of them is styled the same wherever it stands
-among its siblings. Selectors whose sibling tests hide inside ``:is()``/``:not()``/``:where()``
-arguments with combinators are not analysed: they make every element sensitive.
+The style-sharing key of an element includes facts about its siblings only when some rule could
+need them, and only the facts that rule reads:
+
+- ``FIRST``: ``:first-child`` reads whether there is a previous element sibling, ``LAST``
+  (``:last-child``) whether there is a next one, ``:only-child`` both;
+- ``INDEX``: ``:nth-child()``, ``:nth-last-child()`` read the position from both ends;
+- ``TYPE``: ``:*-of-type`` read the position among same-tag siblings from both ends;
+- ``FULL``: the right side of ``+`` / ``~`` (and ``:nth-child(An+B of S)``) reads the previous
+  siblings themselves; the key then holds their identity and the following siblings' tags.
+
+Each such compound is reduced to what it requires of the element itself (tag, classes, id), of
+its parent (the compound left of a ``>``) and of its ancestors (the compounds further left,
+across descendant and child combinators): an element that satisfies none of them is styled the
+same wherever it stands among its siblings. Selectors whose sibling tests hide inside
+``:is()``/``:not()``/``:where()`` arguments with combinators are not analysed: they make every
+element ``FULL``.
+
+``:has()`` looks at an element's descendants: an element a ``:has()`` compound could match keeps
+in its key whether each such compound matches it (``HasIndex``: the answers are all the cascade
+reads of its subtree); every other element shares as usual. A
+``:has()`` that looks at siblings (``:has(+ x)``, ``:has(~ x)``) or whose compound names no tag,
+class or id is not analysed: then nothing is shared (``RuleSet.uses_has``).
 """
 from __future__ import annotations
 
 import re
 
+import tinycss2
+
 MEMO_LIMIT = 50000
 STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type|last-of-type|"
                         r"only-of-type)", re.I)
+FIRST, LAST, INDEX, TYPE, FULL = 1, 2, 4, 8, 16
+_NEEDS = ((re.compile(r":(first|only)-child", re.I), FIRST),
+          (re.compile(r":(last|only)-child", re.I), LAST),
+          (re.compile(r":nth-(last-)?child", re.I), INDEX),
+          (re.compile(r":(first|last|only|nth|nth-last)-of-type", re.I), TYPE))
+_OF_SELECTOR = re.compile(r":nth-(last-)?child\([^)]*\bof\b", re.I)
 
 
 class Compound:
-    __slots__ = ("tag", "classes", "ident", "parent")
+    __slots__ = ("tag", "classes", "ident", "parent", "ancestors", "needs")
 
     def __init__(self, tag, classes, ident, parent=None):
         self.tag, self.classes, self.ident = tag, frozenset(classes), ident
         self.parent = parent  # for `P > :nth-child(2)`: what the parent must be
+        self.ancestors = ()  # compounds some ancestor must satisfy (`A B > x`: A and B)
+        self.needs = 0  # what of the siblings it reads (FIRST | LAST | INDEX | TYPE | FULL)
 
     @property
     def universal(self) -> bool:
@@ -32,16 +58,9 @@ class Compound:
             and (self.ident is None or self.ident == ident)
 
 
-def sensitive_compounds(tokens):
-    """Compounds of one selector that need sibling information; None means "any element"."""
-    compounds, current, combinator_before = [], [], None
-    out = []
-
-    def close(comb):
-        if current:
-            compounds.append((combinator_before, list(current)))
-
-    pending = None
+def split_compounds(tokens) -> list:
+    """``[(combinator before it or None, [tokens])]`` of one complex selector, left to right."""
+    compounds, current, combinator_before, pending = [], [], None, None
     for t in tokens:
         if t.type == "whitespace":
             if current and pending is None:
@@ -57,56 +76,110 @@ def sensitive_compounds(tokens):
         current.append(t)
     if current:
         compounds.append((combinator_before, current))
-    reqs = []
-    for comb, parts in compounds:
-        nested_structural = False
-        tag, classes, ident = None, [], None
-        i = 0
-        while i < len(parts):
-            t = parts[i]
-            if t.type == "ident" and i == 0:
-                tag = t.lower_value
-            elif t.type == "literal" and t.value == "." and i + 1 < len(parts) \
-                    and parts[i + 1].type == "ident":
-                classes.append(parts[i + 1].value)
-                i += 1
-            elif t.type == "hash":
-                ident = t.value
-            elif t.type == "function":
-                import tinycss2
+    return compounds
 
+
+def _requirements(parts) -> Compound:
+    """What a compound requires of the element: tag, classes, id (the rest is ignored)."""
+    tag, classes, ident = None, [], None
+    for i, t in enumerate(parts):
+        if t.type == "ident" and i == 0:
+            tag = t.lower_value
+        elif t.type == "literal" and t.value == "*" and i == 0:
+            tag = "*"
+        elif t.type == "literal" and t.value == "." and i + 1 < len(parts) \
+                and parts[i + 1].type == "ident":
+            classes.append(parts[i + 1].value)
+        elif t.type == "hash":
+            ident = t.value
+    return Compound(tag, classes, ident)
+
+
+def _context(compounds, reqs, k) -> tuple:
+    """(parent requirement, ancestor requirements) of compound ``k``: the compound left of a
+    ``>`` is the parent; those reached across `` `` and ``>`` are ancestors (a compound left of
+    ``+``/``~`` is a sibling of one, so skipped; what is left of it is still an ancestor)."""
+    parent = None
+    ancestors = []
+    comb = compounds[k][0]
+    if comb == ">" and not reqs[k - 1].universal:
+        parent = reqs[k - 1]
+    j = k
+    while j > 0:
+        comb = compounds[j][0]
+        j -= 1
+        if comb in (" ", ">") and not reqs[j].universal:
+            ancestors.append(reqs[j])
+    return parent, tuple(ancestors)
+
+
+def sensitive_compounds(tokens):
+    """Compounds of one selector that need sibling information, each with its ``needs``,
+    parent and ancestors; None means "any element, FULL"."""
+    compounds = split_compounds(tokens)
+    reqs = [_requirements(parts) for _, parts in compounds]
+    out = []
+    for k, (comb, parts) in enumerate(compounds):
+        needs = FULL if comb in ("+", "~") else 0
+        for t in parts:
+            if t.type == "function":
                 inner = tinycss2.serialize(t.arguments)
-                if "+" in inner or "~" in inner:
-                    if t.lower_name in ("is", "not", "where", "matches", "has", "-webkit-any"):
-                        return None
-                if STRUCTURAL.search(":" + t.lower_name) or STRUCTURAL.search(inner):
-                    nested_structural = True
-            elif t.type == "literal" and t.value == ":" and i + 1 < len(parts) \
-                    and parts[i + 1].type == "ident" and STRUCTURAL.search(":" + parts[i + 1].value):
-                nested_structural = True
-            i += 1
-        reqs.append(Compound(tag, classes, ident))
-        if comb in ("+", "~") or nested_structural:
-            c = Compound(tag, classes, ident)
-            k = len(reqs) - 1
-            if c.universal and comb == ">" and k > 0 and not reqs[k - 1].universal:
-                c.parent = reqs[k - 1]
-            elif c.universal and comb in ("+", "~") and k > 0 and not reqs[k - 1].universal:
-                # `X + *`: only siblings of an X; we cannot see those from the element, keep all
-                pass
-            out.append(c)
+                if ("+" in inner or "~" in inner) and \
+                        t.lower_name in ("is", "not", "where", "matches", "has", "-webkit-any"):
+                    return None
+                needs |= _needs_of(":" + t.lower_name + "(" + inner + ")")
+        text = tinycss2.serialize(parts)
+        needs |= _needs_of(text)
+        if not needs:
+            continue
+        c = Compound(reqs[k].tag, reqs[k].classes, reqs[k].ident)
+        c.needs = needs
+        c.parent, c.ancestors = _context(compounds, reqs, k)
+        out.append(c)
     # the left side of + / ~ is read from the right side's view, which already carries it
     return out
 
 
+def _needs_of(text: str) -> int:
+    needs = 0
+    for pattern, need in _NEEDS:
+        if pattern.search(text):
+            needs |= need
+    if _OF_SELECTOR.search(text):
+        needs |= FULL
+    return needs
+
+
+def has_compounds(tokens):
+    """Compounds of one selector that contain ``:has()``, each with its text in
+    ``.selector``; None when they cannot be analysed (a relative sibling selector inside, or a
+    compound that names no tag, class or id)."""
+    out = []
+    compounds = split_compounds(tokens)
+    for _comb, parts in compounds:
+        text = tinycss2.serialize(parts)
+        if ":has(" not in text.lower():
+            continue
+        for t in parts:
+            if t.type == "function" and t.lower_name == "has":
+                inner = tinycss2.serialize(t.arguments).strip()
+                if "+" in inner or "~" in inner:
+                    return None
+        req = _requirements(parts)
+        if req.universal:
+            return None
+        out.append((req, text.strip()))
+    return out
+
+
 class SiblingIndex:
-    """Answers "could a sibling-sensitive compound match this element?" by tag/class/id."""
+    """Answers "what of its siblings could a selector read of this element?"."""
 
     def __init__(self, rules):
-        import tinycss2
-
-        self.any = False
-        self.own, self.by_parent = _Buckets(), _Buckets()
+        self.any = False  # every element FULL
+        self.own = _Buckets()  # by what the element itself must be
+        self.by_parent = _Buckets()  # universal compounds (`P > :first-child`), by the parent
+        self.free = []  # universal compounds without a parent requirement
         self._memo = {}
         for rule in rules:
             text = rule.selector_text
@@ -117,69 +190,156 @@ class SiblingIndex:
                 self.any = True
                 return
             for c in found:
-                if c.universal and c.parent is not None:
-                    self.by_parent.add(c.parent, c)
-                elif c.universal:
-                    self.any = True
-                    return
-                else:
+                if not c.universal:
                     self.own.add(c, c)
+                elif c.parent is not None:
+                    self.by_parent.add(c.parent, c)
+                else:
+                    self.free.append(c)
 
-    def sensitive_children(self, parent, children) -> list | None:
-        """For each child of ``parent``, whether it is sensitive; None when none is."""
-        if self.any or self._under(parent):
-            return [True] * len(children)
-        out = [self._own(el) for el in children]
+    def needs_children(self, parent, children) -> list | None:
+        """For each child of ``parent``, what of its siblings selectors read (0: nothing);
+        None when no child needs anything."""
+        if self.any:
+            return [FULL] * len(children)
+        context = _Ancestry(parent)
+        every = self._every_child(parent, context)
+        candidates = [self._candidates(el) for el in children]
+        if not every and not any(candidates):
+            return None
+        out = []
+        for found in candidates:
+            need = every
+            for c in found:
+                if (need & c.needs) != c.needs and context.satisfies(c):
+                    need |= c.needs
+            out.append(need)
         return out if any(out) else None
 
-    def sensitive(self, el, parent) -> bool:
-        """Whether a sibling-sensitive selector can reach ``el`` (``parent``: None at the root)."""
-        return self.any or self._own(el) or (parent is not None and self._under(parent))
+    def _every_child(self, parent, context) -> int:
+        """What universal compounds read of every child of ``parent``."""
+        need = 0
+        tag, classes, ident = _facts(parent)
+        for c in [*self.by_parent.matches(tag, classes, ident), *self.free]:
+            if (need & c.needs) != c.needs and context.satisfies(c):
+                need |= c.needs
+        return need
 
-    def _own(self, el) -> bool:
-        """A compound that needs siblings could match ``el`` itself."""
+    def _candidates(self, el) -> tuple:
+        """The sibling-reading compounds ``el`` itself could match (tag, classes, id)."""
         key = (el.tag, el.get("class"), el.get("id"))
         hit = self._memo.get(key)
         if hit is None:
             tag = el.tag.lower() if isinstance(el.tag, str) else ""
             classes = frozenset(key[1].split()) if key[1] else frozenset()
-            hit = self._remember(key, self.own.any_match(tag, classes, key[2], lambda c: True))
+            hit = tuple(self.own.matches(tag, classes, key[2]))
+            if len(self._memo) > MEMO_LIMIT:  # unique ids would grow it page after page
+                self._memo.clear()
+            self._memo[key] = hit
         return hit
 
-    def _under(self, parent) -> bool:
-        """``parent`` is one whose every child a sibling test reads (``P > :nth-child(2)``)."""
-        key = ("parent", parent.tag, parent.get("class"), parent.get("id"))
+
+class HasIndex:
+    """Answers "which ``:has()`` compounds could match this element?" by tag, classes and id,
+    and whether they do (``answers``)."""
+
+    def __init__(self, rules):
+        from .sheet import compile_one
+
+        self.own = _Buckets()
+        self.usable = True
+        self.active = False
+        self._memo = {}
+        seen = {}
+        for rule in rules:
+            text = rule.selector_text
+            if ":has(" not in text.lower():
+                continue
+            found = has_compounds(tinycss2.parse_component_value_list(text))
+            if found is None:
+                self.usable = False
+                return
+            for req, compound in found:
+                if compound in seen:
+                    continue
+                compiled, _ = compile_one(compound)
+                if compiled is None:
+                    self.usable = False
+                    return
+                seen[compound] = compiled.test
+                self.own.add(req, (compound, compiled.test))
+                self.active = True
+
+    def candidates(self, el) -> tuple:
+        """``(compound text, test)`` of the ``:has()`` compounds ``el`` could match."""
+        key = (el.tag, el.get("class"), el.get("id"))
         hit = self._memo.get(key)
         if hit is None:
-            tag = parent.tag.lower() if isinstance(parent.tag, str) else ""
-            classes = frozenset(key[2].split()) if key[2] else frozenset()
-            hit = self._remember(key, self.by_parent.any_match(tag, classes, key[3],
-                                                                 lambda c: True))
+            tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            classes = frozenset(key[1].split()) if key[1] else frozenset()
+            hit = tuple(sorted(set(self.own.matches(tag, classes, key[2])),
+                               key=lambda c: c[0]))
+            if len(self._memo) > MEMO_LIMIT:
+                self._memo.clear()
+            self._memo[key] = hit
         return hit
 
-    def _remember(self, key, hit: bool) -> bool:
-        if len(self._memo) > MEMO_LIMIT:  # unique ids would grow it page after page
-            self._memo.clear()
-        self._memo[key] = hit
-        return hit
+    def could_match(self, el) -> bool:
+        return bool(self.candidates(el))
+
+    @staticmethod
+    def answers(candidates, wrapper) -> tuple:
+        """Whether each candidate compound matches the element (its cssselect2 wrapper)."""
+        return tuple(test(wrapper) for _, test in candidates)
+
+
+class _Ancestry:
+    """A parent and its ancestors, read once for every child's candidate compounds."""
+
+    __slots__ = ("parent", "_chain")
+
+    def __init__(self, parent):
+        self.parent = parent
+        self._chain = None
+
+    def chain(self) -> list:
+        if self._chain is None:
+            self._chain = [_facts(el) for el in [self.parent, *self.parent.iterancestors()]]
+        return self._chain
+
+    def satisfies(self, c: Compound) -> bool:
+        if c.parent is not None and not c.parent.could_match(*self.chain()[0]):
+            return False
+        return all(any(a.could_match(*f) for f in self.chain()) for a in c.ancestors)
+
+
+def _facts(el) -> tuple:
+    tag = el.tag.lower() if isinstance(el.tag, str) else ""
+    cls = el.get("class")
+    return tag, frozenset(cls.split()) if cls else frozenset(), el.get("id")
 
 
 class _Buckets:
     def __init__(self):
         self.by_id, self.by_class, self.by_tag = {}, {}, {}
+        self.universal = []
 
     def add(self, req, payload):
         if req.ident:
             self.by_id.setdefault(req.ident, []).append((req, payload))
         elif req.classes:
             self.by_class.setdefault(next(iter(req.classes)), []).append((req, payload))
-        else:
+        elif req.tag not in (None, "*"):
             self.by_tag.setdefault(req.tag, []).append((req, payload))
+        else:
+            self.universal.append((req, payload))
 
-    def any_match(self, tag, classes, ident, accept) -> bool:
-        candidates = list(self.by_tag.get(tag, ()))
+    def matches(self, tag, classes, ident):
+        candidates = list(self.by_tag.get(tag, ())) + self.universal
         if ident:
             candidates += self.by_id.get(ident, ())
         for name in classes:
             candidates += self.by_class.get(name, ())
-        return any(req.could_match(tag, classes, ident) and accept(p) for req, p in candidates)
+        for req, payload in candidates:
+            if req.could_match(tag, classes, ident):
+                yield payload

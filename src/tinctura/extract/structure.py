@@ -12,6 +12,7 @@ from __future__ import annotations
 import cssselect2
 
 from .html import own_text
+from .siblings import FIRST, FULL, INDEX, LAST, TYPE
 
 LIMIT = 60000
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
@@ -26,6 +27,8 @@ class Structure:
     def __init__(self, ruleset):
         self.ruleset = ruleset
         self.siblings = ruleset.siblings
+        has = getattr(ruleset, "has_index", None)
+        self.has = has if has is not None and has.active else None
         self.ids = {}
         self.attr_sigs = {}
         self.raw_ids = {}  # (tag, attribute items, empty) -> id, for elements no sibling test reads
@@ -52,27 +55,42 @@ class Structure:
             out.append(sig)
         return tuple(out)  # document order: the same generator writes the same order
 
-    def element_id(self, el, prev_chain: int, following: int) -> int:
-        """The structural id of ``el`` at its place among its siblings."""
-        return self._id(el, self.attrs(el), self.siblings.sensitive(el, el.getparent()),
-                        prev_chain, following)
+    def element_id(self, el, siblings=None, wrapper_of=None) -> int:
+        """The structural id of ``el`` at its place among its siblings (``siblings``: what
+        ``children`` found selectors read of them; None for an element outside a list).
+        ``wrapper_of(el)``: its cssselect2 wrapper, needed where a ``:has()`` compound can
+        match it."""
+        return self._id(el, self.attrs(el), siblings, wrapper_of)
 
-    def _id(self, el, attrs: tuple, sensitive: bool, prev_chain: int, following: int) -> int:
+    def _id(self, el, attrs: tuple, siblings, wrapper_of=None) -> int:
         empty = not len(el) and not (el.text or "").strip()
-        if sensitive:
-            return self.intern((el.tag, attrs, prev_chain, following, empty))
+        if self.has is not None:
+            candidates = self.has.candidates(el)
+            if candidates:
+                # a :has() compound reads the subtree: whether it matches is in the identity
+                if wrapper_of is None:
+                    wrapper_of = _standalone_wrapper
+                answers = self.has.answers(candidates, wrapper_of(el))
+                return self.intern((el.tag, attrs, siblings, empty, answers))
+        if siblings:
+            return self.intern((el.tag, attrs, siblings, empty))
         return self.intern((el.tag, attrs, empty))
 
-    def children(self, el) -> list:
-        """``(child, structural id, previous-siblings id, following-siblings id)`` for the
-        child elements of ``el``; the sibling ids are 0 where no selector can read them."""
+    def children(self, el, wrapper_of=None) -> list:
+        """``(child, structural id, sibling facts)`` for the child elements of ``el``; the
+        sibling facts are what sibling-reading selectors need of its place (0 where none
+        can reach it). ``wrapper_of``: as for ``element_id``."""
         children = [c for c in el if isinstance(c.tag, str)]
         if not children:
             return children
-        sensitive = self.siblings.sensitive_children(el, children)
-        if sensitive is None:  # the common case: tag, attributes and emptiness decide
+        needs = self.siblings.needs_children(el, children)
+        has = self.has
+        if needs is None:  # the common case: tag, attributes and emptiness decide
             raw_ids, out = self.raw_ids, []
             for cel in children:
+                if has is not None and has.could_match(cel):
+                    out.append((cel, self._id(cel, self.attrs(cel), 0, wrapper_of), 0))
+                    continue
                 raw = (cel.tag, tuple(cel.attrib.items()),
                        not len(cel) and not (cel.text or "").strip())
                 ident = raw_ids.get(raw)
@@ -80,22 +98,63 @@ class Structure:
                     if len(raw_ids) > LIMIT:
                         raw_ids.clear()
                     ident = raw_ids[raw] = self.intern((raw[0], self.attrs(cel), raw[2]))
-                out.append((cel, ident, 0, 0))
+                out.append((cel, ident, 0))
             return out
-        intern = self.intern
-        following = [0] * len(children)
-        nxt = 0
-        for i in range(len(children) - 1, -1, -1):
-            following[i] = nxt
-            nxt = intern(("f", children[i].tag, nxt))
-        prev_chain = 0  # identity of the previous siblings (tags and attributes)
+        facts = self._sibling_facts(children, needs)
+        return [(cel, self._id(cel, self.attrs(cel), facts[i], wrapper_of), facts[i])
+                for i, cel in enumerate(children)]
+
+    def _sibling_facts(self, children, needs) -> list:
+        """Per child, only what its selectors read of its siblings (``siblings`` module)."""
+        n = len(children)
+        want = 0
+        for need in needs:
+            want |= need
+        types = ends = None
+        if want & TYPE:
+            seen, types = {}, []
+            for c in children:
+                seen[c.tag] = seen.get(c.tag, 0) + 1
+                types.append(seen[c.tag])
+            ends = [seen[c.tag] - k for c, k in zip(children, types)]
+        following = prevs = None
+        if want & FULL:
+            intern = self.intern
+            following = [0] * n
+            nxt = 0
+            for i in range(n - 1, -1, -1):
+                following[i] = nxt
+                nxt = intern(("f", children[i].tag, nxt))
+            prevs, chain = [], 0  # identity of the previous siblings (tags and attributes)
+            for c in children:
+                prevs.append(chain)
+                chain = intern(("s", c.tag, self.attrs(c), chain))
         out = []
-        for i, cel in enumerate(children):
-            attrs = self.attrs(cel)
-            ident = self._id(cel, attrs, sensitive[i], prev_chain, following[i])
-            out.append((cel, ident, prev_chain, following[i]))
-            prev_chain = intern(("s", cel.tag, attrs, prev_chain))
+        for i, need in enumerate(needs):
+            if not need:
+                out.append(0)
+                continue
+            facts = [need]
+            if need & FIRST:
+                facts.append(i > 0)
+            if need & LAST:
+                facts.append(i < n - 1)
+            if need & INDEX:
+                facts += (i, n - 1 - i)
+            if need & TYPE:
+                facts += (types[i], ends[i])
+            if need & FULL:
+                facts += (prevs[i], following[i])
+            out.append(tuple(facts))
         return out
+
+
+def _standalone_wrapper(el):
+    """A cssselect2 wrapper of ``el`` in a tree of its own wrappers (callers without a page's)."""
+    wrapper = cssselect2.ElementWrapper.from_html_root(el.getroottree().getroot())
+    for node in reversed([el, *el.iterancestors()][:-1]):
+        wrapper = next(c for c in wrapper.iter_children() if c.etree_element is node)
+    return wrapper
 
 
 def steps(children) -> list:
@@ -160,7 +219,7 @@ class PageStructure:
     def children(self, el) -> list:
         kids = self.kids.get(el)
         if kids is None:
-            kids = self.kids[el] = self.structure.children(el)
+            kids = self.kids[el] = self.structure.children(el, self.wrapper_of)
             if kids:
                 paths = self.paths
                 base = paths.get(el)
@@ -177,7 +236,8 @@ class PageStructure:
         return path
 
     def root_id(self) -> int:
-        return self.structure.intern(("root", self.structure.element_id(self.root, 0, 0)))
+        return self.structure.intern(("root", self.structure.element_id(
+            self.root, wrapper_of=self.wrapper_of)))
 
     def changed(self, elements, attributes) -> None:
         """A scheme set ``attributes`` on ``elements``: forget what read them."""
@@ -191,3 +251,8 @@ class PageStructure:
             parent = el.getparent()
             if parent is not None:
                 self.kids.pop(parent, None)  # its children's ids (and the siblings after)
+            if self.structure.has is not None:  # ancestors' subtree fingerprints changed too
+                for up in el.iterancestors():
+                    grand = up.getparent()
+                    if grand is not None:
+                        self.kids.pop(grand, None)

@@ -4,7 +4,12 @@ Cascade order (CSS Cascade 5, 6.1): origin and importance, then element-attached
 attribute) over rule-based, then layer order (reversed for !important), then specificity, then
 order of appearance. Custom properties are inherited and resolved where they are declared, at
 token level, before colours are parsed (CSS Custom Properties 1); a cycle makes every property in
-it invalid at computed-value time.
+it invalid at computed-value time. Substitution is bounded, as CSS Custom Properties 1 (section
+3.3) allows: a value whose expansion exceeds ``max_var_tokens`` tokens, or a chain of references
+longer than ``MAX_VAR_DEPTH``, is invalid at computed-value time and noted in ``problems``, so
+that a stylesheet that doubles a property thirty times costs a bounded amount of work. (A long
+chain declared last link first meets the bound while resolving, and the properties it passes
+through are then invalid too: no real stylesheet has a chain of even ten.)
 """
 from __future__ import annotations
 
@@ -65,6 +70,33 @@ class Custom:
 
 EMPTY_CUSTOM = Custom({})
 
+# Bounds on var() substitution. No real stylesheet comes near them: a large theme's longest
+# expanded value is a few hundred tokens and its deepest chain of references under ten.
+MAX_VAR_TOKENS = 10000
+MAX_VAR_DEPTH = 64
+_DEPTH_NOTE = (f"chain of more than {MAX_VAR_DEPTH} custom properties; the value is treated as "
+               "invalid")
+
+
+class _Overflow(Exception):
+    """A var() expansion went past a bound; the value is invalid at computed-value time."""
+
+
+class _TooDeep(_Overflow):
+    """A chain of var() references longer than ``MAX_VAR_DEPTH``."""
+
+
+def _size(tokens) -> int:
+    """Tokens in a value, counting those inside functions and blocks."""
+    n = 0
+    for t in tokens:
+        n += 1
+        if t.type == "function":
+            n += _size(t.arguments)
+        elif t.type in ("() block", "[] block", "{} block"):
+            n += _size(t.content)
+    return n
+
 
 def cascade(rules, inline_decls, ruleset, pseudo=None) -> dict:
     """Winning declarations by property for an element (pseudo=None) or a pseudo-element."""
@@ -106,7 +138,7 @@ class Style:
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
                  "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style",
-                 "hidden_within", "shadows")
+                 "hidden_within", "shadows", "in_link")
 
     def __init__(self):
         self.color = BLACK
@@ -135,6 +167,7 @@ class Style:
         self.hidden_within = False  # this element or an ancestor is visually hidden
         self.svg_fill = None
         self.disabled = False
+        self.in_link = 0  # inside an <a href> (itself included): 1; one in running text: 2
 
 
 ROOT_PARENT = Style()
@@ -148,6 +181,13 @@ class Resolver:
         self.preferred = preferred_scheme  # "light" or "dark": the reader's preference
         self.vw = float(viewport_width)
         self.root_font_size = 16.0
+        self.max_var_tokens = MAX_VAR_TOKENS
+        # (sheet, line, property) -> why its value was dropped; the engine reports them
+        self.problems = {}
+
+    def _note(self, winner, name, why):
+        decl = winner.provenance(name)
+        self.problems.setdefault((decl.sheet, decl.line, name), why)
 
     # -- custom properties -------------------------------------------------------------
     def _customs(self, winners, parent_custom: Custom) -> Custom:
@@ -168,16 +208,19 @@ class Resolver:
                 for other in stack[stack.index(name):]:
                     state[other] = "cycle"
                 return None
+            w = declared[name]
+            if len(stack) >= MAX_VAR_DEPTH:
+                self._note(w, name, _DEPTH_NOTE)
+                return None
             state[name] = "busy"
             stack.append(name)
-            w = declared[name]
             tokens = w.decl.tokens
             text = w.decl.text.strip().lower()
             if text in GLOBAL_KEYWORDS:
                 result = values.get(name) if text in ("inherit", "unset", "revert",
                                                       "revert-layer") else None
             else:
-                out, chain, ok = self._substitute(tokens, resolve)
+                out, chain, ok = self._bounded(w, name, tokens, resolve)
                 result = (out, w.provenance(), chain) if ok else None
             stack.pop()
             if state.get(name) == "cycle":
@@ -196,10 +239,28 @@ class Resolver:
                 values[name] = value
         return Custom(values)
 
-    def _substitute(self, tokens, lookup):
-        """Replace var() in tokens; returns (tokens, chain of Declarations, valid)."""
+    def _bounded(self, winner, name, tokens, lookup):
+        """``_substitute`` within the bounds: an expansion past them is invalid, and noted."""
+        try:
+            return self._substitute(tokens, lookup)
+        except _TooDeep:
+            why = _DEPTH_NOTE
+        except _Overflow:
+            why = (f"var() expansion longer than {self.max_var_tokens} tokens; the value is "
+                   "treated as invalid (CSS Custom Properties 1, section 3.3)")
+        except RecursionError:
+            why = "var() substitution nested too deeply; the value is treated as invalid"
+        self._note(winner, name, why)
+        return None, (), False
+
+    def _substitute(self, tokens, lookup, budget=None):
+        """Replace var() in tokens; returns (tokens, chain of Declarations, valid).
+
+        ``budget`` is a one-item list: tokens the expansion may still add (``_Overflow``)."""
         if not _has_var(tokens):
             return tokens, (), True
+        if budget is None:
+            budget = [self.max_var_tokens]
         out, chain = [], []
         for t in tokens:
             if t.type == "function":
@@ -212,6 +273,9 @@ class Resolver:
                     found = lookup(name)
                     if found is not None:
                         value, decl, sub_chain = found
+                        budget[0] -= _size(value)
+                        if budget[0] < 0:
+                            raise _Overflow
                         out.extend(value)
                         chain.append(decl)
                         chain.extend(sub_chain)
@@ -220,32 +284,37 @@ class Resolver:
                                   if a.type == "literal" and a.value == ","), None)
                     if comma is None:
                         return None, (), False
-                    fb, fb_chain, ok = self._substitute(args[comma + 1:], lookup)
+                    fb, fb_chain, ok = self._substitute(args[comma + 1:], lookup, budget)
                     if not ok:
                         return None, (), False
                     out.extend(fb)
                     chain.extend(fb_chain)
                     continue
                 if _has_var(t.arguments):
-                    inner, sub_chain, ok = self._substitute(t.arguments, lookup)
+                    inner, sub_chain, ok = self._substitute(t.arguments, lookup, budget)
                     if not ok:
                         return None, (), False
                     t = tinycss2.ast.FunctionBlock(t.source_line, t.source_column, t.name, inner)
                     chain.extend(sub_chain)
             elif t.type in ("() block", "[] block", "{} block") and _has_var(t.content):
-                inner, sub_chain, ok = self._substitute(t.content, lookup)
+                inner, sub_chain, ok = self._substitute(t.content, lookup, budget)
                 if not ok:
                     return None, (), False
                 cls = type(t)
                 t = cls(t.source_line, t.source_column, inner)
                 chain.extend(sub_chain)
             out.append(t)
+        if len(chain) > 1:  # a property used twice is one link (and chains stay small)
+            chain = dict.fromkeys(chain)
+            if len(chain) > MAX_VAR_DEPTH:
+                raise _TooDeep
         return out, tuple(chain), True
 
     def value(self, winner, style):
         """Tokens of a winner after var() substitution, with the custom-property chain."""
         values = style.custom.values
-        tokens, chain, ok = self._substitute(winner.decl.tokens, values.get)
+        tokens, chain, ok = self._bounded(winner, winner.decl.name, winner.decl.tokens,
+                                          values.get)
         return (tokens if ok else None), chain
 
     # -- the element ---------------------------------------------------------------------

@@ -26,6 +26,9 @@ class Header:
     # callable sample -> writer.Location (readable locator, Markdown source), when the run can
     # tell (a writer.WriterAid)
     locate: object = None
+    # JSON: "compact" (each situation once, occurrences as small records; format 2) or
+    # "flat" (every finding in full; format 1)
+    findings_layout: str = "compact"
     rules: tuple = ()  # codes of the rules run (empty: every rule)
     # where results point: page -> (path, line or 0) of its Markdown source, or None (then the
     # built page); the hook a source map plugs into
@@ -37,10 +40,17 @@ class Header:
 class Formatter:
     """start, then page* (stable order), problem* (largest first), diagnostic*, then stop.
 
+    A formatter that sets ``wants_findings = False`` gets ``page(page, [])`` (nothing is read
+    back from the run's store); one that sets ``wants_occurrences = True`` gets
+    ``occurrences(page, records, store)`` instead of ``page``: the page's small occurrence
+    records and the ``report.store.FindingStore`` that holds each situation once.
+
     ``marked = True``: the formatter also receives the findings held by the gate (suppressed,
     or unchanged against the baseline), each marked; otherwise only the findings that count.
     """
 
+    wants_findings = True
+    wants_occurrences = False
     marked = False
 
     def __init__(self, stream, header: Header):
@@ -75,6 +85,38 @@ def findings_by_page(findings) -> dict:
 def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) -> None:
     """Feed one run to ``formatter``. ``diagnostics``: site-wide ones; page ones come along."""
     formatter.start(summary)
+    if formatter.wants_occurrences:
+        _emit_occurrences(formatter, pages, findings)
+    elif not formatter.wants_findings:
+        for page in pages:
+            formatter.page(page, [])
+    else:
+        _emit_pages(formatter, pages, findings)
+    for index, problem in enumerate(problems, 1):
+        formatter.problem(index, problem)
+    for diagnostic in diagnostics:
+        formatter.diagnostic(diagnostic)
+    for page in pages:
+        for diagnostic in page.diagnostics:
+            formatter.diagnostic(diagnostic)
+    formatter.stop(summary)
+
+
+def _emit_occurrences(formatter: Formatter, pages, findings) -> None:
+    from .store import FindingStore
+
+    inner = getattr(findings, "_findings", None)  # an outputs.GateView over the run's store
+    if getattr(findings, "marked", False) and isinstance(inner, FindingStore):
+        findings = inner  # every finding, marked: the store as it is
+    store = FindingStore.of(findings)
+    listed = [page.page for page in pages]
+    for page in pages:
+        formatter.occurrences(page, store.occurrences(page.page), store)
+    for name in sorted(set(store.pages()) - set(listed)):  # pages the run did not list
+        formatter.occurrences(PageResult(name), store.occurrences(name), store)
+
+
+def _emit_pages(formatter: Formatter, pages, findings) -> None:
     if hasattr(findings, "by_page"):  # a FindingStore: one page in memory at a time
         grouped = {name: None for name in findings.pages()}
 
@@ -91,11 +133,3 @@ def emit(formatter: Formatter, pages, findings, problems, diagnostics, summary) 
         formatter.page(page, of(page.page))
     for name in sorted(set(grouped) - seen):  # findings on pages the run did not list
         formatter.page(PageResult(name), of(name))
-    for index, problem in enumerate(problems, 1):
-        formatter.problem(index, problem)
-    for diagnostic in diagnostics:
-        formatter.diagnostic(diagnostic)
-    for page in pages:
-        for diagnostic in page.diagnostics:
-            formatter.diagnostic(diagnostic)
-    formatter.stop(summary)

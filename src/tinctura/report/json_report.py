@@ -14,7 +14,8 @@ from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2  # the compact layout; the flat one keeps writing format 1
+FLAT_VERSION = 1
 SCHEMA_PATH = os.path.join(os.path.dirname(os.path.dirname(__file__)), "data", "report-schema.json")
 
 
@@ -107,6 +108,88 @@ def gate_dict(f) -> dict:
             "baseline": f.baseline or None}
 
 
+def situation_dict(f, problem: int | None, occurrences: int) -> dict:
+    """What every occurrence of one situation shares (compact layout)."""
+    s = f.sample
+    fg, bg = m.finding_colours(f)
+    fg_cause = cause_dict(s.fg_cause)
+    if fg_cause is not None:
+        fg_cause["inherited_from"] = None  # per occurrence: its fifth field
+    return {
+        "problem": problem,
+        "rule": f.rule,
+        "slug": f.slug,
+        "severity": f.severity,
+        "scheme": s.scheme,
+        "state": s.state,
+        "fg": m.colour(fg),
+        "bg": m.colour(bg),
+        "ratio": float(f.ratio),
+        "required": float(f.required),
+        "level": f.level,
+        "message": m.message(f),
+        "fix": [fix_dict(x) for x in f.fixes],
+        "fg_cause": fg_cause,
+        "bg_cause": cause_dict(s.bg_cause),
+        "occurrences": occurrences,
+        **({"appearance": appearance.appearance_dict(f)} if appearance.is_appearance(f) else {}),
+    }
+
+
+def occurrence_list(record) -> list:
+    """``[situation, xpath, line, text]``, plus the ancestor an inherited colour comes from:
+    how many levels up (or its XPath, should it not be an ancestor; null when there is none
+    but the gate's marks follow), plus the gate's marks when the run set them."""
+    sid, xpath, line, text, inherited, _layers, marks = record[:7]
+    out = [sid, xpath, line, m.excerpt(text, 200)]
+    if inherited:
+        if xpath.startswith(inherited + "/"):
+            out.append(xpath.split("::")[0][len(inherited):].count("/"))
+        else:
+            out.append(inherited)
+    if marks:
+        if not inherited:
+            out.append(None)
+        fingerprint, suppressed, baseline = marks
+        out.append({"fingerprint": fingerprint, "suppressed": suppressed or None,
+                    "baseline": baseline or None})
+    return out
+
+
+def inherited_xpath(occurrence: list):
+    """The XPath an occurrence's text colour is inherited from (None: set on the element)."""
+    if len(occurrence) < 5 or occurrence[4] is None:
+        return None
+    up = occurrence[4]
+    if isinstance(up, str):
+        return up
+    return occurrence[1].split("::")[0].rsplit("/", up)[0]
+
+
+def expand(doc: dict) -> list:
+    """Every finding of a report as format 1 writes it (a compact report's situations and
+    occurrences put back together), in report order."""
+    if "findings" in doc:
+        return doc["findings"]
+    situations, out = doc["situations"], []
+    for entry in doc["pages"]:
+        for occ in entry["occurrences"]:
+            sit = situations[occ[0]]
+            fg_cause = sit["fg_cause"]
+            if fg_cause is not None:
+                fg_cause = dict(fg_cause, inherited_from=inherited_xpath(occ))
+            out.append({
+                "rule": sit["rule"], "slug": sit["slug"], "severity": sit["severity"],
+                "page": entry["page"], "scheme": sit["scheme"], "state": sit["state"],
+                "xpath": occ[1], "line": occ[2], "text": occ[3], "fg": sit["fg"],
+                "bg": sit["bg"], "ratio": sit["ratio"], "required": sit["required"],
+                "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
+                "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
+                **({"appearance": sit["appearance"]} if "appearance" in sit else {}),
+                **(occ[5] if len(occ) > 5 else {})})
+    return out
+
+
 def cause_fix_dict(fix) -> dict | None:
     if fix is None:
         return None
@@ -145,6 +228,17 @@ def source_dict(source) -> dict | None:
             "template": source.template}
 
 
+def where_dict(finding, location) -> dict:
+    """Where a problem's worst occurrence is, for a writer: its page, text, readable locator and
+    Markdown source (or theme template) when the run could tell."""
+    s = finding.sample
+    out = {"page": s.page, "text": m.excerpt(s.text, 200), "locator": "", "source": None}
+    if location is not None:
+        out["locator"] = location.locator
+        out["source"] = source_dict(location.source)
+    return out
+
+
 def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = False) -> dict:
     location = locate(problem.worst.sample) if locate is not None else None
     return {
@@ -164,6 +258,7 @@ def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = Fals
         "fix": override_dict(getattr(problem, "override", None)),
         "findings": list(problem.indexes) if problem.indexes is not None else
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
+        "where": where_dict(problem.worst, location),
         "sentence": m.message(problem.worst) if is_appearance(problem.worst) else
         plain.sentence(problem, location, many_schemes or len(problem.schemes) > 1),
     }
@@ -186,10 +281,19 @@ def summary_dict(s) -> dict:
         "undetermined": s.undetermined,
         "undetermined_reasons": dict(s.undetermined_reasons),
         "exempt": s.exempt,
+        "exempt_reasons": dict(s.exempt_reasons),
         "skipped": dict(s.skipped),
         "diagnostics": s.diagnostics,
         "schemes": list(s.schemes),
     }
+
+
+def link_dict(link):
+    """A link's context for SC 1.4.1 (TC120), or None for samples outside running-text links."""
+    if link is None:
+        return None
+    return {"surround": None if link.surround is None else m.colour(link.surround),
+            "rest": list(link.rest), "hover": list(link.hover), "focus": list(link.focus)}
 
 
 def sample_dict(s) -> dict:
@@ -210,6 +314,7 @@ def sample_dict(s) -> dict:
         "status": s.status,
         "reason": s.reason,
         "exempt": s.exempt,
+        "link": link_dict(s.link),
         "bg_alternatives": [m.colour(b) for b in s.bg_alternatives if b is not None],
         "fg_cause": cause_dict(s.fg_cause),
         "bg_cause": cause_dict(s.bg_cause),
@@ -218,22 +323,35 @@ def sample_dict(s) -> dict:
 
 
 class JsonFormatter(Formatter):
-    """Writes one JSON document as the run goes: findings as their pages arrive, one per line,
-    so that a large site's report is never held in memory twice."""
+    """Writes one JSON document as the run goes, so that a large site's report is never held in
+    memory twice.
 
-    SECTIONS = ("findings", "problems", "diagnostics")
+    Compact layout (format 2, the default): ``pages`` as they arrive, each with its occurrences
+    as small records ``[situation, xpath, line, text(, inherited_from)]``; ``problems``, each
+    listing its situations; ``situations``, what their occurrences share (message, colours,
+    ratio, fix, causes), each once. Flat layout (format 1, ``Header.findings_layout="flat"``):
+    every finding in full, one per line, and problems listing finding indexes."""
+
+    FLAT_SECTIONS = ("findings", "problems", "diagnostics")
+    COMPACT_SECTIONS = ("pages", "problems", "situations", "diagnostics")
     marked = True  # suppressed and baseline-known findings are listed too, marked
 
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)
+        self.flat = getattr(header, "findings_layout", "compact") == "flat"
+        self.wants_occurrences = not self.flat
+        self.SECTIONS = self.FLAT_SECTIONS if self.flat else self.COMPACT_SECTIONS
         self.index_of: dict = {}  # id(finding) -> index in "findings", for the problems
+        self.store = None  # compact: the run's FindingStore
+        self._situation_problem: dict = {}  # situation -> problem index (compact)
+        self._by_problem = None  # problem key -> its situations (compact)
         self._section = -1  # index in SECTIONS of the open list
         self._count = 0  # items written to the open list
 
     def start(self, summary) -> None:
         head = {
             "tool": {"name": self.header.tool, "version": self.header.version},
-            "format_version": SCHEMA_VERSION,
+            "format_version": FLAT_VERSION if self.flat else SCHEMA_VERSION,
             "level": self.header.level,
             "schemes": list(self.header.schemes or summary.schemes),
         }
@@ -243,25 +361,56 @@ class JsonFormatter(Formatter):
             self.stream.write(",\n")
 
     def page(self, page, findings) -> None:
-        locate = self.header.locate
         for f in findings:
-            item = finding_dict(f)
-            if locate is not None:
-                location = locate(f.sample)
-                if location.locator:
-                    item["locator"] = location.locator
-                if location.source is not None:
-                    item["source"] = source_dict(location.source)
-            self.index_of[id(f)] = self._item("findings", item)
+            self.index_of[id(f)] = self._item("findings", finding_dict(f))
+
+    def occurrences(self, page, records, store) -> None:
+        self.store = store
+        if records:
+            self._item("pages", {"page": page.page,
+                                 "occurrences": [occurrence_list(r) for r in records]})
 
     def problem(self, index, problem) -> None:
-        self._item("problems", problem_dict(problem, self.index_of, self.header.locate,
-                                            len(self.header.schemes) > 1))
+        if self.flat:
+            self._item("problems", problem_dict(problem, self.index_of, self.header.locate,
+                                                len(self.header.schemes) > 1))
+            return
+        item = problem_dict(problem, {}, self.header.locate, len(self.header.schemes) > 1)
+        del item["findings"]
+        item["situations"] = sids = self._situations_of(problem)
+        for sid in sids:
+            self._situation_problem[sid] = index - 1
+        self._item("problems", item)
+
+    def _situations_of(self, problem) -> list:
+        from tinctura.problems import cause_key, problem_key
+
+        if self.store is None:
+            return []
+        if self._by_problem is None:
+            self._by_problem = {}
+            for sid, template in enumerate(self.store.situations):
+                self._by_problem.setdefault(problem_key(template), []).append(sid)
+        key = (problem.rule, cause_key(problem.fg_cause), cause_key(problem.bg_cause))
+        return self._by_problem.get(key, [])
+
+    def _situations(self) -> None:
+        """The compact layout's situations, once every problem is written."""
+        if self.flat or self._section >= self.SECTIONS.index("situations"):
+            return
+        self._open(self.SECTIONS.index("situations"))
+        if self.store is None:
+            return
+        for sid, template in enumerate(self.store.situations):
+            self._item("situations", situation_dict(
+                template, self._situation_problem.get(sid), self.store.occurrence_counts[sid]))
 
     def diagnostic(self, diagnostic) -> None:
+        self._situations()
         self._item("diagnostics", diagnostic_dict(diagnostic))
 
     def stop(self, summary) -> None:
+        self._situations()
         self._open(len(self.SECTIONS))
         self._field("summary", summary_dict(summary))
         self.stream.write(",\n")
@@ -285,6 +434,7 @@ class JsonFormatter(Formatter):
     def _item(self, section: str, item) -> int:
         self._open(self.SECTIONS.index(section))
         self.stream.write(",\n    " if self._count else "\n    ")
-        self.stream.write(json.dumps(item, ensure_ascii=False))
+        compact = (",", ":") if section == "pages" else None  # most of a large report
+        self.stream.write(json.dumps(item, ensure_ascii=False, separators=compact))
         self._count += 1
         return self._count - 1

@@ -1,16 +1,28 @@
-"""A run's findings kept on disk, page by page, for the report written at the end.
+"""A run's findings, each situation once and each occurrence as a small record on disk.
 
 ``tinctura check`` meets every finding before it can write the report (problems come first in
-it, and group findings from every page). Held in memory, findings would make a large site's
-check grow with its number of pages; here each page's findings are pickled to a temporary file
-as the page is judged, with the counts a summary needs kept aside, and read back one page at a
-time while the report is written.
+it, and group findings from every page). A site with one bad accent colour has hundreds of
+thousands of findings of a few hundred *situations* (``tinctura.situations``): rule, scheme,
+state, colours, font, causes. The store keeps one template finding per situation in memory and,
+per page, only each occurrence's situation number and place (XPath, line, text, the ancestor an
+inherited colour comes from), pickled to a temporary file as the page is judged, so memory does
+not grow with the number of findings. The counts a summary needs are kept aside.
+
+Reading back:
+
+- ``pages()`` and ``occurrences(page)``: ``(situation, place)`` records, for outputs that write
+  situations once (the compact JSON report);
+- ``situations`` (list, by situation number) of template findings;
+- ``by_page(page)`` and iteration: full ``Finding`` records rebuilt one page at a time, for
+  outputs that want every finding (the flat JSON list, the text report by page).
 """
 from __future__ import annotations
 
 import pickle
 import tempfile
 from collections import Counter
+
+from tinctura import situations as sit
 
 
 class FindingStore:
@@ -20,29 +32,100 @@ class FindingStore:
         self._file = tempfile.TemporaryFile()
         self._where = {}  # page -> [(offset, length)], in run order
         self._size = 0
+        self._ids = {}  # situations.finding_key -> situation number
+        self.situations = []  # situation number -> template Finding (its first occurrence)
+        self.occurrence_counts = []  # situation number -> occurrences
         self.counts = {"severity": Counter(), "rule": Counter(), "page": Counter(),
                        "scheme": Counter()}
 
-    def add(self, page: str, findings: list) -> None:
+    @classmethod
+    def of(cls, findings) -> "FindingStore":
+        """A store holding ``findings`` (a list, in run order), or ``findings`` if it is one."""
+        if isinstance(findings, cls):
+            return findings
+        store = cls()
+        pages: dict = {}
+        for f in findings:
+            pages.setdefault(f.sample.page, []).append(f)
+        for page, items in pages.items():
+            store.add(page, items)
+        return store
+
+    def situation(self, key, template) -> int:
+        """The number of the situation ``key`` (``situations.finding_key``), first seen as
+        ``template``."""
+        sid = self._ids.get(key)
+        if sid is None:
+            sid = self._ids[key] = len(self.situations)
+            self.situations.append(template)
+            self.occurrence_counts.append(0)
+        return sid
+
+    def add(self, page: str, findings) -> list:
+        """Keep ``page``'s findings (a list, or ``situations.PageFindings``); returns their
+        records ``(situation number,) + situations.place``, in order."""
         if not findings:
-            return
-        data = pickle.dumps(findings, protocol=pickle.HIGHEST_PROTOCOL)
+            return []
+        if isinstance(findings, sit.PageFindings):
+            # numbered in order of first occurrence, as a list of the same findings would be
+            local = [None] * len(findings.templates)
+            built = findings.built()  # findings already built may carry the gate's marks
+            records = []
+            for n, r in enumerate(findings.records):
+                sid = local[r[0]]
+                if sid is None:
+                    sid = local[r[0]] = self.situation(findings.keys[r[0]],
+                                                       findings.templates[r[0]])
+                records.append((sid,) + (sit.place(built[n]) if built else r[1:]))
+        else:
+            records = [(self.situation(sit.finding_key(f), f),) + sit.place(f) for f in findings]
+        self._write(page, records)
+        return records
+
+    def _write(self, page: str, records: list) -> None:
+        data = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
         self._file.seek(0, 2)
         self._where.setdefault(page, []).append((self._file.tell(), len(data)))
         self._file.write(data)
-        self._size += len(findings)
-        for f in findings:
-            self.counts["severity"][f.severity] += 1
-            self.counts["rule"][f.rule] += 1
-            self.counts["page"][f.sample.page] += 1
-            self.counts["scheme"][f.sample.scheme] += 1
+        self._count(page, records, 1)
 
-    def by_page(self, page: str) -> list:
+    def _count(self, page: str, records: list, sign: int) -> None:
+        per_situation = Counter(r[0] for r in records)
+        counts = self.counts
+        for sid, n in per_situation.items():
+            t = self.situations[sid]
+            self.occurrence_counts[sid] += sign * n
+            counts["severity"][t.severity] += sign * n
+            counts["rule"][t.rule] += sign * n
+            counts["scheme"][t.sample.scheme] += sign * n
+        counts["page"][page] += sign * len(records)
+        self._size += sign * len(records)
+        for counter in counts.values():  # a page checked again may have lost its findings
+            for name in [k for k, v in counter.items() if v <= 0]:
+                del counter[name]
+
+    def replace(self, page: str, findings) -> list:
+        """``add`` for a page checked again (``mkdocs serve``): its earlier findings go."""
+        self.discard(page)
+        return self.add(page, findings)
+
+    def discard(self, page: str) -> None:
+        if page in self._where:
+            self._count(page, self.occurrences(page), -1)
+            del self._where[page]
+
+    def occurrences(self, page: str) -> list:
+        """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
+        ``page``, in run order."""
         out = []
         for offset, length in self._where.get(page, ()):
             self._file.seek(offset)
             out.extend(pickle.loads(self._file.read(length)))
         return out
+
+    def by_page(self, page: str) -> list:
+        templates = self.situations
+        return [sit.rebuild(templates[r[0]], r[1:], page) for r in self.occurrences(page)]
 
     def pages(self) -> list:
         return list(self._where)

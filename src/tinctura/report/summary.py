@@ -23,6 +23,7 @@ class Summary:
     undetermined: int = 0  # samples (not exempt) whose colours could not be determined: not judged
     undetermined_reasons: dict = field(default_factory=dict)
     exempt: int = 0  # samples WCAG does not cover (e.g. disabled controls)
+    exempt_reasons: dict = field(default_factory=dict)  # exemption id -> count (extract/exempt.py)
     skipped: dict = field(default_factory=dict)  # reason -> count, as extraction reported
     diagnostics: int = 0
     schemes: list = field(default_factory=list)  # scheme names evaluated
@@ -36,11 +37,16 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
     ``pages``: PageResults; ``findings``: every Finding; ``diagnostics``: site-wide ones
     (page diagnostics are counted from the pages); ``schemes``: Scheme records or names.
     """
-    samples = [s for page in pages for s in page.samples]
+    from tinctura.extract.nontext import KINDS as non_text  # counted as texts: not these
+
+    samples = [s for page in pages for s in page.samples if s.kind not in non_text]
     undetermined = Counter(
         s.reason or "unknown" for s in samples if s.status != DETERMINED and not s.exempt
     )
     kept = [page.stats for page in pages if page.stats is not None]  # samples dropped
+    exempt = Counter(s.exempt for s in samples if s.exempt)
+    for stats in kept:
+        exempt.update(stats.get("exempt_reasons", {}))
     for stats in kept:
         undetermined.update(stats["undetermined"])
     ratios = distribution.histogram(samples)
@@ -74,6 +80,7 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         undetermined=sum(undetermined.values()),
         undetermined_reasons=dict(sorted(undetermined.items())),
         exempt=sum(1 for s in samples if s.exempt) + sum(stats["exempt"] for stats in kept),
+        exempt_reasons=dict(sorted(exempt.items())),
         skipped=dict(sorted(skipped.items())),
         diagnostics=len(diagnostics) + sum(len(p.diagnostics) for p in pages),
         schemes=names,

@@ -34,6 +34,10 @@ class TextFormatter(Formatter):
         self.schemes = list(header.schemes)
         self.width = terminal_width()
 
+    @property
+    def wants_findings(self) -> bool:  # grouped by cause: the problems carry the examples
+        return self.header.group == "page"
+
     # -- helpers -----------------------------------------------------------------------
 
     @property
@@ -220,7 +224,11 @@ def summary_line(summary, header: Header) -> str:
             f"{k} {v:,}" for k, v in summary.undetermined_reasons.items()) + ")"
     parts.append(undetermined)
     if summary.exempt:
-        parts.append(f"{summary.exempt:,} exempt")
+        exempt = f"{summary.exempt:,} exempt"
+        reasons = getattr(summary, "exempt_reasons", None)
+        if reasons:
+            exempt += " (" + ", ".join(f"{k} {v:,}" for k, v in reasons.items()) + ")"
+        parts.append(exempt)
     skipped = sum(summary.skipped.values())
     if skipped:
         detail = ", ".join(f"{k} {v:,}" for k, v in summary.skipped.items())

@@ -1,0 +1,147 @@
+"""What findings share and what each occurrence adds.
+
+A site with one faint accent colour produces the same finding on every navigation link of every
+page: same rule, scheme, state, colours, font, causes. Everything a rule reads of a sample except
+where it stands is its *situation*; a rule judges a situation once (rules judge one sample at a
+time) and each further occurrence costs only its place: page, XPath, line, text excerpt and the
+ancestor an inherited colour comes from.
+
+``sample_key(sample)`` is the situation of a sample (hashable); ``finding_key(finding)`` that of
+a finding (its rule and its sample's situation). ``place(finding)`` is what an occurrence adds,
+and ``rebuild(template, place, page)`` turns a situation's template finding and a place back
+into a full ``Finding`` (outputs that want every finding get them this way).
+"""
+from __future__ import annotations
+
+import dataclasses
+import operator
+
+from .model import Cause, Finding, Layer, Sample
+
+# Sample fields that say where a text stands, not what it looks like. A rule must not read them
+# (rules judge colour situations; see DEVELOPERS.md "Rules").
+POSITIONAL = ("page", "xpath", "line", "text")
+_SPECIAL = ("fg_cause", "bg_layers")  # hold XPaths inside; keyed without them
+_SHARED = tuple(f.name for f in dataclasses.fields(Sample)
+                if f.name not in POSITIONAL and f.name not in _SPECIAL)
+_shared = operator.attrgetter(*_SHARED)
+_fields = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
+
+
+def sample_key(s: Sample) -> tuple:
+    """Everything rules can read of ``s``: equal keys get equal verdicts."""
+    c = s.fg_cause
+    cause = None if c is None else (c.declaration, c.chain, c.inherited_from is not None)
+    layers = s.bg_layers
+    if layers:
+        layers = tuple((layer.kind, layer.colour, layer.cause) for layer in layers)
+    return (_shared(s), cause, layers)
+
+
+def finding_key(f: Finding) -> tuple:
+    return (f.rule, sample_key(f.sample))
+
+
+def place(f: Finding) -> tuple:
+    """``(xpath, line, text, inherited_from, layer xpaths or None, gate marks or None)`` of one
+    occurrence; the gate's marks (``tinctura.gate``) are ``(fingerprint, suppressed,
+    baseline)``."""
+    s = f.sample
+    inherited = s.fg_cause.inherited_from if s.fg_cause is not None else None
+    layers = tuple(layer.xpath for layer in s.bg_layers) if s.bg_layers else None
+    marks = (f.fingerprint, f.suppressed, f.baseline) if getattr(f, "fingerprint", "") else None
+    return (s.xpath, s.line, s.text, inherited, layers, marks)
+
+
+def rebuild(template: Finding, where: tuple, page: str) -> Finding:
+    """The finding of ``template``'s situation at ``where`` on ``page``."""
+    s = Sample(*_fields(template.sample))
+    s.page = page
+    s.xpath, s.line, s.text, inherited = where[:4]
+    c = s.fg_cause
+    if c is not None and c.inherited_from != inherited:
+        s.fg_cause = Cause(c.declaration, inherited, c.chain)
+    if where[4]:
+        s.bg_layers = tuple(Layer(x, layer.kind, layer.colour, layer.cause)
+                            for x, layer in zip(where[4], s.bg_layers))
+    found = occurrence(template, s)
+    if where[5]:
+        found.fingerprint, found.suppressed, found.baseline = where[5]
+    return found
+
+
+def occurrence(template: Finding, sample: Sample) -> Finding:
+    """``template``'s verdict on another sample of the same situation (shares its fixes and
+    arguments, which are never changed once made; the gate's marks are the occurrence's own)."""
+    t = template
+    return Finding(t.rule, t.slug, t.severity, sample, t.ratio, t.required, t.level, t.fixes,
+                   t.args)
+
+
+class PageFindings:
+    """One page's findings as situations and places: ``templates`` (a finding per situation),
+    their ``keys`` (``finding_key``) and ``records`` ``(template index,) + place`` in report
+    order. A read-only sequence of ``Finding``
+    (rebuilt on first use); pickled without them, so a worker sends each situation once."""
+
+    __slots__ = ("page", "templates", "keys", "records", "_items")
+
+    def __init__(self, page: str, templates: list, keys: list, records: list):
+        self.page = page
+        self.templates = templates
+        self.keys = keys
+        self.records = records
+        self._items = None
+
+    @classmethod
+    def build(cls, page: str, findings, keys=None, more=(), order=None) -> "PageFindings":
+        """From findings (with their ``finding_key``s when known) and ``more``:
+        ``(template, key, place)`` of findings that were never built. ``order``: sort key of
+        ``(template, place)``."""
+        templates, tkeys, index, records = [], [], {}, []
+
+        def number(key, template) -> int:
+            n = index.get(key)
+            if n is None:
+                n = index[key] = len(templates)
+                templates.append(template)
+                tkeys.append(key)
+            return n
+
+        if keys is None:
+            keys = [finding_key(f) for f in findings]
+        for f, key in zip(findings, keys):
+            records.append((number(key, f),) + place(f))
+        for template, key, where in more:
+            records.append((number(key, template),) + where)
+        if order is not None:
+            records.sort(key=lambda r: order(templates[r[0]], r))
+        return cls(page, templates, tkeys, records)
+
+    def built(self):
+        """The findings, if they were built (and so may carry marks set since); else None."""
+        return self._items
+
+    def _list(self) -> list:
+        if self._items is None:
+            t, page = self.templates, self.page
+            self._items = [rebuild(t[r[0]], r[1:], page) for r in self.records]
+        return self._items
+
+    def __len__(self) -> int:
+        return len(self.records)
+
+    def __bool__(self) -> bool:
+        return bool(self.records)
+
+    def __iter__(self):
+        return iter(self._list())
+
+    def __getitem__(self, i):
+        return self._list()[i]
+
+    def __eq__(self, other) -> bool:
+        return list(self) == list(other)
+
+    def __reduce__(self):
+        return (PageFindings, (self.page, self.templates, self.keys, self.records))

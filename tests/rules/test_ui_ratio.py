@@ -1,0 +1,53 @@
+"""TC110 ui-ratio on pages: WCAG 2.2 SC 1.4.11 Non-text Contrast, "a contrast ratio of at least
+3:1 against adjacent color(s)" for "visual information required to identify user interface
+components and states" and "parts of graphics required to understand the content", "except
+for inactive components or where the appearance of the component is determined by the user
+agent and not modified by the author". Ratios by the WCAG 2.2 formula (tests/wcag_reference.py).
+"""
+from wcag_reference import ratio
+
+from tinctura import engine
+
+PAGE = ('<!doctype html><html lang="en"><head><meta charset="utf-8"><title>t</title><style>'
+        'body{{background:#fff;color:#222}}{css}</style></head><body>{body}</body></html>')
+
+
+def found(tmp_path, body, css=""):
+    page = tmp_path / "ui.html"
+    page.write_text(PAGE.format(body=body, css=css), encoding="utf-8")
+    report = engine.check_paths([str(page)], engine.Options(rules=("TC110",)))
+    return sorted((f.sample.kind, "/".join(f.sample.xpath.split("::")[0].split("/")[-2:]))
+                  for f in report.findings)
+
+
+def test_text_field_boundaries(tmp_path):
+    assert ratio("#d0d0d0", "#ffffff") < 3 <= ratio("#767676", "#ffffff")
+    css = (".faint{border:1px solid #d0d0d0}.ok{border:1px solid #767676}"
+           ".filled{border:0;background:#595959;color:#fff}")
+    body = ('<input class="faint" value="a"><input class="ok" value="b">'
+            '<input class="filled" value="c"><input value="user agent">'
+            '<input class="faint" value="off" disabled><button class="faint">Go</button>')
+    # the faint field only: the dark fill identifies the third; the fourth keeps the user
+    # agent's look; the fifth is inactive; a button's text identifies it
+    assert found(tmp_path, body, css) == [("boundary", "body/input[1]")]
+
+
+def test_author_focus_outline(tmp_path):
+    css = "a.faint:focus{outline:2px solid #cccccc}a.ok:focus{outline:2px solid #333}" \
+          "a.inset:focus{outline:2px solid #ccc;outline-offset:-2px}"
+    body = ('<p><a class="faint" href="#">One</a> <a class="ok" href="#">Two</a> '
+            '<a class="inset" href="#">Three</a> <a href="#">Four</a></p>')
+    assert found(tmp_path, body, css) == [("focus-ring", "p/a[1]")]
+
+
+def test_svg_icons_that_carry_meaning(tmp_path):
+    css = ".ico{fill:#c8c8c8}"
+    path = '<path d="M0 0h9v9z"/>'
+    body = (f'<a href="#"><svg class="ico" aria-label="Home">{path}</svg></a>'
+            f'<p><svg class="ico">{path}</svg> decoration beside words</p>'
+            f'<button aria-label="Play"><svg class="ico" aria-hidden="true">{path}</svg></button>'
+            f'<a href="#"><svg class="ico" aria-hidden="true">{path}</svg> Export</a>'
+            f'<svg class="ico" role="img" aria-label="Tide rising">{path}</svg>')
+    # the named link icon, the hidden icon that is all a named button shows, the named image
+    assert found(tmp_path, body, css) == [("svg-icon", "a[1]/svg"), ("svg-icon", "body/svg"),
+                                          ("svg-icon", "button/svg")]

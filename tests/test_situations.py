@@ -1,0 +1,66 @@
+"""Findings held as situations and places give back the findings they were made from.
+
+A finding's situation is everything a rule reads of its sample but where the text stands
+(``situations.POSITIONAL``); the store and a page's ``PageFindings`` keep a situation once and an
+occurrence as its place. Rebuilt findings must equal the originals field for field.
+"""
+import pickle
+
+from tinctura import situations
+from tinctura.engine import Options, judge
+from tinctura.model import Cause, Declaration
+from tinctura.report.store import FindingStore
+from tinctura.rules.examples import make_sample
+
+
+def samples():
+    d = Declaration("color", "#777", "site.css", 3, ".nav a", "author")
+    inherited = Cause(d, inherited_from="/html/body/nav/ul/li[2]")
+    out = []
+    for page in ("a.html", "b.html"):
+        for n in range(1, 4):
+            out.append(make_sample("#777", "white", page=page, xpath=f"/html/body/nav/ul/li[{n}]/a",
+                                   line=10 + n, text=f"Link {n}", fg_cause=Cause(d)))
+        out.append(make_sample("#777", "white", page=page, state="hover", fg_cause=inherited,
+                               xpath="/html/body/nav/ul/li[2]/a/span", text="Inner"))
+        out.append(make_sample("#000", "white", page=page))  # passes
+    return out
+
+
+def fields(f):
+    s = f.sample
+    return (f.rule, f.ratio, f.required, f.level, f.fixes, f.args, s.page, s.scheme, s.state,
+            s.xpath, s.line, s.text, s.fg, s.bg, s.fg_cause, s.bg_cause, s.font_size_px)
+
+
+def test_equal_situations_are_judged_once_and_found_everywhere():
+    found = judge(samples(), Options())
+    assert len(found) == 8
+    assert len({situations.finding_key(f) for f in found}) == 2  # rest and :hover
+    same = [f for f in found if f.sample.state == "rest"]
+    assert all(f.fixes is same[0].fixes for f in same)  # one verdict, shared
+
+
+def test_page_findings_rebuild_and_pickle_without_the_findings():
+    found = [f for f in judge(samples(), Options()) if f.sample.page == "a.html"]
+    page = situations.PageFindings.build("a.html", found)
+    assert len(page.templates) == 2 and len(page) == 4
+    assert [fields(f) for f in page] == [fields(f) for f in found]
+    again = pickle.loads(pickle.dumps(page))
+    assert [fields(f) for f in again] == [fields(f) for f in found]
+    assert again.records == page.records
+
+
+def test_store_counts_follow_replaced_and_discarded_pages():
+    found = judge(samples(), Options())
+    store = FindingStore()
+    for page in ("a.html", "b.html"):
+        store.add(page, [f for f in found if f.sample.page == page])
+    assert len(store) == 8 and len(store.situations) == 2
+    assert [fields(f) for f in store] == [fields(f) for f in found]
+    assert store.occurrence_counts == [6, 2]
+    store.replace("a.html", [f for f in found if f.sample.page == "a.html"][:1])
+    assert len(store) == 5 and store.counts["page"] == {"a.html": 1, "b.html": 4}
+    store.discard("b.html")
+    assert len(store) == 1 and dict(store.counts["page"]) == {"a.html": 1}
+    assert [fields(f) for f in store.by_page("a.html")] == [fields(found[0])]
