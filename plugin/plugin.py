@@ -15,18 +15,19 @@ from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 
 from tinctura import baseline as baseline_mod
 from tinctura import config as config_mod
-from tinctura import engine, problems, rules
+from tinctura import engine, mkdocs_project, problems, rules
 from tinctura import gate as gated
 from tinctura import palette as palette_mod
 from tinctura.report import messages as m
-from tinctura.report import outputs
+from tinctura.report import outputs, plain
 from tinctura.report.base import Header
 from tinctura.report.appearance import is_appearance
 from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
-from tinctura.report.text_report import cause_fix_lines, headline, problem_measure, summary_line
+from tinctura.report.text_report import problem_lines, summary_line, terminal_width, wrapped
+from tinctura.writer import WriterAid
 
 from .config import TincturaConfig
 
@@ -63,12 +64,17 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.sheets_checked = False
         self.pool = None  # worker processes checking pages while MkDocs renders the next
         self.digests: dict = {}  # page -> digest of the HTML sent to a worker
+        self.project = None  # mkdocs_project.Project: Markdown sources, the site's own sheets
+        self.rechecked: list = []  # pages checked in this build (serve logs them)
+        self.previous = None  # problem key -> sentence after the previous build (serve)
+        self.verify_cache: dict = {}  # overrides verified on the same pages are not redone
 
     # -- lifecycle -------------------------------------------------------------------------
 
     def on_startup(self, *, command, dirty) -> None:
         # Defining on_startup keeps this object (and its records) across serve rebuilds.
         self.command = command
+        self.previous = None  # the first build of a session logs every problem
 
     def engine_options(self) -> engine.Options:
         try:
@@ -110,6 +116,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.site = None
             self.records.clear()
             self.stale.clear()
+            self.previous = None
         self.site_dir = config.site_dir
         self.options = options
         self.sheets_checked = False
@@ -122,6 +129,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         }
         for gone in set(self.records) - set(self.current):
             del self.records[gone]
+        self.project = mkdocs_project.from_files(config, files)
+        self.rechecked = []
         return files
 
     def excluded(self, src_uri: str) -> bool:
@@ -138,6 +147,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             if changed is None or changed():
                 self.site = None
                 self.stale = set(self.records)
+                self.verify_cache.clear()  # fixes were verified against the old stylesheets
         self.sheets_checked = True
         if self.site is None:
             self.site = engine.Site(self.site_dir, self.options)
@@ -150,6 +160,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         result, findings, uses = judged
         self.records[rel] = PageRecord(key, result, findings, uses)
         self.stale.discard(rel)
+        self.rechecked.append(rel)
 
     def submit(self, rel: str, html: str, key: str) -> None:
         """Check in a worker when there are spare cores, else now."""
@@ -218,26 +229,38 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         findings += engine.judge_site(palette, self.options)  # site-level appearance rules
         found = problems.group(findings, uses=uses)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
-        self.log_results(found, findings, many_schemes=len(schemes) > 1)
+        aid = self.writer_aid(found, pages, records)
+        locate = aid  # callable: sample -> Location
+        changes = self.log_changes(found) if self.serving_again() else None
+        if changes is None:
+            self.log_results(found, findings, many_schemes=len(schemes) > 1, locate=locate)
+        else:
+            self.log_results(changes[0], findings, many_schemes=len(schemes) > 1,
+                             locate=locate, label="New: ")
+        self.previous = {problems.problem_key(p.worst): m.message(p.worst) if
+                         is_appearance(p.worst) else plain.sentence(p) for p in found}
         for d in [d for page in pages for d in page.diagnostics] + gate_notes:
             at = f"{d.path}:{d.line}" if d.line else d.path
             (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
         header = Header(level=self.config.level, schemes=schemes, fail_on=self.config.fail_on,
                         rules=self.options.rules, source=self.source_of, uri=self.built_uri,
-                        gone=gate.gone(), version=plugin_version())
+                        gone=gate.gone(), version=plugin_version(), locate=aid)
         self.write_reports(header, pages, every, found, gate_notes, gate.counts)
         summary = summarise(pages, findings, found, (), schemes)
-        log.info(summary_line(summary, header))
+        total = summary_line(summary, header)
+        if changes is not None:
+            total = (f"{m.plural(len(changes[0]), 'new problem')}, "
+                     f"{m.plural(len(changes[1]), 'problem')} fixed; " + total)
+        log.info(total)
         if gate.note():
             log.info(gate.note())
-        log.info(DISCLAIMER)
+        if changes is None:
+            log.info(DISCLAIMER)
         bad = failing(findings, self.config.fail_on)
         if bad and self.command != "serve":  # serve keeps serving; the warnings say enough
             raise PluginError(
-                f"{m.plural(len(bad), 'contrast finding')} at or above fail_on: "
-                f"{self.config.fail_on} (see the log above)"
-                + (f"; {gate.note()}" if gate.note() else "")
-            )
+                quiet_summary(bad, found, self.config.fail_on, locate, len(schemes) > 1)
+                + (f"\n{gate.note()}" if gate.note() else ""))
 
     # -- the maintainer's gate and reports ------------------------------------------------
 
@@ -279,15 +302,55 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         for name, path in specs:
             log.info(f"{name} report written to {path}")
 
-    def log_results(self, found, findings, many_schemes: bool) -> None:
+    def writer_aid(self, found, pages, records):
+        """Overrides for the site's own stylesheets (verified) and Markdown locations."""
+        if self.site_dir is None:
+            return None
+        aid = WriterAid(self.site_dir, self.project, self.options)
+        if found:
+            schemes = {}
+            for page in pages:
+                for scheme in page.schemes:
+                    schemes.setdefault(scheme.name, scheme)
+            with_findings = [r.result.page for r in records if r.findings]
+            loader = self.site.loader if self.site is not None else None
+            try:
+                aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
+                                   loader, self.verify_cache)
+            except Exception as exc:  # a fix that cannot be worked out must not stop the build
+                log.info(f"fixes as CSS overrides could not be worked out: {exc!r}")
+        return aid
+
+    def serving_again(self) -> bool:
+        return self.command == "serve" and self.previous is not None
+
+    def log_changes(self, found):
+        """`mkdocs serve` after the first build: which pages were checked again, then only the
+        problems that are new or fixed since the previous build. Returns (new, fixed)."""
+        checked = sorted(self.current.get(rel, rel) for rel in set(self.rechecked))
+        if checked:
+            shown = ", ".join(checked[:10]) + (f" and {len(checked) - 10} more"
+                                               if len(checked) > 10 else "")
+            log.info(f"Checked again: {m.plural(len(checked), 'page')} ({shown})")
+        else:
+            log.info("No page changed: nothing checked again")
+        now = {problems.problem_key(p.worst): p for p in found}
+        new = [p for key, p in now.items() if key not in self.previous]
+        fixed = [sentence for key, sentence in self.previous.items() if key not in now]
+        for sentence in fixed:
+            log.info(f"Fixed: {sentence}")
+        return new, fixed
+
+    def log_results(self, found, findings, many_schemes: bool, locate=None,
+                    label: str = "") -> None:
         if self.config.log_every:
             for f in findings:
                 emit = log.info if f.severity == "info" else log.warning
-                emit(finding_line(f, many_schemes))
+                emit(finding_line(f, many_schemes, locate))
             return
         for problem in found:
             emit = log.info if problem.severity == "info" else log.warning
-            emit(problem_line(problem, many_schemes))
+            emit(label + problem_line(problem, many_schemes, locate))
 
 
 def _shown(path: str) -> str:
@@ -302,38 +365,61 @@ def plugin_version() -> str:
     return version()
 
 
-def problem_line(problem, many_schemes: bool = False) -> str:
-    """One log message per problem: count, cause, ratio, an example and the fix."""
+def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: int = 3) -> str:
+    """The build's final error: it carries the counts and the first problems itself, since
+    `mkdocs build -q` hides the warnings above it."""
+    failing_problems = [p for p in found if p.severity in
+                        {f.severity for f in bad}] or list(found)
+    lines = [f"{m.plural(len(bad), 'contrast finding')} at or above fail_on: {fail_on} "
+             f"({m.plural(len(failing_problems), 'problem')})"]
+    for n, problem in enumerate(failing_problems[:first], 1):
+        location = locate(problem.worst.sample) if locate is not None else None
+        where = ""
+        if location is not None and location.source is not None and location.source.where():
+            where = f" ({location.source.where()})"
+        said = m.message(problem.worst) if is_appearance(problem.worst) else \
+            plain.sentence(problem, location, many_schemes)
+        lines.append(f"  {n}. {said}{where}")
+    if len(failing_problems) > first:
+        lines.append(f"  and {m.plural(len(failing_problems) - first, 'more problem')}: each "
+                     f"with its fix in the warnings (not shown with -q) and in `tinctura check "
+                     f"SITE_DIR --config mkdocs.yml`")
+    return "\n".join(lines)
+
+
+def problem_line(problem, many_schemes: bool = False, locate=None) -> str:
+    """One log message per problem: the plain sentence, where, the fix as CSS, the detail."""
     if is_appearance(problem.worst):  # site-level appearance rules: entries and contexts
         return (f"{problem.rule} {problem.slug}: {m.message(problem.worst)}\n  "
                 + "\n  ".join(appearance_lines(problem, many_schemes)))
-    fg, bg = m.finding_colours(problem.worst)
-    example = problem.worst.sample
-    scheme = f" [scheme {problem.scheme}]" if many_schemes else ""
-    text = (
-        f"{problem.rule} {problem.slug}{scheme}: "
-        f"{m.plural(problem.occurrences, 'occurrence')} on {m.plural(problem.pages, 'page')}: "
-        f"{headline(problem.fg_cause, fg, 'color')} on {headline(problem.bg_cause, bg, 'background')}, "
-        f"{problem_measure(problem)}; "
-        f"e.g. {example.page}:{example.line} {m.css_path(example.xpath)}"
-    )
-    lines = cause_fix_lines(problem.fix_at_cause)
-    if lines:
-        text += "\n  " + "\n  ".join(lines)
-    return text
+    width = terminal_width()
+    lines = problem_lines(0, problem, locate, many_schemes)
+    # MkDocs puts "WARNING -  tinctura: " before the first line only
+    out = wrapped(0, lines[0][1], width - len("WARNING -  tinctura: "))
+    for indent, text, style, wrap in lines[1:]:
+        if style == "severity":
+            text = text.replace(problem.severity, problem.severity.upper(), 1)
+        out.extend(wrapped(indent, text, width if wrap else 0,
+                           9 if text.startswith(("Where:", "       ")) else 2))
+    return "\n".join(out)
 
 
-def finding_line(f, many_schemes: bool = False) -> str:
+def finding_line(f, many_schemes: bool = False, locate=None) -> str:
     s = f.sample
     fg, bg = m.finding_colours(f)
     extra = []
     if many_schemes:
         extra.append(f"scheme {s.scheme}")
     if s.state != "rest":
-        extra.append(f":{s.state}")
+        extra.append(plain.STATES.get(s.state, s.state))
     tail = f" [{', '.join(extra)}]" if extra else ""
     fix = m.fixes(f)
+    where = f"{s.page}:{s.line} {s.xpath}"
+    if locate is not None:
+        loc = locate(s)
+        source = loc.source.where() if loc.source is not None else ""
+        where = f"{s.page}:{s.line} {loc.locator or s.xpath}" + (f" ({source})" if source else "")
     return (
-        f"{s.page}:{s.line} {s.xpath}{tail}: {f.rule} {f.slug}: {m.message(f)} "
+        f"{where}{tail}: {f.rule} {f.slug}: {m.message(f)} "
         f"({m.colour(fg)} on {m.colour(bg)})" + (f"; try {fix}" if fix else "")
     )

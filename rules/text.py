@@ -4,7 +4,7 @@ TC100 text-ratio: WCAG 2 contrast ratio of rendered text against SC 1.4.3 (AA) o
 """
 from __future__ import annotations
 
-from tinctura.colour import fix as colour_fix
+from tinctura.colour import suggest
 from tinctura.colour import wcag
 from tinctura.colour.composite import over
 from tinctura.model import DETERMINED, Finding, Fix, Sample
@@ -95,17 +95,16 @@ def check_text_ratio(samples, options) -> list:
 
 
 def text_fixes(sample: Sample, pairs, fg, bg, required: float) -> list:
-    """Nearest passing foreground (keeping hue, against every background) and background."""
+    """Nearest passing foreground (keeping hue, against every background) and background, each
+    on the side of the pair it is on today (dark text stays darker than its background)."""
     fixes = []
     if len(pairs) == 1:
-        found = colour_fix.nearest_passing_foreground(fg, bg, required)
+        found = suggest.foreground(fg, bg, required)
     else:
-        found = colour_fix.passing_foreground_for_all(
-            tuple(sample.fg), [b for _, b in pairs], required
-        )
+        found = suggest.nearest_same_side(tuple(sample.fg), [b for _, b in pairs], required)
     if found is not None:
         fixes.append(Fix("foreground", tuple(found[0]), found[1]))
-    found = colour_fix.nearest_passing_background(fg, bg, required)
+    found = suggest.background(fg, bg, required)
     if found is not None:
         fixes.append(Fix("background", tuple(found[0]), found[1]))
     return fixes

@@ -222,8 +222,8 @@ def test_check_text_report(fake_engine):
     assert status == 1 and err == ""
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "1 problem (1 occurrence on 1 page), largest first",
-        "1. 1 occurrence on 1 page: color #777777 (not declared) on background #ffffff (not declared), 4.47:1, needs 4.5:1",
-        "*e.g. a.html:1*\"Seed swap on Saturday\"*",
+        "1. Grey text on white is too faint: 4.47:1, needs 4.5:1.",
+        "   Where: a.html:1 \"Seed swap on Saturday\"*",
         "Checked 1 page at level AA, 1 text sample; 1 error, 0 warnings, 0 info; 1 problem; 0 undetermined.",
         "*ISO 3864*",
     ])
@@ -323,3 +323,23 @@ def test_python_dash_m(tmp_path):
     done = subprocess.run([sys.executable, "-m", "tinctura", "pair", "#777", "white"],
                           capture_output=True, text=True, timeout=60)
     assert done.returncode == 1 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
+
+
+def test_check_config_mkdocs_yml_that_mkdocs_cannot_load(fake_engine, tmp_path):
+    _, _, site = fake_engine
+    broken = tmp_path / "broken" / "mkdocs.yml"
+    broken.parent.mkdir()
+    broken.write_text("site_name: Brindlemoor\ntheme:\n  name: no-such-theme\n")
+    status, out, err = call("check", site, "--config", str(broken))
+    assert status == 1 and "Grey text on white is too faint" in out  # the check goes on
+    assert "note:" in err and "cannot read the MkDocs configuration" in err
+
+
+def test_write_fixes_says_how_to_add_the_file(fake_engine, tmp_path):
+    _, _, site = fake_engine
+    target = tmp_path / "colour-fixes.css"
+    status, _, err = call("check", site, "--write-fixes", str(target))
+    assert status == 1
+    assert "Automated checks cover only part of WCAG" in target.read_text()
+    assert f"wrote 0 verified fixes to {target}" in err  # the fake site has no stylesheet
+    assert "extra_css:\n    - stylesheets/colour-fixes.css" in err

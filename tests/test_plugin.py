@@ -135,10 +135,14 @@ def test_findings_fail_the_build(tmp_path, caplog):
     warnings = messages(caplog)
     # one warning per problem: two paragraphs, one cause (the page and the drafts page)
     assert len(warnings) == 1
-    assert "TC100 text-ratio: 3 occurrences on 2 pages" in warnings[0]
-    assert "color `#8a8a8a` at site.css:1" in warnings[0]
-    # #8a8a8a on white = 3.45:1 by the WCAG 2.2 formula
-    assert "3.45:1, needs 4.5:1" in warnings[0]
+    # a plain sentence first; #8a8a8a on white = 3.45:1 by the WCAG 2.2 formula
+    assert warnings[0].startswith("Grey text on white is too faint: 3.45:1, needs 4.5:1.")
+    assert "docs/lending.md:3 \"Return unused packets" in warnings[0]  # the Markdown line
+    assert "TC100 text-ratio" in warnings[0]
+    assert "color: #8a8a8a` at site.css:1" in warnings[0]
+    # the fix goes in the site's own stylesheet, and was checked
+    assert "Fix: add to docs/site.css (checked again with it applied: it passes):" in warnings[0]
+    assert ".muted {\n        color: #767676;\n      }" in warnings[0]
     errors = [r.getMessage() for r in caplog.records if r.levelno >= logging.ERROR]
     assert any("3 contrast findings at or above fail_on: error" in e for e in errors)
 
@@ -200,7 +204,8 @@ class CountingSite(engine.Site):
     sheets_changed = False
 
     def check_page(self, rel, html=None):
-        CountingSite.checked.append((rel, html is None))
+        if html is None or "tinctura-verify" not in html:  # pages checked with the fixes
+            CountingSite.checked.append((rel, html is None))  # applied are not counted
         return super().check_page(rel, html=html)
 
     def stylesheets_changed(self):
@@ -243,6 +248,7 @@ def test_serve_rechecks_only_changed_pages(tmp_path, counting, caplog):
 
 @slow
 def test_dirty_build_keeps_other_pages_and_rereads_stale_ones(tmp_path, counting, caplog):
+    caplog.set_level(logging.INFO, logger="mkdocs")
     project = make_project(tmp_path)
     config = configure(project)
     config.plugins.on_startup(command="serve", dirty=True)
@@ -251,11 +257,67 @@ def test_dirty_build_keeps_other_pages_and_rereads_stale_ones(tmp_path, counting
     caplog.clear()
     build(config, dirty=True)  # nothing changed: no page passes through on_post_page
     assert counting.checked == []
-    assert any("3 occurrences on 2 pages" in w for w in messages(caplog))  # results kept
+    info = messages(caplog, logging.INFO)
+    assert "No page changed: nothing checked again" in info
+    assert any(line.startswith("0 new problems, 0 problems fixed; Checked 3 pages")
+               and "; 1 problem;" in line for line in info)  # results kept
     counting.sheets_changed = True
     build(config, dirty=True)
     assert sorted(counting.checked) == [
         ("drafts/notes/index.html", True), ("index.html", True), ("lending/index.html", True)]
+
+
+@slow
+def test_serve_logs_what_was_checked_again_and_what_is_new_or_fixed(tmp_path, caplog):
+    caplog.set_level(logging.INFO, logger="mkdocs")
+    project = make_project(tmp_path)
+    config = serve_like(project)
+    build(config)
+    caplog.clear()
+    (project / "docs" / "lending.md").write_text(
+        "# Lending rules\n\n<p class=\"muted\">Return unused packets.</p>\n\n"
+        "<p style=\"color: #aaaaaa\">Ask at the desk.</p>\n")
+    build(config)
+    info = messages(caplog, logging.INFO)
+    assert "Checked again: 1 page (lending.md)" in info
+    new = [line for line in info if line.startswith("New: ")]
+    # #aaaaaa on white = 2.32:1 (WCAG 2.2 formula); the .muted problem is neither new nor fixed
+    assert len(new) == 1 and new[0].startswith("New: Grey text on white is too faint: 2.32:1")
+    assert "docs/lending.md:5" in new[0]
+    assert not any("3.45:1" in line for line in info if not line.startswith("1 new problem"))
+    assert any(line.startswith("1 new problem, 0 problems fixed; Checked 3 pages")
+               for line in info)
+    caplog.clear()
+    (project / "docs" / "lending.md").write_text("# Lending rules\n\nReturn unused packets.\n")
+    build(config)
+    info = messages(caplog, logging.INFO)
+    assert "Fixed: Grey text on white is too faint: 2.32:1, needs 4.5:1." in info
+    assert any(line.startswith("0 new problems, 1 problem fixed;") for line in info)
+
+
+@slow
+def test_quiet_build_error_carries_the_counts_and_first_problems(tmp_path, caplog):
+    config = configure(make_project(tmp_path))
+    config.plugins.on_startup(command="build", dirty=False)  # the object outlives serve tests
+    with pytest.raises(Abort):
+        build(config)
+    (error,) = [r.getMessage() for r in caplog.records if r.levelno >= logging.ERROR]
+    lines = error.splitlines()
+    assert lines[0] == "3 contrast findings at or above fail_on: error (1 problem)"
+    assert lines[1].startswith("  1. Grey text on white is too faint: 3.45:1, needs 4.5:1.")
+    assert "see the log above" not in error
+
+
+@slow
+def test_hover_only_failure_is_named_in_the_log(tmp_path, caplog):
+    css = "a { color: #1a1a1a; }\na:hover { color: #aaaaaa; }\n"
+    project = make_project(tmp_path, {"states": True, "fail_on": "never"}, css=css)
+    (project / "docs" / "index.md").write_text("# Seeds\n\nSee the [lending rules](lending.md).\n")
+    config = configure(project)
+    config.plugins.on_startup(command="build", dirty=False)
+    build(config)
+    (warning,) = [w for w in messages(caplog) if "2.32:1" in w]
+    assert warning.startswith("Grey link text on white is too faint when hovered: 2.32:1")
 
 
 @slow
@@ -265,7 +327,8 @@ def test_serve_notices_a_changed_stylesheet(tmp_path, monkeypatch, caplog):
     original = engine.Site.check_page
 
     def counting_check_page(self, rel, html=None):
-        checked.append(rel)
+        if html is None or "tinctura-verify" not in html:  # not the check of the fixes
+            checked.append(rel)
         return original(self, rel, html=html)
 
     monkeypatch.setattr(engine.Site, "check_page", counting_check_page)
@@ -310,7 +373,7 @@ def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatc
     config.plugins.on_startup(command="build", dirty=False)  # the object outlives serve tests
     build(config)
     warnings = messages(caplog)
-    assert any("TC100 text-ratio: 3 occurrences on 2 pages" in w for w in warnings), warnings
+    assert any("Grey text on white is too faint" in w for w in warnings), warnings
     infos = [r.getMessage() for r in caplog.records]
     assert any("checking it here" in m for m in infos), infos
 

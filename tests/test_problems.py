@@ -46,14 +46,20 @@ def test_same_declarations_on_many_elements_make_one_problem():
     assert problem.required == 4.5
 
 
-def test_different_causes_or_schemes_make_different_problems():
+def test_different_causes_make_different_problems_schemes_do_not():
     samples = [
         sample("#8a8a8a", "#ffffff", MUTED, PAPER),
         sample("#8a8a8a", "#ffffff", INK, PAPER),  # another text-colour declaration
         sample("#8a8a8a", "#fafafa", MUTED, CARD),  # another background declaration
-        sample("#8a8a8a", "#ffffff", MUTED, PAPER, scheme="dark"),
+        sample("#8a8a8a", "#ffffff", MUTED, PAPER, scheme="dark"),  # same cause, other scheme
+        sample("#999999", "#ffffff", MUTED, PAPER, scheme="dark"),
     ]
-    assert len(group(findings_for(samples))) == 4
+    found = group(findings_for(samples))
+    assert len(found) == 3
+    (both,) = [p for p in found if len(p.schemes) == 2]
+    assert list(both.schemes) == ["light", "dark"]
+    assert (both.schemes["light"].count, both.schemes["dark"].count) == (1, 2)
+    assert both.schemes["dark"].worst_ratio == pytest.approx(ratio("#999999", "#ffffff"))
 
 
 def test_order_largest_first_then_worst_ratio():

@@ -143,6 +143,9 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--color", "--colour", dest="colour", default="auto",
                        choices=("auto", "always", "never"),
                        help="colour in the text report (default auto: NO_COLOR, FORCE_COLOR, tty)")
+    check.add_argument("--write-fixes", metavar="FILE",
+                       help="write every verified fix into one stylesheet FILE and say how to "
+                            "add it to mkdocs.yml")
     check.add_argument("--flat-findings", action="store_true",
                        help="JSON report: list every finding in full (format 1) instead of "
                             "each situation once with small occurrence records (format 2)")
@@ -322,10 +325,17 @@ def run_check(args, stdout, stderr) -> int:
             written.extend(f for f in findings if not f.suppressed)
         bar.advance()
 
+    # --config naming an mkdocs.yml (config.py tells it from tinctura's own settings): the
+    # Markdown sources and the site's own stylesheets
+    project = load_project(args.mkdocs_config, stderr) \
+        if getattr(args, "mkdocs_config", None) else None
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
     result.diagnostics.extend(gate.finish())
     result.findings = store
     found = collector.problems(result.uses)
+    aid = writer_aid(args.paths, project, options)
+    if aid is not None and found:
+        aid.plan_overrides(found, result.schemes, options, store.pages())
     header = report.Header(
         scope=report.scope_of(args.paths, options),
         version=version(),
@@ -338,9 +348,12 @@ def run_check(args, stdout, stderr) -> int:
         uri=built_uri(args.paths),
         source=markdown_source(args),
         gone=gate.gone(),
+        locate=aid,
     )
     outputs.write_reports(specs, stdout, header, result.pages, store, found,
                           result.diagnostics, counts=gate.counts, colour_choice=args.colour)
+    if getattr(args, "write_fixes", None):
+        report_written_fixes(args.write_fixes, found, project, stderr)
     note = gate.note()
     if note:
         stderr.write(f"{PROG}: {note}\n")
@@ -438,6 +451,50 @@ def built_uri(paths):
     return uri
 
 
+def load_project(path: str, stderr):
+    """The MkDocs project of an mkdocs.yml given to ``--config``: which Markdown file each page
+    comes from, which stylesheets are the site's own (read with MkDocs' own loader). When MkDocs
+    cannot load it (a docs folder that is not there, a theme not installed), the check goes on
+    without them and says so."""
+    from tinctura import mkdocs_project
+
+    try:
+        return mkdocs_project.load(path)
+    except ValueError as exc:
+        stderr.write(f"{PROG}: note: {exc}; findings point at the built pages and fixes at "
+                     f"stylesheets judged by their names\n")
+        return None
+
+
+def writer_aid(paths, project, options=None):
+    """Locations and overrides for the first site directory checked (or a page's folder)."""
+    from tinctura.writer import WriterAid
+
+    for path in paths:
+        if os.path.isdir(path):
+            return WriterAid(path, project, options)
+        if os.path.isfile(path):
+            return WriterAid(os.path.dirname(os.path.abspath(path)) or ".", project, options)
+    return None
+
+
+def report_written_fixes(path: str, found, project, stderr) -> None:
+    from tinctura.writer import write_fixes
+
+    try:
+        count, how = write_fixes(path, found, project)
+    except OSError as exc:
+        raise UsageError(f"{path}: cannot write: {exc.strerror or exc}") from None
+    skipped = sum(1 for p in found if getattr(p, "override", None) is not None
+                  and not p.override.verified)
+    none = sum(1 for p in found if getattr(p, "override", None) is None)
+    stderr.write(f"{PROG}: wrote {m.plural(count, 'verified fix', 'verified fixes')} to {path}")
+    if skipped or none:
+        stderr.write(f" ({skipped} not verified and {none} without a fix left out: "
+                     f"see the report)")
+    stderr.write(f".\n{how}\n")
+
+
 def run_pairs(args, stdout, stderr) -> int:
     from tinctura.report.json_report import sample_dict
 
@@ -471,8 +528,7 @@ def parse_pair_colour(text: str, what: str):
 
 
 def run_pair(args, stdout, stderr) -> int:
-    from tinctura.colour import fix as colour_fix
-    from tinctura.colour import wcag
+    from tinctura.colour import suggest, wcag
     from tinctura.colour.composite import over
 
     fg_raw = parse_pair_colour(args.fg, "text colour")
@@ -511,17 +567,19 @@ def run_pair(args, stdout, stderr) -> int:
         tw.line(f"  {rule_level:<3} (SC {criterion}) needs {m.required(need)}:1: {verdict}")
         if ok:
             continue
-        parts = []
-        found = colour_fix.nearest_passing_foreground(fg, bg, need)
-        if found is not None:
-            parts.append(f"text {m.colour(found[0])} ({m.ratio(found[1])}:1)")
-        found = colour_fix.nearest_passing_background(fg, bg, need)
-        if found is not None:
-            parts.append(f"background {m.colour(found[0])} ({m.ratio(found[1])}:1)")
+        parts, missing = [], []
+        for what, found, moving, other in (
+                ("text", suggest.foreground(fg, bg, need), fg, bg),
+                ("background", suggest.background(fg, bg, need), bg, fg)):
+            if found is not None:
+                parts.append(f"{what} {m.colour(found[0])} ({m.ratio(found[1])}:1)")
+            else:
+                missing.append(f"no {suggest.describe_side(moving, other)} {what} colour")
         if parts:
             tw.line(f"        nearest passing: {' or '.join(parts)}")
-        else:
-            tw.line("        no single-colour change reaches it; change both colours")
+        if missing:
+            tw.line(f"        {' and '.join(missing)} of this hue reaches it"
+                    + ("" if parts else "; change both colours"))
     from tinctura.report.pair_text import appearance_lines
     from tinctura.rules.perception import lc_levels
 

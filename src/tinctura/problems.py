@@ -1,4 +1,7 @@
-"""Findings grouped by cause: one *problem* per rule, scheme, foreground and background cause.
+"""Findings grouped by cause: one *problem* per rule, foreground and background cause.
+
+The same cause failing in several colour schemes is one problem that lists its schemes, each
+with its own count and worst ratio (``Problem.schemes``).
 
 A site with one bad colour declaration yields thousands of findings and one problem; fixing the
 declaration fixes them all. Pure: records in, records out.
@@ -12,6 +15,7 @@ from dataclasses import dataclass, field
 from typing import Optional
 
 from tinctura.colour import fix as colour_fix
+from tinctura.colour import suggest
 from tinctura.colour import wcag
 from tinctura.colour.convert import quantize
 from tinctura.model import DETERMINED, Cause, Declaration, Finding
@@ -44,6 +48,7 @@ class CauseFix:
     colour: Optional[tuple]
     ratio: Optional[float]
     contexts: tuple = ()  # tuple[Context], only when colour is None
+    schemes: tuple = ()  # every scheme where the declaration's colour is used
 
     @property
     def possible(self) -> bool:
@@ -70,6 +75,13 @@ class Problem:
     candidates: Optional[list] = None
     indexes: Optional[list] = None
     backgrounds: Optional[dict] = None
+    # scheme name -> SchemeFigures, in the order the schemes were met
+    schemes: dict = field(default_factory=dict)
+    override: Optional[object] = None  # overrides.Override: the fix as the site's own CSS
+
+    @property
+    def scheme_names(self) -> list:
+        return list(self.schemes) or [self.scheme]
 
     @property
     def occurrences(self) -> int:
@@ -95,9 +107,31 @@ def cause_key(cause: Optional[Cause]) -> tuple:
     return (d.sheet, d.line, d.column, d.property, d.value) if d is not None else ("initial",)
 
 
+@dataclass
+class SchemeFigures:
+    """One scheme's share of a problem: its occurrences, worst ratio and worst finding."""
+
+    count: int = 0
+    worst_ratio: float = 21.0
+    worst: Optional[Finding] = None
+
+    def add(self, finding: Finding) -> None:
+        self.count += 1
+        if self.worst is None or finding.ratio < self.worst_ratio:
+            self.worst_ratio, self.worst = finding.ratio, finding
+
+
 def problem_key(finding: Finding) -> tuple:
+    """One problem per cause across schemes: the scheme is not part of the key."""
     s = finding.sample
-    return (finding.rule, s.scheme, cause_key(s.fg_cause), cause_key(s.bg_cause))
+    return (finding.rule, cause_key(s.fg_cause), cause_key(s.bg_cause))
+
+
+def _add_scheme(problem, finding: Finding) -> None:
+    figures = problem.schemes.get(finding.sample.scheme)
+    if figures is None:
+        figures = problem.schemes[finding.sample.scheme] = SchemeFigures()
+    figures.add(finding)
 
 
 _ALIAS = re.compile(r"^\s*var\(\s*--[^\s,()]+\s*(,.*)?\)\s*(!\s*important\s*)?$", re.I | re.S)
@@ -149,6 +183,8 @@ def group(findings, samples=(), uses=None) -> list:
             worst_ratio=min(f.ratio for f in members),
             required=max(f.required for f in members),
         )
+        for f in members:
+            _add_scheme(problem, f)
         problem.fix_at_cause = fix_at_cause(problem, uses)
         problems.append(problem)
     problems.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
@@ -186,6 +222,7 @@ class Collector:
             p = self._buckets[key]
             p.count += 1
             p.indexes.append(index)
+            p.schemes[finding.sample.scheme].count += 1  # a known situation: same scheme, ratio
             self._note_page(key, p, finding.sample.page, lambda: finding)
             return
         key = problem_key(finding)
@@ -204,6 +241,7 @@ class Collector:
             self._seen[key] = 0
         p.count += 1
         p.indexes.append(index)
+        _add_scheme(p, finding)
         if SEVERITY_RANK.get(finding.severity, 9) < SEVERITY_RANK.get(p.severity, 9):
             p.severity = finding.severity
         if finding.ratio < p.worst_finding.ratio:
@@ -228,6 +266,7 @@ class Collector:
                 continue
             p = buckets[key]
             p.count += 1
+            p.schemes[templates[r[0]].sample.scheme].count += 1
             p.indexes.append(self._count if index is None else index)
             self._count += 1
             self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
@@ -307,42 +346,47 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
     ordered = tuple(sorted(backgrounds, key=wcag.relative_luminance))
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
+    schemes = tuple(sorted(set().union(*backgrounds.values()))) if backgrounds else ()
     test = worst.args.get("test")  # rules beyond the WCAG 2 ratio: what a fix must meet
-    found = _passing_for_all(start, list(ordered), problem.required, test)
+    found = _nearest(start, ordered, problem.required, test)
     if found is not None:
-        return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1])
+        return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1],
+                        schemes=schemes)
     contexts = split_contexts(start, ordered, problem.required, test)
     for context in contexts:
         context.schemes = tuple(sorted(set().union(*(backgrounds[b] for b in context.backgrounds))))
-    return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts)
+    return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts,
+                    schemes=schemes)
 
 
-def _passing_for_all(start, backgrounds, required: float, test=None):
-    """One text colour near ``start`` passing on every background: the WCAG 2 ratio, or
-    ``test(text, background)`` when the rule gave one (it includes the ratio)."""
+def _nearest(start, backgrounds, required: float, test=None):
+    """One text colour near ``start`` passing on every background: for the WCAG 2 ratio, on the
+    same side of the backgrounds as ``start`` and of its hue (``colour.suggest``); for a rule
+    that gave ``test(text, background)`` (it includes the ratio), the nearest that passes it."""
     if test is None:
-        return colour_fix.passing_foreground_for_all(start, backgrounds, required)
+        return suggest.nearest_same_side(start, backgrounds, required)
     return colour_fix.nearest_foreground_where(start, backgrounds, test)
 
 
 def split_contexts(start, ordered, required: float, test=None) -> tuple:
     """Split backgrounds (darkest first) into runs that one foreground value can serve.
 
-    Greedy in luminance order: a run grows while one value still passes on all of it. Any
-    subset of a servable set is servable, so this gives the fewest runs of neighbours.
+    Greedy in luminance order: a run grows while one value still passes on all of it, staying
+    on the side of each background the text is on today. Any subset of a servable set is
+    servable, so this gives the fewest runs of neighbours.
     """
     contexts = []
     run: list = []
     run_fix = None
     for bg in ordered:
-        trial = _passing_for_all(start, run + [bg], required, test)
+        trial = _nearest(start, run + [bg], required, test)
         if trial is not None or not run:
             run.append(bg)
             run_fix = trial
             continue
         contexts.append(_context(run, run_fix))
         run = [bg]
-        run_fix = _passing_for_all(start, run, required, test)
+        run_fix = _nearest(start, run, required, test)
     if run:
         contexts.append(_context(run, run_fix))
     return tuple(contexts)

@@ -64,7 +64,8 @@ def test_sections_and_every_problem(reports):
     for article, problem in zip(articles, data["problems"]):
         assert int(article.get("data-occurrences")) == problem["occurrences"]
         assert article.get("data-rule") == problem["rule"]
-        assert f"scheme {problem['scheme']}" in article.text_content()
+        text = article.text_content()  # one problem per cause, naming every scheme it fails in
+        assert all(f" {s['name']}" in text for s in problem["schemes"]) and "scheme" in text
     assert len(doc.xpath("//svg[@class='chart']")) == len(data["summary"]["schemes"]) + 1
     assert "Tidewell TW-40 Operating Manual" in doc.findtext(".//h1")
 

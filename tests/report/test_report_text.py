@@ -56,18 +56,42 @@ def test_problems_lead_largest_first():
     text, _ = report(site_samples())
     pytest.LineMatcher(text.splitlines()).fnmatch_lines([
         "1 problem (5 occurrences on 2 pages), largest first",
-        "1. 5 occurrences on 2 pages: --muted `#777777` at assets/site.css:3 on "
-        "background-color `#ffffff` at assets/site.css:10, 4.47:1, needs 4.5:1",
-        "*error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required for normal text*",
-        "*text colour: `color: var(--muted)` at assets/site.css:40 (.note), via `--muted: #777777` at assets/site.css:3",
-        "*background:  `background-color: #ffffff` at assets/site.css:10 (body)",
-        "*fix at the cause: set `--muted` at assets/site.css:3 to #767676: 4.54:1 or more on its background",
-        "*e.g. guide/p0.html:10 *main > p:nth-of-type(1)*\"Sow the marsh marigold seeds in autumn,\u2026\"*#777777 on #ffffff, 4.47:1",
-        "*guide/p1.html:11*",
-        "*guide/p0.html:12*",
-        "*and 2 more occurrences",
+        "1. Grey text on white is too faint: 4.47:1, needs 4.5:1.",
+        "   Where: guide/p0.html:10 \"Sow the marsh marigold seeds in autumn,\u2026\" (\u2026 > body > main >",
+        "*p:nth-of-type(1)), #777777 on #ffffff, 4.47:1",
+        "          guide/p1.html:11*",
+        "          guide/p0.html:12*",
+        "          and 2 more occurrences on 2 pages",
+        "   Fix: set `--muted` at assets/site.css:3 to #767676: 4.54:1 or more on its background",
+        "   Detail:",
+        "      error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required for normal*",
+        "      text colour: `color: var(--muted)` at assets/site.css:40 (.note), via `--muted: #777777`*",
+        "      background: `background-color: #ffffff` at assets/site.css:10 (body)",
         "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 problem; 1 undetermined (background image 1).",
     ])
+
+
+def test_lines_are_wrapped_at_the_terminal_width(monkeypatch):
+    monkeypatch.setenv("COLUMNS", "64")
+    text, _ = report(site_samples())
+    block = text.split("\nChecked ")[0]  # the problems (the summary is one line for tools)
+    assert max(len(line) for line in block.splitlines()) <= 64
+    monkeypatch.setenv("COLUMNS", "200")
+    wide, _ = report(site_samples())
+    assert len(wide.splitlines()) < len(text.splitlines())
+
+
+def test_state_and_schemes_are_named_in_the_sentence():
+    hover = make_sample("#999999", "#ffffff", state="hover", fg_cause=MUTED, bg_cause=PAPER,
+                        xpath="/html/body/a", page="a.html")
+    dark = make_sample("#999999", "#ffffff", state="hover", fg_cause=MUTED, bg_cause=PAPER,
+                       xpath="/html/body/a", page="a.html", scheme="dark")
+    text, _ = report([hover, dark], schemes=("light", "dark"))
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "1. Grey text on white is too faint when hovered: 2.84:1, needs 4.5:1, in 2 schemes (light 2.84:1,*",
+        "*dark 2.84:1).",
+    ])
+    assert text.count("\n1. ") == 1 and "\n2. " not in text  # one problem for both schemes
 
 
 def test_ratios_are_truncated_never_rounded_up():
@@ -84,7 +108,8 @@ def test_group_by_page():
         "guide/p0.html (3 findings)",
         "  10: /html/body/main/p[1]  \"Sow the marsh marigold seeds in autumn,\u2026\"",
         "      error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required *",
-        "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1) or background *",
+        "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1); no lighter*",
+        "*this hue reaches it",
         "guide/p1.html (2 findings)",
         "Checked 2 pages at level AA, 7 text samples; 5 errors, 0 warnings, 0 info; 1 undetermined (background image 1).",
     ])
@@ -111,7 +136,7 @@ def test_schemes_are_named_only_when_there_are_several():
                                             bg_cause=PAPER, page="guide/p0.html")]
     two, _ = report(samples, schemes=("light", "dark"))
     pytest.LineMatcher(two.splitlines()).fnmatch_lines([
-        "1. 5 occurrences on 2 pages [[]scheme light]: *",
+        "1. Grey text on white is too faint: 4.47:1, needs 4.5:1, in the light scheme.",
         "*[[]scheme light]",
         "*in 2 schemes (light, dark)*",
     ])
@@ -193,10 +218,10 @@ def test_appearance_findings_say_what_they_measured():
     sample = make_sample("#b0b0b0", "#1a1a1a", weight=300, fg_cause=night, bg_cause=panel)
     out, _ = report([sample])
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
-        "*color `#b0b0b0` at assets/site.css:12 on background-color `#1a1a1a`*, "
-        "Lc -58.21, needs Lc 75 (light on dark)",
+        "*Grey text on black is too faint: Lc -58.21, needs Lc 75 (light on dark).",
+        "*Where: *#b0b0b0 on #1a1a1a, Lc -58.21",
+        "*Fix: set `color` at assets/site.css:12 to #*",
         "*warning TC200 text-lc: lightness contrast Lc -58.21 (light on dark) is below the Lc 75*",
-        "*fix at the cause: set `color` at assets/site.css:12 to #*",
     ])
     out, _ = report([sample], group_by="page")
     assert "#b0b0b0 on #1a1a1a, Lc -58.21, needs Lc 75 (light on dark); try text #" in out

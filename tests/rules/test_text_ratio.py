@@ -119,12 +119,26 @@ def test_translucent_text_is_composited_on_each_stop():
 
 
 def test_fixes_reach_the_required_ratio():
-    (finding,) = check([make_sample("#cc6666", "#ffffff")])
+    (finding,) = check([make_sample("#cc6666", "#eeeeee")])
     targets = {f.target: f for f in finding.fixes}
-    assert set(targets) == {"foreground", "background"}
-    assert ratio(targets["foreground"].colour, "#ffffff") >= 4.5
-    assert targets["foreground"].ratio == pytest.approx(ratio(targets["foreground"].colour, "#ffffff"))
-    assert ratio("#cc6666", targets["background"].colour) >= 4.5
+    assert set(targets) == {"foreground"}  # no lighter background than #eeeeee reaches 4.5:1
+    assert ratio(targets["foreground"].colour, "#eeeeee") >= 4.5
+    assert targets["foreground"].ratio == pytest.approx(ratio(targets["foreground"].colour, "#eeeeee"))
+    (finding,) = check([make_sample("#ffffff", "#8a8a8a")])
+    (background,) = [f for f in finding.fixes if f.target == "background"]
+    assert ratio("#ffffff", background.colour) >= 4.5
+
+
+def test_suggestions_keep_the_polarity_of_the_pair():
+    # grey text on white: a darker text colour, never a black background (WCAG 2.2 formula for
+    # the ratios); white text on a mid grey: a darker background, never a darker text colour
+    (finding,) = check([make_sample("#777777", "#ffffff")])
+    assert [f.target for f in finding.fixes] == ["foreground"]
+    fg = finding.fixes[0].colour
+    assert ratio(fg, "#000000") < ratio("#777777", "#000000")  # darker than #777777
+    (finding,) = check([make_sample("#ffffff", "#8a8a8a")])
+    assert [f.target for f in finding.fixes] == ["background"]
+    assert ratio(finding.fixes[0].colour, "#000000") < ratio("#8a8a8a", "#000000")
 
 
 def test_foreground_fix_keeps_the_hue():

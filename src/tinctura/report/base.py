@@ -23,6 +23,9 @@ class Header:
     group: str = "cause"  # "cause" (problems first) or "page"
     fail_on: str = "error"
     schemes: list = field(default_factory=list)  # scheme names evaluated
+    # callable sample -> writer.Location (readable locator, Markdown source), when the run can
+    # tell (a writer.WriterAid)
+    locate: object = None
     # JSON: "compact" (each situation once, occurrences as small records; format 2) or
     # "flat" (every finding in full; format 1)
     findings_layout: str = "compact"

@@ -286,7 +286,7 @@ class HtmlFormatter(Formatter):
                "<p>Colour-vision deficiency previews are not available in this version.</p>")
         return section("problems", "Problems, most occurrences first",
                        "<p>Each problem is one text colour declaration on one background "
-                       "declaration in one scheme. The pictures show the words as published and "
+                       "declaration, in every scheme where they meet. The pictures show the words as published and "
                        "with the suggested colour.</p>", cvd, body)
 
     def problem_article(self, index: int, p) -> str:
@@ -299,7 +299,7 @@ class HtmlFormatter(Formatter):
         title = prose(f"{index}. {self.value(p.fg_cause, fg, 'text')} on "
                       f"{self.value(p.bg_cause, bg, 'background')}: {measure(rule, worst)}")
         facts = (f'<p class="facts"><span class="sev">{e(p.severity.capitalize())}</span> '
-                 f"{code(p.rule)} {e(p.slug)}, {e(where)}; scheme {e(p.scheme)}; "
+                 f"{code(p.rule)} {e(p.slug)}, {e(where)}; {schemes_of(p)}; "
                  f"{m.plural(p.occurrences, 'occurrence')} on {m.plural(p.pages, 'page')}.</p>"
                  f"<p>{e(sentence(m.message(worst)))}.</p>")
         fix = self.suggested(p, bg)
@@ -388,7 +388,7 @@ class HtmlFormatter(Formatter):
             where = e(f"{s.page}:{s.line}{state}") + (f"<br>source {e(source)}" if source else "")
             rows.append(row(where, f'<code class="path">{e(m.css_path(s.xpath))}</code>',
                             e(m.excerpt(s.text, 80)),
-                            e(f"{m.colour(efg)} on {m.colour(ebg)}, {m.ratio(f.ratio)}:1")))
+                            e(f"{m.colour(efg)} on {m.colour(ebg)}, {m.measured(f)}")))
         rest = p.occurrences - len(chosen)
         more = f"; {m.plural(rest, 'more occurrence')} not shown" if rest > 0 else ""
         return table(f"Where it occurs{more}", ("Page and line", "Element", "Text", "Colours"),
@@ -611,3 +611,13 @@ h3{break-after:avoid}
 a{text-decoration:none}
 }
 """
+
+
+def schemes_of(p) -> str:
+    """``scheme slate`` or ``schemes default (1.68:1), slate (1.68:1)``: a problem spans the
+    schemes where its cause fails (problems.Problem.schemes)."""
+    figures = getattr(p, "schemes", None) or {}
+    if len(figures) <= 1:
+        return f"scheme {e(p.scheme)}"
+    return "schemes " + ", ".join(f"{e(name)} ({m.ratio(f.worst_ratio)}:1)"
+                                  for name, f in figures.items())

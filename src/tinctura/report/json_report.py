@@ -9,6 +9,8 @@ import os
 
 from . import appearance
 from . import messages as m
+from . import plain
+from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
@@ -209,7 +211,36 @@ def cause_fix_dict(fix) -> dict | None:
     }
 
 
-def problem_dict(problem, index_of: dict) -> dict:
+def override_dict(o) -> dict | None:
+    """A problem's fix as the site's own CSS: ``{file, css}`` (and whether a re-check proved it)."""
+    if o is None:
+        return None
+    out = {"file": o.where, "css": o.css(), "verified": bool(o.verified)}
+    if o.note:
+        out["note"] = o.note
+    return out
+
+
+def source_dict(source) -> dict | None:
+    if source is None:
+        return None
+    return {"file": source.file, "line": source.line, "near": source.near,
+            "template": source.template}
+
+
+def where_dict(finding, location) -> dict:
+    """Where a problem's worst occurrence is, for a writer: its page, text, readable locator and
+    Markdown source (or theme template) when the run could tell."""
+    s = finding.sample
+    out = {"page": s.page, "text": m.excerpt(s.text, 200), "locator": "", "source": None}
+    if location is not None:
+        out["locator"] = location.locator
+        out["source"] = source_dict(location.source)
+    return out
+
+
+def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = False) -> dict:
+    location = locate(problem.worst.sample) if locate is not None else None
     return {
         "rule": problem.rule,
         "slug": problem.slug,
@@ -222,8 +253,14 @@ def problem_dict(problem, index_of: dict) -> dict:
         "fg_cause": cause_dict(problem.fg_cause),
         "bg_cause": cause_dict(problem.bg_cause),
         "fix_at_cause": cause_fix_dict(problem.fix_at_cause),
+        "schemes": [{"name": name, "occurrences": f.count, "worst_ratio": float(f.worst_ratio)}
+                    for name, f in problem.schemes.items()],
+        "fix": override_dict(getattr(problem, "override", None)),
         "findings": list(problem.indexes) if problem.indexes is not None else
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
+        "where": where_dict(problem.worst, location),
+        "sentence": m.message(problem.worst) if is_appearance(problem.worst) else
+        plain.sentence(problem, location, many_schemes or len(problem.schemes) > 1),
     }
 
 
@@ -335,9 +372,10 @@ class JsonFormatter(Formatter):
 
     def problem(self, index, problem) -> None:
         if self.flat:
-            self._item("problems", problem_dict(problem, self.index_of))
+            self._item("problems", problem_dict(problem, self.index_of, self.header.locate,
+                                                len(self.header.schemes) > 1))
             return
-        item = problem_dict(problem, {})
+        item = problem_dict(problem, {}, self.header.locate, len(self.header.schemes) > 1)
         del item["findings"]
         item["situations"] = sids = self._situations_of(problem)
         for sid in sids:
@@ -353,8 +391,7 @@ class JsonFormatter(Formatter):
             self._by_problem = {}
             for sid, template in enumerate(self.store.situations):
                 self._by_problem.setdefault(problem_key(template), []).append(sid)
-        key = (problem.rule, problem.scheme, cause_key(problem.fg_cause),
-               cause_key(problem.bg_cause))
+        key = (problem.rule, cause_key(problem.fg_cause), cause_key(problem.bg_cause))
         return self._by_problem.get(key, [])
 
     def _situations(self) -> None:

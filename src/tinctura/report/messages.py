@@ -117,6 +117,11 @@ def measure(finding: Finding) -> str:
     return template.format(**message_args(finding))
 
 
+def measured(finding: Finding) -> str:
+    """What was measured, without the requirement: ``3.45:1`` or ``Lc 52.10 (dark on light)``."""
+    return measure(finding).split(", needs")[0]
+
+
 def finding_colours(finding: Finding) -> tuple:
     """(fg, bg) the finding was judged on: the worst background when there were several."""
     s = finding.sample

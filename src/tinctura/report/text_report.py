@@ -1,11 +1,15 @@
 """The terminal report: problems first (or findings by page), a summary line, the notice."""
 from __future__ import annotations
 
+import shutil
 import textwrap
 
+from tinctura.colour import suggest
+from tinctura.overrides import faded
 from tinctura.problems import target_declaration
 
 from . import messages as m
+from . import plain
 from .appearance import headline as appearance_headline
 from .appearance import finding_lines as appearance_finding_lines
 from .appearance import is_appearance
@@ -16,7 +20,8 @@ from .summary import SEVERITIES
 from .terminal import TerminalWriter
 
 EXAMPLES = 3  # example occurrences shown under each problem
-WIDTH = 88  # wrap width of the notice; fixed so output does not depend on the terminal
+WIDTH = 88  # wrap width of the notice at most
+INDENT = "   "
 SEVERITY_STYLE = {"error": ("red", "bold"), "warning": ("yellow",), "info": ("cyan",)}
 
 
@@ -27,6 +32,7 @@ class TextFormatter(Formatter):
         self.tw = TerminalWriter(stream, colour, environ, choice)
         self.diagnostics: list = []
         self.schemes = list(header.schemes)
+        self.width = terminal_width()
 
     @property
     def wants_findings(self) -> bool:  # grouped by cause: the problems carry the examples
@@ -41,13 +47,22 @@ class TextFormatter(Formatter):
     def severity(self, name: str) -> str:
         return self.tw.markup(name, *SEVERITY_STYLE.get(name, ()))
 
+    def where(self, sample) -> str:
+        """The readable locator (and Markdown line) when the run can tell, else the XPath."""
+        if self.header.locate is None:
+            return sample.xpath
+        loc = self.header.locate(sample)
+        source = loc.source.where() if loc.source is not None else ""
+        text = loc.locator or sample.xpath
+        return f"{text} ({source})" if source else text
+
     def context(self, sample) -> str:
-        """`` [scheme slate, :hover]`` when it matters, else empty."""
+        """`` [scheme slate, when hovered]`` when it matters, else empty."""
         bits = []
         if self.many_schemes:
             bits.append(f"scheme {sample.scheme}")
         if sample.state and sample.state != "rest":
-            bits.append(f":{sample.state}")
+            bits.append(plain.STATES.get(sample.state, sample.state))
         return f" [{', '.join(bits)}]" if bits else ""
 
     # -- events ------------------------------------------------------------------------
@@ -66,39 +81,18 @@ class TextFormatter(Formatter):
     def problem(self, index: int, problem) -> None:
         if self.header.group != "cause":
             return
-        tw = self.tw
-        worst = problem.worst
-        if is_appearance(worst):  # site-level: entries and contexts, no ratio or fix
+        if is_appearance(problem.worst):  # site-level: entries and contexts, no ratio or fix
             self.appearance_problem(index, problem)
             return
-        fg, bg = m.finding_colours(worst)
-        where = f" [scheme {problem.scheme}]" if self.many_schemes else ""
-        tw.line(
-            f"{index}. {m.plural(problem.occurrences, 'occurrence')} on "
-            f"{m.plural(problem.pages, 'page')}{where}: "
-            f"{headline(problem.fg_cause, fg, 'color')} on "
-            f"{headline(problem.bg_cause, bg, 'background')}, "
-            f"{problem_measure(problem)}",
-            "bold",
-        )
-        tw.line(f"   {self.severity(problem.severity)} {problem.rule} {problem.slug}: "
-                f"{m.message(worst)}")
-        tw.line(f"   text colour: {m.cause(problem.fg_cause, 'no declaration (initial value)')}")
-        tw.line(f"   background:  {m.cause(problem.bg_cause, 'no declaration (the canvas)')}")
-        for line in cause_fix_lines(problem.fix_at_cause):
-            tw.line(f"   {line}", "green")
-        for n, f in enumerate(examples(problem.example_pool())):
-            s = f.sample
-            efg, ebg = m.finding_colours(f)
-            lead = "e.g." if n == 0 else "    "
-            tw.line(
-                f"   {lead} {s.page}:{s.line}  {m.css_path(s.xpath)}  \"{m.excerpt(s.text)}\"  "
-                f"{m.colour(efg)} on {m.colour(ebg)}, {example_measure(f)}{self.context(s)}"
-            )
-        rest = problem.occurrences - min(EXAMPLES, problem.occurrences)
-        if rest:
-            tw.line(f"        and {m.plural(rest, 'more occurrence')}", "dim")
-        tw.line()
+        for indent, text, style, wrap in problem_lines(index, problem, self.header.locate,
+                                                        self.many_schemes):
+            if style == "severity":
+                text = text.replace(problem.severity, self.severity(problem.severity), 1)
+                style = None
+            hang = 9 if text.startswith(("Where:", "       ")) else 2
+            for line in wrapped(indent, text, self.width if wrap else 0, hang):
+                self.tw.line(line, *((style,) if style else ()))
+        self.tw.line()
 
     def appearance_problem(self, index: int, problem) -> None:
         self.tw.line(f"{index}. {appearance_headline(problem)}", "bold")
@@ -113,6 +107,7 @@ class TextFormatter(Formatter):
             return
         tw = self.tw
         tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
+        width = self.width
         for f in findings:
             s = f.sample
             if is_appearance(f):  # site-level: the entries and their contexts
@@ -121,11 +116,21 @@ class TextFormatter(Formatter):
                     tw.line(f"      {line}")
                 continue
             fg, bg = m.finding_colours(f)
-            tw.line(f"  {s.line}: {s.xpath}  \"{m.excerpt(s.text)}\"{self.context(s)}")
-            tw.line(f"      {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
+            for line in wrapped(0, f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\""
+                                   f"{self.context(s)}", width, 6):
+                tw.line(line)
+            message = f"{f.severity} {f.rule} {f.slug}: {m.message(f)}"
+            for line in wrapped(2, message, width, 2):
+                tw.line(line.replace(f.severity, self.severity(f.severity), 1))
             fix = m.fixes(f)
             tail = f"; try {fix}" if fix else ""
-            tw.line(f"      {m.colour(fg)} on {m.colour(bg)}, {m.measure(f)}{tail}")
+            if not any(x.target == "background" for x in f.fixes) and fg is not None \
+                    and bg is not None:
+                tail += (f"; no {suggest.describe_side(bg, fg)} background of this hue "
+                         f"reaches it")
+            for line in wrapped(2, f"{m.colour(fg)} on {m.colour(bg)}, {m.measure(f)}{tail}",
+                                width, 2):
+                tw.line(line)
         tw.line()
 
     def diagnostic(self, diagnostic) -> None:
@@ -142,7 +147,7 @@ class TextFormatter(Formatter):
                 tw.line(f"  {at}: {d.severity}: {d.message}")
         tw.line(summary_line(summary, self.header))
         tw.line()
-        for line in textwrap.wrap(DISCLAIMER, WIDTH):
+        for line in textwrap.wrap(DISCLAIMER, min(self.width, WIDTH)):
             tw.line(line, "dim")
         tw.flush()
 
@@ -155,18 +160,6 @@ def headline(cause, rgb, what: str) -> str:
     return f"{d.property} `{d.value}` at {d.where()}"
 
 
-def problem_measure(problem) -> str:
-    """The problem's worst value against the requirement (rules other than the WCAG 2 ratio
-    say what they measured: Lc, a deficiency, a viewing profile)."""
-    if problem.rule == "TC100":
-        return f"{m.ratio(problem.worst_ratio)}:1, needs {m.required(problem.required)}:1"
-    return m.measure(problem.worst)
-
-
-def example_measure(f) -> str:
-    if f.rule == "TC100":
-        return f"{m.ratio(f.ratio)}:1"
-    return m.measure(f).split(", needs")[0]
 
 
 def examples(findings) -> list:
@@ -245,3 +238,110 @@ def summary_line(summary, header: Header) -> str:
     if summary.diagnostics:
         parts.append(m.plural(summary.diagnostics, "diagnostic"))
     return "; ".join(parts) + "."
+
+
+def terminal_width() -> int:
+    """Columns to wrap at: the terminal's (or $COLUMNS), 100 when not a terminal, at least 60."""
+    return max(60, shutil.get_terminal_size((100, 24)).columns)
+
+
+def wrapped(indent: int, text: str, width: int, hang: int = 2) -> list:
+    """``text`` indented by ``indent`` levels, wrapped at ``width`` (0: not wrapped); wrapped
+    lines hang ``hang`` spaces further in."""
+    lead = INDENT * indent
+    if not width:
+        return [lead + text]
+    return textwrap.wrap(text, max(30, width - 1), initial_indent=lead,
+                         subsequent_indent=lead + " " * hang, break_long_words=False,
+                         break_on_hyphens=False) or [lead]
+
+
+def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> list:
+    """A problem for a writer: ``(indent, text, style, wrap)`` lines. The plain sentence first,
+    then where it is, then the fix as the site's own CSS, then the technical detail."""
+    worst = problem.worst
+    location = locate(worst.sample) if locate is not None else None
+    lead = f"{index}. " if index else ""
+    out = [(0, lead + plain.sentence(problem, location, many_schemes), "bold", True)]
+    pool = examples(problem.example_pool())
+    for n, f in enumerate(pool):
+        label = "Where:" if n == 0 else "      "
+        out.append((1, f"{label} {example_place(f, locate, many_schemes)}", None, True))
+    rest = problem.occurrences - len(pool)
+    if rest:
+        pages = f" on {m.plural(problem.pages, 'page')}" if problem.pages > 1 else ""
+        out.append((1, f"       and {m.plural(rest, 'more occurrence')}{pages}", "dim", True))
+    out += fix_lines(problem)
+    out.append((1, "Detail:", "dim", True))
+    fg, bg = m.finding_colours(worst)
+    out.append((2, f"{problem.severity} {problem.rule} {problem.slug}: {m.message(worst)}",
+                "severity", True))
+    text_colour = m.cause(problem.fg_cause, "no declaration (initial value)")
+    inherited = problem.fg_cause.inherited_from if problem.fg_cause is not None else None
+    if inherited and hasattr(locate, "locator"):  # a WriterAid: ancestors get locators too
+        text_colour = text_colour.replace(
+            f"inherited from {inherited}",
+            f"inherited from {locate.locator(worst.sample.page, inherited)}")
+    out.append((2, f"text colour: {text_colour}", None, True))
+    out.append((2, f"background: {m.cause(problem.bg_cause, 'no declaration (the canvas)')}",
+                None, True))
+    if getattr(problem, "override", None) is not None:  # else the fix above said it
+        for line in cause_fix_lines(problem.fix_at_cause):
+            out.append((2, line, None, True))
+    return out
+
+
+def example_place(f, locate=None, many_schemes: bool = False) -> str:
+    """``faults/text.md:12 "Fault: the sensor…" (p.tw-faint), #949494 on #ffffff, 3.03:1``."""
+    s = f.sample
+    efg, ebg = m.finding_colours(f)
+    where, locator = f"{s.page}:{s.line}", m.css_path(s.xpath)
+    if locate is not None:
+        loc = locate(s)
+        locator = loc.locator or locator
+        if loc.source is not None and loc.source.where():
+            where = loc.source.where()  # the built page stays in JSON and --group page
+    bits = []
+    if many_schemes:
+        bits.append(f"scheme {s.scheme}")
+    if s.state and s.state != "rest":
+        bits.append(plain.STATES.get(s.state, s.state))
+    context = f" [{', '.join(bits)}]" if bits else ""
+    return (f"{where} \"{m.excerpt(s.text)}\" ({locator}), {m.colour(efg)} on {m.colour(ebg)}, "
+            f"{m.measured(f)}{context}")
+
+
+def fix_lines(problem) -> list:
+    """The fix as CSS for the site's own stylesheet, or why there is none."""
+    override = getattr(problem, "override", None)
+    if override is None and faded(problem.worst):  # the fading element was not found
+        return [(1, "Fix: raise (or remove) the opacity of the element around the text that "
+                    "fades it, rather than change the text colour.", "green", True)]
+    if override is None:
+        fix = problem.fix_at_cause
+        if fix is not None and not fix.possible and not any(c.colour for c in fix.contexts):
+            return [(1, "Fix: no text colour of this hue on the same side of the background "
+                        "reaches the ratio; change the background or both colours.", "green",
+                     True)]
+        lines = cause_fix_lines(fix)
+        if not lines:
+            return []
+        return [(1, "Fix: " + lines[0].replace("fix at the cause: ", ""), "green", True)] + [
+            (2, line.strip(), "green", True) for line in lines[1:]]
+    if override.verified:
+        head = f"Fix: add to {override.where} (checked again with it applied: it passes):"
+    elif override.verified is None:
+        head = f"Fix: add to {override.where}:"
+    else:
+        head = (f"Possible fix, not verified (the check still fails with it; the cause may be "
+                f"opacity or a rule this override does not beat): {override.where}")
+    out = [(1, head, "green" if override.verified else None, True)]
+    if override.note:
+        out.append((2, f"({override.note})", "dim", True))
+    if override.shared_with:
+        others = ", ".join(str(n) for n in override.shared_with)
+        out.append((2, f"(the same rule also fixes problem{'s' if len(override.shared_with) > 1 else ''} "
+                       f"{others}: add it once)", "dim", True))
+    for line in override.css().rstrip("\n").splitlines():
+        out.append((2, line, "green" if override.verified else None, False))
+    return out

@@ -1,0 +1,139 @@
+"""Short readable locators for built pages: ``div.admonition.warning > p`` instead of an XPath.
+
+A locator names the nearest element with an id or a class (itself or an ancestor) and the tags
+below it. ``Pages`` reads a built page only when a report asks about it and keeps the last few
+parsed, so a report costs one parse per page it shows, not one per finding.
+"""
+from __future__ import annotations
+
+import os
+import re
+from collections import OrderedDict
+
+MAX_CLASSES = 3  # classes shown per element: enough to recognise it
+MAX_BELOW = 3  # tags shown below the named element
+_IDENT = re.compile(r"^-?[_a-zA-Z][_a-zA-Z0-9-]*$")  # CSS identifiers that need no escaping
+_NOISE = re.compile(r"^(md-typeset|highlight|headerlink)$")  # classes on nearly everything
+
+
+def element_xpath(xpath: str) -> str:
+    """The element part of a sample's XPath (``::before``, ``::marker`` stripped)."""
+    return (xpath or "").split("::")[0]
+
+
+def pseudo(xpath: str) -> str:
+    return "::" + xpath.split("::", 1)[1] if "::" in (xpath or "") else ""
+
+
+def compound(el, keep_noise: bool = False) -> str:
+    """``tag#id`` or ``tag.class1.class2``: one element as CSS, identifiers that need escaping
+    left out."""
+    tag = el.tag if isinstance(el.tag, str) else "*"
+    ident = el.get("id")
+    if ident and _IDENT.match(ident):
+        return f"{tag}#{ident}"
+    classes = [c for c in (el.get("class") or "").split() if _IDENT.match(c)
+               and (keep_noise or not _NOISE.match(c))]
+    return tag + "".join(f".{c}" for c in classes[:MAX_CLASSES])
+
+
+def named(el) -> bool:
+    return bool(el.get("id") and _IDENT.match(el.get("id"))) or any(
+        _IDENT.match(c) and not _NOISE.match(c) for c in (el.get("class") or "").split())
+
+
+def readable(el, below: int = MAX_BELOW) -> str:
+    """The nearest named element (itself or an ancestor) and the tags down to ``el``."""
+    path = []
+    node = el
+    while node is not None and isinstance(node.tag, str):
+        if named(node) or node.tag == "body":
+            path.append(compound(node))
+            break
+        path.append(node.tag)
+        node = node.getparent()
+    path.reverse()
+    if len(path) > below + 1:
+        path = [path[0], "\u2026"] + path[-below:]
+    return " > ".join(path)
+
+
+def selector(el) -> str:
+    """A CSS selector for ``el`` that a stylesheet can use: the nearest element with an id or
+    classes and the child path below it, each step numbered among its siblings of the same
+    tag where it has any (``div.tw-panel > p:nth-of-type(2) > span``)."""
+    path = []
+    node = el
+    while node is not None and isinstance(node.tag, str):
+        if named(node) or node.tag in ("body", "html"):
+            path.append(compound(node))
+            break
+        path.append(node.tag + _nth_of_type(node))
+        node = node.getparent()
+    path.reverse()
+    return " > ".join(path)
+
+
+def _nth_of_type(el) -> str:
+    parent = el.getparent()
+    if parent is None:
+        return ""
+    same = [c for c in parent if c.tag == el.tag]
+    return f":nth-of-type({same.index(el) + 1})" if len(same) > 1 else ""
+
+
+def landmarks(el) -> list:
+    """Tags and classes of ``el`` and its ancestors, innermost first (for plain sentences and
+    for telling theme text from page text)."""
+    out = []
+    node = el
+    while node is not None and isinstance(node.tag, str):
+        out.append((node.tag, tuple((node.get("class") or "").split()), node.get("id") or ""))
+        node = node.getparent()
+    return out
+
+
+class Pages:
+    """Built pages parsed on demand, the last few kept."""
+
+    KEEP = 8
+
+    def __init__(self, roots, behaviours=()):
+        self.roots = [os.path.abspath(r) for r in roots]
+        self.behaviours = tuple(behaviours)  # theme script behaviours the engine applied
+        self._trees: OrderedDict = OrderedDict()
+
+    def tree(self, page: str):
+        if page in self._trees:
+            self._trees.move_to_end(page)
+            return self._trees[page]
+        tree = None
+        for root in self.roots:
+            path = os.path.join(root, page)
+            if os.path.isfile(path):
+                from tinctura.extract.html import parse_html
+
+                try:
+                    with open(path, "rb") as fh:
+                        tree = parse_html(fh.read())
+                    if self.behaviours:  # the XPaths are those of the tree the engine walked
+                        from tinctura.extract import behaviours
+
+                        behaviours.apply(tree, self.behaviours)
+                except Exception:  # an unreadable page: no locator, the XPath remains
+                    tree = None
+                break
+        self._trees[page] = tree
+        if len(self._trees) > self.KEEP:
+            self._trees.popitem(last=False)
+        return tree
+
+    def element(self, page: str, xpath: str):
+        tree = self.tree(page)
+        if tree is None:
+            return None
+        try:
+            found = tree.xpath(element_xpath(xpath))
+        except Exception:
+            return None
+        return found[0] if found else None

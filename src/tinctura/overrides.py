@@ -1,0 +1,471 @@
+"""Fixes as CSS the writer can add to a stylesheet of their own site.
+
+A colour that comes from the theme is fixed by overriding it, never by editing the theme's
+(minified, rebuilt) files: each problem's fix at the cause becomes one or more rules that set the
+custom property (when the colour comes through ``var()``) or the property itself, scoped to the
+colour scheme it must apply in (the scheme's attribute selector, or a ``prefers-color-scheme``
+media block). Where one value cannot serve every background the declaration meets, the rule is
+scoped to the background's own selector instead. Every override is then verified by checking
+the affected pages again with all overrides applied (``verify``).
+
+Computation only: the CLI and the plugin hand in problems, schemes and what they know of the
+site's stylesheets; reports format the records.
+"""
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, field
+from typing import Optional
+
+from tinctura.colour import suggest
+from tinctura.colour.convert import to_hex
+from tinctura.mkdocs_project import owned
+from tinctura.problems import _quantize, target_declaration
+
+DEFAULT_FILE = "stylesheets/colour-fixes.css"  # when the site has no stylesheet of its own
+_COLOUR_PROPS = ("background-color", "background")
+_SPACE = re.compile(r"\s+")
+
+
+@dataclass
+class Rule:
+    """One CSS rule: ``selector { property: value; ... }``, inside ``media`` when given."""
+
+    selector: str
+    declarations: tuple  # ((property, value, important), ...)
+    media: str = ""  # "(prefers-color-scheme: dark)" or ""
+
+    def css(self) -> str:
+        body = "".join(f"  {p}: {v}{' !important' if imp else ''};\n"
+                       for p, v, imp in self.declarations)
+        rule = f"{self.selector} {{\n{body}}}\n"
+        if not self.media:
+            return rule
+        inner = "".join(f"  {line}\n" if line else "\n" for line in rule.splitlines())
+        return f"@media {self.media} {{\n{inner}}}\n"
+
+
+@dataclass
+class Override:
+    """A problem's fix as CSS, the stylesheet it belongs in, and whether a re-check proved it."""
+
+    file: str  # site-relative path of a stylesheet the writer owns
+    rules: list = field(default_factory=list)  # list[Rule]
+    schemes: tuple = ()  # the schemes it applies in (empty: all)
+    target: str = "foreground"  # or "background": what it changes
+    note: str = ""  # what the writer should know (e.g. "a new file: add it to extra_css")
+    verified: Optional[bool] = None  # None: not re-checked
+    shown_file: str = ""  # ``file`` as the writer sees it (relative to mkdocs.yml), when known
+    shared_with: tuple = ()  # numbers (from 1) of other problems this same CSS fixes
+
+    def keys(self) -> set:
+        """What it sets: (media, selector, property, value) for every declaration."""
+        return {(r.media, _normal(r.selector), d[0], d[1]) for r in self.rules
+                for d in r.declarations if not d[1].startswith("var(")}
+
+    @property
+    def where(self) -> str:
+        return self.shown_file or self.file
+
+    def css(self) -> str:
+        return "".join(rule.css() for rule in self.rules)
+
+
+@dataclass
+class Scope:
+    """How a rule is limited to one colour scheme."""
+
+    attribute: str = ""  # '[data-md-color-scheme="slate"]'
+    holder: str = ""  # the element carrying the attribute: "body" or "html"
+    media: str = ""  # "(prefers-color-scheme: dark)"
+
+
+class Planner:
+    """Turns problems into overrides for one site."""
+
+    def __init__(self, schemes, project=None, sheet_order=()):
+        self.schemes = {s.name: s for s in schemes if hasattr(s, "name")}
+        self.project = project
+        # the site's stylesheets in the order a page links them: the last owned one is where
+        # an override of a theme value goes (it must come after the theme's sheets)
+        own = [s for s in sheet_order if owned(s, project)]
+        if project is not None and project.extra_css:
+            own = [s for s in project.extra_css if s.endswith(".css")] or own
+        self.last_own = own[-1] if own else None
+
+    # -- scopes ---------------------------------------------------------------------------
+
+    def scope(self, name: str) -> Scope:
+        if len(self.schemes) < 2 or name not in self.schemes:
+            return Scope()
+        scheme = self.schemes[name]
+        if scheme.attributes:
+            holder, attr, value = scheme.attributes[0]
+            parts = [(attr, value)]
+            clash = [s for s in self.schemes.values() if s.name != name and s.attributes
+                     and s.attributes[0][1:] == (attr, value)]
+            if clash:  # two palette entries with one scheme value: name the rest too
+                parts += [(a, v) for h, a, v in scheme.attributes[1:] if h == holder]
+            return Scope("".join(f'[{a}="{v}"]' for a, v in parts), holder)
+        pref = scheme.media_value("prefers-color-scheme")
+        return Scope(media=f"(prefers-color-scheme: {pref})") if pref else Scope()
+
+    def scoped(self, scope: Scope, selector: str) -> str:
+        """``selector`` limited to the scope's attribute (media are added by the Rule)."""
+        selector = _SPACE.sub(" ", (selector or "").strip()) or ":root"
+        if not scope.attribute:
+            return selector
+        if _normal(scope.attribute) in _normal(selector):
+            return selector  # the theme's own rule for this scheme
+        first, rest = _first_compound(selector)
+        base = re.match(r"^(:root|[a-zA-Z][a-zA-Z0-9-]*)?", first).group(0)
+        if scope.holder == "body" and base in (":root", "html"):
+            # declared above the attribute's holder: declare it on the holder instead
+            return f"{first} {scope.attribute}{rest}" if rest.strip() else scope.attribute
+        if base == scope.holder or (scope.holder == "html" and base == ":root"):
+            return first + scope.attribute + rest
+        return f"{scope.attribute} {selector}"
+
+    # -- per problem ----------------------------------------------------------------------
+
+    def plan(self, problem, element_selector=None, opacity_of=None) -> Optional[Override]:
+        """The override for one problem, or None when no colour on the same side exists or
+        the text is faded by an ancestor's opacity (``faded``), which no colour undoes.
+
+        ``element_selector(finding)`` gives a CSS selector for a finding's element (used when
+        the colour comes from a style attribute or from no declaration at all);
+        ``opacity_of(finding)`` the ``(declaration, value)`` of the opacities that fade it,
+        nearest first (then the fix raises the nearest one)."""
+        if "contexts" in problem.worst.args and "delta" in problem.worst.args:
+            return None  # a site-level appearance finding: no single colour pair to fix
+        if faded(problem.worst):
+            return self._opacity(problem, opacity_of) if opacity_of is not None else None
+        fix = problem.fix_at_cause
+        if fix is None:
+            return None
+        decl = target_declaration(problem.fg_cause)
+        failing = list(problem.schemes) or [problem.scheme]
+        rules, schemes, target = [], [], "foreground"
+        if fix.possible:
+            # the value passes wherever the declaration is used; where it is not used (a rule
+            # inside a media block, say) the override must not apply either
+            used = [n for n in fix.schemes if n in self.schemes]
+            everywhere = not used or set(used) >= set(self.schemes)
+            for name in ([None] if everywhere else used):
+                scope = Scope() if name is None else self.scope(name)
+                rules += self._fg_rules(problem, decl, scope, fix.colour, element_selector, None)
+            schemes = [] if everywhere else used
+        else:
+            for name in failing:
+                figures = problem.schemes.get(name)
+                worst = figures.worst if figures is not None else problem.worst
+                context = _context_for(fix.contexts, name, worst)
+                scope = self.scope(name)
+                if context is not None and context.colour is not None:
+                    per_bg = sum(1 for c in fix.contexts if name in c.schemes) > 1
+                    rules += self._fg_rules(problem, decl, scope, context.colour,
+                                            element_selector, worst if per_bg else None)
+                else:
+                    got = self._bg_rules(problem, scope, worst)
+                    if not got:
+                        return None
+                    rules += got
+                    target = "background"
+                schemes.append(name)
+        if not rules:
+            return None
+        file, note = self._file(decl if target == "foreground" else
+                                target_declaration(problem.bg_cause))
+        if target == "foreground" and decl is not None and decl.origin == "inline":
+            note = ("the colour is set by a style attribute in the page: changing it there is "
+                    "better than this rule")
+        return Override(file, rules, tuple(schemes), target, note)
+
+    def _opacity(self, problem, opacity_of) -> Optional[Override]:
+        """Faded text: the least opacity of the nearest fading element that lets every
+        failing scheme's text pass (in steps of 0.05)."""
+        needed, decl = 0.0, None
+        for name in list(problem.schemes) or [problem.scheme]:
+            figures = problem.schemes.get(name)
+            worst = figures.worst if figures is not None else problem.worst
+            layers = opacity_of(worst) or []
+            if not layers or layers[0][0] is None or not layers[0][0].selector:
+                return None
+            decl, value = layers[0]
+            others = math.prod(v for _, v in layers[1:])
+            found = _least_opacity(worst, value, others, problem.required)
+            if found is None:
+                return None
+            needed = max(needed, found)
+        rule = Rule(decl.selector, (("opacity", f"{needed:g}", decl.important),))
+        file, note = self._file(decl)
+        return Override(file, [rule], (), "opacity", note)
+
+    def _fg_rules(self, problem, decl, scope, colour, element_selector, per_bg_finding):
+        value = to_hex(colour)
+        important = bool(decl is not None and (decl.important or decl.origin == "inline"))
+        if per_bg_finding is not None:  # one value per group of backgrounds: scope to this one
+            bg = problem.bg_cause.declaration if problem.bg_cause is not None else None
+            if bg is None or not bg.selector:
+                return []
+            prop = "color"
+            if decl is not None and decl.property.startswith("--") and \
+                    problem.fg_cause.inherited_from is None:
+                prop = decl.property  # resolved on the text element itself: set the variable
+            return [Rule(self.scoped(scope, bg.selector), ((prop, value, important),),
+                         scope.media)]
+        if decl is None or decl.origin == "inline" or not decl.selector:
+            selector = element_selector(problem.worst) if element_selector else None
+            if not selector:
+                return []
+            return [Rule(self.scoped(scope, selector), (("color", value, True),), scope.media)]
+        declarations = [(decl.property, value, important)]
+        selector = self.scoped(scope, decl.selector)
+        declarations += self._aliases(problem.fg_cause, decl, selector)
+        return [Rule(selector, tuple(declarations), scope.media)]
+
+    def _aliases(self, cause, decl, selector) -> list:
+        """Custom properties between the colour's use and ``decl`` that were resolved on
+        another element: declared again beside the override so they resolve to it."""
+        if cause is None or not decl.property.startswith("--"):
+            return []
+        out = []
+        for step in cause.chain:
+            if step == decl:  # equal, not identical: target_declaration is cached
+                break
+            if step.property.startswith("--") and _normal(step.selector) != _normal(selector):
+                out.append((step.property, step.value, step.important))
+        return out
+
+    def _bg_rules(self, problem, scope, worst) -> list:
+        """When no text colour on the same side passes: a new background colour."""
+        bg_cause = problem.bg_cause
+        decl = target_declaration(bg_cause)
+        if decl is None or not decl.selector or decl.origin == "user-agent":
+            return []
+        if not (decl.property in _COLOUR_PROPS or decl.property.startswith("--")):
+            return []
+        if "gradient(" in decl.value or "url(" in decl.value:
+            return []
+        from tinctura.report.messages import finding_colours
+
+        fg, bg = finding_colours(worst)
+        found = suggest.background(fg, bg, problem.required)
+        if found is None:
+            return []
+        prop = "background-color" if decl.property == "background" else decl.property
+        selector = self.scoped(scope, decl.selector)
+        declarations = [(prop, to_hex(found[0]), decl.important)]
+        declarations += self._aliases(bg_cause, decl, selector)
+        return [Rule(selector, tuple(declarations), scope.media)]
+
+    def _file(self, decl):
+        if decl is not None and owned(decl.sheet, self.project):
+            return decl.sheet, ""
+        if self.last_own:
+            return self.last_own, ""
+        return DEFAULT_FILE, "a new stylesheet: add it last to extra_css in mkdocs.yml"
+
+
+def _least_opacity(finding, current: float, others: float, required: float):
+    """The least opacity (0.05 steps, above ``current``) at which the text passes; None when
+    even 1 does not. The text's colour is composited with the product of the opacities."""
+    from tinctura.colour.composite import over
+    from tinctura.colour.wcag import contrast_ratio
+
+    s = finding.sample
+    r, g, b, a = (tuple(s.fg_raw) + (1.0,))[:4]
+    steps = [round(0.05 * k, 2) for k in range(1, 21)]
+    for value in [v for v in steps if v > current] or [1.0]:
+        seen = over((r, g, b, a * value * others), tuple(s.bg))[:3]
+        if contrast_ratio(seen, tuple(s.bg)) >= required:
+            return value
+    return None
+
+
+def faded(finding) -> bool:
+    """True when the text is fainter than its colour over its background: an ancestor's
+    opacity fades it (a translucent colour alone composites to exactly what is seen)."""
+    from tinctura.colour.composite import over
+
+    s = finding.sample
+    if s.fg_raw is None or s.fg is None or s.bg is None:
+        return False
+    seen = over(tuple(s.fg_raw), tuple(s.bg))[:3]
+    return max(abs(a - b) for a, b in zip(seen, s.fg)) > 2 / 255
+
+
+def _context_for(contexts, scheme, finding):
+    """The group of backgrounds holding ``finding``'s background in ``scheme``."""
+    from tinctura.report.messages import finding_colours
+
+    mine = [c for c in contexts if scheme in c.schemes]
+    if not mine:
+        return None
+    if len(mine) == 1:
+        return mine[0]
+    bg = _quantize(tuple(finding_colours(finding)[1]))
+    for c in mine:
+        if bg in c.backgrounds:
+            return c
+    return None
+
+
+def _normal(selector: str) -> str:
+    return (selector or "").replace('"', "").replace("'", "").replace(" ", "")
+
+
+_COMBINATOR = re.compile(r"\s*[>+~]\s*|\s+")
+
+
+def _first_compound(selector: str):
+    """``("body", " .x > p")`` for ``body .x > p``."""
+    depth, i = 0, 0
+    while i < len(selector):
+        ch = selector[i]
+        if ch in "([":
+            depth += 1
+        elif ch in ")]":
+            depth -= 1
+        elif depth == 0 and (ch.isspace() or ch in ">+~"):
+            break
+        i += 1
+    return selector[:i], selector[i:]
+
+
+def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None) -> list:
+    """One Override (or None) per problem, in the problems' order; overrides that set the same
+    property on the same selector name each other (one rule fixes several problems)."""
+    planned = [planner.plan(p, element_selector, opacity_of) for p in problems]
+    owners: dict = {}
+    for n, o in enumerate(planned, 1):
+        for key in (o.keys() if o is not None else ()):
+            owners.setdefault(key, []).append(n)
+    for n, o in enumerate(planned, 1):
+        if o is not None:
+            o.shared_with = tuple(sorted({m for key in o.keys() for m in owners[key]} - {n}))
+    return planned
+
+
+def combined_css(overrides) -> str:
+    """Every override in one stylesheet; a property already set for the same selector and
+    media by an earlier problem is not set again (the first value serves both)."""
+    seen, blocks = set(), []
+    for n, o in enumerate(overrides, 1):
+        if o is None:
+            continue
+        rules = []
+        for rule in o.rules:
+            kept = tuple(d for d in rule.declarations
+                         if (rule.media, rule.selector, d[0]) not in seen)
+            seen.update((rule.media, rule.selector, d[0]) for d in kept)
+            if kept:
+                rules.append(Rule(rule.selector, kept, rule.media).css())
+        if rules:
+            blocks.append("".join(rules))
+    return "\n".join(blocks)
+
+
+MARK = "tinctura-verify"
+
+
+def inject(html: str, css: str) -> str:
+    """The page with ``css`` as its last stylesheet (a ``<style>`` at the end of the body)."""
+    block = f'<style data-{MARK}="">\n{css}\n</style>'
+    at = html.lower().rfind("</body>")
+    return html + block if at < 0 else html[:at] + block + html[at:]
+
+
+def verify(site_root, options, problems, overrides, pages, loader=None, cache=None) -> dict:
+    """Check ``pages`` again with every override applied; mark each override verified when
+    its problem is gone and the override's own values cause no finding. Returns the counts
+    ``{"pages": n, "remaining": findings left on them}``.
+
+    ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
+    between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice."""
+    from tinctura import engine
+    from tinctura.problems import problem_key
+
+    css = combined_css(overrides)
+    if not css:
+        return {"pages": 0, "remaining": 0}
+    key = (css, tuple(_stamp(site_root, rel) for rel in pages))
+    if cache is not None and cache.get("key") == key:
+        remaining_keys, bad, counts = cache["result"]
+        _mark(problems, overrides, remaining_keys, bad)
+        return counts
+    site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
+    if loader is not None:
+        site.loader = loader  # parsed sheets reused; rule sets are keyed by their sheets
+    _same_line_for_overrides(site.loader)
+    remaining_keys, bad = set(), set()
+    remaining = 0
+    for rel in pages:
+        try:
+            with open(f"{site.root}/{rel}", encoding="utf-8", errors="replace") as fh:
+                html = fh.read()
+        except OSError:
+            continue
+        _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
+        remaining += len(findings)
+        for f in findings:
+            remaining_keys.add(problem_key(f))
+            for cause in (f.sample.fg_cause, f.sample.bg_cause):
+                for d in _declarations(cause):
+                    if "<style>" in d.sheet and d.line and _injected(d, css):
+                        bad.add((_normal(d.selector), d.property))
+    counts = {"pages": len(pages), "remaining": remaining}
+    if cache is not None:
+        cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
+    _mark(problems, overrides, remaining_keys, bad)
+    return counts
+
+
+def _stamp(root, rel) -> tuple:
+    """A page as the cache of verifications knows it: path, size and modification time."""
+    import os
+
+    try:
+        st = os.stat(os.path.join(root, rel))
+    except OSError:
+        return (rel, None, None)
+    return (rel, st.st_size, st.st_mtime_ns)
+
+
+def _same_line_for_overrides(loader) -> None:
+    """Rule sets are keyed by their sheets, a ``<style>`` by its text and line: the injected
+    block sits at a different line on every page, which would give every page its own rule set
+    (and cold style caches). It is given line 1 on every page instead."""
+    if getattr(loader, "_overrides_pinned", False):
+        return
+    original = loader.ruleset_for
+
+    def ruleset_for(root_el, page_path):
+        for el in root_el.iter("style"):
+            if el.get(f"data-{MARK}") is not None:
+                el.sourceline = 1
+        return original(root_el, page_path)
+
+    loader.ruleset_for = ruleset_for
+    loader._overrides_pinned = True
+
+
+def _mark(problems, overrides, remaining_keys, bad) -> None:
+    from tinctura.problems import problem_key
+
+    for problem, override in zip(problems, overrides):
+        if override is None:
+            continue
+        mine = {(_normal(r.selector), d[0]) for r in override.rules for d in r.declarations}
+        override.verified = problem_key(problem.worst) not in remaining_keys and not (mine & bad)
+
+
+def _declarations(cause):
+    if cause is None:
+        return ()
+    return ((cause.declaration,) if cause.declaration is not None else ()) + tuple(cause.chain)
+
+
+def _injected(d, css: str) -> bool:
+    return f"{d.property}: {d.value.replace(' !important', '')}" in css

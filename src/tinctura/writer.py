@@ -1,0 +1,191 @@
+"""The writer's loop, shared by the command line and the plugin: each problem's fix as a
+verified CSS override in a stylesheet the site owns, and each finding's place as a readable
+locator and a Markdown line (or theme template).
+
+It reads built pages (only those a report shows) and, with an MkDocs project, Markdown sources;
+reports receive its results through ``Location`` records and ``Problem.override``.
+"""
+from __future__ import annotations
+
+import os
+import posixpath
+from dataclasses import dataclass
+from typing import Optional
+
+from tinctura import overrides as overrides_mod
+from tinctura.locator import Pages, landmarks, pseudo, readable, selector
+from tinctura.sourcemap import Source, SourceMap
+
+
+@dataclass(frozen=True)
+class Location:
+    locator: str  # "div.admonition.warning > p"
+    source: Optional[Source] = None
+    landmarks: tuple = ()  # (tag, classes, id) innermost first, for plain sentences
+
+
+class WriterAid:
+    def __init__(self, site_root: str, project=None, options=None):
+        self.site_root = os.path.abspath(site_root)
+        self.project = project
+        self.pages = Pages([self.site_root], script_behaviours(options))
+        self.sources = SourceMap(project) if project is not None else None
+        self._cache: dict = {}
+        self._options = None
+        self._layered = None  # a Site keeping background layers, for faded text
+        self._samples: dict = {}
+
+    # -- locations -----------------------------------------------------------------------
+
+    def locate(self, sample) -> Location:
+        key = (sample.page, sample.xpath)
+        got = self._cache.get(key)
+        if got is not None:
+            return got
+        el = self.pages.element(sample.page, sample.xpath)
+        if el is None:
+            got = Location("")
+        else:
+            marks = tuple(landmarks(el))
+            source = None
+            if self.sources is not None and sample.text:
+                own = " ".join("".join(el.itertext()).split())
+                source = self.sources.locate(sample.page, sample.text, marks, own)
+            got = Location(readable(el) + pseudo(sample.xpath), source, marks)
+        if len(self._cache) > 4096:
+            self._cache.clear()
+        self._cache[key] = got
+        return got
+
+    __call__ = locate  # reports call the aid itself to locate a sample
+
+    def locator(self, page: str, xpath: str) -> str:
+        """The readable locator of any element of a page (an ancestor a colour came from)."""
+        el = self.pages.element(page, xpath)
+        return xpath if el is None else readable(el) + pseudo(xpath)
+
+    def element_selector(self, finding) -> Optional[str]:
+        el = self.pages.element(finding.sample.page, finding.sample.xpath)
+        return None if el is None else selector(el) + pseudo(finding.sample.xpath)
+
+    def opacity_of(self, finding) -> list:
+        """``(declaration, value)`` of the opacities fading a finding's text, nearest first:
+        its page checked once more with background layers kept (only for faded text)."""
+        from dataclasses import replace
+
+        from tinctura import engine
+
+        if self._layered is None:
+            self._layered = engine.Site(self.site_root, replace(self._options, keep_samples=True))
+        s = finding.sample
+        key = (s.page, s.scheme)
+        if key not in self._samples:
+            result = self._layered.check_page(s.page)
+            self._samples[key] = {(x.xpath, x.state): x for x in result.samples
+                                  if x.scheme == s.scheme}
+        sample = self._samples[key].get((s.xpath, s.state))
+        if sample is None:
+            return []
+        return [(layer.cause.declaration if layer.cause is not None else None,
+                 layer.colour[3]) for layer in sample.bg_layers if layer.kind == "opacity"]
+
+    def sheet_order(self, page: str) -> list:
+        """Site-relative stylesheets a page links, in order."""
+        tree = self.pages.tree(page)
+        if tree is None:
+            return []
+        base = posixpath.dirname(page)
+        out = []
+        for link in tree.iter("link"):
+            if "stylesheet" not in (link.get("rel") or "").lower().split():
+                continue
+            href = (link.get("href") or "").split("?")[0].split("#")[0]
+            if not href or "://" in href or href.startswith("//"):
+                continue
+            path = href.lstrip("/") if href.startswith("/") else posixpath.join(base, href)
+            out.append(posixpath.normpath(path))
+        return out
+
+    # -- overrides -----------------------------------------------------------------------
+
+    def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
+                       cache=None) -> dict:
+        """Attach a verified ``Override`` (or None) to every problem; returns the verification
+        counts."""
+        first = pages_with_findings[0] if pages_with_findings else None
+        planner = overrides_mod.Planner(schemes, self.project,
+                                        self.sheet_order(first) if first else ())
+        self._options = options
+        planned = overrides_mod.plan_all(problems, planner, self.element_selector,
+                                         self.opacity_of)
+        for problem, override in zip(problems, planned):
+            problem.override = override
+            if override is not None and self.project is not None:
+                override.shown_file = self.project.docs_path(override.file)
+        if not any(planned):
+            return {"pages": 0, "remaining": 0}
+        return overrides_mod.verify(self.site_root, options, problems, planned,
+                                    verification_pages(problems), loader, cache)
+
+
+def script_behaviours(options) -> tuple:
+    """The theme script behaviours the engine applies to pages with these options."""
+    if options is None:
+        return ()
+    from tinctura.extract import behaviours
+
+    return ((behaviours.BUILTIN if getattr(options, "theme_behaviours", True) else ())
+            + tuple(getattr(options, "behaviours", ()) or ()))
+
+
+VERIFY_PAGES = 1  # pages per problem checked again with the overrides applied
+VERIFY_LIMIT = 24  # pages in all: a site-wide cause costs a few pages, not the whole site
+
+
+def verification_pages(problems) -> list:
+    """The pages of each problem's examples (a cause fixed there is fixed everywhere the
+    same declarations meet), in problem order, bounded."""
+    pages: dict = {}
+    for problem in problems:
+        if getattr(problem, "override", None) is None:
+            continue
+        if any(f.sample.page in pages for f in problem.example_pool()):
+            continue  # already checked on a page chosen for an earlier problem
+        mine = []
+        for f in problem.example_pool():
+            if f.sample.page not in mine:
+                mine.append(f.sample.page)
+            if len(mine) == VERIFY_PAGES:
+                break
+        for page in mine:
+            pages.setdefault(page, None)
+    return list(pages)[:VERIFY_LIMIT]
+
+
+def write_fixes(path: str, problems, project=None) -> tuple:
+    """Write every verified override into one stylesheet; returns (count written, how to add
+    it to mkdocs.yml)."""
+    chosen = [p.override for p in problems
+              if getattr(p, "override", None) is not None and p.override.verified]
+    css = overrides_mod.combined_css(chosen)
+    header = ("/* Colour fixes suggested by tinctura and verified by checking the site again with\n"
+              "   them applied. Automated checks cover only part of WCAG: review the result. */\n\n")
+    with open(path, "w", encoding="utf-8") as fh:
+        fh.write(header + css)
+    return len(chosen), how_to_add(path, project)
+
+
+def how_to_add(path: str, project=None) -> str:
+    name = os.path.basename(path)
+    target = f"stylesheets/{name}"
+    if project is not None and project.docs_dir:
+        absolute = os.path.abspath(path)
+        if absolute.startswith(project.docs_dir + os.sep):
+            target = os.path.relpath(absolute, project.docs_dir).replace(os.sep, "/")
+        where = f"{project.docs_path(target)}"
+        if target in project.extra_css:
+            return f"{where} is listed in extra_css already: build the site again to apply it."
+    else:
+        where = f"docs/{target}"
+    return (f"Copy it to {where} (if it is not there yet) and list it last under extra_css in "
+            f"mkdocs.yml:\n  extra_css:\n    - {target}")

@@ -1,0 +1,71 @@
+"""Suggestions keep the pair's polarity and the hue, and stay near the original.
+
+Ratios with the WCAG 2.2 formulas written out in tests/wcag_reference.py (W3C); hues and
+CAM02-UCS distances with colour-science (general-purpose reference library).
+"""
+import math
+import warnings
+
+import pytest
+
+from tinctura.colour import suggest
+from tinctura.colour.convert import to_hex
+from wcag_reference import luminance, ratio
+
+
+def rgb(hex_):
+    return tuple(int(hex_[i:i + 2], 16) / 255 for i in (1, 3, 5))
+
+
+def test_grey_text_on_white_gets_darker_text_never_a_black_background():
+    fg, bg = rgb("#777777"), rgb("#ffffff")
+    assert suggest.background(fg, bg, 4.5) is None  # nothing lighter than white
+    found, got = suggest.foreground(fg, bg, 4.5)
+    assert to_hex(found) != "#060606"
+    assert ratio(to_hex(found), "#ffffff") >= 4.5
+    assert luminance(to_hex(found)) < luminance("#777777")
+    assert got == pytest.approx(ratio(to_hex(found), "#ffffff"), abs=1e-9)
+
+
+@pytest.mark.parametrize("fg, bg, wanted", [
+    ("#ffffff", "#03a9f4", "darker"),   # white header text on a light blue bar
+    ("#2a4d7a", "#1b2330", None),       # text lighter than a dark panel: background darker fails
+    ("#333333", "#555555", "lighter"),  # dark text on a mid grey: the background gets lighter
+])
+def test_backgrounds_stay_on_their_side(fg, bg, wanted):
+    found = suggest.background(rgb(fg), rgb(bg), 4.5)
+    if wanted is None:
+        assert found is None
+        return
+    new = to_hex(found[0])
+    assert ratio(fg, new) >= 4.5
+    lighter = luminance(new) > luminance(bg)
+    assert lighter == (wanted == "lighter")
+    assert (luminance(new) > luminance(fg)) == (luminance(bg) > luminance(fg))
+
+
+def test_hue_is_kept_and_the_distance_is_small():
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        import colour
+    start = rgb("#6fa8dc")
+    found, _ = suggest.foreground(start, rgb("#ffffff"), 4.5)
+
+    def hue(c):
+        lab = colour.convert(c, "sRGB", "Oklab")
+        return math.degrees(math.atan2(lab[2], lab[1])) % 360
+
+    assert abs(hue(found) - hue(start)) < 3  # degrees; 8-bit rounding moves it a little
+    # nearer in CAM02-UCS than the passing grey of the same lightness search
+    grey_start = (sum(start) / 3,) * 3
+    grey = suggest.foreground(grey_start, rgb("#ffffff"), 4.5)[0]
+    assert suggest.cam02ucs_distance(start, found) < suggest.cam02ucs_distance(start, grey)
+
+
+def test_several_backgrounds_need_one_interval():
+    # text lighter than a dark page and darker than a light row: no colour serves both sides
+    dark, light = rgb("#1e2129"), rgb("#f0f3f7")
+    sides = (suggest.LIGHTER, suggest.DARKER)
+    assert suggest.nearest_same_side(rgb("#e4e6ec"), (dark, light), 4.5, sides) is None
+    # on the dark page alone it can
+    assert suggest.nearest_same_side(rgb("#3d4250"), (dark,), 4.5) is not None

@@ -1,0 +1,38 @@
+"""Plain words: colour names and the one-sentence summary of a problem.
+
+Hue anchors: the sRGB primaries and secondaries (CSS Color 4 named colours red, orange, yellow,
+lime, cyan, blue, magenta); names of greys by lightness are common practice.
+"""
+import pytest
+
+from tinctura.engine import Options
+from tinctura.problems import group
+from tinctura.report import plain
+from tinctura.rules import run
+from tinctura.rules.examples import make_sample
+from tinctura.writer import Location
+
+
+def rgb(hex_):
+    return tuple(int(hex_[i:i + 2], 16) / 255 for i in (1, 3, 5))
+
+
+@pytest.mark.parametrize("hex_, name", [
+    ("#ff0000", "red"), ("#ffa500", "orange"), ("#00ff00", "light green"),
+    ("#0000ff", "blue"), ("#2a4d7a", "dark blue"), ("#ffffff", "white"), ("#000000", "black"),
+    ("#777777", "grey"), ("#d0d0d0", "light grey"), ("#333333", "dark grey"),
+    ("#8b4513", "brown"),
+])
+def test_colour_names(hex_, name):
+    assert plain.colour_name(rgb(hex_)) == name
+
+
+def test_sentence_names_the_place_the_state_and_the_schemes():
+    samples = [make_sample("#777777", "#ffffff", state="hover", scheme=scheme)
+               for scheme in ("day", "night")]
+    (problem,) = group(run(samples, Options()))
+    where = Location("div.admonition.warning > p", None,
+                     (("p", (), ""), ("div", ("admonition", "warning"), "")))
+    assert plain.sentence(problem, where, True) == (
+        "Grey text on white in warning boxes is too faint when hovered: 4.47:1, needs 4.5:1, "
+        "in 2 schemes (day 4.47:1, night 4.47:1).")

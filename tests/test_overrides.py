@@ -1,0 +1,184 @@
+"""Fixes as CSS overrides: which stylesheets are the writer's, how a rule is scoped to a colour
+scheme, how the rules are written and merged; readable locators.
+
+Selector and cascade facts used here (CSS Cascade 5, Selectors 4): an attribute selector adds
+specificity (0,1,0), so a scoped override beats the rule it overrides at equal order; a custom
+property declared on an element is inherited by its descendants.
+"""
+import pytest
+from lxml import etree
+
+from tinctura.locator import readable, selector
+from tinctura.mkdocs_project import Project, owned
+from tinctura.model import Cause, Declaration, Scheme
+from tinctura.engine import Options
+from tinctura.overrides import Planner, Rule, Scope, combined_css, inject, Override
+from tinctura.problems import group
+from tinctura.rules import run
+from tinctura.rules.examples import make_sample
+
+DAY = Scheme("default", (("prefers-color-scheme", "light"),),
+             (("body", "data-md-color-scheme", "default"),), "palette")
+NIGHT = Scheme("slate", (("prefers-color-scheme", "dark"),),
+               (("body", "data-md-color-scheme", "slate"),), "palette")
+LIGHT = Scheme("light", (("prefers-color-scheme", "light"),), (), "media")
+DARK = Scheme("dark", (("prefers-color-scheme", "dark"),), (), "media")
+
+
+@pytest.mark.parametrize("sheet, mine", [
+    ("stylesheets/extra.css", True),
+    ("assets/stylesheets/main.57a0d79d.min.css", False),  # hashed and minified: the theme's
+    ("css/site.3f9a2c1b.css", False),
+    ("vendor/grid.min.css", False),
+    ("assets/stylesheets/custom.css", False),  # mkdocs-material's asset folder
+    ("docs.html <style> #1", False),
+    ("style attribute", False),
+])
+def test_which_stylesheets_the_writer_owns_without_a_project(sheet, mine):
+    assert owned(sheet) is mine
+
+
+def test_with_a_project_extra_css_and_docs_files_are_the_writers():
+    project = Project(extra_css=["stylesheets/extra.css"], static={"css/local.css"})
+    assert owned("stylesheets/extra.css", project) and owned("css/local.css", project)
+    assert not owned("assets/stylesheets/palette.fb2fffe2.min.css", project)
+
+
+@pytest.mark.parametrize("scheme, declared, expected", [
+    (NIGHT, ".tw-note", '[data-md-color-scheme="slate"] .tw-note'),
+    (NIGHT, "[data-md-color-scheme=slate]", "[data-md-color-scheme=slate]"),  # the theme's own
+    (NIGHT, ":root", '[data-md-color-scheme="slate"]'),  # above <body>: on <body> instead
+    (NIGHT, "body", 'body[data-md-color-scheme="slate"]'),
+    (NIGHT, "body > .x", 'body[data-md-color-scheme="slate"] > .x'),
+    (DARK, ".tw-note", ".tw-note"),  # media-only schemes are scoped by @media
+])
+def test_scoped_selectors(scheme, declared, expected):
+    other = DAY if scheme is NIGHT else LIGHT
+    planner = Planner([other, scheme])
+    assert planner.scoped(planner.scope(scheme.name), declared) == expected
+
+
+def test_a_media_scheme_gives_a_media_block():
+    planner = Planner([LIGHT, DARK])
+    scope = planner.scope("dark")
+    assert scope == Scope(media="(prefers-color-scheme: dark)")
+    rule = Rule(".tw-note", (("color", "#828897", False),), scope.media)
+    assert rule.css() == ("@media (prefers-color-scheme: dark) {\n  .tw-note {\n"
+                          "    color: #828897;\n  }\n}\n")
+
+
+def test_one_site_scheme_needs_no_scope():
+    assert Planner([DAY]).scope("default") == Scope()
+
+
+def decl(prop, value, line, selector, sheet="assets/stylesheets/main.1a2b3c4d.min.css"):
+    return Declaration(prop, value, sheet, line, selector, "author")
+
+
+def test_theme_variable_is_overridden_in_the_last_own_stylesheet_for_the_failing_scheme():
+    # the theme's body text variable, used on a light page in one scheme and a dark page in
+    # the other: the fix sets the variable for the failing scheme only, in the site's sheet
+    ink = Cause(decl("color", "var(--ink)", 1, ".md-typeset"),
+                chain=(decl("--ink", "#8a8a8a", 2, ":root"),))
+    paper = Cause(decl("background-color", "#ffffff", 3, "body"))
+    night = Cause(decl("background-color", "#111111", 4, "body"))
+    samples = [make_sample("#8a8a8a", "#ffffff", fg_cause=ink, bg_cause=paper, scheme="default"),
+               make_sample("#8a8a8a", "#111111", fg_cause=ink, bg_cause=night, scheme="slate")]
+    (problem,) = group(run(samples, Options(rules=("TC100",))), samples)
+    planner = Planner([DAY, NIGHT], None, ["assets/stylesheets/main.1a2b3c4d.min.css",
+                                           "stylesheets/extra.css", "stylesheets/site.css"])
+    override = planner.plan(problem)
+    assert override.file == "stylesheets/site.css"  # the last of the site's own sheets
+    assert override.schemes == ("default",)
+    # #8a8a8a on #111111 passes (6.0:1) and stays; on white it becomes #767676 (4.54:1 by the
+    # WCAG 2.2 formula)
+    assert override.css() == '[data-md-color-scheme="default"] {\n  --ink: #767676;\n}\n'
+
+
+def test_combined_css_sets_a_property_once_per_selector():
+    a = Override("x.css", [Rule(".a", (("color", "#111111", False),))])
+    b = Override("x.css", [Rule(".a", (("color", "#222222", False), ("--k", "#333333", False)))])
+    css = combined_css([a, None, b])
+    assert css.count("color:") == 1 and "#111111" in css and "--k: #333333" in css
+
+
+def test_injected_style_is_the_last_stylesheet():
+    html = "<html><head><link rel=stylesheet href=a.css></head><body><p>x</p></body></html>"
+    out = inject(html, ".a { color: red; }")
+    assert out.index("<style") > out.index("<p>") and out.endswith("</body></html>")
+
+
+def test_readable_locator_and_selector():
+    root = etree.fromstring(
+        '<html><body><div class="admonition warning"><p>Keep <em>clear</em></p></div>'
+        '<main><section><div><p>deep</p></div></section></main></body></html>')
+    em = root.find(".//em")
+    assert readable(em) == "div.admonition.warning > p > em"
+    assert selector(em) == "div.admonition.warning > p > em"
+    deep = root.find(".//main//p")
+    assert readable(deep) == "body > \u2026 > section > div > p"
+    assert selector(deep) == "body > main > section > div > p"
+    two = etree.fromstring('<html><body><div class="tw-panel"><p>a</p><p>b <span>c</span></p>'
+                           '</div></body></html>')
+    assert selector(two.find(".//span")) == "div.tw-panel > p:nth-of-type(2) > span"
+
+
+def test_one_rule_fixing_several_problems_says_so():
+    from tinctura.overrides import plan_all
+
+    class Fixed:  # a planner returning prepared overrides
+        def __init__(self, overrides):
+            self.overrides = iter(overrides)
+
+        def plan(self, problem, element_selector=None, opacity_of=None):
+            return next(self.overrides)
+
+    same = Rule('[data-md-color-primary="light-blue"]', (("--md-primary-fg-color", "#007db8", False),))
+    other = Rule(".a", (("color", "#111111", False),))
+    planned = plan_all([1, 2, 3], Fixed([Override("x.css", [same]), Override("x.css", [other]),
+                                          Override("x.css", [same, other])]))
+    assert [o.shared_with for o in planned] == [(3,), (3,), (1, 2)]
+
+
+def test_text_faded_by_an_ancestors_opacity_gets_no_colour_override():
+    from dataclasses import replace
+
+    from tinctura.overrides import faded
+
+    translucent = run([make_sample("rgba(0, 0, 0, 0.4)", "#ffffff")], Options())[0]
+    assert not faded(translucent)  # its colour over white is exactly what is seen
+    # #000000de text in a parent at opacity 0.45 over white: seen as #9b9b9b (CSS Color 4
+    # compositing, by hand: 255 * (1 - 0.45 * 0.8706) = 155)
+    sample = replace(make_sample("#9b9b9b", "#ffffff"), fg_raw=(0.0, 0.0, 0.0, 0.8706))
+    (finding,) = run([sample], Options())
+    assert faded(finding)
+    (problem,) = group([finding], [sample])
+    assert Planner([DAY]).plan(problem) is None
+
+
+def test_equal_causes_from_another_run_give_the_same_override():
+    # target_declaration is cached by value: a second run's equal (not identical) cause must
+    # not make the variable look like an alias of itself
+    def plan():
+        ink = Cause(decl("color", "var(--ink)", 1, ".note", "stylesheets/site.css"),
+                    chain=(decl("--ink", "#a0a0a0", 2, ":root", "stylesheets/site.css"),))
+        samples = [make_sample("#a0a0a0", "#ffffff", fg_cause=ink, scheme="default")]
+        (problem,) = group(run(samples, Options(rules=("TC100",))), samples)
+        return Planner([DAY, NIGHT]).plan(problem).css()
+
+    first = plan()
+    assert plan() == first and first.count("--ink:") == 1
+
+
+def test_how_to_add_the_written_file(tmp_path):
+    from tinctura.writer import how_to_add
+
+    docs = tmp_path / "docs"
+    project = Project(config_file=str(tmp_path / "mkdocs.yml"), docs_dir=str(docs),
+                      extra_css=["stylesheets/extra.css"])
+    fresh = how_to_add(str(docs / "stylesheets" / "colour-fixes.css"), project)
+    assert fresh.endswith("extra_css:\n    - stylesheets/colour-fixes.css")
+    assert "docs/stylesheets/colour-fixes.css" in fresh
+    project.extra_css.append("stylesheets/colour-fixes.css")
+    again = how_to_add(str(docs / "stylesheets" / "colour-fixes.css"), project)
+    assert again.startswith("docs/stylesheets/colour-fixes.css is listed in extra_css already")

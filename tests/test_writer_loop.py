@@ -1,0 +1,165 @@
+"""The writer's loop end to end: fixes as CSS in the site's own stylesheet, applied and checked
+again; findings mapped to Markdown lines and theme templates.
+
+The sites are built with MkDocs and mkdocs-material (general-purpose tools); the contrast
+ratios that decide pass or fail come from the engine's WCAG 2 formula, which
+tests/colour/test_wcag.py checks against W3C's definitions. What is asserted here is that the
+written CSS, added to the site the way a writer would add it, makes the same check pass.
+"""
+import io
+import json
+import os
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from tinctura.cli import main
+
+HERE = Path(__file__).resolve().parent
+EXAMPLE = HERE.parent / "example_site"
+sys.path.insert(0, str(HERE / "browser"))
+from example_build import build_example_site  # noqa: E402
+
+ENV = dict(os.environ, NO_MKDOCS_2_WARNING="1")
+
+
+def call(*argv):
+    out, err = io.StringIO(), io.StringIO()
+    status = main([str(a) for a in argv], stdout=out, stderr=err)
+    return status, out.getvalue(), err.getvalue()
+
+
+def mkdocs_build(config: Path, dest: Path) -> Path:
+    subprocess.run([sys.executable, "-m", "mkdocs", "build", "-q", "-f", str(config), "-d",
+                    str(dest)], check=True, env=ENV, cwd=config.parent)
+    return dest
+
+
+def json_report(site, config, *more):
+    status, out, err = call("check", site, "--config", config, "--format", "json",
+                            "--flat-findings", *more)
+    assert status in (0, 1), err
+    return json.loads(out), err
+
+
+def add_stylesheet(config: Path, docs: Path, fixes: Path) -> None:
+    """What the writer is told to do: copy the file into docs, list it last in extra_css."""
+    (docs / "stylesheets").mkdir(parents=True, exist_ok=True)
+    shutil.copy(fixes, docs / "stylesheets" / fixes.name)
+    lines = config.read_text(encoding="utf-8").splitlines()
+    at = max(i for i, line in enumerate(lines) if line.strip().startswith("- stylesheets/"))
+    lines.insert(at + 1, f"  - stylesheets/{fixes.name}")
+    config.write_text("\n".join(lines) + "\n", encoding="utf-8")
+
+
+# -- the example site ------------------------------------------------------------------------
+
+
+@pytest.fixture(scope="module")
+def example(tmp_path_factory):
+    """The example site copied (docs and config), built without the plugin."""
+    root = tmp_path_factory.mktemp("example")
+    shutil.copytree(EXAMPLE / "docs", root / "docs")
+    config_dir = tmp_path_factory.mktemp("cfg")
+    site = build_example_site(root / "site", config_dir)
+    config = config_dir / "mkdocs-example.yml"
+    text = config.read_text(encoding="utf-8").replace(str(EXAMPLE / "docs"), str(root / "docs"))
+    config.write_text(text, encoding="utf-8")
+    return root, config, site
+
+
+@pytest.mark.slow
+def test_json_fixes_name_only_the_sites_own_stylesheets(example):
+    root, config, site = example
+    doc, _ = json_report(site, config)
+    contrast = [p for p in doc["problems"] if p["rule"] == "TC100"]  # text-contrast problems
+    fixes = [p["fix"] for p in contrast if p["fix"]]
+    assert len(fixes) == len(contrast)
+    faded = [p for p in doc["problems"] if "faded by an element's opacity" in p["sentence"]]
+    assert faded and all("opacity: " in p["fix"]["css"] for p in faded)
+    listed = [line.strip()[2:] for line in config.read_text().splitlines()
+              if line.strip().startswith("- stylesheets/")]  # the site's extra_css
+    own = {str(Path(os.path.relpath(root / "docs", config.parent)) / name) for name in listed}
+    assert {f["file"] for f in fixes} <= own
+    assert not any("assets/" in f["file"] or ".min." in f["file"] for f in fixes)
+    # scoped to the scheme it must apply in (mkdocs-material's attribute on <body>)
+    striped = next(p for p in doc["problems"]
+                   if doc["findings"][p["findings"][0]]["text"].startswith("Fault in the dark scheme: ferry"))
+    assert striped["fix"]["css"].startswith('[data-md-color-scheme="slate"] ')
+
+
+@pytest.mark.slow
+def test_findings_point_at_markdown_lines(example):
+    root, config, site = example
+    doc, _ = json_report(site, config)
+    places = [p["where"] for p in doc["problems"] if p["rule"] == "TC100"]
+    exact = [w for w in places if w["source"] and w["source"]["file"] and not w["source"]["near"]]
+    assert len(exact) >= len(places) - 2
+    for w in exact:
+        path = (config.parent / w["source"]["file"]).resolve()
+        line = path.read_text(encoding="utf-8").splitlines()[w["source"]["line"] - 1]
+        first_words = " ".join(w["text"].split()[:3]).rstrip(":")
+        assert first_words in line, (w["text"], line)
+    assert all(w["locator"] and not w["locator"].startswith("/html") for w in places)
+
+
+@pytest.mark.slow
+def test_written_fixes_make_the_check_pass(example, tmp_path):
+    root, config, site = example
+    fixes = tmp_path / "colour-fixes.css"
+    doc, err = json_report(site, config, "--write-fixes", fixes)
+    assert "list it last under extra_css in mkdocs.yml" in err
+    unverified = {p["sentence"] for p in doc["problems"] if p["rule"] == "TC100"
+                  and not (p["fix"] and p["fix"]["verified"])}
+    add_stylesheet(config, root / "docs", fixes)
+    rebuilt = mkdocs_build(config, tmp_path / "site")
+    after, _ = json_report(rebuilt, config)
+    # every problem had a verified fix (text faded by an ancestor's opacity: the opacity is
+    # raised), so none is left
+    assert unverified == set()
+    # no text-contrast problem is left (appearance risks, TC300/TC310, are for review: no
+    # colour override is suggested for them)
+    assert [p for p in after["problems"] if p["rule"] == "TC100"] == []
+    assert after["summary"]["by_rule"].get("TC100", 0) == 0
+
+
+# -- a theme colour: the primary colour fails with the header text --------------------------
+
+PRIMARY = """\
+site_name: Brindlemoor Ferry Timetable
+theme:
+  name: material
+  font: false
+  palette:
+    scheme: default
+    primary: light blue
+extra_css:
+  - stylesheets/extra.css
+"""
+
+
+@pytest.mark.slow
+def test_theme_primary_colour_is_fixed_by_an_override(tmp_path):
+    docs = tmp_path / "docs"
+    (docs / "stylesheets").mkdir(parents=True)
+    (docs / "index.md").write_text("# Crossings\n\nThe first boat leaves at six.\n")
+    (docs / "stylesheets" / "extra.css").write_text(".md-typeset p { margin: 0 0 1em; }\n")
+    config = tmp_path / "mkdocs.yml"
+    config.write_text(PRIMARY)
+    site = mkdocs_build(config, tmp_path / "site")
+    fixes = tmp_path / "fixes.css"
+    doc, _ = json_report(site, config, "--write-fixes", fixes)
+    header = [p for p in doc["problems"] if p["rule"] == "TC100"
+              and p["sentence"].startswith("White text on blue in the site header")]
+    assert header and header[0]["sentence"].startswith("White text on blue in the site header")
+    assert header[0]["where"]["source"]["template"] == "partials/header.html"
+    # the theme's minified palette is never the place: the site's own stylesheet is
+    assert header[0]["fix"]["file"] == "docs/stylesheets/extra.css"
+    assert "--md-primary-fg-color:" in header[0]["fix"]["css"]  # the primary colour itself
+    assert "--md-primary-fg-color:" in fixes.read_text()
+    add_stylesheet(config, docs, fixes)
+    after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config)
+    assert [p for p in after["problems"] if p["rule"] == "TC100"] == []
