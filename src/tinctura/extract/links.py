@@ -17,7 +17,7 @@ import unicodedata
 
 from ..model import LinkCues
 from .sheet import STATE_ATTR, parse_declarations, split_declarations
-from .style import cascade
+from .style import cascade, latest_winner
 
 RUNNING = "data-tinctura-running"
 # Elements that flow inside a line of text; any other element starts or is a block.
@@ -97,15 +97,6 @@ def _has_words(text: str) -> bool:
     return any(unicodedata.category(c)[0] in "LN" for c in text)
 
 
-def _latest(winners, names):
-    best = None
-    for name in names:
-        w = winners.get(name)
-        if w is not None and (best is None or w.key > best.key):
-            best = w
-    return best
-
-
 def _line(text: str) -> bool:
     words = text.lower().replace(",", " ").split()
     if not LINE_STYLES & set(words) and not ("auto" in words and len(words) <= 3):
@@ -117,17 +108,17 @@ def cues(winners) -> frozenset:
     """Non-colour cues an element's own declarations draw: underline (any text decoration
     line), border, box shadow, outline, italic."""
     found = set()
-    w = _latest(winners, ("text-decoration", "text-decoration-line"))
+    w = latest_winner(winners, ("text-decoration", "text-decoration-line"))
     if w is not None and {"underline", "overline", "line-through"} & \
             set(w.decl.text.lower().split()):
         found.add("underline")
-    w = _latest(winners, BORDERS)
+    w = latest_winner(winners, BORDERS)
     if w is not None and _line(w.decl.text):
         found.add("border")
     w = winners.get("box-shadow")
     if w is not None and w.decl.text.strip().lower() not in ("none", "initial", "unset"):
         found.add("shadow")
-    w = _latest(winners, ("outline", "outline-style"))
+    w = latest_winner(winners, ("outline", "outline-style"))
     if w is not None and _line(w.decl.text):
         found.add("outline")
     w = winners.get("font-style")
@@ -137,7 +128,7 @@ def cues(winners) -> frozenset:
 
 
 def _outline_removed(winners) -> bool:
-    w = _latest(winners, ("outline", "outline-style", "outline-width"))
+    w = latest_winner(winners, ("outline", "outline-style", "outline-width"))
     if w is None:
         return False
     words = set(w.decl.text.lower().split())

@@ -26,7 +26,7 @@ from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Sample
 from . import exempt as exempt_mod
 from .sheet import STATE_ATTR, split_declarations
-from .style import cascade
+from .style import cascade, latest_winner
 from .values import significant
 
 KINDS = frozenset({"boundary", "focus-ring", "svg-icon"})
@@ -86,19 +86,10 @@ def _winners(walker, el, states=()):
             del el.attrib[attr]
 
 
-def _latest(winners, names):
-    best = None
-    for name in names:
-        w = winners.get(name)
-        if w is not None and (best is None or w.key > best.key):
-            best = w
-    return best
-
-
 def _line(winners, shorthand, colour_names, current, scheme):
     """(colour, whether drawn, the declaration's Cause) of a border or outline, or None."""
-    w = _latest(winners, shorthand)
-    c = _latest(winners, colour_names)
+    w = latest_winner(winners, shorthand)
+    c = latest_winner(winners, colour_names)
     if w is None and c is None:
         return None
     colour, drawn, cause = current, False, Cause()

@@ -120,6 +120,17 @@ def cascade(rules, inline_decls, ruleset, pseudo=None) -> dict:
     return winners
 
 
+def latest_winner(winners: dict, names) -> "Winner | None":
+    """Of the winners for ``names`` (a shorthand and its longhands), the one that comes last in
+    cascade order: it decides what the element shows."""
+    best = None
+    for name in names:
+        w = winners.get(name)
+        if w is not None and (best is None or w.key > best.key):
+            best = w
+    return best
+
+
 def _offer(winners, d, rule, origin, key):
     for name in SHORTHANDS.get(d.name, (d.name,)):
         _offer_one(winners, name, d, rule, origin, key)
