@@ -43,6 +43,12 @@ def test_baseline_and_suppression_on_the_example_site(tmp_path):
     assert results and all(r["partialFingerprints"]["tinctura/v1"] for r in results)
     assert {r["locations"][0]["physicalLocation"]["artifactLocation"]["uri"]
             for r in results} >= {"docs/faults/text.md", "docs/faults/schemes.md"}
+    # the planted fault points at its line in the Markdown (found in the file itself)
+    line = next(n for n, text in enumerate(text_md.read_text().splitlines(), 1) if FAINT in text)
+    faint = [r["locations"][0]["physicalLocation"] for r in results
+             if FAINT[:30] in r["message"]["text"] and r["ruleId"] == "TC100"]
+    assert faint and all(p["artifactLocation"]["uri"] == "docs/faults/text.md"
+                         and p["region"]["startLine"] == line for p in faint)
 
     # a paragraph added above the faults, and two pages swapped in the navigation
     text_md.write_text(text_md.read_text().replace(

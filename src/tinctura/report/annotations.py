@@ -13,7 +13,7 @@ from __future__ import annotations
 import re
 
 from . import messages as m
-from .base import Formatter
+from .base import Formatter, markdown_source
 from .outputs import active
 
 COMMAND = {"error": "error", "warning": "warning", "info": "notice"}
@@ -55,7 +55,7 @@ class AnnotationsFormatter(Formatter):
         path, line = s.page, s.line
         if callable(self.header.uri):
             path = self.header.uri(s.page)
-        source = self.header.source(s.page, s.line) if callable(self.header.source) else None
+        source = markdown_source(self.header, s)
         if source:
             path, line = source
         state = "" if s.state == "rest" else f", :{s.state}"

@@ -73,6 +73,20 @@ class Formatter:
         pass
 
 
+def markdown_source(header, sample):
+    """(Markdown path, line or 0) a result should point at, or None (then the built page): the
+    line the source map finds for the sample's text when the run has one (``header.locate``),
+    else the page's Markdown file (``header.source``)."""
+    if not callable(getattr(header, "source", None)):
+        return None
+    if callable(getattr(header, "locate", None)):
+        found = header.locate(sample)
+        src = getattr(found, "source", None)
+        if src is not None and src.file:
+            return src.file, src.line
+    return header.source(sample.page, sample.line)
+
+
 def findings_by_page(findings) -> dict:
     out: dict = {}
     for f in findings:  # site-level findings (they compare pages) under the whole site

@@ -17,7 +17,7 @@ from tinctura import fingerprint as fp_mod
 from tinctura import rules
 
 from . import messages as m
-from .base import Formatter
+from .base import Formatter, markdown_source
 from .notice import DISCLAIMER
 
 SCHEMA = "https://json.schemastore.org/sarif-2.1.0.json"
@@ -91,7 +91,7 @@ class SarifFormatter(Formatter):
         built = self._location(s.page, s.line)
         if s.text and "region" in built:
             built["region"]["snippet"] = {"text": m.excerpt(s.text, 200)}
-        source = self.header.source(s.page, s.line) if callable(self.header.source) else None
+        source = markdown_source(self.header, s)
         if source:
             path, line = source
             primary = {"artifactLocation": {"uri": uri(path)}}
