@@ -137,8 +137,8 @@ class Planner:
         the colour comes from a style attribute or from no declaration at all);
         ``opacity_of(finding)`` the ``(declaration, value)`` of the opacities that fade it,
         nearest first (then the fix raises the nearest one)."""
-        if "contexts" in problem.worst.args and "delta" in problem.worst.args:
-            return None  # a site-level appearance finding: no single colour pair to fix
+        if problem.rule not in OVERRIDE_RULES:
+            return None  # advice (appearance rules): the colour suggested at the cause only
         if faded(problem.worst):
             return self._opacity(problem, opacity_of) if opacity_of is not None else None
         fix = problem.fix_at_cause
@@ -334,6 +334,12 @@ def _first_compound(selector: str):
     return selector[:i], selector[i:]
 
 
+# The rules whose problems get a CSS override: the WCAG 2 text ratio. The appearance rules are
+# advice (their problems keep a suggested colour at the cause); overrides for them would compete
+# with the text-ratio overrides for the same properties.
+OVERRIDE_RULES = frozenset({"TC100"})
+
+
 def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None) -> list:
     """One Override (or None) per problem, in the problems' order; overrides that set the same
     property on the same selector name each other (one rule fixes several problems)."""
@@ -414,7 +420,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
             for cause in (f.sample.fg_cause, f.sample.bg_cause):
                 for d in _declarations(cause):
                     if "<style>" in d.sheet and d.line and _injected(d, css):
-                        bad.add((_normal(d.selector), d.property))
+                        bad.add((_normal(d.selector), d.property, f.rule, f.severity))
     counts = {"pages": len(pages), "remaining": remaining}
     if cache is not None:
         cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
@@ -458,7 +464,11 @@ def _mark(problems, overrides, remaining_keys, bad) -> None:
         if override is None:
             continue
         mine = {(_normal(r.selector), d[0]) for r in override.rules for d in r.declarations}
-        override.verified = problem_key(problem.worst) not in remaining_keys and not (mine & bad)
+        # an override undoes itself when it causes a finding of its own rule, or an error
+        caused = {(sel, prop) for sel, prop, rule, severity in bad
+                  if rule == problem.rule or severity == "error"}
+        override.verified = problem_key(problem.worst) not in remaining_keys and \
+            not (mine & caused)
 
 
 def _declarations(cause):
