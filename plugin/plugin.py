@@ -24,6 +24,7 @@ from tinctura.report.base import Header
 from tinctura.report.appearance import is_appearance
 from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
+from tinctura.report.scope import scope_of
 from tinctura.report.status import failing
 from tinctura.report.summary import summarise
 from tinctura.report.text_report import problem_lines, summary_line, terminal_width, wrapped
@@ -244,7 +245,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
         header = Header(level=self.config.level, schemes=schemes, fail_on=self.config.fail_on,
                         rules=self.options.rules, source=self.source_of, uri=self.built_uri,
-                        gone=gate.gone(), version=plugin_version(), locate=aid)
+                        gone=gate.gone(), version=plugin_version(), locate=aid,
+                        scope=scope_of([self.site_dir], self.options))
         self.write_reports(header, pages, every, found, gate_notes, gate.counts)
         summary = summarise(pages, findings, found, (), schemes)
         total = summary_line(summary, header)

@@ -35,8 +35,11 @@ def test_baseline_and_suppression_on_the_example_site(tmp_path):
     gate = ("      jobs: 1\n      baseline: ci/base.json\n"
             "      report: [sarif:ci/r.sarif, json:ci/r.json]\n")
     done = build(tmp_path, "      fail_on: never\n      jobs: 1\n"
-                           "      report: [baseline:ci/base.json, sarif:ci/r.sarif]\n")
+                           "      report: [baseline:ci/base.json, sarif:ci/r.sarif, html:ci/r.html]\n")
     assert done.returncode == 0, done.stderr
+    # the plugin's audit report records how the run was made: the site and its title
+    audit = (tmp_path / "ci" / "r.html").read_text()
+    assert 'id="scope"' in audit and "Tidewell" in audit and "not recorded" not in audit
     sarif = json.loads((tmp_path / "ci" / "r.sarif").read_text())
     jsonschema.validate(sarif, json.loads(SARIF_SCHEMA.read_text()))
     results = sarif["runs"][0]["results"]

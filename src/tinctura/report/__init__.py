@@ -49,5 +49,5 @@ def render(stream, fmt: str, header: Header, pages, findings, problems, diagnost
     return summary
 
 
-FORMATS["html"] = HtmlFormatter  # the audit report
-FORMATS["csv"] = CsvFormatter  # one row per finding, for spreadsheets
+register("html", HtmlFormatter)  # the audit report
+register("csv", CsvFormatter)  # one row per finding, for spreadsheets
