@@ -67,6 +67,19 @@ def fix_dict(fix) -> dict:
     return {"target": fix.target, "colour": m.colour(fix.colour), "ratio": float(fix.ratio)}
 
 
+def verdict_dict(f, fg, bg) -> dict:
+    """What a rule said of a finding's colours: shared by a finding and a situation."""
+    return {
+        "fg": m.colour(fg),
+        "bg": m.colour(bg),
+        "ratio": float(f.ratio),
+        "required": float(f.required),
+        "level": f.level,
+        "message": m.message(f),
+        "fix": [fix_dict(x) for x in f.fixes],
+    }
+
+
 def finding_dict(f) -> dict:
     out = _finding_dict(f)
     if appearance.is_appearance(f):  # site-level rules: the palette entries and contexts
@@ -87,13 +100,7 @@ def _finding_dict(f) -> dict:
         "xpath": s.xpath,
         "line": s.line,
         "text": m.excerpt(s.text, 200),
-        "fg": m.colour(fg),
-        "bg": m.colour(bg),
-        "ratio": float(f.ratio),
-        "required": float(f.required),
-        "level": f.level,
-        "message": m.message(f),
-        "fix": [fix_dict(x) for x in f.fixes],
+        **verdict_dict(f, fg, bg),
         "fg_cause": cause_dict(s.fg_cause),
         "bg_cause": cause_dict(s.bg_cause),
         **gate_dict(f),
@@ -122,13 +129,7 @@ def situation_dict(f, problem: int | None, occurrences: int) -> dict:
         "severity": f.severity,
         "scheme": s.scheme,
         "state": s.state,
-        "fg": m.colour(fg),
-        "bg": m.colour(bg),
-        "ratio": float(f.ratio),
-        "required": float(f.required),
-        "level": f.level,
-        "message": m.message(f),
-        "fix": [fix_dict(x) for x in f.fixes],
+        **verdict_dict(f, fg, bg),
         "fg_cause": fg_cause,
         "bg_cause": cause_dict(s.bg_cause),
         "occurrences": occurrences,
