@@ -133,9 +133,9 @@ def apply(root, behaviours=BUILTIN) -> list:
     for b in behaviours:
         if b.script and not any(b.script in src.split("?")[0] for src in scripts):
             continue
-        if b.marker and not _select(root, b.marker):
+        if b.marker and not select(root, b.marker):
             continue
-        targets = _select(root, b.selector)
+        targets = select(root, b.selector)
         for el in targets:
             _ACT[b.action](el, b.value)
         if b.theme not in applied:
@@ -203,10 +203,10 @@ _ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wra
         "wrap-children": _wrap_children}
 
 
-def _select(root, selector: str) -> list:
-    """Elements matching ``selector``. Runs on every page: the selector is translated to XPath
-    once (cssselect) and evaluated by libxml2; a walk of cssselect2 wrappers cost several
-    milliseconds on a page with a large navigation."""
+def select(root, selector: str) -> list:
+    """Elements matching ``selector`` (theme behaviours, scheme attributes). Runs on every
+    page: the selector is translated to XPath once (cssselect) and evaluated by libxml2; a walk
+    of cssselect2 wrappers cost several milliseconds on a page with a large navigation."""
     selector = selector.strip()
     if selector in ("html", ":root"):
         return [root]
@@ -214,6 +214,12 @@ def _select(root, selector: str) -> list:
         body = root.find("body")
         return [body] if body is not None else []
     return _compiled(selector)(root)
+
+
+def selector_check(selector: str) -> None:
+    """Raise when :func:`select` cannot read ``selector`` (settings are checked up front)."""
+    if selector.strip() not in ("html", ":root", "body"):
+        _compiled(selector.strip())
 
 
 @lru_cache(maxsize=256)

@@ -16,7 +16,7 @@ from __future__ import annotations
 import unicodedata
 
 from ..model import LinkCues
-from .sheet import STATE_ATTR, parse_declarations, split_declarations
+from .sheet import mark_states, parse_declarations, split_declarations, unmark_states
 from .style import cascade, latest_winner
 
 RUNNING = "data-tinctura-running"
@@ -181,15 +181,7 @@ def state_cues(walker, link, link_style, state) -> frozenset:
     got = cache.get(key)
     if got is not None:
         return got
-    marked = []
-    if state is not None:
-        on_self, on_path = STATE_CLASSES[state]
-        for el in [link] + list(link.iterancestors()):
-            for name in (on_self if el is link else on_path):
-                attr = STATE_ATTR + name
-                if el.get(attr) is None:
-                    el.set(attr, "")
-                    marked.append((el, attr))
+    marked = mark_states(link, *STATE_CLASSES[state]) if state is not None else []
     try:
         wrapper = walker.structure.wrapper_of(link)
         rules = [r for r in walker.index.cue_rules if r.pseudo is None and r.compiled.test(wrapper)]
@@ -197,8 +189,7 @@ def state_cues(walker, link, link_style, state) -> frozenset:
         decls = [d for d in split_declarations(inline)[1]] if inline else ()
         winners = cascade(rules, decls, walker.ruleset)
     finally:
-        for el, attr in marked:
-            del el.attrib[attr]
+        unmark_states(marked)
     found = set(cues(winners))
     if state == "focus" and not _outline_removed(winners):
         found.add("outline")
@@ -212,13 +203,7 @@ def _state_background(walker, link, link_style, state) -> set:
     """A background of the link's own that appears or changes with the state."""
     colours = walker.cache.cores.get(("link-bg", link_style, state))
     if colours is None:
-        marked = []
-        on_self, _ = STATE_CLASSES[state]
-        for name in on_self:
-            attr = STATE_ATTR + name
-            if link.get(attr) is None:
-                link.set(attr, "")
-                marked.append(attr)
+        marked = mark_states(link, STATE_CLASSES[state][0])
         try:
             rules = walker.index.match(walker.structure.wrapper_of(link))
             inline = link.get("style")
@@ -226,8 +211,7 @@ def _state_background(walker, link, link_style, state) -> set:
                               walker.ruleset)
             style = walker.resolver.compute(winners, link_style.parent, False)
         finally:
-            for attr in marked:
-                del link.attrib[attr]
+            unmark_states(marked)
         colours = walker.cache.cores[("link-bg", link_style, state)] = (style.bg,)
     bg = colours[0]
     return {"background"} if bg[3] > 0 and bg != link_style.bg else set()

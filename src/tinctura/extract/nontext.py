@@ -25,7 +25,7 @@ from __future__ import annotations
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Sample
 from . import exempt as exempt_mod
-from .sheet import STATE_ATTR, split_declarations
+from .sheet import mark_states, split_declarations, unmark_states
 from .style import cascade, latest_winner
 from .values import significant
 
@@ -70,20 +70,14 @@ def _append(walker, el, kind, text, fg, bg, surround, style, status=DETERMINED, 
 
 def _winners(walker, el, states=()):
     """Winning border and outline declarations of ``el`` (with ``states`` in force)."""
-    marked = []
-    for name in states:
-        attr = STATE_ATTR + name
-        if el.get(attr) is None:
-            el.set(attr, "")
-            marked.append(attr)
+    marked = mark_states(el, states)
     try:
         wrapper = walker.structure.wrapper_of(el)
         rules = [r for r in walker.index.cue_rules if r.pseudo is None and r.compiled.test(wrapper)]
         inline = el.get("style")
         return cascade(rules, split_declarations(inline)[1] if inline else (), walker.ruleset)
     finally:
-        for attr in marked:
-            del el.attrib[attr]
+        unmark_states(marked)
 
 
 def _line(winners, shorthand, colour_names, current, scheme):

@@ -22,7 +22,7 @@ from . import exempt as exempt_mod
 from . import fragments as frag_mod
 from . import links as link_mod
 from . import nontext as nontext_mod
-from .sheet import STATE_ATTR, parse_declarations
+from .sheet import mark_states, parse_declarations, unmark_states
 from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
 
@@ -320,13 +320,7 @@ class PageWalker:
         """Samples of ``target``'s subtree with a dynamic pseudo-class in force."""
         path = [target] + list(target.iterancestors())
         path.reverse()
-        marked = []
-        for el in path:
-            for name in (on_self if el is target else on_path):
-                attr = STATE_ATTR + name
-                if el.get(attr) is None:
-                    el.set(attr, "")
-                    marked.append((el, attr))
+        marked = mark_states(target, on_self, on_path)
         try:
             parent_style, parent_id, chain = ROOT_PARENT, 0, ()
             memo = self._path_memo
@@ -364,8 +358,7 @@ class PageWalker:
                 if rest.get((sample.xpath, sample.kind)) != (sample.fg, sample.bg):
                     self.samples.append(sample)
         finally:
-            for el, attr in marked:
-                del el.attrib[attr]
+            unmark_states(marked)
 
     def _skip(self, reason, el):
         if el.tag in ("head", "script", "style", "template", "title", "noscript"):

@@ -13,6 +13,7 @@ from __future__ import annotations
 import re
 
 from ..model import LIGHT, Scheme
+from .behaviours import select, selector_check
 
 _PREFERS = re.compile(r"prefers-color-scheme\s*:\s*(light|dark)", re.I)
 
@@ -116,7 +117,7 @@ def apply(root, scheme):
     """Set the scheme's attributes on the tree; returns a function that restores them."""
     saved = []
     for selector, attr, value in scheme.attributes:
-        targets = _select(root, selector)
+        targets = select(root, selector)
         for el in targets:
             saved.append((el, attr, el.get(attr)))
             el.set(attr, value)
@@ -130,21 +131,6 @@ def apply(root, scheme):
 
     restore.elements = [el for el, _, _ in saved]  # changed: their subtrees' fingerprints too
     return restore
-
-
-def _select(root, selector):
-    selector = selector.strip()
-    if selector in ("html", ":root"):
-        return [root]
-    if selector == "body":
-        body = root.find("body")
-        return [body] if body is not None else []
-    import cssselect2
-    import tinycss2
-
-    wrapper = cssselect2.ElementWrapper.from_html_root(root)
-    compiled = cssselect2.compile_selector_list(tinycss2.parse_component_value_list(selector))
-    return [w.etree_element for w in wrapper.iter_subtree() if any(c.test(w) for c in compiled)]
 
 
 def from_setting(entries) -> list:
@@ -180,6 +166,11 @@ def from_setting(entries) -> list:
                     not all(isinstance(v, str) for v in a.values()):
                 raise ValueError(f"{where} ({name}): each attribute needs selector, attribute "
                                  "and value (strings)")
+            try:
+                selector_check(a["selector"])
+            except Exception as exc:
+                raise ValueError(f"{where} ({name}): cannot read selector "
+                                 f"{a['selector']!r}: {exc}") from None
             attrs.append((a["selector"], a["attribute"], a["value"]))
         out.append(Scheme(name, tuple(sorted(media.items())), tuple(attrs), "setting"))
     return out

@@ -44,6 +44,25 @@ CUES = frozenset(
 # evaluate a state; in the resting state no element has them, so `:hover` never matches and
 # `:not(:hover)` does, as in a browser with no pointer over the page.
 STATE_ATTR = "data-tinctura-state-"
+
+
+def mark_states(target, on_self, on_path=()) -> list:
+    """Put dynamic pseudo-classes in force: the state attributes of ``on_self`` on ``target``
+    and of ``on_path`` on its ancestors. Returns what was set, for :func:`unmark_states`
+    (attributes already there are left alone)."""
+    marked = []
+    for el in [target] + (list(target.iterancestors()) if on_path else []):
+        for name in (on_self if el is target else on_path):
+            attr = STATE_ATTR + name
+            if el.get(attr) is None:
+                el.set(attr, "")
+                marked.append((el, attr))
+    return marked
+
+
+def unmark_states(marked) -> None:
+    for el, attr in marked:
+        del el.attrib[attr]
 DYNAMIC = ("hover", "focus-visible", "focus-within", "focus", "active", "visited", "target",
            "target-within", "user-invalid", "user-valid", "autofill", "-webkit-autofill")
 _DYNAMIC_RE = re.compile(r":(%s)(?![\w-])" % "|".join(re.escape(d) for d in DYNAMIC), re.I)
