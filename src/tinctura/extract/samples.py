@@ -277,6 +277,8 @@ class PageWalker:
             self._texts(el, tag, style, chain, key_id)
             if tag in nontext_mod.TAGS:  # SC 1.4.11: boundaries, focus rings, icons
                 nontext_mod.emit(self, el, tag, style, chain)
+            if not len(el):  # a leaf (most elements of highlighted code)
+                continue
             children = children_of(el)
             if not children:
                 continue

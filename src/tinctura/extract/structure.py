@@ -70,20 +70,21 @@ class Structure:
                 # a :has() compound reads the subtree: whether it matches is in the identity
                 if wrapper_of is None:
                     wrapper_of = _standalone_wrapper
-                answers = self.has.answers(candidates, wrapper_of(el))
+                answers = self.has.answers_of(el, candidates, wrapper_of)
                 return self.intern((el.tag, attrs, siblings, empty, answers))
         if siblings:
             return self.intern((el.tag, attrs, siblings, empty))
         return self.intern((el.tag, attrs, empty))
 
-    def children(self, el, wrapper_of=None) -> list:
+    def children(self, el, wrapper_of=None, chains=None) -> list:
         """``(child, structural id, sibling facts)`` for the child elements of ``el``; the
         sibling facts are what sibling-reading selectors need of its place (0 where none
-        can reach it). ``wrapper_of``: as for ``element_id``."""
+        can reach it). ``wrapper_of``: as for ``element_id``; ``chains``: the page's
+        ancestry numbers (``SiblingIndex.needs_children``)."""
         children = [c for c in el if isinstance(c.tag, str)]
         if not children:
             return children
-        needs = self.siblings.needs_children(el, children)
+        needs = self.siblings.needs_children(el, children, chains)
         has = self.has
         if needs is None:  # the common case: tag, attributes and emptiness decide
             raw_ids, out = self.raw_ids, []
@@ -184,6 +185,7 @@ class PageStructure:
         self.structure = structure
         self.kids = {}  # element -> Structure.children(element)
         self.texts = {}  # element -> its own text
+        self.chains = {}  # element -> ancestry number (siblings.SiblingIndex._chain_id)
         # element -> XPath, filled as children lists are made (lxml's getpath rescans every
         # level's siblings: a tenth of all the work on a large page)
         self.paths = {root: "/" + root.tag}
@@ -219,7 +221,7 @@ class PageStructure:
     def children(self, el) -> list:
         kids = self.kids.get(el)
         if kids is None:
-            kids = self.kids[el] = self.structure.children(el, self.wrapper_of)
+            kids = self.kids[el] = self.structure.children(el, self.wrapper_of, self.chains)
             if kids:
                 paths = self.paths
                 base = paths.get(el)
@@ -243,6 +245,7 @@ class PageStructure:
         """A scheme set ``attributes`` on ``elements``: forget what read them."""
         if not elements:
             return
+        self.chains.clear()  # they read classes and ids
         if WRAPPER_CACHED & {a.lower() for a in attributes}:
             self._reset_wrappers()
             self.kids.clear()
