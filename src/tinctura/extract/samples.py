@@ -243,23 +243,37 @@ class PageWalker:
 
     def _walk(self, stack, rest=False):
         key = self._key
+        # the common paths inlined (a page walks thousands of elements): a cached style,
+        # a known children list, an interned key
+        styles = self.cache.styles
+        kids = self.structure.kids
+        ids = None if self.uncached else self.cache.ids
         children_of = self.structure.children
         meta = self.meta
         collect = rest and self.collect
+        memo = self.memo
         while stack:
             item = stack.pop()
             el = item[0]
             if el is None:
-                self._close_scope(item[1])
+                scope = item[1]
+                if scope[0] is not None or len(self.interactive) > scope[1]:
+                    self._close_scope(scope)
                 continue
             _, parent_style, key_id, is_root, chain, scopable = item
-            tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            tag = el.tag
+            tag = tag.lower() if isinstance(tag, str) else ""
             if rest and scopable and tag in SCOPE_TAGS and len(el):
-                scope = self._open_scope(el, key_id, is_root)
-                if scope is None:
-                    continue  # replayed
-                stack.append((None, scope))
-            style = self.style_for(el, parent_style, key_id, is_root)
+                if memo is None or is_root:  # a scope without replay: states only
+                    stack.append((None, (None, len(self.interactive))))
+                else:
+                    scope = self._open_scope(el, key_id, is_root)
+                    if scope is None:
+                        continue  # replayed
+                    stack.append((None, scope))
+            style = None if is_root else styles.get(key_id)
+            if style is None:
+                style = self.style_for(el, parent_style, key_id, is_root)
             if is_root:
                 self.canvas = self._canvas(style)
             if style.display == "none":
@@ -279,13 +293,17 @@ class PageWalker:
                 nontext_mod.emit(self, el, tag, style, chain)
             if not len(el):  # a leaf (most elements of highlighted code)
                 continue
-            children = children_of(el)
+            children = kids.get(el)
+            if children is None:
+                children = children_of(el)
             if not children:
                 continue
             scopable = scopable and not focusable and tag != "svg"
             items = []
             for child, element_id, siblings in children:
-                cid = key(key_id, element_id)
+                cid = ids.get((key_id, element_id)) if ids is not None else None
+                if cid is None:
+                    cid = key(key_id, element_id)
                 if collect:
                     meta[child] = (siblings, cid)
                 items.append((child, style, cid, False, chain, scopable))
