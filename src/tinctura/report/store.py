@@ -37,6 +37,7 @@ class FindingStore:
         self._size = 0
         self._ids = {}  # situations.finding_key -> situation number
         self.situations = []  # situation number -> template Finding (its first occurrence)
+        self.keys = []  # situation number -> its situations.finding_key
         self.occurrence_counts = []  # situation number -> occurrences
         self.counts = {"severity": Counter(), "rule": Counter(), "page": Counter(),
                        "scheme": Counter()}
@@ -61,6 +62,7 @@ class FindingStore:
         if sid is None:
             sid = self._ids[key] = len(self.situations)
             self.situations.append(template)
+            self.keys.append(key)
             self.occurrence_counts.append(0)
         return sid
 
@@ -137,6 +139,12 @@ class FindingStore:
             self._file.seek(offset)
             out.extend(pickle.loads(self._file.read(length)))
         return out
+
+    def page_findings(self, page: str):
+        """``page``'s findings as ``situations.PageFindings`` (built on use), to hand them
+        on to another store: the MkDocs plugin keeps each page's findings here between
+        ``mkdocs serve`` rebuilds and gates them into a new store for each build's reports."""
+        return sit.PageFindings(page, self.situations, self.keys, self.occurrences(page))
 
     def by_page(self, page: str) -> list:
         templates = self.situations
