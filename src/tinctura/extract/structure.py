@@ -15,6 +15,7 @@ from .html import own_text
 from .siblings import FIRST, FULL, INDEX, LAST, TYPE
 
 LIMIT = 60000
+HAS_SUBTREE = -1  # in Structure.raw_ids: an element whose id depends on its subtree
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
 # needs wrappers of its own.
 WRAPPER_CACHED = frozenset({"class", "id", "lang", "xml:lang"})
@@ -89,16 +90,17 @@ class Structure:
         if needs is None:  # the common case: tag, attributes and emptiness decide
             raw_ids, out = self.raw_ids, []
             for cel in children:
-                if has is not None and has.could_match(cel):
-                    out.append((cel, self._id(cel, self.attrs(cel), 0, wrapper_of), 0))
-                    continue
-                raw = (cel.tag, tuple(cel.attrib.items()),
-                       not len(cel) and not (cel.text or "").strip())
+                raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
                 ident = raw_ids.get(raw)
                 if ident is None:
                     if len(raw_ids) > LIMIT:
                         raw_ids.clear()
-                    ident = raw_ids[raw] = self.intern((raw[0], self.attrs(cel), raw[2]))
+                    # HAS_SUBTREE: a :has() compound may match; its answers are per subtree
+                    ident = raw_ids[raw] = HAS_SUBTREE \
+                        if has is not None and has.could_match(cel) \
+                        else self.intern((raw[0], self.attrs(cel), raw[2]))
+                if ident == HAS_SUBTREE:
+                    ident = self._id(cel, self.attrs(cel), 0, wrapper_of)
                 out.append((cel, ident, 0))
             return out
         facts = self._sibling_facts(children, needs)
@@ -161,12 +163,14 @@ def _standalone_wrapper(el):
 def steps(children) -> list:
     """The last XPath step of each child, as lxml's ``getpath`` writes it: the tag, with the
     position among same-tag siblings when there are several."""
+    tags = [c.tag for c in children]
+    if len(set(tags)) == len(tags):  # no two alike: no positions
+        return tags
     count = {}
-    for c in children:
-        count[c.tag] = count.get(c.tag, 0) + 1
+    for tag in tags:
+        count[tag] = count.get(tag, 0) + 1
     seen, out = {}, []
-    for c in children:
-        tag = c.tag
+    for tag in tags:
         if count[tag] == 1:
             out.append(tag)
         else:
@@ -227,8 +231,9 @@ class PageStructure:
                 base = paths.get(el)
                 if base is None:
                     base = paths[el] = self._getpath(el)
+                base += "/"
                 for (child, *_), step in zip(kids, steps([k[0] for k in kids])):
-                    paths[child] = f"{base}/{step}"
+                    paths[child] = base + step
         return kids
 
     def path(self, el) -> str:
