@@ -174,6 +174,8 @@ class PageWalker:
         self.rest = {}  # (xpath, kind) -> (fg, bg) of resting samples, for the state walks
         self._svg_shapes = {}
         self._path_memo = {}
+        self._causes = {}  # (id(cause), inherited-from XPath) -> (Cause, the cause kept alive)
+        self._own_texts = self.structure.texts
         self._recording = []  # open recordings, innermost last
         self.collect = bool(states and self.index.dynamic_rules)
         self._getpath = self.structure.path
@@ -392,12 +394,16 @@ class PageWalker:
 
     # -- samples ---------------------------------------------------------------------------
     def _texts(self, el, tag, style, chain, key_id):
-        if tag in NO_TEXT and tag != "input":
+        if tag in NO_TEXT:
             if tag == "textarea" or tag == "select":
                 return
-        text = self.structure.text(el) if tag not in NO_TEXT else ""
-        if text:
-            self.texts[el] = text
+            text = ""
+        else:
+            text = self._own_texts.get(el)
+            if text is None:
+                text = self.structure.text(el)
+            if text:
+                self.texts[el] = text
         if style.pseudo:
             for pseudo in ("before", "after"):
                 ps = style.pseudo.get(pseudo)
@@ -479,8 +485,13 @@ class PageWalker:
         if self.collect and self.state == REST:
             self.rest[(xpath, kind)] = (fg, bg)
         if inherited_at is not None:
-            fg_cause = Cause(fg_cause.declaration, _path_at(chain, inherited_at, getpath),
-                             fg_cause.chain)
+            # texts inheriting from one ancestor share one (immutable) Cause
+            at = _path_at(chain, inherited_at, getpath)
+            shared = self._causes.get((id(fg_cause), at))
+            if shared is None:
+                shared = self._causes[(id(fg_cause), at)] = (
+                    Cause(fg_cause.declaration, at, fg_cause.chain), fg_cause)
+            fg_cause = shared[0]
         layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
                        for at, kind_, colour, cause in layers) if self.keep_layers else ()
         decisions = self.exemptions
