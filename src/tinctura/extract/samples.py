@@ -190,10 +190,11 @@ class PageWalker:
         return self.samples
 
     def _run_states(self, targets):
+        can_matter = self.index.state_can_matter
+        targets = [(el, kid) for el, kid in targets if can_matter(el)]  # once for every state
         for state, on_self, on_path in STATES:
             for el, kid in targets:
-                if self.index.state_can_matter(el):
-                    self._state_shared(el, kid, state, on_self, on_path, self.rest)
+                self._state_shared(el, kid, state, on_self, on_path, self.rest)
         self.state = REST
 
     def _open_scope(self, el, key_id, is_root):
