@@ -153,6 +153,7 @@ def page_occurrences(records) -> list:
     last = None  # the previous record
     previous = ""  # the previous occurrence's XPath
     occ = None
+    shared = 0
     for record in records:
         sid, xpath, line, text, inherited, _layers, marks = record
         if (last is not None and xpath == last[1] and line == last[2] and text == last[3]
@@ -162,7 +163,7 @@ def page_occurrences(records) -> list:
                 occ[-1].append(marks_dict(marks))
             continue
         last = record
-        shared = _shared(previous, xpath)
+        shared = _shared(previous, xpath, shared)
         previous = xpath
         occ = [[sid], shared, xpath[shared:], line, _excerpt(text)]
         if inherited or marks:
@@ -194,12 +195,20 @@ def _excerpt(text: str) -> str:
     return m.excerpt(text, 200)  # the same navigation texts on every page: computed once
 
 
-def _shared(a: str, b: str) -> int:
-    """The number of leading characters ``a`` and ``b`` share, up to their first non-ASCII one
-    (a bisection over C-level slice comparisons: faster than a loop over characters)."""
+def _shared(a: str, b: str, guess: int = 0) -> int:
+    """The number of leading characters ``a`` and ``b`` share, up to their first non-ASCII one.
+    ``guess``: the previous pair's answer, often this one's too (links of one list); then a
+    bisection over C-level slice comparisons, faster than a loop over characters."""
     n = len(a) if len(a) < len(b) else len(b)
     if a[:n] != b[:n]:
         low, high = 0, n  # a[:low] == b[:low], a[:high] != b[:high]
+        if 0 < guess < n:
+            if a[:guess] != b[:guess]:
+                high = guess
+            elif a[guess] != b[guess]:
+                low = high = guess
+            else:
+                low = guess
         while high - low > 1:
             mid = (low + high) // 2
             if a[:mid] == b[:mid]:
@@ -207,7 +216,7 @@ def _shared(a: str, b: str) -> int:
             else:
                 high = mid
         n = low
-    if not a[:n].isascii():
+    if not a.isascii() and not a[:n].isascii():
         n = next(i for i, c in enumerate(a) if not c.isascii())
     return n
 
