@@ -108,6 +108,7 @@ def test_expand_gives_format_1_with_the_gate_marks():
     assert {f["suppressed"] for f in flat["findings"]} == {None, "the printed panel"}
     for occ in compact["pages"][0]["occurrences"]:
         assert len(occ) == 7 and len(occ[6]) == len(occ[0])
+        assert all(len(marks) == 3 for marks in occ[6])
 
 
 def test_places_name_each_findings_situation():

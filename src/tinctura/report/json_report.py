@@ -148,7 +148,8 @@ def page_occurrences(records) -> list:
     the page (``shared``; ASCII characters only, so every JSON reader counts them alike) and the
     ``rest``. ``up``: the ancestor an inherited text colour comes from, how many levels up (or
     its XPath, should it not be an ancestor; null when there is none but marks follow).
-    ``marks``: the gate's marks, one per situation, when the run set them."""
+    ``marks``: the gate's marks, one ``[fingerprint, suppressed, baseline]`` per situation, when
+    the run set them."""
     out = []
     last = None  # the previous record
     previous = ""  # the previous occurrence's XPath
@@ -160,7 +161,7 @@ def page_occurrences(records) -> list:
                 and inherited == last[4] and (not marks) == (not last[6])):
             occ[0].append(sid)
             if marks:
-                occ[-1].append(marks_dict(marks))
+                occ[-1].append([marks[0], marks[1] or None, marks[2] or None])
             continue
         last = record
         shared = _shared(previous, xpath, shared)
@@ -169,7 +170,7 @@ def page_occurrences(records) -> list:
         if inherited or marks:
             occ.append(levels_up(xpath, inherited) if inherited else None)
         if marks:
-            occ.append([marks_dict(marks)])
+            occ.append([[marks[0], marks[1] or None, marks[2] or None]])
         out.append(occ)
     return out
 
@@ -223,8 +224,9 @@ def _shared(a: str, b: str, guess: int = 0) -> int:
 
 def read_page(entry: dict, version: int = SCHEMA_VERSION) -> list:
     """A compact report's page entry with its XPaths written out: per occurrence
-    ``[situations, xpath, line, text, up, marks]`` (``situations`` a list; ``up`` and ``marks``
-    (a list, one per situation) None when absent). Reads format 2's records too."""
+    ``[situations, xpath, line, text, up, marks]`` (``situations`` a list; ``marks`` a list of
+    dicts as format 1 writes them, one per situation; ``up`` and ``marks`` None when absent).
+    Reads format 2's records too."""
     out = []
     xpath = ""
     for occ in entry["occurrences"]:
@@ -233,7 +235,7 @@ def read_page(entry: dict, version: int = SCHEMA_VERSION) -> list:
             marks = [rest[3]] if len(rest) > 3 else None
         else:
             sids, xpath, rest = occ[0], xpath[:occ[1]] + occ[2], occ[3:]
-            marks = rest[3] if len(rest) > 3 else None
+            marks = [marks_dict(x) for x in rest[3]] if len(rest) > 3 else None
         up = rest[2] if len(rest) > 2 else None
         out.append([sids, xpath, rest[0], rest[1], up, marks])
     return out
