@@ -266,15 +266,21 @@ def inherited_xpath(occurrence: list):
 def expand(doc: dict) -> list:
     """Every finding of a report as format 1 writes it (a compact report's situations and
     occurrences put back together), in report order."""
+    return list(iter_findings(doc))
+
+
+def iter_findings(doc: dict):
+    """``expand``, one finding at a time (a large report's findings need not all be in memory)."""
     if "findings" in doc:
-        return doc["findings"]
-    situations, out = doc["situations"], []
+        yield from doc["findings"]
+        return
+    situations = doc["situations"]
     for page, sid, occ, marks in places(doc):
         sit = situations[sid]
         fg_cause = sit["fg_cause"]
         if fg_cause is not None:
             fg_cause = dict(fg_cause, inherited_from=inherited_xpath(occ))
-        out.append({
+        yield {
             "rule": sit["rule"], "slug": sit["slug"], "severity": sit["severity"],
             "page": page, "scheme": sit["scheme"], "state": sit["state"],
             "xpath": occ[1], "line": occ[2], "text": occ[3], "fg": sit["fg"],
@@ -282,8 +288,7 @@ def expand(doc: dict) -> list:
             "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
             "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
             **({"appearance": sit["appearance"]} if "appearance" in sit else {}),
-            **(marks or {})})
-    return out
+            **(marks or {})}
 
 
 def cause_fix_dict(fix) -> dict | None:
