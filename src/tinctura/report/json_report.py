@@ -161,7 +161,7 @@ def page_occurrences(records) -> list:
                 and inherited == last[4] and (not marks) == (not last[6])):
             occ[0].append(sid)
             if marks:
-                occ[-1].append([marks[0], marks[1] or None, marks[2] or None])
+                occ[-1].append(marks_list(marks))
             continue
         last = record
         shared = _shared(previous, xpath, shared)
@@ -170,9 +170,14 @@ def page_occurrences(records) -> list:
         if inherited or marks:
             occ.append(levels_up(xpath, inherited) if inherited else None)
         if marks:
-            occ.append([[marks[0], marks[1] or None, marks[2] or None]])
+            occ.append([marks_list(marks)])
         out.append(occ)
     return out
+
+
+def marks_list(marks) -> list:
+    """The gate's marks ``(fingerprint, suppressed, baseline)`` as format 3 writes them."""
+    return [marks[0], marks[1] or None, marks[2] or None]
 
 
 def marks_dict(marks) -> dict:
@@ -191,7 +196,7 @@ def levels_up(xpath: str, inherited: str):
     return inherited
 
 
-@functools.lru_cache(maxsize=1 << 16)
+@functools.lru_cache(maxsize=4096)
 def _excerpt(text: str) -> str:
     return m.excerpt(text, 200)  # the same navigation texts on every page: computed once
 
@@ -430,8 +435,9 @@ class JsonFormatter(Formatter):
     Compact layout (format 3, the default): ``pages`` as they arrive, each with its occurrences
     as small records ``[situations, shared, rest, line, text(, up)(, marks)]``
     (``page_occurrences``); ``problems``, each listing its situations; ``situations``, what
-    their occurrences share (message, colours, ratio, fix, causes), each once. Flat layout (format 1, ``Header.findings_layout="flat"``):
-    every finding in full, one per line, and problems listing finding indexes."""
+    their occurrences share (message, colours, ratio, fix, causes), each once. Flat layout
+    (format 1, ``Header.findings_layout="flat"``): every finding in full, one per line, and
+    problems listing finding indexes."""
 
     FLAT_SECTIONS = ("findings", "problems", "diagnostics")
     COMPACT_SECTIONS = ("pages", "problems", "situations", "diagnostics")
