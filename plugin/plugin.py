@@ -25,7 +25,8 @@ from tinctura.report.appearance import is_appearance
 from tinctura.report.appearance import problem_lines as appearance_lines
 from tinctura.report.notice import DISCLAIMER
 from tinctura.report.scope import scope_of
-from tinctura.report.status import failing
+from tinctura.report.status import at_or_above
+from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
 from tinctura.report.text_report import problem_lines, summary_line, terminal_width, wrapped
 from tinctura.writer import WriterAid
@@ -43,7 +44,7 @@ class PageRecord:
     def __init__(self, digest, result, findings, uses):
         self.digest = digest
         self.result = result  # PageResult with samples reduced to counts (memory stays flat)
-        self.findings = findings
+        self.findings = findings  # how many; the findings wait on disk (TincturaPlugin.found)
         self.uses = uses  # declaration -> backgrounds, for fixes at the cause
 
 
@@ -69,6 +70,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.rechecked: list = []  # pages checked in this build (serve logs them)
         self.previous = None  # problem key -> sentence after the previous build (serve)
         self.verify_cache: dict = {}  # overrides verified on the same pages are not redone
+        # each page's findings on disk, as situations and small records (report.store), kept
+        # between serve rebuilds; each build gates them into a store of its own
+        self.found = FindingStore()
 
     # -- lifecycle -------------------------------------------------------------------------
 
@@ -116,6 +120,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if config.site_dir != self.site_dir or options != self.options:
             self.site = None
             self.records.clear()
+            self.found = FindingStore()
             self.stale.clear()
             self.previous = None
         self.site_dir = config.site_dir
@@ -130,6 +135,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         }
         for gone in set(self.records) - set(self.current):
             del self.records[gone]
+            self.found.discard(gone)
         self.project = mkdocs_project.from_files(config, files)
         self.rechecked = []
         return files
@@ -159,7 +165,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
 
     def keep(self, rel: str, key: str | None, judged) -> None:
         result, findings, uses = judged
-        self.records[rel] = PageRecord(key, result, findings, uses)
+        self.found.replace(rel, findings)
+        self.records[rel] = PageRecord(key, result, len(findings), uses)
         self.stale.discard(rel)
         self.rechecked.append(rel)
 
@@ -214,25 +221,12 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.stale.clear()
         records = [self.records[rel] for rel in sorted(self.records)]
         pages = [r.result for r in records]
-        gate = self.make_gate()
-        gate_notes = []
-        for r in records:
-            gate_notes.extend(gate.page(r.result.page, r.findings))
-        gate_notes.extend(gate.finish())
-        every = [f for r in records for f in r.findings]
-        findings = [f for f in every if gated.active(f)]  # not suppressed, not in the baseline
-        uses = {}
-        for r in records:
-            problems.merge_uses(uses, r.uses)
-        palette = {}
-        for r in records:
-            palette_mod.merge(palette, r.result.palette)
-        findings += engine.judge_site(palette, self.options)  # site-level appearance rules
-        found = problems.group(findings, uses=uses)
+        found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         aid = self.writer_aid(found, pages, records)
         locate = aid  # callable: sample -> Location
         changes = self.log_changes(found) if self.serving_again() else None
+        findings = outputs.GateView(store, marked=False, counts=gate.counts)  # those that count
         if changes is None:
             self.log_results(found, findings, many_schemes=len(schemes) > 1, locate=locate)
         else:
@@ -247,7 +241,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                         rules=self.options.rules, source=self.source_of, uri=self.built_uri,
                         gone=gate.gone(), version=plugin_version(), locate=aid,
                         scope=scope_of([self.site_dir], self.options))
-        self.write_reports(header, pages, every, found, gate_notes, gate.counts)
+        self.write_reports(header, pages, store, found, gate_notes, gate.counts)
         summary = summarise(pages, findings, found, (), schemes)
         total = summary_line(summary, header)
         if changes is not None:
@@ -258,11 +252,32 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             log.info(gate.note())
         if changes is None:
             log.info(DISCLAIMER)
-        bad = failing(findings, self.config.fail_on)
+        bad = {severity: n for severity, n in gate.counts["severity"].items()
+                if n and at_or_above(severity, self.config.fail_on)}
+        store.close()
         if bad and self.command != "serve":  # serve keeps serving; the warnings say enough
             raise PluginError(
                 quiet_summary(bad, found, self.config.fail_on, locate, len(schemes) > 1)
                 + (f"\n{gate.note()}" if gate.note() else ""))
+
+    def gated(self, records) -> tuple:
+        """This build's findings through the gate into a store of their own (pages in order,
+        then the site-level rules), as ``tinctura check`` does: ``(problems, store, gate,
+        the gate's diagnostics)``."""
+        gate = self.make_gate()
+        store, collector, notes = FindingStore(), problems.Collector(), []
+        uses, palette = {}, {}
+        for r in records:
+            rel = r.result.page
+            notes.extend(gated.intake(gate, store, collector, rel, self.found.page_findings(rel)))
+            problems.merge_uses(uses, r.uses)
+            palette_mod.merge(palette, r.result.palette)
+        site_findings = engine.judge_site(palette, self.options, ordered=True)
+        if site_findings:  # after every page, under the whole site, as reports list them
+            notes.extend(gated.intake(gate, store, collector, palette_mod.SITE_PAGE,
+                                      site_findings))
+        notes.extend(gate.finish())
+        return collector.problems(uses), store, gate, notes
 
     # -- the maintainer's gate and reports ------------------------------------------------
 
@@ -277,9 +292,13 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                 base = baseline_mod.load(self.path(self.config.baseline))
             except baseline_mod.BaselineError as exc:
                 raise PluginError(f"tinctura: {exc}") from None
+        from tinctura import report
+
+        wanted = self.config.fingerprints or any(
+            report.FORMATS[name].wants_fingerprints for name, _ in self.config.report)
         return gated.Gate(allow=self.config.allow, allow_source="mkdocs.yml: plugins.tinctura",
                           baseline=base, rules_run=self.options.rules,
-                          read=gated.site_reader([self.site_dir]))
+                          read=gated.site_reader([self.site_dir]), fingerprints=wanted)
 
     def source_of(self, page: str, line: int):
         """The Markdown source of a built page (line unknown: 0), from the working folder."""
@@ -314,7 +333,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             for page in pages:
                 for scheme in page.schemes:
                     schemes.setdefault(scheme.name, scheme)
-            with_findings = [r.result.page for r in records if r.findings]
+            with_findings = [r.result.page for r in records if r.findings]  # (counts)
             loader = self.site.loader if self.site is not None else None
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
@@ -369,10 +388,10 @@ def plugin_version() -> str:
 
 def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: int = 3) -> str:
     """The build's final error: it carries the counts and the first problems itself, since
-    `mkdocs build -q` hides the warnings above it."""
-    failing_problems = [p for p in found if p.severity in
-                        {f.severity for f in bad}] or list(found)
-    lines = [f"{m.plural(len(bad), 'contrast finding')} at or above fail_on: {fail_on} "
+    `mkdocs build -q` hides the warnings above it. ``bad``: severity -> findings at or above
+    ``fail_on``."""
+    failing_problems = [p for p in found if p.severity in bad] or list(found)
+    lines = [f"{m.plural(sum(bad.values()), 'contrast finding')} at or above fail_on: {fail_on} "
              f"({m.plural(len(failing_problems), 'problem')})"]
     for n, problem in enumerate(failing_problems[:first], 1):
         location = locate(problem.worst.sample) if locate is not None else None

@@ -19,7 +19,7 @@ def test_defaults():
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False,
                                    "schemes": None, "jobs": None, "select": [], "ignore": [],
-                                   "severity": {}, "allow": [], "baseline": None, "report": [],
+                                   "severity": {}, "allow": [], "baseline": None, "report": [], "fingerprints": False,
                                    "behaviours": (), "theme_behaviours": True,
                                    "lc_levels": None, "cvd_severity": 1.0,
                                    "profiles": ("daylight",), "palette": {},

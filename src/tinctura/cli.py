@@ -315,14 +315,9 @@ def run_check(args, stdout, stderr) -> int:
     written = []
 
     def keep(page, findings):
-        page.diagnostics.extend(gate.page(page.page, findings))
-        start = len(store)
-        store.add(page.page, findings)
-        for n, f in enumerate(findings):
-            if gated.active(f):
-                collector.add(f, index=start + n)
-        if args.write_baseline:
-            written.extend(f for f in findings if not f.suppressed)
+        page.diagnostics.extend(gated.intake(gate, store, collector, page.page, findings))
+        if args.write_baseline:  # (each page comes once)
+            written.extend(f for f in store.by_page(page.page) if not f.suppressed)
         bar.advance()
 
     # --config naming an mkdocs.yml (config.py tells it from tinctura's own settings): the
@@ -406,8 +401,11 @@ def make_gate(args, options) -> gated.Gate:
             base = baseline_mod.load(args.baseline)
         except baseline_mod.BaselineError as exc:
             raise UsageError(str(exc)) from None
+    wanted = args.fingerprints or bool(args.write_baseline) or any(
+        report.FORMATS[name].wants_fingerprints for name, _ in report_specs(args))
     return gated.Gate(allow=args.allow, allow_source=args.config_path or "configuration",
-                      baseline=base, rules_run=options.rules, read=gated.site_reader(args.paths))
+                      baseline=base, rules_run=options.rules, read=gated.site_reader(args.paths),
+                      fingerprints=wanted)
 
 
 def markdown_source(args):

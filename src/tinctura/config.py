@@ -393,6 +393,9 @@ SETTINGS = (
     Setting("report", output_specs, [], "reports to write, FORMAT or FORMAT:FILE",
             flag="--format", metavar="FORMAT[:FILE]", parse=lambda t: [t], many=True,
             rebase=rebase_outputs),
+    Setting("fingerprints", boolean, False, "write each finding's fingerprint into the JSON "
+            "report (SARIF, JUnit and baselines always carry them)", flag="--fingerprints",
+            commands=("check",)),
     Setting("site_dir", optional(text), None, "the built site `tinctura check` reads when no "
             "path is given", where=FILE_AND_CLI, rebase=rebase_path),
     Setting("group", choice("cause", "page"), "cause", "text report: problems grouped by cause "

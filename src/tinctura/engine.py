@@ -381,8 +381,7 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())
-    site_findings = sorted(judge_site(report.palette, options),
-                           key=lambda f: _finding_order(f, (None, f.sample.xpath, f.sample.line)))
+    site_findings = judge_site(report.palette, options, ordered=True)
     if findings_to is None:
         report.findings.extend(site_findings)
     elif site_findings:  # after every page: reports list them last, under the whole site
@@ -390,13 +389,17 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
     return report
 
 
-def judge_site(palette_uses: dict, options: Options) -> list:
-    """The site-level rules (palette colours across pages and contexts), run once at the end."""
+def judge_site(palette_uses: dict, options: Options, ordered: bool = False) -> list:
+    """The site-level rules (palette colours across pages and contexts), run once at the end;
+    ``ordered``: in report order."""
     if not palette_uses:
         return []
     from . import rules
 
-    return rules.run_site(palette_uses, options)
+    found = rules.run_site(palette_uses, options)
+    if ordered:
+        found.sort(key=lambda f: _finding_order(f, (None, f.sample.xpath, f.sample.line)))
+    return found
 
 
 def iter_pages(paths, options: Options, judged: bool = False):

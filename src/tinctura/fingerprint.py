@@ -18,16 +18,31 @@ _INDEX = re.compile(r"\[\d+\]")
 
 def locator(sample) -> str:
     """Tag path without sibling indexes, then the text with whitespace collapsed."""
-    path = _INDEX.sub("", sample.xpath or "")
-    return f"{path} {' '.join((sample.text or '').split())}"
+    return _locator(sample.xpath, sample.text)
 
 
-def parts(finding) -> tuple:
+def _locator(xpath, text) -> str:
+    path = _INDEX.sub("", xpath or "")
+    return f"{path} {' '.join((text or '').split())}"
+
+
+def situation_parts(finding) -> tuple:
+    """What every occurrence of ``finding``'s situation shares: rule, scheme, state, colours."""
     from tinctura.report import messages as m  # (the reports import this module)
 
     s = finding.sample
     fg, bg = m.finding_colours(finding)
-    return (s.page, finding.rule, s.scheme, s.state, locator(s), m.colour(fg), m.colour(bg))
+    return (finding.rule, s.scheme, s.state, m.colour(fg), m.colour(bg))
+
+
+def parts(finding) -> tuple:
+    return _parts(finding.sample.page, situation_parts(finding), finding.sample.xpath,
+                  finding.sample.text)
+
+
+def _parts(page, shared, xpath, text) -> tuple:
+    rule, scheme, state, fg, bg = shared
+    return (page, rule, scheme, state, _locator(xpath, text), fg, bg)
 
 
 def digest(fields) -> str:
@@ -37,10 +52,32 @@ def digest(fields) -> str:
 
 def assign(findings) -> list:
     """Set ``fingerprint`` on each finding of one page (in document order) and return them."""
+    for f, value in zip(findings, _numbered(parts(f) for f in findings)):
+        f.fingerprint = value
+    return findings
+
+
+def of_records(page: str, records, templates) -> list:
+    """The fingerprints of one page's store records ``(situation, xpath, line, text, ...)``
+    (``templates``: situation -> template finding), without building the findings: what
+    ``assign`` gives the same findings."""
+    shared: dict = {}
+
+    def fields(r):
+        common = shared.get(r[0])
+        if common is None:
+            common = shared[r[0]] = situation_parts(templates[r[0]])
+        return _parts(page, common, r[1], r[3])
+
+    return _numbered(fields(r) for r in records)
+
+
+def _numbered(bases) -> list:
+    """Digests of ``bases``; equal ones on a page are told apart by their order."""
     seen: dict = {}
-    for f in findings:
-        base = parts(f)
+    out = []
+    for base in bases:
         n = seen.get(base, 0)
         seen[base] = n + 1
-        f.fingerprint = digest(base if n == 0 else base + (n,))
-    return findings
+        out.append(digest(base if n == 0 else base + (n,)))
+    return out

@@ -13,6 +13,7 @@ import os
 from collections import Counter
 
 from tinctura import fingerprint, rules
+from tinctura import situations as sit
 from tinctura.model import Diagnostic
 
 from . import suppress
@@ -24,23 +25,27 @@ active = outputs.active  # True when a finding counts: not suppressed, not in th
 
 class Gate:
     def __init__(self, allow=(), allow_source: str = "configuration", baseline=None,
-                 rules_run=(), read=None):
+                 rules_run=(), read=None, fingerprints: bool = True):
         self.allow = suppress.ConfigAllow(allow, allow_source)
         self.baseline = baseline
         self.rules_run = set(rules_run or (r.code for r in rules.RULES))
         self.read = read  # site-relative page -> its bytes (None: cannot be read)
+        # whether every finding gets its fingerprint (a baseline always needs them; pages with
+        # suppressions get them, as their marks are written out)
+        self.fingerprints = fingerprints or baseline is not None
         self.pages: set = set()
         # active findings only, in FindingStore's shape: summaries and exit_status(gate)
         self.counts = outputs.count(())
         self.held = Counter()  # "suppressed", "unchanged"
         self.diagnostics: list = []  # run-wide (the configuration's unused entries)
 
-    def page(self, rel: str, findings) -> list:
+    def page(self, rel: str, findings, page_marks=None) -> list:
         """Mark one page's findings (document order); returns the page's diagnostics about
-        suppressions (malformed, or matching nothing)."""
+        suppressions (malformed, or matching nothing). ``page_marks``: ``_marks``' answer,
+        when the caller asked already."""
         self.pages.add(rel)
         fingerprint.assign(findings)
-        root, marks = self._marks(rel, bool(findings))
+        root, marks = page_marks or self._marks(rel, bool(findings))
         diagnostics = list(marks.diagnostics) if marks is not None else []
         config_match = self.allow.matcher(rel, root)
         for f in findings:
@@ -70,6 +75,31 @@ class Gate:
                          f"(reason given: {mark.reason}); remove it if the fault is fixed",
                     line=mark.line))
         return diagnostics
+
+    def records(self, rel: str, records: list, templates) -> tuple:
+        """``page`` for a store's records of one page (``templates``: situation -> template
+        finding): ``(diagnostics, records)``, the records carrying the gate's marks when it
+        set them. A page without suppressions, in a run that needs no fingerprints, costs a
+        count per situation: its findings are never built."""
+        self.pages.add(rel)
+        page_marks = self._marks(rel, bool(records))
+        if page_marks[1] is not None or self.allow.applies(rel):
+            findings = [sit.rebuild(templates[r[0]], r[1:], rel) for r in records]
+            diagnostics = self.page(rel, findings, page_marks)
+            return diagnostics, [(r[0],) + sit.place(f) for r, f in zip(records, findings)]
+        if not self.fingerprints:
+            outputs.add_situation_counts(self.counts, rel, records, templates)
+            return [], records
+        marked, counted = [], []
+        for r, value in zip(records, fingerprint.of_records(rel, records, templates)):
+            state = self.baseline.state(value) if self.baseline is not None else ""
+            marked.append(r[:6] + ((value, "", state),))
+            if state == "unchanged":
+                self.held["unchanged"] += 1
+            else:
+                counted.append(r)
+        outputs.add_situation_counts(self.counts, rel, counted, templates)
+        return [], marked
 
     def _marks(self, rel: str, has_findings: bool):
         """The page's tree and suppressions, when it has any (else (None, None))."""
@@ -109,6 +139,20 @@ class Gate:
                         f"{self.held['unchanged']:,} unchanged (not failing), "
                         f"{len(self.gone()):,} gone")
         return "; ".join(bits)
+
+
+def intake(gate: Gate, store, collector, rel: str, findings) -> list:
+    """One page's findings through the gate, into the store (``report.store.FindingStore``)
+    and the problems (``problems.Collector``); returns the gate's diagnostics of the page."""
+    start = len(store)
+    if isinstance(findings, sit.PageFindings) and findings.built() is None:
+        diagnostics, records = gate.records(rel, store.records_of(findings), store.situations)
+    else:  # findings built already (site-level rules, tests): the gate marks them
+        diagnostics = gate.page(rel, findings)
+        records = store.records_of(findings)
+    store.put(rel, records)
+    collector.add_page(rel, records, store.situations, start)
+    return diagnostics
 
 
 def site_reader(paths):

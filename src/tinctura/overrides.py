@@ -401,6 +401,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         remaining_keys, bad, counts = cache["result"]
         _mark(problems, overrides, remaining_keys, bad)
         return counts
+    options = _deciding(options)
     site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
     if loader is not None:
         site.loader = loader  # parsed sheets reused; rule sets are keyed by their sheets
@@ -426,6 +427,20 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
     _mark(problems, overrides, remaining_keys, bad)
     return counts
+
+
+def _deciding(options):
+    """``options`` running only the rules whose findings can undo an override (``_mark``):
+    the overrides' own rules and those that report errors."""
+    import dataclasses
+
+    from tinctura import rules
+
+    severity = dict(getattr(options, "severity", ()) or ())
+    chosen = tuple(r.code for r in rules.selected(getattr(options, "rules", ()) or ())
+                   if r.code in OVERRIDE_RULES
+                   or severity.get(r.code, r.severity) == "error")
+    return dataclasses.replace(options, rules=chosen)
 
 
 def _stamp(root, rel) -> tuple:

@@ -271,6 +271,49 @@ class Collector:
             self._count += 1
             self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
 
+    def add_page(self, page: str, records, templates, start: int) -> None:
+        """``add_records`` for one page's records as the store keeps them (the first at index
+        ``start`` of the run), leaving out the held ones (suppressed, known to the baseline).
+        An occurrence of a problem whose examples are chosen costs a count and an index."""
+        settled = self._settled(page, records, templates)
+        kept, kept_at = [], []
+        for n, r in enumerate(records):
+            marks = r[6]
+            if marks is not None and (marks[1] or marks[2] == "unchanged"):
+                continue
+            fast = settled.get(r[0])
+            if fast is None:
+                kept.append(r)
+                kept_at.append(start + n)
+                continue
+            fast[0].append(start + n)
+        for sid, (at, p, figures) in settled.items():
+            if at:
+                p.indexes.extend(at)
+                p.count += len(at)
+                figures.count += len(at)
+                self._seen[self._situations[sid]] += len(at)
+                self._pages[self._situations[sid]].add(page)
+        self._count += sum(len(v[0]) for v in settled.values())
+        if kept:
+            self.add_records(page, kept, templates, kept_at)
+
+    def _settled(self, page: str, records, templates) -> dict:
+        """Situations of ``records`` whose problem has its examples and has met ``page``
+        already, or has all its example pages: situation -> ([indexes], problem, scheme
+        figures)."""
+        out = {}
+        for sid in {r[0] for r in records}:
+            key = self._situations.get(sid)
+            if key is None or self._seen[key] < 2 * self.EXAMPLES:
+                continue
+            pages = self._pages[key]
+            if page not in pages and len(pages) < self.EXAMPLES:
+                continue
+            p = self._buckets[key]
+            out[sid] = ([], p, p.schemes[templates[sid].sample.scheme])
+        return out
+
     def _note_page(self, key, p, page, finding) -> None:
         pages = self._pages[key]
         new_page = page not in pages
@@ -285,6 +328,7 @@ class Collector:
         out = []
         for key, p in self._buckets.items():
             p.pages = len(self._pages[key])
+            p.indexes = array("L", sorted(p.indexes))  # add_page counts some ahead of others
             p.fix_at_cause = fix_at_cause(p, uses)
             out.append(p)
         out.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))

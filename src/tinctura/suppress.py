@@ -140,6 +140,10 @@ class ConfigAllow:
         self.used = [False] * len(self.entries)
         self._compiled = {}
 
+    def applies(self, page: str) -> bool:
+        """True when some entry may hold findings of ``page``."""
+        return any(self._on_page(e, page) for e in self.entries)
+
     def wants_tree(self, page: str) -> bool:
         return any(e["selector"] and self._on_page(e, page) for e in self.entries)
 

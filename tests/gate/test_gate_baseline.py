@@ -7,7 +7,7 @@ from gate_helpers import CASTING, TUNING, call, site  # noqa: F401  (site: a fix
 
 
 def fingerprints(site, *extra):
-    status, out, _ = call("check", site, "--format", "json", "--jobs", 1, *extra)
+    status, out, _ = call("check", site, "--format", "json", "--jobs", 1, "--fingerprints", *extra)
     return status, [(f["page"], f["fingerprint"], f["baseline"]) for f in expand(json.loads(out))]
 
 
@@ -76,3 +76,15 @@ def test_bad_baseline_file_exits_2(site, tmp_path):
     assert status == 2 and out == "" and f"{bad}: not a tinctura baseline" in err
     status, _, err = call("check", site, "--baseline", tmp_path / "missing.json")
     assert status == 2 and "cannot read the baseline" in err
+
+
+def test_fingerprints_only_when_asked_or_needed(site):
+    """Without --fingerprints, a baseline or a report that reads them, the JSON report's
+    occurrences carry no marks (the gate never builds the findings); with a baseline they do."""
+    _, out, _ = call("check", site, "--format", "json", "--jobs", 1)
+    assert all(len(o) <= 6  # format 3: the marks would be a seventh field
+               for p in json.loads(out)["pages"] for o in p["occurrences"])
+    plain = [{k: v for k, v in f.items() if k not in ("fingerprint", "suppressed", "baseline")}
+             for f in expand(json.loads(out))]
+    _, found = fingerprints(site)
+    assert len(plain) == len(found) and all(fp for _, fp, _ in found)

@@ -31,14 +31,14 @@ def test_comment_silences_exactly_the_next_element(site):
                + '<p class="faint">Polish the crown last.</p>')
     status, doc, _ = report(site)
     assert status == 1
-    marked = {f["text"]: f["suppressed"] for f in expand(doc)}
+    marked = {f["text"]: f.get("suppressed") for f in expand(doc)}
     assert marked == {"Let the mould cool for three days.":
                       "the cooling note repeats the printed tag",
                       "Polish the crown last.": None,
                       "Strike note within two cents.": None}
     assert doc["summary"]["findings"] == 2  # the suppressed one does not count
     jsonschema.Draft202012Validator(report_schema()).validate(doc)
-    grouped = [f for f, sid in zip(expand(doc), situations(doc)) if not f["suppressed"]
+    grouped = [f for f, sid in zip(expand(doc), situations(doc)) if not f.get("suppressed")
                and any(sid in p["situations"] for p in doc["problems"])]
     assert sorted(f["text"] for f in grouped) == ["Polish the crown last.",
                                                   "Strike note within two cents."]
@@ -55,7 +55,7 @@ def test_attribute_covers_the_element_and_its_descendants(site):
     site.write("index.html", '<div data-tinctura-allow="text-ratio, TC100: legacy panel, '
                              'reviewed"><p class="faint">Old <b>casting</b> log.</p></div>')
     _, doc, _ = report(site)
-    reasons = {f["page"]: f["suppressed"] for f in expand(doc)}
+    reasons = {f["page"]: f.get("suppressed") for f in expand(doc)}
     assert reasons == {"index.html": "legacy panel, reviewed", "tuning/index.html": None}
 
 
@@ -67,7 +67,7 @@ def test_attribute_covers_the_element_and_its_descendants(site):
 def test_malformed_directives_are_reported_and_ignored(site, directive, needle):
     site.write("index.html", directive + CASTING)
     status, doc, _ = report(site)
-    assert status == 1 and all(f["suppressed"] is None for f in expand(doc))
+    assert status == 1 and all(f.get("suppressed") is None for f in expand(doc))
     assert any(needle in d["message"] and d["path"] == "index.html" for d in doc["diagnostics"])
 
 
@@ -86,7 +86,7 @@ def test_configuration_allow_by_page_rule_and_selector(site, tmp_path):
         '  {pages = "nowhere/*", reason = "stale entry"},\n'
         ']\n')
     _, doc, _ = report(site)
-    reasons = {f["page"]: f["suppressed"] for f in expand(doc)}
+    reasons = {f["page"]: f.get("suppressed") for f in expand(doc)}
     assert reasons == {"index.html": None, "tuning/index.html": "tuning sheet is scanned from paper"}
     stale = [d for d in doc["diagnostics"] if "allow entry 2" in d["message"]]
     assert len(stale) == 1 and stale[0]["path"].endswith("tinctura.toml")
@@ -96,7 +96,7 @@ def test_selector_entry_covers_only_matching_elements(site, tmp_path):
     (tmp_path / "tinctura.toml").write_text(
         'allow = [{selector = "h1", reason = "headings are reviewed by hand"}]\n')
     _, doc, _ = report(site)
-    assert all(f["suppressed"] is None for f in expand(doc))
+    assert all(f.get("suppressed") is None for f in expand(doc))
 
 
 def test_scan_maps_a_comment_to_the_engines_xpath():
@@ -127,7 +127,7 @@ def test_markdown_comment_and_attribute_list_in_an_mkdocs_build(tmp_path):
     subprocess.run([sys.executable, "-m", "mkdocs", "build", "-q"], cwd=tmp_path, check=True,
                    env={"NO_MKDOCS_2_WARNING": "1", "PATH": "/usr/bin:/bin"})
     doc = json.loads((tmp_path / "out.json").read_text())
-    mine = {f["text"]: f["suppressed"] for f in expand(doc) if f["page"] == "index.html"
+    mine = {f["text"]: f.get("suppressed") for f in expand(doc) if f["page"] == "index.html"
             and f["text"] in ("Let the mould cool for three days.", "Polish the crown last.",
                               "Check the clapper.")}
     assert mine == {"Let the mould cool for three days.": "mirrors the stamped tag",
@@ -143,4 +143,4 @@ def test_a_directive_with_no_element_after_it_is_reported(site):
     site.write("index.html", CASTING + COMMENT)
     _, doc, _ = report(site)
     assert any("no element follows it" in d["message"] for d in doc["diagnostics"])
-    assert all(f["suppressed"] is None for f in expand(doc))
+    assert all(f.get("suppressed") is None for f in expand(doc))

@@ -180,7 +180,7 @@ def test_source_locations_from_whatever_the_run_knows():
     assert source_of(s, types.SimpleNamespace(locate=lambda sample: located)) == "docs/guide.md:12"
     assert source_of(s, types.SimpleNamespace(source={"guide/index.html": ("docs/guide.md", 3)})) \
         == "docs/guide.md:3"
-    assert source_of(s, types.SimpleNamespace(source=lambda page: ("docs/guide.md", 0))) \
+    assert source_of(s, types.SimpleNamespace(source=lambda page, line: ("docs/guide.md", 0))) \
         == "docs/guide.md"
 
 

@@ -45,12 +45,16 @@ class Formatter:
     ``occurrences(page, records, store)`` instead of ``page``: the page's small occurrence
     records and the ``report.store.FindingStore`` that holds each situation once.
 
+    ``wants_fingerprints = True``: every finding it gets carries its fingerprint (else only
+    the findings of pages with suppressions, and every finding when a baseline is used).
+
     ``marked = True``: the formatter also receives the findings held by the gate (suppressed,
     or unchanged against the baseline), each marked; otherwise only the findings that count.
     """
 
     wants_findings = True
     wants_occurrences = False
+    wants_fingerprints = False  # the gate then gives every finding its fingerprint
     marked = False
 
     def __init__(self, stream, header: Header):

@@ -12,6 +12,7 @@ from .base import Formatter
 
 
 class BaselineFormatter(Formatter):
+    wants_fingerprints = True
     marked = True
 
     def __init__(self, stream, header):

@@ -475,7 +475,7 @@ def source_of(sample, header=None) -> str:
         found = getattr(locate(sample), "source", None)
     source = getattr(header, "source", None)
     if found is None and source is not None:
-        found = source(sample.page) if callable(source) else source.get(sample.page)
+        found = source(sample.page, sample.line) if callable(source) else source.get(sample.page)
     if found is None:
         found = getattr(sample, "source", None)
     return _where(found)

@@ -42,6 +42,7 @@ def held_line(f) -> str:
 
 
 class JunitFormatter(Formatter):
+    wants_fingerprints = True
     marked = True
 
     def __init__(self, stream, header):

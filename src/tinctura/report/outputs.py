@@ -37,6 +37,21 @@ def add_count(counts: dict, f) -> None:
     counts["scheme"][f.sample.scheme] += 1
 
 
+def add_situation_counts(counts: dict, page: str, records, templates, sign: int = 1) -> Counter:
+    """``add_count`` for store records of ``page`` (``(situation, ...)``; ``templates``:
+    situation -> template finding), a count per situation (``sign`` -1 takes them away).
+    Returns the occurrences per situation."""
+    per_situation = Counter(r[0] for r in records)
+    for sid, n in per_situation.items():
+        t = templates[sid]
+        counts["severity"][t.severity] += sign * n
+        counts["rule"][t.rule] += sign * n
+        counts["scheme"][t.sample.scheme] += sign * n
+    if records:
+        counts["page"][page] += sign * len(records)
+    return per_situation
+
+
 class GateView:
     """A run's findings as one report sees them: only those that count (``marked=False``), or
     all of them, marked (``marked=True``). Counts (summaries, exit status) are always of the

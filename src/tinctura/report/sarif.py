@@ -52,6 +52,7 @@ def rule_dict(rule, level: str) -> dict:
 
 
 class SarifFormatter(Formatter):
+    wants_fingerprints = True
     marked = True
 
     def __init__(self, stream, header):

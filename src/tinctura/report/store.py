@@ -25,6 +25,8 @@ from collections import Counter
 from tinctura import situations as sit
 from tinctura.palette import report_page
 
+from .outputs import add_situation_counts
+
 
 class FindingStore:
     """Sequence-like: ``len``, iteration in run order, ``by_page(name)``; plus ``counts``."""
@@ -35,6 +37,7 @@ class FindingStore:
         self._size = 0
         self._ids = {}  # situations.finding_key -> situation number
         self.situations = []  # situation number -> template Finding (its first occurrence)
+        self.keys = []  # situation number -> its situations.finding_key
         self.occurrence_counts = []  # situation number -> occurrences
         self.counts = {"severity": Counter(), "rule": Counter(), "page": Counter(),
                        "scheme": Counter()}
@@ -59,29 +62,47 @@ class FindingStore:
         if sid is None:
             sid = self._ids[key] = len(self.situations)
             self.situations.append(template)
+            self.keys.append(key)
             self.occurrence_counts.append(0)
         return sid
 
     def add(self, page: str, findings) -> list:
         """Keep ``page``'s findings (a list, or ``situations.PageFindings``); returns their
         records ``(situation number,) + situations.place``, in order."""
+        records = self.records_of(findings)
+        self.put(page, records)
+        return records
+
+    def records_of(self, findings) -> list:
+        """The records of ``findings`` (numbering their new situations), not yet kept."""
         if not findings:
             return []
-        if isinstance(findings, sit.PageFindings):
-            # numbered in order of first occurrence, as a list of the same findings would be
+        if not isinstance(findings, sit.PageFindings):
+            return [(self.situation(sit.finding_key(f), f),) + sit.place(f) for f in findings]
+        # numbered in order of first occurrence, as a list of the same findings would be
+        built = findings.built()  # findings already built may carry the gate's marks
+        if built:
             local = [None] * len(findings.templates)
-            built = findings.built()  # findings already built may carry the gate's marks
             records = []
             for n, r in enumerate(findings.records):
                 sid = local[r[0]]
                 if sid is None:
                     sid = local[r[0]] = self.situation(findings.keys[r[0]],
                                                        findings.templates[r[0]])
-                records.append((sid,) + (sit.place(built[n]) if built else r[1:]))
-        else:
-            records = [(self.situation(sit.finding_key(f), f),) + sit.place(f) for f in findings]
-        self._write(page, records)
-        return records
+                records.append((sid,) + sit.place(built[n]))
+            return records
+        local = {}
+        for r in findings.records:  # first occurrences in order: numbering as above
+            if r[0] not in local:
+                local[r[0]] = self.situation(findings.keys[r[0]], findings.templates[r[0]])
+        if all(k == v for k, v in local.items()):  # a store's first page: numbers unchanged
+            return list(findings.records)
+        return [(local[r[0]],) + r[1:] for r in findings.records]
+
+    def put(self, page: str, records: list) -> None:
+        """Keep ``page``'s records (``records_of``), after what is kept already."""
+        if records:
+            self._write(page, records)
 
     def _write(self, page: str, records: list) -> None:
         data = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
@@ -91,15 +112,10 @@ class FindingStore:
         self._count(page, records, 1)
 
     def _count(self, page: str, records: list, sign: int) -> None:
-        per_situation = Counter(r[0] for r in records)
         counts = self.counts
+        per_situation = add_situation_counts(counts, page, records, self.situations, sign)
         for sid, n in per_situation.items():
-            t = self.situations[sid]
             self.occurrence_counts[sid] += sign * n
-            counts["severity"][t.severity] += sign * n
-            counts["rule"][t.rule] += sign * n
-            counts["scheme"][t.sample.scheme] += sign * n
-        counts["page"][page] += sign * len(records)
         self._size += sign * len(records)
         for counter in counts.values():  # a page checked again may have lost its findings
             for name in [k for k, v in counter.items() if v <= 0]:
@@ -123,6 +139,12 @@ class FindingStore:
             self._file.seek(offset)
             out.extend(pickle.loads(self._file.read(length)))
         return out
+
+    def page_findings(self, page: str):
+        """``page``'s findings as ``situations.PageFindings`` (built on use), to hand them
+        on to another store: the MkDocs plugin keeps each page's findings here between
+        ``mkdocs serve`` rebuilds and gates them into a new store for each build's reports."""
+        return sit.PageFindings(page, self.situations, self.keys, self.occurrences(page))
 
     def by_page(self, page: str) -> list:
         templates = self.situations
