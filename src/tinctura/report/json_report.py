@@ -190,9 +190,10 @@ def marks_dict(marks) -> dict:
 def levels_up(xpath: str, inherited: str):
     """How many levels above ``xpath`` the ancestor ``inherited`` is (its XPath when it is not
     an ancestor)."""
-    if xpath.startswith(inherited) and xpath[len(inherited):len(inherited) + 1] == "/":
-        end = xpath.find("::")  # a pseudo-element's or a kind's suffix
-        return xpath.count("/", len(inherited), end if end >= 0 else len(xpath))
+    n = len(inherited)
+    if xpath.startswith("/", n) and xpath.startswith(inherited):
+        end = xpath.find("::", n)  # a pseudo-element's or a kind's suffix
+        return xpath.count("/", n, end if end >= 0 else len(xpath))
     return inherited
 
 
