@@ -148,7 +148,7 @@ def build_parser() -> argparse.ArgumentParser:
                             "add it to mkdocs.yml")
     check.add_argument("--flat-findings", action="store_true",
                        help="JSON report: list every finding in full (format 1) instead of "
-                            "each situation once with small occurrence records (format 2)")
+                            "each situation once with small occurrence records (format 3)")
     check.set_defaults(run=run_check)
 
     pairs = sub.add_parser("pairs", help="print every text sample as JSON Lines",

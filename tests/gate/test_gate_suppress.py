@@ -9,11 +9,12 @@ import pytest
 from tinctura import suppress
 from tinctura.extract.html import parse_html
 from tinctura.report.json_report import schema as report_schema
-from tinctura.report.json_report import expand
+from tinctura.report.json_report import expand, places
 
 
-def occurrences(doc):
-    return [occ for entry in doc["pages"] for occ in entry["occurrences"]]
+def situations(doc):
+    """The situation of each finding, in report order."""
+    return [sid for _, sid, _, _ in places(doc)]
 
 from gate_helpers import CASTING, call, page, site  # noqa: F401  (site: a fixture)
 
@@ -37,8 +38,8 @@ def test_comment_silences_exactly_the_next_element(site):
                       "Strike note within two cents.": None}
     assert doc["summary"]["findings"] == 2  # the suppressed one does not count
     jsonschema.Draft202012Validator(report_schema()).validate(doc)
-    grouped = [f for f, occ in zip(expand(doc), occurrences(doc)) if not f.get("suppressed")
-               and any(occ[0] in p["situations"] for p in doc["problems"])]
+    grouped = [f for f, sid in zip(expand(doc), situations(doc)) if not f.get("suppressed")
+               and any(sid in p["situations"] for p in doc["problems"])]
     assert sorted(f["text"] for f in grouped) == ["Polish the crown last.",
                                                   "Strike note within two cents."]
 

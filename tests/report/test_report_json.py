@@ -9,7 +9,7 @@ from tinctura.engine import Options
 from tinctura.model import Cause, Declaration, Diagnostic, PageResult, UNDETERMINED
 from tinctura.problems import group
 from tinctura.report import DISCLAIMER, Header, render
-from tinctura.report.json_report import expand, sample_dict, schema
+from tinctura.report.json_report import expand, places, sample_dict, schema
 from tinctura.rules import run
 from tinctura.rules.examples import make_sample
 
@@ -36,11 +36,11 @@ def build(samples, diagnostics=(), layout="flat"):
 def test_both_layouts_validate(layout):
     doc = build(samples(), [Diagnostic("x.css", "cannot read", 3, "error")], layout=layout)
     VALIDATOR(schema()).validate(doc)
-    assert doc["format_version"] == (1 if layout == "flat" else 2)
+    assert doc["format_version"] == (1 if layout == "flat" else 3)
 
 
 def test_compact_layout_holds_the_flat_findings_and_problems():
-    """Format 2 writes each situation once; put back together, its findings are format 1's,
+    """Format 3 writes each situation once; put back together, its findings are format 1's,
     in the same order, and each problem covers the same findings."""
     first = samples()[0]
     again = make_sample("#777", "white", page="b.html", fg_cause=first.fg_cause,
@@ -49,7 +49,7 @@ def test_compact_layout_holds_the_flat_findings_and_problems():
     compact = build(samples() + [again], layout="compact")
     assert expand(compact) == flat["findings"]
     assert len(compact["situations"]) == len(flat["findings"]) - 1  # one situation, twice
-    order = [(p["page"], occ[0]) for p in compact["pages"] for occ in p["occurrences"]]
+    order = [(page, sid) for page, sid, _, _ in places(compact)]
     for fp, cp in zip(flat["problems"], compact["problems"]):
         assert {k: v for k, v in fp.items() if k != "findings"} == \
             {k: v for k, v in cp.items() if k != "situations"}

@@ -26,7 +26,7 @@ class Header:
     # callable sample -> writer.Location (readable locator, Markdown source), when the run can
     # tell (a writer.WriterAid)
     locate: object = None
-    # JSON: "compact" (each situation once, occurrences as small records; format 2) or
+    # JSON: "compact" (each situation once, occurrences as small records; format 3) or
     # "flat" (every finding in full; format 1)
     findings_layout: str = "compact"
     rules: tuple = ()  # codes of the rules run (empty: every rule)

@@ -4,6 +4,7 @@ Colours are ``#rrggbb``; ratios are unrounded floats (display code truncates, ne
 """
 from __future__ import annotations
 
+import functools
 import json
 import os
 
@@ -14,7 +15,7 @@ from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 
-SCHEMA_VERSION = 2  # the compact layout; the flat one keeps writing format 1
+SCHEMA_VERSION = 3  # the compact layout; the flat one keeps writing format 1
 FLAT_VERSION = 1
 SCHEMA_PATH = os.path.join(os.path.dirname(os.path.dirname(__file__)), "data", "report-schema.json")
 
@@ -111,8 +112,7 @@ def gate_dict(f) -> dict:
     """The gate's marks (tinctura.gate), when the run set them."""
     if not getattr(f, "fingerprint", ""):
         return {}
-    return {"fingerprint": f.fingerprint, "suppressed": f.suppressed or None,
-            "baseline": f.baseline or None}
+    return marks_dict((f.fingerprint, f.suppressed, f.baseline))
 
 
 def situation_dict(f, problem: int | None, occurrences: int) -> dict:
@@ -137,28 +137,130 @@ def situation_dict(f, problem: int | None, occurrences: int) -> dict:
     }
 
 
-def occurrence_list(record) -> list:
-    """``[situation, xpath, line, text]``, plus the ancestor an inherited colour comes from:
-    how many levels up (or its XPath, should it not be an ancestor; null when there is none
-    but the gate's marks follow), plus the gate's marks when the run set them."""
-    sid, xpath, line, text, inherited, _layers, marks = record[:7]
-    out = [sid, xpath, line, m.excerpt(text, 200)]
-    if inherited:
-        if xpath.startswith(inherited + "/"):
-            out.append(xpath.split("::")[0][len(inherited):].count("/"))
-        else:
-            out.append(inherited)
-    if marks:
-        if not inherited:
-            out.append(None)
-        fingerprint, suppressed, baseline = marks
-        out.append({"fingerprint": fingerprint, "suppressed": suppressed or None,
-                    "baseline": baseline or None})
+def page_occurrences(records) -> list:
+    """A page's store records ``(situation, xpath, line, text, inherited_from, layers, marks)``,
+    in run order, as format 3 occurrences ``[situations, shared, rest, line, text(, up)(,
+    marks)]``.
+
+    Records one after the other at the same place (one text failing several rules or states)
+    become one occurrence naming their situations in order, so report order is kept. The XPath
+    is written as how many leading characters it shares with the previous occurrence's XPath on
+    the page (``shared``; ASCII characters only, so every JSON reader counts them alike) and the
+    ``rest``. ``up``: the ancestor an inherited text colour comes from, how many levels up (or
+    its XPath, should it not be an ancestor; null when there is none but marks follow).
+    ``marks``: the gate's marks, one ``[fingerprint, suppressed, baseline]`` per situation, when
+    the run set them."""
+    out = []
+    last = None  # the previous record
+    previous = ""  # the previous occurrence's XPath
+    occ = None
+    shared = 0
+    for record in records:
+        sid, xpath, line, text, inherited, _layers, marks = record
+        if (last is not None and xpath == last[1] and line == last[2] and text == last[3]
+                and inherited == last[4] and (not marks) == (not last[6])):
+            occ[0].append(sid)
+            if marks:
+                occ[-1].append(marks_list(marks))
+            continue
+        last = record
+        shared = _shared(previous, xpath, shared)
+        previous = xpath
+        occ = [[sid], shared, xpath[shared:], line, _excerpt(text)]
+        if inherited or marks:
+            occ.append(levels_up(xpath, inherited) if inherited else None)
+        if marks:
+            occ.append([marks_list(marks)])
+        out.append(occ)
     return out
 
 
+def marks_list(marks) -> list:
+    """The gate's marks ``(fingerprint, suppressed, baseline)`` as format 3 writes them."""
+    return [marks[0], marks[1] or None, marks[2] or None]
+
+
+def marks_dict(marks) -> dict:
+    """The gate's marks ``(fingerprint, suppressed, baseline)`` as format 1 writes them."""
+    fingerprint, suppressed, baseline = marks
+    return {"fingerprint": fingerprint, "suppressed": suppressed or None,
+            "baseline": baseline or None}
+
+
+def levels_up(xpath: str, inherited: str):
+    """How many levels above ``xpath`` the ancestor ``inherited`` is (its XPath when it is not
+    an ancestor)."""
+    n = len(inherited)
+    if xpath.startswith("/", n) and xpath.startswith(inherited):
+        end = xpath.find("::", n)  # a pseudo-element's or a kind's suffix
+        return xpath.count("/", n, end if end >= 0 else len(xpath))
+    return inherited
+
+
+@functools.lru_cache(maxsize=4096)
+def _excerpt(text: str) -> str:
+    return m.excerpt(text, 200)  # the same navigation texts on every page: computed once
+
+
+def _shared(a: str, b: str, guess: int = 0) -> int:
+    """The number of leading characters ``a`` and ``b`` share, up to their first non-ASCII one.
+    ``guess``: the previous pair's answer, often this one's too (links of one list); then a
+    bisection over C-level slice comparisons, faster than a loop over characters."""
+    n = len(a) if len(a) < len(b) else len(b)
+    if a[:n] != b[:n]:
+        low, high = 0, n  # a[:low] == b[:low], a[:high] != b[:high]
+        if 0 < guess < n:
+            if a[:guess] != b[:guess]:
+                high = guess
+            elif a[guess] != b[guess]:
+                low = high = guess
+            else:
+                low = guess
+        while high - low > 1:
+            mid = (low + high) // 2
+            if a[:mid] == b[:mid]:
+                low = mid
+            else:
+                high = mid
+        n = low
+    if not a.isascii() and not a[:n].isascii():
+        n = next(i for i, c in enumerate(a) if not c.isascii())
+    return n
+
+
+def read_page(entry: dict, version: int = SCHEMA_VERSION) -> list:
+    """A compact report's page entry with its XPaths written out: per occurrence
+    ``[situations, xpath, line, text, up, marks]`` (``situations`` a list; ``marks`` a list of
+    dicts as format 1 writes them, one per situation; ``up`` and ``marks`` None when absent).
+    Reads format 2's records too."""
+    out = []
+    xpath = ""
+    for occ in entry["occurrences"]:
+        if version == 2:
+            sids, xpath, rest = [occ[0]], occ[1], occ[2:]
+            marks = [rest[3]] if len(rest) > 3 else None
+        else:
+            sids, xpath, rest = occ[0], xpath[:occ[1]] + occ[2], occ[3:]
+            marks = [marks_dict(x) for x in rest[3]] if len(rest) > 3 else None
+        up = rest[2] if len(rest) > 2 else None
+        out.append([sids, xpath, rest[0], rest[1], up, marks])
+    return out
+
+
+def places(doc: dict):
+    """Every finding of a compact report, in report order: ``(page, situation index, occurrence,
+    marks or None)``, the occurrence as ``read_page`` gives it (shared by its situations)."""
+    version = doc.get("format_version", SCHEMA_VERSION)
+    for entry in doc["pages"]:
+        for occ in read_page(entry, version):
+            marks = occ[5] or [None] * len(occ[0])
+            for sid, mark in zip(occ[0], marks):
+                yield entry["page"], sid, occ, mark
+
+
 def inherited_xpath(occurrence: list):
-    """The XPath an occurrence's text colour is inherited from (None: set on the element)."""
+    """The XPath an occurrence's text colour is inherited from (None: set on the element);
+    ``occurrence`` as ``read_page`` gives it (or a format 2 record)."""
     if len(occurrence) < 5 or occurrence[4] is None:
         return None
     up = occurrence[4]
@@ -170,25 +272,29 @@ def inherited_xpath(occurrence: list):
 def expand(doc: dict) -> list:
     """Every finding of a report as format 1 writes it (a compact report's situations and
     occurrences put back together), in report order."""
+    return list(iter_findings(doc))
+
+
+def iter_findings(doc: dict):
+    """``expand``, one finding at a time (a large report's findings need not all be in memory)."""
     if "findings" in doc:
-        return doc["findings"]
-    situations, out = doc["situations"], []
-    for entry in doc["pages"]:
-        for occ in entry["occurrences"]:
-            sit = situations[occ[0]]
-            fg_cause = sit["fg_cause"]
-            if fg_cause is not None:
-                fg_cause = dict(fg_cause, inherited_from=inherited_xpath(occ))
-            out.append({
-                "rule": sit["rule"], "slug": sit["slug"], "severity": sit["severity"],
-                "page": entry["page"], "scheme": sit["scheme"], "state": sit["state"],
-                "xpath": occ[1], "line": occ[2], "text": occ[3], "fg": sit["fg"],
-                "bg": sit["bg"], "ratio": sit["ratio"], "required": sit["required"],
-                "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
-                "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
-                **({"appearance": sit["appearance"]} if "appearance" in sit else {}),
-                **(occ[5] if len(occ) > 5 else {})})
-    return out
+        yield from doc["findings"]
+        return
+    situations = doc["situations"]
+    for page, sid, occ, marks in places(doc):
+        sit = situations[sid]
+        fg_cause = sit["fg_cause"]
+        if fg_cause is not None:
+            fg_cause = dict(fg_cause, inherited_from=inherited_xpath(occ))
+        yield {
+            "rule": sit["rule"], "slug": sit["slug"], "severity": sit["severity"],
+            "page": page, "scheme": sit["scheme"], "state": sit["state"],
+            "xpath": occ[1], "line": occ[2], "text": occ[3], "fg": sit["fg"],
+            "bg": sit["bg"], "ratio": sit["ratio"], "required": sit["required"],
+            "level": sit["level"], "message": sit["message"], "fix": sit["fix"],
+            "fg_cause": fg_cause, "bg_cause": sit["bg_cause"],
+            **({"appearance": sit["appearance"]} if "appearance" in sit else {}),
+            **(marks or {})}
 
 
 def cause_fix_dict(fix) -> dict | None:
@@ -327,11 +433,12 @@ class JsonFormatter(Formatter):
     """Writes one JSON document as the run goes, so that a large site's report is never held in
     memory twice.
 
-    Compact layout (format 2, the default): ``pages`` as they arrive, each with its occurrences
-    as small records ``[situation, xpath, line, text(, inherited_from)]``; ``problems``, each
-    listing its situations; ``situations``, what their occurrences share (message, colours,
-    ratio, fix, causes), each once. Flat layout (format 1, ``Header.findings_layout="flat"``):
-    every finding in full, one per line, and problems listing finding indexes."""
+    Compact layout (format 3, the default): ``pages`` as they arrive, each with its occurrences
+    as small records ``[situations, shared, rest, line, text(, up)(, marks)]``
+    (``page_occurrences``); ``problems``, each listing its situations; ``situations``, what
+    their occurrences share (message, colours, ratio, fix, causes), each once. Flat layout
+    (format 1, ``Header.findings_layout="flat"``): every finding in full, one per line, and
+    problems listing finding indexes."""
 
     FLAT_SECTIONS = ("findings", "problems", "diagnostics")
     COMPACT_SECTIONS = ("pages", "problems", "situations", "diagnostics")
@@ -369,7 +476,7 @@ class JsonFormatter(Formatter):
         self.store = store
         if records:
             self._item("pages", {"page": page.page,
-                                 "occurrences": [occurrence_list(r) for r in records]})
+                                 "occurrences": page_occurrences(records)})
 
     def problem(self, index, problem) -> None:
         if self.flat:
