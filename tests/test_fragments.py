@@ -128,3 +128,30 @@ def test_rebase_does_not_mistake_a_numbered_sibling_for_the_root():
     # "div[1]" is a string prefix of "div[10]" but not its ancestor
     assert fragments.rebase("/html/body/div[10]/p", "/html/body/div[1]", "/x") == \
         "/html/body/div[10]/p"
+
+
+def test_placements_give_the_records_of_placing_each_finding(repeated_site):
+    # a judged fragment's findings placed as a block (fragments.Placement) against placing
+    # them one by one (Stamp.within(rel).place), on every replay of the site
+    from tinctura.engine import _verdict, verdict_key
+
+    options = Options(keep_samples=False)
+    site = Site(str(repeated_site), options)
+    compared, placements, moved = 0, {}, set()
+    for rel in site.pages():
+        for fragment, stamp in site.check_page(rel).replays:
+            verdict = fragment.verdicts.get(verdict_key(options)) or _verdict(fragment, options)
+            if not verdict.findings:
+                continue
+            # worked out on the first replay, used on the others (other pages, moved places)
+            placement = placements.setdefault(
+                id(verdict), fragments.Placement(verdict.findings, stamp.anchor))
+            moved.add((id(verdict), stamp.new_base, stamp.anchor.sourceline))
+            records = []
+            placement.place(stamp, list(range(len(verdict.findings))), records)
+            one_by_one = [(n,) + stamp.within(r).place(f.sample, base)
+                          for n, (r, base, f, _) in enumerate(verdict.findings)]
+            assert records == one_by_one
+            compared += len(records)
+    assert compared
+    assert len(moved) > len(placements)  # placements were used at more than one place

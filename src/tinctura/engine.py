@@ -28,6 +28,7 @@ from .colour import wcag
 from .extract import bounds
 from .extract import behaviours as behaviour_mod
 from .extract import exempt as exempt_mod
+from .extract import fragments as frag_mod
 from .extract import links as link_mod
 from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
@@ -289,14 +290,28 @@ def judge(samples, options: Options) -> list:
 
 def _judge(samples, options: Options) -> tuple:
     """(findings, their ``situations.finding_key``s)."""
+    out, out_keys = [], []
+    for s, k, templates in _situations(samples, options):
+        for t in templates:
+            out.append(t if t.sample is s else situations.occurrence(t, s))
+            out_keys.append((t.rule, k))
+    return out, out_keys
+
+
+def _situations(samples, options: Options) -> list:
+    """``(sample, situation key, template findings)`` of each sample with findings: each
+    distinct situation is judged once per process (the templates were made for the first
+    sample of the situation)."""
     judge_gradients(samples, options.level)
     memo = _JUDGED.setdefault(verdict_key(options), {})
-    keys, todo = [], {}
+    sample_key = situations.sample_key
+    entries, todo = [], {}
     for s in samples:
-        k = situations.sample_key(s)
-        keys.append(k)
-        if k not in memo and k not in todo:
+        k = sample_key(s)
+        templates = memo.get(k)
+        if templates is None and k not in todo:
             todo[k] = s
+        entries.append((s, k, templates))
     if todo:
         if len(memo) + len(todo) > JUDGED_LIMIT:
             memo.clear()
@@ -307,17 +322,17 @@ def _judge(samples, options: Options) -> tuple:
             found.setdefault(id(f.sample), []).append(f)
         for k, s in todo.items():
             memo[k] = tuple(found.get(id(s), ()))
-    out, out_keys = [], []
-    for s, k in zip(samples, keys):
-        templates = memo.get(k)
-        if templates is None:  # cleared meanwhile: judge it alone
-            from . import rules
+    out = []
+    for s, k, templates in entries:
+        if templates is None:
+            templates = memo.get(k)
+            if templates is None:  # cleared meanwhile: judge it alone
+                from . import rules
 
-            templates = tuple(rules.run([s], options))
-        for t in templates:
-            out.append(t if t.sample is s else situations.occurrence(t, s))
-            out_keys.append((t.rule, k))
-    return out, out_keys
+                templates = tuple(rules.run([s], options))
+        if templates:
+            out.append((s, k, templates))
+    return out
 
 
 _VERDICT_KEYS: dict = {}  # id(options) -> (options, key): a run asks for every fragment
@@ -441,10 +456,11 @@ def _process(site, rel, options, judged, html=None):
     page = site.check_page(rel, html=html)
     if not judged:
         return page
-    if options.share:
-        findings, keys = _judge(page.samples, options)
+    judged_samples, findings = (), ()
+    if options.share:  # findings of the walked samples are never built, only placed
+        judged_samples = _situations(page.samples, options)
     else:
-        findings, keys = evaluate(page.samples, options), None
+        findings = evaluate(page.samples, options)
     uses = problems_mod.declaration_uses(page.samples)
     page.palette = palette_mod.collect_for(page.samples, options)
     more = []
@@ -455,8 +471,15 @@ def _process(site, rel, options, judged, html=None):
     page.replays = []
     # findings as situations and places: replayed ones are never built, and a worker sends
     # each situation once
-    return page, situations.PageFindings.build(page.page, findings, keys, more,
-                                               _finding_order), uses
+    return page, situations.PageFindings.build(page.page, findings, None, (), None,
+                                               judged=judged_samples, replays=more,
+                                               template_order=_template_order), uses
+
+
+def _template_order(template) -> tuple:
+    """Report order within a page after line and XPath (``_finding_order``)."""
+    s = template.sample
+    return (s.scheme, s.state, template.rule)
 
 
 def _finding_order(template, where) -> tuple:
@@ -466,16 +489,20 @@ def _finding_order(template, where) -> tuple:
 
 
 def _judge_replays(page, uses, options) -> list:
-    """What the replayed fragments contribute: their findings as ``(template, key, place)``
-    for this page (returned), their declaration uses and their counts (added to ``uses`` and
-    the page's stats). Each fragment is judged once per site."""
+    """What the replayed fragments contribute: their findings as ``(fragments.Placement,
+    Stamp)`` blocks for this page (returned), their declaration uses and their counts (added
+    to ``uses`` and the page's stats). Each fragment is judged once per site."""
     found = []
     tally = {}  # verdict id -> [verdict, occurrences]
     key = verdict_key(options)
     for fragment, stamp in page.replays:
         verdict = fragment.verdicts.get(key) or _verdict(fragment, options)
-        for rel, old_base, finding, fkey in verdict.findings:
-            found.append((finding, fkey, stamp.within(rel).place(finding.sample, old_base)))
+        if verdict.findings:  # placed as a block, worked out on the first replay
+            placement = verdict.placement
+            if placement is None:
+                placement = verdict.placement = frag_mod.Placement(verdict.findings,
+                                                                   stamp.anchor)
+            found.append((placement, stamp))
         entry = tally.get(id(verdict))
         if entry is None:
             tally[id(verdict)] = [verdict, 1]
@@ -498,10 +525,11 @@ class _Verdict:
     are one shared object: a large navigation has thousands of fragments and few distinct
     verdicts."""
 
-    __slots__ = ("findings", "uses", "uses_key", "stats", "palette")
+    __slots__ = ("findings", "uses", "uses_key", "stats", "palette", "placement")
 
     def __init__(self, findings, uses, stats, palette=None):
         self.findings = findings or ()
+        self.placement = None  # fragments.Placement of the findings, from the first replay
         self.palette = palette or {}  # palette uses (site-level rules), merged per replay
         uses_key = frozenset((decl, bg, frozenset(schemes))
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())

@@ -78,6 +78,23 @@ def occurrence(template: Finding, sample: Sample) -> Finding:
                    t.args)
 
 
+_IDS: dict = {}  # finding_key -> a number standing for it in this process
+_IDS_LIMIT = 200000
+_next_id = [0]
+
+
+def situation_id(key) -> int:
+    """A small number for the situation ``key`` (never reused in a process), for callers
+    that meet the same key on every page: an int is looked up faster than a key is hashed."""
+    sid = _IDS.get(key)
+    if sid is None:
+        if len(_IDS) >= _IDS_LIMIT:  # bound memory; numbers stay unique
+            _IDS.clear()
+        _next_id[0] += 1
+        sid = _IDS[key] = _next_id[0]
+    return sid
+
+
 class PageFindings:
     """One page's findings as situations and places: ``templates`` (a finding per situation),
     their ``keys`` (``finding_key``) and ``records`` ``(template index,) + place`` in report
@@ -94,28 +111,82 @@ class PageFindings:
         self._items = None
 
     @classmethod
-    def build(cls, page: str, findings, keys=None, more=(), order=None) -> "PageFindings":
+    def build(cls, page: str, findings, keys=None, more=(), order=None, judged=(),
+              replays=(), template_order=None) -> "PageFindings":
         """From findings (with their ``finding_key``s when known) and ``more``:
         ``(template, key, place)`` of findings that were never built. ``order``: sort key of
-        ``(template, place)``."""
+        ``(template, place)``. Findings never built either: ``judged`` (placed first),
+        ``(sample, sample_key, template findings)`` of walked samples, the templates judged
+        on a sample of the same situation; ``replays`` (placed last), ``(fragments.Placement,
+        Stamp)`` of replayed fragments' findings. ``template_order``: instead of ``order``,
+        records sorted by line, XPath and ``template_order(template)``."""
         templates, tkeys, index, records = [], [], {}, []
+        # a template object always comes with the same key: its number is found once a page
+        by_object = {}
 
-        def number(key, template) -> int:
-            n = index.get(key)
-            if n is None:
-                n = index[key] = len(templates)
-                templates.append(template)
-                tkeys.append(key)
-            return n
-
+        for s, k, found in judged:
+            for t in found:
+                own = t.sample is s
+                n = by_object.get(id(t))
+                if n is None:
+                    key = (t.rule, k)
+                    n = index.get(key)
+                    if n is None:
+                        n = index[key] = len(templates)
+                        templates.append(t if own else occurrence(t, s))
+                        tkeys.append(key)
+                    by_object[id(t)] = n
+                if own:
+                    records.append((n,) + place(t))
+                    continue
+                c = s.fg_cause
+                records.append((n, s.xpath, s.line, s.text,
+                                c.inherited_from if c is not None else None,
+                                tuple(layer.xpath for layer in s.bg_layers)
+                                if s.bg_layers else None, None))
         if keys is None:
             keys = [finding_key(f) for f in findings]
         for f, key in zip(findings, keys):
-            records.append((number(key, f),) + place(f))
+            n = index.get(key)
+            if n is None:
+                n = index[key] = len(templates)
+                templates.append(f)
+                tkeys.append(key)
+            records.append((n,) + place(f))
         for template, key, where in more:
-            records.append((number(key, template),) + where)
+            n = by_object.get(id(template))
+            if n is None:
+                n = index.get(key)
+                if n is None:
+                    n = index[key] = len(templates)
+                    templates.append(template)
+                    tkeys.append(key)
+                by_object[id(template)] = n
+            records.append((n,) + where)
+        numbered = {}  # id(placement) -> numbers of its findings on this page
+        by_id = {}  # situation_id -> number
+        for placement, stamp in replays:
+            numbers = numbered.get(id(placement))
+            if numbers is None:
+                numbers = numbered[id(placement)] = []
+                for template, key, sid in placement.situations:
+                    n = by_id.get(sid)
+                    if n is None:
+                        n = index.get(key)
+                        if n is None:
+                            n = index[key] = len(templates)
+                            templates.append(template)
+                            tkeys.append(key)
+                        by_id[sid] = n
+                    numbers.append(n)
+            placement.place(stamp, numbers, records)
         if order is not None:
             records.sort(key=lambda r: order(templates[r[0]], r))
+        elif template_order is not None and len(records) > 1:
+            after = [template_order(t) for t in templates]
+            sort_keys = [(r[2], r[1], after[r[0]]) for r in records]
+            records = [records[i] for i in sorted(range(len(records)),
+                                                  key=sort_keys.__getitem__)]
         return cls(page, templates, tkeys, records)
 
     def built(self):

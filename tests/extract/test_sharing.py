@@ -133,3 +133,61 @@ def test_has_keeps_only_the_elements_it_can_match_apart(tmp_path):
     assert ids["p1"] == ids["p2"]
     _, ruleset = structural_ids(tmp_path, body, "table:has(+ p) { color: #555 }")
     assert ruleset.uses_has  # a :has() that reads siblings: nothing is shared
+
+
+def test_simple_has_answers_agree_with_cssselect2():
+    # the reference is cssselect2's own test of each compound (its :has() walks wrappers of
+    # the whole subtree); tinctura answers A:has(B) and A:has(> B) with lxml's tag iteration
+    import cssselect2
+    from lxml import etree
+
+    from tinctura.extract.sheet import compile_one
+    from tinctura.extract.siblings import _has_simple, _simple_has
+
+    root = etree.fromstring(
+        '<html><body><table class="t"><!-- a comment --><tr><td><code>x</code></td></tr>'
+        '</table><table><tr><td>y<CODE class="k">z</CODE></td></tr></table>'
+        '<div class="admonition"><p>p</p><ul><li>i</li></ul></div>'
+        '<div class="admonition"><p><ul><li>deep</li></ul></p></div>'
+        '<div class="admonition note"><span class="k x">s</span></div></body></html>',
+        etree.HTMLParser())
+    compounds = ["table:has(code)", ".admonition:has(> ul)", "div:has(.k)",
+                 "div.note:has(span.k.x)", "table.t:has(> tr)", "table:has(code.k)",
+                 "div:has(> p[class])"]
+    checked = 0
+    for wrapper in cssselect2.ElementWrapper.from_html_root(root).iter_subtree():
+        for compound in compounds:
+            spec = _simple_has(compound)
+            assert spec is not None, compound
+            expected = compile_one(compound)[0].test(wrapper)
+            assert _has_simple(wrapper.etree_element, spec) == expected, compound
+            checked += expected
+    assert checked >= 5  # some of them match
+    for compound in ("div:has(.a .b)", "a:hover:has(b)", "div:has(b, i)", "li:first-child:has(a)"):
+        assert _simple_has(compound) is None, compound
+
+
+def test_sibling_needs_are_the_same_with_and_without_ancestry_numbers(tmp_path):
+    from tinctura.extract.html import parse_html
+
+    css = (".n > li:not(:first-child) { color: #555 } .m li + li { color: #666 }"
+           " ul > :last-child { color: #777 } .z p:nth-child(2) { color: #888 }")
+    body = ('<div class="m"><ul class="n"><li>a</li><li>b</li></ul><ul><li>c</li><li>d</li></ul>'
+            '</div><div class="z"><p>e</p><p>f</p><section><p>g</p><p>h</p></section></div>')
+    (tmp_path / "site.css").write_text(css)
+    page = tmp_path / "a.html"
+    page.write_text(f'<!doctype html><html><head><link rel="stylesheet" href="site.css">'
+                    f'</head><body>{body}{body}</body></html>')
+    site = Site(str(tmp_path), Options(states=False))
+    root = parse_html(page.read_bytes())
+    ruleset, _ = site.loader.ruleset_for(root, str(page))
+    index = ruleset.siblings
+    chains = {}
+    found = 0
+    for el in root.iter():
+        kids = [c for c in el if isinstance(c.tag, str)]
+        if kids:
+            plain = index.needs_children(el, kids)
+            assert index.needs_children(el, kids, chains) == plain
+            found += plain is not None
+    assert found >= 4

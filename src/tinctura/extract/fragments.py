@@ -31,6 +31,7 @@ from itertools import islice
 from lxml import etree
 
 from ..model import Cause, Sample
+from ..situations import situation_id
 
 _SAMPLE_FIELDS = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
 # Per style cache, least recently used first out: a site's pages come in navigation order, so
@@ -233,6 +234,100 @@ class Stamp:
             return self
         return Stamp(self.page, self.scheme, resolve(self.anchor, rel.split("::")[0]),
                      self.new_base + rel)
+
+
+class Placement:
+    """Where a judged fragment's findings stand in any replay of it, worked out once.
+
+    Every replay of a fragment has the serialization it was recorded with, so the element of
+    each finding is at the same child positions (comments included) below the replay's anchor:
+    its line is read by indexing, not by matching XPath steps. The XPaths are the replay's base
+    plus a fixed relative part; an inherited-from or layer XPath is rebased by a rule fixed per
+    finding. ``Stamp.within(rel).place(sample, old_base)`` gives the same records one by one.
+    """
+
+    __slots__ = ("positions", "entries", "situations")
+
+    def __init__(self, findings, anchor):
+        """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
+        ``anchor``: the root element of one replay of the fragment."""
+        top = Stamp("", "", anchor, "")
+        nested, slots = {}, {}
+        self.positions = []  # child positions below the anchor, one per distinct element
+        self.entries = []  # (relative XPath, line slot, text, inherited, layers)
+        self.situations = []  # (finding, key, situations.situation_id(key))
+        for rel, old_base, finding, key in findings:
+            sample = finding.sample
+            inner = nested.get(rel)
+            if inner is None:
+                inner = nested[rel] = top.within(rel)
+            below = sample.xpath[len(old_base):]
+            slot = -1
+            if sample.line:
+                where = _positions(anchor, resolve(inner.anchor, below.split("::")[0]))
+                slot = slots.get(where)
+                if slot is None:
+                    slot = slots[where] = len(self.positions)
+                    self.positions.append(where)
+            fg_cause = sample.fg_cause
+            inherited = fg_cause.inherited_from if fg_cause is not None else None
+            inherited = _rebaser(inherited, old_base, rel) if inherited else (0, inherited)
+            layers = tuple(_rebaser(layer.xpath, old_base, rel) for layer in sample.bg_layers) \
+                if sample.bg_layers else None
+            self.entries.append((rel + below, slot, sample.text, inherited, layers))
+            self.situations.append((finding, key, situation_id(key)))
+
+    def place(self, stamp: Stamp, numbers, out: list) -> None:
+        """Append the record ``(number,) + place`` of every finding placed at ``stamp`` to
+        ``out``; ``numbers``: the number of each finding's situation, in order."""
+        anchor, new_base = stamp.anchor, stamp.new_base
+        lines = []
+        for where in self.positions:
+            el = anchor
+            for i in where:
+                el = el[i]
+            lines.append(el.sourceline or 0)
+        lines.append(0)  # slot -1: a sample recorded without a line
+        for (rel, slot, text, inherited, layers), n in zip(self.entries, numbers):
+            if layers is not None:
+                layers = tuple(_rebased(spec, new_base) for spec in layers)
+            kind = inherited[0]
+            out.append((n, new_base + rel, lines[slot], text,
+                        inherited[1] if kind == 0 else new_base + inherited[1] if kind == 1
+                        else _rebased(inherited, new_base), layers, None))
+
+
+def _positions(anchor, el) -> tuple:
+    """Child positions leading from ``anchor`` down to ``el`` (a descendant or itself)."""
+    out = []
+    while el is not anchor:
+        parent = el.getparent()
+        out.append(parent.index(el))
+        el = parent
+    return tuple(reversed(out))
+
+
+def _rebaser(xpath, old_base: str, rel: str) -> tuple:
+    """How ``rebase(xpath, old_base, new_base + rel)`` depends on ``new_base``: (0, result)
+    when it does not, (1, suffix) for ``new_base + suffix``, (2, rel, levels) for an ancestor."""
+    if not xpath:
+        return (0, xpath)
+    if xpath == old_base:
+        return (1, rel)
+    rest = xpath[len(old_base):]
+    if xpath.startswith(old_base) and rest[:1] in ("/", ":"):
+        return (1, rel + rest)
+    if old_base.startswith(xpath) and old_base[len(xpath):len(xpath) + 1] == "/":
+        return (2, rel, old_base.count("/") - xpath.count("/"))
+    return (0, xpath)
+
+
+def _rebased(spec: tuple, new_base: str):
+    if spec[0] == 0:
+        return spec[1]
+    if spec[0] == 1:
+        return new_base + spec[1]
+    return (new_base + spec[1]).rsplit("/", spec[2])[0] or "/"
 
 
 def materialize(fragment: Fragment, stamp: Stamp, out: list) -> None:

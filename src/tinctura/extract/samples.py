@@ -174,6 +174,8 @@ class PageWalker:
         self.rest = {}  # (xpath, kind) -> (fg, bg) of resting samples, for the state walks
         self._svg_shapes = {}
         self._path_memo = {}
+        self._causes = {}  # (id(cause), inherited-from XPath) -> (Cause, the cause kept alive)
+        self._own_texts = self.structure.texts
         self._recording = []  # open recordings, innermost last
         self.collect = bool(states and self.index.dynamic_rules)
         self._getpath = self.structure.path
@@ -188,10 +190,11 @@ class PageWalker:
         return self.samples
 
     def _run_states(self, targets):
+        can_matter = self.index.state_can_matter
+        targets = [(el, kid) for el, kid in targets if can_matter(el)]  # once for every state
         for state, on_self, on_path in STATES:
             for el, kid in targets:
-                if self.index.state_can_matter(el):
-                    self._state_shared(el, kid, state, on_self, on_path, self.rest)
+                self._state_shared(el, kid, state, on_self, on_path, self.rest)
         self.state = REST
 
     def _open_scope(self, el, key_id, is_root):
@@ -243,23 +246,37 @@ class PageWalker:
 
     def _walk(self, stack, rest=False):
         key = self._key
+        # the common paths inlined (a page walks thousands of elements): a cached style,
+        # a known children list, an interned key
+        styles = self.cache.styles
+        kids = self.structure.kids
+        ids = None if self.uncached else self.cache.ids
         children_of = self.structure.children
         meta = self.meta
         collect = rest and self.collect
+        memo = self.memo
         while stack:
             item = stack.pop()
             el = item[0]
             if el is None:
-                self._close_scope(item[1])
+                scope = item[1]
+                if scope[0] is not None or len(self.interactive) > scope[1]:
+                    self._close_scope(scope)
                 continue
             _, parent_style, key_id, is_root, chain, scopable = item
-            tag = el.tag.lower() if isinstance(el.tag, str) else ""
+            tag = el.tag
+            tag = tag.lower() if isinstance(tag, str) else ""
             if rest and scopable and tag in SCOPE_TAGS and len(el):
-                scope = self._open_scope(el, key_id, is_root)
-                if scope is None:
-                    continue  # replayed
-                stack.append((None, scope))
-            style = self.style_for(el, parent_style, key_id, is_root)
+                if memo is None or is_root:  # a scope without replay: states only
+                    stack.append((None, (None, len(self.interactive))))
+                else:
+                    scope = self._open_scope(el, key_id, is_root)
+                    if scope is None:
+                        continue  # replayed
+                    stack.append((None, scope))
+            style = None if is_root else styles.get(key_id)
+            if style is None:
+                style = self.style_for(el, parent_style, key_id, is_root)
             if is_root:
                 self.canvas = self._canvas(style)
             if style.display == "none":
@@ -277,13 +294,19 @@ class PageWalker:
             self._texts(el, tag, style, chain, key_id)
             if tag in nontext_mod.TAGS:  # SC 1.4.11: boundaries, focus rings, icons
                 nontext_mod.emit(self, el, tag, style, chain)
-            children = children_of(el)
+            if not len(el):  # a leaf (most elements of highlighted code)
+                continue
+            children = kids.get(el)
+            if children is None:
+                children = children_of(el)
             if not children:
                 continue
             scopable = scopable and not focusable and tag != "svg"
             items = []
             for child, element_id, siblings in children:
-                cid = key(key_id, element_id)
+                cid = ids.get((key_id, element_id)) if ids is not None else None
+                if cid is None:
+                    cid = key(key_id, element_id)
                 if collect:
                     meta[child] = (siblings, cid)
                 items.append((child, style, cid, False, chain, scopable))
@@ -372,12 +395,16 @@ class PageWalker:
 
     # -- samples ---------------------------------------------------------------------------
     def _texts(self, el, tag, style, chain, key_id):
-        if tag in NO_TEXT and tag != "input":
+        if tag in NO_TEXT:
             if tag == "textarea" or tag == "select":
                 return
-        text = self.structure.text(el) if tag not in NO_TEXT else ""
-        if text:
-            self.texts[el] = text
+            text = ""
+        else:
+            text = self._own_texts.get(el)
+            if text is None:
+                text = self.structure.text(el)
+            if text:
+                self.texts[el] = text
         if style.pseudo:
             for pseudo in ("before", "after"):
                 ps = style.pseudo.get(pseudo)
@@ -459,8 +486,13 @@ class PageWalker:
         if self.collect and self.state == REST:
             self.rest[(xpath, kind)] = (fg, bg)
         if inherited_at is not None:
-            fg_cause = Cause(fg_cause.declaration, _path_at(chain, inherited_at, getpath),
-                             fg_cause.chain)
+            # texts inheriting from one ancestor share one (immutable) Cause
+            at = _path_at(chain, inherited_at, getpath)
+            shared = self._causes.get((id(fg_cause), at))
+            if shared is None:
+                shared = self._causes[(id(fg_cause), at)] = (
+                    Cause(fg_cause.declaration, at, fg_cause.chain), fg_cause)
+            fg_cause = shared[0]
         layers = tuple(Layer(_path_at(chain, at, getpath), kind_, colour, cause)
                        for at, kind_, colour, cause in layers) if self.keep_layers else ()
         decisions = self.exemptions

@@ -27,7 +27,9 @@ from __future__ import annotations
 
 import re
 
+import cssselect2
 import tinycss2
+from lxml import etree
 
 MEMO_LIMIT = 50000
 STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type|last-of-type|"
@@ -181,6 +183,10 @@ class SiblingIndex:
         self.by_parent = _Buckets()  # universal compounds (`P > :first-child`), by the parent
         self.free = []  # universal compounds without a parent requirement
         self._memo = {}
+        self._universal = {}  # parent's (tag, class, id) -> universal compounds it may meet
+        self._satisfied = {}  # (ancestry number, id(compound)) -> _Ancestry.satisfies
+        self._chain_ids = {}  # (parent's ancestry number, tag, class, id) -> ancestry number
+        self._next_chain = 0
         for rule in rules:
             text = rule.selector_text
             if not (STRUCTURAL.search(text) or "+" in text or "~" in text):
@@ -197,33 +203,79 @@ class SiblingIndex:
                 else:
                     self.free.append(c)
 
-    def needs_children(self, parent, children) -> list | None:
+    def needs_children(self, parent, children, chains=None) -> list | None:
         """For each child of ``parent``, what of its siblings selectors read (0: nothing);
-        None when no child needs anything."""
+        None when no child needs anything. ``chains``: a page's element -> ancestry number
+        (``_chain_id``), so that whether a compound's parent and ancestors can match is
+        worked out once per distinct ancestry, not once per parent element."""
         if self.any:
             return [FULL] * len(children)
-        context = _Ancestry(parent)
-        every = self._every_child(parent, context)
+        pkey = (parent.tag, parent.get("class"), parent.get("id"))
+        universal = self._universal.get(pkey)
+        if universal is None:
+            if len(self._universal) > MEMO_LIMIT:
+                self._universal.clear()
+            tag, classes, ident = _facts(parent)
+            universal = self._universal[pkey] = (
+                *self.by_parent.matches(tag, classes, ident), *self.free)
         candidates = [self._candidates(el) for el in children]
-        if not every and not any(candidates):
+        if not universal and not any(candidates):
             return None
+        context = _Ancestry(parent)
+        if chains is None:
+            satisfies = context.satisfies
+        else:
+            satisfies = self._satisfies_memo(self._chain_id(parent, chains), context)
+        every = 0
+        for c in universal:
+            if (every & c.needs) != c.needs and satisfies(c):
+                every |= c.needs
         out = []
         for found in candidates:
             need = every
             for c in found:
-                if (need & c.needs) != c.needs and context.satisfies(c):
+                if (need & c.needs) != c.needs and satisfies(c):
                     need |= c.needs
             out.append(need)
         return out if any(out) else None
 
-    def _every_child(self, parent, context) -> int:
-        """What universal compounds read of every child of ``parent``."""
-        need = 0
-        tag, classes, ident = _facts(parent)
-        for c in [*self.by_parent.matches(tag, classes, ident), *self.free]:
-            if (need & c.needs) != c.needs and context.satisfies(c):
-                need |= c.needs
-        return need
+    def _satisfies_memo(self, chain_id: int, context):
+        memo = self._satisfied
+
+        def satisfies(c) -> bool:
+            key = (chain_id, id(c))
+            hit = memo.get(key)
+            if hit is None:
+                if len(memo) > MEMO_LIMIT:
+                    memo.clear()
+                hit = memo[key] = context.satisfies(c)
+            return hit
+        return satisfies
+
+    def _chain_id(self, el, chains: dict) -> int:
+        """A number for the tags, classes and ids of ``el`` and its ancestors (all that
+        ``_Ancestry.satisfies`` reads), equal for equal ancestries across pages."""
+        found = chains.get(el)
+        if found is not None:
+            return found
+        path, base = [el], 0
+        for up in el.iterancestors():
+            known = chains.get(up)
+            if known is not None:
+                base = known
+                break
+            path.append(up)
+        ids = self._chain_ids
+        for node in reversed(path):
+            key = (base, node.tag, node.get("class"), node.get("id"))
+            ident = ids.get(key)
+            if ident is None:
+                if len(ids) > MEMO_LIMIT:  # numbers are never reused
+                    ids.clear()
+                self._next_chain += 1
+                ident = ids[key] = self._next_chain
+            chains[node] = base = ident
+        return base
 
     def _candidates(self, el) -> tuple:
         """The sibling-reading compounds ``el`` itself could match (tag, classes, id)."""
@@ -250,6 +302,8 @@ class HasIndex:
         self.usable = True
         self.active = False
         self._memo = {}
+        self._answers = {}  # (compounds, serialization length, hash) -> answers
+        self._simple = {}  # compound text -> _simple_has(compound text)
         seen = {}
         for rule in rules:
             text = rule.selector_text
@@ -268,6 +322,7 @@ class HasIndex:
                     return
                 seen[compound] = compiled.test
                 self.own.add(req, (compound, compiled.test))
+                self._simple[compound] = _simple_has(compound)
                 self.active = True
 
     def candidates(self, el) -> tuple:
@@ -291,6 +346,73 @@ class HasIndex:
     def answers(candidates, wrapper) -> tuple:
         """Whether each candidate compound matches the element (its cssselect2 wrapper)."""
         return tuple(test(wrapper) for _, test in candidates)
+
+    def answers_of(self, el, candidates, wrapper_of) -> tuple:
+        """``answers`` for ``el``. A compound ``A:has(B)`` or ``A:has(> B)`` whose parts test
+        only the element they apply to (tag, classes, id, attributes) is answered by testing
+        ``A`` on ``el`` and ``B`` on the descendants (children) lxml finds with ``B``'s tag:
+        cssselect2's own test builds a wrapper for every element of the subtree. Others are
+        remembered by the element's serialization where every candidate reads only the
+        element and its subtree (no pseudo-class but ``:has()`` itself)."""
+        simple = self._simple
+        if all(simple.get(text) is not None for text, _ in candidates):
+            return tuple(_has_simple(el, simple[text]) for text, _ in candidates)
+        if not all(_reads_subtree_only(text) for text, _ in candidates):
+            return self.answers(candidates, wrapper_of(el))
+        data = etree.tostring(el, with_tail=False, encoding="utf-8")
+        key = (tuple(text for text, _ in candidates), len(data), hash(data))
+        hit = self._answers.get(key)
+        if hit is None:
+            if len(self._answers) > MEMO_LIMIT:
+                self._answers.clear()
+            hit = self._answers[key] = self.answers(candidates, wrapper_of(el))
+        return hit
+
+
+def _simple_has(compound: str):
+    """``(test of A, child only, test of B, B's tag or None)`` for ``A:has(B)`` or
+    ``A:has(> B)`` where A and B are compounds without pseudo-classes; None otherwise."""
+    from .sheet import compile_one
+
+    lower = compound.lower()
+    at = lower.find(":has(")
+    if at < 0 or lower.count(":has(") != 1 or not compound.rstrip().endswith(")"):
+        return None
+    outer, arg = compound[:at], compound[at + 5:compound.rstrip().rindex(")")]
+    child = arg.strip().startswith(">")
+    arg = arg.strip()[1:].strip() if child else arg.strip()
+    if not outer or not arg or any(c in outer + arg for c in ":(),>+~ \t\n\r\f\\"):
+        return None
+    outer_test, dynamic = compile_one(outer)
+    arg_test, arg_dynamic = compile_one(arg)
+    if outer_test is None or arg_test is None or dynamic or arg_dynamic:
+        return None
+    tag = _requirements(tinycss2.parse_component_value_list(arg)).tag
+    return (outer_test.test, child, arg_test.test, tag if tag not in (None, "*") else None)
+
+
+def _lone(el):
+    """A cssselect2 wrapper of ``el`` alone: enough for a compound that tests only it."""
+    return cssselect2.ElementWrapper(el, parent=None, index=0, previous=None,
+                                     in_html_document=True)
+
+
+def _has_simple(el, spec) -> bool:
+    outer, child, arg, tag = spec
+    if not outer(_lone(el)):
+        return False
+    if child:
+        items = el.iterchildren("{*}" + tag) if tag else el.iterchildren()
+    else:
+        items = el.iterdescendants("{*}" + tag) if tag else el.iterdescendants()
+    return any(isinstance(d.tag, str) and arg(_lone(d)) for d in items)
+
+
+def _reads_subtree_only(compound: str) -> bool:
+    """A ``:has()`` compound whose only pseudo-class is ``:has()`` and whose arguments use no
+    sibling combinator (``has_compounds`` refuses those) reads nothing outside the element's
+    subtree."""
+    return ":" not in compound.lower().replace(":has(", "(")
 
 
 class _Ancestry:

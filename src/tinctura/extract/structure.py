@@ -15,6 +15,7 @@ from .html import own_text
 from .siblings import FIRST, FULL, INDEX, LAST, TYPE
 
 LIMIT = 60000
+HAS_SUBTREE = -1  # in Structure.raw_ids: an element whose id depends on its subtree
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
 # needs wrappers of its own.
 WRAPPER_CACHED = frozenset({"class", "id", "lang", "xml:lang"})
@@ -70,34 +71,36 @@ class Structure:
                 # a :has() compound reads the subtree: whether it matches is in the identity
                 if wrapper_of is None:
                     wrapper_of = _standalone_wrapper
-                answers = self.has.answers(candidates, wrapper_of(el))
+                answers = self.has.answers_of(el, candidates, wrapper_of)
                 return self.intern((el.tag, attrs, siblings, empty, answers))
         if siblings:
             return self.intern((el.tag, attrs, siblings, empty))
         return self.intern((el.tag, attrs, empty))
 
-    def children(self, el, wrapper_of=None) -> list:
+    def children(self, el, wrapper_of=None, chains=None) -> list:
         """``(child, structural id, sibling facts)`` for the child elements of ``el``; the
         sibling facts are what sibling-reading selectors need of its place (0 where none
-        can reach it). ``wrapper_of``: as for ``element_id``."""
+        can reach it). ``wrapper_of``: as for ``element_id``; ``chains``: the page's
+        ancestry numbers (``SiblingIndex.needs_children``)."""
         children = [c for c in el if isinstance(c.tag, str)]
         if not children:
             return children
-        needs = self.siblings.needs_children(el, children)
+        needs = self.siblings.needs_children(el, children, chains)
         has = self.has
         if needs is None:  # the common case: tag, attributes and emptiness decide
             raw_ids, out = self.raw_ids, []
             for cel in children:
-                if has is not None and has.could_match(cel):
-                    out.append((cel, self._id(cel, self.attrs(cel), 0, wrapper_of), 0))
-                    continue
-                raw = (cel.tag, tuple(cel.attrib.items()),
-                       not len(cel) and not (cel.text or "").strip())
+                raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
                 ident = raw_ids.get(raw)
                 if ident is None:
                     if len(raw_ids) > LIMIT:
                         raw_ids.clear()
-                    ident = raw_ids[raw] = self.intern((raw[0], self.attrs(cel), raw[2]))
+                    # HAS_SUBTREE: a :has() compound may match; its answers are per subtree
+                    ident = raw_ids[raw] = HAS_SUBTREE \
+                        if has is not None and has.could_match(cel) \
+                        else self.intern((raw[0], self.attrs(cel), raw[2]))
+                if ident == HAS_SUBTREE:
+                    ident = self._id(cel, self.attrs(cel), 0, wrapper_of)
                 out.append((cel, ident, 0))
             return out
         facts = self._sibling_facts(children, needs)
@@ -160,12 +163,14 @@ def _standalone_wrapper(el):
 def steps(children) -> list:
     """The last XPath step of each child, as lxml's ``getpath`` writes it: the tag, with the
     position among same-tag siblings when there are several."""
+    tags = [c.tag for c in children]
+    if len(set(tags)) == len(tags):  # no two alike: no positions
+        return tags
     count = {}
-    for c in children:
-        count[c.tag] = count.get(c.tag, 0) + 1
+    for tag in tags:
+        count[tag] = count.get(tag, 0) + 1
     seen, out = {}, []
-    for c in children:
-        tag = c.tag
+    for tag in tags:
         if count[tag] == 1:
             out.append(tag)
         else:
@@ -184,6 +189,7 @@ class PageStructure:
         self.structure = structure
         self.kids = {}  # element -> Structure.children(element)
         self.texts = {}  # element -> its own text
+        self.chains = {}  # element -> ancestry number (siblings.SiblingIndex._chain_id)
         # element -> XPath, filled as children lists are made (lxml's getpath rescans every
         # level's siblings: a tenth of all the work on a large page)
         self.paths = {root: "/" + root.tag}
@@ -219,14 +225,15 @@ class PageStructure:
     def children(self, el) -> list:
         kids = self.kids.get(el)
         if kids is None:
-            kids = self.kids[el] = self.structure.children(el, self.wrapper_of)
+            kids = self.kids[el] = self.structure.children(el, self.wrapper_of, self.chains)
             if kids:
                 paths = self.paths
                 base = paths.get(el)
                 if base is None:
                     base = paths[el] = self._getpath(el)
+                base += "/"
                 for (child, *_), step in zip(kids, steps([k[0] for k in kids])):
-                    paths[child] = f"{base}/{step}"
+                    paths[child] = base + step
         return kids
 
     def path(self, el) -> str:
@@ -243,6 +250,7 @@ class PageStructure:
         """A scheme set ``attributes`` on ``elements``: forget what read them."""
         if not elements:
             return
+        self.chains.clear()  # they read classes and ids
         if WRAPPER_CACHED & {a.lower() for a in attributes}:
             self._reset_wrappers()
             self.kids.clear()
