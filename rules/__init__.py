@@ -25,6 +25,9 @@ CHECKS = {
 # Rules that compare colours across a whole site: ``run`` leaves them out (it judges one page or
 # fragment); the engine gathers palette uses and calls ``run_site`` once, at the end.
 SITE_LEVEL = frozenset({"TC300", "TC310"})
+# Rules whose models come from colour-science (CIECAM02, Machado 2009 matrices): a run of them
+# imports it once before starting worker processes, which then share it
+USES_COLOUR_SCIENCE = frozenset({"TC300", "TC310", "TC400"})
 
 
 def get(name: str) -> Rule:

@@ -648,6 +648,7 @@ class PagePool:
         import threading
 
         ctx = multiprocessing.get_context("fork")
+        _preload(options)
         self._pool = ctx.Pool(workers, initializer=_worker_init, initargs=(root, options, True))
         self._pending = []
         self._limit = 2 * workers  # pages waiting in the queue, each holding its HTML
@@ -710,6 +711,17 @@ def _relax_gc() -> tuple:
 GC_THRESHOLD = 50000
 
 
+def _preload(options) -> None:
+    """Before forking workers: import what every worker would import for itself (the workers
+    share the parent's copy, and a site-level rule in the parent needs it too)."""
+    from . import rules
+
+    if {r.code for r in rules.selected(options.rules or ())} & rules.USES_COLOUR_SCIENCE:
+        from .colour import colour_science
+
+        colour_science()
+
+
 def _site_pages(site, pages, options, judged):
     jobs = max(1, int(options.jobs or 1))
     if jobs == 1 or len(pages) < 2 * jobs:
@@ -719,6 +731,7 @@ def _site_pages(site, pages, options, judged):
         return
     import multiprocessing
 
+    _preload(options)
     chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if hasattr(os, "fork") else "spawn")
     with ctx.Pool(jobs, initializer=_worker_init, initargs=(site.root, options, judged)) as pool:

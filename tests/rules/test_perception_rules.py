@@ -148,3 +148,18 @@ def test_one_colour_simulation_equals_the_batched_one():
         batch = cvd.simulate(np.array(colours), deficiency, 0.6)
         one = [appearance._simulate_one(c, appearance._matrix(deficiency, 0.6)) for c in colours]
         assert np.allclose(batch, one, atol=1e-12)
+
+
+def test_colour_science_is_imported_before_workers_only_for_the_rules_that_use_it():
+    """With worker processes, the parent imports colour-science once before forking them
+    (they share it) when a rule that uses it runs, and never otherwise."""
+    import subprocess
+    import sys
+
+    code = ("import sys; from tinctura import engine\n"
+            "engine._preload(engine.Options(rules={rules}))\n"
+            "print('colour' in sys.modules)\n")
+    seen = [subprocess.run([sys.executable, "-c", code.format(rules=rules)], capture_output=True,
+                           text=True, timeout=120).stdout.strip()
+            for rules in (("TC100", "TC200", "TC500"), ("TC400",), ())]
+    assert seen == ["False", "True", "True"]

@@ -47,3 +47,15 @@ __all__ = [
     "required_ratio", "srgb_to_linear", "srgb_to_oklab", "srgb_to_oklch", "system_colour",
     "to_hex", "to_hex8", "to_srgb", "truncate", "with_alpha",
 ]
+
+
+def colour_science():
+    """The colour-science package, imported on first use (about half a second and 70 MB: a
+    run whose rules do not need it never pays them), its warnings about optional plotting
+    packages silenced."""
+    import warnings
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        import colour
+    return colour

@@ -91,7 +91,9 @@ def appearance(colours, backgrounds, conditions: ViewingConditions = DEFAULT):
     Returns colour-science's specification (J, C, h, s, Q, M, H as arrays). colour-science is
     imported here, on first use: a run without appearance rules never pays its import.
     """
-    colour = _colour_science()
+    from . import colour_science
+
+    colour = colour_science()
     xyz = np.atleast_2d(srgb_to_xyz(colours))
     bg = np.atleast_2d(srgb_to_xyz(backgrounds))
     white = adopted_white(bg, conditions.background_weight)
@@ -99,12 +101,3 @@ def appearance(colours, backgrounds, conditions: ViewingConditions = DEFAULT):
     surround = colour.VIEWING_CONDITIONS_CIECAM02[conditions.surround]
     l_a = np.full(len(xyz), conditions.adapting_luminance)
     return colour.XYZ_to_CIECAM02(xyz, white, l_a, y_b, surround)
-
-
-def _colour_science():
-    import warnings
-
-    with warnings.catch_warnings():  # it warns about optional plotting packages
-        warnings.simplefilter("ignore")
-        import colour
-    return colour

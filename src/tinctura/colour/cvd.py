@@ -45,11 +45,12 @@ def matrix(deficiency: str, severity: float = 1.0) -> np.ndarray:
         raise ValueError(f"severity must lie in 0..1, got {severity}")
     import warnings
 
-    with warnings.catch_warnings():  # colour-science warns about optional plotting packages
-        warnings.simplefilter("ignore")
-        import colour  # lazy: see the module docstring
+    from . import colour_science  # lazy: see the module docstring
 
-        m = colour.blindness.matrix_cvd_Machado2009(DEFICIENCIES[deficiency], severity)
+    with warnings.catch_warnings():  # (it warns that its tritan matrices are approximations)
+        warnings.simplefilter("ignore")
+        m = colour_science().blindness.matrix_cvd_Machado2009(DEFICIENCIES[deficiency],
+                                                              severity)
     m = np.array(m, dtype=float)
     m.setflags(write=False)
     return m
