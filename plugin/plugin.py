@@ -181,19 +181,25 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.digests[rel] = key
         else:
             self.check(rel, html, key)
+        for done in self.pool.ready():  # to disk as they come: memory holds a few pages
+            self.take(*done)
 
     def collect(self) -> None:
         """Results of the pages checked in workers; a page whose check failed is reported."""
         if self.pool is None:
             return
         pool, self.pool = self.pool, None
-        for rel, outcome in pool.results():
-            key = self.digests.pop(rel, None)
-            if isinstance(outcome, Exception):
-                log.info(f"{rel}: a worker failed ({outcome!r}); checking it here")
-                self.check(rel, None, key)  # the page is on disk by now
-                continue
-            self.keep(rel, key, outcome)
+        for done in pool.results():
+            self.take(*done)
+
+    def take(self, rel: str, outcome) -> None:
+        """A worker's answer for ``rel``: kept, or the page checked here when it failed."""
+        key = self.digests.pop(rel, None)
+        if isinstance(outcome, Exception):
+            log.info(f"{rel}: a worker failed ({outcome!r}); checking it here")
+            self.check(rel, None, key)  # the page is on disk by now
+            return
+        self.keep(rel, key, outcome)
 
     # -- events ----------------------------------------------------------------------------
 
@@ -265,7 +271,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         then the site-level rules), as ``tinctura check`` does: ``(problems, store, gate,
         the gate's diagnostics)``."""
         gate = self.make_gate()
-        store, collector, notes = FindingStore(), problems.Collector(), []
+        store, collector, notes = FindingStore(), problems.Collector(keep_indexes=False), []
         uses, palette = {}, {}
         for r in records:
             rel = r.result.page

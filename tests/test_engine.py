@@ -94,3 +94,24 @@ def test_deep_nesting_keeps_the_content_and_says_so(tmp_path):
     (page,) = report.pages
     assert any("nested more than 256 levels" in d.message for d in page.diagnostics)
     assert "deep" in {s.text for s in page.samples}
+
+
+def test_page_pool_hands_answers_over_as_they_come_in_order(site):
+    """The plugin takes workers' answers while it submits more (so it never holds the whole
+    site's findings): each page once, in submission order, the rest at the end."""
+    import time
+
+    from tinctura.engine import PagePool, can_fork
+
+    if not can_fork():
+        pytest.skip("worker processes need fork")
+    pool = PagePool(str(site), Options(keep_samples=False), 2)
+    names = [f"p{n}/index.html" for n in range(4)]
+    for rel in names:
+        assert pool.submit(rel, (site / rel).read_text())
+    got, deadline = [], time.monotonic() + 60
+    while len(got) < 2 and time.monotonic() < deadline:
+        got.extend(rel for rel, _ in pool.ready())
+        time.sleep(0.05)
+    got.extend(rel for rel, _ in pool.results())
+    assert got == names

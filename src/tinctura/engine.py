@@ -669,6 +669,19 @@ class PagePool:
             error_callback=self._finished)))
         return True
 
+    def ready(self):
+        """``(rel, result or exception)`` of the pages answered so far, oldest first, in
+        submission order (each given once): a caller that takes them as it goes holds no
+        more than a few pages' results."""
+        while self._pending and self._pending[0][1].ready():
+            rel, pending = self._pending.pop(0)
+            with self._lock:  # counted by _finished (run before ready() turns true)
+                self._done -= 1
+            try:
+                yield rel, pending.get(timeout=0)
+            except Exception as exc:  # the page, not the build, failed
+                yield rel, exc
+
     def results(self):
         try:
             for rel, pending in self._pending:

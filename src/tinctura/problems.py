@@ -203,7 +203,10 @@ class Collector:
 
     EXAMPLES = 3  # as many as a report shows (text_report.EXAMPLES)
 
-    def __init__(self):
+    def __init__(self, keep_indexes: bool = True):
+        # each finding's index in the run (a problem of the flat JSON layout lists them): 8
+        # bytes a finding, so left out when no report reads them
+        self.keep_indexes = keep_indexes
         self._buckets: dict = {}  # problem key -> Problem
         self._pages: dict = {}  # problem key -> its pages
         self._seen: dict = {}  # problem key -> findings seen so far
@@ -221,7 +224,8 @@ class Collector:
         if key is not None:
             p = self._buckets[key]
             p.count += 1
-            p.indexes.append(index)
+            if p.indexes is not None:
+                p.indexes.append(index)
             p.schemes[finding.sample.scheme].count += 1  # a known situation: same scheme, ratio
             self._note_page(key, p, finding.sample.page, lambda: finding)
             return
@@ -236,11 +240,13 @@ class Collector:
                 rule=finding.rule, slug=finding.slug, severity=finding.severity,
                 scheme=s.scheme, fg_cause=s.fg_cause, bg_cause=s.bg_cause, pages=0,
                 worst_ratio=finding.ratio, required=finding.required, count=0,
-                worst_finding=finding, candidates=[], indexes=array("L"), backgrounds={})
+                worst_finding=finding, candidates=[],
+                indexes=array("L") if self.keep_indexes else None, backgrounds={})
             self._pages[key] = set()
             self._seen[key] = 0
         p.count += 1
-        p.indexes.append(index)
+        if p.indexes is not None:
+            p.indexes.append(index)
         _add_scheme(p, finding)
         if SEVERITY_RANK.get(finding.severity, 9) < SEVERITY_RANK.get(p.severity, 9):
             p.severity = finding.severity
@@ -267,7 +273,8 @@ class Collector:
             p = buckets[key]
             p.count += 1
             p.schemes[templates[r[0]].sample.scheme].count += 1
-            p.indexes.append(self._count if index is None else index)
+            if p.indexes is not None:
+                p.indexes.append(self._count if index is None else index)
             self._count += 1
             self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
 
@@ -289,7 +296,8 @@ class Collector:
             fast[0].append(start + n)
         for sid, (at, p, figures) in settled.items():
             if at:
-                p.indexes.extend(at)
+                if p.indexes is not None:
+                    p.indexes.extend(at)
                 p.count += len(at)
                 figures.count += len(at)
                 self._seen[self._situations[sid]] += len(at)
@@ -328,7 +336,8 @@ class Collector:
         out = []
         for key, p in self._buckets.items():
             p.pages = len(self._pages[key])
-            p.indexes = array("L", sorted(p.indexes))  # add_page counts some ahead of others
+            if p.indexes is not None:  # add_page counts some ahead of others
+                p.indexes = array("L", sorted(p.indexes))
             p.fix_at_cause = fix_at_cause(p, uses)
             out.append(p)
         out.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
