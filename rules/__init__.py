@@ -25,9 +25,6 @@ CHECKS = {
 # Rules that compare colours across a whole site: ``run`` leaves them out (it judges one page or
 # fragment); the engine gathers palette uses and calls ``run_site`` once, at the end.
 SITE_LEVEL = frozenset({"TC300", "TC310"})
-# Rules whose models come from colour-science (CIECAM02, Machado 2009 matrices): a run of them
-# imports it once before starting worker processes, which then share it
-USES_COLOUR_SCIENCE = frozenset({"TC300", "TC310", "TC400"})
 
 
 def get(name: str) -> Rule:
@@ -76,6 +73,16 @@ def run(samples, options) -> list:
         if rule.code not in SITE_LEVEL:
             findings.extend(CHECKS[rule.code](samples, options))
     return with_severity(findings, getattr(options, "severity", ()))
+
+
+def workers_import_library(options) -> bool:
+    """Whether the page-level rules of a run will import colour-science: TC400 simulating at a
+    severity other than the dichromat matrices it keeps (the site-level rules, which may use
+    it too, run once in the main process)."""
+    from tinctura.colour import cvd
+
+    chosen = {r.code for r in selected(getattr(options, "rules", ()) or ())}
+    return "TC400" in chosen and cvd.needs_library(getattr(options, "cvd_severity", 1.0))
 
 
 def run_site(uses: dict, options) -> list:

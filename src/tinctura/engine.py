@@ -725,11 +725,11 @@ GC_THRESHOLD = 50000
 
 
 def _preload(options) -> None:
-    """Before forking workers: import what every worker would import for itself (the workers
-    share the parent's copy, and a site-level rule in the parent needs it too)."""
+    """Before forking workers: import what every worker would import for itself (they then
+    share the parent's copy)."""
     from . import rules
 
-    if {r.code for r in rules.selected(options.rules or ())} & rules.USES_COLOUR_SCIENCE:
+    if rules.workers_import_library(options):
         from .colour import colour_science
 
         colour_science()

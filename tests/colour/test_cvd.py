@@ -37,6 +37,21 @@ def test_matches_colour_science_on_a_batch():
             np.testing.assert_allclose(cvd.simulate(rgb, name, severity), want, atol=1e-9)
 
 
+def test_dichromats_need_no_library_other_severities_do():
+    """The severity-1 matrices are kept here (the published table, compared with colour-science
+    above): simulating them never imports colour-science, any other severity does."""
+    import subprocess
+    import sys
+
+    code = ("import sys; from tinctura.colour import cvd\n"
+            "cvd.simulate_one((1.0, 0.2, 0.2), 'protanopia', {severity})\n"
+            "print('colour' in sys.modules)\n")
+    seen = [subprocess.run([sys.executable, "-c", code.format(severity=severity)],
+                           capture_output=True, text=True, timeout=120).stdout.strip()
+            for severity in (1.0, 0.6)]
+    assert seen == ["False", "True"]
+
+
 def test_severity_zero_is_normal_vision():
     # Machado et al. 2009: severity 0 is the identity (normal trichromacy).
     rgb = np.array([[0.8, 0.2, 0.1], [0.1, 0.6, 0.3]])

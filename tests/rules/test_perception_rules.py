@@ -135,7 +135,8 @@ def test_tc100_only_run_does_not_import_colour_science(tmp_path):
 
     assert run_with(("TC100", "TC200", "TC500"))[1] == "False"
     assert run_with(("TC100",))[1] == "False"
-    assert run_with(())[1] == "True"  # all rules: TC400 simulates the red text
+    # all rules: TC400 simulates the red text with the dichromat matrices it keeps
+    assert run_with(())[1] == "False"
 
 
 def test_one_colour_simulation_equals_the_batched_one():
@@ -152,14 +153,16 @@ def test_one_colour_simulation_equals_the_batched_one():
 
 def test_colour_science_is_imported_before_workers_only_for_the_rules_that_use_it():
     """With worker processes, the parent imports colour-science once before forking them
-    (they share it) when a rule that uses it runs, and never otherwise."""
+    (they share it) when TC400 will need it (a severity other than the dichromat matrices it
+    keeps), and never otherwise."""
     import subprocess
     import sys
 
     code = ("import sys; from tinctura import engine\n"
-            "engine._preload(engine.Options(rules={rules}))\n"
+            "engine._preload(engine.Options(rules={rules}, cvd_severity={severity}))\n"
             "print('colour' in sys.modules)\n")
-    seen = [subprocess.run([sys.executable, "-c", code.format(rules=rules)], capture_output=True,
-                           text=True, timeout=120).stdout.strip()
-            for rules in (("TC100", "TC200", "TC500"), ("TC400",), ())]
-    assert seen == ["False", "True", "True"]
+    seen = [subprocess.run([sys.executable, "-c", code.format(rules=rules, severity=severity)],
+                           capture_output=True, text=True, timeout=120).stdout.strip()
+            for rules, severity in ((("TC100", "TC200", "TC500"), 0.5), (("TC400",), 1.0),
+                                    (("TC400",), 0.5), ((), 0.5))]
+    assert seen == ["False", "False", "True", "True"]
