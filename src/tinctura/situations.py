@@ -124,18 +124,22 @@ class PageFindings:
         # a template object always comes with the same key: its number is found once a page
         by_object = {}
 
+        def number(key, make) -> int:
+            """The page's number of situation ``key``; ``make()`` gives its template."""
+            n = index.get(key)
+            if n is None:
+                n = index[key] = len(templates)
+                templates.append(make())
+                tkeys.append(key)
+            return n
+
         for s, k, found in judged:
             for t in found:
                 own = t.sample is s
                 n = by_object.get(id(t))
                 if n is None:
-                    key = (t.rule, k)
-                    n = index.get(key)
-                    if n is None:
-                        n = index[key] = len(templates)
-                        templates.append(t if own else occurrence(t, s))
-                        tkeys.append(key)
-                    by_object[id(t)] = n
+                    n = by_object[id(t)] = number(
+                        (t.rule, k), lambda t=t, s=s, own=own: t if own else occurrence(t, s))
                 if own:
                     records.append((n,) + place(t))
                     continue
@@ -147,21 +151,11 @@ class PageFindings:
         if keys is None:
             keys = [finding_key(f) for f in findings]
         for f, key in zip(findings, keys):
-            n = index.get(key)
-            if n is None:
-                n = index[key] = len(templates)
-                templates.append(f)
-                tkeys.append(key)
-            records.append((n,) + place(f))
+            records.append((number(key, lambda f=f: f),) + place(f))
         for template, key, where in more:
             n = by_object.get(id(template))
             if n is None:
-                n = index.get(key)
-                if n is None:
-                    n = index[key] = len(templates)
-                    templates.append(template)
-                    tkeys.append(key)
-                by_object[id(template)] = n
+                n = by_object[id(template)] = number(key, lambda t=template: t)
             records.append((n,) + where)
         numbered = {}  # id(placement) -> numbers of its findings on this page
         by_id = {}  # situation_id -> number
@@ -172,12 +166,7 @@ class PageFindings:
                 for template, key, sid in placement.situations:
                     n = by_id.get(sid)
                     if n is None:
-                        n = index.get(key)
-                        if n is None:
-                            n = index[key] = len(templates)
-                            templates.append(template)
-                            tkeys.append(key)
-                        by_id[sid] = n
+                        n = by_id[sid] = number(key, lambda t=template: t)
                     numbers.append(n)
             placement.place(stamp, numbers, records)
         if order is not None:

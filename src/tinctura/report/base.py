@@ -37,6 +37,14 @@ class Header:
     gone: list = field(default_factory=list)  # baseline entries no longer found
 
 
+def rules_run(header) -> list:
+    """The rules a run selected (every rule when it names none), in catalogue order."""
+    from tinctura import rules
+
+    chosen = set(getattr(header, "rules", None) or ())
+    return [r for r in rules.RULES if not chosen or r.code in chosen]
+
+
 class Formatter:
     """start, then page* (stable order), problem* (largest first), diagnostic*, then stop.
 

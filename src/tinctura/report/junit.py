@@ -14,7 +14,7 @@ import xml.etree.ElementTree as ET
 from tinctura import rules
 
 from . import messages as m
-from .base import Formatter
+from .base import Formatter, rules_run
 from .notice import DISCLAIMER
 from .outputs import active
 
@@ -47,8 +47,7 @@ class JunitFormatter(Formatter):
 
     def __init__(self, stream, header):
         super().__init__(stream, header)
-        chosen = set(header.rules or ())
-        self.rules = [r for r in rules.RULES if not chosen or r.code in chosen]
+        self.rules = rules_run(header)
         self.cases: list = []
         self.failures = 0
         self.names: set = set()

@@ -14,10 +14,9 @@ import json
 from urllib.parse import quote
 
 from tinctura import fingerprint as fp_mod
-from tinctura import rules
 
 from . import messages as m
-from .base import Formatter, markdown_source
+from .base import Formatter, markdown_source, rules_run
 from .notice import DISCLAIMER
 
 SCHEMA = "https://json.schemastore.org/sarif-2.1.0.json"
@@ -57,8 +56,7 @@ class SarifFormatter(Formatter):
 
     def __init__(self, stream, header):
         super().__init__(stream, header)
-        chosen = set(header.rules or ())
-        self.rules = [r for r in rules.RULES if not chosen or r.code in chosen]
+        self.rules = rules_run(header)
         self.index = {r.code: n for n, r in enumerate(self.rules)}
         self.notifications: list = []
         self.count = 0
