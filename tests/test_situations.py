@@ -64,3 +64,37 @@ def test_store_counts_follow_replaced_and_discarded_pages():
     store.discard("b.html")
     assert len(store) == 1 and dict(store.counts["page"]) == {"a.html": 1}
     assert [fields(f) for f in store.by_page("a.html")] == [fields(found[0])]
+
+
+def test_packed_findings_are_kept_unread_and_read_back_the_same():
+    """A worker packs a page's records (pickled once); the main process keeps them as they
+    are, counts them per situation and reads the same records back, renumbered."""
+    from tinctura import gate as gated
+    from tinctura import problems
+
+    found = judge(samples(), Options())
+    pages = {p: situations.PageFindings.build(p, [f for f in found if f.sample.page == p])
+             for p in ("a.html", "b.html")}
+    # the second page numbers its templates the other way round: the store must renumber
+    b = pages["b.html"]
+    b.templates.reverse(), b.keys.reverse()
+    b._records = [(1 - r[0],) + r[1:] for r in b.records]
+    for more in ("c.html", "d.html", "e.html"):  # later pages: problems with their examples
+        pages[more] = situations.PageFindings(more, b.templates, b.keys, list(b.records))
+    plain, packed = FindingStore(), FindingStore()
+    kept = {}
+    for name, store in (("plain", plain), ("packed", packed)):
+        gate, collector = gated.Gate(fingerprints=False), problems.Collector(keep_indexes=False)
+        for page, findings in pages.items():
+            if name == "packed":
+                findings = pickle.loads(pickle.dumps(
+                    situations.PageFindings(page, findings.templates, findings.keys,
+                                            list(findings.records)).pack()))
+                assert findings.packed() is not None and len(findings) == 4
+            gated.intake(gate, store, collector, page, findings)
+        kept[name] = (gate.counts, [(p.rule, p.count, p.pages) for p in collector.problems({})])
+    assert kept["plain"] == kept["packed"]
+    assert plain.occurrence_counts == packed.occurrence_counts == [15, 5]
+    for page in pages:
+        assert packed.occurrences(page) == plain.occurrences(page)
+    assert [fields(f) for f in packed] == [fields(f) for f in plain]

@@ -621,7 +621,15 @@ def _worker_init(root, options, judged):
 
 def _worker_check(rel):
     site, options, judged = _WORKER
-    return _process(site, rel, options, judged)
+    return _packed(_process(site, rel, options, judged))
+
+
+def _packed(result):
+    """A worker's answer with its findings' records pickled here (``PageFindings.pack``):
+    the main process keeps them without reading them."""
+    if isinstance(result, tuple) and isinstance(result[1], situations.PageFindings):
+        result[1].pack()
+    return result
 
 
 def judge_page(site, rel, options, html=None):

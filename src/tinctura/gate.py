@@ -76,13 +76,23 @@ class Gate:
                     line=mark.line))
         return diagnostics
 
-    def records(self, rel: str, records: list, templates) -> tuple:
+    def counts_only(self, rel: str, page_marks) -> bool:
+        """Whether the page's findings need nothing but counting (``count``): no suppression
+        on it (``page_marks``: ``_marks``' answer), no ``allow`` entry for it, no fingerprints."""
+        return page_marks[1] is None and not self.allow.applies(rel) and not self.fingerprints
+
+    def count(self, rel: str, per_situation, size: int, templates) -> None:
+        """``records`` for a page that ``counts_only``, from its occurrences per situation."""
+        self.pages.add(rel)
+        outputs.add_situation_counts(self.counts, rel, (), templates, 1, per_situation, size)
+
+    def records(self, rel: str, records: list, templates, page_marks=None) -> tuple:
         """``page`` for a store's records of one page (``templates``: situation -> template
         finding): ``(diagnostics, records)``, the records carrying the gate's marks when it
         set them. A page without suppressions, in a run that needs no fingerprints, costs a
         count per situation: its findings are never built."""
         self.pages.add(rel)
-        page_marks = self._marks(rel, bool(records))
+        page_marks = page_marks or self._marks(rel, bool(records))
         if page_marks[1] is not None or self.allow.applies(rel):
             findings = [sit.rebuild(templates[r[0]], r[1:], rel) for r in records]
             diagnostics = self.page(rel, findings, page_marks)
@@ -146,7 +156,17 @@ def intake(gate: Gate, store, collector, rel: str, findings) -> list:
     and the problems (``problems.Collector``); returns the gate's diagnostics of the page."""
     start = len(store)
     if isinstance(findings, sit.PageFindings) and findings.built() is None:
-        diagnostics, records = gate.records(rel, store.records_of(findings), store.situations)
+        page_marks = gate._marks(rel, bool(findings))
+        if findings.packed() is not None and gate.counts_only(rel, page_marks):
+            # as a worker packed them: kept and counted without reading them
+            numbers = store.numbers(findings)
+            per_situation = store.put_packed(rel, findings, numbers)
+            gate.count(rel, per_situation, len(findings), store.situations)
+            collector.add_counts(rel, per_situation, store.situations, start, lambda: [
+                (numbers[r[0]],) + r[1:] for r in findings.records])
+            return []
+        diagnostics, records = gate.records(rel, store.records_of(findings), store.situations,
+                                            page_marks)
     else:  # findings built already (site-level rules, tests): the gate marks them
         diagnostics = gate.page(rel, findings)
         records = store.records_of(findings)

@@ -282,7 +282,7 @@ class Collector:
         """``add_records`` for one page's records as the store keeps them (the first at index
         ``start`` of the run), leaving out the held ones (suppressed, known to the baseline).
         An occurrence of a problem whose examples are chosen costs a count and an index."""
-        settled = self._settled(page, records, templates)
+        settled = self._settled(page, {r[0] for r in records}, templates)
         kept, kept_at = [], []
         for n, r in enumerate(records):
             marks = r[6]
@@ -298,20 +298,35 @@ class Collector:
             if at:
                 if p.indexes is not None:
                     p.indexes.extend(at)
-                p.count += len(at)
-                figures.count += len(at)
-                self._seen[self._situations[sid]] += len(at)
-                self._pages[self._situations[sid]].add(page)
-        self._count += sum(len(v[0]) for v in settled.values())
+                self._counted(page, sid, p, figures, len(at))
         if kept:
             self.add_records(page, kept, templates, kept_at)
 
-    def _settled(self, page: str, records, templates) -> dict:
-        """Situations of ``records`` whose problem has its examples and has met ``page``
-        already, or has all its example pages: situation -> ([indexes], problem, scheme
-        figures)."""
+    def add_counts(self, page: str, per_situation: dict, templates, start: int,
+                   records) -> None:
+        """``add_page`` for a page whose records are not at hand, only how many each situation
+        has (none held): when each situation's problem has its examples and no index is kept,
+        that is all it needs; otherwise ``records()`` gives them."""
+        settled = {} if self.keep_indexes else self._settled(page, per_situation, templates)
+        if len(settled) < len(per_situation):
+            self.add_page(page, records(), templates, start)
+            return
+        for sid, n in per_situation.items():
+            self._counted(page, sid, settled[sid][1], settled[sid][2], n)
+
+    def _counted(self, page: str, sid: int, p, figures, n: int) -> None:
+        """``n`` more occurrences of a known situation whose problem has its examples."""
+        p.count += n
+        figures.count += n
+        self._seen[self._situations[sid]] += n
+        self._pages[self._situations[sid]].add(page)
+        self._count += n
+
+    def _settled(self, page: str, sids, templates) -> dict:
+        """Situations ``sids`` whose problem has its examples and has met ``page`` already,
+        or has all its example pages: situation -> ([indexes], problem, scheme figures)."""
         out = {}
-        for sid in {r[0] for r in records}:
+        for sid in sids:
             key = self._situations.get(sid)
             if key is None or self._seen[key] < 2 * self.EXAMPLES:
                 continue

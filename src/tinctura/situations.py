@@ -14,6 +14,7 @@ into a full ``Finding`` (outputs that want every finding get them this way).
 from __future__ import annotations
 
 import dataclasses
+import pickle
 import operator
 
 from .model import Cause, Finding, Layer, Sample
@@ -101,14 +102,40 @@ class PageFindings:
     order. A read-only sequence of ``Finding``
     (rebuilt on first use); pickled without them, so a worker sends each situation once."""
 
-    __slots__ = ("page", "templates", "keys", "records", "_items")
+    __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items")
 
-    def __init__(self, page: str, templates: list, keys: list, records: list):
+    def __init__(self, page: str, templates: list, keys: list, records: list, packed=None):
         self.page = page
         self.templates = templates
         self.keys = keys
-        self.records = records
+        self._records = records
+        self._packed = packed  # (pickled records, occurrences per template, first-seen order)
         self._items = None
+
+    @property
+    def records(self) -> list:
+        if self._records is None:
+            self._records = pickle.loads(self._packed[0])
+        return self._records
+
+    def pack(self) -> "PageFindings":
+        """Pickle the records once, where they were made (a worker process): the main process
+        can then keep them as they are (``FindingStore.put_packed``) and count them from
+        ``packed()`` without reading them."""
+        counts, first = [0] * len(self.templates), []
+        for r in self._records:
+            if not counts[r[0]]:
+                first.append(r[0])
+            counts[r[0]] += 1
+        self._packed = (pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL), counts,
+                        first)
+        self._records = None
+        return self
+
+    def packed(self):
+        """``(pickled records, occurrences per template, templates in first-seen order)`` when
+        the records were packed and not read since, else None."""
+        return self._packed if self._records is None else None
 
     @classmethod
     def build(cls, page: str, findings, keys=None, more=(), order=None, judged=(),
@@ -189,10 +216,12 @@ class PageFindings:
         return self._items
 
     def __len__(self) -> int:
-        return len(self.records)
+        if self._records is None:
+            return sum(self._packed[1])
+        return len(self._records)
 
     def __bool__(self) -> bool:
-        return bool(self.records)
+        return len(self) > 0
 
     def __iter__(self):
         return iter(self._list())
@@ -204,4 +233,5 @@ class PageFindings:
         return list(self) == list(other)
 
     def __reduce__(self):
-        return (PageFindings, (self.page, self.templates, self.keys, self.records))
+        return (PageFindings, (self.page, self.templates, self.keys, self._records,
+                               self._packed))

@@ -102,21 +102,40 @@ class FindingStore:
     def put(self, page: str, records: list) -> None:
         """Keep ``page``'s records (``records_of``), after what is kept already."""
         if records:
-            self._write(page, records)
+            data = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
+            self._write(page, data, None, Counter(r[0] for r in records), len(records))
 
-    def _write(self, page: str, records: list) -> None:
-        data = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
+    def numbers(self, findings) -> list:
+        """Template index -> situation number for packed ``findings`` (``PageFindings.pack``),
+        numbering new situations in their order of first occurrence, as ``records_of``."""
+        data, counts, first = findings.packed()
+        local = [None] * len(counts)
+        for n in first:
+            local[n] = self.situation(findings.keys[n], findings.templates[n])
+        return local
+
+    def put_packed(self, page: str, findings, numbers: list) -> Counter:
+        """Keep packed ``findings`` as they came (their records are not read): ``numbers``
+        (``numbers``) turns their template indexes into situation numbers when read back.
+        Returns the occurrences per situation."""
+        data, counts, first = findings.packed()
+        per_situation = Counter({numbers[n]: counts[n] for n in first})
+        mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
+        self._write(page, data, mapping, per_situation, sum(counts))
+        return per_situation
+
+    def _write(self, page: str, data: bytes, mapping, per_situation, size: int) -> None:
         self._file.seek(0, 2)
-        self._where.setdefault(page, []).append((self._file.tell(), len(data)))
+        self._where.setdefault(page, []).append((self._file.tell(), len(data), mapping))
         self._file.write(data)
-        self._count(page, records, 1)
+        self._count(page, per_situation, size, 1)
 
-    def _count(self, page: str, records: list, sign: int) -> None:
+    def _count(self, page: str, per_situation, size: int, sign: int) -> None:
         counts = self.counts
-        per_situation = add_situation_counts(counts, page, records, self.situations, sign)
+        add_situation_counts(counts, page, (), self.situations, sign, per_situation, size)
         for sid, n in per_situation.items():
             self.occurrence_counts[sid] += sign * n
-        self._size += sign * len(records)
+        self._size += sign * size
         for counter in counts.values():  # a page checked again may have lost its findings
             for name in [k for k, v in counter.items() if v <= 0]:
                 del counter[name]
@@ -128,16 +147,20 @@ class FindingStore:
 
     def discard(self, page: str) -> None:
         if page in self._where:
-            self._count(page, self.occurrences(page), -1)
+            records = self.occurrences(page)
+            self._count(page, Counter(r[0] for r in records), len(records), -1)
             del self._where[page]
 
     def occurrences(self, page: str) -> list:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
         ``page``, in run order."""
         out = []
-        for offset, length in self._where.get(page, ()):
+        for offset, length, mapping in self._where.get(page, ()):
             self._file.seek(offset)
-            out.extend(pickle.loads(self._file.read(length)))
+            records = pickle.loads(self._file.read(length))
+            if mapping is not None:  # kept as a worker packed them: its template indexes
+                records = [(mapping[r[0]],) + r[1:] for r in records]
+            out.extend(records)
         return out
 
     def page_findings(self, page: str):
