@@ -226,7 +226,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                 self.check(rel, None, None)
         self.stale.clear()
         records = [self.records[rel] for rel in sorted(self.records)]
-        pages = [r.result for r in records]
+        pages = list(engine.noted_once(r.result for r in records))  # (once, not per worker)
         found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         aid = self.writer_aid(found, pages, records)

@@ -430,7 +430,7 @@ def iter_pages(paths, options: Options, judged: bool = False):
             pages = site.pages()
             if not pages:
                 yield Diagnostic(path, "no HTML pages found", severity="error")
-            yield from _noted_once(_site_pages(site, pages, options, judged))
+            yield from noted_once(_site_pages(site, pages, options, judged))
         elif os.path.isfile(path):
             site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
             yield from _site_pages(site, [os.path.basename(path)], options, judged)
@@ -438,7 +438,7 @@ def iter_pages(paths, options: Options, judged: bool = False):
             yield Diagnostic(path, "no such file or directory", severity="error")
 
 
-def _noted_once(results):
+def noted_once(results):
     """Keep the first of the site-wide notes that each worker's Site makes once (what theme
     scripts change that is not modelled): with --jobs N there would be up to N of them."""
     seen = set()
@@ -706,7 +706,7 @@ class PagePool:
 def _worker_check_html(args):
     rel, html = args
     site, options, judged = _WORKER
-    return _process(site, rel, options, judged, html)
+    return _packed(_process(site, rel, options, judged, html))
 
 
 @contextmanager

@@ -68,7 +68,11 @@ class FindingStore:
 
     def add(self, page: str, findings) -> list:
         """Keep ``page``'s findings (a list, or ``situations.PageFindings``); returns their
-        records ``(situation number,) + situations.place``, in order."""
+        records ``(situation number,) + situations.place``, in order (None for packed
+        findings, kept unread)."""
+        if isinstance(findings, sit.PageFindings) and findings.packed() is not None:
+            self.put_packed(page, findings, self.numbers(findings))
+            return None
         records = self.records_of(findings)
         self.put(page, records)
         return records
