@@ -748,7 +748,7 @@ def _site_pages(site, pages, options, judged):
     if jobs == 1 or len(pages) < 2 * jobs:
         with relaxed_gc():
             for rel in pages:
-                yield _process(site, rel, options, judged)
+                yield _packed(_process(site, rel, options, judged))
         return
     import multiprocessing
 
