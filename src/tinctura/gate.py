@@ -41,11 +41,11 @@ class Gate:
 
     def page(self, rel: str, findings, page_marks=None) -> list:
         """Mark one page's findings (document order); returns the page's diagnostics about
-        suppressions (malformed, or matching nothing). ``page_marks``: ``_marks``' answer,
+        suppressions (malformed, or matching nothing). ``page_marks``: ``marks_of``' answer,
         when the caller asked already."""
         self.pages.add(rel)
         fingerprint.assign(findings)
-        root, marks = page_marks or self._marks(rel, bool(findings))
+        root, marks = page_marks or self.marks_of(rel, bool(findings))
         diagnostics = list(marks.diagnostics) if marks is not None else []
         config_match = self.allow.matcher(rel, root)
         for f in findings:
@@ -78,13 +78,13 @@ class Gate:
 
     def counts_only(self, rel: str, page_marks) -> bool:
         """Whether the page's findings need nothing but counting (``count``): no suppression
-        on it (``page_marks``: ``_marks``' answer), no ``allow`` entry for it, no fingerprints."""
+        on it (``page_marks``: ``marks_of``' answer), no ``allow`` entry for it, no fingerprints."""
         return page_marks[1] is None and not self.allow.applies(rel) and not self.fingerprints
 
     def count(self, rel: str, per_situation, size: int, templates) -> None:
         """``records`` for a page that ``counts_only``, from its occurrences per situation."""
         self.pages.add(rel)
-        outputs.add_situation_counts(self.counts, rel, (), templates, 1, per_situation, size)
+        outputs.add_situation_counts(self.counts, rel, per_situation, size, templates)
 
     def records(self, rel: str, records: list, templates, page_marks=None) -> tuple:
         """``page`` for a store's records of one page (``templates``: situation -> template
@@ -92,14 +92,14 @@ class Gate:
         set them. A page without suppressions, in a run that needs no fingerprints, costs a
         count per situation: its findings are never built."""
         self.pages.add(rel)
-        page_marks = page_marks or self._marks(rel, bool(records))
+        page_marks = page_marks or self.marks_of(rel, bool(records))
+        if self.counts_only(rel, page_marks):
+            self.count(rel, Counter(r[0] for r in records), len(records), templates)
+            return [], records
         if page_marks[1] is not None or self.allow.applies(rel):
             findings = [sit.rebuild(templates[r[0]], r[1:], rel) for r in records]
             diagnostics = self.page(rel, findings, page_marks)
             return diagnostics, [(r[0],) + sit.place(f) for r, f in zip(records, findings)]
-        if not self.fingerprints:
-            outputs.add_situation_counts(self.counts, rel, records, templates)
-            return [], records
         marked, counted = [], []
         for r, value in zip(records, fingerprint.of_records(rel, records, templates)):
             state = self.baseline.state(value) if self.baseline is not None else ""
@@ -108,10 +108,10 @@ class Gate:
                 self.held["unchanged"] += 1
             else:
                 counted.append(r)
-        outputs.add_situation_counts(self.counts, rel, counted, templates)
+        self.count(rel, Counter(r[0] for r in counted), len(counted), templates)
         return [], marked
 
-    def _marks(self, rel: str, has_findings: bool):
+    def marks_of(self, rel: str, has_findings: bool):
         """The page's tree and suppressions, when it has any (else (None, None))."""
         if self.read is None:
             return None, None
@@ -156,7 +156,7 @@ def intake(gate: Gate, store, collector, rel: str, findings) -> list:
     and the problems (``problems.Collector``); returns the gate's diagnostics of the page."""
     start = len(store)
     if isinstance(findings, sit.PageFindings) and findings.built() is None:
-        page_marks = gate._marks(rel, bool(findings))
+        page_marks = gate.marks_of(rel, bool(findings))
         if findings.packed() is not None and gate.counts_only(rel, page_marks):
             # as a worker packed them: kept and counted without reading them
             numbers = store.numbers(findings)

@@ -37,14 +37,11 @@ def add_count(counts: dict, f) -> None:
     counts["scheme"][f.sample.scheme] += 1
 
 
-def add_situation_counts(counts: dict, page: str, records, templates, sign: int = 1,
-                         per_situation=None, size: int | None = None) -> Counter:
-    """``add_count`` for store records of ``page`` (``(situation, ...)``; ``templates``:
-    situation -> template finding), a count per situation (``sign`` -1 takes them away), or
-    for ``per_situation`` (situation -> occurrences) and their ``size`` when the records are
-    not at hand. Returns the occurrences per situation."""
-    if per_situation is None:
-        per_situation, size = Counter(r[0] for r in records), len(records)
+def add_situation_counts(counts: dict, page: str, per_situation, size: int, templates,
+                         sign: int = 1) -> None:
+    """``add_count`` for ``size`` occurrences on ``page``, given per situation
+    (``per_situation``: situation -> occurrences; ``templates``: situation -> template
+    finding); ``sign`` -1 takes them away."""
     for sid, n in per_situation.items():
         t = templates[sid]
         counts["severity"][t.severity] += sign * n
@@ -52,7 +49,6 @@ def add_situation_counts(counts: dict, page: str, records, templates, sign: int 
         counts["scheme"][t.sample.scheme] += sign * n
     if size:
         counts["page"][page] += sign * size
-    return per_situation
 
 
 class GateView:

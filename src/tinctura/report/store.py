@@ -136,7 +136,7 @@ class FindingStore:
 
     def _count(self, page: str, per_situation, size: int, sign: int) -> None:
         counts = self.counts
-        add_situation_counts(counts, page, (), self.situations, sign, per_situation, size)
+        add_situation_counts(counts, page, per_situation, size, self.situations, sign)
         for sid, n in per_situation.items():
             self.occurrence_counts[sid] += sign * n
         self._size += sign * size
