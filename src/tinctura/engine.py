@@ -613,9 +613,15 @@ def _add_stats(into: dict, more: dict, times: int = 1) -> None:
 _WORKER = None
 
 
+_WARM_SITE = None  # the main process's Site, its caches warmed by a first page, for forked workers
+
+
 def _worker_init(root, options, judged):
     global _WORKER
-    _WORKER = (Site(root, options), options, judged)
+    site = _WARM_SITE
+    if site is None or site.root != os.path.abspath(root) or site.options is not options:
+        site = Site(root, options)
+    _WORKER = (site, options, judged)
     _relax_gc()  # a worker lives only to check pages
 
 
@@ -753,7 +759,20 @@ def _site_pages(site, pages, options, judged):
     import multiprocessing
 
     _preload(options)
+    forking = hasattr(os, "fork")
+    if forking:
+        # The first page is checked here: its stylesheets parsed, its styles and navigation
+        # fragments recorded once, and every worker forked after it starts from them.
+        with relaxed_gc():
+            yield _packed(_process(site, pages[0], options, judged))
+        pages = pages[1:]
     chunk = max(1, min(25, len(pages) // (jobs * 4)))
-    ctx = multiprocessing.get_context("fork" if hasattr(os, "fork") else "spawn")
-    with ctx.Pool(jobs, initializer=_worker_init, initargs=(site.root, options, judged)) as pool:
-        yield from pool.imap(_worker_check, pages, chunksize=chunk)
+    ctx = multiprocessing.get_context("fork" if forking else "spawn")
+    global _WARM_SITE
+    _WARM_SITE = site if forking else None
+    try:
+        with ctx.Pool(jobs, initializer=_worker_init,
+                      initargs=(site.root, options, judged)) as pool:
+            yield from pool.imap(_worker_check, pages, chunksize=chunk)
+    finally:
+        _WARM_SITE = None

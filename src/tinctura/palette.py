@@ -114,13 +114,19 @@ def collect(samples, palette: tuple = ()) -> dict:
                 or s.kind in NONTEXT_KINDS:  # control boundaries, focus rings: not a colour code
             continue
         for entry in _entries_of(memo, s.fg_cause, s.fg, palette):
-            _add(uses, (entry, "text", quantize(s.fg), quantize(s.bg), s.scheme), s, s.fg_cause)
+            _add(uses, (entry, "text", _quantized(s.fg), _quantized(s.bg), s.scheme), s,
+                 s.fg_cause)
         if s.surround is None or s.bg_cause is None:
             continue
         for entry in _entries_of(memo, s.bg_cause, s.bg, palette):
-            _add(uses, (entry, "fill", quantize(s.bg), quantize(s.surround), s.scheme), s,
+            _add(uses, (entry, "fill", _quantized(s.bg), _quantized(s.surround), s.scheme), s,
                  s.bg_cause)
     return uses
+
+
+@lru_cache(maxsize=4096)  # a site's pages use a few dozen colours, thousands of times each
+def _quantized(rgb) -> tuple:
+    return quantize(rgb)
 
 
 def _entries_of(memo: dict, cause, rgb, palette) -> tuple:
@@ -130,7 +136,7 @@ def _entries_of(memo: dict, cause, rgb, palette) -> tuple:
     key = (id(cause), rgb)
     hit = memo.get(key)
     if hit is None:
-        hit = memo[key] = (cause, entries(cause, quantize(rgb), palette))
+        hit = memo[key] = (cause, entries(cause, _quantized(rgb), palette))
     return hit[1]
 
 

@@ -11,6 +11,7 @@ palegoldenrod mix where exact maths give hue 84.763; measured differences stayed
 to bytes; one 8-bit step for canvas pixels.
 """
 import os
+import re
 import shutil
 
 import pytest
@@ -110,8 +111,19 @@ def test_computed_values_match(browser):
         ours = parse_color(value, clip=False)
         theirs = parse_color(computed, clip=False)
         assert theirs is not None, (value, computed)
-        tolerance = 0.5 / 255 + 1e-9 if computed.startswith("rgb") else 2e-4
-        assert ours == pytest.approx(theirs, abs=tolerance), (value, computed)
+        assert ours == pytest.approx(theirs, abs=_tolerance(value, computed)), (value, computed)
+
+
+def _tolerance(value: str, computed: str) -> float:
+    """How far the browser's computed value may lie from ours: half an 8-bit step for a
+    legacy ``rgb()`` result; for a mix of legacy colours with alpha, one 8-bit step (Chromium
+    150 stores a legacy colour's alpha in 8 bits before mixing: rgb(100% 0% 0% / 0.7) enters
+    the mix at 179/255, observed here; CSS Color 5 mixes the exact alpha); else 2e-4."""
+    if computed.startswith("rgb"):
+        return 0.5 / 255 + 1e-9
+    if "color-mix" in value and re.search(r"\b(?:rgb|hsl)a?\([^)]*/", value):
+        return 1 / 255
+    return 2e-4
 
 
 def test_canvas_pixels_match(browser):

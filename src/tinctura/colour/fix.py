@@ -209,7 +209,7 @@ class _Swapped:
 @lru_cache(maxsize=4096)
 def _nearest_where(colour, others, test):
     def ok(rgb):
-        return all(test(rgb, other) for other in others)
+        return all(_passes(test, rgb, other) for other in others)
 
     if ok(colour):
         return colour, _worst_ratio(colour, others)
@@ -228,12 +228,12 @@ def _walk(lightness, chroma, hue, step, ok):
     previous = lightness
     for k in range(1, int(1 / abs(step)) + 2):
         current = min(max(lightness + k * step, 0.0), 1.0)  # ends included once
-        rgb = quantize(_in_gamut_colour(current, chroma, hue))
+        rgb = _step_colour(current, chroma, hue)
         if ok(rgb):
             failing, passing = previous, current
             for _ in range(_WALK_BISECT):
                 mid = (failing + passing) / 2
-                trial = quantize(_in_gamut_colour(mid, chroma, hue))
+                trial = _step_colour(mid, chroma, hue)
                 if ok(trial):
                     passing, rgb = mid, trial
                 else:
@@ -243,3 +243,18 @@ def _walk(lightness, chroma, hue, step, ok):
             return None
         previous = current
     return None
+
+
+# The searches of one run start from a few dozen colours and revisit the same steps: the
+# foreground of a situation, then of its problem over more backgrounds, then of each run of
+# backgrounds that one colour can serve. Both caches hold pure results, so they only save time.
+
+@lru_cache(maxsize=65536)
+def _step_colour(lightness, chroma, hue):
+    """The 8-bit colour at one step of a search: in gamut, then rounded."""
+    return quantize(_in_gamut_colour(lightness, chroma, hue))
+
+
+@lru_cache(maxsize=65536)
+def _passes(test, text, background) -> bool:
+    return test(text, background)
