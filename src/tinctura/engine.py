@@ -690,7 +690,9 @@ class PagePool:
             except Exception as exc:  # the page, not the build, failed
                 yield rel, exc
 
-    def results(self):
+    def results(self, keep: bool = False):
+        """Every answer still due; then the workers end, unless ``keep`` (the caller then has
+        them ``recheck`` pages and calls ``close``)."""
         try:
             for rel, pending in self._pending:
                 try:  # a worker that died never answers: give up on it, not on the build
@@ -699,8 +701,34 @@ class PagePool:
                     yield rel, exc
         finally:
             self._pending = []
-            self._pool.terminate()  # every answer is in; a stuck worker must not hold the build
-            self._pool.join()
+            if not keep:
+                self.close()
+
+    def recheck(self, css: str, pages: list):
+        """``overrides.recheck`` of ``pages`` in a worker, with the workers' options and
+        parsed stylesheets; returns at once a callable that waits for the answer (None when
+        the worker failed: the caller then checks the pages itself)."""
+        pending = self._pool.apply_async(_worker_recheck, ((css, pages),))
+
+        def answer():
+            try:
+                return pending.get(timeout=PAGE_TIMEOUT_S)
+            except Exception:
+                return None
+        return answer
+
+    def close(self) -> None:
+        """End the workers: every answer is in, and a stuck worker must not hold the build."""
+        self._pool.terminate()
+        self._pool.join()
+
+
+def _worker_recheck(args):
+    css, pages = args
+    site, options, _ = _WORKER
+    from . import overrides
+
+    return overrides.recheck(site.root, options, css, pages, site.loader)
 
 
 def _worker_check_html(args):
