@@ -178,7 +178,12 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.check(rel, html, key)
             return
         if self.pool is None:
-            self.pool = engine.PagePool(self.site_dir, self.options, self.workers())
+            # the first page here: the workers start from this Site, its stylesheets parsed
+            # and its caches warm (each worker would otherwise parse and warm up again)
+            self.check(rel, html, key)
+            self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
+                                        self.get_site())
+            return
         if self.pool.submit(rel, html):
             self.digests[rel] = key
         else:

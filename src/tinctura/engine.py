@@ -649,15 +649,18 @@ def can_fork() -> bool:
 class PagePool:
     """Pages checked in worker processes while the caller goes on (the MkDocs plugin checks
     each page as MkDocs renders the next). ``submit`` returns at once; ``results`` gives
-    ``(rel, result or exception)`` in submission order."""
+    ``(rel, result or exception)`` in submission order.
 
-    def __init__(self, root: str, options: Options, workers: int):
+    ``site``: the caller's Site, which has checked a page: each worker starts from a copy of it
+    (forked, not pickled), with its stylesheets parsed and its caches warm."""
+
+    def __init__(self, root: str, options: Options, workers: int, site=None):
         import multiprocessing
         import threading
 
         ctx = multiprocessing.get_context("fork")
         _preload(options)
-        self._pool = ctx.Pool(workers, initializer=_worker_init, initargs=(root, options, True))
+        self._pool = ctx.Pool(workers, initializer=_pool_init, initargs=(root, options, site))
         self._pending = []
         self._limit = 2 * workers  # pages waiting in the queue, each holding its HTML
         self._done = 0
@@ -721,6 +724,12 @@ class PagePool:
         """End the workers: every answer is in, and a stuck worker must not hold the build."""
         self._pool.terminate()
         self._pool.join()
+
+
+def _pool_init(root, options, site):
+    global _WORKER
+    _WORKER = (site if site is not None else Site(root, options), options, True)
+    _relax_gc()  # a worker lives only to check pages
 
 
 def _worker_recheck(args):
