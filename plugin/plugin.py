@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import fnmatch
 import hashlib
+import logging
 import os
 
 from mkdocs.exceptions import PluginError
@@ -65,6 +66,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.stale: set = set()  # pages whose record predates a stylesheet change
         self.sheets_checked = False
         self.pool = None  # worker processes checking pages while MkDocs renders the next
+        self.helper = None  # the same workers after the last page: they verify fixes too
         self.digests: dict = {}  # page -> digest of the HTML sent to a worker
         self.project = None  # mkdocs_project.Project: Markdown sources, the site's own sheets
         self.rechecked: list = []  # pages checked in this build (serve logs them)
@@ -176,7 +178,12 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.check(rel, html, key)
             return
         if self.pool is None:
-            self.pool = engine.PagePool(self.site_dir, self.options, self.workers())
+            # the first page here: the workers start from this Site, its stylesheets parsed
+            # and its caches warm (each worker would otherwise parse and warm up again)
+            self.check(rel, html, key)
+            self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
+                                        self.get_site())
+            return
         if self.pool.submit(rel, html):
             self.digests[rel] = key
         else:
@@ -185,12 +192,19 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.take(*done)
 
     def collect(self) -> None:
-        """Results of the pages checked in workers; a page whose check failed is reported."""
+        """Results of the pages checked in workers; a page whose check failed is reported.
+        The workers are kept (``helper``) to verify fixes beside this process."""
         if self.pool is None:
             return
-        pool, self.pool = self.pool, None
-        for done in pool.results():
+        self.helper, self.pool = self.pool, None
+        for done in self.helper.results(keep=True):
             self.take(*done)
+
+    def release(self) -> None:
+        """End the workers kept by ``collect``."""
+        if self.helper is not None:
+            helper, self.helper = self.helper, None
+            helper.close()
 
     def take(self, rel: str, outcome) -> None:
         """A worker's answer for ``rel``: kept, or the page checked here when it failed."""
@@ -217,7 +231,13 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         return output
 
     def on_post_build(self, *, config) -> None:
-        self.collect()
+        try:
+            self.collect()
+            self.after_pages()
+        finally:
+            self.release()
+
+    def after_pages(self) -> None:
         if self.current:
             self.get_site()  # a --dirty build may have sent no page through on_post_page
         # With --dirty, unchanged pages skip on_post_page: re-read the stale ones from disk.
@@ -229,7 +249,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         pages = list(engine.noted_once(r.result for r in records))  # (once, not per worker)
         found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
-        aid = self.writer_aid(found, pages, records)
+        aid = self.writer_aid(found, pages, records, fixes=self.fixes_read())
         locate = aid  # callable: sample -> Location
         changes = self.log_changes(found) if self.serving_again() else None
         findings = outputs.GateView(store, marked=False, counts=gate.counts)  # those that count
@@ -238,8 +258,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         else:
             self.log_results(changes[0], findings, many_schemes=len(schemes) > 1,
                              locate=locate, label="New: ")
-        self.previous = {problems.problem_key(p.worst): m.message(p.worst) if
-                         is_appearance(p.worst) else plain.sentence(p) for p in found}
+        if self.command == "serve":  # what the next build of this session compares with
+            self.previous = {problems.problem_key(p.worst): m.message(p.worst) if
+                             is_appearance(p.worst) else plain.sentence(p) for p in found}
         for d in [d for page in pages for d in page.diagnostics] + gate_notes:
             at = f"{d.path}:{d.line}" if d.line else d.path
             (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
@@ -329,12 +350,20 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         for name, path in specs:
             log.info(f"{name} report written to {path}")
 
-    def writer_aid(self, found, pages, records):
-        """Overrides for the site's own stylesheets (verified) and Markdown locations."""
+    def fixes_read(self) -> bool:
+        """Whether an output of this build shows the fixes as CSS: a report, the problems
+        logged as warnings (hidden by `mkdocs build -q`), or `mkdocs serve`. The build's
+        final error (``quiet_summary``) does not show them."""
+        return bool(self.config.report) or self.command == "serve" or \
+            log.isEnabledFor(logging.WARNING)
+
+    def writer_aid(self, found, pages, records, fixes: bool = True):
+        """Markdown locations and, with ``fixes``, overrides for the site's own stylesheets
+        (verified by checking pages again, the longest part of this)."""
         if self.site_dir is None:
             return None
         aid = WriterAid(self.site_dir, self.project, self.options)
-        if found:
+        if found and fixes:
             schemes = {}
             for page in pages:
                 for scheme in page.schemes:
@@ -343,7 +372,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             loader = self.site.loader if self.site is not None else None
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
-                                   loader, self.verify_cache)
+                                   loader, self.verify_cache,
+                                   self.helper.recheck if self.helper is not None else None)
             except Exception as exc:  # a fix that cannot be worked out must not stop the build
                 log.info(f"fixes as CSS overrides could not be worked out: {exc!r}")
         return aid
@@ -372,12 +402,14 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                     label: str = "") -> None:
         if self.config.log_every:
             for f in findings:
-                emit = log.info if f.severity == "info" else log.warning
-                emit(finding_line(f, many_schemes, locate))
+                level = logging.INFO if f.severity == "info" else logging.WARNING
+                if log.isEnabledFor(level):
+                    log.log(level, finding_line(f, many_schemes, locate))
             return
         for problem in found:
-            emit = log.info if problem.severity == "info" else log.warning
-            emit(label + problem_line(problem, many_schemes, locate))
+            level = logging.INFO if problem.severity == "info" else logging.WARNING
+            if log.isEnabledFor(level):  # (`mkdocs build -q`: each line would be dropped)
+                log.log(level, label + problem_line(problem, many_schemes, locate))
 
 
 def _shown(path: str) -> str:

@@ -115,3 +115,63 @@ def test_page_pool_hands_answers_over_as_they_come_in_order(site):
         time.sleep(0.05)
     got.extend(rel for rel, _ in pool.results())
     assert got == names
+
+
+def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
+    """After the last page the plugin's worker checks some pages again with the fixes as CSS
+    (overrides.verify): what it finds is what checking them here finds."""
+    from tinctura import overrides
+    from tinctura.engine import PagePool, can_fork
+
+    if not can_fork():
+        pytest.skip("worker processes need fork")
+    options = Options(keep_samples=False)
+    css = ".faint { color: #595959; }\n"  # 7:1 on white; a:hover #bbb still fails
+    pages = ["p1/index.html", "p2/index.html", "p3/index.html"]
+    here = overrides.recheck(str(site), options, css, pages)
+    pool = PagePool(str(site), options, 1)
+    try:
+        assert pool.submit("p0/index.html", (site / "p0/index.html").read_text())
+        list(pool.results(keep=True))
+        there = pool.recheck(css, pages)()
+    finally:
+        pool.close()
+    assert there == here and here[2] > 0
+    without = overrides.recheck(str(site), options, "", pages)
+    assert here[0] < without[0]  # the faint text's problem is gone with the CSS
+
+
+def test_verify_split_with_a_helper_marks_as_alone(site):
+    """Half the pages checked by a helper (the plugin's worker): the same verdicts and counts."""
+    from tinctura import overrides
+
+    options = Options(keep_samples=False)
+    asked = []
+
+    def helper(css, pages):
+        asked.append(pages)
+        return lambda: overrides.recheck(str(site), options, css, pages)
+
+    def failing(css, pages):
+        return lambda: None  # a worker that died: its pages are checked here
+
+    pages = [f"p{n}/index.html" for n in range(5)]
+    results = []
+    for use in (None, helper, failing):
+        override = overrides.Override("site.css", [overrides.Rule(".faint", (("color", "#595959",
+                                                                            False),))])
+        problem = _faint_problem(site, options)
+        counts = overrides.verify(str(site), options, [problem], [override], pages, helper=use)
+        results.append((override.verified, counts))
+    assert asked == [pages[1::2]]
+    assert results[0] == results[1] == results[2] and results[0][0] is True
+
+
+def _faint_problem(site, options):
+    from tinctura import engine, problems
+
+    _, findings, uses = engine.judge_page(engine.Site(str(site), options), "p0/index.html",
+                                          options)
+    found = problems.group([f for f in findings if f.rule == "TC100"], uses=uses)
+    return next(p for p in found if "faint" in (p.fg_cause.declaration.selector or "")
+                or "--faint" in p.fg_cause.declaration.property)

@@ -655,15 +655,18 @@ def can_fork() -> bool:
 class PagePool:
     """Pages checked in worker processes while the caller goes on (the MkDocs plugin checks
     each page as MkDocs renders the next). ``submit`` returns at once; ``results`` gives
-    ``(rel, result or exception)`` in submission order."""
+    ``(rel, result or exception)`` in submission order.
 
-    def __init__(self, root: str, options: Options, workers: int):
+    ``site``: the caller's Site, which has checked a page: each worker starts from a copy of it
+    (forked, not pickled), with its stylesheets parsed and its caches warm."""
+
+    def __init__(self, root: str, options: Options, workers: int, site=None):
         import multiprocessing
         import threading
 
         ctx = multiprocessing.get_context("fork")
         _preload(options)
-        self._pool = ctx.Pool(workers, initializer=_worker_init, initargs=(root, options, True))
+        self._pool = ctx.Pool(workers, initializer=_pool_init, initargs=(root, options, site))
         self._pending = []
         self._limit = 2 * workers  # pages waiting in the queue, each holding its HTML
         self._done = 0
@@ -696,7 +699,9 @@ class PagePool:
             except Exception as exc:  # the page, not the build, failed
                 yield rel, exc
 
-    def results(self):
+    def results(self, keep: bool = False):
+        """Every answer still due; then the workers end, unless ``keep`` (the caller then has
+        them ``recheck`` pages and calls ``close``)."""
         try:
             for rel, pending in self._pending:
                 try:  # a worker that died never answers: give up on it, not on the build
@@ -705,8 +710,40 @@ class PagePool:
                     yield rel, exc
         finally:
             self._pending = []
-            self._pool.terminate()  # every answer is in; a stuck worker must not hold the build
-            self._pool.join()
+            if not keep:
+                self.close()
+
+    def recheck(self, css: str, pages: list):
+        """``overrides.recheck`` of ``pages`` in a worker, with the workers' options and
+        parsed stylesheets; returns at once a callable that waits for the answer (None when
+        the worker failed: the caller then checks the pages itself)."""
+        pending = self._pool.apply_async(_worker_recheck, ((css, pages),))
+
+        def answer():
+            try:
+                return pending.get(timeout=PAGE_TIMEOUT_S)
+            except Exception:
+                return None
+        return answer
+
+    def close(self) -> None:
+        """End the workers: every answer is in, and a stuck worker must not hold the build."""
+        self._pool.terminate()
+        self._pool.join()
+
+
+def _pool_init(root, options, site):
+    global _WORKER
+    _WORKER = (site if site is not None else Site(root, options), options, True)
+    _relax_gc()  # a worker lives only to check pages
+
+
+def _worker_recheck(args):
+    css, pages = args
+    site, options, _ = _WORKER
+    from . import overrides
+
+    return overrides.recheck(site.root, options, css, pages, site.loader)
 
 
 def _worker_check_html(args):

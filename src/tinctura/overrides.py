@@ -383,16 +383,17 @@ def inject(html: str, css: str) -> str:
     return html + block if at < 0 else html[:at] + block + html[at:]
 
 
-def verify(site_root, options, problems, overrides, pages, loader=None, cache=None) -> dict:
+def verify(site_root, options, problems, overrides, pages, loader=None, cache=None,
+           helper=None) -> dict:
     """Check ``pages`` again with every override applied; mark each override verified when
     its problem is gone and the override's own values cause no finding. Returns the counts
     ``{"pages": n, "remaining": findings left on them}``.
 
     ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
-    between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice."""
-    from tinctura import engine
-    from tinctura.problems import problem_key
-
+    between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice;
+    ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
+    worker, idle by then) and returns a callable giving its result, or None if it failed.
+    What is found is the same wherever a page is checked: the answers are unions."""
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
@@ -401,6 +402,30 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         remaining_keys, bad, counts = cache["result"]
         _mark(problems, overrides, remaining_keys, bad)
         return counts
+    mine, theirs = list(pages), []
+    if helper is not None and len(pages) > 1:
+        mine, theirs = mine[0::2], mine[1::2]
+    answer = helper(css, theirs) if theirs else None
+    remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader)
+    if answer is not None:
+        got = answer() or recheck(site_root, options, css, theirs, loader)
+        remaining_keys |= got[0]
+        bad |= got[1]
+        remaining += got[2]
+    counts = {"pages": len(pages), "remaining": remaining}
+    if cache is not None:
+        cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
+    _mark(problems, overrides, remaining_keys, bad)
+    return counts
+
+
+def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
+    """``pages`` checked with ``css`` injected as their last stylesheet, by the rules that can
+    undo an override: ``(problem keys found, overrides' own declarations in findings,
+    number of findings)``."""
+    from tinctura import engine
+    from tinctura.problems import problem_key
+
     options = _deciding(options)
     site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
     if loader is not None:
@@ -422,11 +447,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
                 for d in _declarations(cause):
                     if "<style>" in d.sheet and d.line and _injected(d, css):
                         bad.add((_normal(d.selector), d.property, f.rule, f.severity))
-    counts = {"pages": len(pages), "remaining": remaining}
-    if cache is not None:
-        cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
-    _mark(problems, overrides, remaining_keys, bad)
-    return counts
+    return remaining_keys, bad, remaining
 
 
 def _deciding(options):
