@@ -79,6 +79,9 @@ class Options:
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
+    # a compact JSON report will be written: each page's occurrences are written for it where
+    # the page is judged (in the worker, with --jobs N)
+    encode_occurrences: bool = False
 
 
 @dataclass
@@ -345,7 +348,7 @@ def verdict_key(options: Options) -> str:
     if known is not None and known[0] is options and known[2] == cheap:
         return known[1]
     key = repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
-                                   exclude=(), share=True))
+                                   exclude=(), share=True, encode_occurrences=False))
     if len(_VERDICT_KEYS) > 64:
         _VERDICT_KEYS.clear()
     _VERDICT_KEYS[id(options)] = (options, key, cheap)
@@ -621,14 +624,18 @@ def _worker_init(root, options, judged):
 
 def _worker_check(rel):
     site, options, judged = _WORKER
-    return _packed(_process(site, rel, options, judged))
+    return _packed(_process(site, rel, options, judged), options)
 
 
-def _packed(result):
-    """A worker's answer with its findings' records pickled here (``PageFindings.pack``):
-    the main process keeps them without reading them."""
+def _packed(result, options):
+    """A worker's answer with its findings' records pickled here (``PageFindings.pack``),
+    and written for the JSON report when one is made: the main process keeps them without
+    reading them."""
     if isinstance(result, tuple) and isinstance(result[1], situations.PageFindings):
-        result[1].pack()
+        encode = None
+        if options.encode_occurrences:
+            from .report.json_report import encoded_occurrences as encode
+        result[1].pack(encode)
     return result
 
 
@@ -706,7 +713,7 @@ class PagePool:
 def _worker_check_html(args):
     rel, html = args
     site, options, judged = _WORKER
-    return _packed(_process(site, rel, options, judged, html))
+    return _packed(_process(site, rel, options, judged, html), options)
 
 
 @contextmanager
@@ -748,7 +755,7 @@ def _site_pages(site, pages, options, judged):
     if jobs == 1 or len(pages) < 2 * jobs:
         with relaxed_gc():
             for rel in pages:
-                yield _packed(_process(site, rel, options, judged))
+                yield _packed(_process(site, rel, options, judged), options)
         return
     import multiprocessing
 
