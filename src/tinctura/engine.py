@@ -307,14 +307,18 @@ def _situations(samples, options: Options) -> list:
     sample of the situation)."""
     judge_gradients(samples, options.level)
     memo = _JUDGED.setdefault(verdict_key(options), {})
-    sample_key = situations.sample_key
+    sample_key, looks = situations.sample_key, situations.looks
     entries, todo = [], {}
+    seen = {}  # situations.looks -> (key, templates): the samples are alive until the end
     for s in samples:
-        k = sample_key(s)
-        templates = memo.get(k)
-        if templates is None and k not in todo:
-            todo[k] = s
-        entries.append((s, k, templates))
+        same = looks(s)
+        known = seen.get(same)
+        if known is None:
+            k = sample_key(s)
+            known = seen[same] = (k, memo.get(k))
+            if known[1] is None and k not in todo:
+                todo[k] = s
+        entries.append((s,) + known)
     if todo:
         if len(memo) + len(todo) > JUDGED_LIMIT:
             memo.clear()

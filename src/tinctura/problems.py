@@ -365,9 +365,16 @@ def declaration_uses(samples) -> dict:
     Backgrounds are rounded to 8 bits: colours closer than that are one context.
     """
     uses: dict = {}
+    # what each sample adds, by the identity of the objects it reads (the samples are alive
+    # till the end, so ids are unique): samples of one style add it once
+    seen = set()
     for s in samples:
         if s.status != DETERMINED or s.exempt or s.bg is None:
             continue
+        same = (id(s.fg_cause), id(s.bg), id(s.bg_alternatives), s.scheme)
+        if same in seen:
+            continue
+        seen.add(same)
         declaration = target_declaration(s.fg_cause)
         if declaration is None:
             continue

@@ -42,6 +42,25 @@ def sample_key(s: Sample) -> tuple:
     return (_shared(s), cause, layers)
 
 
+# What ``looks`` reads of a sample: these by value (strings and numbers, hashed fast) ...
+_BY_VALUE = ("scheme", "state", "kind", "status", "reason", "exempt", "font_size_px",
+             "font_weight")
+_by_value = operator.attrgetter(*_BY_VALUE)
+# ... and these by identity (colour tuples, causes: hashing them calls Python code)
+_BY_ID = ("fg", "bg", "fg_raw", "bg_alternatives", "surround", "fg_cause", "bg_cause",
+          "bg_layers", "link")
+assert set(_BY_VALUE + _BY_ID) == set(_SHARED + _SPECIAL)  # every field sample_key reads
+
+
+def looks(s: Sample) -> tuple:
+    """A stand-in for ``sample_key(s)`` among samples that are all alive (so that ids are
+    unique): equal ones have equal keys. Samples of one style hold the very same colour tuples
+    and causes, and this is hashed and compared much faster than the key (whose causes and
+    declarations hash in Python): a page's samples look up their key once per distinct one."""
+    return (_by_value(s), id(s.fg), id(s.bg), id(s.fg_raw), id(s.bg_alternatives),
+            id(s.surround), id(s.fg_cause), id(s.bg_cause), id(s.bg_layers), id(s.link))
+
+
 def finding_key(f: Finding) -> tuple:
     return (f.rule, sample_key(f.sample))
 
