@@ -516,12 +516,15 @@ def _judge_replays(page, uses, options) -> list:
         else:
             entry[1] += 1
     merged = set()
+    counted = {}  # id(stats) -> [stats, occurrences]: equal counts are one shared object
     for verdict, times in tally.values():
-        _add_stats(page.stats, verdict.stats, times)
+        counted.setdefault(id(verdict.stats), [verdict.stats, 0])[1] += times
         palette_mod.merge(page.palette, verdict.palette, times)
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
+    for stats, times in counted.values():
+        _add_stats(page.stats, stats, times)
     return found
 
 
