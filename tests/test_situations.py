@@ -98,3 +98,21 @@ def test_packed_findings_are_kept_unread_and_read_back_the_same():
     for page in pages:
         assert packed.occurrences(page) == plain.occurrences(page)
     assert [fields(f) for f in packed] == [fields(f) for f in plain]
+
+
+def test_looks_stands_for_every_field_the_key_reads():
+    """Samples holding the same objects look alike; a change in any field the situation key
+    reads (here: a new colour tuple, a new cause) makes them look different."""
+    import dataclasses
+
+    from tinctura.model import Cause, Declaration, Sample
+
+    decl = Declaration("color", "#767676", "site.css", 4, "a", "author")
+    fg, bg = (0.46, 0.46, 0.46), (1.0, 1.0, 1.0)
+    a = Sample("p.html", "light", "rest", "/html/body/a[1]", 3, "Tides", "text", fg, bg,
+               fg + (1.0,), 16.0, 400, fg_cause=Cause(decl))
+    b = dataclasses.replace(a, xpath="/html/body/a[2]", line=4, text="Moorings")
+    assert situations.looks(a) == situations.looks(b)
+    assert situations.looks(a) != situations.looks(dataclasses.replace(a, fg=tuple(fg)[:2] + (0.5,)))
+    assert situations.looks(a) != situations.looks(dataclasses.replace(a, fg_cause=Cause(decl)))
+    assert situations.looks(a) != situations.looks(dataclasses.replace(a, state="hover"))

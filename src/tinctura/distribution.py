@@ -42,21 +42,24 @@ def histogram(samples) -> dict:
     """``{scheme: {bin: count}}`` over the samples a text rule can judge."""
     from tinctura.rules.text import judged
 
-    out: dict = {}
-    # Samples of one style share their colour tuples: keyed by identity (the samples keep
-    # the tuples alive during the call), most lookups hash four ints, not twelve floats.
-    seen: dict = {}
+    # Samples of one style share their colour tuples: counted by identity first (the samples
+    # keep the tuples alive during the call), so most are hashed as a few ints, and each
+    # distinct one is judged and binned once.
+    alike: dict = {}
     for s in samples:
-        if not judged(s):
-            continue
-        same = (id(s.fg), id(s.bg), id(s.bg_alternatives), id(s.fg_raw))
-        k = seen.get(same)
-        if k is None:
-            k = seen[same] = bin_of(worst_ratio(s))
-        bins = out.get(s.scheme)
-        if bins is None:
-            bins = out[s.scheme] = {}
-        bins[k] = bins.get(k, 0) + 1
+        same = (id(s.fg), id(s.bg), id(s.bg_alternatives), id(s.fg_raw), s.scheme, s.status,
+                s.kind, s.exempt)
+        entry = alike.get(same)
+        if entry is None:
+            alike[same] = [s, 1]
+        else:
+            entry[1] += 1
+    out: dict = {}
+    for s, n in alike.values():  # in the order first met, as the samples
+        if judged(s):
+            bins = out.setdefault(s.scheme, {})
+            k = bin_of(worst_ratio(s))
+            bins[k] = bins.get(k, 0) + n
     return out
 
 

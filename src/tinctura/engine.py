@@ -79,6 +79,9 @@ class Options:
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
+    # a compact JSON report will be written: each page's occurrences are written for it where
+    # the page is judged (in the worker, with --jobs N)
+    encode_occurrences: bool = False
 
 
 @dataclass
@@ -304,14 +307,18 @@ def _situations(samples, options: Options) -> list:
     sample of the situation)."""
     judge_gradients(samples, options.level)
     memo = _JUDGED.setdefault(verdict_key(options), {})
-    sample_key = situations.sample_key
+    sample_key, looks = situations.sample_key, situations.looks
     entries, todo = [], {}
+    seen = {}  # situations.looks -> (key, templates): the samples are alive until the end
     for s in samples:
-        k = sample_key(s)
-        templates = memo.get(k)
-        if templates is None and k not in todo:
-            todo[k] = s
-        entries.append((s, k, templates))
+        same = looks(s)
+        known = seen.get(same)
+        if known is None:
+            k = sample_key(s)
+            known = seen[same] = (k, memo.get(k))
+            if known[1] is None and k not in todo:
+                todo[k] = s
+        entries.append((s,) + known)
     if todo:
         if len(memo) + len(todo) > JUDGED_LIMIT:
             memo.clear()
@@ -345,7 +352,7 @@ def verdict_key(options: Options) -> str:
     if known is not None and known[0] is options and known[2] == cheap:
         return known[1]
     key = repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
-                                   exclude=(), share=True))
+                                   exclude=(), share=True, encode_occurrences=False))
     if len(_VERDICT_KEYS) > 64:
         _VERDICT_KEYS.clear()
     _VERDICT_KEYS[id(options)] = (options, key, cheap)
@@ -509,12 +516,15 @@ def _judge_replays(page, uses, options) -> list:
         else:
             entry[1] += 1
     merged = set()
+    counted = {}  # id(stats) -> [stats, occurrences]: equal counts are one shared object
     for verdict, times in tally.values():
-        _add_stats(page.stats, verdict.stats, times)
+        counted.setdefault(id(verdict.stats), [verdict.stats, 0])[1] += times
         palette_mod.merge(page.palette, verdict.palette, times)
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
+    for stats, times in counted.values():
+        _add_stats(page.stats, stats, times)
     return found
 
 
@@ -627,14 +637,18 @@ def _worker_init(root, options, judged):
 
 def _worker_check(rel):
     site, options, judged = _WORKER
-    return _packed(_process(site, rel, options, judged))
+    return _packed(_process(site, rel, options, judged), options)
 
 
-def _packed(result):
-    """A worker's answer with its findings' records pickled here (``PageFindings.pack``):
-    the main process keeps them without reading them."""
+def _packed(result, options):
+    """A worker's answer with its findings' records pickled here (``PageFindings.pack``),
+    and written for the JSON report when one is made: the main process keeps them without
+    reading them."""
     if isinstance(result, tuple) and isinstance(result[1], situations.PageFindings):
-        result[1].pack()
+        encode = None
+        if options.encode_occurrences:
+            from .report.json_report import encoded_occurrences as encode
+        result[1].pack(encode)
     return result
 
 
@@ -749,7 +763,7 @@ def _worker_recheck(args):
 def _worker_check_html(args):
     rel, html = args
     site, options, judged = _WORKER
-    return _packed(_process(site, rel, options, judged, html))
+    return _packed(_process(site, rel, options, judged, html), options)
 
 
 @contextmanager
@@ -791,7 +805,7 @@ def _site_pages(site, pages, options, judged):
     if jobs == 1 or len(pages) < 2 * jobs:
         with relaxed_gc():
             for rel in pages:
-                yield _packed(_process(site, rel, options, judged))
+                yield _packed(_process(site, rel, options, judged), options)
         return
     import multiprocessing
 

@@ -305,14 +305,16 @@ class Collector:
     def add_counts(self, page: str, per_situation: dict, templates, start: int,
                    records) -> None:
         """``add_page`` for a page whose records are not at hand, only how many each situation
-        has (none held): when each situation's problem has its examples and no index is kept,
-        that is all it needs; otherwise ``records()`` gives them."""
-        settled = {} if self.keep_indexes else self._settled(page, per_situation, templates)
-        if len(settled) < len(per_situation):
+        has (none held): a situation whose problem has its examples needs no more when no
+        index is kept; the others' records come from ``records()``."""
+        if self.keep_indexes:
             self.add_page(page, records(), templates, start)
             return
-        for sid, n in per_situation.items():
-            self._counted(page, sid, settled[sid][1], settled[sid][2], n)
+        settled = self._settled(page, per_situation, templates)
+        for sid, (_, p, figures) in settled.items():  # first, as add_page does
+            self._counted(page, sid, p, figures, per_situation[sid])
+        if len(settled) < len(per_situation):  # the others' occurrences, in order
+            self.add_records(page, [r for r in records() if r[0] not in settled], templates)
 
     def _counted(self, page: str, sid: int, p, figures, n: int) -> None:
         """``n`` more occurrences of a known situation whose problem has its examples."""
@@ -365,9 +367,16 @@ def declaration_uses(samples) -> dict:
     Backgrounds are rounded to 8 bits: colours closer than that are one context.
     """
     uses: dict = {}
+    # what each sample adds, by the identity of the objects it reads (the samples are alive
+    # till the end, so ids are unique): samples of one style add it once
+    seen = set()
     for s in samples:
         if s.status != DETERMINED or s.exempt or s.bg is None:
             continue
+        same = (id(s.fg_cause), id(s.bg), id(s.bg_alternatives), s.scheme)
+        if same in seen:
+            continue
+        seen.add(same)
         declaration = target_declaration(s.fg_cause)
         if declaration is None:
             continue

@@ -16,6 +16,7 @@ from __future__ import annotations
 import dataclasses
 import pickle
 import operator
+from collections import Counter
 
 from .model import Cause, Finding, Layer, Sample
 
@@ -27,6 +28,8 @@ _SHARED = tuple(f.name for f in dataclasses.fields(Sample)
                 if f.name not in POSITIONAL and f.name not in _SPECIAL)
 _shared = operator.attrgetter(*_SHARED)
 _fields = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
+# fields of a record ``(template number, xpath, line, ...)`` (``PageFindings``)
+_NUMBER, _XPATH, _LINE = (operator.itemgetter(i) for i in range(3))
 
 
 def sample_key(s: Sample) -> tuple:
@@ -37,6 +40,25 @@ def sample_key(s: Sample) -> tuple:
     if layers:
         layers = tuple((layer.kind, layer.colour, layer.cause) for layer in layers)
     return (_shared(s), cause, layers)
+
+
+# What ``looks`` reads of a sample: these by value (strings and numbers, hashed fast) ...
+_BY_VALUE = ("scheme", "state", "kind", "status", "reason", "exempt", "font_size_px",
+             "font_weight")
+_by_value = operator.attrgetter(*_BY_VALUE)
+# ... and these by identity (colour tuples, causes: hashing them calls Python code)
+_BY_ID = ("fg", "bg", "fg_raw", "bg_alternatives", "surround", "fg_cause", "bg_cause",
+          "bg_layers", "link")
+assert set(_BY_VALUE + _BY_ID) == set(_SHARED + _SPECIAL)  # every field sample_key reads
+
+
+def looks(s: Sample) -> tuple:
+    """A stand-in for ``sample_key(s)`` among samples that are all alive (so that ids are
+    unique): equal ones have equal keys. Samples of one style hold the very same colour tuples
+    and causes, and this is hashed and compared much faster than the key (whose causes and
+    declarations hash in Python): a page's samples look up their key once per distinct one."""
+    return (_by_value(s), id(s.fg), id(s.bg), id(s.fg_raw), id(s.bg_alternatives),
+            id(s.surround), id(s.fg_cause), id(s.bg_cause), id(s.bg_layers), id(s.link))
 
 
 def finding_key(f: Finding) -> tuple:
@@ -102,15 +124,18 @@ class PageFindings:
     order. A read-only sequence of ``Finding``
     (rebuilt on first use); pickled without them, so a worker sends each situation once."""
 
-    __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items")
+    __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items", "encoded")
 
-    def __init__(self, page: str, templates: list, keys: list, records: list, packed=None):
+    def __init__(self, page: str, templates: list, keys: list, records: list, packed=None,
+                 encoded=None):
         self.page = page
         self.templates = templates
         self.keys = keys
         self._records = records
         self._packed = packed  # (pickled records, occurrences per template, first-seen order)
         self._items = None
+        # the records as a report writes them, made by ``pack`` (``encode``'s answer), or None
+        self.encoded = encoded
 
     @property
     def records(self) -> list:
@@ -118,15 +143,18 @@ class PageFindings:
             self._records = pickle.loads(self._packed[0])
         return self._records
 
-    def pack(self) -> "PageFindings":
+    def pack(self, encode=None) -> "PageFindings":
         """Pickle the records once, where they were made (a worker process): the main process
         can then keep them as they are (``FindingStore.put_packed``) and count them from
-        ``packed()`` without reading them."""
-        counts, first = [0] * len(self.templates), []
-        for r in self._records:
-            if not counts[r[0]]:
-                first.append(r[0])
-            counts[r[0]] += 1
+        ``packed()`` without reading them. ``encode(records)``, when given, writes them for a
+        report here too (``encoded``), so the main process only copies them."""
+        if encode is not None:
+            self.encoded = encode(self._records)
+        counts = [0] * len(self.templates)
+        per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
+        for n, times in per_template.items():
+            counts[n] = times
+        first = list(per_template)
         self._packed = (pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL), counts,
                         first)
         self._records = None
@@ -200,9 +228,11 @@ class PageFindings:
             records.sort(key=lambda r: order(templates[r[0]], r))
         elif template_order is not None and len(records) > 1:
             after = [template_order(t) for t in templates]
-            sort_keys = [(r[2], r[1], after[r[0]]) for r in records]
-            records = [records[i] for i in sorted(range(len(records)),
-                                                  key=sort_keys.__getitem__)]
+            # (line, XPath, after) per record, built by C-level iterators: pages have thousands
+            sort_keys = list(zip(map(_LINE, records), map(_XPATH, records),
+                                 map(after.__getitem__, map(_NUMBER, records))))
+            records = list(map(records.__getitem__,
+                               sorted(range(len(records)), key=sort_keys.__getitem__)))
         return cls(page, templates, tkeys, records)
 
     def built(self):
@@ -234,4 +264,4 @@ class PageFindings:
 
     def __reduce__(self):
         return (PageFindings, (self.page, self.templates, self.keys, self._records,
-                               self._packed))
+                               self._packed, self.encoded))

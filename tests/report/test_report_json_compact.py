@@ -172,3 +172,35 @@ def test_occurrences_give_back_every_record(recs):
                     for sid, xpath, line, text, inherited, _, marks in recs]
     for occ, full in zip(entry["occurrences"], read_page(entry)):
         assert full[1][:occ[1]].isascii()  # every reader counts the shared part alike
+
+
+def test_encoded_occurrences_match_the_records_written_directly():
+    """A page's occurrences written where the page is judged (with its own template numbers)
+    and renumbered by the main process read as json.dumps writes the renumbered records."""
+    import json as json_mod
+
+    from tinctura.report.json_report import encoded_occurrences, renumbered
+
+    base = "/html/body/nav/ul/li[1]/a"
+    records = [(0, base, 12, "Home", "/html/body/nav", None, None),
+               (1, base, 12, "Home", "/html/body/nav", None, None),
+               (0, "/html/body/nav/ul/li[2]/a", 13, "Tide \u00e9t\u00e9 \"tables\"", None,
+                None, None),
+               (2, "/html/body/main/p[1]", 20, "x]," + "[[1]", "/html/body/main/p[1]", None,
+                None)]
+    mapping = (7, 3, 11)
+    renumbered_records = [(mapping[r[0]],) + r[1:] for r in records]
+    expected = json_mod.dumps({"page": "p.html",
+                               "occurrences": page_occurrences(renumbered_records)},
+                              ensure_ascii=False, separators=(",", ":"))
+    text = renumbered(encoded_occurrences(records), mapping)
+    assert '{"page":"p.html","occurrences":' + text + "}" == expected
+    same = json_mod.dumps(page_occurrences(records), ensure_ascii=False, separators=(",", ":"))
+    assert renumbered(encoded_occurrences(records), None) == same
+
+
+def test_encoded_occurrences_give_way_to_a_text_holding_a_nul():
+    from tinctura.report.json_report import encoded_occurrences
+
+    assert encoded_occurrences([(0, "/html/body/p", 3, "a", "/html/body", None, None)])
+    assert encoded_occurrences([(0, "/html/body/p\0", 3, "a", None, None, None)]) is None

@@ -50,8 +50,9 @@ class Formatter:
 
     A formatter that sets ``wants_findings = False`` gets ``page(page, [])`` (nothing is read
     back from the run's store); one that sets ``wants_occurrences = True`` gets
-    ``occurrences(page, records, store)`` instead of ``page``: the page's small occurrence
-    records and the ``report.store.FindingStore`` that holds each situation once.
+    ``occurrences(page, store)`` instead of ``page``: the ``report.store.FindingStore`` that
+    holds each situation once and the page's small occurrence records
+    (``store.occurrences(page.page)``).
 
     ``wants_fingerprints = True``: every finding it gets carries its fingerprint (else only
     the findings of pages with suppressions, and every finding when a baseline is used).
@@ -137,9 +138,9 @@ def _emit_occurrences(formatter: Formatter, pages, findings) -> None:
     store = FindingStore.of(findings)
     listed = [page.page for page in pages]
     for page in pages:
-        formatter.occurrences(page, store.occurrences(page.page), store)
+        formatter.occurrences(page, store)
     for name in sorted(set(store.pages()) - set(listed)):  # pages the run did not list
-        formatter.occurrences(PageResult(name), store.occurrences(name), store)
+        formatter.occurrences(PageResult(name), store)
 
 
 def _emit_pages(formatter: Formatter, pages, findings) -> None:

@@ -175,6 +175,41 @@ def page_occurrences(records) -> list:
     return out
 
 
+# format 3's pages are written as ``json.dumps(..., ensure_ascii=False, separators=(",", ":"))``
+_COMPACT = json.JSONEncoder(ensure_ascii=False, separators=(",", ":")).encode
+_MARK = "\0"  # JSON writes a NUL in a string as \u0000: a raw one in its text is ours
+
+
+def encoded_occurrences(records) -> str | None:
+    """``page_occurrences`` of a page's records (numbered by the page's own templates) as
+    format 3 writes them, but for each occurrence's list of numbers: written between two NUL
+    characters, for ``renumbered`` to put in the run's situation numbers. Made where the page
+    is judged (``situations.PageFindings.pack``), so that with several processes the main one
+    only copies it. None if a text of the page held a NUL (excerpts never do): the report is
+    then written from the records."""
+    occurrences = page_occurrences(records)
+    for occ in occurrences:
+        occ[0] = _MARK + ",".join(map(str, occ[0])) + _MARK
+    text = _COMPACT(occurrences)
+    if text.count("\\u0000") != 2 * len(occurrences):
+        return None
+    return text.replace('"\\u0000', "[" + _MARK).replace('\\u0000"', _MARK + "]")
+
+
+def renumbered(text: str, mapping) -> str:
+    """``encoded_occurrences``' text with ``mapping`` (template number -> situation number;
+    None: the same) applied, as ``page_occurrences`` of the renumbered records would write it."""
+    parts = text.split(_MARK)
+    if mapping is not None:
+        new = {}  # a page's occurrences repeat a few lists of numbers
+        for i in range(1, len(parts), 2):
+            numbers = parts[i]
+            if numbers not in new:
+                new[numbers] = ",".join(str(mapping[int(n)]) for n in numbers.split(","))
+            parts[i] = new[numbers]
+    return "".join(parts)
+
+
 def marks_list(marks) -> list:
     """The gate's marks ``(fingerprint, suppressed, baseline)`` as format 3 writes them."""
     return [marks[0], marks[1] or None, marks[2] or None]
@@ -472,11 +507,21 @@ class JsonFormatter(Formatter):
         for f in findings:
             self.index_of[id(f)] = self._item("findings", finding_dict(f))
 
-    def occurrences(self, page, records, store) -> None:
+    def occurrences(self, page, store) -> None:
         self.store = store
-        if records:
-            self._item("pages", {"page": page.page,
-                                 "occurrences": page_occurrences(records)})
+        encoded = store.encoded(page.page)
+        if encoded is None:
+            records = store.occurrences(page.page)
+            if records:
+                self._item("pages", {"page": page.page,
+                                     "occurrences": page_occurrences(records)})
+            return
+        text = renumbered(*encoded)
+        if text != "[]":  # as written by _item
+            self._open(self.SECTIONS.index("pages"))
+            self.stream.write(",\n    " if self._count else "\n    ")
+            self.stream.write(f'{{"page":{_COMPACT(page.page)},"occurrences":{text}}}')
+            self._count += 1
 
     def problem(self, index, problem) -> None:
         if self.flat:

@@ -33,7 +33,9 @@ class FindingStore:
 
     def __init__(self):
         self._file = tempfile.TemporaryFile()
-        self._where = {}  # page -> [(offset, length)], in run order
+        # page -> [(offset, length, template mapping or None, encoded length or None)], in run
+        # order
+        self._where = {}
         self._size = 0
         self._ids = {}  # situations.finding_key -> situation number
         self.situations = []  # situation number -> template Finding (its first occurrence)
@@ -125,13 +127,19 @@ class FindingStore:
         data, counts, first = findings.packed()
         per_situation = Counter({numbers[n]: counts[n] for n in first})
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
-        self._write(page, data, mapping, per_situation, sum(counts))
+        encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
+        self._write(page, data, mapping, per_situation, sum(counts), encoded)
         return per_situation
 
-    def _write(self, page: str, data: bytes, mapping, per_situation, size: int) -> None:
+    def _write(self, page: str, data: bytes, mapping, per_situation, size: int,
+               encoded: bytes | None = None) -> None:
+        """Keep ``data`` (pickled records) and, after it, ``encoded`` (``encoded``)."""
         self._file.seek(0, 2)
-        self._where.setdefault(page, []).append((self._file.tell(), len(data), mapping))
+        self._where.setdefault(page, []).append(
+            (self._file.tell(), len(data), mapping, None if encoded is None else len(encoded)))
         self._file.write(data)
+        if encoded is not None:
+            self._file.write(encoded)
         self._count(page, per_situation, size, 1)
 
     def _count(self, page: str, per_situation, size: int, sign: int) -> None:
@@ -159,13 +167,25 @@ class FindingStore:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
         ``page``, in run order."""
         out = []
-        for offset, length, mapping in self._where.get(page, ()):
+        for offset, length, mapping, _ in self._where.get(page, ()):
             self._file.seek(offset)
             records = pickle.loads(self._file.read(length))
             if mapping is not None:  # kept as a worker packed them: its template indexes
                 records = [(mapping[r[0]],) + r[1:] for r in records]
             out.extend(records)
         return out
+
+    def encoded(self, page: str):
+        """``(text, mapping)``: ``page``'s records as the worker that packed them wrote them
+        for a report (``situations.PageFindings.encoded``), with the template index -> situation
+        number ``mapping`` (None: unchanged); None when they were not written so (or the page
+        was kept in several parts)."""
+        entries = self._where.get(page, ())
+        if len(entries) != 1 or entries[0][3] is None:
+            return None
+        offset, length, mapping, size = entries[0]
+        self._file.seek(offset + length)
+        return self._file.read(size).decode("utf-8"), mapping
 
     def page_findings(self, page: str):
         """``page``'s findings as ``situations.PageFindings`` (built on use), to hand them
