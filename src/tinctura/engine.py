@@ -815,7 +815,7 @@ def _site_pages(site, pages, options, judged):
         # The first page is checked here: its stylesheets parsed, its styles and navigation
         # fragments recorded once, and every worker forked after it starts from them.
         with relaxed_gc():
-            yield _packed(_process(site, pages[0], options, judged))
+            yield _packed(_process(site, pages[0], options, judged), options)
         pages = pages[1:]
     chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if forking else "spawn")
