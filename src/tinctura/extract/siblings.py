@@ -208,8 +208,12 @@ class SiblingIndex:
         None when no child needs anything. ``chains``: a page's element -> ancestry number
         (``_chain_id``), so that whether a compound's parent and ancestors can match is
         worked out once per distinct ancestry, not once per parent element."""
+        return self.needs_of(parent, [self.candidates(el) for el in children], chains)
+
+    def needs_of(self, parent, candidates: list, chains=None) -> list | None:
+        """``needs_children`` given ``candidates(child)`` of each child."""
         if self.any:
-            return [FULL] * len(children)
+            return [FULL] * len(candidates)
         pkey = (parent.tag, parent.get("class"), parent.get("id"))
         universal = self._universal.get(pkey)
         if universal is None:
@@ -218,7 +222,6 @@ class SiblingIndex:
             tag, classes, ident = _facts(parent)
             universal = self._universal[pkey] = (
                 *self.by_parent.matches(tag, classes, ident), *self.free)
-        candidates = [self._candidates(el) for el in children]
         if not universal and not any(candidates):
             return None
         context = _Ancestry(parent)
@@ -277,7 +280,7 @@ class SiblingIndex:
             chains[node] = base = ident
         return base
 
-    def _candidates(self, el) -> tuple:
+    def candidates(self, el) -> tuple:
         """The sibling-reading compounds ``el`` itself could match (tag, classes, id)."""
         key = (el.tag, el.get("class"), el.get("id"))
         hit = self._memo.get(key)
