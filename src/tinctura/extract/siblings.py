@@ -185,6 +185,7 @@ class SiblingIndex:
         self._memo = {}
         self._universal = {}  # parent's (tag, class, id) -> universal compounds it may meet
         self._satisfied = {}  # (ancestry number, id(compound)) -> _Ancestry.satisfies
+        self._needs_memo = {}  # (ancestry number, *candidates of each child) -> needs_of
         self._chain_ids = {}  # (parent's ancestry number, tag, class, id) -> ancestry number
         self._next_chain = 0
         for rule in rules:
@@ -226,9 +227,20 @@ class SiblingIndex:
             return None
         context = _Ancestry(parent)
         if chains is None:
-            satisfies = context.satisfies
-        else:
-            satisfies = self._satisfies_memo(self._chain_id(parent, chains), context)
+            return self._needs(universal, candidates, context.satisfies)
+        # the ancestry number stands for the parent and its ancestors (``universal`` too)
+        chain_id = self._chain_id(parent, chains)
+        key = (chain_id, *candidates)
+        hit = self._needs_memo.get(key)
+        if hit is None:
+            if len(self._needs_memo) > MEMO_LIMIT:
+                self._needs_memo.clear()
+            hit = self._needs_memo[key] = self._needs(
+                universal, candidates, self._satisfies_memo(chain_id, context))
+        return hit
+
+    @staticmethod
+    def _needs(universal, candidates, satisfies) -> list | None:
         every = 0
         for c in universal:
             if (every & c.needs) != c.needs and satisfies(c):

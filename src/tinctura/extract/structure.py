@@ -10,6 +10,7 @@ structural ids, are kept in a ``PageStructure`` that every scheme's walk of the 
 from __future__ import annotations
 
 import cssselect2
+from lxml.etree import Element
 
 from .html import own_text
 from .siblings import FIRST, FULL, INDEX, LAST, TYPE
@@ -82,7 +83,7 @@ class Structure:
         sibling facts are what sibling-reading selectors need of its place (0 where none
         can reach it). ``wrapper_of``: as for ``element_id``; ``chains``: the page's
         ancestry numbers (``SiblingIndex.needs_children``)."""
-        children = [c for c in el if isinstance(c.tag, str)]
+        children = list(el.iterchildren(Element))  # elements only, filtered by lxml
         if not children:
             return children
         # what a child's tag, attributes and emptiness decide, looked up once per child: its
