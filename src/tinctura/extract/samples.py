@@ -37,6 +37,8 @@ SVG_SHAPES = frozenset({"rect", "circle", "ellipse", "path", "polygon", "polylin
 INTERACTIVE = frozenset({"a", "button", "input", "select", "textarea", "summary"})
 FORM_CONTROLS = frozenset({"button", "input", "select", "textarea", "optgroup", "option",
                            "fieldset"})
+# what an element with no content may still show: a control, a link, a focus ring, a shape
+SHOW_EMPTY = INTERACTIVE | nontext_mod.TAGS | SVG_SHAPES
 MAX_ALTERNATIVES = 16
 # (state, pseudo-classes on the element, pseudo-classes on its ancestors). Focus is keyboard
 # focus, the case where :focus-visible styles show.
@@ -63,6 +65,7 @@ class StyleCache:
         self.styles = {}
         self.cores = {}
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
+        self.inert = {}  # structural id -> _inert(element): it cannot show anything
         self.memo = frag_mod.Memo()  # repeated subtrees
         self._next = 0
 
@@ -88,6 +91,7 @@ class StyleCache:
         self.styles.clear()
         self.cores.clear()
         self.states.clear()
+        self.inert.clear()
         self.memo.clear()
 
 
@@ -264,6 +268,7 @@ class PageWalker:
         collect = rest and self.collect
         memo = self.memo
         interactive = self.interactive  # emptied in place by _close_scope
+        inert = self.cache.inert
         own_texts, text_of, texts = self._own_texts, self.structure.text, self.texts
         while stack:
             item = stack.pop()
@@ -330,6 +335,13 @@ class PageWalker:
                     cid = key(key_id, element_id)
                 if collect:
                     meta[child] = (siblings, cid)
+                quiet = inert.get(element_id)  # the id stands for tag, attributes, emptiness
+                if quiet is None:
+                    quiet = inert[element_id] = _inert(child)
+                if quiet:  # a visit would find nothing to show (whitespace in code, mostly)
+                    known = styles.get(cid)
+                    if known is not None and not known.generated:
+                        continue
                 items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
@@ -721,6 +733,14 @@ def _focusable(el, tag) -> bool:
     if tag == "input":
         return (el.get("type") or "").lower() != "hidden"
     return el.get("tabindex") is not None
+
+
+def _inert(el) -> bool:
+    """An element that shows nothing unless its style generates content: no children, no text,
+    not focusable, not a control, link or SVG shape (nothing the walk checks or counts)."""
+    if len(el) or (el.text or "").strip() or el.get("tabindex") is not None:
+        return False
+    return el.tag.lower() not in SHOW_EMPTY
 
 
 def _disabled(el) -> bool:

@@ -89,22 +89,25 @@ class Structure:
         # what a child's tag, attributes and emptiness decide, looked up once per child: its
         # id where no sibling test reads it, the sibling-reading compounds it could match and
         # its attributes as selectors see them
-        raw_ids, known = self.raw_ids, []
+        raw_ids, raws, known = self.raw_ids, [], []
         for cel in children:
             raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
             hit = raw_ids.get(raw)
             if hit is None:
                 hit = self._first_seen(cel, raw)
+            raws.append(raw)
             known.append(hit)
         needs = self.siblings.needs_of(el, [hit[1] for hit in known], chains)
-        facts = self._sibling_facts(children, needs, [hit[2] for hit in known]) \
-            if needs is not None else None
+        if needs is None:  # the common case: tag, attributes and emptiness decide
+            return [(cel, hit[0] if hit[0] != HAS_SUBTREE else self._id(cel, hit[2], 0, wrapper_of),
+                     0) for cel, hit in zip(children, known)]
+        facts = self._sibling_facts(children, needs, [hit[2] for hit in known])
         out = []
-        for i, cel in enumerate(children):
-            ident, _, attrs = known[i]
-            siblings = facts[i] if facts is not None else 0
-            if siblings or ident == HAS_SUBTREE:
+        for cel, (tag, _, empty), (ident, _, attrs), siblings in zip(children, raws, known, facts):
+            if ident == HAS_SUBTREE:
                 ident = self._id(cel, attrs, siblings, wrapper_of)
+            elif siblings:  # as _id, where no :has() compound can match
+                ident = self.intern((tag, attrs, siblings, empty))
             out.append((cel, ident, siblings))
         return out
 
