@@ -244,6 +244,9 @@ def _wrap(table, rows) -> None:
 
 def own_text(el) -> str:
     """The element's own text (direct text nodes only), whitespace collapsed."""
+    if not len(el):  # a leaf (most elements with text): no tails to gather
+        text = el.text
+        return " ".join(text.split()) if text else ""
     parts = [el.text or ""]
     for child in el:
         parts.append(child.tail or "")

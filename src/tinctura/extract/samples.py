@@ -33,9 +33,12 @@ GLYPH_MARKERS = frozenset({"none", "disc", "circle", "square", "disclosure-open"
                            "disclosure-closed", "string"})
 SVG_TEXT = frozenset({"text", "tspan", "textpath"})
 SVG_SHAPES = frozenset({"rect", "circle", "ellipse", "path", "polygon", "polyline"})
+# focusable by their tag (and attributes); any other element by a tabindex
 INTERACTIVE = frozenset({"a", "button", "input", "select", "textarea", "summary"})
 FORM_CONTROLS = frozenset({"button", "input", "select", "textarea", "optgroup", "option",
                            "fieldset"})
+# what an element with no content may still show: a control, a link, a focus ring, a shape
+SHOW_EMPTY = INTERACTIVE | nontext_mod.TAGS | SVG_SHAPES
 MAX_ALTERNATIVES = 16
 # (state, pseudo-classes on the element, pseudo-classes on its ancestors). Focus is keyboard
 # focus, the case where :focus-visible styles show.
@@ -62,6 +65,7 @@ class StyleCache:
         self.styles = {}
         self.cores = {}
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
+        self.inert = {}  # structural id -> _inert(element): it cannot show anything
         self.memo = frag_mod.Memo()  # repeated subtrees
         self._next = 0
 
@@ -87,6 +91,7 @@ class StyleCache:
         self.styles.clear()
         self.cores.clear()
         self.states.clear()
+        self.inert.clear()
         self.memo.clear()
 
 
@@ -161,6 +166,7 @@ class PageWalker:
             style.pseudo = {p: self.resolver.compute(cascade(rules, (), self.ruleset, p), style,
                                                      False)
                             for p in pseudos}
+            style.generated = _generated(style.pseudo)
         else:
             style.pseudo = None
         cache[key_id] = style
@@ -192,9 +198,15 @@ class PageWalker:
     def _run_states(self, targets):
         can_matter = self.index.state_can_matter
         targets = [(el, kid) for el, kid in targets if can_matter(el)]  # once for every state
+        signatures = {}  # element -> (len(self.texts) then, _signature)
         for state, on_self, on_path in STATES:
             for el, kid in targets:
-                self._state_shared(el, kid, state, on_self, on_path, self.rest)
+                # texts only grow (a state walk may find new ones): the same count, the same
+                # texts, the same signature
+                known = signatures.get(el)
+                if known is None or known[0] != len(self.texts):
+                    known = signatures[el] = (len(self.texts), self._signature(el))
+                self._state_shared(el, kid, known[1], state, on_self, on_path, self.rest)
         self.state = REST
 
     def _open_scope(self, el, key_id, is_root):
@@ -255,20 +267,24 @@ class PageWalker:
         meta = self.meta
         collect = rest and self.collect
         memo = self.memo
+        interactive = self.interactive  # emptied in place by _close_scope
+        inert = self.cache.inert
+        own_texts, text_of, texts = self._own_texts, self.structure.text, self.texts
         while stack:
             item = stack.pop()
             el = item[0]
             if el is None:
                 scope = item[1]
-                if scope[0] is not None or len(self.interactive) > scope[1]:
+                if scope[0] is not None or len(interactive) > scope[1]:
                     self._close_scope(scope)
                 continue
             _, parent_style, key_id, is_root, chain, scopable = item
             tag = el.tag
             tag = tag.lower() if isinstance(tag, str) else ""
-            if rest and scopable and tag in SCOPE_TAGS and len(el):
+            size = len(el)
+            if rest and scopable and size and tag in SCOPE_TAGS:
                 if memo is None or is_root:  # a scope without replay: states only
-                    stack.append((None, (None, len(self.interactive))))
+                    stack.append((None, (None, len(interactive))))
                 else:
                     scope = self._open_scope(el, key_id, is_root)
                     if scope is None:
@@ -288,13 +304,23 @@ class PageWalker:
             chain = chain + ((el, style),)
             if tag in SVG_SHAPES and style.visibility == "visible":
                 self._shape(el, style)
-            focusable = _focusable(el, tag)
+            focusable = _focusable(el, tag) if tag in INTERACTIVE \
+                else el.get("tabindex") is not None
             if collect and focusable and not style.disabled:
-                self.interactive.append((el, key_id))
-            self._texts(el, tag, style, chain, key_id)
+                interactive.append((el, key_id))
+            if tag in NO_TEXT:
+                text = ""
+            else:
+                text = own_texts.get(el)
+                if text is None:
+                    text = text_of(el)
+                if text:
+                    texts[el] = text
+            if text or style.generated or tag == "input":  # most elements show nothing
+                self._texts(el, tag, style, chain, key_id, text)
             if tag in nontext_mod.TAGS:  # SC 1.4.11: boundaries, focus rings, icons
                 nontext_mod.emit(self, el, tag, style, chain)
-            if not len(el):  # a leaf (most elements of highlighted code)
+            if not size:  # a leaf (most elements of highlighted code)
                 continue
             children = kids.get(el)
             if children is None:
@@ -309,19 +335,29 @@ class PageWalker:
                     cid = key(key_id, element_id)
                 if collect:
                     meta[child] = (siblings, cid)
+                quiet = inert.get(element_id)  # the id stands for tag, attributes, emptiness
+                if quiet is None:
+                    quiet = inert[element_id] = _inert(child)
+                if quiet:  # a visit would find nothing to show (whitespace in code, mostly)
+                    known = styles.get(cid)
+                    if known is not None and not known.generated:
+                        continue
                 items.append((child, style, cid, False, chain, scopable))
             stack.extend(reversed(items))
 
-    def _state_shared(self, target, kid, state, on_self, on_path, rest):
-        """A state's samples, reused from an earlier element with the same style key and the
-        same subtree (tags, attributes, which elements have text): a site's navigation repeats
-        on every page, so each link's :hover and :focus are computed once per site."""
-        el = target
-        # the descendants' style keys (from the resting walk) stand for their tags, attributes
-        # and ancestors; which of them carry text decides which samples exist
+    def _signature(self, el) -> tuple:
+        """The descendants' style keys (from the resting walk) stand for their tags,
+        attributes and ancestors; which of them carry text decides which samples exist."""
         meta, texts = self.meta, self.texts
-        sig = tuple((meta[d][1] if d in meta else d.tag, d in texts) for d in el.iter()
-                    if isinstance(d.tag, str))
+        return tuple((meta[d][1] if d in meta else d.tag, d in texts) for d in el.iter()
+                     if isinstance(d.tag, str))
+
+    def _state_shared(self, target, kid, sig, state, on_self, on_path, rest):
+        """A state's samples, reused from an earlier element with the same style key and the
+        same subtree (``sig``: ``_signature``): a site's navigation repeats on every page, so
+        each link's :hover and :focus are computed once per site."""
+        el = target
+        texts = self.texts
         memo_key = (kid, state, sig)
         template = self.cache.states.get(memo_key)
         base = self._getpath(el)
@@ -335,7 +371,7 @@ class PageWalker:
         for sample in samples:
             moved = stamp.sample(sample, old_base)
             if sample.kind in ("text", "svg-text"):  # the signature has no texts
-                at = frag_mod.resolve(el, sample.xpath[len(old_base):].split("::")[0])
+                at = stamp.element(sample.xpath[len(old_base):].split("::")[0])
                 moved.text = " ".join(texts.get(at, "").split())[:60]
             self.samples.append(moved)
 
@@ -394,25 +430,13 @@ class PageWalker:
         return canvas if isinstance(canvas, tuple) else (1.0, 1.0, 1.0, 1.0)
 
     # -- samples ---------------------------------------------------------------------------
-    def _texts(self, el, tag, style, chain, key_id):
-        if tag in NO_TEXT:
-            if tag == "textarea" or tag == "select":
-                return
-            text = ""
-        else:
-            text = self._own_texts.get(el)
-            if text is None:
-                text = self.structure.text(el)
-            if text:
-                self.texts[el] = text
-        if style.pseudo:
-            for pseudo in ("before", "after"):
-                ps = style.pseudo.get(pseudo)
-                if ps is not None and ps.content and ps.display != "none":
-                    content = _string_content(ps.content)
-                    if content:
-                        self._emit(el, ps, chain + ((None, ps),), content, "generated",
-                                   ("pseudo", pseudo, key_id), f"::{pseudo}")
+    def _texts(self, el, tag, style, chain, key_id, text):
+        """The samples of ``el``: generated content, form values, its own ``text``."""
+        if tag == "textarea" or tag == "select":
+            return
+        for pseudo, ps, content in style.generated:
+            self._emit(el, ps, chain + ((None, ps),), content, "generated",
+                       ("pseudo", pseudo, key_id), f"::{pseudo}")
         if tag == "input":
             itype = (el.get("type") or "text").lower()
             if itype in ("button", "submit", "reset"):
@@ -711,11 +735,31 @@ def _focusable(el, tag) -> bool:
     return el.get("tabindex") is not None
 
 
+def _inert(el) -> bool:
+    """An element that shows nothing unless its style generates content: no children, no text,
+    not focusable, not a control, link or SVG shape (nothing the walk checks or counts)."""
+    if len(el) or (el.text or "").strip() or el.get("tabindex") is not None:
+        return False
+    return el.tag.lower() not in SHOW_EMPTY
+
+
 def _disabled(el) -> bool:
     tag = el.tag.lower() if isinstance(el.tag, str) else ""
     if tag in FORM_CONTROLS and el.get("disabled") is not None:
         return True
     return el.get("aria-disabled", "").lower() == "true" and tag in ("button", "a")
+
+
+def _generated(pseudo: dict) -> tuple:
+    """``Style.generated`` from the element's pseudo-element styles."""
+    out = []
+    for name in ("before", "after"):
+        ps = pseudo.get(name)
+        if ps is not None and ps.content and ps.display != "none":
+            content = _string_content(ps.content)
+            if content:
+                out.append((name, ps, content))
+    return tuple(out)
 
 
 def _string_content(tokens) -> str:

@@ -185,6 +185,7 @@ class SiblingIndex:
         self._memo = {}
         self._universal = {}  # parent's (tag, class, id) -> universal compounds it may meet
         self._satisfied = {}  # (ancestry number, id(compound)) -> _Ancestry.satisfies
+        self._needs_memo = {}  # (ancestry number, *candidates of each child) -> needs_of
         self._chain_ids = {}  # (parent's ancestry number, tag, class, id) -> ancestry number
         self._next_chain = 0
         for rule in rules:
@@ -208,8 +209,12 @@ class SiblingIndex:
         None when no child needs anything. ``chains``: a page's element -> ancestry number
         (``_chain_id``), so that whether a compound's parent and ancestors can match is
         worked out once per distinct ancestry, not once per parent element."""
+        return self.needs_of(parent, [self.candidates(el) for el in children], chains)
+
+    def needs_of(self, parent, candidates: list, chains=None) -> list | None:
+        """``needs_children`` given ``candidates(child)`` of each child."""
         if self.any:
-            return [FULL] * len(children)
+            return [FULL] * len(candidates)
         pkey = (parent.tag, parent.get("class"), parent.get("id"))
         universal = self._universal.get(pkey)
         if universal is None:
@@ -218,14 +223,24 @@ class SiblingIndex:
             tag, classes, ident = _facts(parent)
             universal = self._universal[pkey] = (
                 *self.by_parent.matches(tag, classes, ident), *self.free)
-        candidates = [self._candidates(el) for el in children]
         if not universal and not any(candidates):
             return None
         context = _Ancestry(parent)
         if chains is None:
-            satisfies = context.satisfies
-        else:
-            satisfies = self._satisfies_memo(self._chain_id(parent, chains), context)
+            return self._needs(universal, candidates, context.satisfies)
+        # the ancestry number stands for the parent and its ancestors (``universal`` too)
+        chain_id = self._chain_id(parent, chains)
+        key = (chain_id, *candidates)
+        hit = self._needs_memo.get(key)
+        if hit is None:
+            if len(self._needs_memo) > MEMO_LIMIT:
+                self._needs_memo.clear()
+            hit = self._needs_memo[key] = self._needs(
+                universal, candidates, self._satisfies_memo(chain_id, context))
+        return hit
+
+    @staticmethod
+    def _needs(universal, candidates, satisfies) -> list | None:
         every = 0
         for c in universal:
             if (every & c.needs) != c.needs and satisfies(c):
@@ -277,7 +292,7 @@ class SiblingIndex:
             chains[node] = base = ident
         return base
 
-    def _candidates(self, el) -> tuple:
+    def candidates(self, el) -> tuple:
         """The sibling-reading compounds ``el`` itself could match (tag, classes, id)."""
         key = (el.tag, el.get("class"), el.get("id"))
         hit = self._memo.get(key)

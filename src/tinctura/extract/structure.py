@@ -10,6 +10,7 @@ structural ids, are kept in a ``PageStructure`` that every scheme's walk of the 
 from __future__ import annotations
 
 import cssselect2
+from lxml.etree import Element
 
 from .html import own_text
 from .siblings import FIRST, FULL, INDEX, LAST, TYPE
@@ -82,33 +83,50 @@ class Structure:
         sibling facts are what sibling-reading selectors need of its place (0 where none
         can reach it). ``wrapper_of``: as for ``element_id``; ``chains``: the page's
         ancestry numbers (``SiblingIndex.needs_children``)."""
-        children = [c for c in el if isinstance(c.tag, str)]
+        children = list(el.iterchildren(Element))  # elements only, filtered by lxml
         if not children:
             return children
-        needs = self.siblings.needs_children(el, children, chains)
-        has = self.has
+        # what a child's tag, attributes and emptiness decide, looked up once per child: its
+        # id where no sibling test reads it, the sibling-reading compounds it could match and
+        # its attributes as selectors see them
+        raw_ids, raws, known = self.raw_ids, [], []
+        for cel in children:
+            raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
+            hit = raw_ids.get(raw)
+            if hit is None:
+                hit = self._first_seen(cel, raw)
+            raws.append(raw)
+            known.append(hit)
+        needs = self.siblings.needs_of(el, [hit[1] for hit in known], chains)
         if needs is None:  # the common case: tag, attributes and emptiness decide
-            raw_ids, out = self.raw_ids, []
-            for cel in children:
-                raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
-                ident = raw_ids.get(raw)
-                if ident is None:
-                    if len(raw_ids) > LIMIT:
-                        raw_ids.clear()
-                    # HAS_SUBTREE: a :has() compound may match; its answers are per subtree
-                    ident = raw_ids[raw] = HAS_SUBTREE \
-                        if has is not None and has.could_match(cel) \
-                        else self.intern((raw[0], self.attrs(cel), raw[2]))
-                if ident == HAS_SUBTREE:
-                    ident = self._id(cel, self.attrs(cel), 0, wrapper_of)
-                out.append((cel, ident, 0))
-            return out
-        facts = self._sibling_facts(children, needs)
-        return [(cel, self._id(cel, self.attrs(cel), facts[i], wrapper_of), facts[i])
-                for i, cel in enumerate(children)]
+            return [(cel, hit[0] if hit[0] != HAS_SUBTREE else self._id(cel, hit[2], 0, wrapper_of),
+                     0) for cel, hit in zip(children, known)]
+        facts = self._sibling_facts(children, needs, [hit[2] for hit in known])
+        out = []
+        for cel, (tag, _, empty), (ident, _, attrs), siblings in zip(children, raws, known, facts):
+            if ident == HAS_SUBTREE:
+                ident = self._id(cel, attrs, siblings, wrapper_of)
+            elif siblings:  # as _id, where no :has() compound can match
+                ident = self.intern((tag, attrs, siblings, empty))
+            out.append((cel, ident, siblings))
+        return out
 
-    def _sibling_facts(self, children, needs) -> list:
-        """Per child, only what its selectors read of its siblings (``siblings`` module)."""
+    def _first_seen(self, el, raw: tuple) -> tuple:
+        """``(id, sibling-reading compounds, attrs)`` of a tag, attributes and emptiness not
+        met yet; the id is HAS_SUBTREE where a :has() compound may match (its answers are per
+        subtree)."""
+        raw_ids = self.raw_ids
+        if len(raw_ids) > LIMIT:
+            raw_ids.clear()
+        has, attrs = self.has, self.attrs(el)
+        ident = HAS_SUBTREE if has is not None and has.could_match(el) \
+            else self.intern((raw[0], attrs, raw[2]))
+        hit = raw_ids[raw] = (ident, self.siblings.candidates(el), attrs)
+        return hit
+
+    def _sibling_facts(self, children, needs, attrs) -> list:
+        """Per child, only what its selectors read of its siblings (``siblings`` module);
+        ``attrs``: each child's ``attrs``."""
         n = len(children)
         want = 0
         for need in needs:
@@ -129,9 +147,9 @@ class Structure:
                 following[i] = nxt
                 nxt = intern(("f", children[i].tag, nxt))
             prevs, chain = [], 0  # identity of the previous siblings (tags and attributes)
-            for c in children:
+            for c, c_attrs in zip(children, attrs):
                 prevs.append(chain)
-                chain = intern(("s", c.tag, self.attrs(c), chain))
+                chain = intern(("s", c.tag, c_attrs, chain))
         out = []
         for i, need in enumerate(needs):
             if not need:
@@ -232,7 +250,7 @@ class PageStructure:
                 if base is None:
                     base = paths[el] = self._getpath(el)
                 base += "/"
-                for (child, *_), step in zip(kids, steps([k[0] for k in kids])):
+                for (child, _, _), step in zip(kids, steps([k[0] for k in kids])):
                     paths[child] = base + step
         return kids
 

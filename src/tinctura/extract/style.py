@@ -149,7 +149,7 @@ class Style:
                  "opacity", "opacity_cause", "display", "visibility", "font_size", "font_weight",
                  "custom", "scheme", "fill_color", "effects", "visually_hidden", "content",
                  "parent", "has_opacity_above", "svg_fill", "disabled", "pseudo", "list_style",
-                 "hidden_within", "shadows", "in_link")
+                 "hidden_within", "shadows", "in_link", "generated")
 
     def __init__(self):
         self.color = BLACK
@@ -179,6 +179,8 @@ class Style:
         self.svg_fill = None
         self.disabled = False
         self.in_link = 0  # inside an <a href> (itself included): 1; one in running text: 2
+        # (pseudo-element, its Style, its text) of the ::before and ::after that show text
+        self.generated = ()
 
 
 ROOT_PARENT = Style()
