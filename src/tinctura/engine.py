@@ -623,15 +623,11 @@ def _add_stats(into: dict, more: dict, times: int = 1) -> None:
 _WORKER = None
 
 
-_WARM_SITE = None  # the main process's Site, its caches warmed by a first page, for forked workers
-
-
-def _worker_init(root, options, judged):
+def _worker_init(root, options, judged, site=None):
+    """A worker's Site: ``site`` when forked from a process whose Site has checked a page
+    already (its stylesheets parsed, its styles and fragments recorded), else a new one."""
     global _WORKER
-    site = _WARM_SITE
-    if site is None or site.root != os.path.abspath(root) or site.options is not options:
-        site = Site(root, options)
-    _WORKER = (site, options, judged)
+    _WORKER = (site if site is not None else Site(root, options), options, judged)
     _relax_gc()  # a worker lives only to check pages
 
 
@@ -680,7 +676,8 @@ class PagePool:
 
         ctx = multiprocessing.get_context("fork")
         _preload(options)
-        self._pool = ctx.Pool(workers, initializer=_pool_init, initargs=(root, options, site))
+        self._pool = ctx.Pool(workers, initializer=_worker_init,
+                              initargs=(root, options, True, site))
         self._pending = []
         self._limit = 2 * workers  # pages waiting in the queue, each holding its HTML
         self._done = 0
@@ -744,12 +741,6 @@ class PagePool:
         """End the workers: every answer is in, and a stuck worker must not hold the build."""
         self._pool.terminate()
         self._pool.join()
-
-
-def _pool_init(root, options, site):
-    global _WORKER
-    _WORKER = (site if site is not None else Site(root, options), options, True)
-    _relax_gc()  # a worker lives only to check pages
 
 
 def _worker_recheck(args):
@@ -819,11 +810,7 @@ def _site_pages(site, pages, options, judged):
         pages = pages[1:]
     chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if forking else "spawn")
-    global _WARM_SITE
-    _WARM_SITE = site if forking else None
-    try:
-        with ctx.Pool(jobs, initializer=_worker_init,
-                      initargs=(site.root, options, judged)) as pool:
-            yield from pool.imap(_worker_check, pages, chunksize=chunk)
-    finally:
-        _WARM_SITE = None
+    warm = site if forking else None  # (a forked worker inherits it; nothing is pickled)
+    with ctx.Pool(jobs, initializer=_worker_init,
+                  initargs=(site.root, options, judged, warm)) as pool:
+        yield from pool.imap(_worker_check, pages, chunksize=chunk)
