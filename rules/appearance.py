@@ -11,12 +11,15 @@ CAM02-UCS. Pure: uses in, findings out.
 """
 from __future__ import annotations
 
-import numpy as np
+from typing import TYPE_CHECKING
 
 from tinctura import palette as palette_mod
 from tinctura.model import REST, Finding, Sample
 
 from .catalogue import LOOKALIKE, SURROUND_SHIFT
+
+if TYPE_CHECKING:  # numpy is imported on use, as colour-science is: most runs model nothing
+    import numpy as np
 
 CONDITIONS = ("normal vision", "protanopia", "deuteranopia", "tritanopia")
 CONTEXTS_PER_COLOUR = 32  # the most frequent contexts of one colour that are compared
@@ -94,6 +97,8 @@ class _Model:
     vision and, when asked, each simulated deficiency: one CIECAM02 call."""
 
     def __init__(self, groups, options, cvd: bool):
+        import numpy as np
+
         from tinctura.colour import cam02ucs, ciecam02
 
         pairs = sorted({(c["colour"], c["bg"]) for cs in groups.values() for c in cs})
@@ -129,6 +134,8 @@ def viewing_conditions(options):
 
 
 def _shifts(groups, model, options) -> list:
+    import numpy as np
+
     from tinctura.colour.cam02ucs import delta_e
 
     threshold = float(getattr(options, "shift_threshold", SHIFT_THRESHOLD))
@@ -154,6 +161,8 @@ def _shifts(groups, model, options) -> list:
 
 def opponent_terms(first, second, jmh) -> list:
     """How ``second`` looks compared with ``first`` (J'a'b'), in opponent words."""
+    import numpy as np
+
     dj, da, db = (float(x) for x in np.asarray(second) - np.asarray(first))
     dm = float(jmh[1][1] - jmh[0][1])
     words = []
@@ -191,6 +200,8 @@ def _lookalikes(pairs, groups, model, options) -> list:
 def _collapse(first, second, model, delta_e, threshold) -> list:
     """Per condition, the closest pair of contexts in one scheme when below ``threshold``;
     nothing when the two are the same colour (an alias) for normal vision."""
+    import numpy as np
+
     same = np.array([[ca["scheme"] == cb["scheme"] for cb in second] for ca in first])
     if not same.any():
         return []
@@ -268,6 +279,8 @@ LOOKALIKE_THRESHOLD = 15.0
 def shift_between(colour, bg, other_bg, options=None) -> dict:
     """How ``colour`` (sRGB) on ``bg`` compares with itself on ``other_bg``: J, M, h on each,
     dE' and the change in opponent terms (``tinctura pair --on``)."""
+    import numpy as np
+
     from tinctura.colour import cam02ucs, ciecam02
 
     spec = ciecam02.appearance([colour, colour], [bg, other_bg], viewing_conditions(options))
@@ -282,6 +295,8 @@ def shift_between(colour, bg, other_bg, options=None) -> dict:
 def lookalike_between(colour, other, bg, options=None) -> list:
     """dE' between ``colour`` and ``other`` on ``bg`` for normal vision and each simulated
     deficiency (``tinctura pair --vs``): [(condition, dE', looks alike)]."""
+    import numpy as np
+
     from tinctura.colour import cam02ucs, ciecam02
     from tinctura.colour import cvd as cvd_mod
 

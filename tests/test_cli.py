@@ -343,3 +343,22 @@ def test_write_fixes_says_how_to_add_the_file(fake_engine, tmp_path):
     assert "Automated checks cover only part of WCAG" in target.read_text()
     assert f"wrote 0 verified fixes to {target}" in err  # the fake site has no stylesheet
     assert "extra_css:\n    - stylesheets/colour-fixes.css" in err
+
+
+def test_a_contrast_check_does_not_import_numpy(tmp_path):
+    # numpy is imported on use (the appearance rules, the vectorised forms): a TC100 run, its
+    # suggested colours ranked by CAM02-UCS distance included, does without it
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Kiln log</title>'
+        '</head><body><main><p style="color:#f08c28">Fire the kiln to cone six.</p>'
+        '<p style="color:#3cb4e6">Glaze the lids after the first firing.</p></main></body></html>')
+    code = ("import sys; from tinctura import cli; from tinctura.colour import ucs_distance; "
+            "cli.main(sys.argv[1:]); "
+            "print('numpy', 'numpy' in sys.modules, ucs_distance.from_srgb.cache_info().currsize,"
+            " file=sys.stderr)")
+    done = subprocess.run([sys.executable, "-c", code, "check", str(tmp_path), "--select", "TC100",
+                           "--jobs", "1", "--no-config", "--fail-on", "never", "--format",
+                           f"json:{tmp_path / 'r.json'}"], capture_output=True, text=True)
+    _, imported, ranked = done.stderr.strip().splitlines()[-1].split()
+    assert int(ranked) > 0  # the ranking ran
+    assert imported == "False"

@@ -103,7 +103,7 @@ class Gate:
         marked, counted = [], []
         for r, value in zip(records, fingerprint.of_records(rel, records, templates)):
             state = self.baseline.state(value) if self.baseline is not None else ""
-            marked.append(r[:6] + ((value, "", state),))
+            marked.append(r[:6] + ((value, "", state, ""),))
             if state == "unchanged":
                 self.held["unchanged"] += 1
             else:

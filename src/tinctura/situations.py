@@ -68,11 +68,15 @@ def finding_key(f: Finding) -> tuple:
 def place(f: Finding) -> tuple:
     """``(xpath, line, text, inherited_from, layer xpaths or None, gate marks or None)`` of one
     occurrence; the gate's marks (``tinctura.gate``) are ``(fingerprint, suppressed,
-    baseline)``."""
+    baseline, suppressed_by)``, ``suppressed_by`` the suppression's origin ("comment",
+    "attribute", "configuration"; empty when not suppressed), which the SARIF report needs."""
     s = f.sample
     inherited = s.fg_cause.inherited_from if s.fg_cause is not None else None
     layers = tuple(layer.xpath for layer in s.bg_layers) if s.bg_layers else None
-    marks = (f.fingerprint, f.suppressed, f.baseline) if getattr(f, "fingerprint", "") else None
+    marks = None
+    if getattr(f, "fingerprint", ""):
+        origin = f.args.get("suppressed_by", "") if f.suppressed else ""
+        marks = (f.fingerprint, f.suppressed, f.baseline, origin)
     return (s.xpath, s.line, s.text, inherited, layers, marks)
 
 
@@ -89,7 +93,9 @@ def rebuild(template: Finding, where: tuple, page: str) -> Finding:
                             for x, layer in zip(where[4], s.bg_layers))
     found = occurrence(template, s)
     if where[5]:
-        found.fingerprint, found.suppressed, found.baseline = where[5]
+        found.fingerprint, found.suppressed, found.baseline, origin = where[5]
+        if origin:  # a new dict: the template's arguments are shared by its occurrences
+            found.args = {**found.args, "suppressed_by": origin}
     return found
 
 

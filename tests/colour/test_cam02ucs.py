@@ -26,3 +26,18 @@ def test_matches_colour_science():
 
 def test_delta_e_is_euclidean_in_jab():
     assert cam02ucs.delta_e([10, 3, 4], [10, 0, 0]) == pytest.approx(5.0)
+
+
+def test_one_colour_form_matches_colour_science():
+    colour = pytest.importorskip("colour")
+    jmh = np.array([[41.73, 0.108, 219.0], [65.96, 41.67, 19.6], [21.79, 37.3, 177.1]])
+    reference = colour.JMh_CIECAM02_to_CAM02UCS(jmh)
+    for row, expected in zip(jmh, reference):
+        assert np.allclose(cam02ucs.jab_one(*map(float, row)), expected, atol=1e-9)
+
+
+def test_one_colour_form_formula_values():
+    """As ``test_formula_values``: J = 50 -> 62.963; M = 40, h = 90 -> a' = 0, b' = 28.428."""
+    j, a, b = cam02ucs.jab_one(50.0, 40.0, 90.0)
+    assert j == pytest.approx(62.963, abs=1e-3) and a == pytest.approx(0.0, abs=1e-9)
+    assert b == pytest.approx(28.428, abs=1e-3)

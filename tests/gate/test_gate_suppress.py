@@ -1,5 +1,6 @@
 """Suppressions next to the content and in the configuration."""
 import json
+import pathlib
 import subprocess
 import sys
 
@@ -16,7 +17,7 @@ def situations(doc):
     """The situation of each finding, in report order."""
     return [sid for _, sid, _, _ in places(doc)]
 
-from gate_helpers import CASTING, call, page, site  # noqa: F401  (site: a fixture)
+from gate_helpers import CASTING, TUNING, call, page, site  # noqa: F401  (site: a fixture)
 
 COMMENT = '<!-- tinctura: allow TC100 reason="the cooling note repeats the printed tag" -->\n'
 
@@ -120,10 +121,12 @@ def test_markdown_comment_and_attribute_list_in_an_mkdocs_build(tmp_path):
         "Polish the crown last.\n{: .faint }\n\n"
         "Check the clapper.\n"
         '{: .faint data-tinctura-allow="TC100: clapper note is decorative" }\n')
+    (docs / "tuning.md").write_text("# Tuning\n\nStrike note within two cents.\n{: .faint }\n")
     (tmp_path / "mkdocs.yml").write_text(
         "site_name: Kestrow handbook\ntheme: {name: mkdocs}\nextra_css: [extra.css]\n"
         "markdown_extensions: [attr_list]\nplugins:\n  - tinctura:\n      states: false\n"
-        "      fail_on: never\n      report: ['json:out.json', 'sarif:out.sarif']\n")
+        "      fail_on: never\n      report: ['json:out.json', 'sarif:out.sarif']\n"
+        "      allow: [{pages: 'tuning/*', selector: 'p.faint', reason: 'scanned sheet'}]\n")
     subprocess.run([sys.executable, "-m", "mkdocs", "build", "-q"], cwd=tmp_path, check=True,
                    env={"NO_MKDOCS_2_WARNING": "1", "PATH": "/usr/bin:/bin"})
     doc = json.loads((tmp_path / "out.json").read_text())
@@ -137,6 +140,14 @@ def test_markdown_comment_and_attribute_list_in_an_mkdocs_build(tmp_path):
     located = {r["locations"][0]["physicalLocation"]["artifactLocation"]["uri"]
                for r in sarif["runs"][0]["results"]}
     assert "docs/index.md" in located  # the plugin knows the Markdown source
+    # SARIF 2.1.0 (OASIS), §3.35.3 suppression.kind: "inSource" when written in the analysed
+    # source (the Markdown's comment and attribute list), "external" when kept outside it
+    # (here the plugin's settings in mkdocs.yml)
+    kinds = {(r["message"]["text"].split("\u201c")[-1].rstrip("\u201d"), s["kind"])
+             for r in sarif["runs"][0]["results"] for s in r["suppressions"]}
+    assert kinds == {("Let the mould cool for three days.", "inSource"),
+                     ("Check the clapper.", "inSource"),
+                     ("Strike note within two cents.", "external")}
 
 
 def test_a_directive_with_no_element_after_it_is_reported(site):
@@ -144,3 +155,32 @@ def test_a_directive_with_no_element_after_it_is_reported(site):
     _, doc, _ = report(site)
     assert any("no element follows it" in d["message"] for d in doc["diagnostics"])
     assert all(f.get("suppressed") is None for f in expand(doc))
+
+
+SARIF_SCHEMA = pathlib.Path(__file__).resolve().parents[1] / "data" / "sarif-schema-2.1.0.json"
+
+
+@pytest.mark.parametrize("jobs", [1, 2])
+def test_sarif_suppression_kind_names_where_the_suppression_was_written(site, tmp_path, jobs):
+    # one suppression in each page's source (a comment, an attribute), one in the configuration
+    site.write("index.html", CASTING.replace('<p class="faint">', COMMENT + '<p class="faint">'))
+    site.write("tuning/index.html", TUNING)
+    (site.root / "bells").mkdir()
+    site.write("bells/index.html", '<p class="faint" data-tinctura-allow="TC100: worn bell '
+                                   'plate, reviewed">Tenor bell, 1897.</p>')
+    (tmp_path / "tinctura.toml").write_text(
+        'allow = [{pages = "tuning/*", reason = "tuning sheet is scanned from paper"}]\n')
+    status, _, err = call("check", site, "--jobs", jobs, "--fail-on", "never",
+                          "--format", f"sarif:{tmp_path / 'r.sarif'}")
+    assert status == 0, err
+    sarif = json.loads((tmp_path / "r.sarif").read_text())
+    jsonschema.validate(sarif, json.loads(SARIF_SCHEMA.read_text()))  # OASIS SARIF 2.1.0 schema
+    kinds: dict = {}
+    for r in sarif["runs"][0]["results"]:
+        uri = r["locations"][0]["physicalLocation"]["artifactLocation"]["uri"]
+        kinds.setdefault(uri, set()).update(s["kind"] for s in r["suppressions"])
+    # SARIF 2.1.0 (OASIS), §3.35.3 suppression.kind: "inSource" for a suppression written in
+    # the analysed artefact (the page's comment or attribute), "external" for one kept outside
+    # it (the configuration file)
+    assert kinds == {"site/index.html": {"inSource"}, "site/bells/index.html": {"inSource"},
+                     "site/tuning/index.html": {"external"}}

@@ -1,7 +1,7 @@
 """Distances in CAM02-UCS between sRGB colours, for ranking suggested colours by closeness.
 
 CIECAM02 (CIE 159:2004) forward model to J, M, h for fixed sRGB viewing conditions, then
-CAM02-UCS (``colour.cam02ucs.jab``, Luo, Cui & Li 2006).
+CAM02-UCS (``colour.cam02ucs.jab_one``, Luo, Cui & Li 2006).
 Viewing conditions as colour-science uses for sRGB (``CAM_KWARGS_CIECAM02_sRGB``): D65 white,
 L_A = 64 / pi * 0.2 cd/m2, Y_b = 20, average surround (F = 1, c = 0.69, N_c = 1).
 
@@ -90,7 +90,7 @@ def jmh(xyz) -> tuple:
 def from_srgb(rgb) -> tuple:
     """CAM02-UCS (J', a', b') of an sRGB colour (channels 0..1)."""
     xyz = tuple(100 * v for v in _mul(LINEAR_SRGB_TO_XYZ, srgb_to_linear(tuple(rgb[:3]))))
-    return tuple(float(v) for v in cam02ucs.jab(*jmh(xyz)))
+    return cam02ucs.jab_one(*jmh(xyz))
 
 
 def distance(a, b) -> float:

@@ -9,8 +9,10 @@ from __future__ import annotations
 from decimal import ROUND_FLOOR, Decimal
 
 from functools import lru_cache
+from typing import TYPE_CHECKING
 
-import numpy as np
+if TYPE_CHECKING:  # numpy is imported on use: the checks never call the vectorised forms
+    import numpy as np
 
 # WCAG 2.2 "large scale (text)": at least 18 pt, or 14 pt bold; 1 pt = 4/3 px
 # (CSS Values and Units: 1in = 96px = 72pt).
@@ -51,6 +53,8 @@ def contrast_ratio(rgb1, rgb2) -> float:
 
 def relative_luminances(rgb) -> np.ndarray:
     """Vectorised :func:`relative_luminance` over an array whose last axis is r, g, b[, a]."""
+    import numpy as np
+
     c = np.asarray(rgb, dtype=float)[..., :3]
     lin = np.where(c <= 0.04045, c / 12.92, ((c + 0.055) / 1.055) ** 2.4)
     return lin @ np.array([0.2126, 0.7152, 0.0722])
@@ -58,6 +62,8 @@ def relative_luminances(rgb) -> np.ndarray:
 
 def contrast_ratios(fg, bg) -> np.ndarray:
     """Vectorised :func:`contrast_ratio`; inputs broadcast against each other."""
+    import numpy as np
+
     l1, l2 = relative_luminances(fg), relative_luminances(bg)
     return (np.maximum(l1, l2) + 0.05) / (np.minimum(l1, l2) + 0.05)
 

@@ -211,13 +211,15 @@ def renumbered(text: str, mapping) -> str:
 
 
 def marks_list(marks) -> list:
-    """The gate's marks ``(fingerprint, suppressed, baseline)`` as format 3 writes them."""
+    """The gate's marks ``(fingerprint, suppressed, baseline, suppressed_by)`` as format 3
+    writes them (``suppressed_by`` is not written: only the SARIF report tells origins apart)."""
     return [marks[0], marks[1] or None, marks[2] or None]
 
 
 def marks_dict(marks) -> dict:
-    """The gate's marks ``(fingerprint, suppressed, baseline)`` as format 1 writes them."""
-    fingerprint, suppressed, baseline = marks
+    """The gate's marks ``(fingerprint, suppressed, baseline[, suppressed_by])`` as format 1
+    writes them (``suppressed_by`` is not written, as in ``marks_list``)."""
+    fingerprint, suppressed, baseline = marks[:3]
     return {"fingerprint": fingerprint, "suppressed": suppressed or None,
             "baseline": baseline or None}
 
