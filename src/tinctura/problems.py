@@ -306,7 +306,8 @@ class Collector:
                    records) -> None:
         """``add_page`` for a page whose records are not at hand, only how many each situation
         has (none held): a situation whose problem has its examples needs no more when no
-        index is kept; the others' records come from ``records()``."""
+        index is kept; the others' records come from ``records(skip)`` (all of the page's
+        records, in order, but for those of the situations in ``skip``)."""
         if self.keep_indexes:
             self.add_page(page, records(), templates, start)
             return
@@ -314,7 +315,7 @@ class Collector:
         for sid, (_, p, figures) in settled.items():  # first, as add_page does
             self._counted(page, sid, p, figures, per_situation[sid])
         if len(settled) < len(per_situation):  # the others' occurrences, in order
-            self.add_records(page, [r for r in records() if r[0] not in settled], templates)
+            self.add_records(page, records(settled.keys()), templates)
 
     def _counted(self, page: str, sid: int, p, figures, n: int) -> None:
         """``n`` more occurrences of a known situation whose problem has its examples."""

@@ -195,20 +195,23 @@ class PageFindings:
             return n
 
         for s, k, found in judged:
+            where = None  # the sample's place, made once for all its findings
             for t in found:
                 own = t.sample is s
                 n = by_object.get(id(t))
                 if n is None:
                     n = by_object[id(t)] = number(
                         (t.rule, k), lambda t=t, s=s, own=own: t if own else occurrence(t, s))
-                if own:
+                if own and t.fingerprint:  # (marked by a gate: the marks are its own)
                     records.append((n,) + place(t))
                     continue
-                c = s.fg_cause
-                records.append((n, s.xpath, s.line, s.text,
-                                c.inherited_from if c is not None else None,
-                                tuple(layer.xpath for layer in s.bg_layers)
-                                if s.bg_layers else None, None))
+                if where is None:
+                    c = s.fg_cause
+                    where = (s.xpath, s.line, s.text,
+                             c.inherited_from if c is not None else None,
+                             tuple(layer.xpath for layer in s.bg_layers)
+                             if s.bg_layers else None, None)
+                records.append((n,) + where)
         if keys is None:
             keys = [finding_key(f) for f in findings]
         for f, key in zip(findings, keys):
@@ -233,8 +236,12 @@ class PageFindings:
         if order is not None:
             records.sort(key=lambda r: order(templates[r[0]], r))
         elif template_order is not None and len(records) > 1:
+            # each template's rank in template_order (equal orders, equal ranks): ints
+            # compare faster than the orders' tuples of strings
             after = [template_order(t) for t in templates]
-            # (line, XPath, after) per record, built by C-level iterators: pages have thousands
+            rank = {a: r for r, a in enumerate(sorted(set(after)))}
+            after = [rank[a] for a in after]
+            # (line, XPath, rank) per record, built by C-level iterators: pages have thousands
             sort_keys = list(zip(map(_LINE, records), map(_XPATH, records),
                                  map(after.__getitem__, map(_NUMBER, records))))
             records = list(map(records.__getitem__,
