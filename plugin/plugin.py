@@ -75,6 +75,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         # each page's findings on disk, as situations and small records (report.store), kept
         # between serve rebuilds; each build gates them into a store of its own
         self.found = FindingStore()
+        self.early = None  # Gating of this build's first pages while MkDocs renders the rest
+        self.kept_now: set = set()  # pages checked in this build
 
     # -- lifecycle -------------------------------------------------------------------------
 
@@ -128,6 +130,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.site_dir = config.site_dir
         self.options = options
         self.sheets_checked = False
+        self.early, self.kept_now = None, set()
 
     @event_priority(-100)  # after plugins that add pages in on_files
     def on_files(self, files, *, config):
@@ -171,6 +174,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.records[rel] = PageRecord(key, result, len(findings), uses)
         self.stale.discard(rel)
         self.rechecked.append(rel)
+        self.kept_now.add(rel)
 
     def submit(self, rel: str, html: str, key: str) -> None:
         """Check in a worker when there are spare cores, else now."""
@@ -223,6 +227,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             return output
         rel = page.file.dest_uri
         self.current.setdefault(rel, page.file.src_uri)  # pages added after on_files
+        self.gate_early()
         key = digest(output)
         self.get_site()  # the first call of a build decides which records are stale
         record = self.records.get(rel)
@@ -291,20 +296,37 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         """This build's findings through the gate into a store of their own (pages in order,
         then the site-level rules), as ``tinctura check`` does: ``(problems, store, gate,
         the gate's diagnostics)``."""
-        gate = self.make_gate()
-        store, collector, notes = FindingStore(), problems.Collector(keep_indexes=False), []
-        uses, palette = {}, {}
-        for r in records:
-            rel = r.result.page
-            notes.extend(gated.intake(gate, store, collector, rel, self.found.page_findings(rel)))
-            problems.merge_uses(uses, r.uses)
-            palette_mod.merge(palette, r.result.palette)
-        site_findings = engine.judge_site(palette, self.options, ordered=True)
-        if site_findings:  # after every page, under the whole site, as reports list them
-            notes.extend(gated.intake(gate, store, collector, palette_mod.SITE_PAGE,
-                                      site_findings))
-        notes.extend(gate.finish())
-        return collector.problems(uses), store, gate, notes
+        gating, self.early = self.early, None
+        if not gating or not gating.agrees(records):  # (pages came in another order)
+            if gating:
+                gating.store.close()
+            gating = Gating(self.make_gate())
+        for r in records[len(gating.done):]:
+            gating.take(r, self.found)
+        return gating.finish(self.options)
+
+    def gate_early(self) -> None:
+        """While MkDocs renders: the pages whose findings are in go through the gate, in the
+        order ``gated`` takes them (sorted), as far as that order has them; the worker goes
+        on checking meanwhile, and ``gated`` finds most of the work done. Only pages written
+        already (checked in this build, and not the page being rendered): the gate reads them
+        for suppressions. Not in `mkdocs serve`, whose records outlive a build."""
+        if self.command == "serve" or self.early is False:
+            return
+        if self.early is None:
+            try:
+                self.early = Gating(self.make_gate())
+            except PluginError:  # raised again, as before, when the build ends
+                self.early = False
+                return
+            self.early.order = sorted(self.current)
+        gating = self.early
+        while len(gating.done) < len(gating.order):
+            rel = gating.order[len(gating.done)]
+            record = self.records.get(rel)
+            if rel not in self.kept_now or record is None:
+                return
+            gating.take(record, self.found)
 
     # -- the maintainer's gate and reports ------------------------------------------------
 
@@ -410,6 +432,42 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             level = logging.INFO if problem.severity == "info" else logging.WARNING
             if log.isEnabledFor(level):  # (`mkdocs build -q`: each line would be dropped)
                 log.log(level, label + problem_line(problem, many_schemes, locate))
+
+
+class Gating:
+    """This build's findings through the gate into a store of their own (pages in order,
+    then the site-level rules), as ``tinctura check`` does."""
+
+    def __init__(self, gate) -> None:
+        self.gate = gate
+        self.store, self.collector = FindingStore(), problems.Collector(keep_indexes=False)
+        self.notes: list = []
+        self.uses: dict = {}
+        self.palette: dict = {}
+        self.done: list = []  # the PageRecords taken, in order
+        self.order: list = []  # pages in the order they are to be taken (``gate_early``)
+
+    def take(self, record, found) -> None:
+        rel = record.result.page
+        self.notes.extend(gated.intake(self.gate, self.store, self.collector, rel,
+                                       found.page_findings(rel)))
+        problems.merge_uses(self.uses, record.uses)
+        palette_mod.merge(self.palette, record.result.palette)
+        self.done.append(record)
+
+    def agrees(self, records) -> bool:
+        """Whether the records taken are the first of ``records``, the same objects."""
+        return len(self.done) <= len(records) and \
+            all(a is b for a, b in zip(self.done, records))
+
+    def finish(self, options) -> tuple:
+        """``(problems, store, gate, the gate's diagnostics)``."""
+        site_findings = engine.judge_site(self.palette, options, ordered=True)
+        if site_findings:  # after every page, under the whole site, as reports list them
+            self.notes.extend(gated.intake(self.gate, self.store, self.collector,
+                                           palette_mod.SITE_PAGE, site_findings))
+        self.notes.extend(self.gate.finish())
+        return self.collector.problems(self.uses), self.store, self.gate, self.notes
 
 
 def _shown(path: str) -> str:

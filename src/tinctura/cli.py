@@ -328,12 +328,16 @@ def run_check(args, stdout, stderr) -> int:
     project = load_project(args.mkdocs_config, stderr) \
         if getattr(args, "mkdocs_config", None) else None
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
+    # the sites' parsed stylesheets serve the verification of fixes; their style caches go
+    loaders = {site.root: site.loader for site in result.sites}
+    result.sites = []
     result.diagnostics.extend(gate.finish())
     result.findings = store
     found = collector.problems(result.uses)
     aid = writer_aid(args.paths, project, options)
     if aid is not None and found:
-        aid.plan_overrides(found, result.schemes, options, store.pages())
+        aid.plan_overrides(found, result.schemes, options, store.pages(),
+                           loaders.get(aid.site_root))
     header = report.Header(
         scope=report.scope_of(args.paths, options),
         version=version(),

@@ -92,6 +92,8 @@ class Report:
     schemes: list = field(default_factory=list)  # list[model.Scheme] evaluated
     uses: dict = field(default_factory=dict)  # declaration -> {background: schemes} (problems)
     palette: dict = field(default_factory=dict)  # palette uses of the site (site-level rules)
+    # the Site of each path checked (its parsed stylesheets serve the verification of fixes)
+    sites: list = field(default_factory=list)
 
 
 _REFRESH = re.compile(rb"<meta[^>]+http-equiv=[\"']?refresh", re.I)
@@ -388,7 +390,7 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
     options = options or Options()
     report = Report()
     seen = {}
-    for item in iter_pages(paths, options, judged=True):
+    for item in iter_pages(paths, options, judged=True, sites=report.sites):
         if isinstance(item, Diagnostic):
             report.diagnostics.append(item)
             continue
@@ -424,9 +426,10 @@ def judge_site(palette_uses: dict, options: Options, ordered: bool = False) -> l
     return found
 
 
-def iter_pages(paths, options: Options, judged: bool = False):
+def iter_pages(paths, options: Options, judged: bool = False, sites=None):
     """Yield, in a stable order, a PageResult per page (or ``(page, findings, uses)`` when
-    ``judged``) and a Diagnostic per path that cannot be read.
+    ``judged``) and a Diagnostic per path that cannot be read. ``sites``: a list that receives
+    each Site used (with --jobs N, the main process's: it checked the first page).
 
     With ``options.jobs > 1`` the pages of a site are spread over processes in contiguous
     chunks (so each worker's style cache stays warm); results keep the single-process order.
@@ -434,12 +437,16 @@ def iter_pages(paths, options: Options, judged: bool = False):
     for path in paths:
         if os.path.isdir(path):
             site = Site(path, options)
+            if sites is not None:
+                sites.append(site)
             pages = site.pages()
             if not pages:
                 yield Diagnostic(path, "no HTML pages found", severity="error")
             yield from noted_once(_site_pages(site, pages, options, judged))
         elif os.path.isfile(path):
             site = Site(os.path.dirname(os.path.abspath(path)) or ".", options)
+            if sites is not None:
+                sites.append(site)
             yield from _site_pages(site, [os.path.basename(path)], options, judged)
         else:
             yield Diagnostic(path, "no such file or directory", severity="error")

@@ -439,7 +439,10 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
                 html = fh.read()
         except OSError:
             continue
-        _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
+        # (after a whole site's check many objects are alive: each full collection would
+        # scan them all, as often as while pages were checked without ``relaxed_gc``)
+        with engine.relaxed_gc():
+            _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
         remaining += len(findings)
         for f in findings:
             remaining_keys.add(problem_key(f))

@@ -33,8 +33,8 @@ class FindingStore:
 
     def __init__(self):
         self._file = tempfile.TemporaryFile()
-        # page -> [(offset, length, template mapping or None, encoded length or None)], in run
-        # order
+        # page -> [(offset, length, template mapping or None, encoded length or None,
+        # occurrences per template index in first-seen order)], in run order
         self._where = {}
         self._size = 0
         self._ids = {}  # situations.finding_key -> situation number
@@ -109,7 +109,8 @@ class FindingStore:
         """Keep ``page``'s records (``records_of``), after what is kept already."""
         if records:
             data = pickle.dumps(records, protocol=pickle.HIGHEST_PROTOCOL)
-            self._write(page, data, None, Counter(r[0] for r in records), len(records))
+            per_situation = Counter(r[0] for r in records)
+            self._write(page, data, None, per_situation, len(records), None, per_situation)
 
     def numbers(self, findings) -> list:
         """Template index -> situation number for packed ``findings`` (``PageFindings.pack``),
@@ -128,15 +129,18 @@ class FindingStore:
         per_situation = Counter({numbers[n]: counts[n] for n in first})
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
         encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
-        self._write(page, data, mapping, per_situation, sum(counts), encoded)
+        self._write(page, data, mapping, per_situation, sum(counts), encoded,
+                    {n: counts[n] for n in first})
         return per_situation
 
     def _write(self, page: str, data: bytes, mapping, per_situation, size: int,
-               encoded: bytes | None = None) -> None:
-        """Keep ``data`` (pickled records) and, after it, ``encoded`` (``encoded``)."""
+               encoded: bytes | None = None, per_template=None) -> None:
+        """Keep ``data`` (pickled records) and, after it, ``encoded`` (``encoded``);
+        ``per_template``: occurrences per template index of ``data``, in first-seen order."""
         self._file.seek(0, 2)
         self._where.setdefault(page, []).append(
-            (self._file.tell(), len(data), mapping, None if encoded is None else len(encoded)))
+            (self._file.tell(), len(data), mapping, None if encoded is None else len(encoded),
+             per_template))
         self._file.write(data)
         if encoded is not None:
             self._file.write(encoded)
@@ -167,7 +171,7 @@ class FindingStore:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
         ``page``, in run order."""
         out = []
-        for offset, length, mapping, _ in self._where.get(page, ()):
+        for offset, length, mapping, _, _ in self._where.get(page, ()):
             self._file.seek(offset)
             records = pickle.loads(self._file.read(length))
             if mapping is not None:  # kept as a worker packed them: its template indexes
@@ -183,15 +187,32 @@ class FindingStore:
         entries = self._where.get(page, ())
         if len(entries) != 1 or entries[0][3] is None:
             return None
-        offset, length, mapping, size = entries[0]
+        offset, length, mapping, size, _ = entries[0]
         self._file.seek(offset + length)
         return self._file.read(size).decode("utf-8"), mapping
 
     def page_findings(self, page: str):
         """``page``'s findings as ``situations.PageFindings`` (built on use), to hand them
         on to another store: the MkDocs plugin keeps each page's findings here between
-        ``mkdocs serve`` rebuilds and gates them into a new store for each build's reports."""
-        return sit.PageFindings(page, self.situations, self.keys, self.occurrences(page))
+        ``mkdocs serve`` rebuilds and gates them into a new store for each build's reports.
+        A page kept in one part is handed on packed, as a worker sends it: the other store
+        can then keep and count its records without reading them (``put_packed``)."""
+        entries = self._where.get(page, ())
+        if len(entries) != 1 or not entries[0][4]:  # (no findings: nothing to hand on)
+            return sit.PageFindings(page, self.situations, self.keys, self.occurrences(page))
+        offset, length, mapping, size, per_template = entries[0]
+        self._file.seek(offset)
+        data = self._file.read(length)
+        encoded = self._file.read(size).decode("utf-8") if size is not None else None
+        templates, keys = self.situations, self.keys  # template index = situation number
+        if mapping is not None:  # kept as a worker packed it: its own template indexes
+            templates = [None if m is None else self.situations[m] for m in mapping]
+            keys = [None if m is None else self.keys[m] for m in mapping]
+        counts = [0] * len(templates)
+        for n, times in per_template.items():
+            counts[n] = times
+        return sit.PageFindings(page, templates, keys, None, (data, counts, list(per_template)),
+                                encoded)
 
     def by_page(self, page: str) -> list:
         templates = self.situations
