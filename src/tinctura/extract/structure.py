@@ -13,7 +13,7 @@ import cssselect2
 from lxml.etree import Element
 
 from .html import own_text
-from .siblings import FIRST, FULL, INDEX, LAST, TYPE
+from .siblings import FIRST, FULL, INDEX, LAST, TYPE, fits
 
 LIMIT = 60000
 HAS_SUBTREE = -1  # in Structure.raw_ids: an element whose id depends on its subtree
@@ -131,8 +131,10 @@ class Structure:
         want = 0
         for need in needs:
             want |= need
+        # (bit, of-type, from the end, a, b) of the position formulas some child reads
+        formulas = [(bit, *form) for form, bit in self.siblings.formulas.items() if want & bit]
         types = ends = None
-        if want & TYPE:
+        if want & TYPE or any(form[1] for form in formulas):
             seen, types = {}, []
             for c in children:
                 seen[c.tag] = seen.get(c.tag, 0) + 1
@@ -164,6 +166,11 @@ class Structure:
                 facts += (i, n - 1 - i)
             if need & TYPE:
                 facts += (types[i], ends[i])
+            for bit, of_type, from_end, a, b in formulas:
+                if need & bit:  # 1-based positions; ends[i] is 0 for the last of its type
+                    position = (ends[i] + 1 if from_end else types[i]) if of_type \
+                        else (n - i if from_end else i + 1)
+                    facts.append(fits(a, b, position))
             if need & FULL:
                 facts += (prevs[i], following[i])
             out.append(tuple(facts))
