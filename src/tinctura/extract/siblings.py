@@ -237,6 +237,7 @@ class SiblingIndex:
         self._chain_ids = {}  # (parent's ancestry number, tag, class, id) -> ancestry number
         self._next_chain = 0
         self.formulas = {}  # (of-type, from the end, a, b) -> its bit in a need
+        self._formulas_of = {}  # a children list's needs together -> formulas_of(them)
         for rule in rules:
             text = rule.selector_text
             if not (STRUCTURAL.search(text) or "+" in text or "~" in text):
@@ -253,6 +254,16 @@ class SiblingIndex:
                     self.by_parent.add(c.parent, c)
                 else:
                     self.free.append(c)
+
+    def formulas_of(self, want: int) -> tuple:
+        """``(bit, of-type, from the end, a, b)`` of the position formulas in ``want``."""
+        hit = self._formulas_of.get(want)
+        if hit is None:
+            if len(self._formulas_of) > MEMO_LIMIT:
+                self._formulas_of.clear()
+            hit = self._formulas_of[want] = tuple(
+                (bit, *form) for form, bit in self.formulas.items() if want & bit)
+        return hit
 
     def needs_children(self, parent, children, chains=None) -> list | None:
         """For each child of ``parent``, what of its siblings selectors read (0: nothing);

@@ -132,7 +132,7 @@ class Structure:
         for need in needs:
             want |= need
         # (bit, of-type, from the end, a, b) of the position formulas some child reads
-        formulas = [(bit, *form) for form, bit in self.siblings.formulas.items() if want & bit]
+        formulas = self.siblings.formulas_of(want)
         types = ends = None
         if want & TYPE or any(form[1] for form in formulas):
             seen, types = {}, []
