@@ -89,21 +89,25 @@ class Structure:
         # what a child's tag, attributes and emptiness decide, looked up once per child: its
         # id where no sibling test reads it, the sibling-reading compounds it could match and
         # its attributes as selectors see them
-        raw_ids, raws, known = self.raw_ids, [], []
+        raw_ids, known, candidates, plain = self.raw_ids, [], [], True
         for cel in children:
             raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
             hit = raw_ids.get(raw)
             if hit is None:
                 hit = self._first_seen(cel, raw)
-            raws.append(raw)
             known.append(hit)
-        needs = self.siblings.needs_of(el, [hit[1] for hit in known], chains)
+            candidates.append(hit[1])
+            if hit[0] == HAS_SUBTREE:
+                plain = False
+        needs = self.siblings.needs_of(el, candidates, chains)
         if needs is None:  # the common case: tag, attributes and emptiness decide
+            if plain:
+                return [(cel, hit[0], 0) for cel, hit in zip(children, known)]
             return [(cel, hit[0] if hit[0] != HAS_SUBTREE else self._id(cel, hit[2], 0, wrapper_of),
                      0) for cel, hit in zip(children, known)]
         facts = self._sibling_facts(children, needs, [hit[2] for hit in known])
         out = []
-        for cel, (tag, _, empty), (ident, _, attrs), siblings in zip(children, raws, known, facts):
+        for cel, (ident, _, attrs, tag, empty), siblings in zip(children, known, facts):
             if ident == HAS_SUBTREE:
                 ident = self._id(cel, attrs, siblings, wrapper_of)
             elif siblings:  # as _id, where no :has() compound can match
@@ -112,16 +116,16 @@ class Structure:
         return out
 
     def _first_seen(self, el, raw: tuple) -> tuple:
-        """``(id, sibling-reading compounds, attrs)`` of a tag, attributes and emptiness not
-        met yet; the id is HAS_SUBTREE where a :has() compound may match (its answers are per
-        subtree)."""
+        """``(id, sibling-reading compounds, attrs, tag, empty)`` of a tag, attributes and
+        emptiness not met yet; the id is HAS_SUBTREE where a :has() compound may match (its
+        answers are per subtree)."""
         raw_ids = self.raw_ids
         if len(raw_ids) > LIMIT:
             raw_ids.clear()
         has, attrs = self.has, self.attrs(el)
         ident = HAS_SUBTREE if has is not None and has.could_match(el) \
             else self.intern((raw[0], attrs, raw[2]))
-        hit = raw_ids[raw] = (ident, self.siblings.candidates(el), attrs)
+        hit = raw_ids[raw] = (ident, self.siblings.candidates(el), attrs, raw[0], raw[2])
         return hit
 
     def _sibling_facts(self, children, needs, attrs) -> list:
@@ -251,21 +255,33 @@ class PageStructure:
         kids = self.kids.get(el)
         if kids is None:
             kids = self.kids[el] = self.structure.children(el, self.wrapper_of, self.chains)
-            if kids:
-                paths = self.paths
-                base = paths.get(el)
-                if base is None:
-                    base = paths[el] = self._getpath(el)
-                base += "/"
-                for (child, _, _), step in zip(kids, steps([k[0] for k in kids])):
-                    paths[child] = base + step
         return kids
 
     def path(self, el) -> str:
-        path = self.paths.get(el)
-        if path is None:
-            path = self.paths[el] = self._getpath(el)
-        return path
+        """``el``'s XPath as lxml's ``getpath`` writes it. Made from the parent's path and
+        children list where the walk made that list: a children list's paths are written
+        when one of them is asked for (many elements never are)."""
+        paths = self.paths
+        path = paths.get(el)
+        if path is not None:
+            return path
+        pending = [el]  # el and its ancestors without a path, deepest first
+        parent = el.getparent()
+        while parent is not None and parent not in paths and parent in self.kids:
+            pending.append(parent)
+            parent = parent.getparent()
+        for node in reversed(pending):
+            parent = node.getparent()
+            kids = self.kids.get(parent) if parent is not None else None
+            if not kids or parent not in paths:
+                paths[node] = self._getpath(node)
+                continue
+            base = paths[parent] + "/"
+            for (child, _, _), step in zip(kids, steps([k[0] for k in kids])):
+                paths[child] = base + step
+            if node not in paths:  # not in its parent's list (not an element)
+                paths[node] = self._getpath(node)
+        return paths[el]
 
     def root_id(self) -> int:
         return self.structure.intern(("root", self.structure.element_id(
