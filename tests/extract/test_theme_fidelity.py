@@ -220,3 +220,26 @@ def test_selectors_the_page_never_mentions_are_skipped_only_when_they_cannot_mat
     assert hits == [el.tag for el in plain.iter() if "hit" in (el.get("class") or "").split()]
     if selector.startswith("div.made"):
         assert hits == ["span"]
+
+
+@pytest.mark.parametrize("selector", [
+    "[data-tabs] table", "div label", "body div > div label[for]", "div div label",
+    "html table td", "div > div label, table td", "div *", "p td", "section label"])
+def test_select_finds_what_cssselect2_matches(selector):
+    # the reference is cssselect2's matching of each element of the parsed page
+    import cssselect2
+
+    from tinctura.extract.behaviours import select
+
+    root = parse_html(MENTIONS_PAGE)
+    compiled = cssselect2.compile_selector_list(selector)
+    expected = [w.etree_element for w in cssselect2.ElementWrapper.from_html_root(root)
+                .iter_subtree() if any(c.test(w) for c in compiled)]
+    assert select(root, selector) == expected
+    # below a subtree's root, as cssselect's own translation reads it there
+    from cssselect import HTMLTranslator
+    from lxml import etree
+
+    inner = root.find("body")
+    plain = etree.XPath(HTMLTranslator().css_to_xpath(selector, prefix="descendant-or-self::"))
+    assert select(inner, selector) == plain(inner)
