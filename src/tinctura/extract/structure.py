@@ -255,33 +255,21 @@ class PageStructure:
         kids = self.kids.get(el)
         if kids is None:
             kids = self.kids[el] = self.structure.children(el, self.wrapper_of, self.chains)
+            if kids:
+                paths = self.paths
+                base = paths.get(el)
+                if base is None:
+                    base = paths[el] = self._getpath(el)
+                base += "/"
+                for (child, _, _), step in zip(kids, steps([k[0] for k in kids])):
+                    paths[child] = base + step
         return kids
 
     def path(self, el) -> str:
-        """``el``'s XPath as lxml's ``getpath`` writes it. Made from the parent's path and
-        children list where the walk made that list: a children list's paths are written
-        when one of them is asked for (many elements never are)."""
-        paths = self.paths
-        path = paths.get(el)
-        if path is not None:
-            return path
-        pending = [el]  # el and its ancestors without a path, deepest first
-        parent = el.getparent()
-        while parent is not None and parent not in paths and parent in self.kids:
-            pending.append(parent)
-            parent = parent.getparent()
-        for node in reversed(pending):
-            parent = node.getparent()
-            kids = self.kids.get(parent) if parent is not None else None
-            if not kids or parent not in paths:
-                paths[node] = self._getpath(node)
-                continue
-            base = paths[parent] + "/"
-            for (child, _, _), step in zip(kids, steps([k[0] for k in kids])):
-                paths[child] = base + step
-            if node not in paths:  # not in its parent's list (not an element)
-                paths[node] = self._getpath(node)
-        return paths[el]
+        path = self.paths.get(el)
+        if path is None:
+            path = self.paths[el] = self._getpath(el)
+        return path
 
     def root_id(self) -> int:
         return self.structure.intern(("root", self.structure.element_id(
