@@ -32,7 +32,7 @@ from .extract import fragments as frag_mod
 from .extract import links as link_mod
 from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
-from .extract.html import parse_html, parser_warnings
+from .extract.html import decode, parse_html, parser_warnings
 from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
@@ -144,13 +144,14 @@ class Site:
             refused = _refuse_page(data, self.options)
             if refused:
                 raise bounds.Refused(refused)
-            root = parse_html(html)
+            text = decode(html) if isinstance(html, bytes) else html  # behaviours read it too
+            root = parse_html(text)
             for line, message in parser_warnings():
                 result.diagnostics.append(Diagnostic(rel, message, line=line))
             refused = _too_many_elements(root, data, self.options.max_elements)
             if refused:
                 raise bounds.Refused(refused)
-            self._script_behaviours(root, result)
+            self._script_behaviours(root, result, text)
         except bounds.Refused as exc:  # outside the site (a warning); too large, binary
             result.diagnostics.append(Diagnostic(rel, f"page not checked: {exc}",
                                                  severity="warning" if exc.outside else "error"))
@@ -212,10 +213,10 @@ class Site:
         return result
 
 
-    def _script_behaviours(self, root, result) -> None:
+    def _script_behaviours(self, root, result, source=None) -> None:
         """Apply what the page's theme scripts change before a reader sees it; say once per
         site what those scripts change that tinctura does not model."""
-        for theme in behaviour_mod.apply(root, self._behaviours):
+        for theme in behaviour_mod.apply(root, self._behaviours, source):
             note = behaviour_mod.NOTES_BY_THEME.get(theme)
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)

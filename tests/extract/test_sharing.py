@@ -105,11 +105,49 @@ def test_first_child_reads_only_whether_a_sibling_comes_before(tmp_path):
     assert ids["e"] == ids["f"]
 
 
-def test_nth_child_reads_positions_and_plus_reads_the_siblings(tmp_path):
+def test_nth_child_reads_its_formula_and_plus_reads_the_siblings(tmp_path):
     ids, _ = structural_ids(tmp_path, NAV, "li:nth-child(2n) { color: #555 }")
-    assert len({ids[k] for k in "abcd"}) == 4  # positions 1-4 from both ends all differ
+    # Selectors 4, An+B: positions 2 and 4 are 2n, 1 and 3 are not; nothing else is read
+    assert ids["a"] == ids["c"] != ids["b"] == ids["d"]
+    ids, _ = structural_ids(tmp_path, NAV, "li:nth-last-of-type(-n+2) { color: #555 }")
+    assert ids["a"] == ids["b"] != ids["c"] == ids["d"]  # the last two of their type
+    ids, _ = structural_ids(tmp_path, NAV, "li:nth-child(2n of .item) { color: #555 }")
+    assert len({ids[k] for k in "abcd"}) == 4  # `of S` reads the siblings themselves
     ids, _ = structural_ids(tmp_path, NAV, ".active + li { color: #555 }")
     assert ids["c"] != ids["d"]  # right after the active item or not
+
+
+POSITIONS_CSS = ("li:nth-child(2n+1) { color: #111111 } li:nth-last-child(3) { color: #222222 }"
+                 " li:first-of-type:not(:last-of-type) { color: #333333 }"
+                 " p:nth-of-type(-n+2) { color: #444444 } li:nth-child(n+5) { color: #555555 }")
+
+
+def test_position_formulas_colour_as_cssselect2_matches(tmp_path):
+    # the reference is cssselect2's own matching of each rule on the page (Selectors 4 An+B),
+    # the last matching rule winning (equal specificity but for :first-of-type's rule, whose
+    # two pseudo-classes only outrank the others where they hold)
+    import cssselect2
+    from lxml import etree
+
+    lists = ["<ol>" + "".join(f"<li>item {n} of {size}</li>" for n in range(1, size + 1))
+             + "</ol>" for size in (1, 2, 3, 6, 7)]
+    mixed = "<div><p>p one</p><span>s</span><p>p two</p><p>p three</p></div>"
+    pages = {f"{k}.html": ("", "".join(lists[k:] + lists[:k]) + mixed) for k in range(3)}
+    got = colours(tmp_path, pages, css=POSITIONS_CSS)
+    matcher = cssselect2.Matcher()
+    for rule in (r.strip() for r in POSITIONS_CSS.split("}") if r.strip()):
+        selector, colour = rule.split("{")
+        for compiled in cssselect2.compile_selector_list(selector):
+            matcher.add_selector(compiled, colour.split(":")[1].strip())
+    for name, (_, body) in pages.items():
+        root = etree.fromstring(f"<html><body>{body}</body></html>")
+        for wrapper in cssselect2.ElementWrapper.from_xml_root(root).iter_subtree():
+            text = wrapper.etree_element.text
+            if wrapper.etree_element.tag not in ("li", "p") or not text:
+                continue
+            matches = matcher.match(wrapper)
+            expected = max(matches)[3] if matches else "#000000"
+            assert got[(name, text)] == expected, (name, text)
 
 
 def test_first_child_colours_follow_the_position(tmp_path):

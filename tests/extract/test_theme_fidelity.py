@@ -185,3 +185,61 @@ def test_unmodelled_script_changes_are_noted_once_per_site(tmp_path):
         report = check_paths([str(tmp_path)], Options(states=False, jobs=jobs))
         notes = [d for p in report.pages for d in p.diagnostics if "mkdocs theme" in d.message]
         assert len(notes) == 1, jobs
+
+
+# The page's text tells which behaviours cannot match (a tag or attribute it never mentions):
+# the reference for what each selector matches is cssselect2 on the parsed tree.
+MENTIONS_PAGE = ('<!doctype html><HTML><body><DIV Data-Tabs="1"><div class="tabbed-labels">'
+                 '<label for="t1">one</label></div></div><p>text<table><tr><td>x</td></tr>'
+                 '</table></body></html>')
+
+
+@pytest.mark.parametrize("selector", [
+    "[data-tabs] > .tabbed-labels > label[for]", "table:not([class])", "tbody > tr",
+    "html[data-bs-theme]", "section p", "body p, aside", "[data-absent], div[data-tabs]",
+    "div.made[data-made] span"])
+def test_selectors_the_page_never_mentions_are_skipped_only_when_they_cannot_match(selector):
+    import cssselect2
+
+    from tinctura.extract.behaviours import _Mentions, apply, from_setting
+    from tinctura.extract.html import parse_html
+
+    root = parse_html(MENTIONS_PAGE)
+    matched = [w for w in cssselect2.ElementWrapper.from_html_root(root).iter_subtree()
+               if any(c.test(w) for c in cssselect2.compile_selector_list(selector))]
+    if matched:
+        assert _Mentions(MENTIONS_PAGE).may_match(selector)
+    # elements a behaviour made are mentioned from then on
+    made = from_setting([{"action": "wrap-children", "selector": "td",
+                          "value": "div.made[data-made=1] > span"},
+                         {"action": "add-class", "selector": selector, "value": "hit"}])
+    plain, filtered = parse_html(MENTIONS_PAGE), parse_html(MENTIONS_PAGE)
+    apply(plain, made)
+    apply(filtered, made, MENTIONS_PAGE)
+    hits = [el.tag for el in filtered.iter() if "hit" in (el.get("class") or "").split()]
+    assert hits == [el.tag for el in plain.iter() if "hit" in (el.get("class") or "").split()]
+    if selector.startswith("div.made"):
+        assert hits == ["span"]
+
+
+@pytest.mark.parametrize("selector", [
+    "[data-tabs] table", "div label", "body div > div label[for]", "div div label",
+    "html table td", "div > div label, table td", "div *", "p td", "section label"])
+def test_select_finds_what_cssselect2_matches(selector):
+    # the reference is cssselect2's matching of each element of the parsed page
+    import cssselect2
+
+    from tinctura.extract.behaviours import select
+
+    root = parse_html(MENTIONS_PAGE)
+    compiled = cssselect2.compile_selector_list(selector)
+    expected = [w.etree_element for w in cssselect2.ElementWrapper.from_html_root(root)
+                .iter_subtree() if any(c.test(w) for c in compiled)]
+    assert select(root, selector) == expected
+    # below a subtree's root, as cssselect's own translation reads it there
+    from cssselect import HTMLTranslator
+    from lxml import etree
+
+    inner = root.find("body")
+    plain = etree.XPath(HTMLTranslator().css_to_xpath(selector, prefix="descendant-or-self::"))
+    assert select(inner, selector) == plain(inner)

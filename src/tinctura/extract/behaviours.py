@@ -126,21 +126,89 @@ def from_setting(entries) -> tuple:
     return tuple(out)
 
 
-def apply(root, behaviours=BUILTIN) -> list:
-    """Apply the behaviours whose theme the page has, in order; returns the themes applied."""
+def apply(root, behaviours=BUILTIN, source=None) -> list:
+    """Apply the behaviours whose theme the page has, in order; returns the themes applied.
+
+    ``source``: the page's HTML (decoded text) the tree was parsed from, when at hand: a
+    selector that names a tag or an attribute the page never mentions cannot match, and is
+    not searched for (a search of the tree costs about a millisecond on a page with a large
+    navigation)."""
     scripts = [el.get("src") or "" for el in root.iter("script") if el.get("src")]
+    mentions = _Mentions(source)
     applied = []
     for b in behaviours:
         if b.script and not any(b.script in src.split("?")[0] for src in scripts):
             continue
-        if b.marker and not select(root, b.marker):
+        if b.marker and not (mentions.may_match(b.marker) and select(root, b.marker)):
             continue
-        targets = select(root, b.selector)
+        targets = select(root, b.selector) if mentions.may_match(b.selector) else []
         for el in targets:
             _ACT[b.action](el, b.value)
+        if targets:
+            mentions.made(b)
         if b.theme not in applied:
             applied.append(b.theme)
     return applied
+
+
+# Tags an HTML parser (or parse_html) may create without a tag in the source.
+_IMPLIED_TAGS = frozenset({"html", "head", "body", "tbody", "p"})
+
+
+class _Mentions:
+    """The tag and attribute names a page's HTML mentions, as a necessary condition for a
+    selector to match: names cannot be written with character references, so an element of
+    the parsed tree has its tag (unless the parser implies it) and attribute names in the
+    source. Behaviours that made elements or attributes add theirs."""
+
+    def __init__(self, source):
+        self.text = source.lower() if isinstance(source, str) else None  # None: no filter
+        self.extra = set()
+
+    def may_match(self, selector: str) -> bool:
+        if self.text is None:
+            return True
+        return any(all(name in self.extra or name in self.text for name in names)
+                   for names in _named(selector))
+
+    def made(self, behaviour) -> None:
+        if behaviour.action.startswith("wrap"):
+            for part in behaviour.value.split(">"):
+                tag, _, attrs = _PART.fullmatch(part.strip()).groups()
+                self.extra.add(tag.lower() or "div")
+                self.extra.update(a.partition("=")[0].strip().lower()
+                                  for a in re.findall(r"\[([^\]]*)\]", attrs))
+        self.extra.add("class")  # the wrappers' classes, or classes added to an element
+
+
+@lru_cache(maxsize=256)
+def _named(selector: str) -> tuple:
+    """For each selector of the list, the tag and attribute names (lower case) an element
+    must have for it to match, or some ancestor or sibling must (``:not()``, ``:is()`` and
+    other arguments left out)."""
+    from cssselect import parse
+
+    out = []
+    for parsed in parse(selector):
+        names, todo = set(), [parsed.parsed_tree]
+        while todo:
+            node = todo.pop()
+            kind = type(node).__name__
+            if kind == "Element":
+                tag = node.element or "*"
+                if node.namespace is None and tag.isascii() and tag != "*" \
+                        and tag.lower() not in _IMPLIED_TAGS:
+                    names.add(tag.lower())
+                continue
+            if kind == "Attrib" and node.namespace is None and node.attrib.isascii():
+                names.add(node.attrib.lower())
+            if kind == "CombinedSelector":
+                todo.append(node.subselector)
+            inner = getattr(node, "selector", None)  # the compound's other parts
+            if inner is not None:
+                todo.append(inner)
+        out.append(tuple(sorted(names)))
+    return tuple(out)
 
 
 def _add_classes(el, value: str) -> None:
@@ -213,7 +281,8 @@ def select(root, selector: str) -> list:
     if selector == "body":
         body = root.find("body")
         return [body] if body is not None else []
-    return _compiled(selector)(root)
+    # below a subtree's root an ancestor may lie outside it: the left-to-right translation
+    return _compiled(selector, root.getparent() is None)(root)
 
 
 def selector_check(selector: str) -> None:
@@ -223,8 +292,26 @@ def selector_check(selector: str) -> None:
 
 
 @lru_cache(maxsize=256)
-def _compiled(selector: str):
+def _compiled(selector: str, whole_page: bool = True):
+    # relative to the document: descendant-or-self of the root element
     from cssselect import HTMLTranslator
 
-    # relative to the document: descendant-or-self of the root element
-    return etree.XPath(HTMLTranslator().css_to_xpath(selector, prefix="descendant-or-self::"))
+    translator = _translator() if whole_page else HTMLTranslator()
+    return etree.XPath(translator.css_to_xpath(selector, prefix="descendant-or-self::"))
+
+
+@lru_cache(maxsize=1)
+def _translator():
+    from cssselect import HTMLTranslator
+
+    class RightToLeft(HTMLTranslator):
+        """``E F`` as "F with an ancestor E" where both are one compound: libxml2 then
+        collects the few F of the page and looks up from each, instead of collecting every
+        descendant of every E (a node set of the whole page for ``[data-x] table``)."""
+
+        def xpath_descendant_combinator(self, left, right):
+            if left.path or right.path or (right.element == "*" and not right.condition):
+                return super().xpath_descendant_combinator(left, right)
+            return right.add_condition(f"ancestor::{left}")
+
+    return RightToLeft()

@@ -5,8 +5,12 @@ need them, and only the facts that rule reads:
 
 - ``FIRST``: ``:first-child`` reads whether there is a previous element sibling, ``LAST``
   (``:last-child``) whether there is a next one, ``:only-child`` both;
-- ``INDEX``: ``:nth-child()``, ``:nth-last-child()`` read the position from both ends;
-- ``TYPE``: ``:*-of-type`` read the position among same-tag siblings from both ends;
+- a position test (``:nth-child(2n)``, ``:nth-last-child(-n+3)``, ``:first-of-type``,
+  ``:nth-of-type(2)``...) reads whether the position, counted from its end among all siblings
+  or same-tag ones, fits its An+B formula: each distinct formula has a bit of its own
+  (``SiblingIndex.formulas``), and the key holds only the answer;
+- ``INDEX`` / ``TYPE``: a position test whose argument is not read as An+B keeps the position
+  itself, among all siblings or same-tag ones, from both ends;
 - ``FULL``: the right side of ``+`` / ``~`` (and ``:nth-child(An+B of S)``) reads the previous
   siblings themselves; the key then holds their identity and the following siblings' tags.
 
@@ -29,6 +33,7 @@ import re
 
 import cssselect2
 import tinycss2
+import tinycss2.nth
 from lxml import etree
 
 MEMO_LIMIT = 50000
@@ -40,6 +45,11 @@ _NEEDS = ((re.compile(r":(first|only)-child", re.I), FIRST),
           (re.compile(r":nth-(last-)?child", re.I), INDEX),
           (re.compile(r":(first|last|only|nth|nth-last)-of-type", re.I), TYPE))
 _OF_SELECTOR = re.compile(r":nth-(last-)?child\([^)]*\bof\b", re.I)
+# position tests read as (of-type, from the end, An+B argument); ``first``/``last``-of-type
+# are nth(-last)-of-type(1), ``only-of-type`` both
+_POSITION = re.compile(r":(nth-(last-)?(child|of-type)\(([^)]*)\)|(first|last|only)-of-type)",
+                       re.I)
+FORMULA_BITS = 5  # formula bits come after FULL
 
 
 class Compound:
@@ -115,9 +125,10 @@ def _context(compounds, reqs, k) -> tuple:
     return parent, tuple(ancestors)
 
 
-def sensitive_compounds(tokens):
+def sensitive_compounds(tokens, formulas=None):
     """Compounds of one selector that need sibling information, each with its ``needs``,
-    parent and ancestors; None means "any element, FULL"."""
+    parent and ancestors; None means "any element, FULL". ``formulas``: a dict that gives
+    each position formula a bit (``_formula_needs``); without it positions are read whole."""
     compounds = split_compounds(tokens)
     reqs = [_requirements(parts) for _, parts in compounds]
     out = []
@@ -129,9 +140,9 @@ def sensitive_compounds(tokens):
                 if ("+" in inner or "~" in inner) and \
                         t.lower_name in ("is", "not", "where", "matches", "has", "-webkit-any"):
                     return None
-                needs |= _needs_of(":" + t.lower_name + "(" + inner + ")")
+                needs |= _needs_of(":" + t.lower_name + "(" + inner + ")", formulas)
         text = tinycss2.serialize(parts)
-        needs |= _needs_of(text)
+        needs |= _needs_of(text, formulas)
         if not needs:
             continue
         c = Compound(reqs[k].tag, reqs[k].classes, reqs[k].ident)
@@ -142,14 +153,51 @@ def sensitive_compounds(tokens):
     return out
 
 
-def _needs_of(text: str) -> int:
+def _needs_of(text: str, formulas=None) -> int:
     needs = 0
     for pattern, need in _NEEDS:
         if pattern.search(text):
             needs |= need
     if _OF_SELECTOR.search(text):
         needs |= FULL
+    if formulas is not None and needs & (INDEX | TYPE):
+        needs = _formula_needs(text, needs, formulas)
     return needs
+
+
+def _formula_needs(text: str, needs: int, formulas: dict) -> int:
+    """``needs`` with INDEX and TYPE replaced by a bit per An+B formula of ``text``'s position
+    tests (Selectors 4), where every such test of the kind reads as one."""
+    found = {INDEX: [], TYPE: []}  # None: a test that does not read as An+B
+    for m in _POSITION.finditer(text):
+        of_type = m.group(3) is None or m.group(3).lower() == "of-type"
+        kind = TYPE if of_type else INDEX
+        if m.group(5):  # first-, last-, only-of-type
+            word = m.group(5).lower()
+            forms = [(True, end, 0, 1) for end in
+                     ((False, True) if word == "only" else (word == "last",))]
+        else:
+            ab = tinycss2.nth.parse_nth(m.group(4))  # None for `2n of .x` (FULL already)
+            forms = None if ab is None else [(of_type, m.group(2) is not None, *ab)]
+        found[kind] = None if forms is None or found[kind] is None else found[kind] + forms
+    for kind, forms in found.items():
+        if not needs & kind or not forms:
+            continue
+        needs &= ~kind
+        for form in forms:
+            bit = formulas.get(form)
+            if bit is None:
+                bit = formulas[form] = 1 << (FORMULA_BITS + len(formulas))
+            needs |= bit
+    return needs
+
+
+def fits(a: int, b: int, position: int) -> bool:
+    """Whether a 1-based ``position`` is an+b for some integer n >= 0 (Selectors 4, An+B)."""
+    if a == 0:
+        return position == b
+    n, rest = divmod(position - b, a)
+    return rest == 0 and n >= 0
 
 
 def has_compounds(tokens):
@@ -188,11 +236,14 @@ class SiblingIndex:
         self._needs_memo = {}  # (ancestry number, *candidates of each child) -> needs_of
         self._chain_ids = {}  # (parent's ancestry number, tag, class, id) -> ancestry number
         self._next_chain = 0
+        self.formulas = {}  # (of-type, from the end, a, b) -> its bit in a need
+        self._formulas_of = {}  # a children list's needs together -> formulas_of(them)
         for rule in rules:
             text = rule.selector_text
             if not (STRUCTURAL.search(text) or "+" in text or "~" in text):
                 continue
-            found = sensitive_compounds(tinycss2.parse_component_value_list(text))
+            found = sensitive_compounds(tinycss2.parse_component_value_list(text),
+                                        self.formulas)
             if found is None:
                 self.any = True
                 return
@@ -203,6 +254,16 @@ class SiblingIndex:
                     self.by_parent.add(c.parent, c)
                 else:
                     self.free.append(c)
+
+    def formulas_of(self, want: int) -> tuple:
+        """``(bit, of-type, from the end, a, b)`` of the position formulas in ``want``."""
+        hit = self._formulas_of.get(want)
+        if hit is None:
+            if len(self._formulas_of) > MEMO_LIMIT:
+                self._formulas_of.clear()
+            hit = self._formulas_of[want] = tuple(
+                (bit, *form) for form, bit in self.formulas.items() if want & bit)
+        return hit
 
     def needs_children(self, parent, children, chains=None) -> list | None:
         """For each child of ``parent``, what of its siblings selectors read (0: nothing);

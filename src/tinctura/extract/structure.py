@@ -13,7 +13,7 @@ import cssselect2
 from lxml.etree import Element
 
 from .html import own_text
-from .siblings import FIRST, FULL, INDEX, LAST, TYPE
+from .siblings import FIRST, FULL, INDEX, LAST, TYPE, fits
 
 LIMIT = 60000
 HAS_SUBTREE = -1  # in Structure.raw_ids: an element whose id depends on its subtree
@@ -89,21 +89,25 @@ class Structure:
         # what a child's tag, attributes and emptiness decide, looked up once per child: its
         # id where no sibling test reads it, the sibling-reading compounds it could match and
         # its attributes as selectors see them
-        raw_ids, raws, known = self.raw_ids, [], []
+        raw_ids, known, candidates, plain = self.raw_ids, [], [], True
         for cel in children:
             raw = (cel.tag, tuple(cel.items()), not len(cel) and not (cel.text or "").strip())
             hit = raw_ids.get(raw)
             if hit is None:
                 hit = self._first_seen(cel, raw)
-            raws.append(raw)
             known.append(hit)
-        needs = self.siblings.needs_of(el, [hit[1] for hit in known], chains)
+            candidates.append(hit[1])
+            if hit[0] == HAS_SUBTREE:
+                plain = False
+        needs = self.siblings.needs_of(el, candidates, chains)
         if needs is None:  # the common case: tag, attributes and emptiness decide
+            if plain:
+                return [(cel, hit[0], 0) for cel, hit in zip(children, known)]
             return [(cel, hit[0] if hit[0] != HAS_SUBTREE else self._id(cel, hit[2], 0, wrapper_of),
                      0) for cel, hit in zip(children, known)]
         facts = self._sibling_facts(children, needs, [hit[2] for hit in known])
         out = []
-        for cel, (tag, _, empty), (ident, _, attrs), siblings in zip(children, raws, known, facts):
+        for cel, (ident, _, attrs, tag, empty), siblings in zip(children, known, facts):
             if ident == HAS_SUBTREE:
                 ident = self._id(cel, attrs, siblings, wrapper_of)
             elif siblings:  # as _id, where no :has() compound can match
@@ -112,16 +116,16 @@ class Structure:
         return out
 
     def _first_seen(self, el, raw: tuple) -> tuple:
-        """``(id, sibling-reading compounds, attrs)`` of a tag, attributes and emptiness not
-        met yet; the id is HAS_SUBTREE where a :has() compound may match (its answers are per
-        subtree)."""
+        """``(id, sibling-reading compounds, attrs, tag, empty)`` of a tag, attributes and
+        emptiness not met yet; the id is HAS_SUBTREE where a :has() compound may match (its
+        answers are per subtree)."""
         raw_ids = self.raw_ids
         if len(raw_ids) > LIMIT:
             raw_ids.clear()
         has, attrs = self.has, self.attrs(el)
         ident = HAS_SUBTREE if has is not None and has.could_match(el) \
             else self.intern((raw[0], attrs, raw[2]))
-        hit = raw_ids[raw] = (ident, self.siblings.candidates(el), attrs)
+        hit = raw_ids[raw] = (ident, self.siblings.candidates(el), attrs, raw[0], raw[2])
         return hit
 
     def _sibling_facts(self, children, needs, attrs) -> list:
@@ -131,8 +135,10 @@ class Structure:
         want = 0
         for need in needs:
             want |= need
+        # (bit, of-type, from the end, a, b) of the position formulas some child reads
+        formulas = self.siblings.formulas_of(want)
         types = ends = None
-        if want & TYPE:
+        if want & TYPE or any(form[1] for form in formulas):
             seen, types = {}, []
             for c in children:
                 seen[c.tag] = seen.get(c.tag, 0) + 1
@@ -164,6 +170,11 @@ class Structure:
                 facts += (i, n - 1 - i)
             if need & TYPE:
                 facts += (types[i], ends[i])
+            for bit, of_type, from_end, a, b in formulas:
+                if need & bit:  # 1-based positions; ends[i] is 0 for the last of its type
+                    position = (ends[i] + 1 if from_end else types[i]) if of_type \
+                        else (n - i if from_end else i + 1)
+                    facts.append(fits(a, b, position))
             if need & FULL:
                 facts += (prevs[i], following[i])
             out.append(tuple(facts))
