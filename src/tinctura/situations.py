@@ -124,6 +124,16 @@ def situation_id(key) -> int:
     return sid
 
 
+def packed_form(data: bytes, per_template, size: int) -> tuple:
+    """``PageFindings.packed()``'s ``(pickled records, occurrences per template, templates in
+    first-seen order)`` from ``per_template`` (template index -> occurrences, in first-seen
+    order) for ``size`` templates."""
+    counts = [0] * size
+    for n, times in per_template.items():
+        counts[n] = times
+    return data, counts, list(per_template)
+
+
 class PageFindings:
     """One page's findings as situations and places: ``templates`` (a finding per situation),
     their ``keys`` (``finding_key``) and ``records`` ``(template index,) + place`` in report
@@ -156,13 +166,9 @@ class PageFindings:
         report here too (``encoded``), so the main process only copies them."""
         if encode is not None:
             self.encoded = encode(self._records)
-        counts = [0] * len(self.templates)
         per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
-        for n, times in per_template.items():
-            counts[n] = times
-        first = list(per_template)
-        self._packed = (pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL), counts,
-                        first)
+        self._packed = packed_form(pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL),
+                                   per_template, len(self.templates))
         self._records = None
         return self
 

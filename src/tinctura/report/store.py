@@ -208,11 +208,8 @@ class FindingStore:
         if mapping is not None:  # kept as a worker packed it: its own template indexes
             templates = [None if m is None else self.situations[m] for m in mapping]
             keys = [None if m is None else self.keys[m] for m in mapping]
-        counts = [0] * len(templates)
-        for n, times in per_template.items():
-            counts[n] = times
-        return sit.PageFindings(page, templates, keys, None, (data, counts, list(per_template)),
-                                encoded)
+        return sit.PageFindings(page, templates, keys, None,
+                                sit.packed_form(data, per_template, len(templates)), encoded)
 
     def by_page(self, page: str) -> list:
         templates = self.situations
