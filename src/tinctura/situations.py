@@ -204,7 +204,7 @@ class PageFindings:
         self._items = None
         # the records as a report writes them, made by ``pack`` (``encode``'s answer), or None
         self.encoded = encoded
-        # (records of walked samples, sorted; blocks; places; ranks; groups): ``_Blocks``
+        # (records of walked samples, sorted; blocks; places; ranks; groups), see ``build``
         self._lazy = lazy
         self._named = ()  # uids of the entries its packed records name (``pack``)
 
@@ -389,7 +389,7 @@ class _Numbering:
                 b = block_of[id(placement)] = len(blocks)
                 blocks.append((placement.uid, list(map(per_group.__getitem__,
                                                        placement.group_of))))
-                groups.append(placement.groups)
+                groups.append((placement.groups, placement.lineless))
             places.append((b, stamp.new_base, placement.lines(stamp)))
         return blocks, groups, places
 
@@ -445,26 +445,32 @@ def _tally(lazy: tuple, size: int) -> dict:
     the report (as ``Counter`` of the expanded records), without placing a finding: the first
     of a template is the least ``(line, XPath, rank, run order)`` among its records."""
     before, blocks, places, ranks, groups = lazy
-    counts = [0] * size
-    first = {}  # template -> the sort key of its first record
-    for seq, r in enumerate(before):  # sorted already: the first seen is the least
-        n = r[0]
-        counts[n] += 1
-        if n not in first:
-            first[n] = (r[2], r[1], ranks[n], seq) if ranks is not None else (seq,)
+    counts = Counter(map(_NUMBER, before))
+    # sorted already: a template's first record there is its least (the first index wins)
+    at = dict(zip(map(_NUMBER, reversed(before)), range(len(before) - 1, -1, -1)))
+    if ranks is None:
+        first = {n: (i,) for n, i in at.items()}
+    else:
+        first = {n: (before[i][2], before[i][1], ranks[n], i) for n, i in at.items()}
     seq = len(before)
     for b, new_base, lines in places:
         uid, numbers = blocks[b]
         entries = _ENTRIES[uid]
-        for head, members in groups[b]:
+        block_groups, lineless = groups[b]
+        lowest = 0 if lineless else min(lines[:-1])  # (lines ends with slot -1's 0)
+        for head, members in block_groups:
             n = numbers[head]
             counts[n] += len(members)
+            known = first.get(n)
             if ranks is None:
-                key = (seq + head,)
-            else:
-                i = min(members, key=lambda i: (lines[entries[i][1]], entries[i][0]))
-                key = (lines[entries[i][1]], new_base + entries[i][0], ranks[n], seq + i)
-            if n not in first or key < first[n]:
+                if known is None:
+                    first[n] = (seq + head,)
+                continue
+            if known is not None and known[0] < lowest:  # (places come in page order)
+                continue
+            i = min(members, key=lambda i: (lines[entries[i][1]], entries[i][0]))
+            key = (lines[entries[i][1]], new_base + entries[i][0], ranks[n], seq + i)
+            if known is None or key < known:
                 first[n] = key
         seq += len(entries)
     return {n: counts[n] for n in sorted(first, key=first.__getitem__)}

@@ -250,7 +250,8 @@ class Placement:
     finding. ``Stamp.within(rel).place(sample, old_base)`` gives the same records one by one.
     """
 
-    __slots__ = ("positions", "entries", "situations", "groups", "group_of", "uid")
+    __slots__ = ("positions", "entries", "situations", "groups", "group_of", "uid",
+                 "lineless")
 
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
@@ -286,6 +287,7 @@ class Placement:
             for i in members:
                 self.group_of[i] = g
         self.uid = register_entries(self.entries)  # pages' packed findings name it so
+        self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
 
     def lines(self, stamp: Stamp) -> list:
         """The line of each slot at ``stamp``'s place (and 0 last: slot -1, no line)."""
