@@ -185,9 +185,10 @@ def test_blocks_are_counted_and_packed_as_their_records(repeated_site):
     assert lazy_pages  # pages with replayed findings kept as blocks were compared
 
 
-def test_packed_blocks_reach_another_process_with_their_entries_once(repeated_site):
-    # a worker's packed page names its blocks' entries by uid: pickled for the main process,
-    # the first page naming them carries them, later ones do not, and both read back whole
+def test_packed_pages_reach_another_process_with_entries_and_templates_once(repeated_site):
+    # a worker's packed page names its blocks' entries and its situations' templates:
+    # pickled for the main process, the first page naming one carries it, later ones do
+    # not, and every page reads back whole
     import pickle
 
     from tinctura import situations
@@ -200,10 +201,15 @@ def test_packed_blocks_reach_another_process_with_their_entries_once(repeated_si
     expected = [list(p.records) for p in packed]
     sent = [pickle.dumps(p.pack()) for p in packed]
     named = {uid for p in packed for uid in p._named}
-    assert all(not p.__reduce__()[1][1] for p in packed)  # each sent once: none again
+    assert all(not any(p.__reduce__()[1][2:]) for p in packed)  # each sent once: none again
     kept = {uid: situations._ENTRIES.pop(uid) for uid in named}  # as in another process
+    templates = dict(situations._TEMPLATES)
+    situations._TEMPLATES.clear()
     try:
         received = [pickle.loads(data) for data in sent]
         assert [list(p.records) for p in received] == expected
+        assert [p.keys for p in received] == [p.keys for p in packed]
+        assert [list(p) for p in received] == [list(p) for p in packed]  # the same findings
     finally:
         situations._ENTRIES.update(kept)
+        situations._TEMPLATES.update(templates)

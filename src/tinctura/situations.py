@@ -131,11 +131,14 @@ def _rebased(spec: tuple, new_base: str):
     return (new_base + spec[1]).rsplit("/", spec[2])[0] or "/"
 
 
-# A replayed fragment's findings are placed on many pages from the same entries
-# (``fragments.Placement``): pages keep them, packed, by the uid of the entries, which this
-# process knows; another process is sent the entries once, with the first page naming them.
+# What a worker process sends the main one once, and names on later pages: a replayed
+# fragment's entries (``fragments.Placement``, by uid) and a situation's template finding and
+# key (by process and ``situation_id``). Pages keep their packed blocks by the entries' uid,
+# which their own process knows.
 _ENTRIES: dict = {}  # uid -> a Placement's entries
-_SHIPPED: set = set()  # uids whose entries this process has pickled for another one
+_TEMPLATES: dict = {}  # (pid, situation_id) -> (template, key): received from other processes
+_SHIPPED_ENTRIES: set = set()  # uids whose entries this process has pickled for another
+_SHIPPED_TEMPLATES: set = set()  # template names this process has pickled for another
 _uids = itertools.count(1)
 
 
@@ -146,10 +149,27 @@ def register_entries(entries: list) -> tuple:
     return uid
 
 
-def _received(state: tuple, entries: dict) -> "PageFindings":
-    """A PageFindings pickled by another process, with the entries it names first sent."""
+def _shipped(findings: "PageFindings") -> tuple:
+    """``(template names, templates and entries not sent before)`` of a packed page pickled
+    for another process (``PageFindings.__reduce__``): each is sent once per process."""
+    pid = os.getpid()
+    names = [(pid, situation_id(k)) for k in findings.keys]
+    templates = {}
+    for name, t, k in zip(names, findings.templates, findings.keys):
+        if name not in _SHIPPED_TEMPLATES:
+            templates[name] = (t, k)
+    entries = {uid: _ENTRIES[uid] for uid in findings._named if uid not in _SHIPPED_ENTRIES}
+    _SHIPPED_TEMPLATES.update(templates)
+    _SHIPPED_ENTRIES.update(entries)
+    return names, templates, entries
+
+
+def _received(state: tuple, names: list, templates: dict, entries: dict) -> "PageFindings":
+    """A packed page pickled by another process (``_shipped``)."""
     _ENTRIES.update(entries)
-    return PageFindings(*state)
+    _TEMPLATES.update(templates)
+    known = [_TEMPLATES[name] for name in names]
+    return PageFindings(state[0], [t for t, _ in known], [k for _, k in known], *state[1:])
 
 
 _IDS: dict = {}  # finding_key -> a number standing for it in this process
@@ -320,13 +340,12 @@ class PageFindings:
 
     def __reduce__(self):
         records = self.records if self._packed is None else self._records
-        state = (self.page, self.templates, self.keys, records, self._packed, self.encoded)
-        if self._packed is None or not self._named:
-            return (PageFindings, state)
-        # for another process (a worker's answer): the entries its blocks name, once each
-        new = {uid: _ENTRIES[uid] for uid in self._named if uid not in _SHIPPED}
-        _SHIPPED.update(new)
-        return (_received, (state, new))
+        if self._packed is None:
+            return (PageFindings, (self.page, self.templates, self.keys, records, None,
+                                   self.encoded))
+        # packed: a worker's answer, which names what it has sent the main process before
+        return (_received, ((self.page, records, self._packed, self.encoded),)
+                + _shipped(self))
 
 
 class _Numbering:
