@@ -155,3 +155,61 @@ def test_placements_give_the_records_of_placing_each_finding(repeated_site):
             compared += len(records)
     assert compared
     assert len(moved) > len(placements)  # placements were used at more than one place
+
+
+def test_blocks_are_counted_and_packed_as_their_records(repeated_site):
+    # a page's replayed findings kept as blocks (situations.PageFindings) are counted per
+    # situation, in order of first occurrence, and packed, without placing them: the same as
+    # counting the placed records one by one (collections.Counter keeps first-seen order)
+    from collections import Counter
+
+    from tinctura import situations
+    from tinctura.engine import _finding_order
+
+    options = Options(keep_samples=False)
+    site = Site(str(repeated_site), options)
+    lazy_pages = 0
+    for rel in site.pages():
+        found = judge_page(site, rel, options)[1]
+        lazy_pages += found.packed() is None and found._records is None
+        records = list(found.records)
+        order = [_finding_order(found.templates[r[0]], r) for r in records]
+        assert order == sorted(order)  # report order: line, XPath, scheme, state, rule
+        data, counts, first = judge_page(site, rel, options)[1].pack().packed()
+        seen = Counter(r[0] for r in records)
+        assert first == list(seen)
+        assert counts == [seen[n] for n in range(len(counts))]
+        assert situations.unpack(data) == records
+        wanted = [n % 2 == 0 for n in range(len(counts))]  # every other situation
+        assert situations.unpack(data, wanted) == [r for r in records if wanted[r[0]]]
+    assert lazy_pages  # pages with replayed findings kept as blocks were compared
+
+
+def test_packed_pages_reach_another_process_with_entries_and_templates_once(repeated_site):
+    # a worker's packed page names its blocks' entries and its situations' templates:
+    # pickled for the main process, the first page naming one carries it, later ones do
+    # not, and every page reads back whole
+    import pickle
+
+    from tinctura import situations
+
+    options = Options(keep_samples=False)
+    site = Site(str(repeated_site), options)
+    pages = [judge_page(site, rel, options)[1] for rel in site.pages()]
+    packed = [p for p in pages if p._lazy is not None]
+    assert len(packed) >= 2
+    expected = [list(p.records) for p in packed]
+    sent = [pickle.dumps(p.pack()) for p in packed]
+    named = {uid for p in packed for uid in p._named}
+    assert all(not any(p.__reduce__()[1][2:]) for p in packed)  # each sent once: none again
+    kept = {uid: situations._ENTRIES.pop(uid) for uid in named}  # as in another process
+    templates = dict(situations._TEMPLATES)
+    situations._TEMPLATES.clear()
+    try:
+        received = [pickle.loads(data) for data in sent]
+        assert [list(p.records) for p in received] == expected
+        assert [p.keys for p in received] == [p.keys for p in packed]
+        assert [list(p) for p in received] == [list(p) for p in packed]  # the same findings
+    finally:
+        situations._ENTRIES.update(kept)
+        situations._TEMPLATES.update(templates)

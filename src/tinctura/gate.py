@@ -163,7 +163,7 @@ def intake(gate: Gate, store, collector, rel: str, findings) -> list:
             per_situation = store.put_packed(rel, findings, numbers)
             gate.count(rel, per_situation, len(findings), store.situations)
             collector.add_counts(rel, per_situation, store.situations, start,
-                                 lambda skip=(): _renumbered(findings.records, numbers, skip))
+                                 lambda skip=(): _renumbered(findings, numbers, skip))
             return []
         diagnostics, records = gate.records(rel, store.records_of(findings), store.situations,
                                             page_marks)
@@ -175,12 +175,13 @@ def intake(gate: Gate, store, collector, rel: str, findings) -> list:
     return diagnostics
 
 
-def _renumbered(records, numbers, skip=()) -> list:
-    """A worker's ``records`` with ``numbers`` (template index -> situation number) applied,
-    in order, but for those of the situations in ``skip`` (left out before they are copied:
-    a page's records are mostly of situations whose problems need nothing more)."""
+def _renumbered(findings, numbers, skip=()) -> list:
+    """A worker's records of ``findings`` (``situations.PageFindings``) with ``numbers``
+    (template index -> situation number) applied, in order, but for those of the situations
+    in ``skip`` (left out before they are made or copied: a page's records are mostly of
+    situations whose problems need nothing more)."""
     wanted = [n not in skip for n in numbers]
-    return [(numbers[r[0]],) + r[1:] for r in records if wanted[r[0]]]
+    return [(numbers[r[0]],) + r[1:] for r in findings.records_of(wanted)]
 
 
 def site_reader(paths):

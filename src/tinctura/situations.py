@@ -14,6 +14,8 @@ into a full ``Finding`` (outputs that want every finding get them this way).
 from __future__ import annotations
 
 import dataclasses
+import itertools
+import os
 import pickle
 import operator
 from collections import Counter
@@ -107,6 +109,69 @@ def occurrence(template: Finding, sample: Sample) -> Finding:
                    t.args)
 
 
+def place_block(entries, numbers, new_base: str, lines, out: list) -> None:
+    """Append to ``out`` the records of a replayed fragment's findings (``fragments.Placement``
+    entries ``(relative XPath, line slot, text, inherited, layers)``, ``numbers`` their
+    situations' numbers) at the place whose XPath is ``new_base`` and slots' lines ``lines``."""
+    for (rel, slot, text, inherited, layers), n in zip(entries, numbers):
+        if layers is not None:
+            layers = tuple(_rebased(spec, new_base) for spec in layers)
+        kind = inherited[0]
+        out.append((n, new_base + rel, lines[slot], text,
+                    inherited[1] if kind == 0 else new_base + inherited[1] if kind == 1
+                    else _rebased(inherited, new_base), layers, None))
+
+
+def _rebased(spec: tuple, new_base: str):
+    """An XPath of a replayed fragment at ``new_base``: ``spec`` is ``fragments._rebaser``'s."""
+    if spec[0] == 0:
+        return spec[1]
+    if spec[0] == 1:
+        return new_base + spec[1]
+    return (new_base + spec[1]).rsplit("/", spec[2])[0] or "/"
+
+
+# What a worker process sends the main one once, and names on later pages: a replayed
+# fragment's entries (``fragments.Placement``, by uid) and a situation's template finding and
+# key (by process and ``situation_id``). Pages keep their packed blocks by the entries' uid,
+# which their own process knows.
+_ENTRIES: dict = {}  # uid -> a Placement's entries
+_TEMPLATES: dict = {}  # (pid, situation_id) -> (template, key): received from other processes
+_SHIPPED_ENTRIES: set = set()  # uids whose entries this process has pickled for another
+_SHIPPED_TEMPLATES: set = set()  # template names this process has pickled for another
+_uids = itertools.count(1)
+
+
+def register_entries(entries: list) -> tuple:
+    """A uid for a Placement's ``entries``, by which packed pages name them."""
+    uid = (os.getpid(), next(_uids))
+    _ENTRIES[uid] = entries
+    return uid
+
+
+def _shipped(findings: "PageFindings") -> tuple:
+    """``(template names, templates and entries not sent before)`` of a packed page pickled
+    for another process (``PageFindings.__reduce__``): each is sent once per process."""
+    pid = os.getpid()
+    names = [(pid, situation_id(k)) for k in findings.keys]
+    templates = {}
+    for name, t, k in zip(names, findings.templates, findings.keys):
+        if name not in _SHIPPED_TEMPLATES:
+            templates[name] = (t, k)
+    entries = {uid: _ENTRIES[uid] for uid in findings._named if uid not in _SHIPPED_ENTRIES}
+    _SHIPPED_TEMPLATES.update(templates)
+    _SHIPPED_ENTRIES.update(entries)
+    return names, templates, entries
+
+
+def _received(state: tuple, names: list, templates: dict, entries: dict) -> "PageFindings":
+    """A packed page pickled by another process (``_shipped``)."""
+    _ENTRIES.update(entries)
+    _TEMPLATES.update(templates)
+    known = [_TEMPLATES[name] for name in names]
+    return PageFindings(state[0], [t for t, _ in known], [k for _, k in known], *state[1:])
+
+
 _IDS: dict = {}  # finding_key -> a number standing for it in this process
 _IDS_LIMIT = 200000
 _next_id = [0]
@@ -138,12 +203,19 @@ class PageFindings:
     """One page's findings as situations and places: ``templates`` (a finding per situation),
     their ``keys`` (``finding_key``) and ``records`` ``(template index,) + place`` in report
     order. A read-only sequence of ``Finding``
-    (rebuilt on first use); pickled without them, so a worker sends each situation once."""
+    (rebuilt on first use); pickled without them, so a worker sends each situation once.
 
-    __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items", "encoded")
+    Replayed fragments' findings (most of a page's, when a navigation link fails) are kept as
+    blocks until their records are read: a block is a placed fragment, ``(fragment's entries,
+    their numbers)`` once per page and ``(block, XPath of the place, lines)`` per place.
+    Counting them, and packing them for the main process, costs a block, not a finding: a
+    report grouped by problem never reads them."""
+
+    __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items", "encoded",
+                 "_lazy", "_named")
 
     def __init__(self, page: str, templates: list, keys: list, records: list, packed=None,
-                 encoded=None):
+                 encoded=None, lazy=None):
         self.page = page
         self.templates = templates
         self.keys = keys
@@ -152,12 +224,27 @@ class PageFindings:
         self._items = None
         # the records as a report writes them, made by ``pack`` (``encode``'s answer), or None
         self.encoded = encoded
+        # (records of walked samples, sorted; blocks; places; ranks; groups), see ``build``
+        self._lazy = lazy
+        self._named = ()  # uids of the entries its packed records name (``pack``)
 
     @property
     def records(self) -> list:
         if self._records is None:
-            self._records = pickle.loads(self._packed[0])
+            if self._lazy is not None:
+                self._records = expand(self._lazy[:4])
+            else:
+                self._records = unpack(self._packed[0])
         return self._records
+
+    def records_of(self, wanted) -> list:
+        """The records of the templates ``wanted`` (a truth value per template index), in
+        order: blocks of none of them are not placed."""
+        if self._records is not None:
+            return [r for r in self._records if wanted[r[0]]]
+        if self._lazy is not None:
+            return expand(self._lazy[:4], wanted)
+        return unpack(self._packed[0], wanted)
 
     def pack(self, encode=None) -> "PageFindings":
         """Pickle the records once, where they were made (a worker process): the main process
@@ -165,17 +252,22 @@ class PageFindings:
         ``packed()`` without reading them. ``encode(records)``, when given, writes them for a
         report here too (``encoded``), so the main process only copies them."""
         if encode is not None:
-            self.encoded = encode(self._records)
-        per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
-        self._packed = packed_form(pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL),
-                                   per_template, len(self.templates))
-        self._records = None
+            self.encoded = encode(self.records)
+        if self._lazy is not None:  # blocks pickled as blocks, counted per block
+            data = pickle.dumps(self._lazy[:4], protocol=pickle.HIGHEST_PROTOCOL)
+            per_template = _tally(self._lazy, len(self.templates))
+            self._named = [uid for uid, _ in self._lazy[1]]
+        else:
+            data = pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL)
+            per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
+        self._packed = packed_form(data, per_template, len(self.templates))
+        self._records = self._lazy = None
         return self
 
     def packed(self):
         """``(pickled records, occurrences per template, templates in first-seen order)`` when
         the records were packed and not read since, else None."""
-        return self._packed if self._records is None else None
+        return self._packed if self._records is None and self._lazy is None else None
 
     @classmethod
     def build(cls, page: str, findings, keys=None, more=(), order=None, judged=(),
@@ -185,74 +277,36 @@ class PageFindings:
         ``(template, place)``. Findings never built either: ``judged`` (placed first),
         ``(sample, sample_key, template findings)`` of walked samples, the templates judged
         on a sample of the same situation; ``replays`` (placed last), ``(fragments.Placement,
-        Stamp)`` of replayed fragments' findings. ``template_order``: instead of ``order``,
-        records sorted by line, XPath and ``template_order(template)``."""
-        templates, tkeys, index, records = [], [], {}, []
-        # a template object always comes with the same key: its number is found once a page
-        by_object = {}
-
-        def number(key, make) -> int:
-            """The page's number of situation ``key``; ``make()`` gives its template."""
-            n = index.get(key)
-            if n is None:
-                n = index[key] = len(templates)
-                templates.append(make())
-                tkeys.append(key)
-            return n
-
-        for s, k, found in judged:
-            where = None  # the sample's place, made once for all its findings
-            for t in found:
-                own = t.sample is s
-                n = by_object.get(id(t))
-                if n is None:
-                    n = by_object[id(t)] = number(
-                        (t.rule, k), lambda t=t, s=s, own=own: t if own else occurrence(t, s))
-                if own and t.fingerprint:  # (marked by a gate: the marks are its own)
-                    records.append((n,) + place(t))
-                    continue
-                if where is None:
-                    c = s.fg_cause
-                    where = (s.xpath, s.line, s.text,
-                             c.inherited_from if c is not None else None,
-                             tuple(layer.xpath for layer in s.bg_layers)
-                             if s.bg_layers else None, None)
-                records.append((n,) + where)
+        Stamp)`` of replayed fragments' findings, kept as blocks (see the class). ``template_order``:
+        instead of ``order``, records sorted by line, XPath and ``template_order(template)``."""
+        made = _Numbering()
+        records = made.judged(judged)
         if keys is None:
             keys = [finding_key(f) for f in findings]
         for f, key in zip(findings, keys):
-            records.append((number(key, lambda f=f: f),) + place(f))
+            records.append((made.number(key, lambda f=f: f),) + place(f))
         for template, key, where in more:
-            n = by_object.get(id(template))
+            n = made.by_object.get(id(template))
             if n is None:
-                n = by_object[id(template)] = number(key, lambda t=template: t)
+                n = made.by_object[id(template)] = made.number(key, lambda t=template: t)
             records.append((n,) + where)
-        numbered = {}  # id(placement) -> numbers of its findings on this page
-        by_id = {}  # situation_id -> number
-        for placement, stamp in replays:
-            numbers = numbered.get(id(placement))
-            if numbers is None:
-                numbers = numbered[id(placement)] = []
-                for template, key, sid in placement.situations:
-                    n = by_id.get(sid)
-                    if n is None:
-                        n = by_id[sid] = number(key, lambda t=template: t)
-                    numbers.append(n)
-            placement.place(stamp, numbers, records)
+        blocks, groups, places = made.blocks(replays)
+        templates, tkeys = made.templates, made.keys
         if order is not None:
+            records = expand((records, blocks, places, None))
             records.sort(key=lambda r: order(templates[r[0]], r))
-        elif template_order is not None and len(records) > 1:
+            return cls(page, templates, tkeys, records)
+        ranks = None
+        if template_order is not None:
             # each template's rank in template_order (equal orders, equal ranks): ints
             # compare faster than the orders' tuples of strings
             after = [template_order(t) for t in templates]
             rank = {a: r for r, a in enumerate(sorted(set(after)))}
-            after = [rank[a] for a in after]
-            # (line, XPath, rank) per record, built by C-level iterators: pages have thousands
-            sort_keys = list(zip(map(_LINE, records), map(_XPATH, records),
-                                 map(after.__getitem__, map(_NUMBER, records))))
-            records = list(map(records.__getitem__,
-                               sorted(range(len(records)), key=sort_keys.__getitem__)))
-        return cls(page, templates, tkeys, records)
+            ranks = [rank[a] for a in after]
+            records = _sorted(records, ranks)
+        if not places:
+            return cls(page, templates, tkeys, records)
+        return cls(page, templates, tkeys, None, lazy=(records, blocks, places, ranks, groups))
 
     def built(self):
         """The findings, if they were built (and so may carry marks set since); else None."""
@@ -265,9 +319,12 @@ class PageFindings:
         return self._items
 
     def __len__(self) -> int:
-        if self._records is None:
-            return sum(self._packed[1])
-        return len(self._records)
+        if self._records is not None:
+            return len(self._records)
+        if self._lazy is not None:
+            before, blocks, places = self._lazy[:3]
+            return len(before) + sum(len(blocks[b][1]) for b, _, _ in places)
+        return sum(self._packed[1])
 
     def __bool__(self) -> bool:
         return len(self) > 0
@@ -282,5 +339,157 @@ class PageFindings:
         return list(self) == list(other)
 
     def __reduce__(self):
-        return (PageFindings, (self.page, self.templates, self.keys, self._records,
-                               self._packed, self.encoded))
+        records = self.records if self._packed is None else self._records
+        if self._packed is None:
+            return (PageFindings, (self.page, self.templates, self.keys, records, None,
+                                   self.encoded))
+        # packed: a worker's answer, which names what it has sent the main process before
+        return (_received, ((self.page, records, self._packed, self.encoded),)
+                + _shipped(self))
+
+
+class _Numbering:
+    """A page's situations numbered in order of first meeting (``PageFindings.build``)."""
+
+    def __init__(self):
+        self.templates, self.keys, self.index = [], [], {}
+        # a template object always comes with the same key: its number is found once a page
+        self.by_object = {}
+
+    def number(self, key, make) -> int:
+        """The page's number of situation ``key``; ``make()`` gives its template."""
+        n = self.index.get(key)
+        if n is None:
+            n = self.index[key] = len(self.templates)
+            self.templates.append(make())
+            self.keys.append(key)
+        return n
+
+    def judged(self, judged) -> list:
+        """The records of walked samples' findings: ``(sample, sample_key, templates)``."""
+        records, by_object = [], self.by_object
+        for s, k, found in judged:
+            where = None  # the sample's place, made once for all its findings
+            for t in found:
+                own = t.sample is s
+                n = by_object.get(id(t))
+                if n is None:
+                    n = by_object[id(t)] = self.number(
+                        (t.rule, k), lambda t=t, s=s, own=own: t if own else occurrence(t, s))
+                if own and t.fingerprint:  # (marked by a gate: the marks are its own)
+                    records.append((n,) + place(t))
+                    continue
+                if where is None:
+                    c = s.fg_cause
+                    where = (s.xpath, s.line, s.text,
+                             c.inherited_from if c is not None else None,
+                             tuple(layer.xpath for layer in s.bg_layers)
+                             if s.bg_layers else None, None)
+                records.append((n,) + where)
+        return records
+
+    def blocks(self, replays) -> tuple:
+        """``(blocks, groups, places)`` of replayed fragments' findings: ``(uid of the
+        entries, numbers)`` and ``Placement.groups`` once per placement, ``(block, XPath of the
+        place, lines)`` per place."""
+        blocks, groups, places = [], [], []  # blocks: (uid of the entries, numbers)
+        block_of = {}  # id(placement) -> its block
+        by_id = {}  # situation_id -> number
+        for placement, stamp in replays:
+            b = block_of.get(id(placement))
+            if b is None:
+                per_group = []
+                for head, _ in placement.groups:
+                    template, key, sid = placement.situations[head]
+                    n = by_id.get(sid)
+                    if n is None:
+                        n = by_id[sid] = self.number(key, lambda t=template: t)
+                    per_group.append(n)
+                b = block_of[id(placement)] = len(blocks)
+                blocks.append((placement.uid, list(map(per_group.__getitem__,
+                                                       placement.group_of))))
+                groups.append((placement.groups, placement.lineless))
+            places.append((b, stamp.new_base, placement.lines(stamp)))
+        return blocks, groups, places
+
+
+def _sorted(records: list, ranks: list) -> list:
+    """``records`` sorted by line, XPath and their template's rank (stable)."""
+    if len(records) < 2:
+        return records
+    # (line, XPath, rank) per record, built by C-level iterators: pages have thousands
+    sort_keys = list(zip(map(_LINE, records), map(_XPATH, records),
+                         map(ranks.__getitem__, map(_NUMBER, records))))
+    return list(map(records.__getitem__, sorted(range(len(records)),
+                                                key=sort_keys.__getitem__)))
+
+
+def expand(lazy: tuple, wanted=None) -> list:
+    """The records of ``PageFindings``'s blocks ``(records, blocks, places, ranks)``, in
+    report order: the walked samples' records then the blocks', sorted when ``ranks``;
+    only those of the templates ``wanted`` (a truth value per template index) if given."""
+    before, blocks, places, ranks = lazy
+    blocks = [(_ENTRIES[uid], numbers) for uid, numbers in blocks]
+    if wanted is None:
+        records = list(before)
+    else:
+        records = [r for r in before if wanted[r[0]]]
+        blocks = [_only(entries, numbers, wanted) for entries, numbers in blocks]
+    for b, new_base, lines in places:
+        entries, numbers = blocks[b]
+        if numbers:
+            place_block(entries, numbers, new_base, lines, records)
+    return records if ranks is None else _sorted(records, ranks)
+
+
+def _only(entries, numbers, wanted) -> tuple:
+    """A block's ``(entries, numbers)`` of the templates ``wanted`` only."""
+    if all(wanted[n] for n in numbers):
+        return entries, numbers
+    kept = [i for i, n in enumerate(numbers) if wanted[n]]
+    return [entries[i] for i in kept], [numbers[i] for i in kept]
+
+
+def unpack(data: bytes, wanted=None) -> list:
+    """The records pickled by ``PageFindings.pack`` (or a list of records); only those of the
+    templates ``wanted`` (a truth value per template index) if given."""
+    kept = pickle.loads(data)
+    if type(kept) is not list:
+        return expand(kept, wanted)
+    return kept if wanted is None else [r for r in kept if wanted[r[0]]]
+
+
+def _tally(lazy: tuple, size: int) -> dict:
+    """Occurrences per template of ``PageFindings``'s blocks, in order of first occurrence in
+    the report (as ``Counter`` of the expanded records), without placing a finding: the first
+    of a template is the least ``(line, XPath, rank, run order)`` among its records."""
+    before, blocks, places, ranks, groups = lazy
+    counts = Counter(map(_NUMBER, before))
+    # sorted already: a template's first record there is its least (the first index wins)
+    at = dict(zip(map(_NUMBER, reversed(before)), range(len(before) - 1, -1, -1)))
+    if ranks is None:
+        first = {n: (i,) for n, i in at.items()}
+    else:
+        first = {n: (before[i][2], before[i][1], ranks[n], i) for n, i in at.items()}
+    seq = len(before)
+    for b, new_base, lines in places:
+        uid, numbers = blocks[b]
+        entries = _ENTRIES[uid]
+        block_groups, lineless = groups[b]
+        lowest = 0 if lineless else min(lines[:-1])  # (lines ends with slot -1's 0)
+        for head, members in block_groups:
+            n = numbers[head]
+            counts[n] += len(members)
+            known = first.get(n)
+            if ranks is None:
+                if known is None:
+                    first[n] = (seq + head,)
+                continue
+            if known is not None and known[0] < lowest:  # (places come in page order)
+                continue
+            i = min(members, key=lambda i: (lines[entries[i][1]], entries[i][0]))
+            key = (lines[entries[i][1]], new_base + entries[i][0], ranks[n], seq + i)
+            if known is None or key < known:
+                first[n] = key
+        seq += len(entries)
+    return {n: counts[n] for n in sorted(first, key=first.__getitem__)}

@@ -31,7 +31,7 @@ from itertools import islice
 from lxml import etree
 
 from ..model import Cause, Sample
-from ..situations import situation_id
+from ..situations import place_block, register_entries, situation_id
 
 _SAMPLE_FIELDS = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
 # Per style cache, least recently used first out: a site's pages come in navigation order, so
@@ -250,7 +250,8 @@ class Placement:
     finding. ``Stamp.within(rel).place(sample, old_base)`` gives the same records one by one.
     """
 
-    __slots__ = ("positions", "entries", "situations")
+    __slots__ = ("positions", "entries", "situations", "groups", "group_of", "uid",
+                 "lineless")
 
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
@@ -280,25 +281,38 @@ class Placement:
                 if sample.bg_layers else None
             self.entries.append((rel + below, slot, sample.text, inherited, layers))
             self.situations.append((finding, key, situation_id(key)))
+        self.groups = _groups(self.situations)
+        self.group_of = [0] * len(self.entries)  # each entry's group
+        for g, (_, members) in enumerate(self.groups):
+            for i in members:
+                self.group_of[i] = g
+        self.uid = register_entries(self.entries)  # pages' packed findings name it so
+        self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
+
+    def lines(self, stamp: Stamp) -> list:
+        """The line of each slot at ``stamp``'s place (and 0 last: slot -1, no line)."""
+        lines = []
+        for where in self.positions:
+            el = stamp.anchor
+            for i in where:
+                el = el[i]
+            lines.append(el.sourceline or 0)
+        lines.append(0)
+        return lines
 
     def place(self, stamp: Stamp, numbers, out: list) -> None:
         """Append the record ``(number,) + place`` of every finding placed at ``stamp`` to
         ``out``; ``numbers``: the number of each finding's situation, in order."""
-        anchor, new_base = stamp.anchor, stamp.new_base
-        lines = []
-        for where in self.positions:
-            el = anchor
-            for i in where:
-                el = el[i]
-            lines.append(el.sourceline or 0)
-        lines.append(0)  # slot -1: a sample recorded without a line
-        for (rel, slot, text, inherited, layers), n in zip(self.entries, numbers):
-            if layers is not None:
-                layers = tuple(_rebased(spec, new_base) for spec in layers)
-            kind = inherited[0]
-            out.append((n, new_base + rel, lines[slot], text,
-                        inherited[1] if kind == 0 else new_base + inherited[1] if kind == 1
-                        else _rebased(inherited, new_base), layers, None))
+        place_block(self.entries, numbers, stamp.new_base, self.lines(stamp), out)
+
+
+def _groups(situations) -> list:
+    """``(first entry, entries)`` per distinct situation of a block, in first-entry order: a
+    page counts a block's findings per situation, and finds each one's first, from these."""
+    by_sid = {}
+    for i, (_, _, sid) in enumerate(situations):
+        by_sid.setdefault(sid, []).append(i)
+    return [(entries[0], tuple(entries)) for entries in by_sid.values()]
 
 
 def _positions(anchor, el) -> tuple:
@@ -324,14 +338,6 @@ def _rebaser(xpath, old_base: str, rel: str) -> tuple:
     if old_base.startswith(xpath) and old_base[len(xpath):len(xpath) + 1] == "/":
         return (2, rel, old_base.count("/") - xpath.count("/"))
     return (0, xpath)
-
-
-def _rebased(spec: tuple, new_base: str):
-    if spec[0] == 0:
-        return spec[1]
-    if spec[0] == 1:
-        return new_base + spec[1]
-    return (new_base + spec[1]).rsplit("/", spec[2])[0] or "/"
 
 
 def materialize(fragment: Fragment, stamp: Stamp, out: list) -> None:

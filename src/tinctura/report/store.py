@@ -173,7 +173,7 @@ class FindingStore:
         out = []
         for offset, length, mapping, _, _ in self._where.get(page, ()):
             self._file.seek(offset)
-            records = pickle.loads(self._file.read(length))
+            records = sit.unpack(self._file.read(length))
             if mapping is not None:  # kept as a worker packed them: its template indexes
                 records = [(mapping[r[0]],) + r[1:] for r in records]
             out.extend(records)
