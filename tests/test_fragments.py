@@ -201,9 +201,12 @@ def test_packed_pages_reach_another_process_with_entries_and_templates_once(repe
     expected = [list(p.records) for p in packed]
     sent = [pickle.dumps(p.pack()) for p in packed]
     named = {uid for p in packed for uid in p._named}
+    assert named  # (entries met on a second page are named, not sent with it)
     assert all(not any(p.__reduce__()[1][2:]) for p in packed)  # each sent once: none again
     kept = {uid: situations._ENTRIES.pop(uid) for uid in named}  # as in another process
+    live = dict(situations._LIVE)
     templates = dict(situations._TEMPLATES)
+    situations._LIVE.clear()
     situations._TEMPLATES.clear()
     try:
         received = [pickle.loads(data) for data in sent]
@@ -212,4 +215,5 @@ def test_packed_pages_reach_another_process_with_entries_and_templates_once(repe
         assert [list(p) for p in received] == [list(p) for p in packed]  # the same findings
     finally:
         situations._ENTRIES.update(kept)
+        situations._LIVE.update(live)
         situations._TEMPLATES.update(templates)

@@ -134,8 +134,12 @@ def _rebased(spec: tuple, new_base: str):
 # What a worker process sends the main one once, and names on later pages: a replayed
 # fragment's entries (``fragments.Placement``, by uid) and a situation's template finding and
 # key (by process and ``situation_id``). Pages keep their packed blocks by the entries' uid,
-# which their own process knows.
-_ENTRIES: dict = {}  # uid -> a Placement's entries
+# which their own process knows, but for entries placed on one page so far, kept with it: a
+# page's own navigation section makes fragments of its own, which would otherwise be kept
+# here for the whole run (memory would grow with the pages).
+_ENTRIES: dict = {}  # uid -> a Placement's entries, pickled (small: kept for the whole run)
+_LIVE: dict = {}  # uid -> a Placement's entries, for the last ones used (bounded)
+_LIVE_LIMIT = 4096
 _TEMPLATES: dict = {}  # (pid, situation_id) -> (template, key): received from other processes
 _SHIPPED_ENTRIES: set = set()  # uids whose entries this process has pickled for another
 _SHIPPED_TEMPLATES: set = set()  # template names this process has pickled for another
@@ -145,8 +149,21 @@ _uids = itertools.count(1)
 def register_entries(entries: list) -> tuple:
     """A uid for a Placement's ``entries``, by which packed pages name them."""
     uid = (os.getpid(), next(_uids))
-    _ENTRIES[uid] = entries
+    _ENTRIES[uid] = pickle.dumps(entries, protocol=pickle.HIGHEST_PROTOCOL)
+    _LIVE[uid] = entries
     return uid
+
+
+def _entries(named) -> list:
+    """A block's entries: ``named`` is them, or their uid (``fragments.Placement.named``)."""
+    if type(named) is list:
+        return named
+    entries = _LIVE.get(named)
+    if entries is None:
+        if len(_LIVE) >= _LIVE_LIMIT:
+            _LIVE.clear()
+        entries = _LIVE[named] = pickle.loads(_ENTRIES[named])
+    return entries
 
 
 def _shipped(findings: "PageFindings") -> tuple:
@@ -256,7 +273,7 @@ class PageFindings:
         if self._lazy is not None:  # blocks pickled as blocks, counted per block
             data = pickle.dumps(self._lazy[:4], protocol=pickle.HIGHEST_PROTOCOL)
             per_template = _tally(self._lazy, len(self.templates))
-            self._named = [uid for uid, _ in self._lazy[1]]
+            self._named = [named for named, _ in self._lazy[1] if type(named) is tuple]
         else:
             data = pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL)
             per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
@@ -406,7 +423,7 @@ class _Numbering:
                         n = by_id[sid] = self.number(key, lambda t=template: t)
                     per_group.append(n)
                 b = block_of[id(placement)] = len(blocks)
-                blocks.append((placement.uid, list(map(per_group.__getitem__,
+                blocks.append((placement.named(), list(map(per_group.__getitem__,
                                                        placement.group_of))))
                 groups.append((placement.groups, placement.lineless))
             places.append((b, stamp.new_base, placement.lines(stamp)))
@@ -429,7 +446,7 @@ def expand(lazy: tuple, wanted=None) -> list:
     report order: the walked samples' records then the blocks', sorted when ``ranks``;
     only those of the templates ``wanted`` (a truth value per template index) if given."""
     before, blocks, places, ranks = lazy
-    blocks = [(_ENTRIES[uid], numbers) for uid, numbers in blocks]
+    blocks = [(_entries(named), numbers) for named, numbers in blocks]
     if wanted is None:
         records = list(before)
     else:
@@ -473,8 +490,8 @@ def _tally(lazy: tuple, size: int) -> dict:
         first = {n: (before[i][2], before[i][1], ranks[n], i) for n, i in at.items()}
     seq = len(before)
     for b, new_base, lines in places:
-        uid, numbers = blocks[b]
-        entries = _ENTRIES[uid]
+        named, numbers = blocks[b]
+        entries = _entries(named)
         block_groups, lineless = groups[b]
         lowest = 0 if lineless else min(lines[:-1])  # (lines ends with slot -1's 0)
         for head, members in block_groups:

@@ -286,8 +286,20 @@ class Placement:
         for g, (_, members) in enumerate(self.groups):
             for i in members:
                 self.group_of[i] = g
-        self.uid = register_entries(self.entries)  # pages' packed findings name it so
+        self.uid = None  # (see ``named``)
         self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
+
+    def named(self):
+        """The entries as a page's block names them: on the first page that places them, the
+        entries themselves (packed with that page: most fragments of a page's own navigation
+        section are never met again); from the second on, a uid by which this process keeps
+        them once (``situations.register_entries``)."""
+        if self.uid is None:
+            self.uid = False
+            return self.entries
+        if self.uid is False:
+            self.uid = register_entries(self.entries)
+        return self.uid
 
     def lines(self, stamp: Stamp) -> list:
         """The line of each slot at ``stamp``'s place (and 0 last: slot -1, no line)."""
