@@ -689,13 +689,18 @@ class PagePool:
 
         ctx = multiprocessing.get_context("fork")
         _preload(options)
+        self._spool = tempfile.mkdtemp(prefix="tinctura-pages-")  # see _to_file
         # The heap so far (MkDocs's pages, the warm Site) moves out of the collector's reach
         # until ``close``: the workers' collections do not write to every inherited page of
         # memory (copying it), and this process's do not rescan it as pages go by.
         gc.freeze()
-        self._pool = ctx.Pool(workers, initializer=_worker_init,
-                              initargs=(root, options, True, site))
-        self._spool = tempfile.mkdtemp(prefix="tinctura-pages-")  # see _to_file
+        try:
+            self._pool = ctx.Pool(workers, initializer=_worker_init,
+                                  initargs=(root, options, True, site))
+        except BaseException:
+            gc.unfreeze()
+            shutil.rmtree(self._spool, ignore_errors=True)
+            raise
         self._pending = []
         # pages given to the workers and not answered yet: with 3 a worker has work while this
         # process checks a page of its own (2 left it waiting a tenth of its time)
