@@ -689,7 +689,7 @@ class PagePool:
 
         ctx = multiprocessing.get_context("fork")
         _preload(options)
-        self._spool = tempfile.mkdtemp(prefix="tinctura-pages-")  # see _to_file
+        self._spool = _spool_folder()  # see _to_file
         # The heap so far (MkDocs's pages, the warm Site) moves out of the collector's reach
         # until ``close``: the workers' collections do not write to every inherited page of
         # memory (copying it), and this process's do not rescan it as pages go by.
@@ -787,6 +787,19 @@ def _worker_check_html(args):
     site, options, judged = _WORKER
     html = _from_file(path)
     return _to_file(spool, _packed(_process(site, rel, options, judged, html), options))
+
+
+def _spool_folder() -> str:
+    """A new folder for the pages and answers in transit (``_to_file``), in memory where
+    there is a shared-memory file system: on a disk one, creating and removing a file per page
+    and answer cost about 1.5 ms of system time each (0.6 s on 200 pages)."""
+    shm = "/dev/shm"
+    if os.path.isdir(shm) and os.access(shm, os.W_OK):
+        try:
+            return tempfile.mkdtemp(prefix="tinctura-pages-", dir=shm)
+        except OSError:
+            pass
+    return tempfile.mkdtemp(prefix="tinctura-pages-")
 
 
 def _to_file(folder: str, value) -> str:
