@@ -7,6 +7,7 @@ HTML did not change is not checked again unless a stylesheet changed.
 from __future__ import annotations
 
 import fnmatch
+import gc
 import hashlib
 import logging
 import os
@@ -76,6 +77,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         # between serve rebuilds; each build gates them into a store of its own
         self.found = FindingStore()
         self.early = None  # Gating of this build's first pages while MkDocs renders the rest
+        self.gc_before = None  # the collector's thresholds while pages are checked (release)
         self.kept_now: set = set()  # pages checked in this build
 
     # -- lifecycle -------------------------------------------------------------------------
@@ -166,7 +168,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         return self.site
 
     def check(self, rel: str, html: str | None, key: str | None) -> None:
-        self.keep(rel, key, engine.judge_page(self.get_site(), rel, self.options, html))
+        # packed as a worker packs them: the stores keep and count the records unread
+        self.keep(rel, key, engine.judge_page(self.get_site(), rel, self.options, html,
+                                              packed=True))
 
     def keep(self, rel: str, key: str | None, judged) -> None:
         result, findings, uses = judged
@@ -205,10 +209,15 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.take(*done)
 
     def release(self) -> None:
-        """End the workers kept by ``collect``."""
-        if self.helper is not None:
-            helper, self.helper = self.helper, None
-            helper.close()
+        """End the workers (kept by ``collect``, or left by a failed build); the collector
+        as before the first page."""
+        for workers in (self.pool, self.helper):
+            if workers is not None:
+                workers.close()
+        self.pool = self.helper = None
+        if self.gc_before is not None:
+            gc.set_threshold(*self.gc_before)
+            self.gc_before = None
 
     def take(self, rel: str, outcome) -> None:
         """A worker's answer for ``rel``: kept, or the page checked here when it failed."""
@@ -227,6 +236,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             return output
         rel = page.file.dest_uri
         self.current.setdefault(rel, page.file.src_uri)  # pages added after on_files
+        if self.gc_before is None:  # as `tinctura check` does; MkDocs's heap is large too
+            self.gc_before = engine.relax_gc()
         self.gate_early()
         key = digest(output)
         self.get_site()  # the first call of a build decides which records are stale
@@ -241,6 +252,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.after_pages()
         finally:
             self.release()
+
+    def on_build_error(self, *, error) -> None:
+        self.release()
 
     def after_pages(self) -> None:
         if self.current:
