@@ -150,7 +150,7 @@ def register_entries(entries: list) -> tuple:
     """A uid for a Placement's ``entries``, by which packed pages name them."""
     uid = (os.getpid(), next(_uids))
     _ENTRIES[uid] = pickle.dumps(entries, protocol=pickle.HIGHEST_PROTOCOL)
-    _LIVE[uid] = entries
+    _live(uid, entries)
     return uid
 
 
@@ -160,9 +160,15 @@ def _entries(named) -> list:
         return named
     entries = _LIVE.get(named)
     if entries is None:
-        if len(_LIVE) >= _LIVE_LIMIT:
-            _LIVE.clear()
-        entries = _LIVE[named] = pickle.loads(_ENTRIES[named])
+        entries = _live(named, pickle.loads(_ENTRIES[named]))
+    return entries
+
+
+def _live(uid, entries: list) -> list:
+    """Keep ``entries`` at hand (bounded: the fragments they came from may be gone)."""
+    if len(_LIVE) >= _LIVE_LIMIT:
+        _LIVE.clear()
+    _LIVE[uid] = entries
     return entries
 
 
@@ -406,10 +412,10 @@ class _Numbering:
         return records
 
     def blocks(self, replays) -> tuple:
-        """``(blocks, groups, places)`` of replayed fragments' findings: ``(uid of the
-        entries, numbers)`` and ``Placement.groups`` once per placement, ``(block, XPath of the
-        place, lines)`` per place."""
-        blocks, groups, places = [], [], []  # blocks: (uid of the entries, numbers)
+        """``(blocks, groups, places)`` of replayed fragments' findings: ``(entries or
+        their uid, numbers)`` (``Placement.named``) and ``Placement.groups`` once per
+        placement, ``(block, XPath of the place, lines)`` per place."""
+        blocks, groups, places = [], [], []
         block_of = {}  # id(placement) -> its block
         by_id = {}  # situation_id -> number
         for placement, stamp in replays:
