@@ -362,12 +362,11 @@ class PageFindings:
         return list(self) == list(other)
 
     def __reduce__(self):
-        records = self.records if self._packed is None else self._records
         if self._packed is None:
-            return (PageFindings, (self.page, self.templates, self.keys, records, None,
+            return (PageFindings, (self.page, self.templates, self.keys, self.records, None,
                                    self.encoded))
         # packed: a worker's answer, which names what it has sent the main process before
-        return (_received, ((self.page, records, self._packed, self.encoded),)
+        return (_received, ((self.page, self._records, self._packed, self.encoded),)
                 + _shipped(self))
 
 

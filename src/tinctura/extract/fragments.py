@@ -250,7 +250,7 @@ class Placement:
     finding. ``Stamp.within(rel).place(sample, old_base)`` gives the same records one by one.
     """
 
-    __slots__ = ("positions", "entries", "situations", "groups", "group_of", "uid",
+    __slots__ = ("positions", "entries", "situations", "groups", "group_of", "placed", "uid",
                  "lineless")
 
     def __init__(self, findings, anchor):
@@ -286,7 +286,8 @@ class Placement:
         for g, (_, members) in enumerate(self.groups):
             for i in members:
                 self.group_of[i] = g
-        self.uid = None  # (see ``named``)
+        self.placed = False  # on a page already (see ``named``)
+        self.uid = None
         self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
 
     def named(self):
@@ -294,10 +295,10 @@ class Placement:
         entries themselves (packed with that page: most fragments of a page's own navigation
         section are never met again); from the second on, a uid by which this process keeps
         them once (``situations.register_entries``)."""
-        if self.uid is None:
-            self.uid = False
+        if not self.placed:
+            self.placed = True
             return self.entries
-        if self.uid is False:
+        if self.uid is None:
             self.uid = register_entries(self.entries)
         return self.uid
 
