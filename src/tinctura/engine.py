@@ -777,6 +777,38 @@ class PagePool:
         shutil.rmtree(self._spool, ignore_errors=True)  # pages no worker took
 
 
+@contextmanager
+def recheck_helper(root: str, options: Options, loader=None):
+    """``overrides.verify``'s ``helper`` for the command line, or None (--jobs 1, no fork).
+
+    Once every page is checked the workers are gone and the other cores idle while this
+    process rechecks the verification pages: the helper forks a worker (a ``PagePool``, on
+    first use only) that inherits ``loader``'s parsed stylesheets and rechecks its share
+    beside this process. When the worker cannot start, its answer is None and ``verify``
+    checks those pages here. On exit the worker and its folder are gone."""
+    if int(options.jobs or 1) < 2 or not can_fork():
+        yield None
+        return
+    pools = []
+
+    def helper(css, pages):
+        try:
+            if not pools:
+                site = Site(root, options)
+                if loader is not None:
+                    site.loader = loader
+                pools.append(PagePool(root, options, 1, site))
+            return pools[0].recheck(css, pages)
+        except Exception:  # no worker: verify checks these pages itself
+            return lambda: None
+
+    try:
+        yield helper
+    finally:
+        for pool in pools:
+            pool.close()
+
+
 def _worker_recheck(args):
     css, pages = args
     site, options, _ = _WORKER
