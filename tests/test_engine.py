@@ -167,7 +167,7 @@ def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
     assert here[0] < without[0]  # the faint text's problem is gone with the CSS
 
 
-def test_verify_split_with_a_helper_marks_as_alone(site):
+def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     """Half the pages checked by a helper (the plugin's worker): the same verdicts and counts."""
     from tinctura import overrides
 
@@ -181,16 +181,31 @@ def test_verify_split_with_a_helper_marks_as_alone(site):
     def failing(css, pages):
         return lambda: None  # a worker that died: its pages are checked here
 
+    def absent(css, pages):
+        return None  # no worker could start: its pages are checked here too
+
     pages = [f"p{n}/index.html" for n in range(5)]
     results = []
-    for use in (None, helper, failing):
+    checked = []
+    recheck = overrides.recheck
+
+    def counting(root, options, css, pages, loader=None):
+        checked.extend(pages)
+        return recheck(root, options, css, pages, loader)
+
+    for use in (None, helper, failing, absent):
+        del checked[:]
+        monkeypatch.setattr(overrides, "recheck", counting)
         override = overrides.Override("site.css", [overrides.Rule(".faint", (("color", "#595959",
                                                                             False),))])
         problem = _faint_problem(site, options)
         counts = overrides.verify(str(site), options, [problem], [override], pages, helper=use)
+        monkeypatch.setattr(overrides, "recheck", recheck)
         results.append((override.verified, counts))
+        if use is not helper:  # every page checked, here when the helper gave nothing
+            assert sorted(checked) == sorted(pages)
     assert asked == [pages[1::2]]
-    assert results[0] == results[1] == results[2] and results[0][0] is True
+    assert results[0] == results[1] == results[2] == results[3] and results[0][0] is True
 
 
 def _faint_problem(site, options):
