@@ -916,6 +916,13 @@ def _site_pages(site, pages, options, judged):
     chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if forking else "spawn")
     warm = site if forking else None  # (a forked worker inherits it; nothing is pickled)
-    with ctx.Pool(jobs, initializer=_worker_init,
-                  initargs=(site.root, options, judged, warm)) as pool:
-        yield from pool.imap(_worker_check, pages, chunksize=chunk)
+    # The heap so far (the warm Site, its caches) moves out of the collector's reach while the
+    # workers run: their collections would otherwise write to every inherited page of memory
+    # (copying it) and rescan it again and again, in each worker.
+    gc.freeze()
+    try:
+        with ctx.Pool(jobs, initializer=_worker_init,
+                      initargs=(site.root, options, judged, warm)) as pool:
+            yield from pool.imap(_worker_check, pages, chunksize=chunk)
+    finally:
+        gc.unfreeze()
