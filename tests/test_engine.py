@@ -167,7 +167,7 @@ def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
     assert here[0] < without[0]  # the faint text's problem is gone with the CSS
 
 
-def test_verify_split_with_a_helper_marks_as_alone(site):
+def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     """Half the pages checked by a helper (the plugin's worker): the same verdicts and counts."""
     from tinctura import overrides
 
@@ -181,16 +181,31 @@ def test_verify_split_with_a_helper_marks_as_alone(site):
     def failing(css, pages):
         return lambda: None  # a worker that died: its pages are checked here
 
+    def absent(css, pages):
+        return None  # no worker could start: its pages are checked here too
+
     pages = [f"p{n}/index.html" for n in range(5)]
     results = []
-    for use in (None, helper, failing):
+    checked = []
+    recheck = overrides.recheck
+
+    def counting(root, options, css, pages, loader=None):
+        checked.extend(pages)
+        return recheck(root, options, css, pages, loader)
+
+    for use in (None, helper, failing, absent):
+        del checked[:]
+        monkeypatch.setattr(overrides, "recheck", counting)
         override = overrides.Override("site.css", [overrides.Rule(".faint", (("color", "#595959",
                                                                             False),))])
         problem = _faint_problem(site, options)
         counts = overrides.verify(str(site), options, [problem], [override], pages, helper=use)
+        monkeypatch.setattr(overrides, "recheck", recheck)
         results.append((override.verified, counts))
+        if use is not helper:  # every page checked, here when the helper gave nothing
+            assert sorted(checked) == sorted(pages)
     assert asked == [pages[1::2]]
-    assert results[0] == results[1] == results[2] and results[0][0] is True
+    assert results[0] == results[1] == results[2] == results[3] and results[0][0] is True
 
 
 def _faint_problem(site, options):
@@ -201,3 +216,113 @@ def _faint_problem(site, options):
     found = problems.group([f for f in findings if f.rule == "TC100"], uses=uses)
     return next(p for p in found if "faint" in (p.fg_cause.declaration.selector or "")
                 or "--faint" in p.fg_cause.declaration.property)
+
+
+SHADES = {"a": "#999", "b": "#aaa", "c": "#a3a3a3", "d": "#9c9c9c"}  # each fails 4.5:1 on white
+
+
+@pytest.fixture
+def shaded(tmp_path):
+    """Four pages, each with its own too-light text colour: four problems, whose fixes are
+    verified on four different pages."""
+    (tmp_path / "site.css").write_text(
+        " ".join(f".{name}{{color:{value}}}" for name, value in SHADES.items()))
+    for name in SHADES:
+        (tmp_path / name).mkdir()
+        (tmp_path / name / "index.html").write_text(
+            f'<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head>'
+            f'<body><p class="{name}">Sort the seed packets by {name}</p></body></html>')
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html><head><link rel="stylesheet" href="site.css"></head>'
+        '<body><p>Seed library opening hours</p></body></html>')
+    return tmp_path
+
+
+@pytest.fixture
+def logged(monkeypatch, tmp_path_factory):
+    """Every ``overrides.recheck``, in whichever process, appends ``pid pages`` to the file
+    named ``logged[0]`` (set before each run)."""
+    import os
+
+    from tinctura import overrides
+
+    log = [None]
+    original = overrides.recheck
+
+    def recording(site_root, options, css, pages, loader=None):
+        with open(log[0], "a") as fh:
+            fh.write(f"{os.getpid()} {','.join(pages)}\n")
+        return original(site_root, options, css, pages, loader)
+
+    monkeypatch.setattr(overrides, "recheck", recording)
+    return log
+
+
+def _verified_by_cli(site, jobs, logged, log):
+    """``{problem sentence: fix verified}`` of ``tinctura check --jobs N``, its rechecks
+    logged to ``log``."""
+    import json
+
+    from tinctura import cli
+
+    logged[0] = log
+    out = site.parent / f"r{jobs}.json"
+    cli.main(["check", str(site), "--no-config", "--fail-on", "never", "--jobs", str(jobs),
+              "--format", f"json:{out}"])
+    return {p["sentence"]: p["fix"]["verified"] for p in json.loads(out.read_text())["problems"]
+            if p["fix"] is not None}
+
+
+def _rechecks(log):
+    """``{pid: [pages]}`` of the rechecks logged."""
+    found: dict = {}
+    for line in log.read_text().splitlines():
+        pid, pages = line.split(" ")
+        found.setdefault(int(pid), []).extend(p for p in pages.split(",") if p)
+    return found
+
+
+def test_cli_jobs_2_verifies_fixes_as_jobs_1_with_a_forked_worker(shaded, tmp_path_factory,
+                                                                   monkeypatch, logged):
+    """With --jobs 2 a forked worker rechecks some of the verification pages beside the main
+    process: the same fixes are verified as with --jobs 1; no process or folder is left."""
+    import multiprocessing
+    import os
+
+    from tinctura import engine
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    logs = tmp_path_factory.mktemp("logs")
+    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
+    folders = []
+    spool = engine._spool_folder
+    monkeypatch.setattr(engine, "_spool_folder", lambda: folders.append(spool()) or folders[-1])
+    shared = _verified_by_cli(shaded, 2, logged, logs / "two")
+    assert shared == alone and len(alone) == len(SHADES) and any(alone.values())
+    one, two = _rechecks(logs / "one"), _rechecks(logs / "two")
+    assert list(one) == [os.getpid()] and len(one[os.getpid()]) == len(SHADES)
+    theirs = [pages for pid, pages in two.items() if pid != os.getpid()]
+    assert len(theirs) == 1 and theirs[0]  # one worker, and it had pages
+    assert sorted(sum(two.values(), [])) == sorted(one[os.getpid()])  # each page once
+    assert folders and not any(os.path.exists(f) for f in folders)
+    assert multiprocessing.active_children() == []
+
+
+def test_cli_jobs_2_checks_the_pages_itself_when_no_worker_starts(shaded, tmp_path_factory,
+                                                                  monkeypatch, logged):
+    import os
+
+    from tinctura import engine
+
+    def refused(*args, **kwargs):
+        raise OSError("no more processes")
+
+    logs = tmp_path_factory.mktemp("logs")
+    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
+    monkeypatch.setattr(engine, "PagePool", refused)
+    shared = _verified_by_cli(shaded, 2, logged, logs / "two")
+    assert shared == alone and any(alone.values())
+    two = _rechecks(logs / "two")
+    assert list(two) == [os.getpid()] and sorted(two[os.getpid()]) == sorted(
+        _rechecks(logs / "one")[os.getpid()])

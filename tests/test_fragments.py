@@ -217,3 +217,33 @@ def test_packed_pages_reach_another_process_with_entries_and_templates_once(repe
         situations._ENTRIES.update(kept)
         situations._LIVE.update(live)
         situations._TEMPLATES.update(templates)
+
+
+def test_received_pages_are_numbered_by_name_as_by_key(repeated_site):
+    # the main process numbers a worker's situations by their names there (pid, id), not by
+    # hashing their keys again: the store's numbers are those of the same pages kept unsent
+    import pickle
+
+    from tinctura import situations
+    from tinctura.report.store import FindingStore
+
+    options = Options(keep_samples=False)
+    site = Site(str(repeated_site), options)
+    rels = list(site.pages())
+    direct, by_name = FindingStore(), FindingStore()
+    for rel in rels:
+        direct.add(rel, judge_page(site, rel, options)[1].pack())
+    templates = dict(situations._TEMPLATES)
+    try:
+        for rel in rels:
+            received = pickle.loads(pickle.dumps(judge_page(site, rel, options)[1].pack()))
+            assert received.names is not None
+            by_name.add(rel, received)
+        assert by_name._by_name  # looked up by name
+        assert by_name.keys == direct.keys
+        assert list(by_name.occurrences(rels[-1])) == list(direct.occurrences(rels[-1]))
+    finally:
+        situations._TEMPLATES.clear()
+        situations._TEMPLATES.update(templates)
+    direct.close()
+    by_name.close()

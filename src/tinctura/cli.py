@@ -336,8 +336,11 @@ def run_check(args, stdout, stderr) -> int:
     found = collector.problems(result.uses)
     aid = writer_aid(args.paths, project, options)
     if aid is not None and found:
-        aid.plan_overrides(found, result.schemes, options, store.pages(),
-                           loaders.get(aid.site_root))
+        loader = loaders.get(aid.site_root)
+        # with --jobs N a forked worker rechecks half the verification pages beside this one
+        with engine.recheck_helper(aid.site_root, options, loader) as helper:
+            aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
+                               helper=helper)
     header = report.Header(
         scope=report.scope_of(args.paths, options),
         version=version(),

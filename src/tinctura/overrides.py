@@ -392,7 +392,8 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
     between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice;
     ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
-    worker, idle by then) and returns a callable giving its result, or None if it failed.
+    worker, idle by then) and returns a callable giving its result (None if the worker
+    failed), or None when no worker could start; those pages are then checked here.
     What is found is the same wherever a page is checked: the answers are unions."""
     css = combined_css(overrides)
     if not css:
@@ -407,8 +408,9 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         mine, theirs = mine[0::2], mine[1::2]
     answer = helper(css, theirs) if theirs else None
     remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader)
-    if answer is not None:
-        got = answer() or recheck(site_root, options, css, theirs, loader)
+    if theirs:  # a helper that could not start (None) or failed (its answer None): here
+        got = (answer() if answer is not None else None) or \
+            recheck(site_root, options, css, theirs, loader)
         remaining_keys |= got[0]
         bad |= got[1]
         remaining += got[2]

@@ -192,7 +192,9 @@ def _received(state: tuple, names: list, templates: dict, entries: dict) -> "Pag
     _ENTRIES.update(entries)
     _TEMPLATES.update(templates)
     known = [_TEMPLATES[name] for name in names]
-    return PageFindings(state[0], [t for t, _ in known], [k for _, k in known], *state[1:])
+    page = PageFindings(state[0], [t for t, _ in known], [k for _, k in known], *state[1:])
+    page.names = names
+    return page
 
 
 _IDS: dict = {}  # finding_key -> a number standing for it in this process
@@ -235,7 +237,7 @@ class PageFindings:
     report grouped by problem never reads them."""
 
     __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items", "encoded",
-                 "_lazy", "_named")
+                 "_lazy", "_named", "names")
 
     def __init__(self, page: str, templates: list, keys: list, records: list, packed=None,
                  encoded=None, lazy=None):
@@ -250,6 +252,9 @@ class PageFindings:
         # (records of walked samples, sorted; blocks; places; ranks; groups), see ``build``
         self._lazy = lazy
         self._named = ()  # uids of the entries its packed records name (``pack``)
+        # received from another process: its templates' names there (``_shipped``), which
+        # the main process looks up faster than their keys, tuples hashed anew each time
+        self.names = None
 
     @property
     def records(self) -> list:

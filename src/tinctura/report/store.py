@@ -38,6 +38,7 @@ class FindingStore:
         self._where = {}
         self._size = 0
         self._ids = {}  # situations.finding_key -> situation number
+        self._by_name = {}  # a template's name in a worker (situations._shipped) -> number
         self.situations = []  # situation number -> template Finding (its first occurrence)
         self.keys = []  # situation number -> its situations.finding_key
         self.occurrence_counts = []  # situation number -> occurrences
@@ -117,8 +118,14 @@ class FindingStore:
         numbering new situations in their order of first occurrence, as ``records_of``."""
         data, counts, first = findings.packed()
         local = [None] * len(counts)
+        names, by_name = findings.names, self._by_name
         for n in first:
-            local[n] = self.situation(findings.keys[n], findings.templates[n])
+            sid = by_name.get(names[n]) if names is not None else None
+            if sid is None:
+                sid = self.situation(findings.keys[n], findings.templates[n])
+                if names is not None:
+                    by_name[names[n]] = sid
+            local[n] = sid
         return local
 
     def put_packed(self, page: str, findings, numbers: list) -> Counter:
