@@ -242,6 +242,11 @@ def test_received_pages_are_numbered_by_name_as_by_key(repeated_site):
         assert by_name._by_name  # looked up by name
         assert by_name.keys == direct.keys
         assert list(by_name.occurrences(rels[-1])) == list(direct.occurrences(rels[-1]))
+        # a name met again for another key (a new worker with an old one's pid): by key
+        for name in by_name._by_name:
+            by_name._by_name[name] = (0, ("another situation",))
+        again = pickle.loads(pickle.dumps(judge_page(site, rels[-1], options)[1].pack()))
+        assert by_name.numbers(again) == direct.numbers(again)
     finally:
         situations._TEMPLATES.clear()
         situations._TEMPLATES.update(templates)

@@ -38,7 +38,8 @@ class FindingStore:
         self._where = {}
         self._size = 0
         self._ids = {}  # situations.finding_key -> situation number
-        self._by_name = {}  # a template's name in a worker (situations._shipped) -> number
+        # a template's name in a worker (situations._shipped) -> (number, its key object)
+        self._by_name = {}
         self.situations = []  # situation number -> template Finding (its first occurrence)
         self.keys = []  # situation number -> its situations.finding_key
         self.occurrence_counts = []  # situation number -> occurrences
@@ -120,12 +121,16 @@ class FindingStore:
         local = [None] * len(counts)
         names, by_name = findings.names, self._by_name
         for n in first:
-            sid = by_name.get(names[n]) if names is not None else None
-            if sid is None:
-                sid = self.situation(findings.keys[n], findings.templates[n])
-                if names is not None:
-                    by_name[names[n]] = sid
-            local[n] = sid
+            key = findings.keys[n]
+            hit = by_name.get(names[n]) if names is not None else None
+            # a name stands for the key object received with it; a later worker with an
+            # earlier one's pid may name another situation so, and is looked up by key
+            if hit is not None and hit[1] is key:
+                local[n] = hit[0]
+                continue
+            local[n] = self.situation(key, findings.templates[n])
+            if names is not None:
+                by_name[names[n]] = (local[n], key)
         return local
 
     def put_packed(self, page: str, findings, numbers: list) -> Counter:
