@@ -785,7 +785,7 @@ def recheck_helper(root: str, options: Options, loader=None):
     Once every page is checked the workers are gone and the other cores idle while this
     process rechecks the verification pages: the helper forks a worker (a ``PagePool``, on
     first use only) that inherits ``loader``'s parsed stylesheets and rechecks its share
-    beside this process. When the worker cannot start, its answer is None and ``verify``
+    beside this process. When the worker cannot start the helper gives None, and ``verify``
     checks those pages here. On exit the worker and its folder are gone."""
     if int(options.jobs or 1) < 2 or not can_fork():
         yield None
@@ -801,7 +801,7 @@ def recheck_helper(root: str, options: Options, loader=None):
                 pools.append(PagePool(root, options, 1, site))
             return pools[0].recheck(css, pages)
         except Exception:  # no worker: verify checks these pages itself
-            return lambda: None
+            return None
 
     try:
         yield helper
@@ -916,10 +916,7 @@ def _site_pages(site, pages, options, judged):
     chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if forking else "spawn")
     warm = site if forking else None  # (a forked worker inherits it; nothing is pickled)
-    # The heap so far (the warm Site, its caches) moves out of the collector's reach while the
-    # workers run: their collections would otherwise write to every inherited page of memory
-    # (copying it) and rescan it again and again, in each worker.
-    gc.freeze()
+    gc.freeze()  # the warm Site out of the workers' collections, as in PagePool
     try:
         with ctx.Pool(jobs, initializer=_worker_init,
                       initargs=(site.root, options, judged, warm)) as pool:
