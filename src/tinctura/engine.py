@@ -654,7 +654,7 @@ def _packed(result, options):
     if isinstance(result, tuple) and isinstance(result[1], situations.PageFindings):
         encode = None
         if options.encode_occurrences:
-            from .report.json_report import encoded_occurrences as encode
+            from .report.block_occurrences import encoded_page as encode
         result[1].pack(encode)
     return result
 
