@@ -70,19 +70,25 @@ def _runs(lazy) -> list | None:
     before, blocks, places, ranks, groups = lazy
     if ranks is None:
         return None
-    at_base = {}  # base -> [(block, lines)], in page order
-    for b, base, lines in places:
-        if blocks[b][1]:
-            at_base.setdefault(base, []).append((b, lines))
-    runs, layouts = [], {}
+    at_base = {}  # base -> its places (block, base, lines), in page order
+    for place in places:
+        if blocks[place[0]][1]:
+            members = at_base.get(place[1])
+            if members is None:
+                at_base[place[1]] = [place]
+            else:
+                members.append(place)
+    runs = []
     for base, members in at_base.items():
         if not base.isascii() or "\0" in base:
             return None
-        numbers = [[blocks[b][1][head] for head, _ in groups[b][2].groups] for b, _ in members]
-        layout = _layout_for(members, numbers, groups, ranks, layouts)
+        placements = [groups[b][2] for b, _, _ in members]
+        lines = [place[2] for place in members]
+        layout = _layout_for(placements, lines, members, blocks, ranks)
         if layout is None or base.count("/") <= layout.depth:
             return None
-        lines = [lines for _, lines in members]
+        numbers = [[blocks[b][1][head] for head, _ in placement.groups]
+                   for (b, _, _), placement in zip(members, placements)]
         first, last = layout.first, layout.last
         runs.append(((lines[first[1]][first[2]], base + first[8]),
                      (lines[last[1]][last[2]], base + last[8]), layout, numbers, base, lines))
@@ -103,37 +109,32 @@ def _apart(before: list, runs: list) -> bool:
     return True
 
 
-def _layout_for(members, numbers, groups, ranks, layouts: dict):
-    """The layout of the fragments ``members`` (``(block, lines)``, their situations'
-    ``numbers``) placed at one XPath, or None. ``layouts``: this page's, by blocks."""
-    lines = [lines for _, lines in members]
-    page_key = tuple(b for b, _ in members)
-    layout = layouts.get(page_key)
-    if layout is not None and _shifted(layout.lines, lines):
-        return layout
-    placements = [groups[b][2] for b, _ in members]
+def _layout_for(placements, lines, members, blocks, ranks):
+    """The layout of ``placements`` placed at one XPath with their slots' ``lines`` (their
+    ``members`` of ``blocks`` on a page ranked ``ranks``), or None.
+
+    The order of the situations at one element is their rank's, which follows from what they
+    are (``situations.PageFindings.build``'s ``template_order``: scheme, state, rule), so a
+    layout is kept per fragments placed together, whatever the page."""
+    key = tuple(p.serial for p in placements[1:])
+    kept = placements[0].layouts.get(key)
+    if kept is not None and _shifted(kept.lines, lines):
+        return kept
     if any(p.lineless for p in placements):
         return None
-    # the order of situations at one element: their ranks, made dense (pages rank apart)
-    group_ranks = [ranks[n] for per_group in numbers for n in per_group]
-    dense = sorted(set(group_ranks))
-    pattern = tuple(map(dense.index, group_ranks))
-    key = (tuple(p.serial for p in placements[1:]), pattern)
-    kept = placements[0].layouts.get(key)
-    if kept is None or not _shifted(kept.lines, lines):
-        kept = _layout(placements, pattern, lines)
-        if kept is None:
-            return None
+    group_ranks = [ranks[blocks[b][1][head]] for (b, _, _), placement in zip(members, placements)
+                   for head, _ in placement.groups]
+    dense = sorted(set(group_ranks))  # (pages rank apart: made dense)
+    kept = _layout(placements, tuple(map(dense.index, group_ranks)), lines)
+    if kept is not None:
         placements[0].layouts[key] = kept
-    layouts[page_key] = kept
     return kept
 
 
 def _shifted(reference: list, lines: list) -> bool:
     """Whether each fragment's slot ``lines`` are ``reference``'s shifted by one constant."""
-    d = lines[0][0] - reference[0][0]
-    return all(list(map(operator.sub, now[:-1], then)) == [d] * len(then)
-               for now, then in zip(lines, reference))
+    add = (lines[0][0] - reference[0][0]).__add__
+    return all(all(map(operator.eq, map(add, then), now)) for now, then in zip(lines, reference))
 
 
 def _layout(placements, pattern: tuple, lines: list) -> _Layout | None:
