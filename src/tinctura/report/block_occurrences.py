@@ -30,6 +30,7 @@ from .json_report import (
 from ..situations import _rebased
 
 _LINE, _XPATH = operator.itemgetter(2), operator.itemgetter(1)
+_LAYOUTS_LIMIT = 8  # per fragment: one per set of fragments placed with it, usually one
 
 
 def encoded_page(findings) -> str | None:
@@ -127,7 +128,10 @@ def _layout_for(placements, lines, members, blocks, ranks):
     dense = sorted(set(group_ranks))  # (pages rank apart: made dense)
     kept = _layout(placements, tuple(map(dense.index, group_ranks)), lines)
     if kept is not None:
-        placements[0].layouts[key] = kept
+        layouts = placements[0].layouts
+        if len(layouts) >= _LAYOUTS_LIMIT:  # partners recorded again (a long `serve`)
+            layouts.clear()
+        layouts[key] = kept
     return kept
 
 
