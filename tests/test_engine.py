@@ -326,3 +326,15 @@ def test_cli_jobs_2_checks_the_pages_itself_when_no_worker_starts(shaded, tmp_pa
     two = _rechecks(logs / "two")
     assert list(two) == [os.getpid()] and sorted(two[os.getpid()]) == sorted(
         _rechecks(logs / "one")[os.getpid()])
+
+
+@pytest.mark.parametrize("count, jobs", [(1, 2), (7, 2), (199, 2), (999, 2), (400, 4)])
+def test_pages_go_to_workers_in_runs_that_shrink_towards_the_end(count, jobs):
+    from tinctura.engine import shrinking_chunks
+
+    pages = [f"p{n}/index.html" for n in range(count)]
+    chunks = shrinking_chunks(pages, jobs)
+    assert [p for chunk in chunks for p in chunk] == pages  # every page once, in order
+    sizes = [len(chunk) for chunk in chunks]
+    assert sizes == sorted(sizes, reverse=True) and max(sizes) <= 25
+    assert sizes[-1] == 1  # the last runs are single pages: the workers finish together

@@ -647,6 +647,10 @@ def _worker_check(rel):
     return _packed(_process(site, rel, options, judged), options)
 
 
+def _worker_check_all(rels) -> list:
+    return [_worker_check(rel) for rel in rels]
+
+
 def _packed(result, options):
     """A worker's answer with its findings' records pickled here (``PageFindings.pack``),
     and written for the JSON report when one is made: the main process keeps them without
@@ -654,7 +658,7 @@ def _packed(result, options):
     if isinstance(result, tuple) and isinstance(result[1], situations.PageFindings):
         encode = None
         if options.encode_occurrences:
-            from .report.json_report import encoded_occurrences as encode
+            from .report.block_occurrences import encoded_page as encode
         result[1].pack(encode)
     return result
 
@@ -913,13 +917,27 @@ def _site_pages(site, pages, options, judged):
         with relaxed_gc():
             yield _packed(_process(site, pages[0], options, judged), options)
         pages = pages[1:]
-    chunk = max(1, min(25, len(pages) // (jobs * 4)))
     ctx = multiprocessing.get_context("fork" if forking else "spawn")
     warm = site if forking else None  # (a forked worker inherits it; nothing is pickled)
     gc.freeze()  # the warm Site out of the workers' collections, as in PagePool
     try:
         with ctx.Pool(jobs, initializer=_worker_init,
                       initargs=(site.root, options, judged, warm)) as pool:
-            yield from pool.imap(_worker_check, pages, chunksize=chunk)
+            for results in pool.imap(_worker_check_all, shrinking_chunks(pages, jobs)):
+                yield from results
     finally:
         gc.unfreeze()
+
+
+def shrinking_chunks(pages: list, jobs: int, most: int = 25) -> list:
+    """``pages`` in runs of neighbours for ``jobs`` workers: each half a worker's share
+    of what is left (at most ``most``), so that runs shrink towards the end and the workers
+    finish together. Neighbouring pages share navigation fragments, which a worker records
+    once and replays; one run per page at the end would lose that, one large run would leave
+    a worker idle while the other finishes it."""
+    out, at = [], 0
+    while at < len(pages):
+        size = max(1, min(most, -(-(len(pages) - at) // (jobs * 2))))
+        out.append(pages[at:at + size])
+        at += size
+    return out

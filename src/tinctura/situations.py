@@ -274,13 +274,18 @@ class PageFindings:
             return expand(self._lazy[:4], wanted)
         return unpack(self._packed[0], wanted)
 
+    def blocks(self):
+        """``(records of walked samples, blocks, places, ranks, groups)`` while the replayed
+        fragments' findings are kept as blocks (see ``build``), else None."""
+        return self._lazy
+
     def pack(self, encode=None) -> "PageFindings":
         """Pickle the records once, where they were made (a worker process): the main process
         can then keep them as they are (``FindingStore.put_packed``) and count them from
-        ``packed()`` without reading them. ``encode(records)``, when given, writes them for a
+        ``packed()`` without reading them. ``encode(self)``, when given, writes them for a
         report here too (``encoded``), so the main process only copies them."""
         if encode is not None:
-            self.encoded = encode(self.records)
+            self.encoded = encode(self)
         if self._lazy is not None:  # blocks pickled as blocks, counted per block
             data = pickle.dumps(self._lazy[:4], protocol=pickle.HIGHEST_PROTOCOL)
             per_template = _tally(self._lazy, len(self.templates))
@@ -435,7 +440,7 @@ class _Numbering:
                 b = block_of[id(placement)] = len(blocks)
                 blocks.append((placement.named(), list(map(per_group.__getitem__,
                                                        placement.group_of))))
-                groups.append((placement.groups, placement.lineless))
+                groups.append((placement.groups, placement.lineless, placement))
             places.append((b, stamp.new_base, placement.lines(stamp)))
         return blocks, groups, places
 
@@ -502,7 +507,7 @@ def _tally(lazy: tuple, size: int) -> dict:
     for b, new_base, lines in places:
         named, numbers = blocks[b]
         entries = _entries(named)
-        block_groups, lineless = groups[b]
+        block_groups, lineless = groups[b][:2]
         lowest = 0 if lineless else min(lines[:-1])  # (lines ends with slot -1's 0)
         for head, members in block_groups:
             n = numbers[head]

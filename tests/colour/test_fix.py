@@ -131,3 +131,21 @@ def test_random_pairs_pass_or_are_impossible():
             colour, ratio = result
             assert contrast_ratio(on_hex(colour), bg) >= required
             assert ratio >= required
+
+
+def test_the_gamut_test_of_the_searches_is_the_conversions_own():
+    # fix._fits works out per chroma only what depends on it; it must answer exactly as the
+    # conversion functions composed (convert.from_polar, oklab_to_linear_srgb, in_gamut), so
+    # that suggestions stay the same to the last bit
+    import random
+
+    from tinctura.colour import fix
+    from tinctura.colour.convert import from_polar, in_gamut, oklab_to_linear_srgb
+
+    rng = random.Random(11)
+    for _ in range(20000):
+        lightness, hue = rng.random(), rng.uniform(0, 360)
+        chroma = rng.choice([rng.uniform(0, 0.4), rng.uniform(0, 0.05)])
+        expected = in_gamut(oklab_to_linear_srgb(from_polar((lightness, chroma, hue))),
+                            fix._GAMUT_TOLERANCE)
+        assert fix._fits(lightness, hue)(chroma) == expected

@@ -14,8 +14,9 @@ from __future__ import annotations
 import math
 
 from .convert import (
+    _LMS_TO_LSRGB,
+    _OKLAB_TO_LMS,
     from_polar,
-    in_gamut,
     linear_to_srgb,
     oklab_to_linear_srgb,
     quantize,
@@ -93,17 +94,40 @@ def _feasible_luminances(others, required):
 def _in_gamut_colour(lightness, chroma, hue):
     """sRGB of OKLCh (L, C, h) with chroma reduced just enough to fit the gamut."""
     lightness = min(max(lightness, 0.0), 1.0)
-    linear = oklab_to_linear_srgb(from_polar((lightness, chroma, hue)))
-    if not in_gamut(linear, _GAMUT_TOLERANCE):
+    fits = _fits(lightness, hue)
+    if not fits(chroma):
         lo, hi = 0.0, chroma
         for _ in range(_BISECT_CHROMA):
             mid = (lo + hi) / 2
-            if in_gamut(oklab_to_linear_srgb(from_polar((lightness, mid, hue))), _GAMUT_TOLERANCE):
+            if fits(mid):
                 lo = mid
             else:
                 hi = mid
-        linear = oklab_to_linear_srgb(from_polar((lightness, lo, hue)))
+        chroma = lo
+    linear = oklab_to_linear_srgb(from_polar((lightness, chroma, hue)))
     return tuple(min(max(c, 0.0), 1.0) for c in linear_to_srgb(linear))
+
+
+def _fits(lightness, hue):
+    """``fits(chroma)``: whether OKLCh (lightness, chroma, hue) is in the sRGB gamut, as
+    ``in_gamut(oklab_to_linear_srgb(from_polar(...)), _GAMUT_TOLERANCE)`` says, by the very same
+    float operations in the same order, with what does not depend on chroma worked out once
+    (the searches bisect chroma at fixed lightness and hue)."""
+    r = math.radians(hue)
+    cos_h, sin_h = math.cos(r), math.sin(r)
+    (m00, m01, m02), (m10, m11, m12), (m20, m21, m22) = _OKLAB_TO_LMS
+    (n00, n01, n02), (n10, n11, n12), (n20, n21, n22) = _LMS_TO_LSRGB
+    low, high = -_GAMUT_TOLERANCE, 1 + _GAMUT_TOLERANCE
+
+    def fits(chroma):
+        a, b = chroma * cos_h, chroma * sin_h
+        l_ = (m00 * lightness + m01 * a + m02 * b) ** 3
+        m_ = (m10 * lightness + m11 * a + m12 * b) ** 3
+        s_ = (m20 * lightness + m21 * a + m22 * b) ** 3
+        return (low <= n00 * l_ + n01 * m_ + n02 * s_ <= high
+                and low <= n10 * l_ + n11 * m_ + n12 * s_ <= high
+                and low <= n20 * l_ + n21 * m_ + n22 * s_ <= high)
+    return fits
 
 
 def _lightness_for(target, lo, hi, chroma, hue, rising):

@@ -26,6 +26,7 @@ from __future__ import annotations
 
 import dataclasses
 import operator
+import itertools
 from itertools import islice
 
 from lxml import etree
@@ -240,6 +241,9 @@ class Stamp:
                      self.new_base + rel)
 
 
+_serials = itertools.count()
+
+
 class Placement:
     """Where a judged fragment's findings stand in any replay of it, worked out once.
 
@@ -251,7 +255,7 @@ class Placement:
     """
 
     __slots__ = ("positions", "entries", "situations", "groups", "group_of", "placed", "uid",
-                 "lineless")
+                 "lineless", "layouts", "serial")
 
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
@@ -289,6 +293,8 @@ class Placement:
         self.placed = False  # on a page already (see ``named``)
         self.uid = None
         self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
+        self.layouts = {}  # the JSON report's, by order of situations (block_occurrences)
+        self.serial = next(_serials)  # names it in another's layouts (ids are reused)
 
     def named(self):
         """The entries as a page's block names them: on the first page that places them, the

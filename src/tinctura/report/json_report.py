@@ -150,9 +150,14 @@ def page_occurrences(records) -> list:
     its XPath, should it not be an ancestor; null when there is none but marks follow).
     ``marks``: the gate's marks, one ``[fingerprint, suppressed, baseline]`` per situation, when
     the run set them."""
+    return occurrences_after(records, "")[0]
+
+
+def occurrences_after(records, previous: str) -> tuple:
+    """``(page_occurrences(records), XPath of the last)`` of records that follow, on their
+    page, an occurrence at ``previous`` (their first XPath is written against it)."""
     out = []
     last = None  # the previous record
-    previous = ""  # the previous occurrence's XPath
     occ = None
     shared = 0
     for record in records:
@@ -172,7 +177,7 @@ def page_occurrences(records) -> list:
         if marks:
             occ.append([marks_list(marks)])
         out.append(occ)
-    return out
+    return out, previous
 
 
 # format 3's pages are written as ``json.dumps(..., ensure_ascii=False, separators=(",", ":"))``
@@ -187,7 +192,11 @@ def encoded_occurrences(records) -> str | None:
     is judged (``situations.PageFindings.pack``), so that with several processes the main one
     only copies it. None if a text of the page held a NUL (excerpts never do): the report is
     then written from the records."""
-    occurrences = page_occurrences(records)
+    return encoded_list(page_occurrences(records))
+
+
+def encoded_list(occurrences: list) -> str | None:
+    """``occurrences`` (``page_occurrences``'s) written as ``encoded_occurrences`` does."""
     for occ in occurrences:
         occ[0] = _MARK + ",".join(map(str, occ[0])) + _MARK
     text = _COMPACT(occurrences)
