@@ -37,10 +37,11 @@ def encoded_page(findings) -> str | None:
     """``encoded_occurrences`` of ``findings`` (``situations.PageFindings``), by blocks where
     its replayed fragments stand apart."""
     lazy = findings.blocks()
-    runs = _runs(lazy) if lazy is not None else None
+    keys = _keys(lazy[0]) if lazy is not None else None
+    runs = _runs(lazy, keys) if lazy is not None else None
     if runs is None:
         return encoded_occurrences(findings.records)
-    return _written(lazy[0], runs)
+    return _written(lazy[0], keys, runs)
 
 
 class _Layout:
@@ -63,12 +64,13 @@ class _Layout:
         self.depth = depth  # levels the base must have for the "up"s above it to hold
 
 
-def _runs(lazy) -> list | None:
+def _runs(lazy, keys: list) -> list | None:
     """``(first key, last key, layout, numbers, base, lines)`` per XPath where fragments were
     placed (``numbers``: the page's number of each situation of a fragment, in its
     ``Placement.groups`` order; ``numbers`` and ``lines`` one per fragment), in report order;
-    None when the blocks cannot be written as such."""
-    before, blocks, places, ranks, groups = lazy
+    None when the blocks cannot be written as such. ``keys``: ``_keys`` of the records of
+    walked samples."""
+    _, blocks, places, ranks, groups = lazy
     if ranks is None:
         return None
     at_base = {}  # base -> its places (block, base, lines), in page order
@@ -94,12 +96,17 @@ def _runs(lazy) -> list | None:
         runs.append(((lines[first[1]][first[2]], base + first[8]),
                      (lines[last[1]][last[2]], base + last[8]), layout, numbers, base, lines))
     runs.sort(key=operator.itemgetter(0))
-    return runs if _apart(before, runs) else None
+    return runs if _apart(keys, runs) else None
 
 
-def _apart(before: list, runs: list) -> bool:
-    """Whether no record stands between a run's first and last key (runs sorted)."""
-    keys = list(zip(map(_LINE, before), map(_XPATH, before)))
+def _keys(records: list) -> list:
+    """The report order's ``(line, XPath)`` of each record."""
+    return list(zip(map(_LINE, records), map(_XPATH, records)))
+
+
+def _apart(keys: list, runs: list) -> bool:
+    """Whether no record (``keys``, sorted) stands between a run's first and last key, nor
+    another run (``runs`` sorted)."""
     previous_last = None
     for first, last, *_ in runs:
         if previous_last is not None and not previous_last < first:
@@ -227,9 +234,8 @@ def _at(inherited: tuple, base: str) -> str:
     return inherited[1]
 
 
-def _written(before: list, runs: list) -> str | None:
+def _written(before: list, keys: list, runs: list) -> str | None:
     pieces, previous, at = [], "", 0
-    keys = list(zip(map(_LINE, before), map(_XPATH, before)))
     for first, _, layout, numbers, base, lines in runs:
         upto = bisect_left(keys, first)
         if upto > at:
@@ -240,6 +246,8 @@ def _written(before: list, runs: list) -> str | None:
         kinds = [",".join([str(numbers[f][g]) for f, g in kind]) for kind in layout.kinds]
         written = list(map(kinds.__getitem__, layout.kind_of))
         previous = _block(layout, written, base, lines, previous, pieces)
+        if previous is None:
+            return None
     if at < len(before):
         if _records(before[at:], previous, pieces) is None:
             return None
@@ -257,8 +265,9 @@ def _records(records: list, previous: str, pieces: list) -> str | None:
 
 
 def _block(layout: _Layout, numbers: list, base: str, lines: list, previous: str,
-           pieces: list) -> str:
-    """Write the fragments placed at ``base``; the XPath of their last occurrence."""
+           pieces: list) -> str | None:
+    """Write the fragments placed at ``base``; the XPath of their last occurrence (None: an
+    inherited-from XPath held a NUL)."""
     n, first = len(base), True
     for (_, f, slot, shared, rest, text, up, per_place, rel), listed in zip(
             layout.occurrences, numbers):
@@ -271,5 +280,7 @@ def _block(layout: _Layout, numbers: list, base: str, lines: list, previous: str
             shared += n
         if up is None:
             up = "," + _COMPACT(levels_up(base + rel, _at(per_place, base)))
+            if "\\u0000" in up:
+                return None  # (as encoded_occurrences: then written from the records)
         pieces.append(f"[[\0{listed}\0],{shared},{rest},{lines[f][slot]},{text}{up}]")
     return base + layout.last[8]
