@@ -25,8 +25,8 @@ subtrees under the same key and of the same length collide with probability 2**-
 from __future__ import annotations
 
 import dataclasses
-import operator
 import itertools
+import operator
 from itertools import islice
 
 from lxml import etree
