@@ -57,8 +57,8 @@ class _Layout:
         # and each occurrence's: a page writes each list once
         self.kinds, self.kind_of = kinds, kind_of
         # (entries as (fragment, group), fragment, slot, shared with the previous relative
-        # XPath, the rest written, text written, ",up" written or None, inherited when "up"
-        # depends on the place, relative XPath)
+        # XPath, the rest written, text written, ",up" written or None, the inherited-from
+        # rule (fragments._rebaser's) when "up" depends on the place, relative XPath)
         self.occurrences = occurrences
         self.first, self.last = occurrences[0], occurrences[-1]
         self.depth = depth  # levels the base must have for the "up"s above it to hold
@@ -157,18 +157,18 @@ def _layout(placements, pattern: tuple, lines: list) -> _Layout | None:
     entry = [placements[f].entries[i] for f, i in items]
     order = sorted(range(len(items)), key=lambda k: (lines[items[k][0]][entry[k][1]],
                                                      entry[k][0], rank[k]))
-    grouped = []  # [items, fragment, slot, relative XPath, text, inherited]
+    grouped = []  # [items, fragment, slot, relative XPath, text, inherited (canonical, rule)]
     for k in order:
         f = items[k][0]
-        rel, slot, text, inherited, _ = entry[k]
-        inherited = _canonical(inherited)
+        rel, slot, text, rule, _ = entry[k]
+        inherited = _canonical(rule), rule
         head = grouped[-1] if grouped else None
         if head is not None and rel == head[3] and text == head[4] \
                 and lines[f][slot] == lines[head[1]][head[2]]:
-            if inherited == head[5]:
+            if inherited[0] == head[5][0]:
                 head[0].append(items[k])
                 continue
-            if "abs" in (inherited[0], head[5][0]):
+            if "abs" in (inherited[0][0], head[5][0][0]):
                 return None  # (rebased, they might be equal at some places only)
         grouped.append([[items[k]], f, slot, rel, text, inherited])
     for head in grouped:  # an entry stands for its situation: its group in the fragment
@@ -183,9 +183,9 @@ def _occurrences(grouped: list, lines: list) -> _Layout | None:
         written = _COMPACT(_excerpt(text)), _COMPACT(rel[shared:])
         if any("\\u0000" in w for w in written):
             return None
-        up, per_place = _up(rel, inherited)
-        if inherited[0] == "above":
-            depth = max(depth, inherited[1])
+        up, per_place = _up(rel, *inherited)
+        if inherited[0][0] == "above":
+            depth = max(depth, inherited[0][1])
         occurrences.append((members, f, slot, shared, written[1], written[0], up,
                             per_place, rel))
         previous = rel
@@ -211,9 +211,9 @@ def _canonical(inherited: tuple) -> tuple:
     return ("above", levels - steps)
 
 
-def _up(rel: str, inherited: tuple) -> tuple:
-    """``(",up" written, None)`` when ``inherited`` (``_canonical``) gives the same "up" at
-    every place deep enough, ``(None, inherited)`` when it must be worked out per place."""
+def _up(rel: str, inherited: tuple, rule: tuple) -> tuple:
+    """``(",up" written, None)`` when ``inherited`` (``_canonical`` of ``rule``) gives the same
+    "up" at every place deep enough, ``(None, rule)`` when it must be worked out per place."""
     if inherited[0] == "none":
         return "", None
     if inherited[0] == "in":
@@ -222,16 +222,7 @@ def _up(rel: str, inherited: tuple) -> tuple:
             return "," + str(up), None
     elif inherited[0] == "above":
         return "," + str(inherited[1] + rel.split("::")[0].count("/")), None
-    return None, inherited
-
-
-def _at(inherited: tuple, base: str) -> str:
-    """The inherited-from XPath of ``inherited`` (``_canonical``) at ``base``."""
-    if inherited[0] == "in":
-        return base + inherited[1]
-    if inherited[0] == "above":
-        return _rebased((2, "", inherited[1]), base)
-    return inherited[1]
+    return None, rule
 
 
 def _written(before: list, keys: list, runs: list) -> str | None:
@@ -279,7 +270,7 @@ def _block(layout: _Layout, numbers: list, base: str, lines: list, previous: str
         else:
             shared += n
         if up is None:
-            up = "," + _COMPACT(levels_up(base + rel, _at(per_place, base)))
+            up = "," + _COMPACT(levels_up(base + rel, _rebased(per_place, base)))
             if "\\u0000" in up:
                 return None  # (as encoded_occurrences: then written from the records)
         pieces.append(f"[[\0{listed}\0],{shared},{rest},{lines[f][slot]},{text}{up}]")
