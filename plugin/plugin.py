@@ -108,7 +108,21 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             palette=palette_mod.palette_setting(self.config.palette),
             exemptions=config_mod.exemptions_kept(self.config.no_exempt),
             logotypes=tuple(self.config.logotypes),
+            encode_occurrences=self.encodes_occurrences(),
         )
+
+    def wants_fingerprints(self) -> bool:
+        from tinctura import report
+
+        return self.config.fingerprints or any(
+            report.FORMATS[name].wants_fingerprints for name, _ in self.config.report)
+
+    def encodes_occurrences(self) -> bool:
+        """Whether each page's records are written for a compact JSON report where the page is
+        judged (in a worker), as on the command line: a JSON report whose findings carry no
+        gate marks (no fingerprints, no baseline)."""
+        return (any(name == "json" for name, _ in self.config.report)
+                and not self.wants_fingerprints() and not self.config.baseline)
 
     def workers(self) -> int:
         """Worker processes beside MkDocs: the cores but the one MkDocs renders on. `serve`
@@ -355,13 +369,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                 base = baseline_mod.load(self.path(self.config.baseline))
             except baseline_mod.BaselineError as exc:
                 raise PluginError(f"tinctura: {exc}") from None
-        from tinctura import report
-
-        wanted = self.config.fingerprints or any(
-            report.FORMATS[name].wants_fingerprints for name, _ in self.config.report)
         return gated.Gate(allow=self.config.allow, allow_source="mkdocs.yml: plugins.tinctura",
                           baseline=base, rules_run=self.options.rules,
-                          read=gated.site_reader([self.site_dir]), fingerprints=wanted)
+                          read=gated.site_reader([self.site_dir]),
+                          fingerprints=self.wants_fingerprints())
 
     def source_of(self, page: str, line: int):
         """The Markdown source of a built page (line unknown: 0), from the working folder."""

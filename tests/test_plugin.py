@@ -400,3 +400,43 @@ def test_site_level_appearance_findings_are_logged(tmp_path, caplog):
     assert len(shift) == 1 and "caution" in shift[0] and "#e0a000 on #1e2530" in shift[0]
     assert len(alike) == 1 and "running and stopped" in alike[0]
     assert "deuteranopia" in alike[0] and "ISO 3864" in alike[0]
+
+
+@slow
+def test_json_report_written_where_pages_are_judged_is_the_same(tmp_path, monkeypatch):
+    """With a JSON report (and no gate marks) each page's records are written as the page is
+    judged, as `tinctura check` does; the report must be the one written from the records."""
+    import json
+
+    from tinctura.report import block_occurrences
+
+    calls = []
+    encoded_page = block_occurrences.encoded_page
+    monkeypatch.setattr(block_occurrences, "encoded_page",
+                        lambda findings: calls.append(1) or encoded_page(findings))
+    reports = []
+    for encode in (True, False):
+        monkeypatch.setattr(TincturaPlugin, "encodes_occurrences", lambda self, e=encode: e)
+        project = make_project(tmp_path / str(encode), {"jobs": 1, "fail_on": "never",
+                                                        "report": "['json:out.json']"})
+        config = configure(project)
+        config.plugins.on_startup(command="build", dirty=False)
+        build(config)
+        doc = json.loads((project / "out.json").read_text())
+        reports.append({k: doc[k] for k in ("pages", "problems", "situations", "summary")})
+        if encode:
+            assert calls  # the pages' records were written as they were judged
+    assert reports[0] == reports[1] and reports[0]["pages"]
+
+
+@pytest.mark.parametrize("options, encodes", [
+    ({"report": ["json:out.json"]}, True),
+    ({}, False),
+    ({"report": ["json:out.json", "sarif:out.sarif"]}, False),  # SARIF reads fingerprints
+    ({"report": ["json:out.json"], "fingerprints": True}, False),
+    ({"report": ["json:out.json"], "baseline": "base.json"}, False),
+])
+def test_json_records_are_written_in_the_workers_only_without_gate_marks(options, encodes):
+    plugin = TincturaPlugin()
+    assert plugin.load_config(options) == ([], [])
+    assert plugin.engine_options().encode_occurrences is encodes
