@@ -118,11 +118,12 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             report.FORMATS[name].wants_fingerprints for name, _ in self.config.report)
 
     def encodes_occurrences(self) -> bool:
-        """Whether each page's records are written for a compact JSON report where the page is
-        judged (in a worker), as on the command line: a JSON report whose findings carry no
-        gate marks (no fingerprints, no baseline)."""
-        return (any(name == "json" for name, _ in self.config.report)
-                and not self.wants_fingerprints() and not self.config.baseline)
+        """Whether each page's records are written for a JSON report where the page is judged
+        (in a worker), as on the command line (the gate marks findings when it computes
+        fingerprints or reads a baseline)."""
+        return outputs.records_written_as_judged(
+            [name for name, _ in self.config.report], False,
+            self.wants_fingerprints() or bool(self.config.baseline))
 
     def workers(self) -> int:
         """Worker processes beside MkDocs: the cores but the one MkDocs renders on. `serve`

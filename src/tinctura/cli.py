@@ -308,8 +308,8 @@ def run_check(args, stdout, stderr) -> int:
     specs = report_specs(args)
     gate = make_gate(args, options)
     # the compact JSON report's page records are then written as each page is judged
-    options.encode_occurrences = any(name == "json" for name, _ in specs) \
-        and not args.flat_findings and not gate.fingerprints
+    options.encode_occurrences = outputs.records_written_as_judged(
+        [name for name, _ in specs], args.flat_findings, gate.fingerprints)
     bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings. Every finding is stored (JSON and SARIF list the

@@ -116,6 +116,13 @@ def atomic_output(path: str):
         raise
 
 
+def records_written_as_judged(names, flat: bool, marked: bool) -> bool:
+    """Whether each page's records are written for the report where the page is judged (in
+    a worker; ``engine.Options.encode_occurrences``): a compact JSON report among the formats
+    ``names``, whose findings carry no gate marks (``marked``: fingerprints, a baseline)."""
+    return any(name == "json" for name in names) and not flat and not marked
+
+
 def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=(),
                   counts=None, colour_choice: str = "auto") -> None:
     """Write each ``(format, file or None)`` of ``specs``; no file: ``stdout``."""
