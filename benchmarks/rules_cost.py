@@ -37,13 +37,17 @@ def main() -> None:
     parser.add_argument("--repeat", type=int, default=3)
     args = parser.parse_args()
     runs = {"TC100": [], "all": []}
-    for _ in range(args.repeat):
-        for rules in runs:
+    for n in range(args.repeat):
+        # each pair in turn order, then the other (the machine's speed drifts within minutes)
+        for rules in (("TC100", "all") if n % 2 == 0 else ("all", "TC100")):
             runs[rules].append(cpu_seconds(rules, args.site))
     medians = {rules: statistics.median(v) for rules, v in runs.items()}
     for rules, values in runs.items():
         print(f"{rules:6} CPU median {medians[rules]:.2f} s  runs {[round(v, 2) for v in values]}")
-    print(f"all rules / TC100 alone: {medians['all'] / medians['TC100']:.2f}x")
+    pairs = sorted(b / a for a, b in zip(runs["TC100"], runs["all"]))
+    print(f"all rules / TC100 alone: {medians['all'] / medians['TC100']:.2f}x (ratio of medians); "
+          f"{statistics.median(pairs):.2f}x (median of the {len(pairs)} pairs' ratios: "
+          f"{', '.join(f'{r:.2f}' for r in pairs)})")
 
 
 if __name__ == "__main__":

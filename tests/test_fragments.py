@@ -148,8 +148,9 @@ def test_placements_give_the_records_of_placing_each_finding(repeated_site):
                 id(verdict), fragments.Placement(verdict.findings, stamp.anchor))
             moved.add((id(verdict), stamp.new_base, stamp.anchor.sourceline))
             records = []
-            placement.place(stamp, list(range(len(verdict.findings))), records)
-            one_by_one = [(n,) + stamp.within(r).place(f.sample, base)
+            # numbered by group: each finding gets its group's number (here: its index)
+            placement.place(stamp, list(range(len(placement.groups))), records)
+            one_by_one = [(placement.group_of[n],) + stamp.within(r).place(f.sample, base)
                           for n, (r, base, f, _) in enumerate(verdict.findings)]
             assert records == one_by_one
             compared += len(records)

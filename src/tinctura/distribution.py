@@ -38,22 +38,23 @@ def worst_ratio(sample) -> float:
     return ratio
 
 
-def histogram(samples) -> dict:
-    """``{scheme: {bin: count}}`` over the samples a text rule can judge."""
+def histogram(samples, counts=None) -> dict:
+    """``{scheme: {bin: count}}`` over the samples a text rule can judge; ``counts``: how
+    many samples each one stands for (1 each if None)."""
     from tinctura.rules.text import judged
 
     # Samples of one style share their colour tuples: counted by identity first (the samples
     # keep the tuples alive during the call), so most are hashed as a few ints, and each
     # distinct one is judged and binned once.
     alike: dict = {}
-    for s in samples:
+    for s, n in zip(samples, counts) if counts is not None else ((s, 1) for s in samples):
         same = (id(s.fg), id(s.bg), id(s.bg_alternatives), id(s.fg_raw), s.scheme, s.status,
                 s.kind, s.exempt)
         entry = alike.get(same)
         if entry is None:
-            alike[same] = [s, 1]
+            alike[same] = [s, n]
         else:
-            entry[1] += 1
+            entry[1] += n
     out: dict = {}
     for s, n in alike.values():  # in the order first met, as the samples
         if judged(s):

@@ -299,53 +299,70 @@ def judge(samples, options: Options) -> list:
 
 def _judge(samples, options: Options) -> tuple:
     """(findings, their ``situations.finding_key``s)."""
+    return _findings_of(_situations(samples, options))
+
+
+def _findings_of(judged: list) -> tuple:
+    """``_judge``'s answer from ``_situations``'."""
     out, out_keys = [], []
-    for s, k, templates in _situations(samples, options):
+    for s, k, templates in judged:
         for t in templates:
             out.append(t if t.sample is s else situations.occurrence(t, s))
             out_keys.append((t.rule, k))
     return out, out_keys
 
 
-def _situations(samples, options: Options) -> list:
+def _situations(samples, options: Options, same=None) -> list:
     """``(sample, situation key, template findings)`` of each sample with findings: each
     distinct situation is judged once per process (the templates were made for the first
-    sample of the situation)."""
-    judge_gradients(samples, options.level)
+    sample of the situation). ``same``: the samples' ``situations.Alike``, made after
+    ``judge_gradients`` (which may change what they look like)."""
+    if same is None:
+        judge_gradients(samples, options.level)
+        same = situations.Alike(samples)
     memo = _JUDGED.setdefault(verdict_key(options), {})
-    sample_key, looks = situations.sample_key, situations.looks
-    entries, todo = [], {}
-    seen = {}  # situations.looks -> (key, templates): the samples are alive until the end
-    for s in samples:
-        same = looks(s)
-        known = seen.get(same)
-        if known is None:
-            k = sample_key(s)
-            known = seen[same] = (k, memo.get(k))
-            if known[1] is None and k not in todo:
-                todo[k] = s
-        entries.append((s,) + known)
+    keys = list(map(situations.sample_key, same.firsts))  # the samples are alive: looks hold
+    found = list(map(memo.get, keys))
+    todo = {}
+    for s, k, templates in zip(same.firsts, keys, found):
+        if templates is None and k not in todo:
+            todo[k] = s
     if todo:
-        if len(memo) + len(todo) > JUDGED_LIMIT:
-            memo.clear()
-        from . import rules
-
-        found: dict = {}
-        for f in rules.run(list(todo.values()), options):
-            found.setdefault(id(f.sample), []).append(f)
-        for k, s in todo.items():
-            memo[k] = tuple(found.get(id(s), ()))
-    out = []
-    for s, k, templates in entries:
+        _judge_new(todo, memo, options)
+    for g, (s, k, templates) in enumerate(zip(same.firsts, keys, found)):
         if templates is None:
             templates = memo.get(k)
             if templates is None:  # cleared meanwhile: judge it alone
                 from . import rules
 
                 templates = tuple(rules.run([s], options))
-        if templates:
-            out.append((s, k, templates))
-    return out
+            found[g] = templates
+    if not any(found):  # most pages' own texts pass
+        return []
+    return [(s, keys[g], found[g]) for s, g in zip(samples, same.of) if found[g]]
+
+
+def _judge_new(todo: dict, memo: dict, options: Options) -> None:
+    """Judge the situations ``todo`` (key -> the sample first met) into ``memo``."""
+    if len(memo) + len(todo) > JUDGED_LIMIT:
+        memo.clear()
+    from . import rules
+
+    found: dict = {}
+    for f in rules.run(list(todo.values()), options):
+        found.setdefault(id(f.sample), []).append(f)
+    for k, s in todo.items():
+        memo[k] = tuple(found.get(id(s), ()))
+
+
+def _survey(samples, options: Options) -> tuple:
+    """``(_situations, declaration uses, counts, palette uses)`` of samples, grouped once
+    (``situations.Alike``)."""
+    judge_gradients(samples, options.level)
+    same = situations.Alike(samples)
+    return (_situations(samples, options, same), problems_mod.declaration_uses(same.firsts),
+            sample_stats(same.firsts, same.counts),
+            palette_mod.collect_for(samples, options, same))
 
 
 _VERDICT_KEYS: dict = {}  # id(options) -> (options, key): a run asks for every fragment
@@ -476,14 +493,15 @@ def _process(site, rel, options, judged, html=None):
         return page
     judged_samples, findings = (), ()
     if options.share:  # findings of the walked samples are never built, only placed
-        judged_samples = _situations(page.samples, options)
+        judged_samples, uses, stats, page.palette = _survey(page.samples, options)
     else:
         findings = evaluate(page.samples, options)
-    uses = problems_mod.declaration_uses(page.samples)
-    page.palette = palette_mod.collect_for(page.samples, options)
+        uses = problems_mod.declaration_uses(page.samples)
+        page.palette = palette_mod.collect_for(page.samples, options)
+        stats = None
     more = []
     if not options.keep_samples:
-        page.stats = sample_stats(page.samples)
+        page.stats = stats if stats is not None else sample_stats(page.samples)
         more = _judge_replays(page, uses, options)
         page.samples = []  # (their layer lists were not built: reports name the causes)
     page.replays = []
@@ -582,10 +600,8 @@ def _verdict(fragment, options) -> _Verdict:
     if verdict is not None:
         return verdict
     samples = fragment.samples()
-    found = [("", fragment.base, f, k) for f, k in zip(*_judge(samples, options))]
-    uses = problems_mod.declaration_uses(samples)
-    stats = sample_stats(samples)
-    palette = palette_mod.collect_for(samples, options)
+    judged, uses, stats, palette = _survey(samples, options)
+    found = [("", fragment.base, f, k) for f, k in zip(*_findings_of(judged))]
     for rel, nested in fragment.nested():
         inner = _verdict(nested, options)
         found.extend((rel + deeper, base, f, k) for deeper, base, f, k in inner.findings)
@@ -599,24 +615,25 @@ def _verdict(fragment, options) -> _Verdict:
     return verdict
 
 
-def sample_stats(samples) -> dict:
+def sample_stats(samples, counts=None) -> dict:
     """What the summary needs of a page's samples once they are dropped. The counts are of
     texts: samples of controls and graphics (``extract/nontext.py``) are judged by TC110 but
-    not counted as texts."""
+    not counted as texts. ``counts``: how many samples each one stands for (1 each if None;
+    ``situations.Alike``)."""
     undetermined, exempt = {}, {}
     texts = 0
-    for s in samples:
+    for s, n in zip(samples, counts) if counts is not None else ((s, 1) for s in samples):
         if s.kind in NON_TEXT:
             continue
-        texts += 1
+        texts += n
         if s.exempt:
-            exempt[s.exempt] = exempt.get(s.exempt, 0) + 1
+            exempt[s.exempt] = exempt.get(s.exempt, 0) + n
         elif s.status == UNDETERMINED:
             key = s.reason or "unknown"
-            undetermined[key] = undetermined.get(key, 0) + 1
+            undetermined[key] = undetermined.get(key, 0) + n
     return {"samples": texts, "exempt": sum(exempt.values()), "exempt_reasons": exempt,
             "undetermined": undetermined, "schemes": sorted({s.scheme for s in samples}),
-            "ratios": distribution.histogram(samples)}  # for the audit report's chart
+            "ratios": distribution.histogram(samples, counts)}  # for the audit report's chart
 
 
 def _add_stats(into: dict, more: dict, times: int = 1) -> None:
@@ -639,7 +656,7 @@ def _worker_init(root, options, judged, site=None):
     already (its stylesheets parsed, its styles and fragments recorded), else a new one."""
     global _WORKER
     _WORKER = (site if site is not None else Site(root, options), options, judged)
-    relax_gc()  # a worker lives only to check pages
+    relax_gc(checking_only=True)  # a worker lives only to check pages
 
 
 def _worker_check(rel):
@@ -872,21 +889,30 @@ def relaxed_gc():
     thousands of short-lived tuples and records (freed by reference counting; the walk makes
     no cycles), and each collection also rescans the long-lived style caches. Measured with
     callgrind on the 1,000-page benchmark site: 4 % fewer instructions."""
-    before = relax_gc()
+    before = relax_gc(checking_only=True)
     try:
         yield
     finally:
         gc.set_threshold(*before)
 
 
-def relax_gc() -> tuple:
-    """Raise the first-generation threshold; returns the thresholds it replaced."""
+def relax_gc(checking_only: bool = False) -> tuple:
+    """Raise the first-generation threshold; returns the thresholds it replaced.
+
+    ``checking_only``: the process does nothing but check pages (``tinctura check``, its
+    workers), whose records and caches live to the end and make no cycles: the second
+    generation is then collected far less often too. Each of its collections scans every
+    record kept since the last one (tens of milliseconds on a 200-page site with every rule
+    on, a few per run). The MkDocs plugin leaves it alone: MkDocs's own objects may form
+    cycles."""
     before = gc.get_threshold()
-    gc.set_threshold(max(before[0], GC_THRESHOLD), *before[1:])
+    middle = max(before[1], GC_MIDDLE_THRESHOLD) if checking_only else before[1]
+    gc.set_threshold(max(before[0], GC_THRESHOLD), middle, before[2])
     return before
 
 
 GC_THRESHOLD = 50000
+GC_MIDDLE_THRESHOLD = 100  # first-generation collections between two of the second
 
 
 def _preload(options) -> None:

@@ -94,7 +94,7 @@ def report_page(finding) -> str:
     return SITE_PAGE if finding.rule in SITE_RULES else finding.sample.page
 
 
-def collect_for(samples, options) -> dict:
+def collect_for(samples, options, same=None) -> dict:
     """:func:`collect` when a site-level rule is selected (``options.rules``), else nothing."""
     chosen = getattr(options, "rules", ()) or ()
     if chosen:
@@ -102,26 +102,40 @@ def collect_for(samples, options) -> dict:
 
         if not {get(name).code for name in chosen} & set(SITE_RULES):
             return {}
-    return collect(samples, getattr(options, "palette", ()) or ())
+    return collect(samples, getattr(options, "palette", ()) or (), same)
 
 
-def collect(samples, palette: tuple = ()) -> dict:
-    """Uses of palette entries among ``samples``: {(entry, role, colour, bg, scheme): Use}."""
-    uses: dict = {}
+def collect(samples, palette: tuple = (), same=None) -> dict:
+    """Uses of palette entries among ``samples``: {(entry, role, colour, bg, scheme): Use}.
+    ``same``: the samples' ``situations.Alike`` (made here if None)."""
+    from .situations import Alike
+
+    if same is None:
+        samples = list(samples)
+        same = Alike(samples)
     memo = _memo(palette)
-    for s in samples:
-        if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None \
-                or s.kind in NONTEXT_KINDS:  # control boundaries, focus rings: not a colour code
-            continue
-        for entry in _entries_of(memo, s.fg_cause, s.fg, palette):
-            _add(uses, (entry, "text", _quantized(s.fg), _quantized(s.bg), s.scheme), s,
-                 s.fg_cause)
-        if s.surround is None or s.bg_cause is None:
-            continue
-        for entry in _entries_of(memo, s.bg_cause, s.bg, palette):
-            _add(uses, (entry, "fill", _quantized(s.bg), _quantized(s.surround), s.scheme), s,
-                 s.bg_cause)
+    # what a sample adds depends on what Alike groups by: worked out once per group (most
+    # groups add nothing); each use keeps the places of the first samples that add to it
+    found = [_uses_of(memo, s, palette) for s in same.firsts]
+    uses: dict = {}
+    if any(found):
+        for s, g in zip(samples, same.of):
+            for key, cause in found[g]:
+                _add(uses, key, s, cause)
     return uses
+
+
+def _uses_of(memo: dict, s, palette) -> tuple:
+    """``(use key, cause)`` of each use a sample adds (``collect``)."""
+    if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None \
+            or s.kind in NONTEXT_KINDS:  # control boundaries, focus rings: not a colour code
+        return ()
+    found = [((entry, "text", _quantized(s.fg), _quantized(s.bg), s.scheme), s.fg_cause)
+             for entry in _entries_of(memo, s.fg_cause, s.fg, palette)]
+    if s.surround is not None and s.bg_cause is not None:
+        found.extend(((entry, "fill", _quantized(s.bg), _quantized(s.surround), s.scheme),
+                      s.bg_cause) for entry in _entries_of(memo, s.bg_cause, s.bg, palette))
+    return tuple(found)
 
 
 @lru_cache(maxsize=4096)  # a site's pages use a few dozen colours, thousands of times each

@@ -191,6 +191,15 @@ def group(findings, samples=(), uses=None) -> list:
     return problems
 
 
+class _Progress:
+    """A problem's pages and findings seen so far (``Collector``)."""
+
+    __slots__ = ("pages", "seen")
+
+    def __init__(self):
+        self.pages, self.seen = set(), 0
+
+
 class Collector:
     """Problems built finding by finding, in run order, keeping per problem only what reports
     need (count, pages, worst, a few example candidates, indexes, backgrounds): the findings
@@ -208,9 +217,10 @@ class Collector:
         # bytes a finding, so left out when no report reads them
         self.keep_indexes = keep_indexes
         self._buckets: dict = {}  # problem key -> Problem
-        self._pages: dict = {}  # problem key -> its pages
-        self._seen: dict = {}  # problem key -> findings seen so far
-        self._situations: dict = {}  # situation number -> problem key
+        self._progress: dict = {}  # problem key -> _Progress (its pages, findings seen)
+        # situation number -> (Problem, _Progress): a page's known situations are counted
+        # without hashing their problem's key (declarations and causes, hashed in Python)
+        self._known: dict = {}
         self.situations: dict = {}  # problem key -> its situation numbers, first seen first
         self._count = 0
 
@@ -220,18 +230,17 @@ class Collector:
         run is added (suppressed and baseline-known ones are listed but not grouped)."""
         index = self._count if index is None else index
         self._count += 1
-        key = self._situations.get(situation) if situation is not None else None
-        if key is not None:
-            p = self._buckets[key]
+        known = self._known.get(situation) if situation is not None else None
+        if known is not None:
+            p, progress = known
             p.count += 1
             if p.indexes is not None:
                 p.indexes.append(index)
             p.schemes[finding.sample.scheme].count += 1  # a known situation: same scheme, ratio
-            self._note_page(key, p, finding.sample.page, lambda: finding)
+            self._note_page(progress, p, finding.sample.page, lambda: finding)
             return
         key = problem_key(finding)
         if situation is not None:
-            self._situations[situation] = key
             self.situations.setdefault(key, []).append(situation)
         p = self._buckets.get(key)
         if p is None:
@@ -242,8 +251,10 @@ class Collector:
                 worst_ratio=finding.ratio, required=finding.required, count=0,
                 worst_finding=finding, candidates=[],
                 indexes=array("L") if self.keep_indexes else None, backgrounds={})
-            self._pages[key] = set()
-            self._seen[key] = 0
+            self._progress[key] = _Progress()
+        progress = self._progress[key]
+        if situation is not None:
+            self._known[situation] = (p, progress)
         p.count += 1
         if p.indexes is not None:
             p.indexes.append(index)
@@ -254,7 +265,7 @@ class Collector:
             p.worst_finding = finding
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
-        self._note_page(key, p, finding.sample.page, lambda: finding)
+        self._note_page(progress, p, finding.sample.page, lambda: finding)
         _add_backgrounds(p.backgrounds, finding.sample)
 
     def add_records(self, page: str, records, templates, indexes=None) -> None:
@@ -263,20 +274,21 @@ class Collector:
         one is kept (the first of a situation, an example candidate)."""
         from tinctura.situations import rebuild
 
-        known, buckets = self._situations, self._buckets
+        known_ = self._known
         for n, r in enumerate(records):
             index = None if indexes is None else indexes[n]
-            key = known.get(r[0])
-            if key is None:
+            known = known_.get(r[0])
+            if known is None:
                 self.add(rebuild(templates[r[0]], r[1:], page), index, situation=r[0])
                 continue
-            p = buckets[key]
+            p, progress = known
             p.count += 1
             p.schemes[templates[r[0]].sample.scheme].count += 1
             if p.indexes is not None:
                 p.indexes.append(self._count if index is None else index)
             self._count += 1
-            self._note_page(key, p, page, lambda r=r: rebuild(templates[r[0]], r[1:], page))
+            self._note_page(progress, p, page,
+                            lambda r=r: rebuild(templates[r[0]], r[1:], page))
 
     def add_page(self, page: str, records, templates, start: int) -> None:
         """``add_records`` for one page's records as the store keeps them (the first at index
@@ -321,39 +333,40 @@ class Collector:
         """``n`` more occurrences of a known situation whose problem has its examples."""
         p.count += n
         figures.count += n
-        self._seen[self._situations[sid]] += n
-        self._pages[self._situations[sid]].add(page)
+        progress = self._known[sid][1]
+        progress.seen += n
+        progress.pages.add(page)
         self._count += n
 
     def _settled(self, page: str, sids, templates) -> dict:
         """Situations ``sids`` whose problem has its examples and has met ``page`` already,
         or has all its example pages: situation -> ([indexes], problem, scheme figures)."""
-        out = {}
+        out, known_ = {}, self._known
         for sid in sids:
-            key = self._situations.get(sid)
-            if key is None or self._seen[key] < 2 * self.EXAMPLES:
+            known = known_.get(sid)
+            if known is None or known[1].seen < 2 * self.EXAMPLES:
                 continue
-            pages = self._pages[key]
+            pages = known[1].pages
             if page not in pages and len(pages) < self.EXAMPLES:
                 continue
-            p = self._buckets[key]
+            p = known[0]
             out[sid] = ([], p, p.schemes[templates[sid].sample.scheme])
         return out
 
-    def _note_page(self, key, p, page, finding) -> None:
-        pages = self._pages[key]
+    def _note_page(self, progress, p, page, finding) -> None:
+        pages = progress.pages
         new_page = page not in pages
         if new_page:
             pages.add(page)
         # examples take the first finding of each of the first pages, then the earliest ones
-        if (new_page and len(pages) <= self.EXAMPLES) or self._seen[key] < 2 * self.EXAMPLES:
+        if (new_page and len(pages) <= self.EXAMPLES) or progress.seen < 2 * self.EXAMPLES:
             p.candidates.append(finding())
-        self._seen[key] += 1
+        progress.seen += 1
 
     def problems(self, uses: dict) -> list:
         out = []
         for key, p in self._buckets.items():
-            p.pages = len(self._pages[key])
+            p.pages = len(self._progress[key].pages)
             if p.indexes is not None:  # add_page counts some ahead of others
                 p.indexes = array("L", sorted(p.indexes))
             p.fix_at_cause = fix_at_cause(p, uses)

@@ -63,6 +63,28 @@ def looks(s: Sample) -> tuple:
             id(s.surround), id(s.fg_cause), id(s.bg_cause), id(s.bg_layers), id(s.link))
 
 
+class Alike:
+    """Samples grouped by ``looks``: ``firsts``, the first of each group in the order met;
+    ``counts``, each group's size; ``of``, each sample's group. What a sample adds to a page's
+    counts, declaration uses and palette uses depends only on what ``looks`` reads, so those are
+    worked out once per group (a page repeats a few hundred styles over thousands of texts)."""
+
+    __slots__ = ("firsts", "counts", "of")
+
+    def __init__(self, samples):
+        index, firsts, of = {}, [], []
+        for s in samples:
+            same = looks(s)
+            g = index.get(same)
+            if g is None:
+                g = index[same] = len(firsts)
+                firsts.append(s)
+            of.append(g)
+        counted = Counter(of)
+        self.firsts, self.of = firsts, of
+        self.counts = [counted[g] for g in range(len(firsts))]
+
+
 def finding_key(f: Finding) -> tuple:
     return (f.rule, sample_key(f.sample))
 
@@ -111,9 +133,11 @@ def occurrence(template: Finding, sample: Sample) -> Finding:
 
 def place_block(entries, numbers, new_base: str, lines, out: list) -> None:
     """Append to ``out`` the records of a replayed fragment's findings (``fragments.Placement``
-    entries ``(relative XPath, line slot, text, inherited, layers)``, ``numbers`` their
-    situations' numbers) at the place whose XPath is ``new_base`` and slots' lines ``lines``."""
-    for (rel, slot, text, inherited, layers), n in zip(entries, numbers):
+    entries ``(relative XPath, line slot, text, inherited, layers, group)``, ``numbers`` the
+    number of each group's situation) at the place whose XPath is ``new_base`` and slots' lines
+    ``lines``."""
+    for rel, slot, text, inherited, layers, group in entries:
+        n = numbers[group]
         if layers is not None:
             layers = tuple(_rebased(spec, new_base) for spec in layers)
         kind = inherited[0]
@@ -176,7 +200,9 @@ def _shipped(findings: "PageFindings") -> tuple:
     """``(template names, templates and entries not sent before)`` of a packed page pickled
     for another process (``PageFindings.__reduce__``): each is sent once per process."""
     pid = os.getpid()
-    names = [(pid, situation_id(k)) for k in findings.keys]
+    names = findings.names  # (made here by ``_Numbering.named``: named already)
+    if not names or names[0][0] != pid:
+        names = [(pid, situation_id(k)) for k in findings.keys]
     templates = {}
     for name, t, k in zip(names, findings.templates, findings.keys):
         if name not in _SHIPPED_TEMPLATES:
@@ -209,9 +235,28 @@ def situation_id(key) -> int:
     if sid is None:
         if len(_IDS) >= _IDS_LIMIT:  # bound memory; numbers stay unique
             _IDS.clear()
+            _NAMED.clear()
         _next_id[0] += 1
         sid = _IDS[key] = _next_id[0]
     return sid
+
+
+# id(template) -> (template, its situation key, situation_id): a walked sample's findings come
+# from the templates judged for its situation (``engine._situations``), the same objects on
+# every page; each is named once (the template is kept, so that its id is not reused).
+_NAMED: dict = {}
+
+
+def _named(template, sample_key) -> tuple:
+    """``(finding key, situation_id)`` of ``template``, judged for situation ``sample_key``."""
+    hit = _NAMED.get(id(template))
+    if hit is None or hit[0] is not template:
+        key = (template.rule, sample_key)
+        sid = situation_id(key)  # (first: a clear of both leaves this entry in)
+        if len(_NAMED) >= _IDS_LIMIT:  # templates judged again after engine._JUDGED's clear
+            _NAMED.clear()
+        hit = _NAMED[id(template)] = (template, key, sid)
+    return hit[1], hit[2]
 
 
 def packed_form(data: bytes, per_template, size: int) -> tuple:
@@ -252,8 +297,9 @@ class PageFindings:
         # (records of walked samples, sorted; blocks; places; ranks; groups), see ``build``
         self._lazy = lazy
         self._named = ()  # uids of the entries its packed records name (``pack``)
-        # received from another process: its templates' names there (``_shipped``), which
-        # the main process looks up faster than their keys, tuples hashed anew each time
+        # its templates' names in the process that made them (``_shipped``, and
+        # ``_Numbering.named``), which the store looks up faster than their keys, tuples
+        # hashed anew each time
         self.names = None
 
     @property
@@ -328,7 +374,7 @@ class PageFindings:
         if order is not None:
             records = expand((records, blocks, places, None))
             records.sort(key=lambda r: order(templates[r[0]], r))
-            return cls(page, templates, tkeys, records)
+            return made.named(cls(page, templates, tkeys, records))
         ranks = None
         if template_order is not None:
             # each template's rank in template_order (equal orders, equal ranks): ints
@@ -338,8 +384,9 @@ class PageFindings:
             ranks = [rank[a] for a in after]
             records = _sorted(records, ranks)
         if not places:
-            return cls(page, templates, tkeys, records)
-        return cls(page, templates, tkeys, None, lazy=(records, blocks, places, ranks, groups))
+            return made.named(cls(page, templates, tkeys, records))
+        return made.named(cls(page, templates, tkeys, None,
+                              lazy=(records, blocks, places, ranks, groups)))
 
     def built(self):
         """The findings, if they were built (and so may carry marks set since); else None."""
@@ -355,8 +402,8 @@ class PageFindings:
         if self._records is not None:
             return len(self._records)
         if self._lazy is not None:
-            before, blocks, places = self._lazy[:3]
-            return len(before) + sum(len(blocks[b][1]) for b, _, _ in places)
+            before, places, groups = self._lazy[0], self._lazy[2], self._lazy[4]
+            return len(before) + sum(len(groups[b][2].entries) for b, _, _ in places)
         return sum(self._packed[1])
 
     def __bool__(self) -> bool:
@@ -381,21 +428,33 @@ class PageFindings:
 
 
 class _Numbering:
-    """A page's situations numbered in order of first meeting (``PageFindings.build``)."""
+    """A page's situations numbered in order of first meeting (``PageFindings.build``), by
+    their ``situation_id``: a key is hashed once per process, not once per page (the keys of
+    a page's situations hold declarations and causes, whose hashes are computed in Python)."""
 
     def __init__(self):
         self.templates, self.keys, self.index = [], [], {}
         # a template object always comes with the same key: its number is found once a page
         self.by_object = {}
 
-    def number(self, key, make) -> int:
-        """The page's number of situation ``key``; ``make()`` gives its template."""
-        n = self.index.get(key)
+    def number(self, key, make, sid=None) -> int:
+        """The page's number of situation ``key`` (``sid``: its ``situation_id``, when
+        known); ``make()`` gives its template."""
+        if sid is None:
+            sid = situation_id(key)
+        n = self.index.get(sid)
         if n is None:
-            n = self.index[key] = len(self.templates)
+            n = self.index[sid] = len(self.templates)
             self.templates.append(make())
             self.keys.append(key)
         return n
+
+    def named(self, findings: "PageFindings") -> "PageFindings":
+        """``findings`` with the names of its templates in this process (as ``_shipped``
+        gives them): the store finds a known situation by name, not by hashing its key."""
+        pid = os.getpid()
+        findings.names = [(pid, sid) for sid in self.index]  # (in number order)
+        return findings
 
     def judged(self, judged) -> list:
         """The records of walked samples' findings: ``(sample, sample_key, templates)``."""
@@ -406,8 +465,9 @@ class _Numbering:
                 own = t.sample is s
                 n = by_object.get(id(t))
                 if n is None:
+                    key, sid = _named(t, k)
                     n = by_object[id(t)] = self.number(
-                        (t.rule, k), lambda t=t, s=s, own=own: t if own else occurrence(t, s))
+                        key, lambda t=t, s=s, own=own: t if own else occurrence(t, s), sid)
                 if own and t.fingerprint:  # (marked by a gate: the marks are its own)
                     records.append((n,) + place(t))
                     continue
@@ -422,24 +482,20 @@ class _Numbering:
 
     def blocks(self, replays) -> tuple:
         """``(blocks, groups, places)`` of replayed fragments' findings: ``(entries or
-        their uid, numbers)`` (``Placement.named``) and ``Placement.groups`` once per
+        their uid, numbers)`` (``Placement.named``; ``numbers``: the page's number of each of
+        its ``Placement.groups``) and ``(Placement.groups, lineless, Placement)`` once per
         placement, ``(block, XPath of the place, lines)`` per place."""
         blocks, groups, places = [], [], []
         block_of = {}  # id(placement) -> its block
-        by_id = {}  # situation_id -> number
         for placement, stamp in replays:
             b = block_of.get(id(placement))
             if b is None:
                 per_group = []
                 for head, _ in placement.groups:
                     template, key, sid = placement.situations[head]
-                    n = by_id.get(sid)
-                    if n is None:
-                        n = by_id[sid] = self.number(key, lambda t=template: t)
-                    per_group.append(n)
+                    per_group.append(self.number(key, lambda t=template: t, sid))
                 b = block_of[id(placement)] = len(blocks)
-                blocks.append((placement.named(), list(map(per_group.__getitem__,
-                                                       placement.group_of))))
+                blocks.append((placement.named(), per_group))
                 groups.append((placement.groups, placement.lineless, placement))
             places.append((b, stamp.new_base, placement.lines(stamp)))
         return blocks, groups, places
@@ -469,17 +525,16 @@ def expand(lazy: tuple, wanted=None) -> list:
         blocks = [_only(entries, numbers, wanted) for entries, numbers in blocks]
     for b, new_base, lines in places:
         entries, numbers = blocks[b]
-        if numbers:
+        if entries:
             place_block(entries, numbers, new_base, lines, records)
     return records if ranks is None else _sorted(records, ranks)
 
 
 def _only(entries, numbers, wanted) -> tuple:
-    """A block's ``(entries, numbers)`` of the templates ``wanted`` only."""
+    """A block's ``(entries, numbers)`` with the entries of the templates ``wanted`` only."""
     if all(wanted[n] for n in numbers):
         return entries, numbers
-    kept = [i for i, n in enumerate(numbers) if wanted[n]]
-    return [entries[i] for i in kept], [numbers[i] for i in kept]
+    return [entry for entry in entries if wanted[numbers[entry[5]]]], numbers
 
 
 def unpack(data: bytes, wanted=None) -> list:
@@ -509,8 +564,7 @@ def _tally(lazy: tuple, size: int) -> dict:
         entries = _entries(named)
         block_groups, lineless = groups[b][:2]
         lowest = 0 if lineless else min(lines[:-1])  # (lines ends with slot -1's 0)
-        for head, members in block_groups:
-            n = numbers[head]
+        for (head, members), n in zip(block_groups, numbers):
             counts[n] += len(members)
             known = first.get(n)
             if ranks is None:

@@ -37,18 +37,18 @@ def test_blocks_are_written_as_their_records(tmp_path, html):
     for rel in site.pages():
         found = judge_page(site, rel, site.options)[1]
         lazy = found.blocks()
-        by_block += lazy is not None and blocks._runs(lazy, blocks._keys(lazy[0])) is not None
+        by_block += lazy is not None and blocks._runs(lazy) is not None
         text = blocks.encoded_page(found)
         assert text == encoded_occurrences(list(found.records))
     assert by_block  # pages written by block were compared
 
 
 def test_a_block_that_does_not_stand_apart_is_written_record_by_record():
-    # (line, XPath) keys: a walked sample's record between a block's first and last
+    # records (number, XPath, line): a walked sample's between a block's first and last
     before = [(0, "/html/body/p", 5), (0, "/html/body/nav/ul/li[2]", 7)]
     runs = [((6, "/html/body/nav"), (9, "/html/body/nav/ul/li[3]"))]
-    assert not blocks._apart(blocks._keys(before), runs)
-    assert blocks._apart(blocks._keys(before[:1]), runs)
+    assert not blocks._apart(before, runs)
+    assert blocks._apart(before[:1], runs)
     # two places' runs overlapping each other
     runs = [((6, "/a"), (9, "/a/b")), ((9, "/a/b"), (12, "/a/c"))]
     assert not blocks._apart([], runs)

@@ -98,3 +98,32 @@ def test_cues_from_the_stylesheet(tmp_path):
     assert findings(tmp_path, body, "p{color:#000}a{color:#5c8ee6}"
                                     "a:hover{text-decoration:underline}a:focus{outline:none}") \
         == ["tide table"]
+
+
+RUNNING_CASES = """
+<p>See <a href="#a">the table</a> below.</p>
+<p><a href="#b">Alone</a></p>
+<p><em><a href="#c">In emphasis</a></em>, then words.</p>
+<p><span><em><strong><a href="#d">Three inline levels</a></strong></em></span> then words.</p>
+<p>Words <em><strong><a href="#e">two inline levels, words above them</a></strong></em></p>
+<ul><li><a href="#f">Navigation</a></li><li>\u00a0<a href="#g">after a no-break space</a></li></ul>
+<table><tr><td><a href="#h">Cell</a>,</td></tr></table>
+<div>text<!-- a comment -->  <a href="#i">after a comment</a></div>
+<p><a href="#j">first</a> <a href="#k">second</a></p><p>&#8203;<a href="#l">zero-width</a></p>
+<a href="#m">top level</a> tail words <a name="n">no href</a> words
+<nav><ul><li><a href="#o"><span>Nested</span></a><ul><li><a href="#p">Deeper</a></li></ul></li>
+</ul></nav><p>A <a href="#q"><span>wrapped</span> link</a> in a sentence.</p>
+"""
+
+
+def test_which_links_stand_in_running_text():
+    # text beside the link, or beside its inline wrappers (up to two levels up); a blank
+    # text (spaces, a no-break space) or one without letters or digits is not running text
+    from lxml import html as lxml_html
+
+    from tinctura.extract import links
+
+    root = lxml_html.fromstring(f"<html><body>{RUNNING_CASES}</body></html>")
+    links.mark_running(root)
+    assert [a.get("href") for a in root.iter("a") if a.get(links.RUNNING) is not None] == [
+        "#a", "#c", "#e", "#i", "#m", "#q"]

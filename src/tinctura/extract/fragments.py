@@ -263,7 +263,9 @@ class Placement:
         top = Stamp("", "", anchor, "")
         nested, slots = {}, {}
         self.positions = []  # child positions below the anchor, one per distinct element
-        self.entries = []  # (relative XPath, line slot, text, inherited, layers)
+        # (relative XPath, line slot, text, inherited, layers, group): ``group`` indexes
+        # ``groups``, the distinct situations, which a page numbers once each
+        self.entries = []
         self.situations = []  # (finding, key, situations.situation_id(key))
         for rel, old_base, finding, key in findings:
             sample = finding.sample
@@ -290,6 +292,7 @@ class Placement:
         for g, (_, members) in enumerate(self.groups):
             for i in members:
                 self.group_of[i] = g
+        self.entries = [entry + (g,) for entry, g in zip(self.entries, self.group_of)]
         self.placed = False  # on a page already (see ``named``)
         self.uid = None
         self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
@@ -321,7 +324,7 @@ class Placement:
 
     def place(self, stamp: Stamp, numbers, out: list) -> None:
         """Append the record ``(number,) + place`` of every finding placed at ``stamp`` to
-        ``out``; ``numbers``: the number of each finding's situation, in order."""
+        ``out``; ``numbers``: the number of each group's situation (``groups`` order)."""
         place_block(self.entries, numbers, stamp.new_base, self.lines(stamp), out)
 
 

@@ -29,7 +29,8 @@ from .json_report import (
 )
 from ..situations import _rebased
 
-_LINE, _XPATH = operator.itemgetter(2), operator.itemgetter(1)
+# a record's place in report order, ``(line, XPath)``: records are sorted by it (then rank)
+_KEY = operator.itemgetter(2, 1)
 _LAYOUTS_LIMIT = 8  # per fragment: one per set of fragments placed with it, usually one
 
 
@@ -37,11 +38,10 @@ def encoded_page(findings) -> str | None:
     """``encoded_occurrences`` of ``findings`` (``situations.PageFindings``), by blocks where
     its replayed fragments stand apart."""
     lazy = findings.blocks()
-    keys = _keys(lazy[0]) if lazy is not None else None
-    runs = _runs(lazy, keys) if lazy is not None else None
+    runs = _runs(lazy) if lazy is not None else None
     if runs is None:
         return encoded_occurrences(findings.records)
-    return _written(lazy[0], keys, runs)
+    return _written(lazy[0], runs)
 
 
 class _Layout:
@@ -64,12 +64,11 @@ class _Layout:
         self.depth = depth  # levels the base must have for the "up"s above it to hold
 
 
-def _runs(lazy, keys: list) -> list | None:
+def _runs(lazy) -> list | None:
     """``(first key, last key, layout, numbers, base, lines)`` per XPath where fragments were
     placed (``numbers``: the page's number of each situation of a fragment, in its
     ``Placement.groups`` order; ``numbers`` and ``lines`` one per fragment), in report order;
-    None when the blocks cannot be written as such. ``keys``: ``_keys`` of the records of
-    walked samples."""
+    None when the blocks cannot be written as such."""
     _, blocks, places, ranks, groups = lazy
     if ranks is None:
         return None
@@ -90,28 +89,22 @@ def _runs(lazy, keys: list) -> list | None:
         layout = _layout_for(placements, lines, members, blocks, ranks)
         if layout is None or base.count("/") <= layout.depth:
             return None
-        numbers = [[blocks[b][1][head] for head, _ in placement.groups]
-                   for (b, _, _), placement in zip(members, placements)]
+        numbers = [blocks[b][1] for b, _, _ in members]
         first, last = layout.first, layout.last
         runs.append(((lines[first[1]][first[2]], base + first[8]),
                      (lines[last[1]][last[2]], base + last[8]), layout, numbers, base, lines))
     runs.sort(key=operator.itemgetter(0))
-    return runs if _apart(keys, runs) else None
+    return runs if _apart(lazy[0], runs) else None
 
 
-def _keys(records: list) -> list:
-    """The report order's ``(line, XPath)`` of each record."""
-    return list(zip(map(_LINE, records), map(_XPATH, records)))
-
-
-def _apart(keys: list, runs: list) -> bool:
-    """Whether no record (``keys``, sorted) stands between a run's first and last key, nor
-    another run (``runs`` sorted)."""
+def _apart(records: list, runs: list) -> bool:
+    """Whether no record of walked samples (``records``, in report order) stands between a
+    run's first and last ``(line, XPath)``, nor another run (``runs`` sorted)."""
     previous_last = None
     for first, last, *_ in runs:
         if previous_last is not None and not previous_last < first:
             return False
-        if bisect_left(keys, first) != bisect_right(keys, last):
+        if bisect_left(records, first, key=_KEY) != bisect_right(records, last, key=_KEY):
             return False
         previous_last = last
     return True
@@ -130,8 +123,7 @@ def _layout_for(placements, lines, members, blocks, ranks):
         return kept
     if any(p.lineless for p in placements):
         return None
-    group_ranks = [ranks[blocks[b][1][head]] for (b, _, _), placement in zip(members, placements)
-                   for head, _ in placement.groups]
+    group_ranks = [ranks[n] for b, _, _ in members for n in blocks[b][1]]
     dense = sorted(set(group_ranks))  # (pages rank apart: made dense)
     kept = _layout(placements, tuple(map(dense.index, group_ranks)), lines)
     if kept is not None:
@@ -143,9 +135,13 @@ def _layout_for(placements, lines, members, blocks, ranks):
 
 
 def _shifted(reference: list, lines: list) -> bool:
-    """Whether each fragment's slot ``lines`` are ``reference``'s shifted by one constant."""
+    """Whether each fragment's slot ``lines`` (each ending with slot -1's 0) are
+    ``reference``'s (without it) shifted by one constant."""
     add = (lines[0][0] - reference[0][0]).__add__
-    return all(all(map(operator.eq, map(add, then), now)) for now, then in zip(lines, reference))
+    for now, then in zip(lines, reference):
+        if len(now) != len(then) + 1 or list(map(add, then)) != now[:-1]:
+            return False
+    return True
 
 
 def _layout(placements, pattern: tuple, lines: list) -> _Layout | None:
@@ -160,7 +156,7 @@ def _layout(placements, pattern: tuple, lines: list) -> _Layout | None:
     grouped = []  # [items, fragment, slot, relative XPath, text, inherited (canonical, rule)]
     for k in order:
         f = items[k][0]
-        rel, slot, text, rule, _ = entry[k]
+        rel, slot, text, rule = entry[k][:4]
         inherited = _canonical(rule), rule
         head = grouped[-1] if grouped else None
         if head is not None and rel == head[3] and text == head[4] \
@@ -225,10 +221,10 @@ def _up(rel: str, inherited: tuple, rule: tuple) -> tuple:
     return None, rule
 
 
-def _written(before: list, keys: list, runs: list) -> str | None:
+def _written(before: list, runs: list) -> str | None:
     pieces, previous, at = [], "", 0
     for first, _, layout, numbers, base, lines in runs:
-        upto = bisect_left(keys, first)
+        upto = bisect_left(before, first, key=_KEY)
         if upto > at:
             previous = _records(before[at:upto], previous, pieces)
             if previous is None:
