@@ -338,3 +338,20 @@ def test_pages_go_to_workers_in_runs_that_shrink_towards_the_end(count, jobs):
     sizes = [len(chunk) for chunk in chunks]
     assert sizes == sorted(sizes, reverse=True) and max(sizes) <= 25
     assert sizes[-1] == 1  # the last runs are single pages: the workers finish together
+
+
+def test_counts_and_uses_per_group_of_alike_samples_are_those_per_sample(site):
+    # engine._survey works them out once per situations.Alike group (with its size): the
+    # same as over every sample, in the same order of first meeting
+    from tinctura import engine, palette, problems, situations
+
+    checker = engine.Site(str(site), Options(keep_samples=False))  # (layers not built)
+    samples = [s for rel in checker.pages() for s in checker.check_page(rel).samples]
+    engine.judge_gradients(samples, "AA")
+    same = situations.Alike(samples)
+    assert len(same.firsts) < len(samples) and sum(same.counts) == len(samples)
+    assert [samples[i] for i in sorted({same.of.index(g) for g in set(same.of)})] == same.firsts
+    assert engine.sample_stats(same.firsts, same.counts) == engine.sample_stats(samples)
+    assert list(problems.declaration_uses(same.firsts).items()) == \
+        list(problems.declaration_uses(samples).items())
+    assert palette.collect(samples, (), same) == palette.collect(samples)
