@@ -116,3 +116,23 @@ def test_looks_stands_for_every_field_the_key_reads():
     assert situations.looks(a) != situations.looks(dataclasses.replace(a, fg=tuple(fg)[:2] + (0.5,)))
     assert situations.looks(a) != situations.looks(dataclasses.replace(a, fg_cause=Cause(decl)))
     assert situations.looks(a) != situations.looks(dataclasses.replace(a, state="hover"))
+
+
+def test_a_situation_numbered_twice_on_a_page_is_counted_once_with_both_counts():
+    # after situations.situation_id renews its numbers (a bound), a page may hold one
+    # situation under two template numbers; the store counts both under one situation
+    from tinctura import gate as gated
+    from tinctura import problems
+
+    found = judge(samples(), Options())
+    page = [f for f in found if f.sample.page == "a.html"]
+    built = situations.PageFindings.build("a.html", page)
+    templates, keys = built.templates[:1] * 2, built.keys[:1] * 2
+    records = [(n % 2,) + r[1:] for n, r in enumerate(built.records) if r[0] == 0]
+    assert len(records) >= 2
+    findings = pickle.loads(pickle.dumps(
+        situations.PageFindings("a.html", templates, keys, records).pack()))
+    store = FindingStore()
+    gated.intake(gated.Gate(fingerprints=False), store, problems.Collector(keep_indexes=False),
+                 "a.html", findings)
+    assert store.occurrence_counts == [len(records)]

@@ -38,6 +38,12 @@ def worst_ratio(sample) -> float:
     return ratio
 
 
+def weighted(samples, counts=None):
+    """``(sample, how many it stands for)`` pairs: ``counts`` one per sample
+    (``situations.Alike``), or 1 each if None."""
+    return zip(samples, counts) if counts is not None else ((s, 1) for s in samples)
+
+
 def histogram(samples, counts=None) -> dict:
     """``{scheme: {bin: count}}`` over the samples a text rule can judge; ``counts``: how
     many samples each one stands for (1 each if None)."""
@@ -47,7 +53,7 @@ def histogram(samples, counts=None) -> dict:
     # keep the tuples alive during the call), so most are hashed as a few ints, and each
     # distinct one is judged and binned once.
     alike: dict = {}
-    for s, n in zip(samples, counts) if counts is not None else ((s, 1) for s in samples):
+    for s, n in weighted(samples, counts):
         same = (id(s.fg), id(s.bg), id(s.bg_alternatives), id(s.fg_raw), s.scheme, s.status,
                 s.kind, s.exempt)
         entry = alike.get(same)

@@ -622,7 +622,7 @@ def sample_stats(samples, counts=None) -> dict:
     ``situations.Alike``)."""
     undetermined, exempt = {}, {}
     texts = 0
-    for s, n in zip(samples, counts) if counts is not None else ((s, 1) for s in samples):
+    for s, n in distribution.weighted(samples, counts):
         if s.kind in NON_TEXT:
             continue
         texts += n

@@ -252,7 +252,7 @@ def _named(template, sample_key) -> tuple:
     hit = _NAMED.get(id(template))
     if hit is None or hit[0] is not template:
         key = (template.rule, sample_key)
-        sid = situation_id(key)  # (first: a clear of both leaves this entry in)
+        sid = situation_id(key)  # (before the entry: a renewal of the ids clears _NAMED)
         if len(_NAMED) >= _IDS_LIMIT:  # templates judged again after engine._JUDGED's clear
             _NAMED.clear()
         hit = _NAMED[id(template)] = (template, key, sid)

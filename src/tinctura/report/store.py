@@ -138,7 +138,9 @@ class FindingStore:
         (``numbers``) turns their template indexes into situation numbers when read back.
         Returns the occurrences per situation."""
         data, counts, first = findings.packed()
-        per_situation = Counter({numbers[n]: counts[n] for n in first})
+        per_situation = Counter()  # (two templates may name one situation: numbered twice
+        for n in first:           # on a page whose situation ids were renewed meanwhile)
+            per_situation[numbers[n]] += counts[n]
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
         encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
         self._write(page, data, mapping, per_situation, sum(counts), encoded,
