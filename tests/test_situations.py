@@ -136,30 +136,3 @@ def test_a_situation_numbered_twice_on_a_page_is_counted_once_with_both_counts()
     gated.intake(gated.Gate(fingerprints=False), store, problems.Collector(keep_indexes=False),
                  "a.html", findings)
     assert store.occurrence_counts == [len(records)]
-
-
-def _record(numbers, xpath, line, text="t"):
-    return (numbers, xpath, line, text, None, None, None)
-
-
-def test_a_samples_findings_share_a_record_in_the_order_of_one_record_each():
-    """``_merged`` sorts records holding a walked sample's findings together (a tuple of
-    numbers); made flat, they stand as one record per finding sorted (``_sorted``) would."""
-    ranks = [0, 3, 1, 4, 2, 5, 2]  # template number -> rank (scheme, state, rule order)
-    cases = [
-        # two samples of one element (ranks apart), out of rank order within a sample
-        [_record((2, 0), "/p[2]", 5), _record((1, 3), "/p[2]", 5), _record((4,), "/p[1]", 5)],
-        # a marked finding alone, then its sample's other findings
-        [_record((1,), "/a", 2), _record((0,), "/a", 2), _record((5, 3), "/b", 1)],
-        # ranks interleaving at one place (the same scheme and state twice): made flat
-        [_record((0, 3), "/q", 7), _record((4,), "/q", 7), _record((2,), "/q", 7)],
-        # equal ranks at one place (two templates of equal order: 4 and 6)
-        [_record((4,), "/r", 3), _record((6, 3), "/r", 3)],
-        [_record((3, 6), "/r", 3), _record((4,), "/r", 3)],
-    ]
-    for records in cases:
-        expected = situations._sorted(situations._flat(records), ranks)
-        assert situations._flat(situations._merged(records, ranks)) == expected
-    for interleaved in (cases[2], cases[3], cases[4]):  # fell back to a record per finding
-        assert all(len(r[0]) == 1 for r in situations._merged(interleaved, ranks))
-    assert len(situations._merged(cases[0], ranks)) == 3  # (kept a record per sample)

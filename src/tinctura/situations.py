@@ -15,12 +15,10 @@ from __future__ import annotations
 
 import dataclasses
 import itertools
-from itertools import chain, repeat
 import os
 import pickle
 import operator
 from collections import Counter
-from operator import eq, ge
 
 from .model import Cause, Finding, Layer, Sample
 
@@ -34,7 +32,6 @@ _shared = operator.attrgetter(*_SHARED)
 _fields = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
 # fields of a record ``(template number, xpath, line, ...)`` (``PageFindings``)
 _NUMBER, _XPATH, _LINE = (operator.itemgetter(i) for i in range(3))
-_FIRST, _LAST = operator.itemgetter(0), operator.itemgetter(-1)
 
 
 def sample_key(s: Sample) -> tuple:
@@ -297,8 +294,7 @@ class PageFindings:
         self._items = None
         # the records as a report writes them, made by ``pack`` (``encode``'s answer), or None
         self.encoded = encoded
-        # (records of walked samples, sorted and numbered by tuples (``_merged``); blocks;
-        # places; ranks; groups), see ``build``
+        # (records of walked samples, sorted; blocks; places; ranks; groups), see ``build``
         self._lazy = lazy
         self._named = ()  # uids of the entries its packed records name (``pack``)
         # its templates' names in the process that made them (``_shipped``, and
@@ -367,12 +363,12 @@ class PageFindings:
         if keys is None:
             keys = [finding_key(f) for f in findings]
         for f, key in zip(findings, keys):
-            records.append(((made.number(key, lambda f=f: f),),) + place(f))
+            records.append((made.number(key, lambda f=f: f),) + place(f))
         for template, key, where in more:
             n = made.by_object.get(id(template))
             if n is None:
                 n = made.by_object[id(template)] = made.number(key, lambda t=template: t)
-            records.append(((n,),) + where)
+            records.append((n,) + where)
         blocks, groups, places = made.blocks(replays)
         templates, tkeys = made.templates, made.keys
         if order is not None:
@@ -386,9 +382,9 @@ class PageFindings:
             after = [template_order(t) for t in templates]
             rank = {a: r for r, a in enumerate(sorted(set(after)))}
             ranks = [rank[a] for a in after]
-            records = _merged(records, ranks)
-        elif not places:
-            return made.named(cls(page, templates, tkeys, _flat(records)))
+            records = _sorted(records, ranks)
+        if not places:
+            return made.named(cls(page, templates, tkeys, records))
         return made.named(cls(page, templates, tkeys, None,
                               lazy=(records, blocks, places, ranks, groups)))
 
@@ -407,8 +403,7 @@ class PageFindings:
             return len(self._records)
         if self._lazy is not None:
             before, places, groups = self._lazy[0], self._lazy[2], self._lazy[4]
-            return sum(map(len, map(_NUMBER, before))) + sum(
-                len(groups[b][2].entries) for b, _, _ in places)
+            return len(before) + sum(len(groups[b][2].entries) for b, _, _ in places)
         return sum(self._packed[1])
 
     def __bool__(self) -> bool:
@@ -462,12 +457,10 @@ class _Numbering:
         return findings
 
     def judged(self, judged) -> list:
-        """The records of walked samples' findings: ``(sample, sample_key, templates)``, one
-        per sample, its numbers a tuple (``_merged``): one per finding but where a gate marked
-        the sample's own finding (the marks are that finding's)."""
+        """The records of walked samples' findings: ``(sample, sample_key, templates)``."""
         records, by_object = [], self.by_object
         for s, k, found in judged:
-            numbers = []
+            where = None  # the sample's place, made once for all its findings
             for t in found:
                 own = t.sample is s
                 n = by_object.get(id(t))
@@ -475,18 +468,16 @@ class _Numbering:
                     key, sid = _named(t, k)
                     n = by_object[id(t)] = self.number(
                         key, lambda t=t, s=s, own=own: t if own else occurrence(t, s), sid)
-                if own and t.fingerprint:
-                    numbers = None
-                if numbers is not None:
-                    numbers.append(n)
-            if numbers is None:  # as many records, in the same order
-                records.extend(_marked(found, s, by_object))
-            elif numbers:
-                c = s.fg_cause
-                records.append((tuple(numbers), s.xpath, s.line, s.text,
-                                c.inherited_from if c is not None else None,
-                                tuple(layer.xpath for layer in s.bg_layers)
-                                if s.bg_layers else None, None))
+                if own and t.fingerprint:  # (marked by a gate: the marks are its own)
+                    records.append((n,) + place(t))
+                    continue
+                if where is None:
+                    c = s.fg_cause
+                    where = (s.xpath, s.line, s.text,
+                             c.inherited_from if c is not None else None,
+                             tuple(layer.xpath for layer in s.bg_layers)
+                             if s.bg_layers else None, None)
+                records.append((n,) + where)
         return records
 
     def blocks(self, replays) -> tuple:
@@ -512,78 +503,6 @@ class _Numbering:
         return blocks, groups, places
 
 
-def _where(s: Sample) -> tuple:
-    """What an occurrence of sample ``s`` adds, as ``place`` gives it (but the gate's marks)."""
-    c = s.fg_cause
-    return (s.xpath, s.line, s.text, c.inherited_from if c is not None else None,
-            tuple(layer.xpath for layer in s.bg_layers) if s.bg_layers else None, None)
-
-
-def _marked(found, s: Sample, by_object: dict) -> list:
-    """A record per finding of sample ``s`` (its templates ``found``, numbered in
-    ``by_object``) when a gate marked its own: the marks are that finding's."""
-    out, where = [], None
-    for t in found:
-        n = (by_object[id(t)],)
-        if t.sample is s and t.fingerprint:
-            out.append((n,) + place(t))
-            continue
-        if where is None:
-            where = _where(s)
-        out.append((n,) + where)
-    return out
-
-
-def _flat(records: list, wanted=None) -> list:
-    """Records numbered by tuples (``_merged``) as one record per number, in order; only
-    those of the templates ``wanted`` (a truth value per template index) if given."""
-    if wanted is None:
-        return [(n,) + r[1:] for r in records for n in r[0]]
-    return [(n,) + r[1:] for r in records for n in r[0] if wanted[n]]
-
-
-def _merged(records: list, ranks: list) -> list:
-    """``records`` (numbered by tuples: a walked sample's findings share a record) in report
-    order, as ``_sorted`` orders them once flat (``_flat``): a record's numbers by rank, the
-    records by line, XPath and their first rank. Fewer records are built, sorted, pickled and
-    counted than one per finding: a sample meets several rules.
-
-    That holds while the records of one place keep apart in rank (each one's last below the
-    next one's first), which the order of templates (scheme, state, rule) gives: the samples
-    of one element differ by scheme or state. Otherwise they are made flat and sorted."""
-    if not records:
-        return records
-    rank = ranks.__getitem__
-    numbers = list(map(_NUMBER, records))
-    fixed = {}  # numbers out of rank order (a page repeats a few tuples): in order
-    for ns in set(numbers):
-        by_rank = tuple(sorted(ns, key=rank))
-        if by_rank != ns:
-            fixed[ns] = by_rank
-    ordered = records
-    if fixed:
-        ordered = [(fixed[r[0]],) + r[1:] if r[0] in fixed else r for r in records]
-        numbers = list(map(_NUMBER, ordered))
-    lines, xpaths = list(map(_LINE, ordered)), list(map(_XPATH, ordered))
-    firsts = list(map(rank, map(_FIRST, numbers)))
-    order = sorted(range(len(ordered)), key=list(zip(lines, xpaths, firsts)).__getitem__)
-    out = list(map(ordered.__getitem__, order))
-    # (C-level passes: records one after another at one place, the first's last rank not
-    # below the second's first)
-    at = list(map(lines.__getitem__, order)), list(map(xpaths.__getitem__, order))
-    lasts = list(map(rank, map(_LAST, map(numbers.__getitem__, order))))
-    firsts = list(map(firsts.__getitem__, order))
-    if any(map(all, zip(map(eq, at[0][1:], at[0]), map(eq, at[1][1:], at[1]),
-                        map(ge, lasts, firsts[1:])))):
-        return _flat_sorted(records, ranks)
-    return out
-
-
-def _flat_sorted(records: list, ranks: list) -> list:
-    """``records`` (numbered by tuples) one per number, sorted as ``_sorted`` sorts them."""
-    return [((r[0],),) + r[1:] for r in _sorted(_flat(records), ranks)]
-
-
 def _sorted(records: list, ranks: list) -> list:
     """``records`` sorted by line, XPath and their template's rank (stable)."""
     if len(records) < 2:
@@ -601,8 +520,10 @@ def expand(lazy: tuple, wanted=None) -> list:
     only those of the templates ``wanted`` (a truth value per template index) if given."""
     before, blocks, places, ranks = lazy
     blocks = [(_entries(named), numbers) for named, numbers in blocks]
-    records = _flat(before, wanted)
-    if wanted is not None:
+    if wanted is None:
+        records = list(before)
+    else:
+        records = [r for r in before if wanted[r[0]]]
         blocks = [_only(entries, numbers, wanted) for entries, numbers in blocks]
     for b, new_base, lines in places:
         entries, numbers = blocks[b]
@@ -632,18 +553,14 @@ def _tally(lazy: tuple, size: int) -> dict:
     the report (as ``Counter`` of the expanded records), without placing a finding: the first
     of a template is the least ``(line, XPath, rank, run order)`` among its records."""
     before, blocks, places, ranks, groups = lazy
-    numbers = list(chain.from_iterable(map(_NUMBER, before)))  # (as ``_flat``'s records)
-    counts = Counter(numbers)
+    counts = Counter(map(_NUMBER, before))
     # sorted already: a template's first record there is its least (the first index wins)
-    at = dict(zip(reversed(numbers), range(len(numbers) - 1, -1, -1)))
+    at = dict(zip(map(_NUMBER, reversed(before)), range(len(before) - 1, -1, -1)))
     if ranks is None:
         first = {n: (i,) for n, i in at.items()}
-    else:  # the record of each of ``numbers``
-        owner = list(chain.from_iterable(map(repeat, range(len(before)),
-                                             map(len, map(_NUMBER, before)))))
-        first = {n: (before[owner[i]][2], before[owner[i]][1], ranks[n], i)
-                 for n, i in at.items()}
-    seq = len(numbers)
+    else:
+        first = {n: (before[i][2], before[i][1], ranks[n], i) for n, i in at.items()}
+    seq = len(before)
     for b, new_base, lines in places:
         named, numbers = blocks[b]
         entries = _entries(named)

@@ -155,8 +155,7 @@ def page_occurrences(records) -> list:
 
 def occurrences_after(records, previous: str) -> tuple:
     """``(page_occurrences(records), XPath of the last)`` of records that follow, on their
-    page, an occurrence at ``previous`` (their first XPath is written against it). A record's
-    number may be a tuple of them (``situations._merged``: its findings make one occurrence)."""
+    page, an occurrence at ``previous`` (their first XPath is written against it)."""
     out = []
     last = None  # the previous record
     occ = None
@@ -165,18 +164,14 @@ def occurrences_after(records, previous: str) -> tuple:
         sid, xpath, line, text, inherited, _layers, marks = record
         if (last is not None and xpath == last[1] and line == last[2] and text == last[3]
                 and inherited == last[4] and (not marks) == (not last[6])):
-            if type(sid) is int:
-                occ[0].append(sid)
-            else:
-                occ[0].extend(sid)
+            occ[0].append(sid)
             if marks:
                 occ[-1].append(marks_list(marks))
             continue
         last = record
         shared = _shared(previous, xpath, shared)
         previous = xpath
-        occ = [[sid] if type(sid) is int else list(sid), shared, xpath[shared:], line,
-               _excerpt(text)]
+        occ = [[sid], shared, xpath[shared:], line, _excerpt(text)]
         if inherited or marks:
             occ.append(levels_up(xpath, inherited) if inherited else None)
         if marks:
