@@ -1,10 +1,12 @@
 """What the rules beyond TC100 cost: `tinctura check` with TC100 alone and with every rule,
 side by side, in alternating runs (CPU seconds of each child process: the machine is shared).
 
-    python benchmarks/rules_cost.py SITE_DIR [--repeat 3]
+    python benchmarks/rules_cost.py SITE_DIR [--repeat 3] [--rules TC100,TC200,TC400,TC500]
 
 SITE_DIR is a built site (e.g. `generate_site.py 200` built with `mkdocs-plain.yml`); each child
-is `tinctura check SITE_DIR --jobs 1 --no-config [--select TC100]` as a user runs it.
+is `tinctura check SITE_DIR --jobs 1 --no-config [--select RULES]` as a user runs it: TC100
+alone against every rule, or against the rules `--rules` names (the text-appearance rules of
+TC200, TC400 and TC500 with TC100, say).
 """
 from __future__ import annotations
 
@@ -35,17 +37,19 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("site")
     parser.add_argument("--repeat", type=int, default=3)
+    parser.add_argument("--rules", default="all", help="codes to select (default: every rule)")
     args = parser.parse_args()
     runs = {"TC100": [], "all": []}
     for n in range(args.repeat):
         # each pair in turn order, then the other (the machine's speed drifts within minutes)
         for rules in (("TC100", "all") if n % 2 == 0 else ("all", "TC100")):
-            runs[rules].append(cpu_seconds(rules, args.site))
+            runs[rules].append(cpu_seconds(args.rules if rules == "all" else rules, args.site))
     medians = {rules: statistics.median(v) for rules, v in runs.items()}
     for rules, values in runs.items():
         print(f"{rules:6} CPU median {medians[rules]:.2f} s  runs {[round(v, 2) for v in values]}")
     pairs = sorted(b / a for a, b in zip(runs["TC100"], runs["all"]))
-    print(f"all rules / TC100 alone: {medians['all'] / medians['TC100']:.2f}x (ratio of medians); "
+    chosen = "all rules" if args.rules == "all" else args.rules
+    print(f"{chosen} / TC100 alone: {medians['all'] / medians['TC100']:.2f}x (ratio of medians); "
           f"{statistics.median(pairs):.2f}x (median of the {len(pairs)} pairs' ratios: "
           f"{', '.join(f'{r:.2f}' for r in pairs)})")
 

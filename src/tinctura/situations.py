@@ -489,11 +489,13 @@ class _Numbering:
         block_of = {}  # id(placement) -> its block
         for placement, stamp in replays:
             b = block_of.get(id(placement))
-            if b is None:
-                per_group = []
-                for head, _ in placement.groups:
-                    template, key, sid = placement.situations[head]
-                    per_group.append(self.number(key, lambda t=template: t, sid))
+            if b is None:  # (each group's situation numbered on the page, in group order)
+                per_group = list(map(self.index.get, placement.group_sids))
+                if None in per_group:
+                    for g, n in enumerate(per_group):
+                        if n is None:
+                            template, key, sid = placement.situations[placement.groups[g][0]]
+                            per_group[g] = self.number(key, lambda t=template: t, sid)
                 b = block_of[id(placement)] = len(blocks)
                 blocks.append((placement.named(), per_group))
                 groups.append((placement.groups, placement.lineless, placement))

@@ -60,3 +60,68 @@ def test_hue_is_kept():
     found = fix.nearest_foreground_where(red, [WHITE], AtLeast(7.0))
     r, g, b = found[0]
     assert r > g and r > b and ratio(found[0], WHITE) >= 7.0
+
+
+def test_rounding_to_8_bits_moves_oklab_lightness_less_than_the_walks_bound():
+    """``fix._ROUNDING_L`` bounds how far 8-bit rounding moves OKLab lightness (the walks stop
+    on it). Checked on a grid of sRGB colours, finest near black where the cube roots are
+    steepest; the conversion is colour-science's (``colour.convert_sRGB_to_Oklab`` chain)."""
+    import colour
+    import numpy as np
+
+    axis = np.concatenate([np.linspace(0, 0.02, 41), np.linspace(0.02, 1, 50)])
+    rgb = np.stack(np.meshgrid(axis, axis, axis), -1).reshape(-1, 3)
+    rounded = np.round(rgb * 255) / 255
+
+    def lightness(c):
+        xyz = colour.sRGB_to_XYZ(c, apply_cctf_decoding=True)
+        return colour.XYZ_to_Oklab(xyz)[..., 0]
+
+    moved = np.abs(lightness(rounded) - lightness(rgb))
+    assert moved.max() < fix._ROUNDING_L
+    assert moved.max() > 0.04  # (near black it is large: the bound is not loose by much)
+
+
+class Counted(AtLeast):
+    """``AtLeast`` that also needs the channels' sums far apart: a test that is not the
+    ratio's alone, as the rules' are not."""
+
+    def __call__(self, text, background):
+        far = abs(sum(text) - sum(background)) > 1.2
+        return far and super().__call__(text, background)
+
+    def __hash__(self):
+        return hash(("counted", self.required))
+
+
+@pytest.mark.parametrize("required", [3.0, 4.5, 7.0])
+def test_stopping_a_walk_early_finds_what_both_full_walks_find(required):
+    """The nearest of the two full walks (each to its first passing step) is what the search
+    answers, though it stops a walk that can no longer come nearer."""
+    import math
+
+    from tinctura.colour.convert import srgb_to_oklab, to_polar
+
+    def full(colour, others, test):
+        def ok(rgb):
+            return all(test(rgb, other) for other in others)
+        if ok(colour):
+            return colour
+        start = srgb_to_oklab(colour)
+        found = []
+        for step in (-fix._WALK_STEP, fix._WALK_STEP):
+            for rgb in fix._walk(*to_polar(start), step, ok):
+                if rgb is not fix._FAILED:
+                    found += [rgb] if rgb is not None else []
+                    break
+        return min(found, key=lambda rgb: math.dist(start, srgb_to_oklab(rgb))) \
+            if found else None
+
+    colours = [(i / 7, (i * 3 % 7) / 7, (i * 5 % 7) / 7) for i in range(8)] + [
+        (0.02, 0.0, 0.01), (0.98, 0.99, 1.0), GREY, NIGHT]
+    for test in (AtLeast(required), Counted(required)):
+        for fg in colours:
+            for bg in (WHITE, NIGHT, (0.5, 0.5, 0.5), (0.0, 0.0, 0.0)):
+                got = fix.nearest_foreground_where(fg, [bg], test)
+                expected = full(fg, (bg,), test)
+                assert (got and got[0]) == expected, (fg, bg)

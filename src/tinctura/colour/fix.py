@@ -230,6 +230,13 @@ class _Swapped:
         return hash(("swapped", self.test))
 
 
+# How far OKLab lightness can move when a colour is rounded to 8 bits: at most where the
+# cube roots are steepest, from black to #010101 (0.053; ``tests/colour/test_fix.py`` checks
+# the bound on a grid). A walk stops once even that cannot bring it nearer than a colour the
+# other walk found.
+_ROUNDING_L = 0.06
+
+
 @lru_cache(maxsize=4096)
 def _nearest_where(colour, others, test):
     def ok(rgb):
@@ -239,16 +246,36 @@ def _nearest_where(colour, others, test):
         return colour, _worst_ratio(colour, others)
     start = srgb_to_oklab(colour)
     lightness, chroma, hue = to_polar(start)
-    candidates = [found for found in (_walk(lightness, chroma, hue, step, ok)
-                                      for step in (-_WALK_STEP, _WALK_STEP)) if found is not None]
+    walks = [_walk(lightness, chroma, hue, step, ok) for step in (-_WALK_STEP, _WALK_STEP)]
+    found, nearest = [None, None], math.inf
+    for k in range(1, int(1 / _WALK_STEP) + 2):  # both walks a step at a time
+        for d, walk in enumerate(walks):
+            if walk is None:
+                continue
+            if (k - 1) * _WALK_STEP - _ROUNDING_L > nearest:  # (cannot come nearer)
+                walks[d] = None
+                continue
+            rgb = next(walk)
+            if rgb is not _FAILED:
+                walks[d] = None
+                if rgb is not None:
+                    found[d] = rgb
+                    nearest = min(nearest, _distance(start, rgb))
+        if walks == [None, None]:
+            break
+    candidates = [rgb for rgb in found if rgb is not None]
     if not candidates:
         return None
     best = min(candidates, key=lambda rgb: _distance(start, rgb))
     return best, _worst_ratio(best, others)
 
 
+_FAILED = object()  # a walk's step that did not pass
+
+
 def _walk(lightness, chroma, hue, step, ok):
-    """First passing 8-bit colour walking lightness by ``step``, refined by bisection."""
+    """Walk lightness by ``step``, yielding ``_FAILED`` per failing step, then the first
+    passing 8-bit colour, refined by bisection (or None at the end of the range)."""
     previous = lightness
     for k in range(1, int(1 / abs(step)) + 2):
         current = min(max(lightness + k * step, 0.0), 1.0)  # ends included once
@@ -262,11 +289,14 @@ def _walk(lightness, chroma, hue, step, ok):
                     passing, rgb = mid, trial
                 else:
                     failing = mid
-            return rgb
+            yield rgb
+            return
         if current in (0.0, 1.0):
-            return None
+            yield None
+            return
+        yield _FAILED
         previous = current
-    return None
+    yield None
 
 
 # The searches of one run start from a few dozen colours and revisit the same steps: the

@@ -255,7 +255,7 @@ class Placement:
     """
 
     __slots__ = ("positions", "entries", "situations", "groups", "group_of", "placed", "uid",
-                 "lineless", "layouts", "serial")
+                 "lineless", "layouts", "serial", "group_sids")
 
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
@@ -288,6 +288,7 @@ class Placement:
             self.entries.append((rel + below, slot, sample.text, inherited, layers))
             self.situations.append((finding, key, situation_id(key)))
         self.groups = _groups(self.situations)
+        self.group_sids = [self.situations[head][2] for head, _ in self.groups]
         self.group_of = [0] * len(self.entries)  # each entry's group
         for g, (_, members) in enumerate(self.groups):
             for i in members:
