@@ -39,6 +39,9 @@ def main() -> None:
     parser.add_argument("--repeat", type=int, default=3)
     parser.add_argument("--rules", default="all", help="codes to select (default: every rule)")
     args = parser.parse_args()
+    from run import compile_installed  # (benchmarks/run.py, beside this script)
+
+    compile_installed(sys.executable)  # every run reads bytecode, as an installed package's
     runs = {"TC100": [], "all": []}
     for n in range(args.repeat):
         # each pair in turn order, then the other (the machine's speed drifts within minutes)
