@@ -231,8 +231,8 @@ class _Swapped:
 
 
 # How far OKLab lightness can move when a colour is rounded to 8 bits: at most where the
-# cube roots are steepest, from black to #010101 (0.053; ``tests/colour/test_fix.py`` checks
-# the bound on a grid). A walk stops once even that cannot bring it nearer than a colour the
+# cube roots are steepest, from black to #010101 (0.053; ``tests/colour/test_fix_where.py``
+# checks the bound on a grid). A walk stops once even that cannot bring it nearer than a colour the
 # other walk found.
 _ROUNDING_L = 0.06
 
