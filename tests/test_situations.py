@@ -136,3 +136,30 @@ def test_a_situation_numbered_twice_on_a_page_is_counted_once_with_both_counts()
     gated.intake(gated.Gate(fingerprints=False), store, problems.Collector(keep_indexes=False),
                  "a.html", findings)
     assert store.occurrence_counts == [len(records)]
+
+
+def test_findings_counted_only_give_the_same_counts_and_problems_as_kept_ones():
+    """When no output reads a page's records back (the text report grouped by problem), the
+    page checked in the main process is counted without pickling its records
+    (``pack(keep=False)``): the store keeps its counts and page, not its records, and the
+    gate and problems come out as when the records are kept."""
+    from tinctura import gate as gated
+    from tinctura import problems
+
+    found = judge(samples(), Options())
+    kept = {}
+    for keep in (True, False):
+        store = FindingStore()
+        gate, collector = gated.Gate(fingerprints=False), problems.Collector(keep_indexes=False)
+        for page in ("a.html", "b.html"):
+            findings = situations.PageFindings.build(
+                page, [f for f in found if f.sample.page == page]).pack(keep=keep)
+            assert (findings.packed()[0] is None) == (not keep)
+            assert len(findings) == 4
+            gated.intake(gate, store, collector, page, findings)
+        kept[keep] = (gate.counts, store.occurrence_counts, store.pages(), len(store),
+                      [(p.rule, p.count, p.pages, [fields(f) for f in p.example_pool()])
+                       for p in collector.problems({})])
+        if not keep:
+            assert store.occurrences("a.html") == []  # (nothing to read back)
+    assert kept[True] == kept[False]

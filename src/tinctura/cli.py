@@ -310,6 +310,9 @@ def run_check(args, stdout, stderr) -> int:
     # the compact JSON report's page records are then written as each page is judged
     options.encode_occurrences = outputs.records_written_as_judged(
         [name for name, _ in specs], args.flat_findings, gate.fingerprints)
+    options.keep_records = outputs.records_read_back(
+        [name for name, _ in specs], args.group, args.flat_findings, gate.fingerprints,
+        bool(args.write_baseline))
     bar = report.progress_for(args, options, stderr)  # on a terminal: pages done, time left
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings. Every finding is stored (JSON and SARIF list the

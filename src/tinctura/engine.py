@@ -85,6 +85,10 @@ class Options:
     # a compact JSON report will be written: each page's occurrences are written for it where
     # the page is judged (in the worker, with --jobs N)
     encode_occurrences: bool = False
+    # some output reads the pages' records back from the store (every report but the text
+    # one grouped by problem; a baseline written; see cli.run_check): when not, the pages
+    # checked in this process are not pickled nor written to it, only counted
+    keep_records: bool = True
 
 
 @dataclass
@@ -668,15 +672,16 @@ def _worker_check_all(rels) -> list:
     return [_worker_check(rel) for rel in rels]
 
 
-def _packed(result, options):
+def _packed(result, options, here: bool = False):
     """A worker's answer with its findings' records pickled here (``PageFindings.pack``),
     and written for the JSON report when one is made: the main process keeps them without
-    reading them."""
+    reading them. ``here``: the page goes to this process's own store, which needs the
+    records pickled only when an output reads them back (``Options.keep_records``)."""
     if isinstance(result, tuple) and isinstance(result[1], situations.PageFindings):
         encode = None
         if options.encode_occurrences:
             from .report.block_occurrences import encoded_page as encode
-        result[1].pack(encode)
+        result[1].pack(encode, keep=options.keep_records or not here)
     return result
 
 
@@ -931,7 +936,7 @@ def _site_pages(site, pages, options, judged):
     if jobs == 1 or len(pages) < 2 * jobs:
         with relaxed_gc():
             for rel in pages:
-                yield _packed(_process(site, rel, options, judged), options)
+                yield _packed(_process(site, rel, options, judged), options, here=True)
         return
     import multiprocessing
 
@@ -941,7 +946,7 @@ def _site_pages(site, pages, options, judged):
         # The first page is checked here: its stylesheets parsed, its styles and navigation
         # fragments recorded once, and every worker forked after it starts from them.
         with relaxed_gc():
-            yield _packed(_process(site, pages[0], options, judged), options)
+            yield _packed(_process(site, pages[0], options, judged), options, here=True)
         pages = pages[1:]
     ctx = multiprocessing.get_context("fork" if forking else "spawn")
     warm = site if forking else None  # (a forked worker inherits it; nothing is pickled)

@@ -325,27 +325,35 @@ class PageFindings:
         fragments' findings are kept as blocks (see ``build``), else None."""
         return self._lazy
 
-    def pack(self, encode=None) -> "PageFindings":
+    def pack(self, encode=None, keep: bool = True) -> "PageFindings":
         """Pickle the records once, where they were made (a worker process): the main process
         can then keep them as they are (``FindingStore.put_packed``) and count them from
         ``packed()`` without reading them. ``encode(self)``, when given, writes them for a
-        report here too (``encoded``), so the main process only copies them."""
+        report here too (``encoded``), so the main process only copies them. ``keep``
+        False: no output will read them back (``engine.Options.keep_records``): counted,
+        not pickled; a store keeps their counts only, and they are read from here."""
         if encode is not None:
             self.encoded = encode(self)
         if self._lazy is not None:  # blocks pickled as blocks, counted per block
-            data = pickle.dumps(self._lazy[:4], protocol=pickle.HIGHEST_PROTOCOL)
             per_template = _tally(self._lazy, len(self.templates))
-            self._named = [named for named, _ in self._lazy[1] if type(named) is tuple]
+            if keep:
+                data = pickle.dumps(self._lazy[:4], protocol=pickle.HIGHEST_PROTOCOL)
+                self._named = [named for named, _ in self._lazy[1] if type(named) is tuple]
         else:
-            data = pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL)
             per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
-        self._packed = packed_form(data, per_template, len(self.templates))
-        self._records = self._lazy = None
+            if keep:
+                data = pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL)
+        self._packed = packed_form(data if keep else None, per_template, len(self.templates))
+        if keep:
+            self._records = self._lazy = None
         return self
 
     def packed(self):
-        """``(pickled records, occurrences per template, templates in first-seen order)`` when
-        the records were packed and not read since, else None."""
+        """``(pickled records or None, occurrences per template, templates in first-seen
+        order)`` when the records were packed and not read since (None: counted only, see
+        ``pack``), else None."""
+        if self._packed is not None and self._packed[0] is None:
+            return self._packed
         return self._packed if self._records is None and self._lazy is None else None
 
     @classmethod
@@ -419,7 +427,7 @@ class PageFindings:
         return list(self) == list(other)
 
     def __reduce__(self):
-        if self._packed is None:
+        if self._packed is None or self._packed[0] is None:
             return (PageFindings, (self.page, self.templates, self.keys, self.records, None,
                                    self.encoded))
         # packed: a worker's answer, which names what it has sent the main process before

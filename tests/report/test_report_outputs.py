@@ -173,3 +173,17 @@ def test_several_reports_at_once_written_atomically(tmp_path, monkeypatch):
         outputs.write_reports(specs[:1], io.StringIO(), header, pages, findings, [], [])
     assert json.loads((tmp_path / "r.sarif").read_text())  # the old report is intact
     assert sorted(os.listdir(tmp_path)) == ["r.json", "r.sarif", "r.xml"]
+
+
+def test_records_are_read_back_by_every_output_but_the_text_report_by_problem():
+    """``engine.Options.keep_records``: only a run whose sole output is the text report
+    grouped by problem (no baseline written, no gate marks) leaves the records unkept."""
+    from tinctura.report.outputs import records_read_back
+
+    assert not records_read_back(["text"], "cause", False, False, False)
+    assert records_read_back(["text", "json"], "cause", False, False, False)
+    assert records_read_back(["sarif"], "cause", False, False, False)
+    assert records_read_back(["text"], "page", False, False, False)
+    assert records_read_back(["text"], "cause", True, False, False)  # flat findings
+    assert records_read_back(["text"], "cause", False, True, False)  # fingerprints
+    assert records_read_back(["text"], "cause", False, False, True)  # a baseline written

@@ -123,6 +123,14 @@ def records_written_as_judged(names, flat: bool, marked: bool) -> bool:
     return any(name == "json" for name in names) and not flat and not marked
 
 
+def records_read_back(names, group: str, flat: bool, marked: bool, baseline: bool) -> bool:
+    """Whether an output reads the pages' records back from the run's store: any report but
+    the text one grouped by problem (whose problems carry their examples), or a baseline
+    written, or findings that carry gate marks (``engine.Options.keep_records``)."""
+    return any(name != "text" for name in names) or group == "page" or flat or marked \
+        or baseline
+
+
 def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=(),
                   counts=None, colour_choice: str = "auto") -> None:
     """Write each ``(format, file or None)`` of ``specs``; no file: ``stdout``."""

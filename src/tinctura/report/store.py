@@ -141,6 +141,10 @@ class FindingStore:
         per_situation = Counter()  # (two templates may name one situation: numbered twice
         for n in first:           # on a page whose situation ids were renewed meanwhile)
             per_situation[numbers[n]] += counts[n]
+        if data is None:  # counted only (``PageFindings.pack``): no output reads them back
+            self._where.setdefault(page, [])
+            self._count(page, per_situation, sum(counts), 1)
+            return per_situation
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
         encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
         self._write(page, data, mapping, per_situation, sum(counts), encoded,
