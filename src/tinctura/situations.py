@@ -334,6 +334,7 @@ class PageFindings:
         not pickled; a store keeps their counts only, and they are read from here."""
         if encode is not None:
             self.encoded = encode(self)
+        data = None
         if self._lazy is not None:  # blocks pickled as blocks, counted per block
             per_template = _tally(self._lazy, len(self.templates))
             if keep:
@@ -343,7 +344,7 @@ class PageFindings:
             per_template = Counter(map(_NUMBER, self._records))  # in first-seen order
             if keep:
                 data = pickle.dumps(self._records, protocol=pickle.HIGHEST_PROTOCOL)
-        self._packed = packed_form(data if keep else None, per_template, len(self.templates))
+        self._packed = packed_form(data, per_template, len(self.templates))
         if keep:
             self._records = self._lazy = None
         return self
