@@ -3,8 +3,8 @@
 TC400 cvd-ratio: text that meets a measure for normal vision (the WCAG 2 ratio, or the APCA Lc
 level of its tier) and loses it for a reader with protanopia, deuteranopia or tritanopia
 (Machado, Oliveira and Fernandes 2009, ``tinctura.colour.cvd``). The distinct colours of the
-samples are simulated in one numpy call per deficiency; colour-science (the matrices) is
-imported only when this rule runs.
+samples are simulated once each, in plain Python (``colour.cvd`` says why not in numpy);
+colour-science is imported only for a severity other than 1 (its interpolated matrices).
 
 A neutral pair (every channel equal in both colours) is not simulated: the model's matrices map
 a grey to itself (their rows sum to 1), so every reader sees it alike.

@@ -6,13 +6,12 @@
 - ``simulated``: CVD simulation of the distinct colours of a run, batched and cached.
 - ``Verdicts``: a bounded cache of verdicts per colour situation (a site repeats a few dozen).
 
-Pure: no I/O. colour-science is imported (through ``colour.cvd``) only when a deficiency is
-simulated, that is only when TC400 runs or a fix for it is searched.
+Pure: no I/O. Neither numpy nor colour-science is imported to simulate a deficiency at the
+default severity (1, dichromacy); colour-science is, through ``colour.cvd``, at any other.
 """
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import lru_cache
 
 from tinctura.colour import apca, viewing, wcag
 from tinctura.colour import fix as colour_fix
@@ -74,10 +73,9 @@ _SIMULATED_LIMIT = 20000
 
 
 def simulate_all(colours, deficiencies, severity: float) -> None:
-    """Simulate, in one numpy call per deficiency, the colours not simulated yet."""
-    from tinctura.colour import cvd  # numpy only; colour-science on its first matrix
-
-    import numpy as np
+    """Simulate the colours not simulated yet, the distinct colours of a run at once (in plain
+    Python: see ``colour.cvd`` for why not in numpy)."""
+    from tinctura.colour import cvd  # colour-science only at a severity other than 1
 
     colours = [tuple(float(c) for c in rgb[:3]) for rgb in colours]
     for deficiency in deficiencies:
@@ -87,38 +85,22 @@ def simulate_all(colours, deficiencies, severity: float) -> None:
             continue
         if len(table) + len(missing) > _SIMULATED_LIMIT:
             table.clear()
-        out = cvd.simulate(np.array(missing, dtype=float), deficiency, severity)
-        table.update(zip(missing, (tuple(float(x) for x in row) for row in out)))
+        m = cvd.rows(deficiency, severity)
+        table.update((c, cvd.simulate_with(m, c)) for c in missing)
 
 
 def simulated(rgb, deficiency: str, severity: float) -> tuple:
-    """The colour a reader with ``deficiency`` sees (cached). One colour at a time (the fix
-    searches' candidates) goes through plain Python: a numpy call costs more than the sum."""
+    """The colour a reader with ``deficiency`` sees (cached)."""
     rgb = tuple(float(c) for c in rgb[:3])
     table = _SIMULATED.setdefault((deficiency, severity), {})
     found = table.get(rgb)
     if found is None:
+        from tinctura.colour import cvd
+
         if len(table) >= _SIMULATED_LIMIT:
             table.clear()
-        found = table[rgb] = _simulate_one(rgb, _matrix(deficiency, severity))
+        found = table[rgb] = cvd.simulate_with(cvd.rows(deficiency, severity), rgb)
     return found
-
-
-@lru_cache(maxsize=64)
-def _matrix(deficiency: str, severity: float) -> tuple:
-    from tinctura.colour import cvd
-
-    return tuple(tuple(float(x) for x in row) for row in cvd.matrix(deficiency, severity))
-
-
-def _simulate_one(rgb, m) -> tuple:
-    """cvd.simulate for one colour (same steps: linearise, matrix, clip, encode)."""
-    lin = [c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4 for c in rgb]
-    out = []
-    for row in m:
-        v = min(max(row[0] * lin[0] + row[1] * lin[1] + row[2] * lin[2], 0.0), 1.0)
-        out.append(v * 12.92 if v <= 0.0031308 else 1.055 * v ** (1 / 2.4) - 0.055)
-    return tuple(out)
 
 
 # -- the pass test every suggestion meets -------------------------------------------------------

@@ -35,6 +35,9 @@ def test_matches_colour_science_on_a_batch():
             lin = colour.models.eotf_sRGB(rgb)
             want = colour.models.eotf_inverse_sRGB(np.clip(lin @ np.asarray(m).T, 0, 1))
             np.testing.assert_allclose(cvd.simulate(rgb, name, severity), want, atol=1e-9)
+            # the plain-Python form the rules use, colour by colour
+            one = [cvd.simulate_one(tuple(c), name, severity) for c in rgb]
+            np.testing.assert_allclose(one, want, atol=1e-9)
 
 
 def test_dichromats_need_no_library_other_severities_do():

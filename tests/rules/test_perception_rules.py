@@ -59,17 +59,35 @@ def test_cvd_reports_only_what_normal_vision_passes():
     assert findings([make_sample("#ff3030", "#000")], "TC400", cvd_severity=0.0) == []
 
 
-def test_cvd_simulates_the_distinct_colours_in_one_batch(monkeypatch):
+def test_cvd_simulates_each_distinct_colour_once(monkeypatch):
     from tinctura.colour import cvd
 
     calls = []
-    real = cvd.simulate
-    monkeypatch.setattr(cvd, "simulate", lambda rgb, d, s=1.0: calls.append(len(rgb)) or real(rgb, d, s))
+    real = cvd.simulate_with
+    monkeypatch.setattr(cvd, "simulate_with", lambda m, rgb: calls.append(rgb) or real(m, rgb))
+    appearance._SIMULATED.clear()
     samples = [make_sample(f"#ff{n:02x}30", "#000") for n in range(40, 48)] * 50
-    findings(samples, "TC400", cvd_severity=0.77)
-    # judging: one numpy call per deficiency for 400 samples of 9 distinct colours (the fix
-    # searches that follow simulate their candidate colours as they walk, cached)
-    assert calls[:3] == [9, 9, 9]
+    findings(samples, "TC400")
+    # judging 400 samples of 9 distinct colours (8 reds and black): 9 simulations per
+    # deficiency; the fix searches that follow simulate their candidate colours as they walk
+    judged = calls[:27]
+    assert len(set(judged)) == 9 and len(judged) == 27
+
+
+def test_cvd_at_the_default_severity_imports_no_numpy():
+    """numpy's import time (about 0.1 s) is more than TC400's whole simulation on a site of a
+    few hundred distinct colours (colour.cvd's docstring)."""
+    import subprocess
+    import sys
+
+    code = ("import sys\n"
+            "from tinctura.rules import perception, deficiency\n"
+            "perception.simulate_all([(1.0, 0.19, 0.19), (0.0, 0.0, 0.0)], deficiency.DEFICIENCIES, 1.0)\n"
+            "perception.simulated((0.2, 0.9, 0.1), 'tritanopia', 1.0)\n"
+            "print('numpy' in sys.modules)\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         timeout=120)
+    assert out.stdout.strip() == "False", out.stderr
 
 
 def test_grey_pairs_are_not_simulated():
@@ -145,10 +163,11 @@ def test_one_colour_simulation_equals_the_batched_one():
     from tinctura.colour import cvd
 
     colours = [(1.0, 0.19, 0.19), (0.1, 0.4, 0.9), (0.5, 0.5, 0.5), (0.0, 0.0, 0.0), (0.9, 0.8, 0.1)]
-    for deficiency in ("protanopia", "deuteranopia", "tritanopia"):
-        batch = cvd.simulate(np.array(colours), deficiency, 0.6)
-        one = [appearance._simulate_one(c, appearance._matrix(deficiency, 0.6)) for c in colours]
-        assert np.allclose(batch, one, atol=1e-12)
+    for severity in (0.6, 1.0):
+        for deficiency in ("protanopia", "deuteranopia", "tritanopia"):
+            batch = cvd.simulate(np.array(colours), deficiency, severity)
+            one = [appearance.simulated(c, deficiency, severity) for c in colours]
+            assert np.allclose(batch, one, atol=1e-12)
 
 
 def test_colour_science_is_imported_before_workers_only_for_the_rules_that_use_it():
