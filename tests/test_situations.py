@@ -66,6 +66,36 @@ def test_store_counts_follow_replaced_and_discarded_pages():
     assert [fields(f) for f in store.by_page("a.html")] == [fields(found[0])]
 
 
+def test_a_store_checked_again_all_day_keeps_its_file_to_what_pages_use(monkeypatch):
+    """``mkdocs serve`` replaces a page's findings each time the page is checked again: the
+    bytes the replaced findings used are given back (the file is compacted once they
+    outweigh those in use), and what pages use reads back the same."""
+    from tinctura.report import store as store_mod
+
+    monkeypatch.setattr(store_mod, "COMPACT_AFTER_BYTES", 0)
+    found = judge(samples(), Options())
+    on = {page: [f for f in found if f.sample.page == page] for page in ("a.html", "b.html")}
+    store = FindingStore()
+    for page, items in on.items():
+        store.add(page, items)
+    store._file.seek(0, 2)
+    start = store._file.tell()
+
+    def packed(page):  # as a worker hands a page over, with its records written for a report
+        return situations.PageFindings.build(page, on[page]).pack(lambda f: f"<{f.page}>")
+
+    for n in range(200):
+        page = ("a.html", "b.html")[n % 2]
+        store.replace(page, packed(page) if n % 3 else on[page])
+    store._file.seek(0, 2)
+    assert store._file.tell() <= 2 * start + 64  # not 100 times what the pages use
+    assert len(store) == 8 and dict(store.counts["page"]) == {"a.html": 4, "b.html": 4}
+    for page, items in on.items():
+        assert [fields(f) for f in store.by_page(page)] == [fields(f) for f in items]
+    assert store.encoded("a.html") is None  # (last kept as a list, at step 198)
+    assert store.encoded("b.html") == ("<b.html>", None)  # (last kept packed, at step 199)
+
+
 def test_packed_findings_are_kept_unread_and_read_back_the_same():
     """A worker packs a page's records (pickled once); the main process keeps them as they
     are, counts them per situation and reads the same records back, renumbered."""

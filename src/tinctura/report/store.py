@@ -6,7 +6,10 @@ thousands of findings of a few hundred *situations* (``tinctura.situations``): r
 state, colours, font, causes. The store keeps one template finding per situation in memory and,
 per page, only each occurrence's situation number and place (XPath, line, text, the ancestor an
 inherited colour comes from), pickled to a temporary file as the page is judged, so memory does
-not grow with the number of findings. The counts a summary needs are kept aside.
+not grow with the number of findings. The counts a summary needs are kept aside. A page checked
+again (``replace``, ``mkdocs serve``) leaves its earlier records unused in the file; the file is
+compacted once unused bytes outweigh used ones (and 16 MB), so a session of a whole day does not
+grow it without bound.
 
 Reading back:
 
@@ -28,6 +31,9 @@ from tinctura.palette import report_page
 from .outputs import add_situation_counts
 
 
+COMPACT_AFTER_BYTES = 16 << 20  # unused bytes in a store's file before it is compacted
+
+
 class FindingStore:
     """Sequence-like: ``len``, iteration in run order, ``by_page(name)``; plus ``counts``."""
 
@@ -37,6 +43,7 @@ class FindingStore:
         # occurrences per template index in first-seen order)], in run order
         self._where = {}
         self._size = 0
+        self._live = 0  # bytes of the file that pages still use (the rest: pages checked again)
         self._ids = {}  # situations.finding_key -> situation number
         # a template's name in a worker (situations._shipped) -> (number, its key object)
         self._by_name = {}
@@ -160,8 +167,10 @@ class FindingStore:
             (self._file.tell(), len(data), mapping, None if encoded is None else len(encoded),
              per_template))
         self._file.write(data)
+        self._live += len(data)
         if encoded is not None:
             self._file.write(encoded)
+            self._live += len(encoded)
         self._count(page, per_situation, size, 1)
 
     def _count(self, page: str, per_situation, size: int, sign: int) -> None:
@@ -183,7 +192,27 @@ class FindingStore:
         if page in self._where:
             records = self.occurrences(page)
             self._count(page, Counter(r[0] for r in records), len(records), -1)
+            self._live -= sum(length + (size or 0) for _, length, _, size, _ in self._where[page])
             del self._where[page]
+            self._file.seek(0, 2)
+            if self._file.tell() - self._live > max(self._live, COMPACT_AFTER_BYTES):
+                self._compact()
+
+    def _compact(self) -> None:
+        """Copy the bytes pages still use to a new file: a ``mkdocs serve`` session that
+        checks pages again all day would otherwise grow its file by every page checked.
+        Done when the unused bytes outweigh the used ones, so copying costs at most what
+        was written."""
+        new = tempfile.TemporaryFile()
+        for page, entries in self._where.items():
+            moved = []
+            for offset, length, mapping, size, per_template in entries:
+                self._file.seek(offset)
+                moved.append((new.tell(), length, mapping, size, per_template))
+                new.write(self._file.read(length + (size or 0)))
+            self._where[page] = moved
+        self._file.close()
+        self._file = new
 
     def occurrences(self, page: str) -> list:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
