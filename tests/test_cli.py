@@ -248,6 +248,28 @@ def test_check_json_to_file(fake_engine, tmp_path):
     assert doc["summary"]["findings"] == 1 and doc["schemes"] == ["light"]
 
 
+def test_check_leaves_the_collector_as_it_found_it(fake_engine, monkeypatch):
+    # what the check keeps is frozen out of the collections while reports are written
+    # (cli._kept_out_of_collections), then thawed; a caller's frozen objects stay frozen
+    import gc
+
+    _, _, site = fake_engine
+    frozen_while_reporting = []
+    real = cli.outputs.write_reports
+    monkeypatch.setattr(cli.outputs, "write_reports", lambda *a, **k: (
+        frozen_while_reporting.append(gc.get_freeze_count()), real(*a, **k))[1])
+    gc.unfreeze()
+    call("check", site)
+    assert frozen_while_reporting[0] > 0 and gc.get_freeze_count() == 0
+    gc.freeze()
+    try:
+        mine = gc.get_freeze_count()
+        call("check", site)
+        assert frozen_while_reporting[1] == mine and gc.get_freeze_count() == mine
+    finally:
+        gc.unfreeze()
+
+
 def test_check_group_by_page(fake_engine):
     _, _, site = fake_engine
     _, out, _ = call("check", site, "--group", "page")

@@ -426,7 +426,6 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     undo an override: ``(problem keys found, overrides' own declarations in findings,
     number of findings)``."""
     from tinctura import engine
-    from tinctura.problems import problem_key
 
     options = _deciding(options)
     site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
@@ -435,24 +434,33 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     _same_line_for_overrides(site.loader)
     remaining_keys, bad = set(), set()
     remaining = 0
-    for rel in pages:
-        try:
-            with open(f"{site.root}/{rel}", encoding="utf-8", errors="replace") as fh:
-                html = fh.read()
-        except OSError:
-            continue
-        # (after a whole site's check many objects are alive: each full collection would
-        # scan them all, as often as while pages were checked without ``relaxed_gc``)
-        with engine.relaxed_gc():
+    # (after a whole site's check many objects are alive: each full collection would scan
+    # them all, as often as while pages were checked without ``relaxed_gc``; relaxed once
+    # for all the pages: leaving it restores the thresholds, and the next allocation collects)
+    with engine.relaxed_gc():
+        for rel in pages:
+            try:
+                with open(f"{site.root}/{rel}", encoding="utf-8", errors="replace") as fh:
+                    html = fh.read()
+            except OSError:
+                continue
             _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
-        remaining += len(findings)
-        for f in findings:
-            remaining_keys.add(problem_key(f))
-            for cause in (f.sample.fg_cause, f.sample.bg_cause):
-                for d in _declarations(cause):
-                    if "<style>" in d.sheet and d.line and _injected(d, css):
-                        bad.add((_normal(d.selector), d.property, f.rule, f.severity))
+            remaining += len(findings)
+            _tally_findings(findings, css, remaining_keys, bad)
     return remaining_keys, bad, remaining
+
+
+def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> None:
+    """Add a rechecked page's findings to the problem keys found and to the overrides' own
+    declarations that cause a finding (``recheck``)."""
+    from tinctura.problems import problem_key
+
+    for f in findings:
+        remaining_keys.add(problem_key(f))
+        for cause in (f.sample.fg_cause, f.sample.bg_cause):
+            for d in _declarations(cause):
+                if "<style>" in d.sheet and d.line and _injected(d, css):
+                    bad.add((_normal(d.selector), d.property, f.rule, f.severity))
 
 
 def _deciding(options):
