@@ -3,7 +3,7 @@
 - ``tier``: which APCA readability level a text's size, weight and kind call for.
 - ``Requirement``: a rule's pass test, as a hashable record: what a suggested colour must meet
   (this rule and TC100 at once); findings carry it so a fix at the cause can be searched later.
-- ``simulated``: CVD simulation of the distinct colours of a run, batched and cached.
+- ``simulate_all``, ``simulated``: CVD simulation, each distinct colour of a run once (cached).
 - ``Verdicts``: a bounded cache of verdicts per colour situation (a site repeats a few dozen).
 
 Pure: no I/O. Neither numpy nor colour-science is imported to simulate a deficiency at the

@@ -22,7 +22,7 @@ References
 
 Two forms of the same steps (linearise, matrix, clip, encode): :func:`simulate` on numpy arrays,
 batched over leading axes, and :func:`simulate_one`, one colour in plain Python, which the rules
-use. numpy is imported by the first only. Measured on 2026-12-03 (CPython 3.11, numpy 1.26): a
+use. numpy is imported by the first only. Measured on 2026-12-03 (CPython 3.11, numpy 2.4): a
 200-page site has about 150 distinct colours to simulate per deficiency; importing numpy costs
 about 0.1 s of CPU, more than the rest of TC400's simulation, and even for 20,000 colours the
 batched call with its results made tuples again (1.3 us a colour) is no faster than the plain
