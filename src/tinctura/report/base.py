@@ -66,6 +66,14 @@ class Formatter:
     wants_fingerprints = False  # the gate then gives every finding its fingerprint
     marked = False
 
+    @classmethod
+    def reads_records(cls, group: str) -> bool:
+        """Whether this format, in a run grouped by ``group``, reads the pages' records back
+        from the run's store (``wants_findings`` or ``wants_occurrences``): decided before
+        the run, so that a run whose outputs read none keeps none
+        (``engine.Options.keep_records``)."""
+        return True
+
     def __init__(self, stream, header: Header):
         self.stream = stream
         self.header = header

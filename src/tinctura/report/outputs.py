@@ -124,10 +124,13 @@ def records_written_as_judged(names, flat: bool, marked: bool) -> bool:
 
 
 def records_read_back(names, group: str, flat: bool, marked: bool, baseline: bool) -> bool:
-    """Whether an output reads the pages' records back from the run's store: any report but
-    the text one grouped by problem (whose problems carry their examples), or a baseline
-    written, or findings that carry gate marks (``engine.Options.keep_records``)."""
-    return any(name != "text" for name in names) or group == "page" or flat or marked \
+    """Whether an output reads the pages' records back from the run's store: a report of the
+    formats ``names`` that says so (``Formatter.reads_records``: all but the text one grouped
+    by problem, whose problems carry their examples), or a baseline written, or findings that
+    carry gate marks (``engine.Options.keep_records``)."""
+    from . import FORMATS
+
+    return any(FORMATS[name].reads_records(group) for name in names) or flat or marked \
         or baseline
 
 

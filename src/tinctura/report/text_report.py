@@ -34,9 +34,13 @@ class TextFormatter(Formatter):
         self.schemes = list(header.schemes)
         self.width = terminal_width()
 
+    @classmethod
+    def reads_records(cls, group: str) -> bool:
+        return group == "page"  # grouped by problem: the problems carry the examples
+
     @property
-    def wants_findings(self) -> bool:  # grouped by cause: the problems carry the examples
-        return self.header.group == "page"
+    def wants_findings(self) -> bool:
+        return self.reads_records(self.header.group)
 
     # -- helpers -----------------------------------------------------------------------
 
