@@ -347,6 +347,35 @@ def test_python_dash_m(tmp_path):
     assert done.returncode == 1 and done.stdout.startswith("#777777 on #ffffff: 4.47:1")
 
 
+def test_the_command_ends_at_once_after_flushing_and_exit_handlers(tmp_path):
+    # cli.end_now skips the heap's teardown: the status, the output written to a pipe and to
+    # a file, and what exit handlers do (temporary folders, pools) must all survive it
+    report = tmp_path / "r.json"
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Kiln log</title>'
+        '</head><body><main><p style="color:#aaa">Fire the kiln to cone six.</p></main>'
+        '</body></html>')
+    done = subprocess.run([sys.executable, "-m", "tinctura", "check", str(tmp_path), "--jobs",
+                           "1", "--no-config", "--format", "text", "--format",
+                           f"json:{report}"], capture_output=True, text=True, timeout=120)
+    assert done.returncode == 1 and "too faint" in done.stdout
+    assert json.loads(report.read_text())["summary"]
+    code = ("import atexit, sys; from tinctura import cli; "
+            "atexit.register(lambda: open(sys.argv[1], 'w').write('handled')); "
+            "print('buffered', end=''); cli.end_now(3)")
+    mark = tmp_path / "handler"
+    done = subprocess.run([sys.executable, "-c", code, str(mark)], capture_output=True,
+                          text=True, timeout=60)
+    assert (done.returncode, done.stdout, mark.read_text()) == (3, "buffered", "handled")
+    # a thread that is not a daemon still running: Python's own exit, which waits for it
+    code = ("import sys, threading, time; from tinctura import cli; "
+            "threading.Thread(target=lambda: (time.sleep(0.3), "
+            "open(sys.argv[1], 'w').write('finished'))).start(); cli.end_now(None)")
+    done = subprocess.run([sys.executable, "-c", code, str(mark)], capture_output=True,
+                          text=True, timeout=60)
+    assert (done.returncode, mark.read_text()) == (0, "finished")
+
+
 def test_check_config_mkdocs_yml_that_mkdocs_cannot_load(fake_engine, tmp_path):
     _, _, site = fake_engine
     broken = tmp_path / "broken" / "mkdocs.yml"

@@ -1,5 +1,5 @@
 """``python -m tinctura``: the same as the ``tinctura`` command."""
-from tinctura.cli import main
+from tinctura.cli import command
 
 if __name__ == "__main__":
-    raise SystemExit(main())
+    command()

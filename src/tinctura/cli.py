@@ -752,6 +752,46 @@ def _site_root(page: str) -> str:
 # -- entry point -------------------------------------------------------------------------------
 
 
+def command() -> None:
+    """The ``tinctura`` command and ``python -m tinctura``: ``main`` on the process's own
+    arguments, then the process ends (``end_now``)."""
+    end_now(main())
+
+
+def end_now(code) -> None:
+    """End the process with exit status ``code`` once its output is flushed and its exit
+    handlers have run, without freeing its heap object by object.
+
+    After a check the heap holds the style caches, recorded fragments, judged situations and
+    the store: hundreds of thousands of objects. Python's own shutdown frees them one at a
+    time, which took 0.14 s after `tinctura check --jobs 2` and 0.28-0.33 s after `--jobs 1`
+    on 200 generated pages (3-5 % of the command); the operating system reclaims the memory
+    at once. The exit handlers (``atexit``: temporary folders, worker pools, logging) run
+    as they would. A normal exit is taken instead while a thread that is not a daemon is
+    still running (Python waits for it), or when the output cannot be flushed (a closed
+    pipe: Python's own exit reports it as usual)."""
+    import atexit
+    import threading
+
+    status = code if isinstance(code, int) else (0 if code is None else 1)
+    main_thread = threading.main_thread()
+    if any(t is not main_thread and t.is_alive() and not t.daemon
+           for t in threading.enumerate()):
+        raise SystemExit(status)
+    try:
+        sys.stdout.flush()
+        sys.stderr.flush()
+    except (OSError, ValueError):
+        raise SystemExit(status)
+    atexit._run_exitfuncs()  # (what Python's shutdown would run first)
+    try:
+        sys.stdout.flush()
+        sys.stderr.flush()
+    except (OSError, ValueError):
+        pass
+    os._exit(status)
+
+
 def main(argv=None, stdout=None, stderr=None) -> int:
     stdout = sys.stdout if stdout is None else stdout
     stderr = sys.stderr if stderr is None else stderr
