@@ -250,7 +250,7 @@ def test_check_json_to_file(fake_engine, tmp_path):
 
 def test_check_leaves_the_collector_as_it_found_it(fake_engine, monkeypatch):
     # what the check keeps is frozen out of the collections while reports are written
-    # (cli._kept_out_of_collections), then thawed; a caller's frozen objects stay frozen
+    # (engine.kept_out_of_collections), then thawed; a caller's frozen objects stay frozen
     import gc
 
     _, _, site = fake_engine

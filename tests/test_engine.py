@@ -34,6 +34,32 @@ def test_jobs_give_identical_results_in_the_same_order(site):
         [(f.sample.page, f.ratio) for f in two.findings]
 
 
+def test_workers_leave_the_collector_as_they_found_it(site):
+    # the main process freezes its heap before forking workers and thaws it after, but only
+    # when nothing was frozen: a caller's frozen objects stay frozen (and the thresholds
+    # relaxed while the workers' pages come in are restored)
+    import gc
+
+    from tinctura import engine
+
+    thresholds = gc.get_threshold()
+    gc.unfreeze()
+    check_paths([str(site)], Options(jobs=2))
+    assert gc.get_freeze_count() == 0 and gc.get_threshold() == thresholds
+    gc.freeze()
+    try:
+        mine = gc.get_freeze_count()
+        assert mine > 0
+        check_paths([str(site)], Options(jobs=2))
+        # (frozen objects freed meanwhile leave the count; a thaw would empty it)
+        assert 0 < gc.get_freeze_count() <= mine and gc.get_threshold() == thresholds
+        pool = engine.PagePool(str(site), Options(jobs=2), 1)
+        pool.close()
+        assert 0 < gc.get_freeze_count() <= mine
+    finally:
+        gc.unfreeze()
+
+
 def test_broken_stylesheet_and_page_do_not_stop_the_site(site):
     (site / "p3" / "index.html").write_bytes(b"")
     (site / "site.css").write_text(":root{--faint:#999} .faint{color:var(--faint)} @media {{{ p{")

@@ -4,7 +4,6 @@ from __future__ import annotations
 import argparse
 import contextlib
 import functools
-import gc
 import json
 import os
 import sys
@@ -332,24 +331,11 @@ def run_check(args, stdout, stderr) -> int:
     project = load_project(args.mkdocs_config, stderr) \
         if getattr(args, "mkdocs_config", None) else None
     result = engine.check_paths(list(args.paths), options, findings_to=keep)
-    with _kept_out_of_collections():
+    # what the check keeps lives to the end of the command and makes no cycles: the
+    # collections of what follows (verifying fixes, writing reports) need not scan it again
+    with engine.kept_out_of_collections():
         return _after_check(args, stdout, stderr, options, specs, gate, store, collector,
                             written, project, result)
-
-
-@contextlib.contextmanager
-def _kept_out_of_collections():
-    """What the check keeps lives to the end of the command and makes no cycles: the
-    collections of what follows (verifying fixes, writing reports) need not scan it again.
-    Frozen only when nothing is (a caller's frozen objects are left alone), thawed after."""
-    mine = gc.get_freeze_count() == 0
-    if mine:
-        gc.freeze()
-    try:
-        yield
-    finally:
-        if mine:
-            gc.unfreeze()
 
 
 def _after_check(args, stdout, stderr, options, specs, gate, store, collector, written,
