@@ -2,11 +2,13 @@
 side by side, in alternating runs (CPU seconds of each child process: the machine is shared).
 
     python benchmarks/rules_cost.py SITE_DIR [--repeat 3] [--rules TC100,TC200,TC400,TC500]
+                                             [--jobs 1]
 
 SITE_DIR is a built site (e.g. `generate_site.py 200` built with `mkdocs-plain.yml`); each child
 is `tinctura check SITE_DIR --jobs 1 --no-config [--select RULES]` as a user runs it: TC100
 alone against every rule, or against the rules `--rules` names (the text-appearance rules of
-TC200, TC400 and TC500 with TC100, say).
+TC200, TC400 and TC500 with TC100, say). `--jobs N` runs the children with N workers (their CPU
+counted with the child's: every process's work).
 """
 from __future__ import annotations
 
@@ -19,18 +21,19 @@ import sys
 CHILD = r'''
 import sys
 from tinctura import cli
-rules, site = sys.argv[1], sys.argv[2]
+rules, site, jobs = sys.argv[1], sys.argv[2], sys.argv[3]
 select = [] if rules == "all" else ["--select", rules]
 # as the `tinctura` command runs (cli.command: it ends without freeing its heap)
-sys.argv = ["tinctura", "check", site, "--jobs", "1", "--fail-on", "never", "--no-config",
+sys.argv = ["tinctura", "check", site, "--jobs", jobs, "--fail-on", "never", "--no-config",
             "-o", "/dev/null"] + select
 cli.command()
 '''
 
 
-def cpu_seconds(rules: str, site: str) -> float:
+def cpu_seconds(rules: str, site: str, jobs: int = 1) -> float:
+    """CPU seconds of one child (with its workers, which it waits for)."""
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
-    subprocess.run([sys.executable, "-c", CHILD, rules, site], check=True)
+    subprocess.run([sys.executable, "-c", CHILD, rules, site, str(jobs)], check=True)
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
     return (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
 
@@ -40,6 +43,7 @@ def main() -> None:
     parser.add_argument("site")
     parser.add_argument("--repeat", type=int, default=3)
     parser.add_argument("--rules", default="all", help="codes to select (default: every rule)")
+    parser.add_argument("--jobs", type=int, default=1, help="workers per check (default: 1)")
     args = parser.parse_args()
     from run import compile_installed  # (benchmarks/run.py, beside this script)
 
@@ -48,7 +52,8 @@ def main() -> None:
     for n in range(args.repeat):
         # each pair in turn order, then the other (the machine's speed drifts within minutes)
         for rules in (("TC100", "all") if n % 2 == 0 else ("all", "TC100")):
-            runs[rules].append(cpu_seconds(args.rules if rules == "all" else rules, args.site))
+            runs[rules].append(cpu_seconds(args.rules if rules == "all" else rules, args.site,
+                                           args.jobs))
     medians = {rules: statistics.median(v) for rules, v in runs.items()}
     for rules, values in runs.items():
         print(f"{rules:6} CPU median {medians[rules]:.2f} s  runs {[round(v, 2) for v in values]}")
