@@ -20,7 +20,7 @@ import pickle
 import re
 import shutil
 import tempfile
-from contextlib import contextmanager
+from contextlib import ExitStack, contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
 
@@ -721,13 +721,13 @@ class PagePool:
         # until ``close``: the workers' collections do not write to every inherited page of
         # memory (copying it), and this process's do not rescan it as pages go by.
         # (frozen only when nothing is, thawed by ``close``: see ``kept_out_of_collections``)
-        self._frozen = kept_out_of_collections()
-        self._frozen.__enter__()
+        self._frozen = ExitStack()
+        self._frozen.enter_context(kept_out_of_collections())
         try:
             self._pool = ctx.Pool(workers, initializer=_worker_init,
                                   initargs=(root, options, True, site))
         except BaseException:
-            self._frozen.__exit__(None, None, None)
+            self._frozen.close()
             shutil.rmtree(self._spool, ignore_errors=True)
             raise
         self._pending = []
@@ -802,7 +802,7 @@ class PagePool:
         """End the workers: every answer is in, and a stuck worker must not hold the build."""
         self._pool.terminate()
         self._pool.join()
-        self._frozen.__exit__(None, None, None)
+        self._frozen.close()
         shutil.rmtree(self._spool, ignore_errors=True)  # pages no worker took
 
 
