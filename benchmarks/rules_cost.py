@@ -2,21 +2,25 @@
 side by side, in alternating runs (CPU seconds of each child process: the machine is shared).
 
     python benchmarks/rules_cost.py SITE_DIR [--repeat 3] [--rules TC100,TC200,TC400,TC500]
-                                             [--jobs 1]
+                                             [--jobs 1] [--instructions]
 
 SITE_DIR is a built site (e.g. `generate_site.py 200` built with `mkdocs-plain.yml`); each child
 is `tinctura check SITE_DIR --jobs 1 --no-config [--select RULES]` as a user runs it: TC100
 alone against every rule, or against the rules `--rules` names (the text-appearance rules of
 TC200, TC400 and TC500 with TC100, say). `--jobs N` runs the children with N workers (their CPU
-counted with the child's: every process's work).
+counted with the child's: every process's work). `--instructions` runs each child once under
+valgrind's callgrind instead and counts instructions, which the machine's drift does not move
+(a 200-page site takes several minutes).
 """
 from __future__ import annotations
 
 import argparse
+import os
 import resource
 import statistics
 import subprocess
 import sys
+import tempfile
 
 CHILD = r'''
 import sys
@@ -38,16 +42,47 @@ def cpu_seconds(rules: str, site: str, jobs: int = 1) -> float:
     return (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
 
 
+def instructions(rules: str, site: str, jobs: int = 1) -> int:
+    """Instructions of one child under callgrind, each process's own counted once: forked
+    workers start with their parent's counts, so the parent's are written out (and reset)
+    before each fork, and every process's files are summed."""
+    with tempfile.TemporaryDirectory() as folder:
+        subprocess.run(["valgrind", "--tool=callgrind", "--dump-before=*fork*",
+                        f"--callgrind-out-file={folder}/cg.%p", sys.executable, "-c", CHILD,
+                        rules, site, str(jobs)], check=True, stdout=subprocess.DEVNULL,
+                       stderr=subprocess.DEVNULL, env={**os.environ, "PYTHONHASHSEED": "0"})
+        total = 0
+        for name in os.listdir(folder):
+            with open(os.path.join(folder, name), encoding="utf-8", errors="replace") as fh:
+                total += next(int(line.split()[1]) for line in fh
+                              if line.startswith(("summary:", "totals:")))
+        return total
+
+
+def count_instructions(args) -> None:
+    counts = {rules: instructions(args.rules if rules == "all" else rules, args.site, args.jobs)
+              for rules in ("TC100", "all")}
+    chosen = "all rules" if args.rules == "all" else args.rules
+    print(f"TC100  {counts['TC100'] / 1e9:.2f} G instructions")
+    print(f"{chosen}: {counts['all'] / 1e9:.2f} G instructions, "
+          f"{counts['all'] / counts['TC100']:.3f}x TC100 alone")
+
+
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("site")
     parser.add_argument("--repeat", type=int, default=3)
     parser.add_argument("--rules", default="all", help="codes to select (default: every rule)")
     parser.add_argument("--jobs", type=int, default=1, help="workers per check (default: 1)")
+    parser.add_argument("--instructions", action="store_true",
+                        help="count instructions under valgrind's callgrind, once each")
     args = parser.parse_args()
     from run import compile_installed  # (benchmarks/run.py, beside this script)
 
     compile_installed(sys.executable)  # every run reads bytecode, as an installed package's
+    if args.instructions:
+        count_instructions(args)
+        return
     runs = {"TC100": [], "all": []}
     for n in range(args.repeat):
         # each pair in turn order, then the other (the machine's speed drifts within minutes)
