@@ -99,7 +99,7 @@ def simulated(rgb, deficiency: str, severity: float) -> tuple:
 
         if len(table) >= _SIMULATED_LIMIT:
             table.clear()
-        found = table[rgb] = cvd.simulate_with(cvd.rows(deficiency, severity), rgb)
+        found = table[rgb] = cvd.simulate_one(rgb, deficiency, severity)
     return found
 
 

@@ -32,6 +32,8 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+from .convert import linear_to_srgb_channel, srgb_to_linear
+
 # Our names (the reader-facing ones) -> colour-science's names of the anomalies.
 DEFICIENCIES = {
     "protanopia": "Protanomaly",
@@ -110,20 +112,17 @@ def simulate_one(rgb, deficiency: str, severity: float = 1.0) -> tuple:
 @lru_cache(maxsize=64)
 def rows(deficiency: str, severity: float = 1.0) -> tuple:
     """:func:`matrix` as a tuple of rows of floats (at severity 1 without importing numpy)."""
-    if deficiency in DICHROMAT and float(severity) == 1.0:
+    if deficiency in DICHROMAT and not needs_library(severity):
         return DICHROMAT[deficiency]
     return tuple(tuple(float(x) for x in row) for row in matrix(deficiency, severity))
 
 
 def simulate_with(m: tuple, rgb) -> tuple:
     """One sRGB-encoded colour (0..1) through the rows ``m`` (:func:`rows`): the steps of
-    :func:`simulate` in plain Python."""
-    lin = [c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4 for c in rgb[:3]]
-    out = []
-    for row in m:
-        v = min(max(row[0] * lin[0] + row[1] * lin[1] + row[2] * lin[2], 0.0), 1.0)
-        out.append(v * 12.92 if v <= 0.0031308 else 1.055 * v ** (1 / 2.4) - 0.055)
-    return tuple(out)
+    :func:`simulate` in plain Python (the transfer functions are ``colour.convert``'s)."""
+    lin = srgb_to_linear(rgb)
+    return tuple(linear_to_srgb_channel(
+        min(max(row[0] * lin[0] + row[1] * lin[1] + row[2] * lin[2], 0.0), 1.0)) for row in m)
 
 
 def _to_linear(rgb: np.ndarray) -> np.ndarray:
