@@ -166,26 +166,21 @@ css_pieces = st.sampled_from([
 
 
 @FAST
-@given(st.lists(css_pieces, max_size=40), st.integers(1, 64))
-def test_stylesheet_parsing_is_total_and_chunks_change_nothing(pieces, chunk):
-    css = "\n".join(pieces)
+@given(st.lists(css_pieces, max_size=40), st.integers(1, 64), st.sampled_from(["\n", ""]))
+def test_stylesheet_parsing_is_total_and_chunks_change_nothing(pieces, chunk, joint):
+    """Cut into chunks or not, the same rules with the same lines and columns (a minified
+    sheet, joined without newlines, is one line that a chunk starts inside)."""
+    css = joint.join(pieces)
     whole = parse_stylesheet(css, "s.css")
     pieces_seen = list(sheet_mod._chunks(css, size=chunk))
-    assert "".join(p for _, p in pieces_seen) == css
-    chunked = _parse_in_chunks(css, chunk)
+    assert "".join(p for _, _, p in pieces_seen) == css
+    chunked = sheet_mod.ParsedSheet("s.css")
+    sheet_mod.parse_chunks(css, chunked, size=chunk)
 
     def shape(sheet):
-        return ([(r.selector_text, [(d.name, d.text, d.line) for d in r.decls], r.media,
-                  r.layer) for r in sheet.rules if not isinstance(r, tuple)],
-                [r for r in sheet.rules if isinstance(r, tuple)], sheet.errors)
+        return ([(r.selector_text, [(d.name, d.text, d.line, d.column) for d in r.decls],
+                  r.media, r.layer) for r in sheet.rules if not isinstance(r, tuple)],
+                [r for r in sheet.rules if isinstance(r, tuple)], sheet.errors,
+                sheet.layer_names)
 
     assert shape(chunked) == shape(whole)
-
-
-def _parse_in_chunks(css, chunk):
-    sheet = sheet_mod.ParsedSheet("s.css")
-    for offset, piece in sheet_mod._chunks(css, size=chunk):
-        sheet.line_offset = offset
-        rules = tinycss2.parse_stylesheet(piece, skip_whitespace=True, skip_comments=True)
-        sheet_mod._walk(rules, sheet, "author", (), (), True)
-    return sheet

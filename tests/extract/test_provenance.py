@@ -73,3 +73,19 @@ def test_xpaths_are_what_lxml_getpath_writes():
     assert len(page.paths) == len(elements)
     for el in elements:
         assert page.paths[el] == getpath(el)
+
+
+def test_column_in_a_large_minified_stylesheet(render):
+    """A minified stylesheet is one line, and a large one is parsed in chunks that start inside
+    that line: the column named is still counted from the line's start (found here by searching
+    the file's text for the declaration)."""
+    from tinctura.extract.sheet import CHUNK_CHARS
+
+    filler = "".join(f".f{i}{{color:#{i % 4096:03x}}}" for i in range(30000))
+    css = filler + ".target{color:#123456}"
+    assert "\n" not in css and len(css) > 2 * CHUNK_CHARS
+    s = render('<p class="target">t</p>', head='<link rel="stylesheet" href="big.css">',
+               files={"big.css": css})
+    declaration = one(s, "t").fg_cause.declaration
+    assert (declaration.sheet, declaration.line) == ("big.css", 1)
+    assert declaration.column == css.index("color:#123456") + 1

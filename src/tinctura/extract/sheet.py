@@ -125,6 +125,7 @@ class ParsedSheet:
     skipped_selectors: int = 0
     uses_has: bool = False
     line_offset: int = 0  # lines before the chunk being parsed (``_chunks``)
+    column_shift: int = 0  # characters before the chunk on its first line (``_chunks``)
     max_rules: int = MAX_RULES  # style rules kept (one per selector); beyond: ``truncated``
     truncated: bool = False
     uses_color_scheme_media: bool = False
@@ -133,7 +134,9 @@ class ParsedSheet:
 
 
 def parse_declarations(content, *, relevant_only: bool = True, line_offset: int = 0,
-                       keep=RELEVANT) -> list:
+                       keep=RELEVANT, column_shift: int = 0) -> list:
+    """``column_shift``: added to the columns of the first line (a chunk that starts inside a
+    line: ``_chunks``)."""
     out = []
     for item in tinycss2.parse_blocks_contents(content, skip_whitespace=True, skip_comments=True):
         if item.type != "declaration":
@@ -142,8 +145,9 @@ def parse_declarations(content, *, relevant_only: bool = True, line_offset: int 
         if relevant_only and not name.startswith("--") and name not in keep:
             continue
         text = tinycss2.serialize([t for t in item.value if t.type != "comment"]).strip()
+        column = item.source_column + (column_shift if item.source_line == 1 else 0)
         out.append(Decl(name, None, item.important, item.source_line + line_offset, text,
-                        item.source_column))
+                        column))
     return out
 
 
@@ -158,14 +162,10 @@ def parse_stylesheet(css: str, name: str, origin: str = "author",
     was_enabled = gc.isenabled()
     gc.disable()
     try:
-        for offset, chunk in _chunks(css):
-            sheet.line_offset = offset
-            rules = tinycss2.parse_stylesheet(chunk, skip_whitespace=True, skip_comments=True)
-            _walk(rules, sheet, origin, (), (), True)
+        parse_chunks(css, sheet, origin)
     finally:
         if was_enabled:
             gc.enable()
-    sheet.line_offset = 0
     # searched without a lower-cased copy (a large sheet's copy is its size again)
     sheet.uses_color_scheme_media = bool(_PREFERS.search(css))
     sheet.uses_light_dark = bool(_LIGHT_DARK.search(css))
@@ -178,23 +178,38 @@ _LIGHT_DARK = re.compile(r"light-dark\(", re.I)
 _COLOR_SCHEME = re.compile("(?<!prefers-)color-scheme", re.I)
 
 
+CHUNK_CHARS = 1 << 18
+
+
+def parse_chunks(css: str, sheet: ParsedSheet, origin: str = "author",
+                 size: int = CHUNK_CHARS) -> None:
+    """The rules of ``css`` into ``sheet``, parsed a chunk at a time (``_chunks``), with lines
+    and columns counted from the start of ``css``."""
+    for lines, shift, chunk in _chunks(css, size):
+        sheet.line_offset, sheet.column_shift = lines, shift
+        rules = tinycss2.parse_stylesheet(chunk, skip_whitespace=True, skip_comments=True)
+        _walk(rules, sheet, origin, (), (), True)
+    sheet.line_offset = sheet.column_shift = 0
+
+
 # What can hide a brace from the top-level structure: comments, strings (a bad string ends at
 # its newline, as in CSS Syntax 3), escapes and unquoted url()s; and the braces themselves.
 _STRUCTURE = re.compile(r"""/\*[\s\S]*?(?:\*/|\Z)|"(?:[^"\\\n]|\\[\s\S])*"?"""
                         r"""|'(?:[^'\\\n]|\\[\s\S])*'?|\\[\s\S]|(?i:url)\([^)"']*\)?|[{}]""")
-CHUNK_CHARS = 1 << 18
 
 
 def _chunks(css: str, size: int = CHUNK_CHARS):
-    """(lines before, text) pieces of a stylesheet cut after top-level blocks.
+    """(lines before, characters before on its first line, text) pieces of a stylesheet cut
+    after top-level blocks.
 
     tinycss2 builds the whole token tree of what it is given; a 20 MB stylesheet would hold
     gigabytes at once. Cut between top-level rules, each piece parses to the same rules, and
-    only one piece's tree is alive at a time."""
+    only one piece's tree is alive at a time. (A minified sheet is one line: a piece starts
+    inside it, and tinycss2 counts its columns from the piece's start.)"""
     if len(css) <= size:
-        yield 0, css
+        yield 0, 0, css
         return
-    depth, start, lines = 0, 0, 0
+    depth, start, lines, line_start = 0, 0, 0, 0
     for m in _STRUCTURE.finditer(css):
         char = m.group()
         if char == "{":
@@ -202,10 +217,11 @@ def _chunks(css: str, size: int = CHUNK_CHARS):
         elif char == "}" and depth:  # a stray top-level } is part of the next prelude
             depth -= 1
             if not depth and m.end() - start >= size:
-                yield lines, css[start:m.end()]
+                yield lines, start - line_start, css[start:m.end()]
                 lines += css.count("\n", start, m.end())
+                line_start = css.rfind("\n", start, m.end()) + 1 or line_start
                 start = m.end()
-    yield lines, css[start:]
+    yield lines, start - line_start, css[start:]
 
 
 def _walk(rules, sheet: ParsedSheet, origin, media, layer, top_level):
@@ -239,8 +255,9 @@ def _at_rule(rule, sheet, origin, media, layer, top_level):
             for n in names:
                 sheet.layer_names.append(layer + tuple(n.split(".")))
         else:
+            column = rule.source_column + (sheet.column_shift if rule.source_line == 1 else 0)
             path = layer + (tuple(names[0].split(".")) if names else (
-                f"#anon:{sheet.name}:{rule.source_line + sheet.line_offset}:{rule.source_column}",))
+                f"#anon:{sheet.name}:{rule.source_line + sheet.line_offset}:{column}",))
             sheet.layer_names.append(path)
             inner = tinycss2.parse_blocks_contents(rule.content, skip_whitespace=True,
                                                    skip_comments=True)
@@ -361,9 +378,10 @@ def compile_one(text: str, tokens=None):
     return got
 
 
-def split_declarations(content, line_offset: int = 0) -> tuple:
+def split_declarations(content, line_offset: int = 0, column_shift: int = 0) -> tuple:
     """(declarations the engine reads, declarations of non-colour cues), in one parse."""
-    decls = parse_declarations(content, keep=_READ, line_offset=line_offset)
+    decls = parse_declarations(content, keep=_READ, line_offset=line_offset,
+                               column_shift=column_shift)
     keep = [d for d in decls if d.name.startswith("--") or d.name in RELEVANT]
     return keep, [d for d in decls if d.name in CUES]
 
@@ -372,7 +390,7 @@ _READ = RELEVANT | CUES
 
 
 def _style_rule(rule, sheet, origin, media, layer):
-    decls, cue_decls = split_declarations(rule.content, sheet.line_offset)
+    decls, cue_decls = split_declarations(rule.content, sheet.line_offset, sheet.column_shift)
     if not decls and not cue_decls:
         return
     for part in split_selector_list(rule.prelude):
