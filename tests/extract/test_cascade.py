@@ -258,3 +258,20 @@ def test_numbered_list_markers_are_text(render):
     assert hexes(light(s, "4."))[0] == "#aaaaaa"
     assert light(s, "4.").xpath == "/html/body/ol/li[2]::marker"
     assert not any(k[2].endswith(".") and k[2] != "3." and k[2] != "4." for k in s)
+
+
+def test_cue_rules_are_tried_only_where_a_selector_could_match(render):
+    """Borders and outlines of a focusable link are found through the index of cue rules: the
+    outline of its own class wins, and a cue rule for a class no element has is never compiled
+    (on a large stylesheet, compiling every cue rule's selector for each control cost seconds
+    and tens of megabytes)."""
+    from tinctura.extract import sheet
+
+    unused = "a.tw-never-used-cue-7"
+    css = (f"{unused} {{ outline: 2px solid #ff0000 }}\n"
+           ".tw-ring a:focus { outline: 2px solid #1f4e8c }\n")
+    s = render('<p class="tw-ring"><a href="#x">Berth list</a></p>', css)
+    ring = next(v for k, v in s.items() if k[2] and "focus" in k[2])
+    assert ring.fg_cause.declaration.selector == ".tw-ring a:focus"
+    compiled, _ = sheet._COMPILED[unused]
+    assert "test" not in vars(compiled)  # (a cached_property, set once compiled)

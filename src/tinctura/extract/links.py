@@ -184,7 +184,7 @@ def state_cues(walker, link, link_style, state) -> frozenset:
     marked = mark_states(link, *STATE_CLASSES[state]) if state is not None else []
     try:
         wrapper = walker.structure.wrapper_of(link)
-        rules = [r for r in walker.index.cue_rules if r.pseudo is None and r.compiled.test(wrapper)]
+        rules = walker.index.cue_match(wrapper)
         inline = link.get("style")
         decls = [d for d in split_declarations(inline)[1]] if inline else ()
         winners = cascade(rules, decls, walker.ruleset)

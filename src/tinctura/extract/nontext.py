@@ -73,7 +73,7 @@ def _winners(walker, el, states=()):
     marked = mark_states(el, states)
     try:
         wrapper = walker.structure.wrapper_of(el)
-        rules = [r for r in walker.index.cue_rules if r.pseudo is None and r.compiled.test(wrapper)]
+        rules = walker.index.cue_match(wrapper)
         inline = el.get("style")
         return cascade(rules, split_declarations(inline)[1] if inline else (), walker.ruleset)
     finally:

@@ -178,6 +178,17 @@ class Index:
                 d["other"] = True
         self.dynamic_buckets = d
 
+    @cached_property
+    def _cue_index(self) -> "Index":
+        return Index(self.cue_rules, self.ruleset)
+
+    def cue_match(self, wrapper) -> list:
+        """The cue rules (``cue_rules``) whose selector matches the element itself, not a
+        pseudo-element of it. Indexed as the colour rules are, on first use: a scan of every
+        cue rule compiled and ran each selector (on a 5 MB stylesheet, 36 MB of compiled
+        tests and more than a second for one focusable control)."""
+        return [r for r in self._cue_index.match(wrapper) if r.pseudo is None]
+
     def state_can_matter(self, element) -> bool:
         """Could a rule with a dynamic pseudo-class style an element in this subtree?
 
