@@ -56,8 +56,9 @@ PHASES = ("until the workers start (imports, the first page)", "while the worker
           "problems, fixes verified", "reports")
 
 
-def _dump(path: str) -> tuple:
-    """(instructions, whether a mark triggered it) of one callgrind dump."""
+def callgrind_dump(path: str) -> tuple:
+    """(instructions, whether a mark triggered it) of one callgrind dump (``rules_cost.py``
+    reads its counts here too)."""
     marked, count = False, 0
     with open(path, encoding="utf-8", errors="replace") as fh:
         for line in fh:
@@ -78,7 +79,8 @@ def _dumps(folder: str) -> dict:
             continue  # (the report)
         parts = name.split(".")
         serial = int(parts[2]) if len(parts) > 2 else 1 << 30
-        out.setdefault(int(parts[1]), []).append((serial, _dump(os.path.join(folder, name))))
+        dump = callgrind_dump(os.path.join(folder, name))
+        out.setdefault(int(parts[1]), []).append((serial, dump))
     return {pid: [dump for _, dump in sorted(dumps)] for pid, dumps in out.items()}
 
 
@@ -103,7 +105,7 @@ def measure(site: str, jobs: int, fmt: str) -> tuple:
         sys.exit(f"expected {len(PHASES) - 1} marks in the main process, found {at}")
     others = sorted((sum(count for count, _ in v) for pid, v in dumps.items() if pid != main),
                     reverse=True)
-    return phases, [n for n in others if n > 1e7]  # (the marks' own forks: nothing)
+    return phases, [n for n in others if n > 1e7]  # (processes that did next to nothing)
 
 
 def report(phases: list, others: list, jobs: int) -> None:
