@@ -253,3 +253,52 @@ def test_received_pages_are_numbered_by_name_as_by_key(repeated_site):
         situations._TEMPLATES.update(templates)
     direct.close()
     by_name.close()
+
+
+def _walks(memo, n, meet=()):
+    """``n`` walks of ``memo``, meeting the fingerprints ``meet`` on each."""
+    for _ in range(n):
+        memo.begin_page()
+        for fp in meet:
+            memo.lookup(1, fp)
+
+
+def test_fragments_idle_longer_than_their_use_are_forgotten():
+    memo = fragments.Memo()
+    _walks(memo, 2, meet=[(1, 1), (2, 2)])  # seen, then recorded at the second walk
+    for fp in [(1, 1), (2, 2)]:
+        memo.keep((1, fp), fragments.Fragment("/x", [], {}))
+    # (1, 1) recurs for 60 more walks (a closed navigation section), (2, 2) never again (one
+    # recorded around a page's own entry)
+    _walks(memo, 60, meet=[(1, 1)])
+    assert (1, (2, 2)) not in memo.fragments
+    assert (1, (1, 1)) in memo.fragments
+    # idle: kept as long as it was in use (60 walks), then forgotten
+    _walks(memo, 55)
+    assert (1, (1, 1)) in memo.fragments
+    _walks(memo, 2 * fragments.SWEEP)
+    assert (1, (1, 1)) not in memo.fragments
+
+
+def test_a_fingerprint_seen_long_ago_counts_as_new():
+    memo = fragments.Memo()
+    _walks(memo, 1, meet=[(3, 3)])
+    _walks(memo, fragments.SEEN_IDLE - fragments.SWEEP)
+    assert memo.lookup(1, (3, 3)) == (None, True)  # the second sight: record it
+    _walks(memo, 1, meet=[(4, 4)])
+    _walks(memo, fragments.SEEN_IDLE + fragments.SWEEP)
+    assert memo.lookup(1, (4, 4)) == (None, False)  # forgotten: a first sight again
+
+
+def test_replays_with_fragments_forgotten_each_walk_equal_walked_ones(repeated_site, monkeypatch):
+    monkeypatch.setattr(fragments, "IDLE_PAGES", 1)
+    monkeypatch.setattr(fragments, "SEEN_IDLE", 2)
+    monkeypatch.setattr(fragments, "SWEEP", 1)
+    walked = Site(str(repeated_site), Options(replay=False))
+    replayed = Site(str(repeated_site), Options(replay=True))
+    for rel in walked.pages():
+        a = walked.check_page(rel).samples
+        b = replayed.check_page(rel).samples
+        assert sorted(a, key=_order) == sorted(b, key=_order), rel
+    memos = [cache.memo for cache in replayed._caches.values()]
+    assert sum(len(m.fragments) for m in memos) > 0

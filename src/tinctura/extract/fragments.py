@@ -36,9 +36,14 @@ from ..situations import place_block, register_entries, situation_id
 
 _SAMPLE_FIELDS = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
 # Per style cache, least recently used first out: a site's pages come in navigation order, so
-# what repeats now is what repeated on the last pages (memory stays flat on large sites).
+# what repeats now is what repeated on the last pages. Idle ones go well before the limits:
+# fragments recorded around a page's own navigation entry recur on its neighbours only, and
+# kept to the limit they made the peak memory grow with the pages (by 30 % from 40 to 200).
 FRAGMENT_LIMIT = 20000  # recorded fragments (a navigation of thousands of entries fits)
 SEEN_LIMIT = 50000  # fingerprints seen once
+IDLE_PAGES = 30  # walks a fragment may go unmet, or as many as it was in use if more
+SEEN_IDLE = 100  # walks a fingerprint seen once is remembered
+SWEEP = 10  # walks between two sweeps of the idle
 # A key stops being fingerprinted once it has shown new subtrees on this many pages and repeats
 # on fewer than a tenth as many occasions: a fingerprint costs about 1/20 of a walk of the same
 # subtree, so even rare repeats would pay, but a page's root and article never repeat. (Several
@@ -49,9 +54,10 @@ VOLATILE_PAGES = 6
 class Fragment:
     """What walking one subtree produced: samples and nested fragments, in walk order."""
 
-    __slots__ = ("base", "items", "skipped", "verdicts")
+    __slots__ = ("base", "items", "skipped", "verdicts", "first", "used")
 
     def __init__(self, base: str, items: list, skipped: dict):
+        self.first = self.used = 0  # serials of the walks that recorded it and last met it
         self.base = base  # XPath of the subtree's root where it was recorded
         self.items = items  # Sample, or (relative XPath, Fragment) for a nested fragment
         self.skipped = skipped  # skipped counts of the whole subtree, nested ones included
@@ -71,11 +77,29 @@ class Memo:
         self.fragments = {}  # (key id, fingerprint) -> Fragment, least recently used first
         self.seen = {}  # (key id, fingerprint) seen once -> True, oldest first
         self.keys = {}  # key id -> [repeats, pages with a new fingerprint, last such page]
-        self.page = 0  # serial of the page being walked
+        self.page = 0  # serial of the walk in progress (a page in this cache's scheme)
+
+    def begin_page(self) -> None:
+        """A new walk. Every ``SWEEP`` walks, forget the fragments idle for longer than they
+        were in use (and at least ``IDLE_PAGES``), and fingerprints seen once more than
+        ``SEEN_IDLE`` walks ago: a navigation section's fragments recur on every page while
+        it is closed, and those recorded around a page's own entry only on its neighbours."""
+        self.page = page = self.page + 1
+        if page % SWEEP:
+            return
+        self.fragments = {k: f for k, f in self.fragments.items()
+                          if page - f.used <= max(IDLE_PAGES, f.used - f.first)}
+        oldest, seen = page - SEEN_IDLE, self.seen
+        while seen:
+            first = next(iter(seen))
+            if seen[first] >= oldest:
+                break
+            del seen[first]
 
     def keep(self, memo_key, fragment) -> None:
         if len(self.fragments) >= FRAGMENT_LIMIT:
             del self.fragments[next(iter(self.fragments))]
+        fragment.used = fragment.first = self.page
         self.fragments[memo_key] = fragment
 
     def clear(self) -> None:
@@ -97,6 +121,7 @@ class Memo:
         fragment = fragments.pop(memo_key, None)
         if fragment is not None:
             fragments[memo_key] = fragment  # most recently used last
+            fragment.used = self.page
             stats[0] += 1
             return fragment, False
         seen = self.seen
@@ -105,7 +130,7 @@ class Memo:
             return None, True
         if len(seen) >= SEEN_LIMIT:
             del seen[next(iter(seen))]
-        seen[memo_key] = True
+        seen[memo_key] = self.page
         if stats[2] != self.page:
             stats[1] += 1
             stats[2] = self.page

@@ -187,7 +187,7 @@ class PageWalker:
         self._getpath = self.structure.path
         self.state = REST
         if self.memo is not None:
-            self.memo.page += 1
+            self.memo.begin_page()
         root_key = self._key(0, self.structure.root_id())
         self._walk([(self.root, ROOT_PARENT, root_key, True, (), True)], rest=True)
         if self.interactive:  # outside every scope (a root that is not a container)
