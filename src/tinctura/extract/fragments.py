@@ -75,7 +75,7 @@ class Memo:
 
     def __init__(self):
         self.fragments = {}  # (key id, fingerprint) -> Fragment, least recently used first
-        self.seen = {}  # (key id, fingerprint) seen once -> True, oldest first
+        self.seen = {}  # (key id, fingerprint) seen once -> that walk's serial, oldest first
         self.keys = {}  # key id -> [repeats, pages with a new fingerprint, last such page]
         self.page = 0  # serial of the walk in progress (a page in this cache's scheme)
 
