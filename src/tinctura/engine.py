@@ -173,7 +173,7 @@ class Site:
                                                  severity="error"))
             return result
         try:
-            ruleset, diags = self.loader.ruleset_for(root, path)
+            ruleset, diags = self.loader.ruleset_for(root, path, text)
             result.diagnostics.extend(diags)
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
             result.schemes = list(schemes)

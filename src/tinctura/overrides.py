@@ -496,11 +496,11 @@ def _same_line_for_overrides(loader) -> None:
         return
     original = loader.ruleset_for
 
-    def ruleset_for(root_el, page_path):
+    def ruleset_for(root_el, page_path, source=None):
         for el in root_el.iter("style"):
             if el.get(f"data-{MARK}") is not None:
                 el.sourceline = 1
-        return original(root_el, page_path)
+        return original(root_el, page_path, source)
 
     loader.ruleset_for = ruleset_for
     loader._overrides_pinned = True

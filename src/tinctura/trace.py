@@ -19,7 +19,7 @@ from .colour.wcag import contrast_ratio, truncate
 from .engine import Options, Site
 from .extract import bounds
 from .extract import schemes as scheme_mod
-from .extract.html import own_text, parse_html
+from .extract.html import decode, own_text, parse_html
 from .extract.media import Environment
 from .extract.sheet import parse_declarations
 from .extract.style import cascade
@@ -81,13 +81,14 @@ def trace(site_root: str, page: str, target: str, options: Options | None = None
     options = options or Options()
     site = Site(site_root, options)
     path = os.path.join(site.root, page)
-    root = parse_html(bounds.read_inside(path, site.loader.real_root, options.max_file_bytes))
+    source = decode(bounds.read_inside(path, site.loader.real_root, options.max_file_bytes))
+    root = parse_html(source)  # as the engine parses it
     el = find_element(root, target)
     if el is None:
         raise LookupError(f"{page}: no element matches {target!r}")
     xpath = root.getroottree().getpath(el)
     result = Trace(page, xpath, own_text(el)[:60])
-    ruleset, _ = site.loader.ruleset_for(root, path)
+    ruleset, _ = site.loader.ruleset_for(root, path, source)
     schemes = options.schemes or scheme_mod.discover(root, ruleset)
     samples = site.check_page(page).samples
     for scheme in schemes:

@@ -89,3 +89,40 @@ def test_column_in_a_large_minified_stylesheet(render):
     declaration = one(s, "t").fg_cause.declaration
     assert (declaration.sheet, declaration.line) == ("big.css", 1)
     assert declaration.column == css.index("color:#123456") + 1
+
+
+def test_column_of_a_style_block_on_its_tags_line(tmp_path):
+    """A ``<style>`` whose CSS starts on its start tag's line (a minified page is one line):
+    columns on that line count from the line's start, as in the page's source (found by
+    searching the page's text); on the block's later lines from their own start."""
+    from tinctura.engine import Options, Site
+
+    html = ('<!doctype html><html><head><title>Tide tables</title><style>.a{color:#123456}\n'
+            '.b{color:#654321}</style></head><body><p class="a">a</p><p class="b">b</p>'
+            '</body></html>')
+    (tmp_path / "index.html").write_text(html)
+    result = Site(str(tmp_path), Options(states=False)).check_page("index.html")
+    found = {s.text: s.fg_cause.declaration for s in result.samples}
+    assert (found["a"].line, found["a"].column) == (1, html.index("color:#123456") + 1)
+    line_two = html.split("\n")[1]
+    assert (found["b"].line, found["b"].column) == (2, line_two.index("color:#654321") + 1)
+
+
+def test_a_style_block_moved_along_its_line_shares_one_rule_set(tmp_path):
+    """Minified pages whose titles differ put the same ``<style>`` at different columns: they
+    still share one rule set (a rule set per page would check every page with cold caches),
+    whose sheet names the first page, at that page's column."""
+    from tinctura.engine import Options, Site
+
+    pages = {}
+    for name, title in (("a", "Berths"), ("b", "Tide tables and berth windows")):
+        pages[name] = (f'<!doctype html><html><head><title>{title}</title><style>'
+                       f'p{{color:#123456}}</style></head><body><p>t</p></body></html>')
+        (tmp_path / name).mkdir()
+        (tmp_path / name / "index.html").write_text(pages[name])
+    site = Site(str(tmp_path), Options(states=False))
+    found = [site.check_page(f"{name}/index.html").samples[0].fg_cause.declaration
+             for name in ("a", "b")]
+    assert len(site.loader._rulesets) == 1
+    assert found[0].sheet == found[1].sheet == "a/index.html <style> #1"
+    assert found[1].column == pages["a"].index("color:#123456") + 1

@@ -146,8 +146,9 @@ class SheetLoader:
         return False
 
     # -- per page ---------------------------------------------------------------------------
-    def ruleset_for(self, root_el, page_path: str):
-        """The RuleSet for a page's tree, and diagnostics about its stylesheets."""
+    def ruleset_for(self, root_el, page_path: str, source: str | None = None):
+        """The RuleSet for a page's tree, and diagnostics about its stylesheets. ``source``:
+        the page's HTML as parsed, for the columns of a ``<style>`` block's first line."""
         base_dir = os.path.dirname(page_path)
         entries, diags = [], []
         for el in root_el.iter("link", "style"):
@@ -165,7 +166,7 @@ class SheetLoader:
                 entries.append(("file", path, (el.get("media") or "").strip()))
             else:
                 media = (el.get("media") or "").strip()
-                entries.append(("style", el.text or "", media, el.sourceline or 0))
+                entries.append(("style", el.text or "", media, el.sourceline or 0, el))
         key = tuple(e if e[0] == "file" else ("style", hash(e[1]), e[2], e[3]) for e in entries)
         cached = self._rulesets.get(key)
         if cached is not None:
@@ -195,7 +196,9 @@ class SheetLoader:
                     continue
                 if parsed.truncated:
                     diags.append(_truncated(parsed, name, e[3]))
-                parsed = _shift_lines(parsed, e[3])
+                # (the key leaves the column out: where a minified page's title moves its
+                # <style>, the pages still share one rule set, whose sheet names this page)
+                parsed = _shift_lines(parsed, e[3], _column_before(e[4], source))
                 self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(), diags,
                              base=base_dir)
         ruleset = RuleSet(rules, layers)
@@ -229,17 +232,39 @@ def _truncated(parsed, name, line=0):
                             "the rest were not read (--max-rules)", line=line, severity="error")
 
 
-def _shift_lines(parsed, offset):
-    """<style> blocks: make declaration lines count from the page's first line."""
-    if offset <= 1:
+def _shift_lines(parsed, offset, column=0):
+    """<style> blocks: make declaration lines count from the page's first line, and the
+    columns of the block's first line from the start of that line (``column``: the characters
+    before the CSS on it)."""
+    if offset <= 1 and not column:
         return parsed
     for rule in parsed.rules:
         if isinstance(rule, StyleRule):
             for d in rule.decls + rule.cue_decls:  # (cue_decls: extract/links.py)
                 if not getattr(d, "_shifted", False):
-                    d.line += offset - 1
+                    if d.line == 1:
+                        d.column += column
+                    d.line += max(offset, 1) - 1
                     d._shifted = True
     return parsed
+
+
+def _column_before(el, source: str | None) -> int:
+    """The characters before the text of ``el`` (a ``<style>``) on its start tag's line of
+    ``source``, or 0 when its text starts on a new line or cannot be found there."""
+    text = el.text
+    if not source or not text or text[0] in "\r\n":
+        return 0
+    line = el.sourceline or 1
+    at = source.find(text)
+    while at >= 0:
+        found = source.count("\n", 0, at) + 1
+        if found == line:
+            return at - source.rfind("\n", 0, at) - 1
+        if found > line:
+            break
+        at = source.find(text, at + 1)
+    return 0
 
 
 def _dedupe(diags):
