@@ -299,3 +299,37 @@ def test_replays_with_fragments_forgotten_each_walk_equal_walked_ones(repeated_s
     monkeypatch.setattr(fragments, "SEEN_IDLE", 2)
     monkeypatch.setattr(fragments, "SWEEP", 1)
     _assert_replays_equal_walks(repeated_site)
+
+
+def test_equal_entries_are_kept_once():
+    from tinctura import situations
+
+    before = len(situations._ENTRIES)
+    one = [("/li[1]/a", 0, "Berth 4", (0, None), None, 0)]
+    other = [("/li[2]/a", 0, "Berth 5", (0, None), None, 0)]
+    uid = situations.register_entries(list(one))
+    assert situations.register_entries(list(one)) == uid
+    assert situations.register_entries(other) != uid
+    assert len(situations._ENTRIES) == before + 2
+
+
+def test_checking_every_page_again_with_a_new_site_keeps_no_new_entries(repeated_site,
+                                                                        monkeypatch):
+    """As ``mkdocs serve`` does after a stylesheet changed: a new Site, every page again."""
+    from tinctura import situations
+
+    named = []
+    monkeypatch.setattr(fragments, "register_entries",
+                        lambda entries: named.append(situations.register_entries(entries))
+                        or named[-1])
+    options = Options(keep_samples=False)
+    passes = []
+    for _ in range(2):
+        site = Site(str(repeated_site), options)
+        for rel in site.pages():
+            judge_page(site, rel, options, packed=True)
+        passes.append((set(named), len(situations._ENTRIES)))
+        named.clear()
+    (first, size), (second, size_after) = passes
+    assert first and second == first  # the new site's fragments named their entries again
+    assert size_after == size

@@ -162,6 +162,7 @@ def _rebased(spec: tuple, new_base: str):
 # page's own navigation section makes fragments of its own, which would otherwise be kept
 # here for the whole run (memory would grow with the pages).
 _ENTRIES: dict = {}  # uid -> a Placement's entries, pickled (small: kept for the whole run)
+_UID_OF: dict = {}  # pickled entries -> their uid here: equal entries are kept once
 _LIVE: dict = {}  # uid -> a Placement's entries, for the last ones used (bounded)
 _LIVE_LIMIT = 4096
 _TEMPLATES: dict = {}  # (pid, situation_id) -> (template, key): received from other processes
@@ -171,9 +172,15 @@ _uids = itertools.count(1)
 
 
 def register_entries(entries: list) -> tuple:
-    """A uid for a Placement's ``entries``, by which packed pages name them."""
-    uid = (os.getpid(), next(_uids))
-    _ENTRIES[uid] = pickle.dumps(entries, protocol=pickle.HIGHEST_PROTOCOL)
+    """A uid for a Placement's ``entries``, by which packed pages name them. Equal entries get
+    one uid: a fragment forgotten and recorded again (``fragments.Memo``), a navigation
+    section judged alike in two schemes, every page again after ``mkdocs serve`` saw a
+    stylesheet change."""
+    data = pickle.dumps(entries, protocol=pickle.HIGHEST_PROTOCOL)
+    uid = _UID_OF.get(data)
+    if uid is None or uid[0] != os.getpid():  # (a forked worker names its own)
+        uid = _UID_OF[data] = (os.getpid(), next(_uids))
+        _ENTRIES[uid] = data
     _live(uid, entries)
     return uid
 
