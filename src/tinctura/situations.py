@@ -161,7 +161,7 @@ def _rebased(spec: tuple, new_base: str):
 # which their own process knows, but for entries placed on one page so far, kept with it: a
 # page's own navigation section makes fragments of its own, which would otherwise be kept
 # here for the whole run (memory would grow with the pages).
-_ENTRIES: dict = {}  # uid -> a Placement's entries, pickled (small: kept for the whole run)
+_ENTRIES: dict = {}  # uid -> a Placement's entries, pickled (kept for the run; ``keep_entries``)
 _UID_OF: dict = {}  # pickled entries -> their uid here: equal entries are kept once
 _LIVE: dict = {}  # uid -> a Placement's entries, for the last ones used (bounded)
 _LIVE_LIMIT = 4096
