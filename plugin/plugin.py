@@ -17,7 +17,7 @@ from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
 
 from tinctura import baseline as baseline_mod
 from tinctura import config as config_mod
-from tinctura import engine, mkdocs_project, problems, rules
+from tinctura import engine, mkdocs_project, problems, rules, situations
 from tinctura import gate as gated
 from tinctura import palette as palette_mod
 from tinctura.report import messages as m
@@ -267,6 +267,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.after_pages()
         finally:
             self.release()
+            if self.command == "serve":  # (in-process: no worker has named entries)
+                situations.keep_entries(self.found.entry_uids())
 
     def on_build_error(self, *, error) -> None:
         self.release()

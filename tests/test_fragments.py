@@ -333,3 +333,31 @@ def test_checking_every_page_again_with_a_new_site_keeps_no_new_entries(repeated
     (first, size), (second, size_after) = passes
     assert first and second == first  # the new site's fragments named their entries again
     assert size_after == size
+
+
+def test_entries_no_kept_page_names_are_forgotten_and_registered_again(repeated_site):
+    """``mkdocs serve`` keeps its findings store between builds; after each build only the
+    entries its pages name are kept, and a fragment placed again names its entries anew."""
+    from tinctura import situations
+    from tinctura.report.store import FindingStore
+
+    options = Options(keep_samples=False)
+    site, store = Site(str(repeated_site), options), FindingStore()
+    pages = site.pages()
+    expected = {}
+    for rel in pages:
+        _, findings, _ = judge_page(site, rel, options, packed=True)
+        store.add(rel, findings)
+        expected[rel] = store.occurrences(rel)
+    named = store.entry_uids()
+    assert named  # the navigation's fragments were placed by uid
+    for rel in pages[1:]:
+        store.discard(rel)
+    situations.keep_entries(store.entry_uids())
+    kept = {uid for uid in named if situations.registered(uid)}
+    assert kept == store.entry_uids() and kept != named  # the others' entries went
+    assert store.occurrences(pages[0]) == expected[pages[0]]  # the kept page still reads them
+    for rel in pages[1:]:  # placed again: the fragments name their entries anew
+        _, findings, _ = judge_page(site, rel, options, packed=True)
+        store.add(rel, findings)
+        assert store.occurrences(rel) == expected[rel]

@@ -347,6 +347,20 @@ def test_serve_notices_a_changed_stylesheet(tmp_path, monkeypatch, caplog):
 
 
 @slow
+def test_serve_keeps_only_the_entries_its_pages_name(tmp_path):
+    """A serve session would otherwise keep the fragment entries of every page it ever
+    replaced (``situations.keep_entries``)."""
+    from tinctura import situations
+
+    config = serve_like(make_project(tmp_path))
+    stray = situations.register_entries([("/nowhere", -1, "gone", (0, None), None, 0)])
+    build(config)
+    assert not situations.registered(stray)
+    plugin = config.plugins["tinctura"]
+    assert set(situations._ENTRIES) <= plugin.found.entry_uids()
+
+
+@slow
 def test_worker_processes_give_the_same_log(tmp_path, caplog):
     """`mkdocs build` checks pages in worker processes while it renders; the result must be
     what checking in-process gives."""

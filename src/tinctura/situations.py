@@ -161,7 +161,7 @@ def _rebased(spec: tuple, new_base: str):
 # which their own process knows, but for entries placed on one page so far, kept with it: a
 # page's own navigation section makes fragments of its own, which would otherwise be kept
 # here for the whole run (memory would grow with the pages).
-_ENTRIES: dict = {}  # uid -> a Placement's entries, pickled (small: kept for the whole run)
+_ENTRIES: dict = {}  # uid -> a Placement's entries, pickled (kept for the run; ``keep_entries``)
 _UID_OF: dict = {}  # pickled entries -> their uid here: equal entries are kept once
 _LIVE: dict = {}  # uid -> a Placement's entries, for the last ones used (bounded)
 _LIVE_LIMIT = 4096
@@ -183,6 +183,25 @@ def register_entries(entries: list) -> tuple:
         _ENTRIES[uid] = data
     _live(uid, entries)
     return uid
+
+
+def registered(uid) -> bool:
+    """Whether this process still keeps the entries named ``uid`` (``keep_entries``)."""
+    return uid in _ENTRIES
+
+
+def keep_entries(uids) -> None:
+    """Forget the entries that no page kept names (``mkdocs serve``: pages replaced by later
+    builds would keep theirs for the whole session). A fragment whose entries went registers
+    them again when next placed (``fragments.Placement.named``). Not while another process
+    sends pages: it names what it sent once."""
+    keep = set(uids)
+    for data in [data for data, uid in _UID_OF.items() if uid not in keep]:
+        del _UID_OF[data]
+    for uid in [uid for uid in _ENTRIES if uid not in keep]:
+        del _ENTRIES[uid]
+    _LIVE.clear()
+    _SHIPPED_ENTRIES.intersection_update(keep)
 
 
 def _entries(named) -> list:
@@ -290,6 +309,11 @@ class PageFindings:
 
     __slots__ = ("page", "templates", "keys", "_records", "_packed", "_items", "encoded",
                  "_lazy", "_named", "names")
+
+    @property
+    def entry_uids(self) -> tuple:
+        """The uids of the entries its packed records name (``register_entries``)."""
+        return tuple(self._named)
 
     def __init__(self, page: str, templates: list, keys: list, records: list, packed=None,
                  encoded=None, lazy=None):

@@ -32,7 +32,7 @@ from itertools import islice
 from lxml import etree
 
 from ..model import Cause, Sample
-from ..situations import place_block, register_entries, situation_id
+from ..situations import place_block, register_entries, registered, situation_id
 
 _SAMPLE_FIELDS = operator.attrgetter(*(f.name for f in dataclasses.fields(Sample)))
 # Per style cache, least recently used first out: a site's pages come in navigation order, so
@@ -333,7 +333,7 @@ class Placement:
         if not self.placed:
             self.placed = True
             return self.entries
-        if self.uid is None:
+        if self.uid is None or not registered(self.uid):
             self.uid = register_entries(self.entries)
         return self.uid
 

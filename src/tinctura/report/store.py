@@ -42,6 +42,7 @@ class FindingStore:
         # page -> [(offset, length, template mapping or None, encoded length or None,
         # occurrences per template index in first-seen order)], in run order
         self._where = {}
+        self._uids = {}  # page -> uids of the fragment entries its packed records name
         self._size = 0
         self._live = 0  # bytes of the file that pages still use (the rest: pages checked again)
         self._ids = {}  # situations.finding_key -> situation number
@@ -152,6 +153,8 @@ class FindingStore:
             self._where.setdefault(page, [])
             self._count(page, per_situation, sum(counts), 1)
             return per_situation
+        if findings.entry_uids:  # (a page may be kept in several parts)
+            self._uids[page] = self._uids.get(page, ()) + findings.entry_uids
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
         encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
         self._write(page, data, mapping, per_situation, sum(counts), encoded,
@@ -183,6 +186,11 @@ class FindingStore:
             for name in [k for k, v in counter.items() if v <= 0]:
                 del counter[name]
 
+    def entry_uids(self) -> set:
+        """The uids of the fragment entries that the pages kept name
+        (``situations.keep_entries``)."""
+        return set().union(*self._uids.values())
+
     def replace(self, page: str, findings) -> list:
         """``add`` for a page checked again (``mkdocs serve``): its earlier findings go."""
         self.discard(page)
@@ -194,6 +202,7 @@ class FindingStore:
             self._count(page, Counter(r[0] for r in records), len(records), -1)
             self._live -= sum(length + (size or 0) for _, length, _, size, _ in self._where[page])
             del self._where[page]
+            self._uids.pop(page, None)
             self._file.seek(0, 2)
             if self._file.tell() - self._live > max(self._live, COMPACT_AFTER_BYTES):
                 self._compact()
