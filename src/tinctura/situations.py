@@ -178,7 +178,7 @@ def register_entries(entries: list) -> tuple:
     stylesheet change."""
     data = pickle.dumps(entries, protocol=pickle.HIGHEST_PROTOCOL)
     uid = _UID_OF.get(data)
-    if uid is None or uid[0] != os.getpid():  # (a forked worker names its own)
+    if uid is None:  # (a forked worker may name its parent's: it sends what it names once)
         uid = _UID_OF[data] = (os.getpid(), next(_uids))
         _ENTRIES[uid] = data
     _live(uid, entries)

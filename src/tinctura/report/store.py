@@ -153,8 +153,9 @@ class FindingStore:
             self._where.setdefault(page, [])
             self._count(page, per_situation, sum(counts), 1)
             return per_situation
-        if findings.entry_uids:  # (a page may be kept in several parts)
-            self._uids[page] = self._uids.get(page, ()) + findings.entry_uids
+        uids = findings.entry_uids
+        if uids:  # (a page may be kept in several parts)
+            self._uids[page] = self._uids.get(page, ()) + uids
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
         encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
         self._write(page, data, mapping, per_situation, sum(counts), encoded,
