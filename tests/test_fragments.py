@@ -361,3 +361,28 @@ def test_entries_no_kept_page_names_are_forgotten_and_registered_again(repeated_
         _, findings, _ = judge_page(site, rel, options, packed=True)
         store.add(rel, findings)
         assert store.occurrences(rel) == expected[rel]
+
+
+def test_finder_resolves_as_resolve_does_with_positions_counting_comments():
+    # fragments._Finder indexes each parent's children once; ``resolve`` counts along them
+    # for each step. Same element for every path (a missing step gives the start, as
+    # ``resolve`` does), and the child positions lead to it with comments counted (lxml's
+    # ``el[i]``, which Placement.lines indexes by)
+    from lxml import etree
+
+    root = etree.fromstring(
+        "<div><!-- c --><p>a</p><pre><code><!-- x --><span>1</span><b/><span>2</span>"
+        "<span>3</span></code></pre><p>b</p></div>")
+    finder = fragments._Finder()
+    paths = ["", "p", "p[2]", "pre/code/span[3]", "pre/code/span", "pre/code/b",
+             "pre/code/span[4]", "pre/nope/span", "p[3]"]
+    for rel in paths:
+        el, where = finder.at((root, ()), rel)
+        assert el is fragments.resolve(root, rel)
+        reached = root
+        for i in where:
+            reached = reached[i]
+        assert reached is el
+    inner = finder.at((root, ()), "pre/code")
+    assert finder.at(inner, "span[2]")[0] is fragments.resolve(root, "pre/code/span[2]")
+    assert finder.at(inner, "em")[0] is inner[0]  # missing below a start: the start

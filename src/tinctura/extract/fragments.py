@@ -285,7 +285,7 @@ class Placement:
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
         ``anchor``: the root element of one replay of the fragment."""
-        top = Stamp("", "", anchor, "")
+        find = _Finder()
         nested, slots = {}, {}
         self.positions = []  # child positions below the anchor, one per distinct element
         # (relative XPath, line slot, text, inherited, layers, group): ``group`` indexes
@@ -296,11 +296,11 @@ class Placement:
             sample = finding.sample
             inner = nested.get(rel)
             if inner is None:
-                inner = nested[rel] = top.within(rel)
+                inner = nested[rel] = find.at((anchor, ()), rel.split("::")[0])
             below = sample.xpath[len(old_base):]
             slot = -1
             if sample.line:
-                where = _positions(anchor, resolve(inner.anchor, below.split("::")[0]))
+                where = find.at(inner, below.split("::")[0])[1]
                 slot = slots.get(where)
                 if slot is None:
                     slot = slots[where] = len(self.positions)
@@ -363,14 +363,51 @@ def _groups(situations) -> list:
     return [(entries[0], tuple(entries)) for entries in by_sid.values()]
 
 
-def _positions(anchor, el) -> tuple:
-    """Child positions leading from ``anchor`` down to ``el`` (a descendant or itself)."""
-    out = []
-    while el is not anchor:
-        parent = el.getparent()
-        out.append(parent.index(el))
-        el = parent
-    return tuple(reversed(out))
+class _Finder:
+    """``resolve`` for many relative XPaths below one anchor, with the child positions
+    (comments included) that lead to each element. Each parent's children are indexed once
+    and each path's parent resolved once, where ``resolve`` counts along the children for
+    every step (a highlighted code block has hundreds of spans, each a finding's element)."""
+
+    __slots__ = ("_children", "_paths")
+
+    def __init__(self):
+        self._children = {}  # parent -> {(tag, n): (child, position)}
+        self._paths = {}  # (start element, relative XPath) -> (element, positions) or None
+
+    def at(self, start: tuple, rel: str) -> tuple:
+        """``(element, positions)`` at ``rel`` below ``start`` (the same pair), or ``start``
+        itself where a step is missing, as ``resolve`` answers."""
+        return self._at(start, rel.strip("/")) or start
+
+    def _at(self, start: tuple, rel: str):
+        if not rel:
+            return start
+        known = self._paths.get((start[0], rel))
+        if known is not None or (start[0], rel) in self._paths:
+            return known
+        head, _, step = rel.rpartition("/")
+        parent = self._at(start, head)
+        found = None
+        if parent is not None:
+            tag, _, index = step.partition("[")
+            child = self._of(parent[0]).get((tag, int(index[:-1]) if index else 1))
+            if child is not None:
+                found = (child[0], parent[1] + (child[1],))
+        self._paths[(start[0], rel)] = found
+        return found
+
+    def _of(self, parent) -> dict:
+        known = self._children.get(parent)
+        if known is None:
+            known, counts = {}, {}
+            for position, child in enumerate(parent):
+                tag = child.tag
+                if isinstance(tag, str):
+                    n = counts[tag] = counts.get(tag, 0) + 1
+                    known[(tag, n)] = (child, position)
+            self._children[parent] = known
+        return known
 
 
 def _rebaser(xpath, old_base: str, rel: str) -> tuple:
