@@ -57,3 +57,55 @@ def test_one_variable_many_pages_is_one_problem_per_background(tmp_path):
     assert fixed_css != CSS
     report, found = _problems(_site(tmp_path, fixed_css))
     assert report.findings == [] and found == []
+
+
+HEADER = """<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head><body>
+<header class="bar"><span class="title">Sluice handbook {n}</span>
+<a class="tab" href="#">Home</a></header>
+<div class="band"><a class="tab" href="#">Faded only</a></div>
+</body></html>"""
+HEADER_CSS = """:root { --bar-ink: #ffffff; --bar-bg: #009485; }
+.bar { color: var(--bar-ink); background: var(--bar-bg); }
+.band { color: var(--bar-ink); background: #5a5a5a; }
+.tab { color: inherit; opacity: .7; }
+"""
+
+
+def test_a_problem_whose_worst_text_is_faded_says_what_the_unfaded_ones_need(tmp_path):
+    # white on #009485 is 3.76:1 unfaded (WCAG 2 formula; fails 4.5:1), and the tab faded to
+    # 70 % fails further: one problem (one cause, one background), its worst faded. Raising
+    # the opacity fixes the tab only; the title needs a colour or background change too. On
+    # the grey band only faded text fails: its fix raises the opacity, and nothing more.
+    import io
+
+    from tinctura import cli
+
+    (tmp_path / "site.css").write_text(HEADER_CSS)
+    for n in range(3):
+        (tmp_path / f"p{n}").mkdir()
+        (tmp_path / f"p{n}" / "index.html").write_text(HEADER.format(n=n))
+    out = tmp_path / "report.txt"
+    cli.main(["check", str(tmp_path), "--no-config", "--jobs", "1", "--select", "TC100",
+              "--fail-on", "never", "--format", f"text:{out}"], stdout=io.StringIO(),
+             stderr=io.StringIO())
+    text = " ".join(out.read_text().split())
+    teal = text[text.index("on teal"):]
+    teal = teal[:teal.index("Detail:")]
+    assert "raise (or remove) the opacity" in teal
+    assert "Texts of this problem that no opacity fades fail too (3.76:1 at worst, " \
+           "\"Sluice handbook 0\")" in teal
+    grey = text[text.index("link text on grey"):]
+    grey = grey[:grey.index("Detail:")]
+    assert "opacity: 0.75;" in grey and "no opacity fades" not in grey  # (verified here)
+    # the auditor's report says it too, at the cause
+    html = tmp_path / "report.html"
+    cli.main(["check", str(tmp_path), "--no-config", "--jobs", "1", "--select", "TC100",
+              "--fail-on", "never", "--format", f"html:{html}"], stdout=io.StringIO(),
+             stderr=io.StringIO())
+    page = " ".join(html.read_text().split())
+    assert "the element around the text that fades it; texts of this problem that no opacity " \
+           "fades fail too (3.76:1 at worst):" in page
+    # the same from grouped findings (problems.group) as from the Collector
+    report, found = _problems(tmp_path)
+    by_bg = {to_hex(p.worst.sample.bg): p for p in found}
+    assert to_hex(by_bg["#009485"].worst_unfaded.sample.fg) == "#ffffff"

@@ -21,7 +21,7 @@ from typing import Optional
 from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
 from tinctura.mkdocs_project import owned
-from tinctura.problems import _quantize, target_declaration
+from tinctura.problems import _quantize, faded, target_declaration  # noqa: F401 (faded: re-exported)
 
 DEFAULT_FILE = "stylesheets/colour-fixes.css"  # when the site has no stylesheet of its own
 _COLOUR_PROPS = ("background-color", "background")
@@ -282,18 +282,6 @@ def _least_opacity(finding, current: float, others: float, required: float):
         if contrast_ratio(seen, tuple(s.bg)) >= required:
             return value
     return None
-
-
-def faded(finding) -> bool:
-    """True when the text is fainter than its colour over its background: an ancestor's
-    opacity fades it (a translucent colour alone composites to exactly what is seen)."""
-    from tinctura.colour.composite import over
-
-    s = finding.sample
-    if s.fg_raw is None or s.fg is None or s.bg is None:
-        return False
-    seen = over(tuple(s.fg_raw), tuple(s.bg))[:3]
-    return max(abs(a - b) for a, b in zip(seen, s.fg)) > 2 / 255
 
 
 def _context_for(contexts, scheme, finding):

@@ -78,6 +78,8 @@ class Problem:
     # scheme name -> SchemeFigures, in the order the schemes were met
     schemes: dict = field(default_factory=dict)
     override: Optional[object] = None  # overrides.Override: the fix as the site's own CSS
+    # built by a Collector: the worst finding whose text no opacity fades (``faded``)
+    unfaded_finding: Optional[Finding] = None
 
     @property
     def scheme_names(self) -> list:
@@ -93,9 +95,31 @@ class Problem:
             return self.worst_finding
         return min(self.findings, key=lambda f: f.ratio)
 
+    @property
+    def worst_unfaded(self) -> Optional[Finding]:
+        """The worst finding whose text no ancestor's opacity fades, or None: a problem
+        groups texts by the declarations that colour them, faded or not, and where the worst
+        is faded, raising the opacity does not fix the others."""
+        if self.count is not None:
+            return self.unfaded_finding
+        return min((f for f in self.findings if not faded(f)), key=lambda f: f.ratio,
+                   default=None)
+
     def example_pool(self) -> list:
         """The findings examples are chosen from, in report order."""
         return self.findings if self.candidates is None else self.candidates
+
+
+def faded(finding) -> bool:
+    """True when the text is fainter than its colour over its background: an ancestor's
+    opacity fades it (a translucent colour alone composites to exactly what is seen)."""
+    from tinctura.colour.composite import over
+
+    s = finding.sample
+    if s.fg_raw is None or s.fg is None or s.bg is None:
+        return False
+    seen = over(tuple(s.fg_raw), tuple(s.bg))[:3]
+    return max(abs(a - b) for a, b in zip(seen, s.fg)) > 2 / 255
 
 
 def cause_key(cause: Optional[Cause]) -> tuple:
@@ -263,6 +287,9 @@ class Collector:
             p.severity = finding.severity
         if finding.ratio < p.worst_finding.ratio:
             p.worst_finding = finding
+        if (p.unfaded_finding is None or finding.ratio < p.unfaded_finding.ratio) \
+                and not faded(finding):
+            p.unfaded_finding = finding
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
         self._note_page(progress, p, finding.sample.page, lambda: finding)

@@ -15,7 +15,7 @@ from html import escape
 
 from tinctura import distribution
 from tinctura.colour import wcag
-from tinctura.problems import target_declaration
+from tinctura.problems import faded, target_declaration
 
 from . import audit, charts, swatch
 from .appearance import is_appearance
@@ -371,6 +371,15 @@ class HtmlFormatter(Formatter):
 
     def fix_text(self, p, worst) -> str:
         lines = cause_fix_lines(p.fix_at_cause)
+        if faded(worst):  # an ancestor's opacity fades it: no colour undoes that
+            opacity = "raise (or remove) the opacity of the element around the text that fades it"
+            unfaded = getattr(p, "worst_unfaded", None)
+            if unfaded is None:
+                return e(opacity + ".")
+            rest = "<br>".join(prose(line.strip()) for line in lines) if lines else e(
+                "no single-colour change reaches the ratio; change both colours")
+            return (e(f"{opacity}; texts of this problem that no opacity fades fail too "
+                      f"({m.measured(unfaded)} at worst):") + "<br>" + rest)
         if not lines:
             other = m.fixes(worst)
             return e(f"for this occurrence: {other}" if other else "no single-colour change "

@@ -320,18 +320,42 @@ def fix_lines(problem) -> list:
     override = getattr(problem, "override", None)
     if override is None and faded(problem.worst):  # the fading element was not found
         return [(1, "Fix: raise (or remove) the opacity of the element around the text that "
-                    "fades it, rather than change the text colour.", "green", True)]
+                    "fades it, rather than change the text colour.", "green", True)] + \
+            unfaded_lines(problem)
     if override is None:
-        fix = problem.fix_at_cause
-        if fix is not None and not fix.possible and not any(c.colour for c in fix.contexts):
-            return [(1, "Fix: no text colour of this hue on the same side of the background "
-                        "reaches the ratio; change the background or both colours.", "green",
-                     True)]
-        lines = cause_fix_lines(fix)
-        if not lines:
-            return []
-        return [(1, "Fix: " + lines[0].replace("fix at the cause: ", ""), "green", True)] + [
-            (2, line.strip(), "green", True) for line in lines[1:]]
+        return cause_fix(problem)
+    return override_lines(override) + (unfaded_lines(problem) if faded(problem.worst) else [])
+
+
+def cause_fix(problem) -> list:
+    """The fix at the cause (the declaration to change), as ``fix_lines`` gives it."""
+    fix = problem.fix_at_cause
+    if fix is not None and not fix.possible and not any(c.colour for c in fix.contexts):
+        return [(1, "Fix: no text colour of this hue on the same side of the background "
+                    "reaches the ratio; change the background or both colours.", "green",
+                 True)]
+    lines = cause_fix_lines(fix)
+    if not lines:
+        return []
+    return [(1, "Fix: " + lines[0].replace("fix at the cause: ", ""), "green", True)] + [
+        (2, line.strip(), "green", True) for line in lines[1:]]
+
+
+def unfaded_lines(problem) -> list:
+    """Where the worst text is faded by an opacity and others of the problem fail unfaded:
+    what those need (raising the opacity leaves them failing)."""
+    other = getattr(problem, "worst_unfaded", None)
+    if other is None:
+        return []
+    rest = cause_fix(problem)
+    head = (f"Texts of this problem that no opacity fades fail too ({m.measured(other)} at "
+            f"worst, \"{m.excerpt(other.sample.text)}\")" + (":" if rest else "."))
+    return [(2, head, None, True)] + [(3, text.replace("Fix: ", "", 1), style, wrap)
+                                      for _, text, style, wrap in rest]
+
+
+def override_lines(override) -> list:
+    """The override's heading, note and CSS."""
     if override.verified:
         head = f"Fix: add to {override.where} (checked again with it applied: it passes):"
     elif override.verified is None:
