@@ -72,7 +72,8 @@ HEADER_CSS = """:root { --bar-ink: #ffffff; --bar-bg: #009485; }
 
 
 def test_a_problem_whose_worst_text_is_faded_says_what_the_unfaded_ones_need(tmp_path):
-    # white on #009485 is 3.76:1 unfaded (WCAG 2 formula; fails 4.5:1), and the tab faded to
+    # white on #009485 is 3.767:1 unfaded (WCAG 2 relative luminance and contrast ratio,
+    # computed by hand: L = 0.2287; reports floor it to 3.76), and the tab faded to
     # 70 % fails further: one problem (one cause, one background), its worst faded. Raising
     # the opacity fixes the tab only; the title needs a colour or background change too. On
     # the grey band only faded text fails: its fix raises the opacity, and nothing more.

@@ -21,7 +21,7 @@ from typing import Optional
 from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
 from tinctura.mkdocs_project import owned
-from tinctura.problems import _quantize, faded, target_declaration  # noqa: F401 (faded: re-exported)
+from tinctura.problems import _quantize, faded, target_declaration
 
 DEFAULT_FILE = "stylesheets/colour-fixes.css"  # when the site has no stylesheet of its own
 _COLOUR_PROPS = ("background-color", "background")

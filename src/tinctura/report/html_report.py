@@ -378,8 +378,7 @@ class HtmlFormatter(Formatter):
                 return e(opacity + ".")
             rest = "<br>".join(prose(line.strip()) for line in lines) if lines else e(
                 "no single-colour change reaches the ratio; change both colours")
-            return (e(f"{opacity}; texts of this problem that no opacity fades fail too "
-                      f"({m.measured(unfaded)} at worst):") + "<br>" + rest)
+            return e(f"{opacity}; {m.unfaded_too(unfaded)}):") + "<br>" + rest
         if not lines:
             other = m.fixes(worst)
             return e(f"for this occurrence: {other}" if other else "no single-colour change "

@@ -122,6 +122,12 @@ def measured(finding: Finding) -> str:
     return measure(finding).split(", needs")[0]
 
 
+def unfaded_too(finding: Finding) -> str:
+    """Said of a problem whose worst text is faded by an opacity, of ``finding``, its worst
+    text that nothing fades: raising the opacity leaves it failing."""
+    return f"texts of this problem that no opacity fades fail too ({measured(finding)} at worst"
+
+
 def finding_colours(finding: Finding) -> tuple:
     """(fg, bg) the finding was judged on: the worst background when there were several."""
     s = finding.sample

@@ -348,8 +348,9 @@ def unfaded_lines(problem) -> list:
     if other is None:
         return []
     rest = cause_fix(problem)
-    head = (f"Texts of this problem that no opacity fades fail too ({m.measured(other)} at "
-            f"worst, \"{m.excerpt(other.sample.text)}\")" + (":" if rest else "."))
+    said = m.unfaded_too(other)
+    head = f"{said[0].upper()}{said[1:]}, \"{m.excerpt(other.sample.text)}\")" + \
+        (":" if rest else ".")
     return [(2, head, None, True)] + [(3, text.replace("Fix: ", "", 1), style, wrap)
                                       for _, text, style, wrap in rest]
 
