@@ -184,3 +184,28 @@ def test_stylesheet_parsing_is_total_and_chunks_change_nothing(pieces, chunk, jo
                 sheet.layer_names)
 
     assert shape(chunked) == shape(whole)
+
+
+@pytest.mark.parametrize("css", [
+    "\\{url(a{b)p{color:red}p{color:red}",  # `\{url(` is a function (found by the test above)
+    "xurl(a{b)p{color:red}p{color:red}",  # a longer name: a function too
+    "#url(a b{c).}}}p{color:red}p{color:red}",  # a hash, then an open ( block
+    "5url(a{b)p{color:red}p{color:red}",  # a dimension, then a ( block
+    "\\31 url(a{b)p{color:red}p{color:red}",  # a hex escape and its space, then more name
+    "<!--url(a{b)p{color:red}p{color:red}",  # after <!--: a url
+    "url(a\\)b{c)p{color:red}p{color:red}",  # an escaped ) inside a url
+    "url(a\"b{c)p{color:red}p{color:red}",  # a bad url runs to its )
+    'p{background:url( "a)b{" )}p{color:red}p{color:red}',  # a quoted url is a string
+    "a(b{c}d)p{color:red}p{color:red}",  # a } inside an open ( block closes nothing
+    "[a{b}]p{color:red}p{color:red}",
+])
+def test_chunks_are_cut_where_tinycss2_ends_a_top_level_rule(css):
+    # the whole parse is tinycss2's reading; cut into the smallest chunks, the same rules
+    whole = parse_stylesheet(css, "s.css")
+    chunked = sheet_mod.ParsedSheet("s.css")
+    sheet_mod.parse_chunks(css, chunked, size=1)
+    assert [(r.selector_text, [(d.name, d.text, d.line, d.column) for d in r.decls])
+            for r in chunked.rules] == \
+        [(r.selector_text, [(d.name, d.text, d.line, d.column) for d in r.decls])
+         for r in whole.rules]
+    assert chunked.errors == whole.errors

@@ -192,10 +192,21 @@ def parse_chunks(css: str, sheet: ParsedSheet, origin: str = "author",
     sheet.line_offset = sheet.column_shift = 0
 
 
-# What can hide a brace from the top-level structure: comments, strings (a bad string ends at
-# its newline, as in CSS Syntax 3), escapes and unquoted url()s; and the braces themselves.
-_STRUCTURE = re.compile(r"""/\*[\s\S]*?(?:\*/|\Z)|"(?:[^"\\\n]|\\[\s\S])*"?"""
-                        r"""|'(?:[^'\\\n]|\\[\s\S])*'?|\\[\s\S]|(?i:url)\([^)"']*\)?|[{}]""")
+# What can hide a bracket from the top-level structure: comments, strings (a bad string ends
+# at its newline, as in CSS Syntax 3), escapes and unquoted url()s; and the brackets themselves
+# (a `}` inside an open `(` block closes nothing, as in tinycss2).
+# An escape takes the rest of its name with it: `\{url(` is the function `{url(`, not a url,
+# and so are `xurl(`, `#url(` and `5url(` (tinycss2 tokenizes them so: a url token is `url(`
+# alone, unquoted; a bad one, with a quote or a space inside, runs to its `)` as well).
+_ESCAPE = r"\\(?:[0-9a-fA-F]{1,6}[ \t\n]?|[^\n0-9a-fA-F])"
+_NAME = r"[\w\-\x00\x80-\U0010ffff]"
+_STRUCTURE = re.compile(
+    r"""/\*[\s\S]*?(?:\*/|\Z)|"(?:[^"\\\n]|\\[\s\S])*"?|'(?:[^'\\\n]|\\[\s\S])*'?"""
+    rf"|{_ESCAPE}(?:{_NAME}|{_ESCAPE})*|\\\n"
+    r"""|(?:(?<=<!--)|(?<![\w\-\x00\x80-\U0010ffff#@]))(?i:url)\((?![ \t\n]*["'])"""
+    r"(?:[^)\\]|\\[^\n])*\)?"
+    r"|[{}()\[\]]")
+_CLOSES = {"{": "}", "(": ")", "[": "]"}
 
 
 def _chunks(css: str, size: int = CHUNK_CHARS):
@@ -209,14 +220,15 @@ def _chunks(css: str, size: int = CHUNK_CHARS):
     if len(css) <= size:
         yield 0, 0, css
         return
-    depth, start, lines, line_start = 0, 0, 0, 0
+    open_, start, lines, line_start = [], 0, 0, 0  # the closers of the blocks open, innermost last
     for m in _STRUCTURE.finditer(css):
         char = m.group()
-        if char == "{":
-            depth += 1
-        elif char == "}" and depth:  # a stray top-level } is part of the next prelude
-            depth -= 1
-            if not depth and m.end() - start >= size:
+        closer = _CLOSES.get(char)
+        if closer is not None:
+            open_.append(closer)
+        elif open_ and char == open_[-1]:  # any other closer is a token of the block it is in
+            open_.pop()
+            if not open_ and char == "}" and m.end() - start >= size:
                 yield lines, start - line_start, css[start:m.end()]
                 lines += css.count("\n", start, m.end())
                 line_start = css.rfind("\n", start, m.end()) + 1 or line_start
