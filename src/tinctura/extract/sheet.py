@@ -199,11 +199,12 @@ def parse_chunks(css: str, sheet: ParsedSheet, origin: str = "author",
 # and so are `xurl(`, `#url(` and `5url(` (tinycss2 tokenizes them so: a url token is `url(`
 # alone, unquoted; a bad one, with a quote or a space inside, runs to its `)` as well).
 _ESCAPE = r"\\(?:[0-9a-fA-F]{1,6}[ \t\n]?|[^\n0-9a-fA-F])"
-_NAME = r"[\w\-\x00\x80-\U0010ffff]"
+_NAME_CHARS = r"\w\-\x00\x80-\U0010ffff"  # what continues a name (U+0000 reads as U+FFFD)
+_NAME = rf"[{_NAME_CHARS}]"
 _STRUCTURE = re.compile(
     r"""/\*[\s\S]*?(?:\*/|\Z)|"(?:[^"\\\n]|\\[\s\S])*"?|'(?:[^'\\\n]|\\[\s\S])*'?"""
     rf"|{_ESCAPE}(?:{_NAME}|{_ESCAPE})*|\\\n"
-    r"""|(?:(?<=<!--)|(?<![\w\-\x00\x80-\U0010ffff#@]))(?i:url)\((?![ \t\n]*["'])"""
+    rf"|(?:(?<=<!--)|(?<![{_NAME_CHARS}#@]))(?i:url)\((?![ \t\n]*[\"'])"
     r"(?:[^)\\]|\\[^\n])*\)?"
     r"|[{}()\[\]]")
 _CLOSES = {"{": "}", "(": ")", "[": "]"}

@@ -372,13 +372,12 @@ class HtmlFormatter(Formatter):
     def fix_text(self, p, worst) -> str:
         lines = cause_fix_lines(p.fix_at_cause)
         if faded(worst):  # an ancestor's opacity fades it: no colour undoes that
-            opacity = "raise (or remove) the opacity of the element around the text that fades it"
             unfaded = getattr(p, "worst_unfaded", None)
             if unfaded is None:
-                return e(opacity + ".")
+                return e(m.RAISE_OPACITY + ".")
             rest = "<br>".join(prose(line.strip()) for line in lines) if lines else e(
                 "no single-colour change reaches the ratio; change both colours")
-            return e(f"{opacity}; {m.unfaded_too(unfaded)}):") + "<br>" + rest
+            return e(f"{m.RAISE_OPACITY}; {m.unfaded_too(unfaded)}:") + "<br>" + rest
         if not lines:
             other = m.fixes(worst)
             return e(f"for this occurrence: {other}" if other else "no single-colour change "

@@ -122,10 +122,16 @@ def measured(finding: Finding) -> str:
     return measure(finding).split(", needs")[0]
 
 
-def unfaded_too(finding: Finding) -> str:
+RAISE_OPACITY = "raise (or remove) the opacity of the element around the text that fades it"
+
+
+def unfaded_too(finding: Finding, quoted: bool = False) -> str:
     """Said of a problem whose worst text is faded by an opacity, of ``finding``, its worst
-    text that nothing fades: raising the opacity leaves it failing."""
-    return f"texts of this problem that no opacity fades fail too ({measured(finding)} at worst"
+    text that nothing fades: raising the opacity leaves it failing (``quoted``: with its
+    text)."""
+    text = f', "{excerpt(finding.sample.text)}"' if quoted else ""
+    return (f"texts of this problem that no opacity fades fail too ({measured(finding)} at "
+            f"worst{text})")
 
 
 def finding_colours(finding: Finding) -> tuple:

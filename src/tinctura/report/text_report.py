@@ -319,8 +319,8 @@ def fix_lines(problem) -> list:
     """The fix as CSS for the site's own stylesheet, or why there is none."""
     override = getattr(problem, "override", None)
     if override is None and faded(problem.worst):  # the fading element was not found
-        return [(1, "Fix: raise (or remove) the opacity of the element around the text that "
-                    "fades it, rather than change the text colour.", "green", True)] + \
+        return [(1, f"Fix: {m.RAISE_OPACITY}, rather than change the text colour.", "green",
+                 True)] + \
             unfaded_lines(problem)
     if override is None:
         return cause_fix(problem)
@@ -348,9 +348,8 @@ def unfaded_lines(problem) -> list:
     if other is None:
         return []
     rest = cause_fix(problem)
-    said = m.unfaded_too(other)
-    head = f"{said[0].upper()}{said[1:]}, \"{m.excerpt(other.sample.text)}\")" + \
-        (":" if rest else ".")
+    said = m.unfaded_too(other, quoted=True)
+    head = f"{said[0].upper()}{said[1:]}" + (":" if rest else ".")
     return [(2, head, None, True)] + [(3, text.replace("Fix: ", "", 1), style, wrap)
                                       for _, text, style, wrap in rest]
 
