@@ -182,3 +182,21 @@ def test_how_to_add_the_written_file(tmp_path):
     project.extra_css.append("stylesheets/colour-fixes.css")
     again = how_to_add(str(docs / "stylesheets" / "colour-fixes.css"), project)
     assert again.startswith("docs/stylesheets/colour-fixes.css is listed in extra_css already")
+
+
+def test_least_opacity_over_an_overrides_new_colours():
+    from dataclasses import replace
+
+    from tinctura.overrides import _least_opacity
+
+    # white text in an element at opacity 0.7 over #009485 (seen #b3dfda). Even unfaded,
+    # white on #009485 is 3.77:1 (WCAG 2 formula, by hand), so no opacity reaches 4.5:1.
+    sample = replace(make_sample("#b3dfda", "#009485"), fg_raw=(1.0, 1.0, 1.0, 1.0))
+    (finding,) = run([sample], Options(rules=("TC100",)))
+    assert _least_opacity(finding, 0.7, 1.0, 4.5) is None
+    # over a new black background the faded white (#b3b3b3) is 9.96:1 already (by hand:
+    # L = 0.451): nothing to raise
+    assert _least_opacity(finding, 0.7, 1.0, 4.5, bg=(0.0, 0.0, 0.0)) == 0.0
+    # over a new #008578 (white on it 4.54:1, by hand) at 0.95 it is 4.25:1: only 1 passes
+    bg = tuple(int("008578"[i:i + 2], 16) / 255 for i in (0, 2, 4))
+    assert _least_opacity(finding, 0.7, 1.0, 4.5, bg=bg) == 1.0

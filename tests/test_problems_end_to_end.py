@@ -71,42 +71,72 @@ HEADER_CSS = """:root { --bar-ink: #ffffff; --bar-bg: #009485; }
 """
 
 
-def test_a_problem_whose_worst_text_is_faded_says_what_the_unfaded_ones_need(tmp_path):
-    # white on #009485 is 3.767:1 unfaded (WCAG 2 relative luminance and contrast ratio,
-    # computed by hand: L = 0.2287; reports floor it to 3.76), and the tab faded to
-    # 70 % fails further: one problem (one cause, one background), its worst faded. Raising
-    # the opacity fixes the tab only; the title needs a colour or background change too. On
-    # the grey band only faded text fails: its fix raises the opacity, and nothing more.
+def _header_site(path, css=HEADER_CSS):
+    (path / "site.css").write_text(css)
+    for n in range(3):
+        (path / f"p{n}").mkdir(exist_ok=True)
+        (path / f"p{n}" / "index.html").write_text(HEADER.format(n=n))
+    return path
+
+
+def _header_check(path, fmt):
     import io
 
     from tinctura import cli
 
-    (tmp_path / "site.css").write_text(HEADER_CSS)
-    for n in range(3):
-        (tmp_path / f"p{n}").mkdir()
-        (tmp_path / f"p{n}" / "index.html").write_text(HEADER.format(n=n))
-    out = tmp_path / "report.txt"
-    cli.main(["check", str(tmp_path), "--no-config", "--jobs", "1", "--select", "TC100",
-              "--fail-on", "never", "--format", f"text:{out}"], stdout=io.StringIO(),
+    out = path.parent / f"report.{fmt}"
+    cli.main(["check", str(path), "--no-config", "--jobs", "1", "--select", "TC100",
+              "--fail-on", "never", "--format", f"{fmt}:{out}"], stdout=io.StringIO(),
              stderr=io.StringIO())
-    text = " ".join(out.read_text().split())
-    teal = text[text.index("on teal"):]
-    teal = teal[:teal.index("Detail:")]
-    assert "raise (or remove) the opacity" in teal
-    assert "Texts of this problem that no opacity fades fail too (3.76:1 at worst, " \
-           "\"Sluice handbook 0\")" in teal
-    grey = text[text.index("link text on grey"):]
-    grey = grey[:grey.index("Detail:")]
-    assert "opacity: 0.75;" in grey and "no opacity fades" not in grey  # (verified here)
-    # the auditor's report says it too, at the cause
-    html = tmp_path / "report.html"
-    cli.main(["check", str(tmp_path), "--no-config", "--jobs", "1", "--select", "TC100",
-              "--fail-on", "never", "--format", f"html:{html}"], stdout=io.StringIO(),
-             stderr=io.StringIO())
-    page = " ".join(html.read_text().split())
+    return out.read_text()
+
+
+def test_a_problem_whose_worst_text_is_faded_gets_a_fix_for_the_unfaded_ones_too(tmp_path):
+    # white on #009485 is 3.767:1 unfaded (WCAG 2 relative luminance and contrast ratio,
+    # computed by hand: L = 0.2287; reports floor it to 3.76), and the tab faded to
+    # 70 % fails further: one problem (one cause, one background), its worst faded. Raising
+    # the opacity fixes the tab only; the title needs a colour or background change too, and
+    # the tab then the opacity its new colours need. On the grey band only faded text fails:
+    # its fix raises the opacity, and nothing more.
+    import json
+
+    from wcag_reference import ratio
+
+    (tmp_path / "site").mkdir()
+    site = _header_site(tmp_path / "site")
+    teal, grey = sorted(json.loads(_header_check(site, "json"))["problems"],
+                        key=lambda p: p["worst_ratio"])
+    assert teal["fix"]["verified"] and grey["fix"]["verified"]
+    assert "opacity" in teal["fix"]["css"] and "--bar-bg: #" in teal["fix"]["css"]
+    new_bg = teal["fix"]["css"].split("--bar-bg: ")[1][:7]
+    assert ratio("#ffffff", new_bg) >= 4.5  # the title, unfaded (WCAG 2.2 formula)
+    assert grey["fix"]["css"] == ".tab {\n  opacity: 0.75;\n}\n"
+    text = " ".join(_header_check(site, "text").split())
+    assert "no opacity fades" not in text  # the fix covers them: no advice beside it
+    # the auditor's report says at the cause what the unfaded texts need
+    page = " ".join(_header_check(site, "html").split())
     assert "the element around the text that fades it; texts of this problem that no opacity " \
            "fades fail too (3.76:1 at worst):" in page
-    # the same from grouped findings (problems.group) as from the Collector
-    report, found = _problems(tmp_path)
+    # applied to the site's stylesheet (the teal problem's CSS first, as combined), the whole
+    # site checked again passes
+    _header_site(site, HEADER_CSS + teal["fix"]["css"] + ".band .tab { opacity: 0.75; }\n")
+    assert json.loads(_header_check(site, "json"))["problems"] == []
+    # the same unfaded worst from grouped findings (problems.group) as from the Collector
+    _header_site(site)
+    report, found = _problems(site)
     by_bg = {to_hex(p.worst.sample.bg): p for p in found}
     assert to_hex(by_bg["#009485"].worst_unfaded.sample.fg) == "#ffffff"
+
+
+def test_a_faded_problem_without_an_override_says_what_the_unfaded_ones_need(tmp_path):
+    # no override planned (here: problems grouped without one): the text report says to raise
+    # the opacity, and what the unfaded texts need besides
+    from tinctura.report.text_report import fix_lines
+
+    report, found = _problems(_header_site(tmp_path))
+    teal = next(p for p in found if to_hex(p.worst.sample.bg) != "#5a5a5a")
+    assert teal.override is None
+    text = " ".join(line[1] for line in fix_lines(teal))
+    assert text.startswith("Fix: raise (or remove) the opacity")
+    assert "Texts of this problem that no opacity fades fail too (3.76:1 at worst, " \
+           "\"Sluice handbook 0\")" in text

@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Optional
 
 from tinctura.colour import suggest
@@ -140,7 +140,17 @@ class Planner:
         if problem.rule not in OVERRIDE_RULES:
             return None  # advice (appearance rules): the colour suggested at the cause only
         if faded(problem.worst):
-            return self._opacity(problem, opacity_of) if opacity_of is not None else None
+            if opacity_of is None:
+                return None
+            unfaded = problem.worst_unfaded
+            if unfaded is None:
+                return self._opacity(problem, opacity_of)
+            return self._mixed(problem, unfaded, element_selector, opacity_of)
+        return self._colours(problem, element_selector)
+
+    def _colours(self, problem, element_selector) -> Optional[Override]:
+        """The text colour (or, where no text colour passes, the background) the problem's
+        worst texts need, scheme by scheme."""
         fix = problem.fix_at_cause
         if fix is None:
             return None
@@ -182,22 +192,47 @@ class Planner:
                     "better than this rule")
         return Override(file, rules, tuple(schemes), target, note)
 
-    def _opacity(self, problem, opacity_of) -> Optional[Override]:
+    def _mixed(self, problem, unfaded, element_selector, opacity_of) -> Optional[Override]:
+        """The worst text is faded by an opacity and others fail unfaded: the colour change
+        the unfaded ones need (planned as for their worst, in its scheme), and then the
+        opacity the faded ones need over the new colours, if any (raising the opacity alone
+        leaves the unfaded texts failing)."""
+        scheme = unfaded.sample.scheme
+        figures = problem.schemes.get(scheme)
+        as_unfaded = replace(problem, worst_finding=unfaded, schemes={} if figures is None
+                             else {scheme: replace(figures, worst=unfaded,
+                                                            worst_ratio=unfaded.ratio)})
+        colours = self._colours(as_unfaded, element_selector)
+        if colours is None:
+            return None
+        new = [_from_hex(d[1]) for r in colours.rules for d in r.declarations
+               if d[1].startswith("#")]
+        raised = self._opacity(problem, opacity_of, new, colours.target)
+        if raised is not None:
+            colours.rules += raised.rules
+        return colours
+
+    def _opacity(self, problem, opacity_of, new=(), target="") -> Optional[Override]:
         """Faded text: the least opacity of the nearest fading element that lets every
         failing scheme's text pass (in steps of 0.05)."""
         needed, decl = 0.0, None
         for name in list(problem.schemes) or [problem.scheme]:
             figures = problem.schemes.get(name)
             worst = figures.worst if figures is not None else problem.worst
+            if not faded(worst):
+                continue  # (``_mixed``: the colour change serves the unfaded ones)
             layers = opacity_of(worst) or []
             if not layers or layers[0][0] is None or not layers[0][0].selector:
                 return None
             decl, value = layers[0]
             others = math.prod(v for _, v in layers[1:])
-            found = _least_opacity(worst, value, others, problem.required)
-            if found is None:
-                return None
-            needed = max(needed, found)
+            for colours in _seen_with(worst, new, target):
+                found = _least_opacity(worst, value, others, problem.required, *colours)
+                if found is None:
+                    return None
+                needed = max(needed, found)
+        if decl is None or not needed:
+            return None
         rule = Rule(decl.selector, (("opacity", f"{needed:g}", decl.important),))
         file, note = self._file(decl)
         return Override(file, [rule], (), "opacity", note)
@@ -268,20 +303,41 @@ class Planner:
         return DEFAULT_FILE, "a new stylesheet: add it last to extra_css in mkdocs.yml"
 
 
-def _least_opacity(finding, current: float, others: float, required: float):
+def _least_opacity(finding, current: float, others: float, required: float, fg=None,
+                   bg=None):
     """The least opacity (0.05 steps, above ``current``) at which the text passes; None when
-    even 1 does not. The text's colour is composited with the product of the opacities."""
+    even 1 does not; 0 when ``current`` passes already. The text's colour is composited with
+    the product of the opacities. ``fg``, ``bg``: a new text colour or background (an
+    override's) in place of the finding's."""
     from tinctura.colour.composite import over
     from tinctura.colour.wcag import contrast_ratio
 
     s = finding.sample
-    r, g, b, a = (tuple(s.fg_raw) + (1.0,))[:4]
+    r, g, b, a = (tuple(fg) + (1.0,))[:4] if fg is not None else (tuple(s.fg_raw) + (1.0,))[:4]
+    bg = tuple(bg if bg is not None else s.bg)[:3]
+    if fg is not None or bg is not None:
+        if contrast_ratio(over((r, g, b, a * current * others), bg)[:3], bg) >= required:
+            return 0.0
     steps = [round(0.05 * k, 2) for k in range(1, 21)]
     for value in [v for v in steps if v > current] or [1.0]:
-        seen = over((r, g, b, a * value * others), tuple(s.bg))[:3]
-        if contrast_ratio(seen, tuple(s.bg)) >= required:
+        seen = over((r, g, b, a * value * others), bg)[:3]
+        if contrast_ratio(seen, bg) >= required:
             return value
     return None
+
+
+def _seen_with(finding, new, target) -> list:
+    """``(fg, bg)`` pairs to judge a faded text with: its own colours, or each new colour an
+    override sets on the side it changes (``_mixed``)."""
+    if not new:
+        return [(None, None)]
+    if target == "background":
+        return [(None, colour) for colour in new]
+    return [(colour, None) for colour in new]
+
+
+def _from_hex(value: str) -> tuple:
+    return tuple(int(value[i:i + 2], 16) / 255 for i in (1, 3, 5))
 
 
 def _context_for(contexts, scheme, finding):
