@@ -51,6 +51,13 @@ def test_with_a_project_extra_css_and_docs_files_are_the_writers():
     (NIGHT, "body", 'body[data-md-color-scheme="slate"]'),
     (NIGHT, "body > .x", 'body[data-md-color-scheme="slate"] > .x'),
     (DARK, ".tw-note", ".tw-note"),  # media-only schemes are scoped by @media
+    # a palette attribute may sit on the holder itself (material: all three on <body>)
+    (NIGHT, "[data-md-color-accent=indigo]", '[data-md-color-scheme="slate"]'
+     '[data-md-color-accent=indigo], [data-md-color-scheme="slate"] '
+     '[data-md-color-accent=indigo]'),
+    (NIGHT, "[data-md-color-primary=teal] .md-tabs", '[data-md-color-scheme="slate"]'
+     '[data-md-color-primary=teal] .md-tabs, [data-md-color-scheme="slate"] '
+     '[data-md-color-primary=teal] .md-tabs'),
 ])
 def test_scoped_selectors(scheme, declared, expected):
     other = DAY if scheme is NIGHT else LIGHT

@@ -163,3 +163,59 @@ def test_theme_primary_colour_is_fixed_by_an_override(tmp_path):
     add_stylesheet(config, docs, fixes)
     after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config)
     assert [p for p in after["problems"] if p["rule"] == "TC100"] == []
+
+
+# -- two schemes, a primary colour that fails with white, faded navigation tabs -------------
+
+TWO_SCHEMES = """\
+site_name: Weir gate manual
+theme:
+  name: material
+  font: false
+  features: [navigation.tabs]
+  palette:
+    - scheme: default
+      primary: teal
+      toggle: {icon: material/brightness-7, name: Dark}
+    - scheme: slate
+      primary: teal
+      toggle: {icon: material/brightness-4, name: Light}
+extra_css:
+  - stylesheets/extra.css
+nav:
+  - Home: index.md
+  - Setup: setup.md
+"""
+
+
+@pytest.mark.slow
+def test_fixes_on_a_two_scheme_theme_with_faded_tabs_make_the_check_pass(tmp_path):
+    # mkdocs-material sets its palette attributes (scheme, primary, accent) side by side on
+    # <body>: an override scoped to one scheme must match that element itself. Its header
+    # title is white on the teal primary and its tabs are the same white faded by an
+    # opacity: one problem, whose fix needs a new primary colour and the tabs' opacity.
+    docs = tmp_path / "docs"
+    (docs / "stylesheets").mkdir(parents=True)
+    for name in ("index", "setup"):
+        (docs / f"{name}.md").write_text(f"# {name.title()}\n\nThe gate opens at dawn.\n")
+    (docs / "stylesheets" / "extra.css").write_text(".md-typeset p { margin: 0 0 1em; }\n")
+    config = tmp_path / "mkdocs.yml"
+    config.write_text(TWO_SCHEMES)
+    site = mkdocs_build(config, tmp_path / "site")
+    fixes = tmp_path / "fixes.css"
+    doc, _ = json_report(site, config, "--write-fixes", fixes, "--select", "TC100")
+    problems = doc["problems"]
+    tabs = [p for p in problems if "faded by an element's opacity" in p["sentence"]]
+    assert tabs and tabs[0]["fix"]["verified"] and "opacity" in tabs[0]["fix"]["css"] \
+        and "--md-primary-fg-color" in tabs[0]["fix"]["css"]
+    unverified = {(p["scheme"], p["where"]["locator"]) for p in problems
+                  if not (p["fix"] and p["fix"]["verified"])}
+    assert len(unverified) < len(problems)
+    add_stylesheet(config, docs, fixes)
+    after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config, "--select",
+                           "TC100")
+    # what a fix marked verified fixed stays fixed once the writer adds it
+    left = {(p["scheme"], p["where"]["locator"]) for p in after["problems"]}
+    assert left <= unverified
+    assert not [p for p in after["problems"] if "site header" in p["sentence"]
+                or "navigation tabs" in p["sentence"]]

@@ -125,6 +125,10 @@ class Planner:
             return f"{first} {scope.attribute}{rest}" if rest.strip() else scope.attribute
         if base == scope.holder or (scope.holder == "html" and base == ":root"):
             return first + scope.attribute + rest
+        if first.startswith("["):
+            # an attribute alone may be the holder's own: a theme sets its palette attributes
+            # side by side on one element (material: scheme, primary and accent on body)
+            return f"{scope.attribute}{first}{rest}, {scope.attribute} {selector}"
         return f"{scope.attribute} {selector}"
 
     # -- per problem ----------------------------------------------------------------------
@@ -194,14 +198,15 @@ class Planner:
 
     def _mixed(self, problem, unfaded, element_selector, opacity_of) -> Optional[Override]:
         """The worst text is faded by an opacity and others fail unfaded: the colour change
-        the unfaded ones need (planned as for their worst, in its scheme), and then the
+        the unfaded ones need (planned as for their worst), and then the
         opacity the faded ones need over the new colours, if any (raising the opacity alone
         leaves the unfaded texts failing)."""
-        scheme = unfaded.sample.scheme
-        figures = problem.schemes.get(scheme)
-        as_unfaded = replace(problem, worst_finding=unfaded, schemes={} if figures is None
-                             else {scheme: replace(figures, worst=unfaded,
-                                                            worst_ratio=unfaded.ratio)})
+        # (a scheme whose worst is faded is planned for the unfaded worst met in any scheme:
+        # the Collector keeps one; the verification tells where that is not enough)
+        schemes = {name: figures if figures.worst is None or not faded(figures.worst) else
+                   replace(figures, worst=unfaded, worst_ratio=unfaded.ratio)
+                   for name, figures in problem.schemes.items()}
+        as_unfaded = replace(problem, worst_finding=unfaded, schemes=schemes)
         colours = self._colours(as_unfaded, element_selector)
         if colours is None:
             return None
@@ -556,12 +561,28 @@ def _mark(problems, overrides, remaining_keys, bad) -> None:
     for problem, override in zip(problems, overrides):
         if override is None:
             continue
-        mine = {(_normal(r.selector), d[0]) for r in override.rules for d in r.declarations}
+        # (a declaration found in a finding names the selector of its list that matched)
+        mine = {(_normal(one), d[0]) for r in override.rules for one in _listed(r.selector)
+                for d in r.declarations}
         # an override undoes itself when it causes a finding of its own rule, or an error
         caused = {(sel, prop) for sel, prop, rule, severity in bad
                   if rule == problem.rule or severity == "error"}
         override.verified = problem_key(problem.worst) not in remaining_keys and \
             not (mine & caused)
+
+
+def _listed(selector: str) -> list:
+    """The selectors of a selector list (commas outside brackets and parentheses)."""
+    out, depth, start = [], 0, 0
+    for i, ch in enumerate(selector):
+        if ch in "([":
+            depth += 1
+        elif ch in ")]":
+            depth -= 1
+        elif ch == "," and depth == 0:
+            out.append(selector[start:i])
+            start = i + 1
+    return out + [selector[start:]]
 
 
 def _declarations(cause):
