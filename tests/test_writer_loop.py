@@ -205,17 +205,13 @@ def test_fixes_on_a_two_scheme_theme_with_faded_tabs_make_the_check_pass(tmp_pat
     fixes = tmp_path / "fixes.css"
     doc, _ = json_report(site, config, "--write-fixes", fixes, "--select", "TC100")
     problems = doc["problems"]
+    assert problems and all(p["fix"] and p["fix"]["verified"] for p in problems)
     tabs = [p for p in problems if "faded by an element's opacity" in p["sentence"]]
-    assert tabs and tabs[0]["fix"]["verified"] and "opacity" in tabs[0]["fix"]["css"] \
+    assert tabs and "opacity" in tabs[0]["fix"]["css"] \
         and "--md-primary-fg-color" in tabs[0]["fix"]["css"]
-    unverified = {(p["scheme"], p["where"]["locator"]) for p in problems
-                  if not (p["fix"] and p["fix"]["verified"])}
-    assert len(unverified) < len(problems)
     add_stylesheet(config, docs, fixes)
     after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config, "--select",
                            "TC100")
-    # what a fix marked verified fixed stays fixed once the writer adds it
-    left = {(p["scheme"], p["where"]["locator"]) for p in after["problems"]}
-    assert left <= unverified
-    assert not [p for p in after["problems"] if "site header" in p["sentence"]
-                or "navigation tabs" in p["sentence"]]
+    # the slate background is hsla(225deg, 15%, 14%, 1), #1e2129 plus a third of a step in
+    # red: a suggested accent that passed against #1e2129 only read 4.49:1 once applied
+    assert after["problems"] == []

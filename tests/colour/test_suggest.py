@@ -69,3 +69,14 @@ def test_several_backgrounds_need_one_interval():
     assert suggest.nearest_same_side(rgb("#e4e6ec"), (dark, light), 4.5, sides) is None
     # on the dark page alone it can
     assert suggest.nearest_same_side(rgb("#3d4250"), (dark,), 4.5) is not None
+
+
+def test_a_suggestion_passes_against_every_colour_written_as_the_backgrounds_hex():
+    # material's slate background hsla(225deg, 15%, 14%, 1) is (0.1190, 0.1295, 0.1610)
+    # (CSS Color 4 hsl-to-rgb, by hand), shown and grouped as #1e2129: its red is 0.35 of a
+    # step above 30/255. The accent suggested against #1e2129 must pass against it too.
+    exact = (0.119, 0.1295, 0.161)
+    assert to_hex(exact) == "#1e2129"
+    found, got = suggest.foreground(rgb("#526cfe"), rgb("#1e2129"), 4.5)
+    assert ratio(to_hex(found), exact) >= 4.5  # (WCAG 2.2 formula, tests/wcag_reference.py)
+    assert got == pytest.approx(ratio(to_hex(found), "#1e2129"), abs=1e-9)  # told for the hex

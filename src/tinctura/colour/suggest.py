@@ -96,14 +96,16 @@ def describe_side(colour, other) -> str:
 
 
 @lru_cache(maxsize=8192)  # a site repeats few colour situations
-def _nearest(colour, others, required, sides):
+def _nearest(colour, given, required, sides):
+    # found against the edges of the given colours' hex cells, its ratio told against them
+    others = tuple(_edge(o, s) for o, s in zip(given, sides))
     interval = same_side_interval(others, sides, required)
     if interval is None:
         return None
     lo, hi = interval
     lum = relative_luminance(colour)
     if lo <= lum <= hi and _fix._worst_ratio(colour, others) >= required:
-        return colour, _fix._worst_ratio(colour, others)
+        return colour, _fix._worst_ratio(colour, given)
     rising = lum < lo
     target = lo if rising else hi
     lightness, chroma, hue = to_polar(srgb_to_oklab(colour))
@@ -121,7 +123,21 @@ def _nearest(colour, others, required, sides):
         return None
     best = candidates[0] if len(candidates) == 1 else min(
         candidates, key=lambda rgb: cam02ucs_distance(colour, rgb))
-    return best, _fix._worst_ratio(best, others)
+    return best, _fix._worst_ratio(best, given)
+
+
+# Half a step of an 8-bit channel: a colour shown (and grouped) as #rrggbb may be anywhere within
+# it of that value (a theme's hsl(225deg 15% 14%) is #1e2129 plus 0.35 of a step in red).
+_HALF_STEP = 0.5 / 255
+
+
+def _edge(other, s) -> tuple:
+    """The colour within half an 8-bit step of ``other`` that is hardest to contrast with
+    from side ``s`` (lighter for lighter text): a suggestion that passes against it passes
+    against every colour written as ``other``'s hex."""
+    if s not in (LIGHTER, DARKER):
+        return other
+    return tuple(min(1.0, max(0.0, c + s * _HALF_STEP)) for c in other[:3])
 
 
 def _on_sides(rgb, others, sides) -> bool:
