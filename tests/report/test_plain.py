@@ -36,3 +36,22 @@ def test_sentence_names_the_place_the_state_and_the_schemes():
     assert plain.sentence(problem, where, True) == (
         "Grey text on white in warning boxes is too faint when hovered: 4.47:1, needs 4.5:1, "
         "in 2 schemes (day 4.47:1, night 4.47:1).")
+
+
+@pytest.mark.parametrize("link, said", [
+    # #9ecbf0 in #222222 text: 9.28:1 between them (WCAG 2 formula, by hand: L 0.5627 and
+    # 0.0160): only the hover cue is missing, so nothing is "too faint"
+    ("#9ecbf0", "Light blue link text in dark grey text is told apart by colour alone: no cue "
+                "but colour on hover."),
+    # #555555 in #222222 text: 2.13:1 (L 0.0908 and 0.0160), below G183's 3:1 as well
+    ("#555555", "Dark grey link text in dark grey text is told apart by colour alone: 2.13:1 "
+                "against that text, needs 3:1; no cue but colour on hover."),
+])
+def test_a_link_told_apart_by_colour_alone_is_not_called_too_faint(link, said):
+    from tinctura.model import LinkCues
+
+    cues = LinkCues(rgb("#222222"), (), (), ("outline",))
+    sample = make_sample(link, "#ffffff", link=cues)
+    findings = [f for f in run([sample], Options()) if f.rule == "TC120"]
+    (problem,) = group(findings)
+    assert plain.sentence(problem) == said

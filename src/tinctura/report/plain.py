@@ -88,14 +88,18 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
     worst = problem.worst
     fg, bg = m.finding_colours(worst)
     marks = location.landmarks if location is not None else ()
-    what = f"{colour_name(fg)} {subject(worst.sample, marks)} on {colour_name(bg)}{area(marks)}"
-    state = STATES.get(worst.sample.state)
-    if faded(worst):
-        what += ", faded by an element's opacity,"
-    text = what[0].upper() + what[1:] + " is too faint"
-    if state:
-        text += f" {state}"
-    text += f": {m.measure(worst)}"  # the rule's own measure: a ratio, Lc, under a deficiency
+    if worst.rule == LINK_CUE:
+        text = link_cue(worst, fg, bg, marks)
+    else:
+        what = (f"{colour_name(fg)} {subject(worst.sample, marks)} on {colour_name(bg)}"
+                f"{area(marks)}")
+        state = STATES.get(worst.sample.state)
+        if faded(worst):
+            what += ", faded by an element's opacity,"
+        text = what[0].upper() + what[1:] + " is too faint"
+        if state:
+            text += f" {state}"
+        text += f": {m.measure(worst)}"  # the rule's own measure: a ratio, Lc, under a deficiency
     schemes = getattr(problem, "schemes", None) or {}
     if many_schemes and len(schemes) == 1:
         text += f", in the {next(iter(schemes))} scheme"
@@ -103,3 +107,20 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
         parts = [f"{name} {m.measured(f.worst)}" for name, f in schemes.items()]
         text += f", in {len(schemes)} schemes ({', '.join(parts)})"
     return text + "."
+
+
+LINK_CUE = "TC120"  # a link told apart from its surrounding text by colour alone
+
+
+def link_cue(worst, fg, surround, marks) -> str:
+    """A link told apart by colour alone: its colour is set against the text around it (the
+    finding's ``bg``), and what it misses is a ratio to that text, a cue on hover or focus."""
+    what = f"{colour_name(fg)} link text in {colour_name(surround)} text{area(marks)}"
+    misses = []
+    if worst.ratio < worst.required:
+        misses.append(m.measure(worst).replace(":1, needs", ":1 against that text, needs", 1))
+    missing = worst.args.get("missing") or ()
+    if missing:
+        misses.append("no cue but colour on " + " or ".join(missing))
+    return (what[0].upper() + what[1:] + " is told apart by colour alone: "
+            + "; ".join(misses))
