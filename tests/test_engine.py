@@ -200,14 +200,14 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     options = Options(keep_samples=False)
     asked = []
 
-    def helper(css, pages):
+    def helper(css, pages, known):
         asked.append(pages)
-        return lambda: overrides.recheck(str(site), options, css, pages)
+        return lambda: overrides.recheck(str(site), options, css, pages, None, known)
 
-    def failing(css, pages):
+    def failing(css, pages, known):
         return lambda: None  # a worker that died: its pages are checked here
 
-    def absent(css, pages):
+    def absent(css, pages, known):
         return None  # no worker could start: its pages are checked here too
 
     pages = [f"p{n}/index.html" for n in range(5)]
@@ -215,9 +215,9 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     checked = []
     recheck = overrides.recheck
 
-    def counting(root, options, css, pages, loader=None):
+    def counting(root, options, css, pages, loader=None, known=None):
         checked.extend(pages)
-        return recheck(root, options, css, pages, loader)
+        return recheck(root, options, css, pages, loader, known)
 
     for use in (None, helper, failing, absent):
         del checked[:]
@@ -275,10 +275,10 @@ def logged(monkeypatch, tmp_path_factory):
     log = [None]
     original = overrides.recheck
 
-    def recording(site_root, options, css, pages, loader=None):
+    def recording(site_root, options, css, pages, loader=None, known=None):
         with open(log[0], "a") as fh:
             fh.write(f"{os.getpid()} {','.join(pages)}\n")
-        return original(site_root, options, css, pages, loader)
+        return original(site_root, options, css, pages, loader, known)
 
     monkeypatch.setattr(overrides, "recheck", recording)
     return log

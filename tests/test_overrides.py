@@ -45,18 +45,20 @@ def test_with_a_project_extra_css_and_docs_files_are_the_writers():
 
 
 @pytest.mark.parametrize("scheme, declared, expected", [
-    (NIGHT, ".tw-note", '[data-md-color-scheme="slate"] .tw-note'),
+    # the scheme's attribute inside :where(): the override keeps the specificity of the rule
+    # it replaces (Selectors Level 4: :where() adds none)
+    (NIGHT, ".tw-note", ':where([data-md-color-scheme="slate"]) .tw-note'),
     (NIGHT, "[data-md-color-scheme=slate]", "[data-md-color-scheme=slate]"),  # the theme's own
     (NIGHT, ":root", '[data-md-color-scheme="slate"]'),  # above <body>: on <body> instead
-    (NIGHT, "body", 'body[data-md-color-scheme="slate"]'),
-    (NIGHT, "body > .x", 'body[data-md-color-scheme="slate"] > .x'),
+    (NIGHT, "body", 'body:where([data-md-color-scheme="slate"])'),
+    (NIGHT, "body > .x", 'body:where([data-md-color-scheme="slate"]) > .x'),
     (DARK, ".tw-note", ".tw-note"),  # media-only schemes are scoped by @media
     # a palette attribute may sit on the holder itself (material: all three on <body>)
-    (NIGHT, "[data-md-color-accent=indigo]", '[data-md-color-scheme="slate"]'
-     '[data-md-color-accent=indigo], [data-md-color-scheme="slate"] '
+    (NIGHT, "[data-md-color-accent=indigo]", ':where([data-md-color-scheme="slate"])'
+     '[data-md-color-accent=indigo], :where([data-md-color-scheme="slate"]) '
      '[data-md-color-accent=indigo]'),
-    (NIGHT, "[data-md-color-primary=teal] .md-tabs", '[data-md-color-scheme="slate"]'
-     '[data-md-color-primary=teal] .md-tabs, [data-md-color-scheme="slate"] '
+    (NIGHT, "[data-md-color-primary=teal] .md-tabs", ':where([data-md-color-scheme="slate"])'
+     '[data-md-color-primary=teal] .md-tabs, :where([data-md-color-scheme="slate"]) '
      '[data-md-color-primary=teal] .md-tabs'),
 ])
 def test_scoped_selectors(scheme, declared, expected):

@@ -79,13 +79,13 @@ def _header_site(path, css=HEADER_CSS):
     return path
 
 
-def _header_check(path, fmt):
+def _header_check(path, fmt, select="TC100"):
     import io
 
     from tinctura import cli
 
     out = path.parent / f"report.{fmt}"
-    cli.main(["check", str(path), "--no-config", "--jobs", "1", "--select", "TC100",
+    cli.main(["check", str(path), "--no-config", "--jobs", "1", "--select", select,
               "--fail-on", "never", "--format", f"{fmt}:{out}"], stdout=io.StringIO(),
              stderr=io.StringIO())
     return out.read_text()
@@ -140,3 +140,33 @@ def test_a_faded_problem_without_an_override_says_what_the_unfaded_ones_need(tmp
     assert text.startswith("Fix: raise (or remove) the opacity")
     assert "Texts of this problem that no opacity fades fail too (3.76:1 at worst, " \
            "\"Sluice handbook 0\")" in text
+
+
+QUIET_LINK = """<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head><body>
+<p>Close the sluice as <a class="quiet" href="#">the tide table</a> says, page {n}.</p>
+</body></html>"""
+QUIET_CSS = """p { color: #595959; background: #ffffff; }
+a.quiet { color: #9a9a9a; text-decoration: none; }
+"""
+
+
+def test_a_fix_is_not_blamed_for_another_rules_error_that_was_there_before(tmp_path):
+    # A grey link in grey text: #9a9a9a on white is 2.81:1 (TC100 fails) and 2.49:1 against
+    # the text around it (#595959; TC120, W3C technique G183, needs 3:1). The text-ratio fix
+    # darkens the link, so it stays below 3:1 against that text: TC120 failed before and
+    # after, and the fix is verified for what it fixes. (Ratios by hand, WCAG 2 formula:
+    # L 0.3231, 0.0999 and 1.)
+    import json
+
+    from wcag_reference import ratio
+
+    assert round(ratio("#9a9a9a", "#ffffff"), 2) == 2.81
+    assert round(ratio("#9a9a9a", "#595959"), 2) == 2.49
+    (tmp_path / "site.css").write_text(QUIET_CSS)
+    for n in range(3):
+        (tmp_path / f"p{n}").mkdir()
+        (tmp_path / f"p{n}" / "index.html").write_text(QUIET_LINK.format(n=n))
+    doc = json.loads(_header_check(tmp_path, "json", "TC100,TC120"))
+    (link,) = [p for p in doc["problems"] if p["rule"] == "TC100"]
+    assert link["fix"]["verified"]
+    assert [p["rule"] for p in doc["problems"] if p["rule"] != "TC100"] == ["TC120"]

@@ -112,24 +112,30 @@ class Planner:
         return Scope(media=f"(prefers-color-scheme: {pref})") if pref else Scope()
 
     def scoped(self, scope: Scope, selector: str) -> str:
-        """``selector`` limited to the scope's attribute (media are added by the Rule)."""
+        """``selector`` limited to the scope's attribute (media are added by the Rule).
+
+        The attribute is wrapped in ``:where()``: the override keeps the specificity of the
+        declaration it replaces, so it wins over that one by coming later and over nothing
+        that used to win over it (bootstrap's ``.nav-link`` over a scoped ``a``, say)."""
         selector = _SPACE.sub(" ", (selector or "").strip()) or ":root"
         if not scope.attribute:
             return selector
         if _normal(scope.attribute) in _normal(selector):
             return selector  # the theme's own rule for this scheme
+        only = f":where({scope.attribute})"
         first, rest = _first_compound(selector)
         base = re.match(r"^(:root|[a-zA-Z][a-zA-Z0-9-]*)?", first).group(0)
         if scope.holder == "body" and base in (":root", "html"):
-            # declared above the attribute's holder: declare it on the holder instead
-            return f"{first} {scope.attribute}{rest}" if rest.strip() else scope.attribute
+            # declared above the attribute's holder: declare it on the holder instead (alone,
+            # the attribute has the specificity of :root)
+            return f"{first} {only}{rest}" if rest.strip() else scope.attribute
         if base == scope.holder or (scope.holder == "html" and base == ":root"):
-            return first + scope.attribute + rest
+            return first + only + rest
         if first.startswith("["):
             # an attribute alone may be the holder's own: a theme sets its palette attributes
             # side by side on one element (material: scheme, primary and accent on body)
-            return f"{scope.attribute}{first}{rest}, {scope.attribute} {selector}"
-        return f"{scope.attribute} {selector}"
+            return f"{only}{first}{rest}, {only} {selector}"
+        return f"{only} {selector}"
 
     # -- per problem ----------------------------------------------------------------------
 
@@ -433,14 +439,16 @@ def inject(html: str, css: str) -> str:
 
 
 def verify(site_root, options, problems, overrides, pages, loader=None, cache=None,
-           helper=None) -> dict:
+           helper=None, before=None) -> dict:
     """Check ``pages`` again with every override applied; mark each override verified when
     its problem is gone and the override's own values cause no finding. Returns the counts
     ``{"pages": n, "remaining": findings left on them}``.
 
     ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
     between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice;
-    ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
+    ``before(page)``: the check's findings of a page, when known: an error of another rule
+    that was there before the overrides is not theirs (``_known``).
+    ``helper(css, pages, known)``: starts ``recheck`` of some pages in another process (the plugin's
     worker, idle by then) and returns a callable giving its result (None if the worker
     failed), or None when no worker could start; those pages are then checked here.
     What is found is the same wherever a page is checked: the answers are unions."""
@@ -452,14 +460,15 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         remaining_keys, bad, counts = cache["result"]
         _mark(problems, overrides, remaining_keys, bad)
         return counts
+    known = _known(before, pages)
     mine, theirs = list(pages), []
     if helper is not None and len(pages) > 1:
         mine, theirs = mine[0::2], mine[1::2]
-    answer = helper(css, theirs) if theirs else None
-    remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader)
+    answer = helper(css, theirs, known) if theirs else None
+    remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader, known)
     if theirs:  # a helper that could not start (None) or failed (its answer None): here
         got = (answer() if answer is not None else None) or \
-            recheck(site_root, options, css, theirs, loader)
+            recheck(site_root, options, css, theirs, loader, known)
         remaining_keys |= got[0]
         bad |= got[1]
         remaining += got[2]
@@ -470,10 +479,10 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     return counts
 
 
-def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
+def recheck(site_root, options, css: str, pages, loader=None, known=None) -> tuple:
     """``pages`` checked with ``css`` injected as their last stylesheet, by the rules that can
     undo an override: ``(problem keys found, overrides' own declarations in findings,
-    number of findings)``."""
+    number of findings)``. ``known``: as ``_known`` gives it."""
     from tinctura import engine
 
     options = _deciding(options)
@@ -495,11 +504,11 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
                 continue
             _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
             remaining += len(findings)
-            _tally_findings(findings, css, remaining_keys, bad)
+            _tally_findings(findings, css, remaining_keys, bad, known or set())
     return remaining_keys, bad, remaining
 
 
-def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> None:
+def _tally_findings(findings, css: str, remaining_keys: set, bad: set, known=None) -> None:
     """Add a rechecked page's findings to the problem keys found and to the overrides' own
     declarations that cause a finding (``recheck``)."""
     from tinctura.problems import problem_key
@@ -508,10 +517,27 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> None:
         remaining_keys.add(problem_key(f))
         if f.required and f.ratio is not None and f.ratio >= f.required:
             continue  # its colours pass (a link's missing hover cue, say): no colour's fault
+        if _slot(f) in (known or ()):
+            continue  # another rule's error there before the overrides: not theirs
         for cause in (f.sample.fg_cause, f.sample.bg_cause):
             for d in _declarations(cause):
                 if "<style>" in d.sheet and d.line and _injected(d, css):
                     bad.add((_normal(d.selector), d.property, f.rule, f.severity))
+
+
+def _known(before, pages) -> set:
+    """The findings of the rules no override is planned for, on ``pages`` as the check found
+    them (``before(page)``), by rule, element, state and scheme: an override after which such
+    an error is still there did not cause it (a link's ratio to the text around it, TC120,
+    failing before and after its colour is changed, say)."""
+    if before is None:
+        return set()
+    return {_slot(f) for page in pages for f in before(page) if f.rule not in OVERRIDE_RULES}
+
+
+def _slot(f) -> tuple:
+    s = f.sample
+    return (f.rule, s.page, s.xpath, s.state, s.scheme)
 
 
 def _deciding(options):

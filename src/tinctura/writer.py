@@ -109,9 +109,9 @@ class WriterAid:
     # -- overrides -----------------------------------------------------------------------
 
     def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
-                       cache=None, helper=None) -> dict:
+                       cache=None, helper=None, before=None) -> dict:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
-        counts. ``loader``, ``cache``, ``helper``: see ``overrides.verify``."""
+        counts. ``loader``, ``cache``, ``helper``, ``before``: see ``overrides.verify``."""
         first = pages_with_findings[0] if pages_with_findings else None
         planner = overrides_mod.Planner(schemes, self.project,
                                         self.sheet_order(first) if first else ())
@@ -125,7 +125,8 @@ class WriterAid:
         if not any(planned):
             return {"pages": 0, "remaining": 0}
         return overrides_mod.verify(self.site_root, options, problems, planned,
-                                    verification_pages(problems), loader, cache, helper)
+                                    verification_pages(problems), loader, cache, helper,
+                                    before)
 
 
 def script_behaviours(options) -> tuple:

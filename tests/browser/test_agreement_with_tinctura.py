@@ -42,6 +42,34 @@ def _mkdocs_theme_site(tmp_path_factory):
     return out
 
 
+def _mkdocs_theme_fixed_site(tmp_path_factory):
+    """The same, rebuilt with the fixes tinctura wrote for it added last to extra_css, as the
+    writer is told: its overrides are scoped to a scheme with :where() (no specificity added)
+    and selector lists, which Chromium must cascade as tinctura does."""
+    import io
+    import os
+    import shutil
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    from tinctura.cli import main
+
+    site = _mkdocs_theme_site(tmp_path_factory)
+    docs = tmp_path_factory.mktemp("docs")
+    shutil.copytree(Path(__file__).resolve().parents[2] / "example_site" / "docs", docs,
+                    dirs_exist_ok=True)
+    main(["check", str(site), "--no-config", "--select", "TC100", "--fail-on", "never",
+          "--write-fixes", str(docs / "fixes.css")], stdout=io.StringIO(), stderr=io.StringIO())
+    assert ":where(" in (docs / "fixes.css").read_text()
+    cfg = tmp_path_factory.mktemp("cfg") / "mkdocs.yml"
+    cfg.write_text(MKDOCS_THEME.format(docs=docs) + "extra_css: [fixes.css]\n")
+    out = tmp_path_factory.mktemp("fixed")
+    subprocess.run([sys.executable, "-m", "mkdocs", "build", "-q", "-f", str(cfg), "-d", str(out)],
+                   check=True, env=dict(os.environ, NO_MKDOCS_2_WARNING="1"))
+    return out
+
+
 def _sphinx_site(tmp_path_factory):
     """A small Sphinx project with the furo theme (data-theme on <body> + media queries)."""
     import subprocess
@@ -74,7 +102,8 @@ def _material_rich_site(tmp_path_factory):
 
 
 @pytest.fixture(scope="module",
-                params=["mkdocs-material", "material-rich", "mkdocs", "sphinx-furo"])
+                params=["mkdocs-material", "material-rich", "mkdocs", "mkdocs-fixed",
+                        "sphinx-furo"])
 def both(request, tmp_path_factory):
     if request.param == "mkdocs-material":
         site = build_example_site(tmp_path_factory.mktemp("site"), tmp_path_factory.mktemp("cfg"))
@@ -82,6 +111,8 @@ def both(request, tmp_path_factory):
         site = _material_rich_site(tmp_path_factory)
     elif request.param == "mkdocs":
         site = _mkdocs_theme_site(tmp_path_factory)
+    elif request.param == "mkdocs-fixed":
+        site = _mkdocs_theme_fixed_site(tmp_path_factory)
     else:
         site = _sphinx_site(tmp_path_factory)
     chromium = [r for r in run_site(site) if r["type"] == "sample"]
