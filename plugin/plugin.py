@@ -285,8 +285,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         pages = list(engine.noted_once(r.result for r in records))  # (once, not per worker)
         found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
-        aid = self.writer_aid(found, pages, records, fixes=self.fixes_read(),
-                              before=store.by_page)
+        aid = self.writer_aid(found, pages, records, fixes=self.fixes_read())
         locate = aid  # callable: sample -> Location
         changes = self.log_changes(found) if self.serving_again() else None
         findings = outputs.GateView(store, marked=False, counts=gate.counts)  # those that count
@@ -408,10 +407,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         return bool(self.config.report) or self.command == "serve" or \
             log.isEnabledFor(logging.WARNING)
 
-    def writer_aid(self, found, pages, records, fixes: bool = True, before=None):
+    def writer_aid(self, found, pages, records, fixes: bool = True):
         """Markdown locations and, with ``fixes``, overrides for the site's own stylesheets
-        (verified by checking pages again, the longest part of this; ``before``: see
-        ``overrides.verify``)."""
+        (verified by checking pages again, the longest part of this)."""
         if self.site_dir is None:
             return None
         aid = WriterAid(self.site_dir, self.project, self.options)
@@ -425,8 +423,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
                                    loader, self.verify_cache,
-                                   self.helper.recheck if self.helper is not None else None,
-                                   before)
+                                   self.helper.recheck if self.helper is not None else None)
             except Exception as exc:  # a fix that cannot be worked out must not stop the build
                 log.info(f"fixes as CSS overrides could not be worked out: {exc!r}")
         return aid

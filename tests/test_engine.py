@@ -200,14 +200,14 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     options = Options(keep_samples=False)
     asked = []
 
-    def helper(css, pages, known):
+    def helper(css, pages):
         asked.append(pages)
-        return lambda: overrides.recheck(str(site), options, css, pages, None, known)
+        return lambda: overrides.recheck(str(site), options, css, pages)
 
-    def failing(css, pages, known):
+    def failing(css, pages):
         return lambda: None  # a worker that died: its pages are checked here
 
-    def absent(css, pages, known):
+    def absent(css, pages):
         return None  # no worker could start: its pages are checked here too
 
     pages = [f"p{n}/index.html" for n in range(5)]
@@ -215,9 +215,9 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     checked = []
     recheck = overrides.recheck
 
-    def counting(root, options, css, pages, loader=None, known=None):
+    def counting(root, options, css, pages, loader=None):
         checked.extend(pages)
-        return recheck(root, options, css, pages, loader, known)
+        return recheck(root, options, css, pages, loader)
 
     for use in (None, helper, failing, absent):
         del checked[:]
@@ -275,10 +275,10 @@ def logged(monkeypatch, tmp_path_factory):
     log = [None]
     original = overrides.recheck
 
-    def recording(site_root, options, css, pages, loader=None, known=None):
+    def recording(site_root, options, css, pages, loader=None):
         with open(log[0], "a") as fh:
             fh.write(f"{os.getpid()} {','.join(pages)}\n")
-        return original(site_root, options, css, pages, loader, known)
+        return original(site_root, options, css, pages, loader)
 
     monkeypatch.setattr(overrides, "recheck", recording)
     return log

@@ -139,7 +139,7 @@ def test_one_rule_fixing_several_problems_says_so():
         def __init__(self, overrides):
             self.overrides = iter(overrides)
 
-        def plan(self, problem, element_selector=None, opacity_of=None):
+        def plan(self, problem, element_selector=None, opacity_of=None, narrow=False):
             return next(self.overrides)
 
     same = Rule('[data-md-color-primary="light-blue"]', (("--md-primary-fg-color", "#007db8", False),))

@@ -170,3 +170,42 @@ def test_a_fix_is_not_blamed_for_another_rules_error_that_was_there_before(tmp_p
     (link,) = [p for p in doc["problems"] if p["rule"] == "TC100"]
     assert link["fix"]["verified"]
     assert [p["rule"] for p in doc["problems"] if p["rule"] != "TC100"] == ["TC120"]
+
+
+ACCENT_PAGE = """<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head><body>
+<p class="note">Open the gate at <a href="#">dawn</a>, page {n}.</p>
+<span class="badge">Tide</span>
+</body></html>"""
+ACCENT_CSS = """:root { --accent: #ffaa00; }
+body { color: #222222; background: #ffffff; }
+.note a { color: var(--accent); text-decoration: underline; }
+.badge { background: var(--accent); color: #211600; }
+"""
+
+
+def test_a_variable_that_is_also_a_background_is_fixed_where_the_text_uses_it(tmp_path):
+    # The accent #ffaa00 colours a link on white (1.91:1, fails 4.5:1) and is the background
+    # of dark badge text (#211600 on it 9.33:1). A darker accent that serves the link fails
+    # the badge: no value of the variable serves both, so the fix sets the link rule's colour.
+    # (Ratios by hand, WCAG 2 formula: L 0.5001 and 0.0090; checked below with the reference.)
+    import json
+    import re
+
+    from wcag_reference import ratio
+
+    assert round(ratio("#ffaa00", "#ffffff"), 2) == 1.91
+    assert round(ratio("#211600", "#ffaa00"), 2) == 9.33
+    (tmp_path / "site").mkdir()
+    site = tmp_path / "site"
+    (site / "site.css").write_text(ACCENT_CSS)
+    for n in range(3):
+        (site / f"p{n}").mkdir()
+        (site / f"p{n}" / "index.html").write_text(ACCENT_PAGE.format(n=n))
+    (link,) = json.loads(_header_check(site, "json"))["problems"]
+    css = link["fix"]["css"]
+    assert link["fix"]["verified"] and "--accent" not in css and css.startswith(".note a {")
+    new = re.search(r"color: (#[0-9a-f]{6})", css).group(1)
+    assert ratio(new, "#ffffff") >= 4.5
+    # applied, the site passes: the badge keeps its accent
+    (site / "site.css").write_text(ACCENT_CSS + css)
+    assert json.loads(_header_check(site, "json"))["problems"] == []

@@ -354,7 +354,7 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
         # with --jobs N a forked worker rechecks half the verification pages beside this one
         with engine.recheck_helper(aid.site_root, options, loader) as helper:
             aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
-                               helper=helper, before=store.by_page)
+                               helper=helper)
     header = report.Header(
         scope=report.scope_of(args.paths, options),
         version=version(),

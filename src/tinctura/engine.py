@@ -785,11 +785,11 @@ class PagePool:
             if not keep:
                 self.close()
 
-    def recheck(self, css: str, pages: list, known=None):
+    def recheck(self, css: str, pages: list):
         """``overrides.recheck`` of ``pages`` in a worker, with the workers' options and
         parsed stylesheets; returns at once a callable that waits for the answer (None when
         the worker failed: the caller then checks the pages itself)."""
-        pending = self._pool.apply_async(_worker_recheck, ((css, pages, known),))
+        pending = self._pool.apply_async(_worker_recheck, ((css, pages),))
 
         def answer():
             try:
@@ -820,14 +820,14 @@ def recheck_helper(root: str, options: Options, loader=None):
         return
     pools = []
 
-    def helper(css, pages, known=None):
+    def helper(css, pages):
         try:
             if not pools:
                 site = Site(root, options)
                 if loader is not None:
                     site.loader = loader
                 pools.append(PagePool(root, options, 1, site))
-            return pools[0].recheck(css, pages, known)
+            return pools[0].recheck(css, pages)
         except Exception:  # no worker: verify checks these pages itself
             return None
 
@@ -839,11 +839,11 @@ def recheck_helper(root: str, options: Options, loader=None):
 
 
 def _worker_recheck(args):
-    css, pages, known = args
+    css, pages = args
     site, options, _ = _WORKER
     from . import overrides
 
-    return overrides.recheck(site.root, options, css, pages, site.loader, known)
+    return overrides.recheck(site.root, options, css, pages, site.loader)
 
 
 def _worker_check_html(args):

@@ -139,14 +139,16 @@ class Planner:
 
     # -- per problem ----------------------------------------------------------------------
 
-    def plan(self, problem, element_selector=None, opacity_of=None) -> Optional[Override]:
+    def plan(self, problem, element_selector=None, opacity_of=None,
+             narrow: bool = False) -> Optional[Override]:
         """The override for one problem, or None when no colour on the same side exists or
         the text is faded by an ancestor's opacity (``faded``), which no colour undoes.
 
         ``element_selector(finding)`` gives a CSS selector for a finding's element (used when
         the colour comes from a style attribute or from no declaration at all);
         ``opacity_of(finding)`` the ``(declaration, value)`` of the opacities that fade it,
-        nearest first (then the fix raises the nearest one)."""
+        nearest first (then the fix raises the nearest one). ``narrow``: set the colour on
+        the rule that uses a custom property rather than the property itself (``narrowable``)."""
         if problem.rule not in OVERRIDE_RULES:
             return None  # advice (appearance rules): the colour suggested at the cause only
         if faded(problem.worst):
@@ -155,16 +157,18 @@ class Planner:
             unfaded = problem.worst_unfaded
             if unfaded is None:
                 return self._opacity(problem, opacity_of)
-            return self._mixed(problem, unfaded, element_selector, opacity_of)
-        return self._colours(problem, element_selector)
+            return self._mixed(problem, unfaded, element_selector, opacity_of, narrow)
+        return self._colours(problem, element_selector, narrow)
 
-    def _colours(self, problem, element_selector) -> Optional[Override]:
+    def _colours(self, problem, element_selector, narrow=False) -> Optional[Override]:
         """The text colour (or, where no text colour passes, the background) the problem's
         worst texts need, scheme by scheme."""
         fix = problem.fix_at_cause
         if fix is None:
             return None
-        decl = target_declaration(problem.fg_cause)
+        narrow_bg = narrow and narrowable(problem, "bg")
+        narrow = narrow and narrowable(problem)
+        decl = problem.fg_cause.declaration if narrow else target_declaration(problem.fg_cause)
         failing = list(problem.schemes) or [problem.scheme]
         rules, schemes, target = [], [], "foreground"
         if fix.possible:
@@ -174,7 +178,9 @@ class Planner:
             everywhere = not used or set(used) >= set(self.schemes)
             for name in ([None] if everywhere else used):
                 scope = Scope() if name is None else self.scope(name)
-                rules += self._fg_rules(problem, decl, scope, fix.colour, element_selector, None)
+                for one in (_using(problem) if narrow else [decl]):
+                    rules += self._fg_rules(problem, one, scope, fix.colour, element_selector,
+                                            None)
             schemes = [] if everywhere else used
         else:
             for name in failing:
@@ -187,7 +193,7 @@ class Planner:
                     rules += self._fg_rules(problem, decl, scope, context.colour,
                                             element_selector, worst if per_bg else None)
                 else:
-                    got = self._bg_rules(problem, scope, worst)
+                    got = self._bg_rules(problem, scope, worst, narrow_bg)
                     if not got:
                         return None
                     rules += got
@@ -202,7 +208,8 @@ class Planner:
                     "better than this rule")
         return Override(file, rules, tuple(schemes), target, note)
 
-    def _mixed(self, problem, unfaded, element_selector, opacity_of) -> Optional[Override]:
+    def _mixed(self, problem, unfaded, element_selector, opacity_of,
+               narrow=False) -> Optional[Override]:
         """The worst text is faded by an opacity and others fail unfaded: the colour change
         the unfaded ones need (planned as for their worst), and then the
         opacity the faded ones need over the new colours, if any (raising the opacity alone
@@ -213,7 +220,7 @@ class Planner:
                    replace(figures, worst=unfaded, worst_ratio=unfaded.ratio)
                    for name, figures in problem.schemes.items()}
         as_unfaded = replace(problem, worst_finding=unfaded, schemes=schemes)
-        colours = self._colours(as_unfaded, element_selector)
+        colours = self._colours(as_unfaded, element_selector, narrow)
         if colours is None:
             return None
         new = [_from_hex(d[1]) for r in colours.rules for d in r.declarations
@@ -284,8 +291,9 @@ class Planner:
                 out.append((step.property, step.value, step.important))
         return out
 
-    def _bg_rules(self, problem, scope, worst) -> list:
-        """When no text colour on the same side passes: a new background colour."""
+    def _bg_rules(self, problem, scope, worst, narrow=False) -> list:
+        """When no text colour on the same side passes: a new background colour (``narrow``:
+        on the rules using the custom property that holds it, ``narrowable``)."""
         bg_cause = problem.bg_cause
         decl = target_declaration(bg_cause)
         if decl is None or not decl.selector or decl.origin == "user-agent":
@@ -300,6 +308,11 @@ class Planner:
         found = suggest.background(fg, bg, problem.required)
         if found is None:
             return []
+        if narrow:
+            return [Rule(self.scoped(scope, d.selector),
+                         (("background-color" if d.property == "background" else d.property,
+                           to_hex(found[0]), d.important),), scope.media)
+                    for d in _using(problem, "bg")]
         prop = "background-color" if decl.property == "background" else decl.property
         selector = self.scoped(scope, decl.selector)
         declarations = [(prop, to_hex(found[0]), decl.important)]
@@ -395,10 +408,34 @@ def _first_compound(selector: str):
 OVERRIDE_RULES = frozenset({"TC100"})
 
 
-def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None) -> list:
+def narrowable(problem, side: str = "fg") -> bool:
+    """Whether the text colour (``side`` "bg": the background) comes from a rule that uses a
+    custom property: a theme's accent set as a variable may colour text here and a background
+    elsewhere, and a value that serves one use can fail the other; then the using rules are
+    overridden instead."""
+    cause = problem.fg_cause if side == "fg" else problem.bg_cause
+    if cause is None or cause.declaration is None or not cause.declaration.selector:
+        return False
+    target = target_declaration(cause)
+    return target is not None and target is not cause.declaration and \
+        target.property.startswith("--") and cause.declaration.origin != "inline"
+
+
+def _using(problem, side: str = "fg") -> list:
+    """The rules setting a problem's text colour (``side`` "bg": background) from its cause,
+    each with a selector."""
+    cause = problem.fg_cause if side == "fg" else problem.bg_cause
+    return [d for d in problem.using_declarations(side) if d.selector and d.origin != "inline"] \
+        or [cause.declaration]
+
+
+def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None,
+             narrow=frozenset()) -> list:
     """One Override (or None) per problem, in the problems' order; overrides that set the same
-    property on the same selector name each other (one rule fixes several problems)."""
-    planned = [planner.plan(p, element_selector, opacity_of) for p in problems]
+    property on the same selector name each other (one rule fixes several problems).
+    ``narrow``: the numbers (from 0) of problems planned with ``Planner.plan``'s ``narrow``."""
+    planned = [planner.plan(p, element_selector, opacity_of, n in narrow)
+               for n, p in enumerate(problems)]
     owners: dict = {}
     for n, o in enumerate(planned, 1):
         for key in (o.keys() if o is not None else ()):
@@ -439,16 +476,14 @@ def inject(html: str, css: str) -> str:
 
 
 def verify(site_root, options, problems, overrides, pages, loader=None, cache=None,
-           helper=None, before=None) -> dict:
+           helper=None) -> dict:
     """Check ``pages`` again with every override applied; mark each override verified when
     its problem is gone and the override's own values cause no finding. Returns the counts
     ``{"pages": n, "remaining": findings left on them}``.
 
     ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
     between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice;
-    ``before(page)``: the check's findings of a page, when known: an error of another rule
-    that was there before the overrides is not theirs (``_known``).
-    ``helper(css, pages, known)``: starts ``recheck`` of some pages in another process (the plugin's
+    ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
     worker, idle by then) and returns a callable giving its result (None if the worker
     failed), or None when no worker could start; those pages are then checked here.
     What is found is the same wherever a page is checked: the answers are unions."""
@@ -460,15 +495,14 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         remaining_keys, bad, counts = cache["result"]
         _mark(problems, overrides, remaining_keys, bad)
         return counts
-    known = _known(before, pages)
     mine, theirs = list(pages), []
     if helper is not None and len(pages) > 1:
         mine, theirs = mine[0::2], mine[1::2]
-    answer = helper(css, theirs, known) if theirs else None
-    remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader, known)
+    answer = helper(css, theirs) if theirs else None
+    remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader)
     if theirs:  # a helper that could not start (None) or failed (its answer None): here
         got = (answer() if answer is not None else None) or \
-            recheck(site_root, options, css, theirs, loader, known)
+            recheck(site_root, options, css, theirs, loader)
         remaining_keys |= got[0]
         bad |= got[1]
         remaining += got[2]
@@ -479,10 +513,10 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     return counts
 
 
-def recheck(site_root, options, css: str, pages, loader=None, known=None) -> tuple:
+def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     """``pages`` checked with ``css`` injected as their last stylesheet, by the rules that can
     undo an override: ``(problem keys found, overrides' own declarations in findings,
-    number of findings)``. ``known``: as ``_known`` gives it."""
+    number of findings)``."""
     from tinctura import engine
 
     options = _deciding(options)
@@ -504,35 +538,36 @@ def recheck(site_root, options, css: str, pages, loader=None, known=None) -> tup
                 continue
             _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
             remaining += len(findings)
-            _tally_findings(findings, css, remaining_keys, bad, known or set())
+            suspects = _tally_findings(findings, css, remaining_keys, bad)
+            if suspects:  # another rule's errors on what the overrides colour: new ones?
+                _, plain, _ = engine.judge_page(site, rel, options, html)
+                there = {_slot(f) for f in plain}
+                bad.update(why for slot, why in suspects if slot not in there)
     return remaining_keys, bad, remaining
 
 
-def _tally_findings(findings, css: str, remaining_keys: set, bad: set, known=None) -> None:
+def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
     """Add a rechecked page's findings to the problem keys found and to the overrides' own
-    declarations that cause a finding (``recheck``)."""
+    declarations that cause a finding (``recheck``). Returns ``(slot, declaration)`` of the
+    errors of other rules than the overrides' that the overrides colour: theirs only when the
+    page had no such error there before (a link's ratio to the text around it, TC120, failing
+    before and after its colour changed, is not)."""
     from tinctura.problems import problem_key
 
+    suspects = []
     for f in findings:
         remaining_keys.add(problem_key(f))
         if f.required and f.ratio is not None and f.ratio >= f.required:
             continue  # its colours pass (a link's missing hover cue, say): no colour's fault
-        if _slot(f) in (known or ()):
-            continue  # another rule's error there before the overrides: not theirs
         for cause in (f.sample.fg_cause, f.sample.bg_cause):
             for d in _declarations(cause):
                 if "<style>" in d.sheet and d.line and _injected(d, css):
-                    bad.add((_normal(d.selector), d.property, f.rule, f.severity))
-
-
-def _known(before, pages) -> set:
-    """The findings of the rules no override is planned for, on ``pages`` as the check found
-    them (``before(page)``), by rule, element, state and scheme: an override after which such
-    an error is still there did not cause it (a link's ratio to the text around it, TC120,
-    failing before and after its colour is changed, say)."""
-    if before is None:
-        return set()
-    return {_slot(f) for page in pages for f in before(page) if f.rule not in OVERRIDE_RULES}
+                    why = (_normal(d.selector), d.property, f.rule, f.severity)
+                    if f.rule in OVERRIDE_RULES:
+                        bad.add(why)
+                    else:
+                        suspects.append((_slot(f), why))
+    return suspects
 
 
 def _slot(f) -> tuple:

@@ -80,6 +80,10 @@ class Problem:
     override: Optional[object] = None  # overrides.Override: the fix as the site's own CSS
     # built by a Collector: the worst finding whose text no opacity fades (``faded``)
     unfaded_finding: Optional[Finding] = None
+    # built by a Collector: the declarations that use the text colour's cause (``color:
+    # var(--accent)`` in each rule), and the background's, in the order met
+    using: Optional[dict] = None
+    using_bg: Optional[dict] = None
 
     @property
     def scheme_names(self) -> list:
@@ -104,6 +108,20 @@ class Problem:
             return self.unfaded_finding
         return min((f for f in self.findings if not faded(f)), key=lambda f: f.ratio,
                    default=None)
+
+    def using_declarations(self, side: str = "fg") -> list:
+        """The declarations that set the text colour of its findings (``side`` "bg": the
+        background; the rules using a custom property, when its value is the cause), each
+        once."""
+        kept = self.using if side == "fg" else self.using_bg
+        if kept is not None:
+            return list(kept)
+        found = {}
+        for f in self.findings:
+            cause = f.sample.fg_cause if side == "fg" else f.sample.bg_cause
+            if cause is not None and cause.declaration is not None:
+                found.setdefault(cause.declaration, None)
+        return list(found)
 
     def example_pool(self) -> list:
         """The findings examples are chosen from, in report order."""
@@ -274,7 +292,8 @@ class Collector:
                 scheme=s.scheme, fg_cause=s.fg_cause, bg_cause=s.bg_cause, pages=0,
                 worst_ratio=finding.ratio, required=finding.required, count=0,
                 worst_finding=finding, candidates=[],
-                indexes=array("L") if self.keep_indexes else None, backgrounds={})
+                indexes=array("L") if self.keep_indexes else None, backgrounds={}, using={},
+                using_bg={})
             self._progress[key] = _Progress()
         progress = self._progress[key]
         if situation is not None:
@@ -290,6 +309,10 @@ class Collector:
         if (p.unfaded_finding is None or finding.ratio < p.unfaded_finding.ratio) \
                 and not faded(finding):
             p.unfaded_finding = finding
+        for cause, kept in ((finding.sample.fg_cause, p.using),
+                            (finding.sample.bg_cause, p.using_bg)):
+            if cause is not None and cause.declaration is not None:
+                kept.setdefault(cause.declaration, None)
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
         self._note_page(progress, p, finding.sample.page, lambda: finding)

@@ -109,24 +109,33 @@ class WriterAid:
     # -- overrides -----------------------------------------------------------------------
 
     def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
-                       cache=None, helper=None, before=None) -> dict:
+                       cache=None, helper=None) -> dict:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
-        counts. ``loader``, ``cache``, ``helper``, ``before``: see ``overrides.verify``."""
+        counts. ``loader``, ``cache``, ``helper``: see ``overrides.verify``."""
         first = pages_with_findings[0] if pages_with_findings else None
         planner = overrides_mod.Planner(schemes, self.project,
                                         self.sheet_order(first) if first else ())
         self._options = options
-        planned = overrides_mod.plan_all(problems, planner, self.element_selector,
-                                         self.opacity_of)
-        for problem, override in zip(problems, planned):
-            problem.override = override
-            if override is not None and self.project is not None:
-                override.shown_file = self.project.docs_path(override.file)
-        if not any(planned):
-            return {"pages": 0, "remaining": 0}
-        return overrides_mod.verify(self.site_root, options, problems, planned,
-                                    verification_pages(problems), loader, cache, helper,
-                                    before)
+        narrow: frozenset = frozenset()
+        while True:
+            planned = overrides_mod.plan_all(problems, planner, self.element_selector,
+                                             self.opacity_of, narrow)
+            for problem, override in zip(problems, planned):
+                problem.override = override
+                if override is not None and self.project is not None:
+                    override.shown_file = self.project.docs_path(override.file)
+            if not any(planned):
+                return {"pages": 0, "remaining": 0}
+            counts = overrides_mod.verify(self.site_root, options, problems, planned,
+                                          verification_pages(problems), loader, cache, helper)
+            # a custom property's new value that failed: once more, on the rules using it
+            again = narrow | {n for n, (p, o) in enumerate(zip(problems, planned))
+                              if o is not None and o.verified is False
+                              and (overrides_mod.narrowable(p)
+                                   or overrides_mod.narrowable(p, "bg"))}
+            if again == narrow:
+                return counts
+            narrow = frozenset(again)
 
 
 def script_behaviours(options) -> tuple:
