@@ -211,9 +211,9 @@ class Planner:
     def _mixed(self, problem, unfaded, element_selector, opacity_of,
                narrow=False) -> Optional[Override]:
         """The worst text is faded by an opacity and others fail unfaded: the colour change
-        the unfaded ones need (planned as for their worst), and then the
-        opacity the faded ones need over the new colours, if any (raising the opacity alone
-        leaves the unfaded texts failing)."""
+        the unfaded ones need (planned as for their worst), and then the opacity the faded
+        ones need over the new colours, if any (raising the opacity alone leaves the unfaded
+        texts failing)."""
         # (a scheme whose worst is faded is planned for the unfaded worst met in any scheme:
         # the Collector keeps one; the verification tells where that is not enough)
         schemes = {name: figures if figures.worst is None or not faded(figures.worst) else
@@ -337,11 +337,11 @@ def _least_opacity(finding, current: float, others: float, required: float, fg=N
     from tinctura.colour.wcag import contrast_ratio
 
     s = finding.sample
-    r, g, b, a = (tuple(fg) + (1.0,))[:4] if fg is not None else (tuple(s.fg_raw) + (1.0,))[:4]
+    new = fg is not None or bg is not None
+    r, g, b, a = (tuple(fg if fg is not None else s.fg_raw) + (1.0,))[:4]
     bg = tuple(bg if bg is not None else s.bg)[:3]
-    if fg is not None or bg is not None:
-        if contrast_ratio(over((r, g, b, a * current * others), bg)[:3], bg) >= required:
-            return 0.0
+    if new and contrast_ratio(over((r, g, b, a * current * others), bg)[:3], bg) >= required:
+        return 0.0
     steps = [round(0.05 * k, 2) for k in range(1, 21)]
     for value in [v for v in steps if v > current] or [1.0]:
         seen = over((r, g, b, a * value * others), bg)[:3]

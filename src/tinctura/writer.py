@@ -117,7 +117,7 @@ class WriterAid:
                                         self.sheet_order(first) if first else ())
         self._options = options
         narrow: frozenset = frozenset()
-        while True:
+        for _ in range(NARROWING_ROUNDS + 1):
             planned = overrides_mod.plan_all(problems, planner, self.element_selector,
                                              self.opacity_of, narrow)
             for problem, override in zip(problems, planned):
@@ -128,14 +128,23 @@ class WriterAid:
                 return {"pages": 0, "remaining": 0}
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
                                           verification_pages(problems), loader, cache, helper)
-            # a custom property's new value that failed: once more, on the rules using it
-            again = narrow | {n for n, (p, o) in enumerate(zip(problems, planned))
-                              if o is not None and o.verified is False
-                              and (overrides_mod.narrowable(p)
-                                   or overrides_mod.narrowable(p, "bg"))}
+            again = narrow | _to_narrow(problems, planned)
             if again == narrow:
-                return counts
-            narrow = frozenset(again)
+                break
+            narrow = again
+        return counts
+
+
+# more verifications, at most, for fixes moved to the rules using a variable
+NARROWING_ROUNDS = 2
+
+
+def _to_narrow(problems, planned) -> frozenset:
+    """The problems whose fix set a custom property and failed verification: planned once
+    more on the rules using the property (``overrides.narrowable``)."""
+    return frozenset(n for n, (p, o) in enumerate(zip(problems, planned))
+                     if o is not None and o.verified is False
+                     and (overrides_mod.narrowable(p) or overrides_mod.narrowable(p, "bg")))
 
 
 def script_behaviours(options) -> tuple:

@@ -6,6 +6,7 @@ from __future__ import annotations
 
 from tinctura.colour.convert import srgb_to_oklab, to_polar
 from tinctura.overrides import faded
+from tinctura.rules.catalogue import LINK_CUE
 from tinctura.sourcemap import theme_area
 
 from . import messages as m
@@ -88,18 +89,8 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
     worst = problem.worst
     fg, bg = m.finding_colours(worst)
     marks = location.landmarks if location is not None else ()
-    if worst.rule == LINK_CUE:
-        text = link_cue(worst, fg, bg, marks)
-    else:
-        what = (f"{colour_name(fg)} {subject(worst.sample, marks)} on {colour_name(bg)}"
-                f"{area(marks)}")
-        state = STATES.get(worst.sample.state)
-        if faded(worst):
-            what += ", faded by an element's opacity,"
-        text = what[0].upper() + what[1:] + " is too faint"
-        if state:
-            text += f" {state}"
-        text += f": {m.measure(worst)}"  # the rule's own measure: a ratio, Lc, under a deficiency
+    text = (told_by_colour_alone if worst.rule == LINK_CUE.code else too_faint)(
+        worst, fg, bg, marks)
     schemes = getattr(problem, "schemes", None) or {}
     if many_schemes and len(schemes) == 1:
         text += f", in the {next(iter(schemes))} scheme"
@@ -109,10 +100,20 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
     return text + "."
 
 
-LINK_CUE = "TC120"  # a link told apart from its surrounding text by colour alone
+def too_faint(worst, fg, bg, marks) -> str:
+    """Colours in words, where, faded or not, the state, and the rule's own measure (a
+    ratio, Lc, under a deficiency)."""
+    what = f"{colour_name(fg)} {subject(worst.sample, marks)} on {colour_name(bg)}{area(marks)}"
+    state = STATES.get(worst.sample.state)
+    if faded(worst):
+        what += ", faded by an element's opacity,"
+    text = what[0].upper() + what[1:] + " is too faint"
+    if state:
+        text += f" {state}"
+    return text + f": {m.measure(worst)}"
 
 
-def link_cue(worst, fg, surround, marks) -> str:
+def told_by_colour_alone(worst, fg, surround, marks) -> str:
     """A link told apart by colour alone: its colour is set against the text around it (the
     finding's ``bg``), and what it misses is a ratio to that text, a cue on hover or focus."""
     what = f"{colour_name(fg)} link text in {colour_name(surround)} text{area(marks)}"
