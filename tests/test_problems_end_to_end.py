@@ -209,3 +209,39 @@ def test_a_variable_that_is_also_a_background_is_fixed_where_the_text_uses_it(tm
     # applied, the site passes: the badge keeps its accent
     (site / "site.css").write_text(ACCENT_CSS + css)
     assert json.loads(_header_check(site, "json"))["problems"] == []
+
+
+MENU_PAGE = """<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head><body>
+<nav class="menu"><a href="#">Gauges</a></nav>
+<p>Read the <a href="#">tide table</a> on page {n}.</p>
+</body></html>"""
+MENU_CSS = """body { color: #222222; background: #ffffff; }
+a { color: #1f5f8b; text-decoration: underline; }
+a:hover { color: #3091d1; }
+.menu { background: #343131; }
+.menu a { color: #d9d9d9; }
+"""
+
+
+def test_a_fix_keeps_out_of_the_elements_of_a_rule_it_would_take_over(tmp_path):
+    # The content link on hover is #3091d1 on white, 3.44:1 (WCAG 2 formula, by hand:
+    # L 0.2548): it fails. `.menu a` (same specificity as `a:hover`, later) colours the menu
+    # link, also when hovered: #d9d9d9 on #343131 passes. An `a:hover` override added last
+    # would take the menu link too (a blue on dark grey); the fix leaves it out, keeping the
+    # specificity of `a:hover` (:where adds none).
+    import json
+
+    from wcag_reference import ratio
+
+    assert round(ratio("#3091d1", "#ffffff"), 2) == 3.44
+    site = tmp_path / "site"
+    site.mkdir()
+    (site / "site.css").write_text(MENU_CSS)
+    for n in range(3):
+        (site / f"p{n}").mkdir()
+        (site / f"p{n}" / "index.html").write_text(MENU_PAGE.format(n=n))
+    (hover,) = json.loads(_header_check(site, "json"))["problems"]
+    assert hover["fix"]["verified"]
+    assert hover["fix"]["css"].startswith("a:hover:where(:not(.menu a)) {")
+    (site / "site.css").write_text(MENU_CSS + hover["fix"]["css"])
+    assert json.loads(_header_check(site, "json"))["problems"] == []

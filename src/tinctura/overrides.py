@@ -21,6 +21,7 @@ from typing import Optional
 from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
 from tinctura.mkdocs_project import owned
+from tinctura.model import REST
 from tinctura.problems import _quantize, faded, target_declaration
 
 DEFAULT_FILE = "stylesheets/colour-fixes.css"  # when the site has no stylesheet of its own
@@ -58,6 +59,9 @@ class Override:
     verified: Optional[bool] = None  # None: not re-checked
     shown_file: str = ""  # ``file`` as the writer sees it (relative to mkdocs.yml), when known
     shared_with: tuple = ()  # numbers (from 1) of other problems this same CSS fixes
+    # (normalized selector, property) -> selectors of the rules whose elements it took over
+    # (``recheck``): planned again without them (``excluding``)
+    took_over: dict = field(default_factory=dict)
 
     def keys(self) -> set:
         """What it sets: (media, selector, property, value) for every declaration."""
@@ -492,39 +496,42 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         return {"pages": 0, "remaining": 0}
     key = (css, tuple(_stamp(site_root, rel) for rel in pages))
     if cache is not None and cache.get("key") == key:
-        remaining_keys, bad, counts = cache["result"]
-        _mark(problems, overrides, remaining_keys, bad)
+        remaining_keys, bad, counts, took = cache["result"]
+        _mark(problems, overrides, remaining_keys, bad, took)
         return counts
     mine, theirs = list(pages), []
     if helper is not None and len(pages) > 1:
         mine, theirs = mine[0::2], mine[1::2]
     answer = helper(css, theirs) if theirs else None
-    remaining_keys, bad, remaining = recheck(site_root, options, css, mine, loader)
+    remaining_keys, bad, remaining, took = recheck(site_root, options, css, mine, loader)
     if theirs:  # a helper that could not start (None) or failed (its answer None): here
         got = (answer() if answer is not None else None) or \
             recheck(site_root, options, css, theirs, loader)
         remaining_keys |= got[0]
         bad |= got[1]
         remaining += got[2]
+        for where, rules in got[3].items():
+            took.setdefault(where, set()).update(rules)
     counts = {"pages": len(pages), "remaining": remaining}
     if cache is not None:
-        cache["key"], cache["result"] = key, (remaining_keys, bad, counts)
-    _mark(problems, overrides, remaining_keys, bad)
+        cache["key"], cache["result"] = key, (remaining_keys, bad, counts, took)
+    _mark(problems, overrides, remaining_keys, bad, took)
     return counts
 
 
 def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     """``pages`` checked with ``css`` injected as their last stylesheet, by the rules that can
     undo an override: ``(problem keys found, overrides' own declarations in findings,
-    number of findings)``."""
+    number of findings, the rules whose elements an override took over (``_took_over``))``."""
     from tinctura import engine
 
     options = _deciding(options)
+    keeping = replace(options, keep_samples=True)  # (the page without the overrides)
     site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
     if loader is not None:
         site.loader = loader  # parsed sheets reused; rule sets are keyed by their sheets
     _same_line_for_overrides(site.loader)
-    remaining_keys, bad = set(), set()
+    remaining_keys, bad, took = set(), set(), {}
     remaining = 0
     # (after a whole site's check many objects are alive: each full collection would scan
     # them all, as often as while pages were checked without ``relaxed_gc``; relaxed once
@@ -538,12 +545,13 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
                 continue
             _, findings, _ = engine.judge_page(site, rel, options, inject(html, css))
             remaining += len(findings)
-            suspects = _tally_findings(findings, css, remaining_keys, bad)
-            if suspects:  # another rule's errors on what the overrides colour: new ones?
-                _, plain, _ = engine.judge_page(site, rel, options, html)
+            suspects, own = _tally_findings(findings, css, remaining_keys, bad)
+            if suspects or own:  # errors on what the overrides colour: new ones?
+                result, plain, _ = engine.judge_page(site, rel, keeping, html)
                 there = {_slot(f) for f in plain}
                 bad.update(why for slot, why in suspects if slot not in there)
-    return remaining_keys, bad, remaining
+                _took_over(own, result.samples, took)
+    return remaining_keys, bad, remaining, took
 
 
 def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
@@ -554,20 +562,51 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
     before and after its colour changed, is not)."""
     from tinctura.problems import problem_key
 
-    suspects = []
+    suspects, own = [], []
     for f in findings:
         remaining_keys.add(problem_key(f))
         if f.required and f.ratio is not None and f.ratio >= f.required:
             continue  # its colours pass (a link's missing hover cue, say): no colour's fault
-        for cause in (f.sample.fg_cause, f.sample.bg_cause):
+        for side, cause in (("fg", f.sample.fg_cause), ("bg", f.sample.bg_cause)):
             for d in _declarations(cause):
                 if "<style>" in d.sheet and d.line and _injected(d, css):
                     why = (_normal(d.selector), d.property, f.rule, f.severity)
                     if f.rule in OVERRIDE_RULES:
                         bad.add(why)
+                        own.append((_slot(f), side, why))
                     else:
                         suspects.append((_slot(f), why))
-    return suspects
+    return suspects, own
+
+
+def _took_over(own, samples, took: dict) -> None:
+    """Where an override's colour fails on an element that another rule coloured without the
+    overrides (``samples``), the override beat that rule by coming last with the same
+    specificity: the rule is recorded against the override's (selector, property) in
+    ``took`` (a readthedocs ``a:hover`` override taking the menu's links from
+    ``.wy-menu-vertical a``, say)."""
+    before = {(s.page, s.xpath, s.state, s.scheme): s for s in samples}
+    for slot, side, why in own:
+        family = ("color",) if why[1] == "color" else _COLOUR_PROPS
+        if why[1] not in family:
+            continue
+        # (a state that changes nothing on an element has no sample of its own: the resting one)
+        sample = before.get(slot[1:]) or before.get((slot[1], slot[2], REST, slot[4]))
+        cause = None if sample is None else (sample.fg_cause if side == "fg" else
+                                              sample.bg_cause)
+        rule = None if cause is None else cause.declaration
+        if rule is not None and rule.selector and "::" not in rule.selector \
+                and rule.property in family and _normal(rule.selector) != _unscoped(why[0]):
+            took.setdefault(why[:2], set()).add(_SPACE.sub(" ", rule.selector.strip()))
+
+
+_SCOPE = re.compile(r":where\(\[[^\]]*\]\)")
+
+
+def _unscoped(selector: str) -> str:
+    """A normalized override selector without the scheme's ``:where([...])``: the selector
+    of the declaration it replaces."""
+    return _SCOPE.sub("", selector)
 
 
 def _slot(f) -> tuple:
@@ -618,7 +657,7 @@ def _same_line_for_overrides(loader) -> None:
     loader._overrides_pinned = True
 
 
-def _mark(problems, overrides, remaining_keys, bad) -> None:
+def _mark(problems, overrides, remaining_keys, bad, took=None) -> None:
     from tinctura.problems import problem_key
 
     for problem, override in zip(problems, overrides):
@@ -627,11 +666,31 @@ def _mark(problems, overrides, remaining_keys, bad) -> None:
         # (a declaration found in a finding names the selector of its list that matched)
         mine = {(_normal(one), d[0]) for r in override.rules for one in _listed(r.selector)
                 for d in r.declarations}
+        override.took_over = {key: rules for key, rules in (took or {}).items()
+                              if key in mine}
         # an override undoes itself when it causes a finding of its own rule, or an error
         caused = {(sel, prop) for sel, prop, rule, severity in bad
                   if rule == problem.rule or severity == "error"}
         override.verified = problem_key(problem.worst) not in remaining_keys and \
             not (mine & caused)
+
+
+def excluding(planned, exclude: dict) -> None:
+    """Leave out of each override's rules the elements of the rules it took over
+    (``exclude``: as ``Override.took_over``, gathered): ``a:hover:where(:not(.menu a))`` keeps
+    the specificity of ``a:hover`` and no longer beats ``.menu a`` there."""
+    for o in planned:
+        if o is None:
+            continue
+        for n, rule in enumerate(o.rules):
+            if "::" in rule.selector:
+                continue
+            gone = sorted({r for one in _listed(rule.selector) for d in rule.declarations
+                           for r in exclude.get((_normal(one), d[0]), ())})
+            if gone:
+                o.rules[n] = replace(rule, selector=", ".join(
+                    f"{one.strip()}:where(:not({', '.join(gone)}))"
+                    for one in _listed(rule.selector)))
 
 
 def _listed(selector: str) -> list:

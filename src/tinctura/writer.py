@@ -117,9 +117,11 @@ class WriterAid:
                                         self.sheet_order(first) if first else ())
         self._options = options
         narrow: frozenset = frozenset()
+        exclude: dict = {}
         for _ in range(NARROWING_ROUNDS + 1):
             planned = overrides_mod.plan_all(problems, planner, self.element_selector,
                                              self.opacity_of, narrow)
+            overrides_mod.excluding(planned, exclude)
             for problem, override in zip(problems, planned):
                 problem.override = override
                 if override is not None and self.project is not None:
@@ -129,13 +131,15 @@ class WriterAid:
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
                                           verification_pages(problems), loader, cache, helper)
             again = narrow | _to_narrow(problems, planned)
-            if again == narrow:
+            more = _took_over(planned, exclude)
+            if again == narrow and not more:
                 break
             narrow = again
         return counts
 
 
-# more verifications, at most, for fixes moved to the rules using a variable
+# more verifications, at most, for fixes moved to the rules using a variable or keeping out of
+# the elements of rules they took over
 NARROWING_ROUNDS = 2
 
 
@@ -145,6 +149,20 @@ def _to_narrow(problems, planned) -> frozenset:
     return frozenset(n for n, (p, o) in enumerate(zip(problems, planned))
                      if o is not None and o.verified is False
                      and (overrides_mod.narrowable(p) or overrides_mod.narrowable(p, "bg")))
+
+
+def _took_over(planned, exclude: dict) -> bool:
+    """Add to ``exclude`` the rules the unverified overrides took elements from
+    (``Override.took_over``); True when there are new ones."""
+    more = False
+    for o in planned:
+        if o is None or o.verified is not False:
+            continue
+        for key, rules in o.took_over.items():
+            known = exclude.setdefault(key, set())
+            more = more or not rules <= known
+            known |= rules
+    return more
 
 
 def script_behaviours(options) -> tuple:

@@ -1,0 +1,48 @@
+"""Fixes as tinctura writes them, cascaded by Chromium: an override that leaves out the elements
+of a rule it would otherwise take over (``a:hover:where(:not(.menu a))``, no specificity
+added by ``:where``) colours the texts Chromium colours with it, and no others.
+
+Source of truth: Chromium's computed colours with ``:hover`` forced (chromium_reference.py).
+"""
+from __future__ import annotations
+
+import io
+import json
+import sys
+from pathlib import Path
+
+from chromium_reference import run_site
+from tinctura.cli import main
+from tinctura.colour.convert import to_hex
+from tinctura.engine import Options, check_paths
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
+from test_problems_end_to_end import MENU_CSS, MENU_PAGE  # noqa: E402
+
+
+def test_a_fix_that_keeps_out_of_a_menu_cascades_as_in_chromium(tmp_path):
+    site = tmp_path / "site"
+    site.mkdir()
+    (site / "site.css").write_text(MENU_CSS)
+    (site / "p0").mkdir()
+    (site / "p0" / "index.html").write_text(MENU_PAGE.format(n=0))
+    out = tmp_path / "report.json"
+    main(["check", str(site), "--no-config", "--select", "TC100", "--fail-on", "never",
+          "--format", f"json:{out}"], stdout=io.StringIO(), stderr=io.StringIO())
+    (problem,) = json.loads(out.read_text())["problems"]
+    css = problem["fix"]["css"]
+    assert ":where(:not(.menu a))" in css
+    (site / "site.css").write_text(MENU_CSS + css)
+    chromium = {(r["xpath"], r.get("state", "rest")): r["fg"]
+                for r in run_site(site, states=("hover",))
+                if r["type"] == "sample" and r["scheme"] == "light" and r["xpath"].endswith("/a")}
+    ours = {(s.xpath, s.state): to_hex(s.fg)
+            for p in check_paths([str(site)], Options(jobs=1, keep_samples=True)).pages
+            for s in p.samples if s.xpath.endswith("/a")}
+    menu, content = "/html/body/nav/a", "/html/body/p/a"
+    # where hovering changes nothing, both keep the resting sample only (the harness and
+    # tinctura alike)
+    assert chromium.get((menu, "hover"), chromium[(menu, "rest")]) == \
+        ours.get((menu, "hover"), ours[(menu, "rest")]) == "#d9d9d9"
+    assert chromium[(content, "hover")] == ours[(content, "hover")] == \
+        css.split("color: ")[1][:7]
