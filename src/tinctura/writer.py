@@ -131,7 +131,7 @@ class WriterAid:
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
                                           verification_pages(problems), loader, cache, helper)
             again = narrow | _to_narrow(problems, planned)
-            more = _took_over(planned, exclude)
+            more = _gather_taken(planned, exclude)
             if again == narrow and not more:
                 break
             narrow = again
@@ -151,7 +151,7 @@ def _to_narrow(problems, planned) -> frozenset:
                      and (overrides_mod.narrowable(p) or overrides_mod.narrowable(p, "bg")))
 
 
-def _took_over(planned, exclude: dict) -> bool:
+def _gather_taken(planned, exclude: dict) -> bool:
     """Add to ``exclude`` the rules the unverified overrides took elements from
     (``Override.took_over``); True when there are new ones."""
     more = False
