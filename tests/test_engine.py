@@ -234,6 +234,33 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     assert results[0] == results[1] == results[2] == results[3] and results[0][0] is True
 
 
+def test_verify_caches_every_round_of_a_build(site, monkeypatch):
+    """``mkdocs serve`` keeps a cache between builds: the overrides of each round of planning
+    (writer.NARROWING_ROUNDS) are looked up there, not only the last round's."""
+    from tinctura import overrides
+
+    options = Options(keep_samples=False)
+    pages = ["p1/index.html"]
+    calls = []
+    recheck = overrides.recheck
+
+    def counting(*args, **kwargs):
+        calls.append(args[2])
+        return recheck(*args, **kwargs)
+
+    monkeypatch.setattr(overrides, "recheck", counting)
+    cache: dict = {}
+    rounds = ["#595959", "#505050"]  # two rounds' values for the faint text
+    for _ in range(2):  # two builds, each with both rounds
+        for value in rounds:
+            override = overrides.Override("site.css", [overrides.Rule(
+                ".faint", (("color", value, False),))])
+            overrides.verify(str(site), options, [_faint_problem(site, options)], [override],
+                             pages, cache=cache)
+            assert override.verified is True
+    assert len(calls) == 2  # the second build found both rounds in the cache
+
+
 def _faint_problem(site, options):
     from tinctura import engine, problems
 

@@ -486,7 +486,8 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     ``{"pages": n, "remaining": findings left on them}``.
 
     ``loader``: a SheetLoader whose parsed stylesheets can be reused; ``cache``: a dict kept
-    between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice;
+    between calls (``mkdocs serve``): the same CSS on the same pages is not checked twice (a
+    build's every round of planning, ``writer.NARROWING_ROUNDS``);
     ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
     worker, idle by then) and returns a callable giving its result (None if the worker
     failed), or None when no worker could start; those pages are then checked here.
@@ -495,8 +496,8 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     if not css:
         return {"pages": 0, "remaining": 0}
     key = (css, tuple(_stamp(site_root, rel) for rel in pages))
-    if cache is not None and cache.get("key") == key:
-        remaining_keys, bad, counts, took = cache["result"]
+    if cache is not None and key in cache:
+        remaining_keys, bad, counts, took = cache[key]
         _mark(problems, overrides, remaining_keys, bad, took)
         return counts
     mine, theirs = list(pages), []
@@ -514,9 +515,14 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
             took.setdefault(where, set()).update(rules)
     counts = {"pages": len(pages), "remaining": remaining}
     if cache is not None:
-        cache["key"], cache["result"] = key, (remaining_keys, bad, counts, took)
+        if len(cache) >= CACHED_VERIFICATIONS:
+            cache.clear()
+        cache[key] = (remaining_keys, bad, counts, took)
     _mark(problems, overrides, remaining_keys, bad, took)
     return counts
+
+
+CACHED_VERIFICATIONS = 8  # a build's rounds, a few times over
 
 
 def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
