@@ -20,6 +20,7 @@ from typing import Optional
 
 from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
+from tinctura.colour.parse import parse_color
 from tinctura.mkdocs_project import owned
 from tinctura.model import REST
 from tinctura.problems import _quantize, faded, target_declaration
@@ -227,7 +228,7 @@ class Planner:
         colours = self._colours(as_unfaded, element_selector, narrow)
         if colours is None:
             return None
-        new = [_from_hex(d[1]) for r in colours.rules for d in r.declarations
+        new = [parse_color(d[1])[:3] for r in colours.rules for d in r.declarations
                if d[1].startswith("#")]
         raised = self._opacity(problem, opacity_of, new, colours.target)
         if raised is not None:
@@ -363,9 +364,6 @@ def _seen_with(finding, new, target) -> list:
         return [(None, colour) for colour in new]
     return [(colour, None) for colour in new]
 
-
-def _from_hex(value: str) -> tuple:
-    return tuple(int(value[i:i + 2], 16) / 255 for i in (1, 3, 5))
 
 
 def _context_for(contexts, scheme, finding):
@@ -562,10 +560,11 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
 
 def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
     """Add a rechecked page's findings to the problem keys found and to the overrides' own
-    declarations that cause a finding (``recheck``). Returns ``(slot, declaration)`` of the
-    errors of other rules than the overrides' that the overrides colour: theirs only when the
-    page had no such error there before (a link's ratio to the text around it, TC120, failing
-    before and after its colour changed, is not)."""
+    declarations that cause a finding (``recheck``). Returns ``(suspects, own)``: the
+    ``(slot, declaration)`` of errors of other rules that the overrides colour, theirs only
+    when the page had no such error there before (a link's ratio to the text around it,
+    TC120, failing before and after its colour changed, is not); and the ``(slot, side,
+    declaration)`` of the overrides' own rule's findings they colour (``_took_over``)."""
     from tinctura.problems import problem_key
 
     suspects, own = [], []
@@ -593,9 +592,12 @@ def _took_over(own, samples, took: dict) -> None:
     ``.wy-menu-vertical a``, say)."""
     before = {(s.page, s.xpath, s.state, s.scheme): s for s in samples}
     for slot, side, why in own:
-        family = ("color",) if why[1] == "color" else _COLOUR_PROPS
-        if why[1] not in family:
-            continue
+        if why[1] == "color":
+            family = ("color",)
+        elif why[1] in _COLOUR_PROPS:
+            family = _COLOUR_PROPS
+        else:
+            continue  # a custom property: its uses are rules of their own (``narrowable``)
         # (a state that changes nothing on an element has no sample of its own: the resting one)
         sample = before.get(slot[1:]) or before.get((slot[1], slot[2], REST, slot[4]))
         cause = None if sample is None else (sample.fg_cause if side == "fg" else
@@ -700,17 +702,13 @@ def excluding(planned, exclude: dict) -> None:
 
 
 def _listed(selector: str) -> list:
-    """The selectors of a selector list (commas outside brackets and parentheses)."""
-    out, depth, start = [], 0, 0
-    for i, ch in enumerate(selector):
-        if ch in "([":
-            depth += 1
-        elif ch in ")]":
-            depth -= 1
-        elif ch == "," and depth == 0:
-            out.append(selector[start:i])
-            start = i + 1
-    return out + [selector[start:]]
+    """The selectors of a selector list (split where tinycss2 sees top-level commas)."""
+    import tinycss2
+
+    from tinctura.tokens import split_commas
+
+    return [tinycss2.serialize(group).strip()
+            for group in split_commas(tinycss2.parse_component_value_list(selector))]
 
 
 def _declarations(cause):
