@@ -36,8 +36,8 @@ def test_jobs_give_identical_results_in_the_same_order(site):
 
 def test_workers_leave_the_collector_as_they_found_it(site):
     # the main process freezes its heap before forking workers and thaws it after, but only
-    # when nothing was frozen: a caller's frozen objects stay frozen (and the thresholds
-    # relaxed while the workers' pages come in are restored)
+    # when nothing was frozen: a caller's frozen objects stay frozen (and the collector, off
+    # while the workers' pages come in, is on again with its thresholds)
     import gc
 
     from tinctura import engine
@@ -45,7 +45,7 @@ def test_workers_leave_the_collector_as_they_found_it(site):
     thresholds = gc.get_threshold()
     gc.unfreeze()
     check_paths([str(site)], Options(jobs=2))
-    assert gc.get_freeze_count() == 0 and gc.get_threshold() == thresholds
+    assert gc.get_freeze_count() == 0 and gc.get_threshold() == thresholds and gc.isenabled()
     gc.freeze()
     try:
         mine = gc.get_freeze_count()

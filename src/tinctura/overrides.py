@@ -537,9 +537,8 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     _same_line_for_overrides(site.loader)
     remaining_keys, bad, took = set(), set(), {}
     remaining = 0
-    # (after a whole site's check many objects are alive: each full collection would scan
-    # them all, as often as while pages were checked without ``relaxed_gc``; relaxed once
-    # for all the pages: leaving it restores the thresholds, and the next allocation collects)
+    # (after a whole site's check many objects are alive: each collection would scan what
+    # the pages keep and free nothing; none runs while these pages are checked, ``relaxed_gc``)
     with engine.relaxed_gc():
         for rel in pages:
             try:

@@ -48,7 +48,7 @@ import numpy as np
 from .convert import LINEAR_SRGB_TO_XYZ
 
 SURROUNDS = ("Average", "Dim", "Dark")
-# CIE 159:2004 surround factors (F, c, N_c)
+# CIE 159:2004 surround factors (F, c, N_c), as shared/reference-values.md lists them
 SURROUND_FACTORS = {"Average": (1.0, 0.69, 1.0), "Dim": (0.9, 0.59, 0.9),
                     "Dark": (0.8, 0.525, 0.8)}
 Y_B_MINIMUM = 1.0  # luminance factor of the darkest background the model is given (0-100)
@@ -111,7 +111,8 @@ class Specification(NamedTuple):
     M: np.ndarray
 
 
-# CIE 159:2004: the CAT02 matrix and the Hunt-Pointer-Estevez matrix (cone space)
+# CIE 159:2004: the CAT02 matrix and the Hunt-Pointer-Estevez matrix (cone space); values from
+# memory, which the tests' comparison with colour-science confirms
 M_CAT02 = np.array([[0.7328, 0.4296, -0.1624],
                     [-0.7036, 1.6975, 0.0061],
                     [0.0030, 0.0136, 0.9834]])
