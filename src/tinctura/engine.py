@@ -492,7 +492,7 @@ def noted_once(results):
 
 
 def _process(site, rel, options, judged, html=None):
-    with _no_collections():
+    with no_collections():
         return _processed(site, rel, options, judged, html)
 
 
@@ -915,7 +915,7 @@ def kept_out_of_collections():
 
 
 @contextmanager
-def _no_collections():
+def no_collections():
     """No cyclic garbage collection inside (a page's check, in any process); the collector
     as it was after (a caller's disabled collector stays so).
 
@@ -934,13 +934,12 @@ def _no_collections():
 
 @contextmanager
 def relaxed_gc():
-    """``_no_collections`` around a run of pages in a process that only checks them
-    (``tinctura check``, the verification's rechecks), their findings taken in too (which
-    makes a few dozen cyclic objects now and then). After it, what the run keeps (caches,
+    """``no_collections`` around the run of pages of ``tinctura check``, their findings taken
+    in too (which makes a few dozen cyclic objects now and then). After it, what the run keeps (caches,
     records) moves to the oldest generation unscanned (``gc.freeze`` then ``gc.unfreeze``):
     the first collection would otherwise scan it all and free next to nothing (0.11 s after
     200 pages). Not when anything is frozen: a caller's frozen objects stay frozen."""
-    with _no_collections():
+    with no_collections():
         yield
         if gc.get_freeze_count() == 0:
             gc.freeze()

@@ -538,8 +538,8 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     remaining_keys, bad, took = set(), set(), {}
     remaining = 0
     # (after a whole site's check many objects are alive: each collection would scan what
-    # the pages keep and free nothing; none runs while these pages are checked, ``relaxed_gc``)
-    with engine.relaxed_gc():
+    # the pages keep and free nothing; none runs while these pages are checked)
+    with engine.no_collections():
         for rel in pages:
             try:
                 with open(f"{site.root}/{rel}", encoding="utf-8", errors="replace") as fh:

@@ -192,16 +192,21 @@ def verification_pages(problems) -> list:
             order.setdefault(f.sample.page, len(order))
     for page in sorted(set().union(*met)):
         order.setdefault(page, len(order))
-    meeting: dict = {}  # page -> the problems (indexes) it meets that no chosen page meets
+    return _greedy_cover(met, order, VERIFY_LIMIT)
+
+
+def _greedy_cover(met: list, order: dict, most: int) -> list:
+    """Pages (at most ``most``) meeting every set of ``met``: each time the page in most sets
+    not yet met, the lowest ``order`` on a tie."""
+    meeting: dict = {}  # page -> the sets (indexes) it is in that no chosen page is in
     for n, pages in enumerate(met):
         for page in pages:
             meeting.setdefault(page, set()).add(n)
     chosen = []
-    while meeting and len(chosen) < VERIFY_LIMIT:
+    while meeting and len(chosen) < most:
         best = min(meeting, key=lambda page: (-len(meeting[page]), order[page]))
-        covered = meeting.pop(best)
         chosen.append(best)
-        for n in covered:
+        for n in meeting.pop(best):
             for page in met[n]:
                 left = meeting.get(page)
                 if left is not None:
