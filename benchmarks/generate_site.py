@@ -10,7 +10,8 @@ harbour office of the fictional town of Brindlemoor. Every page is listed in the
 documentation sites do. Pages mix headings, paragraphs with links and inline code, tables,
 highlighted code (some with line numbers), admonitions and lists. A custom stylesheet
 redefines a few custom properties per colour scheme and plants faint colours, so the check
-has findings to report.
+has findings to report; the tables' status chips (``.tw-state.tw-ok`` and its siblings) are a
+palette, which the site-level appearance rules judge after the last page.
 
 Files written into OUTDIR:
     docs/**.md, docs/stylesheets/tidewright.css
@@ -125,9 +126,24 @@ EXTRA_CSS = """\
   padding: .4em .8em;
 }
 .md-typeset .tw-warning-text { color: #f5a623; }  /* planted: orange on white */
+/* status chips: a palette (a family with modifiers) for the site-level appearance rules */
+.md-typeset .tw-state.tw-ok { color: #2e7d32; }
+.md-typeset .tw-state.tw-late { color: #9a5b00; }
+.md-typeset .tw-state.tw-fault { color: #c62828; }
+[data-md-color-scheme="slate"] .md-typeset .tw-state.tw-ok { color: #81c784; }
+[data-md-color-scheme="slate"] .md-typeset .tw-state.tw-late { color: #ffb74d; }
+[data-md-color-scheme="slate"] .md-typeset .tw-state.tw-fault { color: #ef9a9a; }
 .md-typeset a.tw-quiet-link { color: #9ecbf0; }
 .md-typeset a.tw-quiet-link:hover { color: #d0e7fa; }  /* planted: fainter on hover */
 """
+
+
+STATES = {"stable": "ok", "beta": "late", "deprecated": "fault"}
+
+
+def state_chip(status: str) -> str:
+    """A table's status as a coloured chip (no random draw: the pages' text stays the same)."""
+    return f'<span class="tw-state tw-{STATES[status]}">{status}</span>'
 
 
 # Selectors a theme customisation often has: a structural one whose rightmost compound matches
@@ -232,7 +248,7 @@ class PageWriter:
                 r.choice(["string", "integer", "duration", "date-time", "list", "boolean"]),
                 r.choice(["`0`", "`none`", "`auto`", "`06:00`", "empty", "`true`"]),
                 ('<span class="tw-badge">stable</span>' if r.random() < 0.3
-                 else r.choice(["stable", "beta", "deprecated"])),
+                 else state_chip(r.choice(["stable", "beta", "deprecated"]))),
                 f"{r.choice(VERBS).capitalize()} the {r.choice(NOUNS)}.",
             ][:cols]
             lines.append("| " + " | ".join(row) + " |")

@@ -36,8 +36,8 @@ def test_jobs_give_identical_results_in_the_same_order(site):
 
 def test_workers_leave_the_collector_as_they_found_it(site):
     # the main process freezes its heap before forking workers and thaws it after, but only
-    # when nothing was frozen: a caller's frozen objects stay frozen (and the thresholds
-    # relaxed while the workers' pages come in are restored)
+    # when nothing was frozen: a caller's frozen objects stay frozen (and the collector, off
+    # while the workers' pages come in, is on again with its thresholds)
     import gc
 
     from tinctura import engine
@@ -45,7 +45,7 @@ def test_workers_leave_the_collector_as_they_found_it(site):
     thresholds = gc.get_threshold()
     gc.unfreeze()
     check_paths([str(site)], Options(jobs=2))
-    assert gc.get_freeze_count() == 0 and gc.get_threshold() == thresholds
+    assert gc.get_freeze_count() == 0 and gc.get_threshold() == thresholds and gc.isenabled()
     gc.freeze()
     try:
         mine = gc.get_freeze_count()
@@ -408,3 +408,51 @@ def test_counts_and_uses_per_group_of_alike_samples_are_those_per_sample(site):
     assert list(problems.declaration_uses(same.firsts).items()) == \
         list(problems.declaration_uses(samples).items())
     assert palette.collect(samples, (), same) == palette.collect(samples)
+
+
+def test_no_collection_runs_while_a_page_is_checked(site, monkeypatch):
+    # a collection in the middle of a page scans everything the page keeps alive and frees
+    # nothing (the walk makes no cycles); between pages the collector runs as usual
+    import gc
+
+    from tinctura import engine
+
+    during = []
+    check_page = engine.Site.check_page
+
+    def watched(self, rel, html=None):
+        during.append(gc.isenabled())
+        return check_page(self, rel, html)
+
+    monkeypatch.setattr(engine.Site, "check_page", watched)
+    assert gc.isenabled()
+    report = check_paths([str(site)], Options(jobs=1))
+    assert len(report.pages) == 13 and during == [False] * 13
+    assert gc.isenabled()
+    gc.disable()  # a caller's choice is kept
+    try:
+        check_paths([str(site)], Options(jobs=1))
+        assert not gc.isenabled()
+    finally:
+        gc.enable()
+
+
+def test_checking_a_page_makes_no_reference_cycles(site, monkeypatch):
+    # forked workers check pages with the cyclic collector off (engine._worker_init): what a
+    # page allocates must be freed by reference counting alone. (A Site's own rule sets and
+    # caches do hold cycles: they live as long as the worker.)
+    import gc
+
+    from tinctura import engine
+
+    found = []
+    processed = engine._processed
+
+    def then_collect(*args, **kwargs):
+        result = processed(*args, **kwargs)
+        found.append(gc.collect())
+        return result
+
+    monkeypatch.setattr(engine, "_processed", then_collect)
+    check_paths([str(site)], Options(jobs=1))
+    assert len(found) == 13 and found[3:] == [0] * 10, found

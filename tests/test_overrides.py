@@ -209,3 +209,59 @@ def test_least_opacity_over_an_overrides_new_colours():
     # over a new #008578 (white on it 4.54:1, by hand) at 0.95 it is 4.25:1: only 1 passes
     bg = tuple(int("008578"[i:i + 2], 16) / 255 for i in (0, 2, 4))
     assert _least_opacity(finding, 0.7, 1.0, 4.5, bg=bg) == 1.0
+
+
+class _Met:
+    """A problem with an override, met on ``pages``, its examples on ``examples``."""
+
+    def __init__(self, pages, examples=None, override=True):
+        self.met_on = set(pages)
+        self.override = object() if override else None
+        self._examples = [type("F", (), {"sample": type("S", (), {"page": p})})()
+                          for p in (examples or sorted(pages))]
+
+    def example_pool(self):
+        return self._examples
+
+
+def test_verification_pages_cover_every_problem_with_few_pages():
+    from tinctura.writer import verification_pages
+
+    everywhere = [f"p{i}.html" for i in range(10)]
+    problems = [_Met(everywhere),  # a navigation accent: on every page
+                _Met(["p3.html", "p7.html"]),  # code tokens on two pages
+                _Met(["p7.html", "p8.html"]),  # a table on two
+                _Met(["p1.html"], override=False),  # no fix planned: no page needed
+                _Met(["p5.html"])]
+    # p7 meets three of the four problems; p5 alone meets the last one
+    assert verification_pages(problems) == ["p7.html", "p5.html"]
+
+
+def test_verification_pages_prefer_example_pages_on_a_tie():
+    from tinctura.writer import verification_pages
+
+    problems = [_Met(["a.html", "b.html", "c.html"], examples=["c.html"]),
+                _Met(["a.html", "b.html", "c.html"])]
+    assert verification_pages(problems) == ["c.html"]
+
+
+def test_verification_pages_without_page_sets_use_the_example_pages():
+    from tinctura.writer import VERIFY_LIMIT, verification_pages
+
+    bare = _Met([], examples=["q.html", "r.html"])
+    bare.met_on = None  # problems grouped without a Collector
+    assert verification_pages([bare]) == ["q.html"]
+    many = [_Met([f"only{i}.html"]) for i in range(VERIFY_LIMIT + 5)]
+    assert len(verification_pages(many)) == VERIFY_LIMIT
+
+
+def test_a_collectors_problems_know_every_page_they_were_met_on():
+    from tinctura.problems import Collector
+
+    found = run([make_sample("#999999", "#ffffff", page=f"p{i}.html") for i in range(7)],
+                Options())
+    collector = Collector()
+    for f in found:
+        collector.add(f)
+    (problem,) = [p for p in collector.problems(uses={}) if p.rule == "TC100"]
+    assert problem.met_on == {f"p{i}.html" for i in range(7)} and problem.pages == 7

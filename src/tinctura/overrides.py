@@ -537,10 +537,9 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     _same_line_for_overrides(site.loader)
     remaining_keys, bad, took = set(), set(), {}
     remaining = 0
-    # (after a whole site's check many objects are alive: each full collection would scan
-    # them all, as often as while pages were checked without ``relaxed_gc``; relaxed once
-    # for all the pages: leaving it restores the thresholds, and the next allocation collects)
-    with engine.relaxed_gc():
+    # (after a whole site's check many objects are alive: each collection would scan what
+    # the pages keep and free nothing; none runs while these pages are checked)
+    with engine.no_collections():
         for rel in pages:
             try:
                 with open(f"{site.root}/{rel}", encoding="utf-8", errors="replace") as fh:

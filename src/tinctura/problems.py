@@ -84,6 +84,8 @@ class Problem:
     # var(--accent)`` in each rule), and the background's, in the order met
     using: Optional[dict] = None
     using_bg: Optional[dict] = None
+    # built by a Collector: every page it was met on (``writer.verification_pages``)
+    met_on: Optional[set] = field(default=None, repr=False, compare=False)
 
     @property
     def scheme_names(self) -> list:
@@ -416,7 +418,8 @@ class Collector:
     def problems(self, uses: dict) -> list:
         out = []
         for key, p in self._buckets.items():
-            p.pages = len(self._progress[key].pages)
+            p.met_on = self._progress[key].pages
+            p.pages = len(p.met_on)
             if p.indexes is not None:  # add_page counts some ahead of others
                 p.indexes = array("L", sorted(p.indexes))
             p.fix_at_cause = fix_at_cause(p, uses)

@@ -175,28 +175,52 @@ def script_behaviours(options) -> tuple:
             + tuple(getattr(options, "behaviours", ()) or ()))
 
 
-VERIFY_PAGES = 1  # pages per problem checked again with the overrides applied
 VERIFY_LIMIT = 24  # pages in all: a site-wide cause costs a few pages, not the whole site
 
 
 def verification_pages(problems) -> list:
-    """The pages of each problem's examples (a cause fixed there is fixed everywhere the
-    same declarations meet), in problem order, bounded."""
-    pages: dict = {}
-    for problem in problems:
-        if getattr(problem, "override", None) is None:
-            continue
-        if any(f.sample.page in pages for f in problem.example_pool()):
-            continue  # already checked on a page chosen for an earlier problem
-        mine = []
-        for f in problem.example_pool():
-            if f.sample.page not in mine:
-                mine.append(f.sample.page)
-            if len(mine) == VERIFY_PAGES:
-                break
-        for page in mine:
-            pages.setdefault(page, None)
-    return list(pages)[:VERIFY_LIMIT]
+    """Few pages that together meet every problem with an override (a cause fixed there is
+    fixed everywhere the same declarations meet), bounded. Each page is checked again cold
+    (the overrides make new rule sets), about a first page's cost, so the fewer the better:
+    the page meeting most problems not yet met is taken first (a greedy cover); on a tie, the
+    page of an earlier problem's examples, then the first in site order."""
+    wanted = [p for p in problems if getattr(p, "override", None) is not None]
+    met = [_met_on(p) for p in wanted]
+    order: dict = {}  # page -> rank for ties
+    for p in wanted:
+        for f in p.example_pool():
+            order.setdefault(f.sample.page, len(order))
+    for page in sorted(set().union(*met)):
+        order.setdefault(page, len(order))
+    return _greedy_cover(met, order, VERIFY_LIMIT)
+
+
+def _greedy_cover(met: list, order: dict, most: int) -> list:
+    """Pages (at most ``most``) meeting every set of ``met``: each time the page in most sets
+    not yet met, the lowest ``order`` on a tie."""
+    meeting: dict = {}  # page -> the sets (indexes) it is in that no chosen page is in
+    for n, pages in enumerate(met):
+        for page in pages:
+            meeting.setdefault(page, set()).add(n)
+    chosen = []
+    while meeting and len(chosen) < most:
+        best = min(meeting, key=lambda page: (-len(meeting[page]), order[page]))
+        chosen.append(best)
+        for n in meeting.pop(best):
+            for page in met[n]:
+                left = meeting.get(page)
+                if left is not None:
+                    left.discard(n)
+                    if not left:
+                        del meeting[page]
+    return chosen
+
+
+def _met_on(problem) -> set:
+    """The pages ``problem`` was met on (a Collector's problems know them all), or those of
+    its example findings."""
+    pages = getattr(problem, "met_on", None)
+    return set(pages) if pages else {f.sample.page for f in problem.example_pool()}
 
 
 def write_fixes(path: str, problems, project=None) -> tuple:

@@ -1,9 +1,11 @@
-"""CIECAM02 viewing conditions and the qualitative facts of simultaneous contrast.
+"""CIECAM02: the forward model, its viewing conditions and the qualitative facts of
+simultaneous contrast.
 
 Sources: the worked examples of CIE 159:2004 as tabulated by Luo and Li (2013), values from
 memory listed in shared/reference-values.md (tolerance: the table's last digit, 0.05 in J and
-C, 0.1 degree in h); colour-science (general-purpose reference library) for the inputs our
-module builds; common practice for the qualitative facts.
+C, 0.1 degree in h); colour-science (general-purpose reference library, ``XYZ_to_CIECAM02``)
+for the model on many inputs and for the inputs our module builds; common practice for the
+qualitative facts.
 """
 import subprocess
 import sys
@@ -23,23 +25,45 @@ WORKED = [  # XYZ, XYZ_w, L_A, Y_b, J, C, h (Average surround)
 ]
 
 
-def test_worked_examples_through_the_batched_call():
-    """The forward model we call, batched as we call it, reproduces the worked examples."""
+@pytest.mark.parametrize("model", ["ours", "colour-science"])
+def test_worked_examples_through_the_batched_call(model):
+    """Our forward model, batched as the rules call it, reproduces the worked examples; so
+    does the reference library's (which the next test compares ours with)."""
     xyz, white, l_a, y_b, J, C, h = (np.array(col, dtype=float) for col in zip(*WORKED))
-    spec = colour.XYZ_to_CIECAM02(xyz, white, l_a, y_b,
-                                  colour.VIEWING_CONDITIONS_CIECAM02["Average"])
+    if model == "ours":
+        spec = ciecam02.forward(xyz, white, l_a, y_b, "Average")
+    else:
+        spec = colour.XYZ_to_CIECAM02(xyz, white, l_a, y_b,
+                                      colour.VIEWING_CONDITIONS_CIECAM02["Average"])
     assert np.allclose(spec.J, J, atol=0.05)
     assert np.allclose(spec.C, C, atol=0.05)
     assert np.allclose(spec.h, h, atol=0.1)
 
 
+@pytest.mark.parametrize("surround", ciecam02.SURROUNDS)
+def test_forward_model_matches_colour_science(surround):
+    """Every correlate the module gives, for random display colours under random whites,
+    adapting luminances and backgrounds (colour-science ``XYZ_to_CIECAM02``; tolerance 1e-9
+    relative: floating point order only)."""
+    rng = np.random.default_rng(7)
+    n = 3000
+    xyz = ciecam02.srgb_to_xyz(rng.uniform(0, 1, (n, 3)))
+    white = ciecam02.adopted_white(ciecam02.srgb_to_xyz(rng.uniform(0, 1, (n, 3))),
+                                   rng.uniform(0, 1, (n, 1)))
+    l_a, y_b = rng.uniform(0.5, 1000, n), rng.uniform(1, 100, n)
+    ours = ciecam02.forward(xyz, white, l_a, y_b, surround)
+    ref = colour.XYZ_to_CIECAM02(xyz, white, l_a, y_b,
+                                 colour.VIEWING_CONDITIONS_CIECAM02[surround])
+    for name in ("J", "C", "h", "s", "Q", "M"):
+        assert np.allclose(getattr(ours, name), getattr(ref, name), rtol=1e-9, atol=1e-9), name
+
+
 def test_surround_factors_are_cie_159():
-    """CIE 159:2004 surround factors (reference-values.md): F, c, Nc."""
+    """CIE 159:2004 surround factors (reference-values.md): F, c, Nc; colour-science's too."""
+    expected = {"Average": (1.0, 0.69, 1.0), "Dim": (0.9, 0.59, 0.9), "Dark": (0.8, 0.525, 0.8)}
+    assert ciecam02.SURROUND_FACTORS == expected
     vc = colour.VIEWING_CONDITIONS_CIECAM02
-    factors = {name: (f.F, f.c, f.N_c) for name, f in vc.items()}
-    assert factors["Average"] == (1.0, 0.69, 1.0)
-    assert factors["Dim"] == (0.9, 0.59, 0.9)
-    assert factors["Dark"] == (0.8, 0.525, 0.8)
+    assert {name: (vc[name].F, vc[name].c, vc[name].N_c) for name in expected} == expected
 
 
 def test_srgb_white_is_d65_at_y_100():
@@ -90,6 +114,24 @@ def test_black_background_stays_defined():
 def test_bad_conditions_are_refused(bad):
     with pytest.raises(ValueError):
         ciecam02.ViewingConditions(**bad)
+
+
+def test_site_appearance_rules_do_not_import_colour_science(tmp_path):
+    """The site-level rules (TC300, TC310) run after the last page, on the critical path:
+    importing colour-science there took a fifth of a 200-page check."""
+    page = tmp_path / "p.html"
+    page.write_text('<style>.tag.caution{color:#b26b00} .tag.fault{color:#c62828}'
+                    ' .panel{background:#263238}</style>'
+                    '<p>Berth 4: <span class="tag caution">tide falling</span></p>'
+                    '<div class="panel"><span class="tag fault">pilot late</span></div>',
+                    encoding="utf-8")
+    code = (
+        "import sys\nfrom tinctura import engine\n"
+        f"report = engine.check_paths([{str(page)!r}], engine.Options())\n"
+        "assert report.palette, 'no palette uses: the site-level rules would not run'\n"
+        "assert 'colour' not in sys.modules, 'colour-science imported'\n"
+    )
+    subprocess.run([sys.executable, "-c", code], check=True)
 
 
 def test_text_ratio_alone_does_not_import_colour_science(tmp_path):
