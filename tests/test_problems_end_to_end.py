@@ -245,3 +245,36 @@ def test_a_fix_keeps_out_of_the_elements_of_a_rule_it_would_take_over(tmp_path):
     assert hover["fix"]["css"].startswith("a:hover:where(:not(.menu a)) {")
     (site / "site.css").write_text(MENU_CSS + hover["fix"]["css"])
     assert json.loads(_header_check(site, "json"))["problems"] == []
+
+
+INLINE_PAGE = """<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head><body>
+<h1>Tide table {n}</h1>{before}
+<p>Heights are in metres. <span style="color: #B4C8D8">Figures are provisional.</span></p>
+<p>Other text <span style="background: #b4c8d8">on a pale band</span>.</p>
+</body></html>"""
+
+
+def _inline_site(path):
+    (path / "site.css").write_text("body { color: #222222; background: #ffffff; }\n")
+    for n in range(3):  # the span stands after 0, 1 and 2 other paragraphs
+        (path / f"p{n}").mkdir(exist_ok=True)
+        (path / f"p{n}" / "index.html").write_text(
+            INLINE_PAGE.format(n=n, before="<p>Low water first.</p>" * n))
+    return path
+
+
+def test_a_colour_pasted_as_a_style_attribute_is_fixed_on_every_page(tmp_path):
+    # #b4c8d8 on white is 1.72:1 (WCAG 2.2 formula): one problem on three pages, the span at
+    # another place on each. A fix naming the example's element by position would change one
+    # page only; the fix names the style attribute's value, and the whole site checked again
+    # with it passes. The background-only span is not that problem's: it keeps its colour.
+    import json
+
+    (tmp_path / "site").mkdir()
+    site = _inline_site(tmp_path / "site")
+    (problem,) = json.loads(_header_check(site, "json"))["problems"]
+    css = problem["fix"]["css"]
+    assert problem["fix"]["verified"]
+    assert css.startswith('span[style="color: #B4C8D8" i] {') and "!important" in css
+    (site / "site.css").write_text((site / "site.css").read_text() + css)
+    assert json.loads(_header_check(site, "json"))["problems"] == []

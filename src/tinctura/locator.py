@@ -74,6 +74,22 @@ def selector(el) -> str:
     return " > ".join(path)
 
 
+_TAG = re.compile(r"^[a-z][a-z0-9-]*$")
+_QUOTABLE = re.compile(r'^[^"\\\n]+$')  # no quote, backslash or newline to escape
+
+
+def by_style(el) -> str | None:
+    """A CSS selector for every element with ``el``'s tag and its whole style attribute, as
+    written (``span[style="color: #b4c8d8" i]``): a snippet pasted on many pages, at other
+    places each time, where ``selector`` names one page's element. None when the attribute
+    cannot be quoted as it is."""
+    tag, style = el.tag, el.get("style")
+    if not isinstance(tag, str) or not _TAG.match(tag) or not style or \
+            not _QUOTABLE.match(style):
+        return None
+    return f'{tag}[style="{style}" i]'
+
+
 def _nth_of_type(el) -> str:
     parent = el.getparent()
     if parent is None:

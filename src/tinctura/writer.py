@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from typing import Optional
 
 from tinctura import overrides as overrides_mod
-from tinctura.locator import Pages, landmarks, pseudo, readable, selector
+from tinctura.locator import Pages, by_style, landmarks, pseudo, readable, selector
 from tinctura.sourcemap import Source, SourceMap
 
 
@@ -65,8 +65,23 @@ class WriterAid:
         return xpath if el is None else readable(el) + pseudo(xpath)
 
     def element_selector(self, finding) -> Optional[str]:
-        el = self.pages.element(finding.sample.page, finding.sample.xpath)
-        return None if el is None else selector(el) + pseudo(finding.sample.xpath)
+        """A CSS selector for a finding's element, for a fix where no rule holds the colour:
+        when a style attribute sets it, every element with that attribute as written (on
+        this element or the ancestor it inherits from: ``locator.by_style``), else the
+        element by its place on the page (``locator.selector``)."""
+        s = finding.sample
+        el = self.pages.element(s.page, s.xpath)
+        if el is None:
+            return None
+        cause = s.fg_cause
+        if cause is not None and cause.declaration is not None and \
+                cause.declaration.origin == "inline":
+            holder = el if cause.inherited_from is None else \
+                self.pages.element(s.page, cause.inherited_from)
+            styled = by_style(holder) if holder is not None else None
+            if styled:
+                return styled + (pseudo(s.xpath) if holder is el else "")
+        return selector(el) + pseudo(s.xpath)
 
     def opacity_of(self, finding) -> list:
         """``(declaration, value)`` of the opacities fading a finding's text, nearest first:

@@ -46,3 +46,35 @@ def test_a_fix_that_keeps_out_of_a_menu_cascades_as_in_chromium(tmp_path):
         ours.get((menu, "hover"), ours[(menu, "rest")]) == "#d9d9d9"
     assert chromium[(content, "hover")] == ours[(content, "hover")] == \
         css.split("color: ")[1][:7]
+
+
+def test_a_fix_by_style_attribute_cascades_as_in_chromium(tmp_path):
+    # the fix for a colour pasted as a style attribute names that attribute as written, with
+    # ``i`` (Selectors 4: the value compared ASCII case-insensitively) and ``!important`` (an
+    # author's important declaration beats a style attribute's normal one, CSS Cascade 5):
+    # Chromium gives the pasted spans the new colour on every page, and leaves the span whose
+    # style attribute sets only a background as it was
+    from test_problems_end_to_end import _inline_site
+
+    site = tmp_path / "site"
+    site.mkdir()
+    _inline_site(site)
+    out = tmp_path / "report.json"
+    main(["check", str(site), "--no-config", "--select", "TC100", "--fail-on", "never",
+          "--format", f"json:{out}"], stdout=io.StringIO(), stderr=io.StringIO())
+    (problem,) = json.loads(out.read_text())["problems"]
+    css = problem["fix"]["css"]
+    (site / "site.css").write_text((site / "site.css").read_text() + css)
+    new = css.split("{")[1].split("color: ")[1][:7]  # (the selector holds "color: " too)
+    chromium = {(r["page"], r["xpath"]): r["fg"] for r in run_site(site)
+                if r["type"] == "sample" and r["scheme"] == "light"
+                and r["xpath"].endswith("/span")}
+    ours = {(p.page, s.xpath): to_hex(s.fg)
+            for p in check_paths([str(site)], Options(jobs=1, keep_samples=True)).pages
+            for s in p.samples if s.xpath.endswith("/span")}
+    assert chromium == ours
+    for n in range(3):
+        pasted = f"/html/body/p[{n + 1}]/span"
+        banded = f"/html/body/p[{n + 2}]/span"
+        assert chromium[(f"p{n}/index.html", pasted)] == new
+        assert chromium[(f"p{n}/index.html", banded)] == "#222222"
