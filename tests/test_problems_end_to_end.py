@@ -278,3 +278,22 @@ def test_a_colour_pasted_as_a_style_attribute_is_fixed_on_every_page(tmp_path):
     assert css.startswith('span[style="color: #B4C8D8" i] {') and "!important" in css
     (site / "site.css").write_text((site / "site.css").read_text() + css)
     assert json.loads(_header_check(site, "json"))["problems"] == []
+
+
+def test_a_colour_inherited_from_a_style_attribute_is_fixed_on_its_holder(tmp_path):
+    # the emphasis inherits the paragraph's pasted colour (#b4c8d8 on white, 1.72:1, WCAG 2.2
+    # formula): the fix names the paragraph by its style attribute, and both texts pass
+    import json
+
+    site = tmp_path / "site"
+    site.mkdir()
+    (site / "site.css").write_text("body { color: #222222; background: #ffffff; }\n")
+    for n in range(2):
+        (site / f"p{n}").mkdir()
+        (site / f"p{n}" / "index.html").write_text(
+            '<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head>'
+            f'<body>{"<p>Low water first.</p>" * n}<p style="color:#b4c8d8"><em>Provisional'
+            '</em></p></body></html>')
+    (problem,) = json.loads(_header_check(site, "json"))["problems"]
+    assert problem["fix"]["verified"]
+    assert problem["fix"]["css"].startswith('p[style="color:#b4c8d8" i] {')
