@@ -132,6 +132,16 @@ def test_readable_locator_and_selector():
     assert selector(two.find(".//span")) == "div.tw-panel > p:nth-of-type(2) > span"
 
 
+def test_an_element_by_its_style_attribute_as_written():
+    from tinctura.locator import by_style
+
+    root = etree.fromstring('<html><body><p><span style="color: #b4c8d8">a</span>'
+                            '<b style=\'font-family: "Sluice Sans"\'>b</b><i>c</i></p></body></html>')
+    assert by_style(root.find(".//span")) == 'span[style="color: #b4c8d8" i]'
+    assert by_style(root.find(".//b")) is None  # a quote: not written as is (by place instead)
+    assert by_style(root.find(".//i")) is None  # no style attribute
+
+
 def test_one_rule_fixing_several_problems_says_so():
     from tinctura.overrides import plan_all
 
