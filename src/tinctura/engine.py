@@ -42,6 +42,7 @@ from .extract.samples import PageWalker, StyleCache
 from .extract.style import MAX_VAR_TOKENS
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult
+from .cyclic_gc import no_collections
 from . import distribution  # the contrast ratios of each page, for the audit report
 
 
@@ -915,30 +916,13 @@ def kept_out_of_collections():
 
 
 @contextmanager
-def no_collections():
-    """No cyclic garbage collection inside (a page's check, in any process); the collector
-    as it was after (a caller's disabled collector stays so).
-
-    A page's walk keeps tens of thousands of container objects alive until it ends (its
-    samples, keys, children lists, texts) and makes no cycles (a test holds it to that): a
-    collection in the middle of it scans them all and frees nothing (four or five a process
-    on 200 pages, 10-30 ms each)."""
-    enabled = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        if enabled:
-            gc.enable()
-
-
-@contextmanager
 def relaxed_gc():
-    """``no_collections`` around the run of pages of ``tinctura check``, their findings taken
-    in too (which makes a few dozen cyclic objects now and then). After it, what the run keeps (caches,
-    records) moves to the oldest generation unscanned (``gc.freeze`` then ``gc.unfreeze``):
-    the first collection would otherwise scan it all and free next to nothing (0.11 s after
-    200 pages). Not when anything is frozen: a caller's frozen objects stay frozen."""
+    """``cyclic_gc.no_collections`` around the run of pages of ``tinctura check``, their findings
+    taken in too (which makes a few dozen cyclic objects now and then). After it, what the run
+    keeps (caches, records) moves to the oldest generation unscanned (``gc.freeze`` then
+    ``gc.unfreeze``): the first collection would otherwise scan it all and free next to nothing
+    (0.11 s after 200 pages). Not when anything is frozen: a caller's frozen objects stay
+    frozen."""
     with no_collections():
         yield
         if gc.get_freeze_count() == 0:

@@ -21,6 +21,7 @@ from typing import Optional
 from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
 from tinctura.colour.parse import parse_color
+from tinctura.cyclic_gc import no_collections
 from tinctura.mkdocs_project import owned
 from tinctura.model import REST
 from tinctura.problems import _quantize, faded, target_declaration
@@ -539,7 +540,7 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     remaining = 0
     # (after a whole site's check many objects are alive: each collection would scan what
     # the pages keep and free nothing; none runs while these pages are checked)
-    with engine.no_collections():
+    with no_collections():
         for rel in pages:
             try:
                 with open(f"{site.root}/{rel}", encoding="utf-8", errors="replace") as fh:

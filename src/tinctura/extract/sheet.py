@@ -7,7 +7,6 @@ colour, visibility or font size are dropped here, and so are rules left with non
 """
 from __future__ import annotations
 
-import gc
 import re
 from dataclasses import dataclass, field
 from functools import cached_property
@@ -17,6 +16,7 @@ import cssselect2.compiler
 import cssselect2.parser
 import tinycss2
 
+from ..cyclic_gc import no_collections
 from ..model import Declaration
 from ..tokens import significant, split_commas
 from . import supports as supports_mod
@@ -159,13 +159,8 @@ def parse_stylesheet(css: str, name: str, origin: str = "author",
     # The cyclic garbage collector rescans everything parsed so far each time it runs: on a
     # 20 MB stylesheet that made parsing quadratic (half the time at 8 MB, measured). Parsing
     # makes no reference cycles, so it runs without it.
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
+    with no_collections():
         parse_chunks(css, sheet, origin)
-    finally:
-        if was_enabled:
-            gc.enable()
     # searched without a lower-cased copy (a large sheet's copy is its size again)
     sheet.uses_color_scheme_media = bool(_PREFERS.search(css))
     sheet.uses_light_dark = bool(_LIGHT_DARK.search(css))
