@@ -224,6 +224,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             # the first page here: the workers start from this Site, its stylesheets parsed
             # and its caches warm (each worker would otherwise parse and warm up again)
             self.check(rel, html, key)
+            self.end_preparation()  # (the workers parse any other sheet themselves)
             self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
                                         self.get_site())
             return
@@ -250,14 +251,19 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             if workers is not None:
                 workers.close()
         self.pool = self.helper = None
+        self.end_preparation()
+        if self.gc_before is not None:
+            gc.set_threshold(*self.gc_before)
+            self.gc_before = None
+
+    def end_preparation(self) -> None:
+        """The first page has taken what it could: the process parsing stylesheets ahead
+        ends (it would compete with the workers for the cores) and its folder goes."""
         if self.prepared is not None:
             self.prepared.close()
             self.prepared = None
             if self.site is not None:
                 self.site.loader.prepared = None
-        if self.gc_before is not None:
-            gc.set_threshold(*self.gc_before)
-            self.gc_before = None
 
     def take(self, rel: str, outcome) -> None:
         """A worker's answer for ``rel``: kept, or the page checked here when it failed."""

@@ -385,7 +385,13 @@ def test_stylesheets_are_parsed_ahead_while_markdown_is_converted(tmp_path, monk
 
     started = []
     start = prepared.start
-    monkeypatch.setattr(prepared, "start", lambda *a: started.append(start(*a)) or started[-1])
+
+    def finished(*args):  # (three pages convert faster than a fork: no race in the test)
+        started.append(start(*args))
+        started[-1].process.join(10)
+        return started[-1]
+
+    monkeypatch.setattr(prepared, "start", finished)
     logs = []
     for jobs in (1, 2):
         project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})

@@ -101,25 +101,6 @@ def test_nothing_to_take_for_other_paths_or_missing_sources(tmp_path):
         ready.close()
 
 
-class _Running:
-    """A parsing process that never ends; it must not be asked about from another process."""
-
-    def is_alive(self):
-        raise AssertionError("asked from a process that is not its parent")
-
-    terminate = join = is_alive
-
-
-def test_a_worker_forked_later_neither_waits_nor_ends_the_process(tmp_path):
-    folder = tmp_path / "ahead"
-    folder.mkdir()
-    ready = prepared.Prepared(_Running(), str(folder), {str(tmp_path / "a.css"): "0.pickle"})
-    ready.owner = os.getpid() + 1  # as a forked worker sees the object it inherited
-    assert ready.take(str(tmp_path / "a.css"), b"\0" * 20) is None
-    ready.close()
-    assert folder.exists()
-
-
 def test_selectors_this_process_has_tried_are_handed_over_too(tmp_path):
     """Equal selectors are compiled once per process (``sheet._COMPILED``); one whose test was
     built here (a lambda, which pickle cannot write) is written without it and built again."""
@@ -149,28 +130,32 @@ def test_selectors_this_process_has_tried_are_handed_over_too(tmp_path):
 class _Working:
     """A parsing process still running."""
 
+    def __init__(self):
+        self.ended = False
+
     def is_alive(self):
-        return True
+        return not self.ended
+
+    def terminate(self):
+        self.ended = True
+
+    def join(self):
+        pass
 
 
-def test_the_loader_waits_only_for_the_sheet_the_process_is_parsing(tmp_path, monkeypatch):
+def test_the_loader_never_waits_for_a_sheet_not_written_yet(tmp_path):
+    """Handing a large sheet over costs up to half of parsing it: one the process has not
+    finished is parsed here. Closing ends the process and removes its folder."""
     import pickle
-    import threading
-    import time
 
     folder = tmp_path / "ahead"
     folder.mkdir()
     first, second = str(tmp_path / "a.css"), str(tmp_path / "b.css")
-    ready = prepared.Prepared(_Working(), str(folder), {first: "0.pickle", second: "1.pickle"})
-    monkeypatch.setattr(prepared, "WAIT_S", 30.0)
-    began = time.monotonic()
-    assert ready.take(second, b"b") is None  # not reached: the first is still being parsed
-    assert time.monotonic() - began < 1.0
-
-    def finish():
-        time.sleep(0.05)
-        with open(folder / "0.pickle", "wb") as fh:
-            pickle.dump((b"a", "parsed a", ["diagnostic"]), fh)
-
-    threading.Thread(target=finish).start()
+    working = _Working()
+    ready = prepared.Prepared(working, str(folder), {first: "0.pickle", second: "1.pickle"})
+    with open(folder / "0.pickle", "wb") as fh:
+        pickle.dump((b"a", "parsed a", ["diagnostic"]), fh)
+    assert ready.take(second, b"b") is None and ready.take(second, b"b") is None
     assert ready.take(first, b"a") == ("parsed a", ["diagnostic"]) and ready.taken == 1
+    ready.close()
+    assert working.ended and not folder.exists()
