@@ -20,6 +20,7 @@ from tinctura import config as config_mod
 from tinctura import engine, mkdocs_project, problems, rules, situations
 from tinctura import gate as gated
 from tinctura import palette as palette_mod
+from tinctura.extract import prepared as prepared_mod
 from tinctura.report import messages as m
 from tinctura.report import outputs, plain
 from tinctura.report.base import Header
@@ -31,7 +32,6 @@ from tinctura.report.status import at_or_above
 from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
 from tinctura.report.text_report import problem_lines, summary_line, terminal_width, wrapped
-from tinctura.extract import prepared as prepared_mod
 from tinctura.writer import WriterAid
 
 from .config import TincturaConfig
@@ -170,7 +170,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         the Markdown (``extract/prepared.py``): the first page then finds them parsed. Only
         for a new Site, and where pages are checked in workers (``mkdocs serve`` forks
         nothing; one core would gain nothing). The writer's ``extra_css`` first: every page
-        links them, and the loader does not wait for a sheet the process has not reached."""
+        links them, and the first page takes only the sheets parsed by the time it asks."""
         if self.site is not None or self.prepared is not None or self.workers() == 0:
             return
         root, extra = os.path.abspath(self.site_dir), {str(path) for path in extra_css}
