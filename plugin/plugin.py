@@ -20,6 +20,7 @@ from tinctura import config as config_mod
 from tinctura import engine, mkdocs_project, problems, rules, situations
 from tinctura import gate as gated
 from tinctura import palette as palette_mod
+from tinctura.extract import prepared as prepared_mod
 from tinctura.report import messages as m
 from tinctura.report import outputs, plain
 from tinctura.report.base import Header
@@ -79,6 +80,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.early = None  # Gating of this build's first pages while MkDocs renders the rest
         self.gc_before = None  # the collector's thresholds while pages are checked (release)
         self.kept_now: set = set()  # pages checked in this build
+        self.prepared = None  # stylesheets parsed ahead while MkDocs converts the Markdown
 
     # -- lifecycle -------------------------------------------------------------------------
 
@@ -160,7 +162,24 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.found.discard(gone)
         self.project = mkdocs_project.from_files(config, files)
         self.rechecked = []
+        self.prepare_sheets(files, config.extra_css)
         return files
+
+    def prepare_sheets(self, files, extra_css) -> None:
+        """Have the stylesheets MkDocs will copy parsed in another process while it converts
+        the Markdown (``extract/prepared.py``): the first page then finds them parsed. Only
+        for a new Site, and where pages are checked in workers (``mkdocs serve`` forks
+        nothing; one core would gain nothing). The writer's ``extra_css`` first: every page
+        links them, and the first page takes only the sheets parsed by the time it asks."""
+        if self.site is not None or self.prepared is not None or self.workers() == 0:
+            return
+        root, extra = os.path.abspath(self.site_dir), {str(path) for path in extra_css}
+        css = [f for f in files if f.dest_uri.lower().endswith(".css") and f.abs_src_path
+               and os.path.isfile(f.abs_src_path)]
+        css.sort(key=lambda f: f.dest_uri not in extra)  # (stable: MkDocs' order otherwise)
+        sources = [(os.path.join(root, f.dest_uri), f.abs_src_path) for f in css]
+        if sources:  # parsed as this build's Site will parse them
+            self.prepared = prepared_mod.start(engine.Site(root, self.options).loader, sources)
 
     def excluded(self, src_uri: str) -> bool:
         return any(fnmatch.fnmatchcase(src_uri, pattern) for pattern in self.config.exclude)
@@ -180,6 +199,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.sheets_checked = True
         if self.site is None:
             self.site = engine.Site(self.site_dir, self.options)
+            self.site.loader.prepared = self.prepared
         return self.site
 
     def check(self, rel: str, html: str | None, key: str | None) -> None:
@@ -204,6 +224,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             # the first page here: the workers start from this Site, its stylesheets parsed
             # and its caches warm (each worker would otherwise parse and warm up again)
             self.check(rel, html, key)
+            self.end_preparation()  # (the workers parse any other sheet themselves)
             self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
                                         self.get_site())
             return
@@ -230,9 +251,19 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             if workers is not None:
                 workers.close()
         self.pool = self.helper = None
+        self.end_preparation()
         if self.gc_before is not None:
             gc.set_threshold(*self.gc_before)
             self.gc_before = None
+
+    def end_preparation(self) -> None:
+        """The first page has taken what it could: the process parsing stylesheets ahead
+        ends (it would compete with the workers for the cores) and its folder goes."""
+        if self.prepared is not None:
+            self.prepared.close()
+            self.prepared = None
+            if self.site is not None:
+                self.site.loader.prepared = None
 
     def take(self, rel: str, outcome) -> None:
         """A worker's answer for ``rel``: kept, or the page checked here when it failed."""

@@ -1,5 +1,6 @@
 """The MkDocs plugin: options through MkDocs' own validation, and real builds of a tiny project."""
 import logging
+import os
 import textwrap
 
 import pytest
@@ -373,6 +374,41 @@ def test_worker_processes_give_the_same_log(tmp_path, caplog):
         build(config)
         logs.append(messages(caplog, logging.INFO))
     assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])
+
+
+@slow
+def test_stylesheets_are_parsed_ahead_while_markdown_is_converted(tmp_path, monkeypatch, caplog):
+    """With workers, the site's stylesheets are parsed in another process from their sources
+    before the first page (extract/prepared.py); the first page takes them, the log is what
+    parsing them in-process gives, and nothing is left behind. `serve` prepares nothing."""
+    from tinctura.extract import prepared
+
+    started = []
+    start = prepared.start
+
+    def finished(*args):  # (three pages convert faster than a fork: no race in the test)
+        started.append(start(*args))
+        started[-1].process.join(10)
+        return started[-1]
+
+    monkeypatch.setattr(prepared, "start", finished)
+    logs = []
+    for jobs in (1, 2):
+        project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})
+        caplog.clear()
+        config = configure(project)
+        config.plugins.on_startup(command="build", dirty=False)
+        build(config)
+        logs.append(messages(caplog, logging.INFO))
+    assert logs[0] == logs[1]
+    assert len(started) == 1  # jobs 1: no worker, nothing to prepare
+    assert started[0].taken == 1 and not started[0].names  # site.css, taken by the first page
+    assert not started[0].process.is_alive() and not os.path.exists(started[0].folder)
+    project = make_project(tmp_path / "serve", {"jobs": 2, "fail_on": "never"})
+    config = configure(project)
+    config.plugins.on_startup(command="serve", dirty=False)
+    build(config)
+    assert len(started) == 1
 
 
 @slow

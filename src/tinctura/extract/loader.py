@@ -46,6 +46,8 @@ class SheetLoader:
         self._sheets = {}  # path -> (mtime, ParsedSheet, diagnostics)
         self._rulesets = {}
         self.generation = 0  # bumped when a stylesheet changed on disk
+        # sheets parsed ahead in another process (``prepared.Prepared``), or None
+        self.prepared = None
 
     def rel(self, path: str) -> str:
         return os.path.relpath(path, self.root).replace(os.sep, "/")
@@ -103,12 +105,13 @@ class SheetLoader:
             if cached:
                 self.generation += 1
                 self._rulesets.clear()
-            css = data.decode("utf-8-sig", errors="replace")
-            if "\ufffd" in css and b"\xef\xbf\xbd" not in data:
-                diags.append(Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
-                                        "replaced"))
-            del data  # a large sheet: not kept twice while it is parsed
-            parsed = parse_stylesheet(css, self.rel(path), max_rules=self.max_rules)
+            ready = self.prepared.take(path, digest) if self.prepared is not None else None
+            if ready is not None:  # parsed in another process from the same bytes
+                parsed, diags = ready
+            else:
+                css, diags = self.decoded(data, path)
+                del data  # a large sheet: not kept twice while it is parsed
+                parsed = parse_stylesheet(css, self.rel(path), max_rules=self.max_rules)
         except bounds.Refused as exc:
             parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"stylesheet not loaded: {exc}",
@@ -128,6 +131,14 @@ class SheetLoader:
                 diags.append(Diagnostic(self.rel(path), f"CSS: {message}", line=line))
         self._sheets[path] = (mtime, parsed, diags, digest)
         return parsed, diags
+
+    def decoded(self, data: bytes, path: str) -> tuple:
+        """``(text, diagnostics)`` of a stylesheet's bytes read from ``path``."""
+        css = data.decode("utf-8-sig", errors="replace")
+        if "\ufffd" in css and b"\xef\xbf\xbd" not in data:
+            return css, [Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
+                                    "replaced")]
+        return css, []
 
     def changed(self) -> bool:
         """True when the content of any loaded stylesheet changed since it was parsed.

@@ -348,6 +348,13 @@ class LazySelector(cssselect2.compiler.CompiledSelector):
                     and simple.name == "lang":
                 self.requires_lang_attr = True
 
+    def __getstate__(self) -> dict:
+        """Pickled without its test once built (a lambda, which pickle cannot name): built
+        again on first use (``extract/prepared.py`` pickles parsed sheets)."""
+        state = dict(self.__dict__)
+        state.pop("test", None)
+        return state
+
     @cached_property
     def test(self):
         return eval("lambda el: " + self._source, {  # as cssselect2 builds it
