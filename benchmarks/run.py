@@ -272,7 +272,10 @@ def site_stats(site: Path, sample: int = 40) -> dict:
             own = (el.text or "").strip() or any((c.tail or "").strip() for c in el)
             if own and el.tag not in ("script", "style", "title"):
                 n_txt += 1
+        # the page's own content: mkdocs-material's <article>, MkDocs' theme's role=main column
         article = root.find(".//article")
+        if article is None:
+            article = root.find(".//*[@role='main']")
         n_article = 0
         if article is not None:
             for el in article.iter():

@@ -2,7 +2,8 @@
 
 The generator in ``benchmarks/generate_site.py`` writes mkdocs-material sites of several shapes
 (page kinds, expanded navigation sections, structural and ``:has()`` selectors in the site's
-CSS, an accent that fails on :hover and :focus, faint colours all over the article). Each is
+CSS, an accent that fails on :hover and :focus, faint colours all over the article), and one on
+MkDocs' own theme (Bootstrap, light and dark by ``data-bs-theme``). Each is
 built with MkDocs and checked twice: as ``tinctura check`` runs (styles shared by structural
 key, repeated subtrees replayed, each colour situation judged once) and with all of that off
 (``Options(share=False, replay=False)``: every element's cascade computed, every sample judged).
@@ -29,7 +30,7 @@ pytestmark = pytest.mark.slow
 PAGES = 14
 
 
-@pytest.fixture(scope="module", params=["varied", "states", "many"])
+@pytest.fixture(scope="module", params=["varied", "states", "many", "mkdocs-theme"])
 def variant_site(request, tmp_path_factory):
     out = tmp_path_factory.mktemp(request.param)
     before = generate_site.SECTION_SIZE
