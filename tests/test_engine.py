@@ -456,3 +456,17 @@ def test_checking_a_page_makes_no_reference_cycles(site, monkeypatch):
     monkeypatch.setattr(engine, "_processed", then_collect)
     check_paths([str(site)], Options(jobs=1))
     assert len(found) == 13 and found[3:] == [0] * 10, found
+
+
+def test_an_elements_resting_state_is_reported_before_its_states(tmp_path):
+    """Report order within one element: at rest first (what a reader sees first), then hover,
+    then focus; it was alphabetical, which listed a link's milder hover ratio before its
+    resting one and made it the example of every page."""
+    (tmp_path / "index.html").write_text(
+        "<!doctype html><html><head><style>a { color: #999 } a:hover { color: #aaa }"
+        "</style></head><body><p>Moorings: <a href='#x'>Tide tables</a> and "
+        "<a href='#y'>Berths</a></p></body></html>", encoding="utf-8")
+    report = check_paths([str(tmp_path)], Options())
+    order = [(f.sample.xpath, f.sample.state) for f in report.findings if f.rule == "TC100"]
+    assert order == [("/html/body/p/a[1]", "rest"), ("/html/body/p/a[1]", "hover"),
+                     ("/html/body/p/a[2]", "rest"), ("/html/body/p/a[2]", "hover")]

@@ -41,7 +41,7 @@ from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
 from .extract.style import MAX_VAR_TOKENS
 from .extract.structure import PageStructure
-from .model import UNDETERMINED, Diagnostic, PageResult
+from .model import UNDETERMINED, Diagnostic, PageResult, state_rank
 from .cyclic_gc import no_collections
 from . import distribution  # the contrast ratios of each page, for the audit report
 
@@ -525,13 +525,13 @@ def _processed(site, rel, options, judged, html=None):
 def _template_order(template) -> tuple:
     """Report order within a page after line and XPath (``_finding_order``)."""
     s = template.sample
-    return (s.scheme, s.state, template.rule)
+    return (s.scheme, state_rank(s.state), template.rule)
 
 
 def _finding_order(template, where) -> tuple:
-    """Report order within a page: line, XPath, scheme, state, rule."""
+    """Report order within a page: line, XPath, scheme, state (at rest first), rule."""
     s = template.sample
-    return (where[2], where[1], s.scheme, s.state, template.rule)
+    return (where[2], where[1], s.scheme, state_rank(s.state), template.rule)
 
 
 def _judge_replays(page, uses, options) -> list:

@@ -15,6 +15,13 @@ DETERMINED = "determined"
 UNDETERMINED = "undetermined"
 
 REST = "rest"  # the resting state; other states: "hover", "focus", "focus-visible"
+# Reports list an element's states in this order: at rest first, as a reader first sees it
+_STATE_ORDER = {REST: 0, "hover": 1, "focus": 2, "focus-visible": 3}
+
+
+def state_rank(state: str) -> tuple:
+    """Where ``state`` stands in report order among one element's findings."""
+    return (_STATE_ORDER.get(state, len(_STATE_ORDER)), state)
 
 
 @dataclass(frozen=True, slots=True)

@@ -62,12 +62,12 @@ def test_compact_layout_holds_the_flat_findings_and_problems():
 def samples():
     fg = Cause(decl("color", "var(--muted)", 4), chain=(decl("--muted", "#777", 1),))
     bg = Cause(decl("background-color", "white", 2))
-    return [
+    return [  # in report order, as a run stores them: at one place, the resting state first
         make_sample("#777", "white", page="a.html", fg_cause=fg, bg_cause=bg, line=7,
                     xpath="/html/body/p[1]", text="Sow in spring"),
         make_sample("#777", "white", page="b.html", fg_cause=fg, bg_cause=bg, scheme="dark"),
-        make_sample("#777", "white", page="b.html", fg_cause=fg, bg_cause=bg, state="hover"),
         make_sample("#fff", "#fafafa", page="b.html", bg_alternatives=("#000",)),
+        make_sample("#777", "white", page="b.html", fg_cause=fg, bg_cause=bg, state="hover"),
         make_sample("#111", "white", page="b.html"),
         make_sample("#111", "white", page="b.html", status=UNDETERMINED, reason="image"),
     ]

@@ -94,6 +94,24 @@ def test_state_and_schemes_are_named_in_the_sentence():
     assert text.count("\n1. ") == 1 and "\n2. " not in text  # one problem for both schemes
 
 
+def test_the_occurrence_the_sentence_describes_is_the_first_example():
+    """A problem's sentence gives its worst ratio; its first example is that occurrence, even
+    when the pages listed first hold only milder ones."""
+    mild = [make_sample("#808080", "#ffffff", fg_cause=MUTED, bg_cause=PAPER, page=f"a{i}.html",
+                        xpath="/html/body/p", text="Tide tables") for i in range(3)]
+    worst = make_sample("#aaaaaa", "#ffffff", fg_cause=MUTED, bg_cause=PAPER, page="z.html",
+                        line=4, xpath="/html/body/p", text="Berth plans")
+    text, _ = report(mild + [worst])
+    lines = text.splitlines()
+    at = next(i for i, line in enumerate(lines) if "too faint: 2.32:1, needs 4.5:1" in line)
+    pytest.LineMatcher(lines[at + 1:at + 5]).fnmatch_lines([
+        '   Where: z.html:4 "Berth plans" (*), #aaaaaa on #ffffff, 2.32:1',
+        '          a0.html:1 "Tide tables" (*), #808080 on #ffffff, 3.94:1',
+        '          a1.html:1 *',
+        "*and 1 more occurrence on 4 pages",
+    ])
+
+
 def test_ratios_are_truncated_never_rounded_up():
     # #777777 on white is 4.478:1 by the WCAG 2.2 formula: shown as 4.47, not 4.48.
     assert m.ratio(4.478089453577214) == "4.47"

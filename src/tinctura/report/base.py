@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from tinctura.model import PageResult
+from tinctura.model import PageResult, state_rank
 from tinctura.palette import report_page
 
 
@@ -113,7 +113,8 @@ def findings_by_page(findings) -> dict:
     for f in findings:  # site-level findings (they compare pages) under the whole site
         out.setdefault(report_page(f), []).append(f)
     for items in out.values():
-        items.sort(key=lambda f: (f.sample.line, f.sample.xpath, f.sample.scheme, f.sample.state))
+        items.sort(key=lambda f: (f.sample.line, f.sample.xpath, f.sample.scheme,
+                                  state_rank(f.sample.state)))
     return out
 
 

@@ -385,7 +385,7 @@ class HtmlFormatter(Formatter):
         return "<br>".join(prose(line.strip()) for line in lines)
 
     def occurrences(self, p) -> str:
-        chosen = examples(p.example_pool())[:EXAMPLE_ROWS]
+        chosen = examples(p.example_pool(), p.worst)[:EXAMPLE_ROWS]
         rows = []
         for f in chosen:
             s = f.sample

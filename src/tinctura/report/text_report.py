@@ -166,21 +166,33 @@ def headline(cause, rgb, what: str) -> str:
 
 
 
-def examples(findings) -> list:
-    """Up to EXAMPLES occurrences, preferring different pages, in report order."""
-    chosen, pages = [], set()
+def examples(findings, first=None) -> list:
+    """Up to EXAMPLES occurrences, preferring different pages, in report order; ``first``
+    (the problem's worst, which its sentence describes) leads when given. Without it, a link
+    whose resting colour fails worst would show its hovered state first on every page, a
+    milder ratio than the sentence's (states follow "hover" < "rest" in report order)."""
+    chosen = [] if first is None else [first]
+    pages = {f.sample.page for f in chosen}
+    taken = {_occurrence(f) for f in chosen}
     for f in findings:
-        if f.sample.page not in pages:
-            chosen.append(f)
-            pages.add(f.sample.page)
         if len(chosen) == EXAMPLES:
             return chosen
+        if f.sample.page not in pages and _occurrence(f) not in taken:
+            chosen.append(f)
+            pages.add(f.sample.page)
+            taken.add(_occurrence(f))
     for f in findings:
         if len(chosen) == EXAMPLES:
             break
-        if f not in chosen:
+        if _occurrence(f) not in taken:
             chosen.append(f)
+            taken.add(_occurrence(f))
     return chosen
+
+
+def _occurrence(f) -> tuple:
+    s = f.sample
+    return (f.rule, s.page, s.xpath, s.scheme, s.state)
 
 
 def cause_fix_lines(fix) -> list:
@@ -267,7 +279,7 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
     location = locate(worst.sample) if locate is not None else None
     lead = f"{index}. " if index else ""
     out = [(0, lead + plain.sentence(problem, location, many_schemes), "bold", True)]
-    pool = examples(problem.example_pool())
+    pool = examples(problem.example_pool(), worst)
     for n, f in enumerate(pool):
         label = "Where:" if n == 0 else "      "
         out.append((1, f"{label} {example_place(f, locate, many_schemes)}", None, True))
