@@ -460,8 +460,8 @@ def test_checking_a_page_makes_no_reference_cycles(site, monkeypatch):
 
 def test_an_elements_resting_state_is_reported_before_its_states(tmp_path):
     """Report order within one element: at rest first (what a reader sees first), then hover,
-    then focus; it was alphabetical, which listed a link's milder hover ratio before its
-    resting one and made it the example of every page."""
+    then focus, each in every scheme; it was alphabetical, which listed a link's milder hover
+    ratio before its resting one and made it the example of every page."""
     (tmp_path / "index.html").write_text(
         "<!doctype html><html><head><style>a { color: #999 } a:hover { color: #aaa }"
         "</style></head><body><p>Moorings: <a href='#x'>Tide tables</a> and "
@@ -470,3 +470,19 @@ def test_an_elements_resting_state_is_reported_before_its_states(tmp_path):
     order = [(f.sample.xpath, f.sample.state) for f in report.findings if f.rule == "TC100"]
     assert order == [("/html/body/p/a[1]", "rest"), ("/html/body/p/a[1]", "hover"),
                      ("/html/body/p/a[2]", "rest"), ("/html/body/p/a[2]", "hover")]
+
+
+def test_one_places_findings_are_ordered_by_state_then_scheme(tmp_path):
+    """At one element: every scheme at rest, then every scheme hovered. The JSON report writes
+    a place's neighbouring situations of one inheritance as one occurrence; scheme before
+    state put the resting ones (often inherited from elsewhere) between the schemes' hovered
+    ones and wrote 20 % more on 200 pages of `varied`."""
+    (tmp_path / "index.html").write_text(
+        "<!doctype html><html><head><style>a { color: #999 } a:hover { color: #aaa }"
+        " @media (prefers-color-scheme: dark) { body { background: #111 } a { color: #444 }"
+        " a:hover { color: #333 } }</style></head><body><p>Moorings: <a href='#x'>Tide tables"
+        "</a></p></body></html>", encoding="utf-8")
+    report = check_paths([str(tmp_path)], Options())
+    order = [(f.sample.state, f.sample.scheme) for f in report.findings
+             if f.rule == "TC100" and f.sample.xpath == "/html/body/p/a"]
+    assert order == [("rest", "dark"), ("rest", "light"), ("hover", "dark"), ("hover", "light")]

@@ -525,13 +525,13 @@ def _processed(site, rel, options, judged, html=None):
 def _template_order(template) -> tuple:
     """Report order within a page after line and XPath (``_finding_order``)."""
     s = template.sample
-    return (s.scheme, state_rank(s.state), template.rule)
+    return (state_rank(s.state), s.scheme, template.rule)
 
 
 def _finding_order(template, where) -> tuple:
-    """Report order within a page: line, XPath, scheme, state (at rest first), rule."""
+    """Report order within a page: line, XPath, state (at rest first), scheme, rule."""
     s = template.sample
-    return (where[2], where[1], s.scheme, state_rank(s.state), template.rule)
+    return (where[2], where[1], state_rank(s.state), s.scheme, template.rule)
 
 
 def _judge_replays(page, uses, options) -> list:

@@ -113,8 +113,8 @@ def findings_by_page(findings) -> dict:
     for f in findings:  # site-level findings (they compare pages) under the whole site
         out.setdefault(report_page(f), []).append(f)
     for items in out.values():
-        items.sort(key=lambda f: (f.sample.line, f.sample.xpath, f.sample.scheme,
-                                  state_rank(f.sample.state)))
+        items.sort(key=lambda f: (f.sample.line, f.sample.xpath, state_rank(f.sample.state),
+                                  f.sample.scheme))
     return out
 
 
