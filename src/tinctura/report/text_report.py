@@ -168,9 +168,8 @@ def headline(cause, rgb, what: str) -> str:
 
 def examples(findings, first=None) -> list:
     """Up to EXAMPLES occurrences, preferring different pages, in report order; ``first``
-    (the problem's worst, which its sentence describes) leads when given. Without it, a link
-    whose resting colour fails worst would show its hovered state first on every page, a
-    milder ratio than the sentence's (states follow "hover" < "rest" in report order)."""
+    (the problem's worst, which its sentence describes) leads when given: the first pages'
+    occurrences may all be milder than the ratio the sentence gives."""
     chosen = [] if first is None else [first]
     pages = {f.sample.page for f in chosen}
     taken = {_occurrence(f) for f in chosen}
