@@ -365,6 +365,12 @@ def test_serve_keeps_only_the_entries_its_pages_name(tmp_path):
 def test_worker_processes_give_the_same_log(tmp_path, caplog):
     """`mkdocs build` checks pages in worker processes while it renders; the result must be
     what checking in-process gives."""
+    logs = logs_with_and_without_workers(tmp_path, caplog)
+    assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])
+
+
+def logs_with_and_without_workers(tmp_path, caplog) -> list:
+    """The build's log with `jobs: 1` (in-process) and with `jobs: 2` (a worker)."""
     logs = []
     for jobs in (1, 2):
         project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})
@@ -373,7 +379,7 @@ def test_worker_processes_give_the_same_log(tmp_path, caplog):
         config.plugins.on_startup(command="build", dirty=False)
         build(config)
         logs.append(messages(caplog, logging.INFO))
-    assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])
+    return logs
 
 
 @slow
@@ -392,14 +398,7 @@ def test_stylesheets_are_parsed_ahead_while_markdown_is_converted(tmp_path, monk
         return started[-1]
 
     monkeypatch.setattr(prepared, "start", finished)
-    logs = []
-    for jobs in (1, 2):
-        project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})
-        caplog.clear()
-        config = configure(project)
-        config.plugins.on_startup(command="build", dirty=False)
-        build(config)
-        logs.append(messages(caplog, logging.INFO))
+    logs = logs_with_and_without_workers(tmp_path, caplog)
     assert logs[0] == logs[1]
     assert len(started) == 1  # jobs 1: no worker, nothing to prepare
     assert started[0].taken == 1 and not started[0].names  # site.css, taken by the first page

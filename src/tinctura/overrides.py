@@ -25,6 +25,7 @@ from tinctura.cyclic_gc import no_collections
 from tinctura.mkdocs_project import owned
 from tinctura.model import REST
 from tinctura.problems import _quantize, faded, target_declaration
+from tinctura.situations import slot as slot_of
 
 DEFAULT_FILE = "stylesheets/colour-fixes.css"  # when the site has no stylesheet of its own
 _COLOUR_PROPS = ("background-color", "background")
@@ -552,7 +553,7 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
             suspects, own = _tally_findings(findings, css, remaining_keys, bad)
             if suspects or own:  # errors on what the overrides colour: new ones?
                 result, plain, _ = engine.judge_page(site, rel, keeping, html)
-                there = {_slot(f) for f in plain}
+                there = {slot_of(f) for f in plain}
                 bad.update(why for slot, why in suspects if slot not in there)
                 _took_over(own, result.samples, took)
     return remaining_keys, bad, remaining, took
@@ -578,9 +579,9 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
                     why = (_normal(d.selector), d.property, f.rule, f.severity)
                     if f.rule in OVERRIDE_RULES:
                         bad.add(why)
-                        own.append((_slot(f), side, why))
+                        own.append((slot_of(f), side, why))
                     else:
-                        suspects.append((_slot(f), why))
+                        suspects.append((slot_of(f), why))
     return suspects, own
 
 
@@ -615,11 +616,6 @@ def _unscoped(selector: str) -> str:
     """A normalized override selector without the scheme's ``:where([...])``: the selector
     of the declaration it replaces."""
     return _SCOPE.sub("", selector)
-
-
-def _slot(f) -> tuple:
-    s = f.sample
-    return (f.rule, s.page, s.xpath, s.state, s.scheme)
 
 
 def _deciding(options):

@@ -89,6 +89,12 @@ def finding_key(f: Finding) -> tuple:
     return (f.rule, sample_key(f.sample))
 
 
+def slot(f: Finding) -> tuple:
+    """Which occurrence ``f`` is, whatever its colours: rule, page, element, state, scheme."""
+    s = f.sample
+    return (f.rule, s.page, s.xpath, s.state, s.scheme)
+
+
 def place(f: Finding) -> tuple:
     """``(xpath, line, text, inherited_from, layer xpaths or None, gate marks or None)`` of one
     occurrence; the gate's marks (``tinctura.gate``) are ``(fingerprint, suppressed,

@@ -3,6 +3,7 @@ only for the same bytes, and otherwise parses as before."""
 from __future__ import annotations
 
 import os
+from contextlib import contextmanager
 
 import pytest
 
@@ -34,25 +35,33 @@ def _finished(ready) -> None:
     ready.process.join(10)
 
 
-def test_a_sheet_parsed_ahead_is_taken_and_not_parsed_again(tmp_path, monkeypatch):
-    path, source, root = _site(tmp_path)
-    expected, _ = SheetLoader(root).sheet(path)
+@contextmanager
+def _ahead(root, path, source):
+    """A loader of ``root`` whose sheet ``path`` was parsed ahead from ``source`` (the process
+    finished); closed after."""
     loader = SheetLoader(root)
     loader.prepared = prepared.start(SheetLoader(root), [(path, source)])
     _finished(loader.prepared)
+    try:
+        yield loader
+    finally:
+        loader.prepared.close()
+
+
+def test_a_sheet_parsed_ahead_is_taken_and_not_parsed_again(tmp_path, monkeypatch):
+    path, source, root = _site(tmp_path)
+    expected, _ = SheetLoader(root).sheet(path)
 
     def not_here(*args, **kwargs):
         raise AssertionError("parsed in this process")
 
-    monkeypatch.setattr(loader_mod, "parse_stylesheet", not_here)
-    try:
+    with _ahead(root, path, source) as loader:
+        monkeypatch.setattr(loader_mod, "parse_stylesheet", not_here)
         parsed, diags = loader.sheet(path)
         assert loader.prepared.taken == 1
         assert diags == []
         assert _rules(parsed) == _rules(expected) and parsed.name == expected.name == "css/theme.css"
         assert parsed.uses_color_scheme_media
-    finally:
-        loader.prepared.close()
     assert not os.path.exists(loader.prepared.folder)
 
 
@@ -61,15 +70,10 @@ def test_a_sheet_rewritten_on_its_way_to_the_site_is_parsed_here(tmp_path):
     the source is not used."""
     changed = CSS.replace("#6f6f6f", "#222222")
     path, source, root = _site(tmp_path, site_css=changed)
-    loader = SheetLoader(root)
-    loader.prepared = prepared.start(SheetLoader(root), [(path, source)])
-    _finished(loader.prepared)
-    try:
+    with _ahead(root, path, source) as loader:
         parsed, _ = loader.sheet(path)
         assert loader.prepared.taken == 0
         assert parsed.rules[0].decls[0].text == "#222222"
-    finally:
-        loader.prepared.close()
 
 
 def test_undecodable_bytes_give_the_same_diagnostic_either_way(tmp_path):
@@ -78,16 +82,11 @@ def test_undecodable_bytes_give_the_same_diagnostic_either_way(tmp_path):
         with open(name, "ab") as fh:
             fh.write(b".x { content: '\xff' }\n")
     _, here = SheetLoader(root).sheet(path)
-    loader = SheetLoader(root)
-    loader.prepared = prepared.start(SheetLoader(root), [(path, source)])
-    _finished(loader.prepared)
-    try:
+    with _ahead(root, path, source) as loader:
         _, ahead = loader.sheet(path)
         assert loader.prepared.taken == 1
         assert [d.message for d in ahead] == [d.message for d in here]
         assert any("not valid UTF-8" in d.message for d in ahead)
-    finally:
-        loader.prepared.close()
 
 
 def test_nothing_to_take_for_other_paths_or_missing_sources(tmp_path):
@@ -115,16 +114,11 @@ def test_selectors_this_process_has_tried_are_handed_over_too(tmp_path):
     wrapper = cssselect2.ElementWrapper.from_html_root(tree)
     matched = [[bool(r.compiled.test(w)) for w in wrapper.iter_subtree()] for r in here.rules]
     assert "test" in vars(here.rules[0].compiled)  # built, and shared with the next parse
-    loader = SheetLoader(root)
-    loader.prepared = prepared.start(SheetLoader(root), [(path, source)])
-    _finished(loader.prepared)
-    try:
+    with _ahead(root, path, source) as loader:
         parsed, _ = loader.sheet(path)
         assert loader.prepared.taken == 1
         assert [[bool(r.compiled.test(w)) for w in wrapper.iter_subtree()]
                 for r in parsed.rules] == matched == [[False, True, False]] * 2
-    finally:
-        loader.prepared.close()
 
 
 class _Working:

@@ -111,7 +111,7 @@ class SheetLoader:
             else:
                 css, diags = self.decoded(data, path)
                 del data  # a large sheet: not kept twice while it is parsed
-                parsed = parse_stylesheet(css, self.rel(path), max_rules=self.max_rules)
+                parsed = self.parsed(css, path)
         except bounds.Refused as exc:
             parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"stylesheet not loaded: {exc}",
@@ -139,6 +139,10 @@ class SheetLoader:
             return css, [Diagnostic(self.rel(path), "not valid UTF-8; undecodable bytes "
                                     "replaced")]
         return css, []
+
+    def parsed(self, css: str, path: str):
+        """The ParsedSheet of the text of the site file ``path``."""
+        return parse_stylesheet(css, self.rel(path), max_rules=self.max_rules)
 
     def changed(self) -> bool:
         """True when the content of any loaded stylesheet changed since it was parsed.

@@ -63,7 +63,9 @@ def start(loader, sources) -> Prepared | None:
     as ``loader`` would parse the site files; None where processes cannot be forked."""
     import multiprocessing
 
-    if "fork" not in multiprocessing.get_all_start_methods():
+    from ..engine import can_fork  # (the engine imports this package: not at module level)
+
+    if not can_fork():
         return None
     pairs = [(os.path.normpath(site), source) for site, source in sources]
     names = {site: f"{n}.pickle" for n, (site, _) in enumerate(pairs)}
@@ -81,8 +83,6 @@ def start(loader, sources) -> Prepared | None:
 def _parse_all(loader, pairs, names, folder) -> None:
     """Each sheet's ``(SHA-1 of the source, parsed sheet, diagnostics)``, or None when it was
     not parsed (too large: the loader refuses it with its own diagnostic; unreadable)."""
-    from .sheet import parse_stylesheet
-
     for site, source in pairs:
         result = None
         try:
@@ -92,8 +92,7 @@ def _parse_all(loader, pairs, names, folder) -> None:
                 digest = hashlib.sha1(data).digest()
                 css, diags = loader.decoded(data, site)
                 del data
-                result = (digest, parse_stylesheet(css, loader.rel(site),
-                                                   max_rules=loader.max_rules), diags)
+                result = (digest, loader.parsed(css, site), diags)
         except Exception:  # noqa: BLE001 - the loader parses it itself
             result = None
         try:

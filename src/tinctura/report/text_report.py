@@ -7,6 +7,7 @@ import textwrap
 from tinctura.colour import suggest
 from tinctura.overrides import faded
 from tinctura.problems import target_declaration
+from tinctura.situations import slot
 
 from . import messages as m
 from . import plain
@@ -172,26 +173,21 @@ def examples(findings, first=None) -> list:
     occurrences may all be milder than the ratio the sentence gives."""
     chosen = [] if first is None else [first]
     pages = {f.sample.page for f in chosen}
-    taken = {_occurrence(f) for f in chosen}
+    taken = {slot(f) for f in chosen}
     for f in findings:
         if len(chosen) == EXAMPLES:
             return chosen
-        if f.sample.page not in pages and _occurrence(f) not in taken:
+        if f.sample.page not in pages and slot(f) not in taken:
             chosen.append(f)
             pages.add(f.sample.page)
-            taken.add(_occurrence(f))
+            taken.add(slot(f))
     for f in findings:
         if len(chosen) == EXAMPLES:
             break
-        if _occurrence(f) not in taken:
+        if slot(f) not in taken:
             chosen.append(f)
-            taken.add(_occurrence(f))
+            taken.add(slot(f))
     return chosen
-
-
-def _occurrence(f) -> tuple:
-    s = f.sample
-    return (f.rule, s.page, s.xpath, s.scheme, s.state)
 
 
 def cause_fix_lines(fix) -> list:
