@@ -1,5 +1,6 @@
 """The terminal report: layout (glob patterns, pytest's habit), numbers, colour decisions."""
 import io
+import re
 
 import pytest
 
@@ -243,3 +244,35 @@ def test_appearance_findings_say_what_they_measured():
     ])
     out, _ = report([sample], group_by="page")
     assert "#b0b0b0 on #1a1a1a, Lc -58.21, needs Lc 75 (light on dark); try text #" in out
+
+
+def cvd_finding(ratio, lc):
+    """A TC400 finding as the rule makes it (the numbers are given, not computed)."""
+    from tinctura.model import Finding
+
+    return Finding("TC400", "cvd-ratio", "warning", make_sample("#9a5b00", "#ffffff"), ratio,
+                   4.5, args={"deficiency": "deuteranopia", "lc": lc, "lc_required": 75.0})
+
+
+def test_a_deficiency_finding_names_the_measure_it_lost():
+    # TC400 reports a text that keeps the WCAG 2 ratio under a deficiency but falls below the
+    # APCA level normal vision reaches; "5.01:1, needs 4.5:1" would read as a pass
+    assert m.measure(cvd_finding(5.01, 74.49)) == \
+        "Lc 74.49 under deuteranopia, needs Lc 75 as for normal vision"
+    assert m.measure(cvd_finding(4.17, 67.82)) == "4.17:1 under deuteranopia, needs 4.5:1"
+    assert m.measured(cvd_finding(5.01, 74.49)) == "Lc 74.49 under deuteranopia"
+
+
+def test_a_deficiency_headline_never_shows_a_passing_ratio_as_the_failure():
+    # #9a5b00 on white: 5.43:1 for normal vision (WCAG 2 relative luminance, worked by hand:
+    # L = 0.2126 * 0.3231 + 0.7152 * 0.1046 = 0.1435); APCA's body-text level is Lc 75
+    # (APCA readability levels, recalled from memory: ../shared/reference-values.md)
+    out, _ = report([make_sample("#9a5b00", "#ffffff")])
+    headlines = [line for line in out.splitlines() if "under deuteranopia" in line
+                 and line[:1].isdigit()]
+    assert headlines, out  # TC400 judges the pair (the premise of this test)
+    # no declaration to name (the sample's colour has no traced cause): said as a sentence
+    assert "Fix: give the text the colour #" in out and " to #" not in out
+    for line in headlines:
+        ratio = re.search(r"([\d.]+):1 under", line)
+        assert ratio is None or float(ratio.group(1)) < 4.5, line

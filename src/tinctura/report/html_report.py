@@ -455,8 +455,8 @@ def row(head: str, *cells, attrs: str = "") -> str:
 
 def measure(rule, finding) -> str:
     """``2.32:1, needs 4.5:1``, or what the rule measures instead (its ``measure`` template)."""
-    template = getattr(rule, "measure", None)
-    if template:
+    template = m.measure_template(rule, finding)
+    if template != m.RATIO_MEASURE:
         try:
             return template.format(**m.message_args(finding))
         except (KeyError, IndexError, ValueError):  # a template this version cannot fill

@@ -112,9 +112,20 @@ def message(finding: Finding) -> str:
 
 def measure(finding: Finding) -> str:
     """What was measured against what is needed, e.g. ``3.45:1, needs 4.5:1`` or
-    ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's ``measure`` template."""
-    template = rules.get(finding.rule).measure or "{ratio}:1, needs {required}:1"
-    return template.format(**message_args(finding))
+    ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's template (``measure_template``)."""
+    return measure_template(rules.get(finding.rule), finding).format(**message_args(finding))
+
+
+RATIO_MEASURE = "{ratio}:1, needs {required}:1"
+
+
+def measure_template(rule, finding: Finding) -> str:
+    """``rule``'s ``measure`` template for ``finding`` (a ratio when it has none), or its
+    ``measure_lc`` when the finding's ratio holds and what it lost is an Lc level."""
+    lost_lc = getattr(rule, "measure_lc", "")
+    if lost_lc and finding.required is not None and finding.ratio >= finding.required:
+        return lost_lc
+    return getattr(rule, "measure", "") or RATIO_MEASURE
 
 
 def measured(finding: Finding) -> str:

@@ -200,8 +200,10 @@ def cause_fix_lines(fix) -> list:
     on_all = {1: "its background", 2: "both backgrounds it is used on"}.get(
         n, f"all {n} backgrounds it is used on")
     if fix.possible:
-        target = "declare a text colour" if d is None else f"set `{d.property}` at {d.where()}"
-        return [f"fix at the cause: {target} to {m.colour(fix.colour)}: "
+        # (no declaration to change: the text has the initial colour, or one not traced)
+        target = "give the text the colour" if d is None else \
+            f"set `{d.property}` at {d.where()} to"
+        return [f"fix at the cause: {target} {m.colour(fix.colour)}: "
                 f"{m.ratio(fix.ratio)}:1 or more on {on_all}"]
     what = "no single text colour" if d is None else f"no single value of `{d.property}`"
     lines = [f"{what} reaches {need}:1 on {on_all}; one value per group of backgrounds:"]
