@@ -276,3 +276,28 @@ def test_a_deficiency_headline_never_shows_a_passing_ratio_as_the_failure():
     for line in headlines:
         ratio = re.search(r"([\d.]+):1 under", line)
         assert ratio is None or float(ratio.group(1)) < 4.5, line
+
+
+def test_site_level_problems_are_wrapped_and_worded_as_sentences(tmp_path):
+    # TC300/TC310 problems had unwrapped lines of up to 190 characters and a headline that
+    # began in lower case, unlike every other problem
+    from tinctura.cli import main
+
+    (tmp_path / "site.css").write_text(
+        ":root{--chip-ok:#2e7d32;--chip-stop:#c62828}"
+        ".chip{padding:2px}.chip.ok{background:var(--chip-ok);color:#fff}"
+        ".chip.stop{background:var(--chip-stop);color:#fff}.dark{background:#1e2530}",
+        encoding="utf-8")
+    chips = '<span class="chip ok">running</span> <span class="chip stop">stopped</span>'
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>t</title>'
+        f'<link rel="stylesheet" href="site.css"></head><body><p>{chips}</p>'
+        f'<div class="dark"><p>{chips}</p></div></body></html>', encoding="utf-8")
+    out = io.StringIO()
+    main(["check", str(tmp_path), "--no-states", "--jobs", "1", "--fail-on", "never",
+          "--color", "never", "--no-config"], out, io.StringIO())
+    text = out.getvalue()
+    headlines = [line for line in text.splitlines() if re.match(r"\d+\. Palette colour", line)]
+    assert headlines, text  # the premise: a site-level problem is reported
+    problems = text.split("\nChecked ")[0]  # (the summary line is one line by design)
+    assert all(len(line) < 100 for line in problems.splitlines()), text

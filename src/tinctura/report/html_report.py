@@ -17,7 +17,7 @@ from tinctura import distribution
 from tinctura.colour import wcag
 from tinctura.problems import faded, target_declaration
 
-from . import audit, charts, swatch
+from . import audit, charts, plain, swatch
 from .appearance import is_appearance
 from .appearance import problem_lines as appearance_lines
 from . import messages as m
@@ -296,7 +296,8 @@ class HtmlFormatter(Formatter):
         rule = self.rule(p.rule)
         sc = audit.applied(rule, worst.level) if rule else None
         where = f"SC {sc.number}" if sc else "beyond WCAG 2"
-        title = prose(f"{index}. {self.value(p.fg_cause, fg, 'text')} on "
+        what = plain.non_text(worst) or "text"
+        title = prose(f"{index}. {self.value(p.fg_cause, fg, what)} on "
                       f"{self.value(p.bg_cause, bg, 'background')}: {measure(rule, worst)}")
         facts = (f'<p class="facts"><span class="sev">{e(p.severity.capitalize())}</span> '
                  f"{code(p.rule)} {e(p.slug)}, {e(where)}; {schemes_of(p)}; "

@@ -14,7 +14,6 @@ from . import plain
 from .appearance import headline as appearance_headline
 from .appearance import finding_lines as appearance_finding_lines
 from .appearance import is_appearance
-from .appearance import problem_lines as appearance_lines
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 from .summary import SEVERITIES
@@ -100,12 +99,21 @@ class TextFormatter(Formatter):
         self.tw.line()
 
     def appearance_problem(self, index: int, problem) -> None:
-        self.tw.line(f"{index}. {appearance_headline(problem)}", "bold")
-        self.tw.line(f"   {self.severity(problem.severity)} {problem.rule} {problem.slug}: "
-                     f"{m.message(problem.worst)}")
-        for line in appearance_lines(problem, self.many_schemes):
-            self.tw.line(f"   {line}")
+        for line in wrapped(0, f"{index}. {appearance_headline(problem)}", self.width):
+            self.tw.line(line, "bold")
+        self.appearance_detail(problem.worst, 1)
         self.tw.line()
+
+    def appearance_detail(self, finding, indent: int) -> None:
+        """A TC300/TC310 finding's message, then its entries and every context, wrapped."""
+        message = f"{finding.severity} {finding.rule} {finding.slug}: {m.message(finding)}"
+        for n, line in enumerate(wrapped(indent, message, self.width, 2)):
+            self.tw.line(line.replace(finding.severity, self.severity(finding.severity), 1)
+                         if n == 0 else line)
+        for text in appearance_finding_lines(finding, self.many_schemes):
+            hang = 2 + len(text) - len(text.lstrip())  # a context's wrapped lines under it
+            for line in wrapped(indent, text, self.width, hang):
+                self.tw.line(line)
 
     def page(self, page, findings) -> None:
         if self.header.group != "page" or not findings:
@@ -116,9 +124,7 @@ class TextFormatter(Formatter):
         for f in findings:
             s = f.sample
             if is_appearance(f):  # site-level: the entries and their contexts
-                tw.line(f"  {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
-                for line in appearance_finding_lines(f, self.many_schemes):
-                    tw.line(f"      {line}")
+                self.appearance_detail(f, 1)
                 continue
             fg, bg = m.finding_colours(f)
             for line in wrapped(0, f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\""
@@ -295,7 +301,7 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
         text_colour = text_colour.replace(
             f"inherited from {inherited}",
             f"inherited from {locate.locator(worst.sample.page, inherited)}")
-    out.append((2, f"text colour: {text_colour}", None, True))
+    out.append((2, f"{plain.non_text(worst) or 'text'} colour: {text_colour}", None, True))
     out.append((2, f"background: {m.cause(problem.bg_cause, 'no declaration (the canvas)')}",
                 None, True))
     if getattr(problem, "override", None) is not None:  # else the fix above said it
