@@ -585,7 +585,7 @@ CVD_RATIO = Rule(
         "{deficiencies}{against}"
     ),
     measure="{ratio}:1 under {deficiency}, needs {required}:1",
-    measure_lc="Lc {lc} under {deficiency}, needs Lc {lc_required} as for normal vision",
+    measure_lc="Lc {lc} under {deficiency}, needs Lc {lc_required}",
     docs=Docs(
         checks=(
             "Each text that meets the WCAG 2 ratio for normal vision is seen as a reader with "

@@ -239,7 +239,10 @@ def test_appearance_findings_say_what_they_measured():
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "*Grey text on black is too faint: Lc -58.21, needs Lc 75 (light on dark).",
         "*Where: *#b0b0b0 on #1a1a1a, Lc -58.21",
-        "*Fix: set `color` at assets/site.css:12 to #*",
+        # the fix says what it reaches in the problem's own measure (it read "11.2:1 or more",
+        # and "no single value reaches 4.5:1" of a colour at 8:1)
+        "*Fix: set `color` at assets/site.css:12 to #*: reaches Lc 75 (light on dark) on its",
+        "*background (*:1)",
         "*warning TC200 text-lc: lightness contrast Lc -58.21 (light on dark) is below the Lc 75*",
     ])
     out, _ = report([sample], group_by="page")
@@ -258,7 +261,7 @@ def test_a_deficiency_finding_names_the_measure_it_lost():
     # TC400 reports a text that keeps the WCAG 2 ratio under a deficiency but falls below the
     # APCA level normal vision reaches; "5.01:1, needs 4.5:1" would read as a pass
     assert m.measure(cvd_finding(5.01, 74.49)) == \
-        "Lc 74.49 under deuteranopia, needs Lc 75 as for normal vision"
+        "Lc 74.49 under deuteranopia, needs Lc 75"
     assert m.measure(cvd_finding(4.17, 67.82)) == "4.17:1 under deuteranopia, needs 4.5:1"
     assert m.measured(cvd_finding(5.01, 74.49)) == "Lc 74.49 under deuteranopia"
 
@@ -301,3 +304,20 @@ def test_site_level_problems_are_wrapped_and_worded_as_sentences(tmp_path):
     assert headlines, text  # the premise: a site-level problem is reported
     problems = text.split("\nChecked ")[0]  # (the summary line is one line by design)
     assert all(len(line) < 100 for line in problems.splitlines()), text
+
+
+def test_a_fix_split_by_backgrounds_says_what_the_problem_needs():
+    # a text colour at 8.89:1 on its darkest background (it passes the WCAG 2 ratio) that no
+    # single value brings to an APCA level everywhere: "no single value reaches 4.5:1" read as
+    # if the ratio were the trouble
+    from tinctura.problems import CauseFix, Context
+    from tinctura.report.text_report import cause_fix_lines
+
+    dark, light = (0.12, 0.13, 0.16), (0.94, 0.95, 0.97)
+    fix = CauseFix(decl("--fg", "#bfc1c7", 1, ":root"), 4.5, (dark, light), None, None,
+                   contexts=(Context((dark,), (0.84, 0.84, 0.87), 8.12),
+                             Context((light,), (0.36, 0.36, 0.39), 5.89)))
+    lines = cause_fix_lines(fix, "Lc 75 (light on dark)")
+    assert lines[0] == ("no single value of `--fg` reaches Lc 75 (light on dark) on both "
+                        "backgrounds it is used on; one value per group of backgrounds:")
+    assert cause_fix_lines(fix)[0].startswith("no single value of `--fg` reaches 4.5:1 on both")

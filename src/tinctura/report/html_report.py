@@ -371,7 +371,7 @@ class HtmlFormatter(Formatter):
         return table("The words as readers see them", heads, body, cls="pictures")
 
     def fix_text(self, p, worst) -> str:
-        lines = cause_fix_lines(p.fix_at_cause)
+        lines = cause_fix_lines(p.fix_at_cause, m.needs(worst))
         if faded(worst):  # an ancestor's opacity fades it: no colour undoes that
             unfaded = getattr(p, "worst_unfaded", None)
             if unfaded is None:

@@ -133,6 +133,13 @@ def measured(finding: Finding) -> str:
     return measure(finding).split(", needs")[0]
 
 
+def needs(finding: Finding) -> str:
+    """What is needed, as ``measure`` says it: ``4.5:1`` or ``Lc 75 (dark on light)``."""
+    said = measure(finding)
+    return said.split(", needs ", 1)[1] if ", needs " in said else \
+        f"{required(finding.required)}:1"
+
+
 RAISE_OPACITY = "raise (or remove) the opacity of the element around the text that fades it"
 
 

@@ -196,12 +196,15 @@ def examples(findings, first=None) -> list:
     return chosen
 
 
-def cause_fix_lines(fix) -> list:
-    """The fix at the cause: one value for the declaration, or one per group of backgrounds."""
+def cause_fix_lines(fix, need: str | None = None) -> list:
+    """The fix at the cause: one value for the declaration, or one per group of backgrounds.
+    ``need``: what the problem needs, as its measure says it (``messages.needs``: an Lc level
+    for the APCA rules); a WCAG 2 ratio when not given."""
     if fix is None:
         return []
     n = len(fix.backgrounds)
-    need = m.required(fix.required)
+    ratio_needed = f"{m.required(fix.required)}:1"
+    need = need or ratio_needed
     d = fix.declaration
     on_all = {1: "its background", 2: "both backgrounds it is used on"}.get(
         n, f"all {n} backgrounds it is used on")
@@ -209,17 +212,18 @@ def cause_fix_lines(fix) -> list:
         # (no declaration to change: the text has the initial colour, or one not traced)
         target = "give the text the colour" if d is None else \
             f"set `{d.property}` at {d.where()} to"
-        return [f"fix at the cause: {target} {m.colour(fix.colour)}: "
-                f"{m.ratio(fix.ratio)}:1 or more on {on_all}"]
+        reached = f"{m.ratio(fix.ratio)}:1 or more on {on_all}" if need == ratio_needed else \
+            f"reaches {need} on {on_all} ({m.ratio(fix.ratio)}:1)"
+        return [f"fix at the cause: {target} {m.colour(fix.colour)}: {reached}"]
     what = "no single text colour" if d is None else f"no single value of `{d.property}`"
-    lines = [f"{what} reaches {need}:1 on {on_all}; one value per group of backgrounds:"]
+    lines = [f"{what} reaches {need} on {on_all}; one value per group of backgrounds:"]
     several = len({sch for c in fix.contexts for sch in c.schemes}) > 1
     for c in fix.contexts:
         on = ", ".join(m.colour(b) for b in c.backgrounds)
         if several:
             on += f" ({', '.join(c.schemes)} scheme{'s' if len(c.schemes) > 1 else ''})"
         if c.colour is None:
-            lines.append(f"  on {on}: no text colour of this hue reaches {need}:1; "
+            lines.append(f"  on {on}: no text colour of this hue reaches {need}; "
                          f"change the background")
         else:
             lines.append(f"  on {on}: {m.colour(c.colour)} ({m.ratio(c.ratio)}:1)")
@@ -305,7 +309,7 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
     out.append((2, f"background: {m.cause(problem.bg_cause, 'no declaration (the canvas)')}",
                 None, True))
     if getattr(problem, "override", None) is not None:  # else the fix above said it
-        for line in cause_fix_lines(problem.fix_at_cause):
+        for line in cause_fix_lines(problem.fix_at_cause, m.needs(worst)):
             out.append((2, line, None, True))
     return out
 
@@ -347,12 +351,12 @@ def fix_lines(problem) -> list:
 
 def cause_fix(problem) -> list:
     """The fix at the cause (the declaration to change), as ``fix_lines`` gives it."""
-    fix = problem.fix_at_cause
+    fix, need = problem.fix_at_cause, m.needs(problem.worst)
     if fix is not None and not fix.possible and not any(c.colour for c in fix.contexts):
         return [(1, "Fix: no text colour of this hue on the same side of the background "
-                    "reaches the ratio; change the background or both colours.", "green",
+                    f"reaches {need}; change the background or both colours.", "green",
                  True)]
-    lines = cause_fix_lines(fix)
+    lines = cause_fix_lines(fix, need)
     if not lines:
         return []
     return [(1, "Fix: " + lines[0].replace("fix at the cause: ", ""), "green", True)] + [
