@@ -296,7 +296,7 @@ class HtmlFormatter(Formatter):
         rule = self.rule(p.rule)
         sc = audit.applied(rule, worst.level) if rule else None
         where = f"SC {sc.number}" if sc else "beyond WCAG 2"
-        what = plain.non_text(worst) or "text"
+        what = m.non_text(worst) or "text"
         title = prose(f"{index}. {self.value(p.fg_cause, fg, what)} on "
                       f"{self.value(p.bg_cause, bg, 'background')}: {measure(rule, worst)}")
         facts = (f'<p class="facts"><span class="sev">{e(p.severity.capitalize())}</span> '

@@ -7,6 +7,7 @@ from tinctura import rules
 from tinctura.colour.convert import to_hex
 from tinctura.colour.wcag import format_ratio
 from tinctura.model import Cause, Declaration, Finding
+from tinctura.rules.catalogue import UI_RATIO
 
 EXCERPT = 40  # characters of text shown in terminal reports
 
@@ -179,10 +180,24 @@ def cause(c: Cause | None, initial: str = "the initial value") -> str:
     return text
 
 
+# what a TC110 finding judged (its ``what``), named for a writer
+_NON_TEXT = {"control boundary": "control boundary", "focus outline": "focus outline",
+             "svg icon": "SVG icon", "icon glyph": "icon"}
+
+
+def non_text(finding: Finding) -> str | None:
+    """``control boundary``, ``focus outline``, ``SVG icon``, ``icon``: the graphical object a
+    non-text finding (TC110) judged; None for text."""
+    if finding.rule != UI_RATIO.code:
+        return None
+    what = finding.args.get("what") or "graphical object"
+    return _NON_TEXT.get(what, what)
+
+
 def fixes(finding: Finding) -> str:
     """``text #767676 (4.54:1) or background #ffffff (...)``; empty when none was found."""
     parts = []
     for fix in finding.fixes:
-        what = "text" if fix.target == "foreground" else fix.target
+        what = (non_text(finding) or "text") if fix.target == "foreground" else fix.target
         parts.append(f"{what} {colour(fix.colour)} ({ratio(fix.ratio)}:1)")
     return " or ".join(parts)

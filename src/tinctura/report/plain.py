@@ -6,7 +6,7 @@ from __future__ import annotations
 
 from tinctura.colour.convert import srgb_to_oklab, to_polar
 from tinctura.overrides import faded
-from tinctura.rules.catalogue import LINK_CUE, UI_RATIO
+from tinctura.rules.catalogue import LINK_CUE
 from tinctura.sourcemap import theme_area
 
 from . import messages as m
@@ -66,20 +66,6 @@ def area(landmarks) -> str:
     return f" in {found[1]}" if found else ""
 
 
-# what a TC110 finding judged (its ``what``), named for a writer
-_NON_TEXT = {"control boundary": "control boundary", "focus outline": "focus outline",
-             "svg icon": "SVG icon", "icon glyph": "icon"}
-
-
-def non_text(finding) -> str | None:
-    """``control boundary``, ``focus outline``, ``SVG icon``, ``icon``: the graphical object a
-    non-text finding (TC110) judged; None for text."""
-    if finding.rule != UI_RATIO.code:
-        return None
-    what = finding.args.get("what") or "graphical object"
-    return _NON_TEXT.get(what, what)
-
-
 def subject(sample, landmarks) -> str:
     """``text``, ``link text``, ``heading``, ``generated text``."""
     if sample.kind == "generated":
@@ -117,7 +103,7 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
 def too_faint(worst, fg, bg, marks) -> str:
     """Colours in words, where, faded or not, the state, and the rule's own measure (a
     ratio, Lc, under a deficiency)."""
-    thing = non_text(worst) or subject(worst.sample, marks)
+    thing = m.non_text(worst) or subject(worst.sample, marks)
     what = f"{colour_name(fg)} {thing} on {colour_name(bg)}{area(marks)}"
     state = STATES.get(worst.sample.state)
     if faded(worst):

@@ -305,7 +305,7 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
         text_colour = text_colour.replace(
             f"inherited from {inherited}",
             f"inherited from {locate.locator(worst.sample.page, inherited)}")
-    out.append((2, f"{plain.non_text(worst) or 'text'} colour: {text_colour}", None, True))
+    out.append((2, f"{m.non_text(worst) or 'text'} colour: {text_colour}", None, True))
     out.append((2, f"background: {m.cause(problem.bg_cause, 'no declaration (the canvas)')}",
                 None, True))
     if getattr(problem, "override", None) is not None:  # else the fix above said it
