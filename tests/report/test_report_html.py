@@ -189,3 +189,11 @@ def test_same_run_same_document():
     first, _, _ = build(hostile_samples(), scope=scope)
     again, _, _ = build(hostile_samples(), scope=scope)
     assert first == again
+
+
+def test_severity_counts_read_as_words():
+    # "36 error, 755 warning" read as labels cut short; the text summary says it in words
+    samples = [make_sample("#777777", "#ffffff", page=f"p{i}.html") for i in range(2)]
+    html, _, _ = build(samples)
+    text = " ".join(lxml.html.document_fromstring(html).text_content().split())
+    assert re.search(r"Findings by severity: 2 errors, \d+ warnings?, \d+ info\.", text), text

@@ -134,7 +134,8 @@ class HtmlFormatter(Formatter):
         )
         cells = "".join(f'<div><dt>{e(label)}</dt><dd data-figure="{e(label)}">{n:,}</dd></div>'
                         for label, n in figures)
-        sev = ", ".join(f"{n:,} {e(name)}" for name, n in s.by_severity.items())
+        sev = ", ".join(e(m.plural(n, name, name if name == "info" else None))
+                        for name, n in s.by_severity.items())
         return section("glance", "At a glance", f'<dl class="figures">{cells}</dl>',
                        f"<p>Findings by severity: {sev}. A problem groups the findings that one "
                        f"pair of declarations causes: fixing the declaration fixes every "
