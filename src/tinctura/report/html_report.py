@@ -306,7 +306,7 @@ class HtmlFormatter(Formatter):
                  f"<p>{e(sentence(m.message(worst)))}.</p>")
         fix = self.suggested(p, bg)
         pictures = self.pictures(s, fg, bg, fix)
-        cause = (f'<dl class="cause"><div><dt>Text colour</dt><dd>'
+        cause = (f'<dl class="cause"><div><dt>{e(what[0].upper() + what[1:])} colour</dt><dd>'
                  f"{prose(m.cause(p.fg_cause, 'no declaration (initial value)'))}</dd></div>"
                  f"<div><dt>Background</dt><dd>"
                  f"{prose(m.cause(p.bg_cause, 'no declaration (the canvas)'))}</dd></div>"
@@ -348,7 +348,7 @@ class HtmlFormatter(Formatter):
                     return c.colour, "Suggested on this background"
         for f in p.worst.fixes:
             if f.target == "foreground":
-                return f.colour, "Nearest passing text colour"
+                return f.colour, f"Nearest passing {m.non_text(p.worst) or 'text'} colour"
         return None
 
     def pictures(self, s, fg, bg, fix) -> str:
