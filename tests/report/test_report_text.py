@@ -321,3 +321,26 @@ def test_a_fix_split_by_backgrounds_says_what_the_problem_needs():
     assert lines[0] == ("no single value of `--fg` reaches Lc 75 (light on dark) on both "
                         "backgrounds it is used on; one value per group of backgrounds:")
     assert cause_fix_lines(fix)[0].startswith("no single value of `--fg` reaches 4.5:1 on both")
+
+
+def test_examples_on_one_theme_template_are_shown_once():
+    # the navigation's link on every page is one place in the writer's sources (the theme
+    # template): three identical "Where:" lines said nothing; other places fill in instead
+    from tinctura.sourcemap import Source
+    from tinctura.report.text_report import problem_lines
+    from tinctura.writer import Location
+
+    samples = [make_sample("#777777", "#ffffff", page=f"p{i}.html", xpath="/html/body/nav/a",
+                           text="Home", fg_cause=MUTED, bg_cause=PAPER) for i in range(4)]
+    samples.append(make_sample("#777777", "#ffffff", page="p1.html", xpath="/html/body/nav/b",
+                               text="Setup", fg_cause=MUTED, bg_cause=PAPER))
+    (problem,) = group(run(samples, Options()), samples)
+
+    def locate(sample):
+        return Location(sample.xpath.rsplit("/", 1)[1], Source(None, template="partials/nav.html"))
+
+    where = [text for _, text, _, _ in problem_lines(1, problem, locate)
+             if "theme template" in text]
+    assert len(where) == 2 and where[0] != where[1], where
+    assert any("and 3 more occurrences" in text for _, text, _, _ in
+               problem_lines(1, problem, locate))

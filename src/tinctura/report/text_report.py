@@ -173,22 +173,22 @@ def headline(cause, rgb, what: str) -> str:
 
 
 
-def examples(findings, first=None) -> list:
-    """Up to EXAMPLES occurrences, preferring different pages, in report order; ``first``
+def examples(findings, first=None, most: int = EXAMPLES) -> list:
+    """Up to ``most`` occurrences, preferring different pages, in report order; ``first``
     (the problem's worst, which its sentence describes) leads when given: the first pages'
     occurrences may all be milder than the ratio the sentence gives."""
     chosen = [] if first is None else [first]
     pages = {f.sample.page for f in chosen}
     taken = {slot(f) for f in chosen}
     for f in findings:
-        if len(chosen) == EXAMPLES:
+        if len(chosen) == most:
             return chosen
         if f.sample.page not in pages and slot(f) not in taken:
             chosen.append(f)
             pages.add(f.sample.page)
             taken.add(slot(f))
     for f in findings:
-        if len(chosen) == EXAMPLES:
+        if len(chosen) == most:
             break
         if slot(f) not in taken:
             chosen.append(f)
@@ -286,11 +286,9 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
     location = locate(worst.sample) if locate is not None else None
     lead = f"{index}. " if index else ""
     out = [(0, lead + plain.sentence(problem, location, many_schemes), "bold", True)]
-    pool = examples(problem.example_pool(), worst)
-    for n, f in enumerate(pool):
-        label = "Where:" if n == 0 else "      "
-        out.append((1, f"{label} {example_place(f, locate, many_schemes)}", None, True))
-    rest = problem.occurrences - len(pool)
+    for n, place in enumerate(places := example_places(problem, locate, many_schemes)):
+        out.append((1, f"{'Where:' if n == 0 else '      '} {place}", None, True))
+    rest = problem.occurrences - len(places)
     if rest:
         pages = f" on {m.plural(problem.pages, 'page')}" if problem.pages > 1 else ""
         out.append((1, f"       and {m.plural(rest, 'more occurrence')}{pages}", "dim", True))
@@ -312,6 +310,18 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
         for line in cause_fix_lines(problem.fix_at_cause, m.needs(worst)):
             out.append((2, line, None, True))
     return out
+
+
+def example_places(problem, locate=None, many_schemes: bool = False) -> list:
+    """Up to EXAMPLES places of a problem's occurrences, each once as the writer reads it:
+    pages built from one theme template share the template's place, so candidates beyond
+    the first EXAMPLES are tried for other places."""
+    places = {}
+    for f in examples(problem.example_pool(), problem.worst, 4 * EXAMPLES):
+        places.setdefault(example_place(f, locate, many_schemes))
+        if len(places) == EXAMPLES:
+            break
+    return list(places)
 
 
 def example_place(f, locate=None, many_schemes: bool = False) -> str:
