@@ -66,6 +66,9 @@ class Rule:
     message: str  # template, formatted late by the reports (see tinctura.report.messages)
     docs: Docs
     measure: str = ""  # what a finding measures, when it is not a contrast ratio (reports)
+    # what it measures when its ratio meets the requirement and an APCA Lc level was lost
+    # (TC400 judges both): then ``measure``, a ratio against its requirement, reads as a pass
+    measure_lc: str = ""
 
     def criterion(self, level: str) -> Criterion:
         """The success criterion that applies when checking at ``level`` ("AA" or "AAA")."""
@@ -582,6 +585,7 @@ CVD_RATIO = Rule(
         "{deficiencies}{against}"
     ),
     measure="{ratio}:1 under {deficiency}, needs {required}:1",
+    measure_lc="Lc {lc} under {deficiency}, needs Lc {lc_required}",
     docs=Docs(
         checks=(
             "Each text that meets the WCAG 2 ratio for normal vision is seen as a reader with "

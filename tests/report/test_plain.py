@@ -6,6 +6,7 @@ lime, cyan, blue, magenta); names of greys by lightness are common practice.
 import pytest
 
 from tinctura.engine import Options
+from tinctura.model import Fix
 from tinctura.problems import group
 from tinctura.report import plain
 from tinctura.rules import run
@@ -55,3 +56,23 @@ def test_a_link_told_apart_by_colour_alone_is_not_called_too_faint(link, said):
     findings = [f for f in run([sample], Options()) if f.rule == "TC120"]
     (problem,) = group(findings)
     assert plain.sentence(problem) == said
+
+
+@pytest.mark.parametrize("what, named", [
+    ("control boundary", "control boundary"), ("icon glyph", "icon"),
+    ("focus outline", "focus outline"), ("svg icon", "SVG icon"),
+])
+def test_a_non_text_problem_names_the_object_not_text(what, named):
+    # TC110 judges graphical objects (WCAG 2.2 SC 1.4.11, 3:1); #d0d0d0 on white is 1.54:1
+    # (WCAG 2 formula, by hand: L 0.6308 and 1.0). A control's boundary is no "control text".
+    from tinctura.model import Finding
+    from tinctura.report import messages
+
+    sample = make_sample("#d0d0d0", "#ffffff", kind="boundary", text="input boundary")
+    finding = Finding("TC110", "ui-ratio", "error", sample, 1.5425, 3.0,
+                      args={"what": what, "sc": "1.4.11"},
+                      fixes=[Fix("foreground", rgb("#949494"), 3.03)])
+    (problem,) = group([finding])
+    assert plain.sentence(problem) == \
+        f"Light grey {named} on white is too faint: 1.54:1, needs 3:1."
+    assert messages.fixes(finding) == f"{named} #949494 (3.03:1)"  # not "text #949494"

@@ -189,3 +189,24 @@ def test_same_run_same_document():
     first, _, _ = build(hostile_samples(), scope=scope)
     again, _, _ = build(hostile_samples(), scope=scope)
     assert first == again
+
+
+def test_severity_counts_read_as_words():
+    # "36 error, 755 warning" read as labels cut short; the text summary says it in words
+    samples = [make_sample("#777777", "#ffffff", page=f"p{i}.html") for i in range(2)]
+    html, _, _ = build(samples)
+    text = " ".join(lxml.html.document_fromstring(html).text_content().split())
+    assert re.search(r"Findings by severity: 2 errors, \d+ warnings?, \d+ info\.", text), text
+
+
+def test_a_non_text_problem_is_not_labelled_text():
+    # a field's border (TC110): its colour row named "Text colour" before
+    border = Cause(decl("border", "1px solid #d0d0d0", 5))
+    sample = make_sample("#d0d0d0", "#ffffff", kind="boundary", text="input boundary",
+                         xpath="/html/body/input::boundary", fg_cause=border)
+    sample.surround = sample.bg
+    html, findings, _ = build([sample])
+    assert [f.rule for f in findings] == ["TC110"]  # the premise: 1.54:1 against 3:1
+    doc = lxml.html.document_fromstring(html)
+    labels = [dt.text_content() for dt in doc.xpath("//article//dl[@class='cause']//dt")]
+    assert labels[0] == "Control boundary colour", labels

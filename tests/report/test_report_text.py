@@ -1,5 +1,6 @@
 """The terminal report: layout (glob patterns, pytest's habit), numbers, colour decisions."""
 import io
+import re
 
 import pytest
 
@@ -238,8 +239,108 @@ def test_appearance_findings_say_what_they_measured():
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
         "*Grey text on black is too faint: Lc -58.21, needs Lc 75 (light on dark).",
         "*Where: *#b0b0b0 on #1a1a1a, Lc -58.21",
-        "*Fix: set `color` at assets/site.css:12 to #*",
+        # the fix says what it reaches in the problem's own measure (it read "11.2:1 or more",
+        # and "no single value reaches 4.5:1" of a colour at 8:1)
+        "*Fix: set `color` at assets/site.css:12 to #*: reaches Lc 75 (light on dark) on its",
+        "*background (*:1)",
         "*warning TC200 text-lc: lightness contrast Lc -58.21 (light on dark) is below the Lc 75*",
     ])
     out, _ = report([sample], group_by="page")
     assert "#b0b0b0 on #1a1a1a, Lc -58.21, needs Lc 75 (light on dark); try text #" in out
+
+
+def cvd_finding(ratio, lc):
+    """A TC400 finding as the rule makes it (the numbers are given, not computed)."""
+    from tinctura.model import Finding
+
+    return Finding("TC400", "cvd-ratio", "warning", make_sample("#9a5b00", "#ffffff"), ratio,
+                   4.5, args={"deficiency": "deuteranopia", "lc": lc, "lc_required": 75.0})
+
+
+def test_a_deficiency_finding_names_the_measure_it_lost():
+    # TC400 reports a text that keeps the WCAG 2 ratio under a deficiency but falls below the
+    # APCA level normal vision reaches; "5.01:1, needs 4.5:1" would read as a pass
+    assert m.measure(cvd_finding(5.01, 74.49)) == \
+        "Lc 74.49 under deuteranopia, needs Lc 75"
+    assert m.measure(cvd_finding(4.17, 67.82)) == "4.17:1 under deuteranopia, needs 4.5:1"
+    assert m.measured(cvd_finding(5.01, 74.49)) == "Lc 74.49 under deuteranopia"
+
+
+def test_a_deficiency_headline_never_shows_a_passing_ratio_as_the_failure():
+    # #9a5b00 on white: 5.43:1 for normal vision (WCAG 2 relative luminance, worked by hand:
+    # L = 0.2126 * 0.3231 + 0.7152 * 0.1046 = 0.1435); APCA's body-text level is Lc 75
+    # (APCA readability levels, recalled from memory: ../shared/reference-values.md)
+    out, _ = report([make_sample("#9a5b00", "#ffffff")])
+    headlines = [line for line in out.splitlines() if "under deuteranopia" in line
+                 and line[:1].isdigit()]
+    assert headlines, out  # TC400 judges the pair (the premise of this test)
+    # no declaration to name (the sample's colour has no traced cause): said as a sentence
+    assert "Fix: give the text the colour #" in out and " to #" not in out
+    for line in headlines:
+        ratio = re.search(r"([\d.]+):1 under", line)
+        assert ratio is None or float(ratio.group(1)) < 4.5, line
+
+
+def test_site_level_problems_are_wrapped_and_worded_as_sentences(tmp_path):
+    # TC300/TC310 problems had unwrapped lines of up to 190 characters and a headline that
+    # began in lower case, unlike every other problem
+    from tinctura.cli import main
+
+    (tmp_path / "site.css").write_text(
+        ":root{--chip-ok:#2e7d32;--chip-stop:#c62828}"
+        ".chip{padding:2px}.chip.ok{background:var(--chip-ok);color:#fff}"
+        ".chip.stop{background:var(--chip-stop);color:#fff}.dark{background:#1e2530}",
+        encoding="utf-8")
+    chips = '<span class="chip ok">running</span> <span class="chip stop">stopped</span>'
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>t</title>'
+        f'<link rel="stylesheet" href="site.css"></head><body><p>{chips}</p>'
+        f'<div class="dark"><p>{chips}</p></div></body></html>', encoding="utf-8")
+    out = io.StringIO()
+    main(["check", str(tmp_path), "--no-states", "--jobs", "1", "--fail-on", "never",
+          "--color", "never", "--no-config"], out, io.StringIO())
+    text = out.getvalue()
+    headlines = [line for line in text.splitlines() if re.match(r"\d+\. Palette colour", line)]
+    assert headlines, text  # the premise: a site-level problem is reported
+    problems = text.split("\nChecked ")[0]  # (the summary line is one line by design)
+    assert all(len(line) < 100 for line in problems.splitlines()), text
+
+
+def test_a_fix_split_by_backgrounds_says_what_the_problem_needs():
+    # a text colour at 8.89:1 on its darkest background (it passes the WCAG 2 ratio) that no
+    # single value brings to an APCA level everywhere: "no single value reaches 4.5:1" read as
+    # if the ratio were the trouble
+    from tinctura.problems import CauseFix, Context
+    from tinctura.report.text_report import cause_fix_lines
+
+    dark, light = (0.12, 0.13, 0.16), (0.94, 0.95, 0.97)
+    fix = CauseFix(decl("--fg", "#bfc1c7", 1, ":root"), 4.5, (dark, light), None, None,
+                   contexts=(Context((dark,), (0.84, 0.84, 0.87), 8.12),
+                             Context((light,), (0.36, 0.36, 0.39), 5.89)))
+    lines = cause_fix_lines(fix, "Lc 75 (light on dark)")
+    assert lines[0] == ("no single value of `--fg` reaches Lc 75 (light on dark) on both "
+                        "backgrounds it is used on; one value per group of backgrounds:")
+    assert cause_fix_lines(fix)[0].startswith("no single value of `--fg` reaches 4.5:1 on both")
+
+
+def test_examples_on_one_theme_template_are_shown_once():
+    # the navigation's link on every page is one place in the writer's sources (the theme
+    # template): three identical "Where:" lines said nothing; other places fill in instead
+    from tinctura.sourcemap import Source
+    from tinctura.report.text_report import problem_lines
+    from tinctura.writer import Location
+
+    samples = [make_sample("#777777", "#ffffff", page=f"p{i}.html", xpath="/html/body/nav/a",
+                           text="Home", fg_cause=MUTED, bg_cause=PAPER) for i in range(4)]
+    samples.append(make_sample("#777777", "#ffffff", page="p1.html", xpath="/html/body/nav/b",
+                               text="Setup", fg_cause=MUTED, bg_cause=PAPER))
+    (problem,) = group(run(samples, Options()), samples)
+
+    def locate(sample):
+        return Location(sample.xpath.rsplit("/", 1)[1], Source(None, template="partials/nav.html"))
+
+    where = [text for _, text, _, _ in problem_lines(1, problem, locate)
+             if "theme template" in text]
+    assert len(where) == 2 and where[0] != where[1], where
+    assert any("and 3 more occurrences" in text for _, text, _, _ in
+               problem_lines(1, problem, locate))

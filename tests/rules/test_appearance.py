@@ -138,7 +138,7 @@ def test_text_and_json_reports_list_every_context(status_site):
     main(["check", str(status_site), "--no-states", "--jobs", "1", "--fail-on", "never",
           "--color", "never"], out, io.StringIO())
     text = out.getvalue()
-    assert "palette colour .chip.caution shifts with its surround" in text
+    assert "Palette colour .chip.caution shifts with its surround" in text
     assert "#e0a000 on #1e2530" in text and "#e0a000 on #ffffff" in text
     assert "look alike" in text and "deuteranopia" in text
     assert "ISO 3864" in text and "not a WCAG 2 failure" in text

@@ -72,11 +72,12 @@ def finding_lines(finding, many_schemes: bool = True) -> list:
 
 
 def headline(problem) -> str:
+    """The problem in one sentence, as ``plain.sentence`` words the others."""
     a = problem.worst.args
     if "other" in a:
-        return (f"palette colours {a['entry']} and {a['other']} look alike "
-                f"({a['conditions']})")
-    return f"palette colour {a['entry']} shifts with its surround ({a['terms']})"
+        return (f"Palette colours {a['entry']} and {a['other']} look alike "
+                f"({a['conditions']}).")
+    return f"Palette colour {a['entry']} shifts with its surround ({a['terms']})."
 
 
 def shift_lines(colour, bg, other_bg, shift: dict) -> list:

@@ -17,7 +17,7 @@ from tinctura import distribution
 from tinctura.colour import wcag
 from tinctura.problems import faded, target_declaration
 
-from . import audit, charts, swatch
+from . import audit, charts, plain, swatch
 from .appearance import is_appearance
 from .appearance import problem_lines as appearance_lines
 from . import messages as m
@@ -134,7 +134,8 @@ class HtmlFormatter(Formatter):
         )
         cells = "".join(f'<div><dt>{e(label)}</dt><dd data-figure="{e(label)}">{n:,}</dd></div>'
                         for label, n in figures)
-        sev = ", ".join(f"{n:,} {e(name)}" for name, n in s.by_severity.items())
+        sev = ", ".join(e(m.plural(n, name, name if name == "info" else None))
+                        for name, n in s.by_severity.items())
         return section("glance", "At a glance", f'<dl class="figures">{cells}</dl>',
                        f"<p>Findings by severity: {sev}. A problem groups the findings that one "
                        f"pair of declarations causes: fixing the declaration fixes every "
@@ -296,7 +297,8 @@ class HtmlFormatter(Formatter):
         rule = self.rule(p.rule)
         sc = audit.applied(rule, worst.level) if rule else None
         where = f"SC {sc.number}" if sc else "beyond WCAG 2"
-        title = prose(f"{index}. {self.value(p.fg_cause, fg, 'text')} on "
+        what = m.non_text(worst) or "text"
+        title = prose(f"{index}. {self.value(p.fg_cause, fg, what)} on "
                       f"{self.value(p.bg_cause, bg, 'background')}: {measure(rule, worst)}")
         facts = (f'<p class="facts"><span class="sev">{e(p.severity.capitalize())}</span> '
                  f"{code(p.rule)} {e(p.slug)}, {e(where)}; {schemes_of(p)}; "
@@ -304,7 +306,7 @@ class HtmlFormatter(Formatter):
                  f"<p>{e(sentence(m.message(worst)))}.</p>")
         fix = self.suggested(p, bg)
         pictures = self.pictures(s, fg, bg, fix)
-        cause = (f'<dl class="cause"><div><dt>Text colour</dt><dd>'
+        cause = (f'<dl class="cause"><div><dt>{e(what[0].upper() + what[1:])} colour</dt><dd>'
                  f"{prose(m.cause(p.fg_cause, 'no declaration (initial value)'))}</dd></div>"
                  f"<div><dt>Background</dt><dd>"
                  f"{prose(m.cause(p.bg_cause, 'no declaration (the canvas)'))}</dd></div>"
@@ -346,7 +348,7 @@ class HtmlFormatter(Formatter):
                     return c.colour, "Suggested on this background"
         for f in p.worst.fixes:
             if f.target == "foreground":
-                return f.colour, "Nearest passing text colour"
+                return f.colour, f"Nearest passing {m.non_text(p.worst) or 'text'} colour"
         return None
 
     def pictures(self, s, fg, bg, fix) -> str:
@@ -370,7 +372,7 @@ class HtmlFormatter(Formatter):
         return table("The words as readers see them", heads, body, cls="pictures")
 
     def fix_text(self, p, worst) -> str:
-        lines = cause_fix_lines(p.fix_at_cause)
+        lines = cause_fix_lines(p.fix_at_cause, m.needs(worst))
         if faded(worst):  # an ancestor's opacity fades it: no colour undoes that
             unfaded = getattr(p, "worst_unfaded", None)
             if unfaded is None:
@@ -455,8 +457,8 @@ def row(head: str, *cells, attrs: str = "") -> str:
 
 def measure(rule, finding) -> str:
     """``2.32:1, needs 4.5:1``, or what the rule measures instead (its ``measure`` template)."""
-    template = getattr(rule, "measure", None)
-    if template:
+    template = m.measure_template(rule, finding)
+    if template != m.RATIO_MEASURE:
         try:
             return template.format(**m.message_args(finding))
         except (KeyError, IndexError, ValueError):  # a template this version cannot fill

@@ -7,6 +7,7 @@ from tinctura import rules
 from tinctura.colour.convert import to_hex
 from tinctura.colour.wcag import format_ratio
 from tinctura.model import Cause, Declaration, Finding
+from tinctura.rules.catalogue import UI_RATIO
 
 EXCERPT = 40  # characters of text shown in terminal reports
 
@@ -112,14 +113,32 @@ def message(finding: Finding) -> str:
 
 def measure(finding: Finding) -> str:
     """What was measured against what is needed, e.g. ``3.45:1, needs 4.5:1`` or
-    ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's ``measure`` template."""
-    template = rules.get(finding.rule).measure or "{ratio}:1, needs {required}:1"
-    return template.format(**message_args(finding))
+    ``Lc 52.10, needs Lc 75 (dark on light)``: the rule's template (``measure_template``)."""
+    return measure_template(rules.get(finding.rule), finding).format(**message_args(finding))
+
+
+RATIO_MEASURE = "{ratio}:1, needs {required}:1"
+
+
+def measure_template(rule, finding: Finding) -> str:
+    """``rule``'s ``measure`` template for ``finding`` (a ratio when it has none), or its
+    ``measure_lc`` when the finding's ratio holds and what it lost is an Lc level."""
+    lost_lc = getattr(rule, "measure_lc", "")
+    if lost_lc and finding.required is not None and finding.ratio >= finding.required:
+        return lost_lc
+    return getattr(rule, "measure", "") or RATIO_MEASURE
 
 
 def measured(finding: Finding) -> str:
     """What was measured, without the requirement: ``3.45:1`` or ``Lc 52.10 (dark on light)``."""
     return measure(finding).split(", needs")[0]
+
+
+def needs(finding: Finding) -> str:
+    """What is needed, as ``measure`` says it: ``4.5:1`` or ``Lc 75 (dark on light)``."""
+    said = measure(finding)
+    return said.split(", needs ", 1)[1] if ", needs " in said else \
+        f"{required(finding.required)}:1"
 
 
 RAISE_OPACITY = "raise (or remove) the opacity of the element around the text that fades it"
@@ -161,10 +180,24 @@ def cause(c: Cause | None, initial: str = "the initial value") -> str:
     return text
 
 
+# what a TC110 finding judged (its ``what``), named for a writer
+_NON_TEXT = {"control boundary": "control boundary", "focus outline": "focus outline",
+             "svg icon": "SVG icon", "icon glyph": "icon"}
+
+
+def non_text(finding: Finding) -> str | None:
+    """``control boundary``, ``focus outline``, ``SVG icon``, ``icon``: the graphical object a
+    non-text finding (TC110) judged; None for text."""
+    if finding.rule != UI_RATIO.code:
+        return None
+    what = finding.args.get("what") or "graphical object"
+    return _NON_TEXT.get(what, what)
+
+
 def fixes(finding: Finding) -> str:
     """``text #767676 (4.54:1) or background #ffffff (...)``; empty when none was found."""
     parts = []
     for fix in finding.fixes:
-        what = "text" if fix.target == "foreground" else fix.target
+        what = (non_text(finding) or "text") if fix.target == "foreground" else fix.target
         parts.append(f"{what} {colour(fix.colour)} ({ratio(fix.ratio)}:1)")
     return " or ".join(parts)

@@ -103,7 +103,8 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
 def too_faint(worst, fg, bg, marks) -> str:
     """Colours in words, where, faded or not, the state, and the rule's own measure (a
     ratio, Lc, under a deficiency)."""
-    what = f"{colour_name(fg)} {subject(worst.sample, marks)} on {colour_name(bg)}{area(marks)}"
+    thing = m.non_text(worst) or subject(worst.sample, marks)
+    what = f"{colour_name(fg)} {thing} on {colour_name(bg)}{area(marks)}"
     state = STATES.get(worst.sample.state)
     if faded(worst):
         what += ", faded by an element's opacity,"

@@ -14,7 +14,6 @@ from . import plain
 from .appearance import headline as appearance_headline
 from .appearance import finding_lines as appearance_finding_lines
 from .appearance import is_appearance
-from .appearance import problem_lines as appearance_lines
 from .base import Formatter, Header
 from .notice import DISCLAIMER
 from .summary import SEVERITIES
@@ -100,12 +99,21 @@ class TextFormatter(Formatter):
         self.tw.line()
 
     def appearance_problem(self, index: int, problem) -> None:
-        self.tw.line(f"{index}. {appearance_headline(problem)}", "bold")
-        self.tw.line(f"   {self.severity(problem.severity)} {problem.rule} {problem.slug}: "
-                     f"{m.message(problem.worst)}")
-        for line in appearance_lines(problem, self.many_schemes):
-            self.tw.line(f"   {line}")
+        for line in wrapped(0, f"{index}. {appearance_headline(problem)}", self.width):
+            self.tw.line(line, "bold")
+        self.appearance_detail(problem.worst, 1)
         self.tw.line()
+
+    def appearance_detail(self, finding, indent: int) -> None:
+        """A TC300/TC310 finding's message, then its entries and every context, wrapped."""
+        message = f"{finding.severity} {finding.rule} {finding.slug}: {m.message(finding)}"
+        for n, line in enumerate(wrapped(indent, message, self.width, 2)):
+            self.tw.line(line.replace(finding.severity, self.severity(finding.severity), 1)
+                         if n == 0 else line)
+        for text in appearance_finding_lines(finding, self.many_schemes):
+            hang = 2 + len(text) - len(text.lstrip())  # a context's wrapped lines under it
+            for line in wrapped(indent, text, self.width, hang):
+                self.tw.line(line)
 
     def page(self, page, findings) -> None:
         if self.header.group != "page" or not findings:
@@ -116,9 +124,7 @@ class TextFormatter(Formatter):
         for f in findings:
             s = f.sample
             if is_appearance(f):  # site-level: the entries and their contexts
-                tw.line(f"  {self.severity(f.severity)} {f.rule} {f.slug}: {m.message(f)}")
-                for line in appearance_finding_lines(f, self.many_schemes):
-                    tw.line(f"      {line}")
+                self.appearance_detail(f, 1)
                 continue
             fg, bg = m.finding_colours(f)
             for line in wrapped(0, f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\""
@@ -167,22 +173,22 @@ def headline(cause, rgb, what: str) -> str:
 
 
 
-def examples(findings, first=None) -> list:
-    """Up to EXAMPLES occurrences, preferring different pages, in report order; ``first``
+def examples(findings, first=None, most: int = EXAMPLES) -> list:
+    """Up to ``most`` occurrences, preferring different pages, in report order; ``first``
     (the problem's worst, which its sentence describes) leads when given: the first pages'
     occurrences may all be milder than the ratio the sentence gives."""
     chosen = [] if first is None else [first]
     pages = {f.sample.page for f in chosen}
     taken = {slot(f) for f in chosen}
     for f in findings:
-        if len(chosen) == EXAMPLES:
+        if len(chosen) == most:
             return chosen
         if f.sample.page not in pages and slot(f) not in taken:
             chosen.append(f)
             pages.add(f.sample.page)
             taken.add(slot(f))
     for f in findings:
-        if len(chosen) == EXAMPLES:
+        if len(chosen) == most:
             break
         if slot(f) not in taken:
             chosen.append(f)
@@ -190,28 +196,34 @@ def examples(findings, first=None) -> list:
     return chosen
 
 
-def cause_fix_lines(fix) -> list:
-    """The fix at the cause: one value for the declaration, or one per group of backgrounds."""
+def cause_fix_lines(fix, need: str | None = None) -> list:
+    """The fix at the cause: one value for the declaration, or one per group of backgrounds.
+    ``need``: what the problem needs, as its measure says it (``messages.needs``: an Lc level
+    for the APCA rules); a WCAG 2 ratio when not given."""
     if fix is None:
         return []
     n = len(fix.backgrounds)
-    need = m.required(fix.required)
+    ratio_needed = f"{m.required(fix.required)}:1"
+    need = need or ratio_needed
     d = fix.declaration
     on_all = {1: "its background", 2: "both backgrounds it is used on"}.get(
         n, f"all {n} backgrounds it is used on")
     if fix.possible:
-        target = "declare a text colour" if d is None else f"set `{d.property}` at {d.where()}"
-        return [f"fix at the cause: {target} to {m.colour(fix.colour)}: "
-                f"{m.ratio(fix.ratio)}:1 or more on {on_all}"]
+        # (no declaration to change: the text has the initial colour, or one not traced)
+        target = "give the text the colour" if d is None else \
+            f"set `{d.property}` at {d.where()} to"
+        reached = f"{m.ratio(fix.ratio)}:1 or more on {on_all}" if need == ratio_needed else \
+            f"reaches {need} on {on_all} ({m.ratio(fix.ratio)}:1)"
+        return [f"fix at the cause: {target} {m.colour(fix.colour)}: {reached}"]
     what = "no single text colour" if d is None else f"no single value of `{d.property}`"
-    lines = [f"{what} reaches {need}:1 on {on_all}; one value per group of backgrounds:"]
+    lines = [f"{what} reaches {need} on {on_all}; one value per group of backgrounds:"]
     several = len({sch for c in fix.contexts for sch in c.schemes}) > 1
     for c in fix.contexts:
         on = ", ".join(m.colour(b) for b in c.backgrounds)
         if several:
             on += f" ({', '.join(c.schemes)} scheme{'s' if len(c.schemes) > 1 else ''})"
         if c.colour is None:
-            lines.append(f"  on {on}: no text colour of this hue reaches {need}:1; "
+            lines.append(f"  on {on}: no text colour of this hue reaches {need}; "
                          f"change the background")
         else:
             lines.append(f"  on {on}: {m.colour(c.colour)} ({m.ratio(c.ratio)}:1)")
@@ -274,11 +286,9 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
     location = locate(worst.sample) if locate is not None else None
     lead = f"{index}. " if index else ""
     out = [(0, lead + plain.sentence(problem, location, many_schemes), "bold", True)]
-    pool = examples(problem.example_pool(), worst)
-    for n, f in enumerate(pool):
-        label = "Where:" if n == 0 else "      "
-        out.append((1, f"{label} {example_place(f, locate, many_schemes)}", None, True))
-    rest = problem.occurrences - len(pool)
+    for n, place in enumerate(places := example_places(problem, locate, many_schemes)):
+        out.append((1, f"{'Where:' if n == 0 else '      '} {place}", None, True))
+    rest = problem.occurrences - len(places)
     if rest:
         pages = f" on {m.plural(problem.pages, 'page')}" if problem.pages > 1 else ""
         out.append((1, f"       and {m.plural(rest, 'more occurrence')}{pages}", "dim", True))
@@ -293,13 +303,25 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
         text_colour = text_colour.replace(
             f"inherited from {inherited}",
             f"inherited from {locate.locator(worst.sample.page, inherited)}")
-    out.append((2, f"text colour: {text_colour}", None, True))
+    out.append((2, f"{m.non_text(worst) or 'text'} colour: {text_colour}", None, True))
     out.append((2, f"background: {m.cause(problem.bg_cause, 'no declaration (the canvas)')}",
                 None, True))
     if getattr(problem, "override", None) is not None:  # else the fix above said it
-        for line in cause_fix_lines(problem.fix_at_cause):
+        for line in cause_fix_lines(problem.fix_at_cause, m.needs(worst)):
             out.append((2, line, None, True))
     return out
+
+
+def example_places(problem, locate=None, many_schemes: bool = False) -> list:
+    """Up to EXAMPLES places of a problem's occurrences, each once as the writer reads it:
+    pages built from one theme template share the template's place, so candidates beyond
+    the first EXAMPLES are tried for other places."""
+    places = {}
+    for f in examples(problem.example_pool(), problem.worst, 4 * EXAMPLES):
+        places.setdefault(example_place(f, locate, many_schemes))
+        if len(places) == EXAMPLES:
+            break
+    return list(places)
 
 
 def example_place(f, locate=None, many_schemes: bool = False) -> str:
@@ -339,12 +361,12 @@ def fix_lines(problem) -> list:
 
 def cause_fix(problem) -> list:
     """The fix at the cause (the declaration to change), as ``fix_lines`` gives it."""
-    fix = problem.fix_at_cause
+    fix, need = problem.fix_at_cause, m.needs(problem.worst)
     if fix is not None and not fix.possible and not any(c.colour for c in fix.contexts):
         return [(1, "Fix: no text colour of this hue on the same side of the background "
-                    "reaches the ratio; change the background or both colours.", "green",
+                    f"reaches {need}; change the background or both colours.", "green",
                  True)]
-    lines = cause_fix_lines(fix)
+    lines = cause_fix_lines(fix, need)
     if not lines:
         return []
     return [(1, "Fix: " + lines[0].replace("fix at the cause: ", ""), "green", True)] + [
