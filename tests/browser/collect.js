@@ -327,6 +327,7 @@ function scopeOf(el, text) {
     if ((e.getAttribute("aria-disabled") || "").trim().toLowerCase() === "true" && DISABLEABLE.has(roleOf(e)))
       return "inactive-widget";
   }
+  if (el.closest("a:not([href]).disabled")) return "inactive-link";  // (tinctura's judgement)
   const hidden = !!el.closest('[aria-hidden="true" i]');
   const control = el.closest("a[href], button, summary");
   if (PUA.test(text)) {

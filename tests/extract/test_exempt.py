@@ -73,6 +73,22 @@ def test_aria_disabled_on_widget_and_group_roles_only(tmp_path):
     assert got["Group on"] == ("", {"TC100"})
 
 
+def test_a_link_placeholder_marked_disabled(tmp_path):
+    # HTML Living Standard, the a element: without href it "represents a placeholder for where
+    # a link might otherwise have been placed, if it had been relevant"; MkDocs' own theme
+    # writes the first page's Previous as <a class="nav-link disabled">. With an href, or
+    # without the class, it is judged (the class read as a perceived inactive control is our
+    # judgement: README, "What WCAG exempts")
+    got = scope(tmp_path, f'<nav><a class="nav-link disabled" style="{FAINT}"><i></i> Previous</a>'
+                          f'<a class="nav-link disabled" href="#n" style="{FAINT}">Disabled with '
+                          f'href</a><a class="nav-link" style="{FAINT}">No href, no class</a>'
+                          f'<a class="disabledish" style="{FAINT}">Other class</a></nav>')
+    assert got["Previous"][0] == "inactive-link"
+    assert got["Disabled with href"] == ("", {"TC100"})
+    assert got["No href, no class"] == ("", {"TC100"})
+    assert got["Other class"] == ("", {"TC100"})
+
+
 def test_element_named_by_aria_labelledby_of_a_disabled_control(tmp_path):
     # SC 1.4.3 "Incidental": the visible name of an inactive control is part of it
     got = scope(tmp_path, f'<span id="n" style="{FAINT}">Sync clock</span>'

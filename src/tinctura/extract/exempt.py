@@ -90,6 +90,19 @@ EXEMPTIONS = (
                                           f'style="{_FAINT}"><span>Subject: tide table</span>'
                                           '</div>')),
     Exemption(
+        "inactive-link", "Link placeholder shown as inactive",
+        "an `a` element without `href` whose `class` includes `disabled`: a link placeholder "
+        "(HTML Living Standard: without `href` it \"represents a placeholder for where a link "
+        "might otherwise have been placed, if it had been relevant\") that the author styles "
+        "as an inactive control, as MkDocs' own theme marks the first page's Previous and "
+        "the last page's Next. WCAG's user interface component is what users perceive as a "
+        "control; reading the class as that perception is our judgement",
+        SC_1_4_3_INCIDENTAL, INCIDENTAL, UNDERSTANDING_1_4_3,
+        _PAGE.format(title="Exempt", body=f'<a class="nav-link disabled" style="{_FAINT}">'
+                                          'Subject: previous page</a>'),
+        _PAGE.format(title="Judged", body=f'<a class="nav-link disabled" href="#p" '
+                                          f'style="{_FAINT}">Subject: previous page</a>')),
+    Exemption(
         "invisible", "Not visible to anyone",
         "text whose colour equals its background (within one 8-bit step) and that is removed "
         "from the accessibility tree (`aria-hidden=\"true\"` on it or an ancestor)",
@@ -337,6 +350,12 @@ def _inactive(root, found) -> None:
         if el.get("aria-disabled", "").strip().lower() == "true" and \
                 role_of(el) in DISABLEABLE_ROLES:
             _subtree(el, found, "inactive-widget")
+    for el in _PLACEHOLDER_LINKS(root):  # (class tokens compared as written, as selectors do)
+        _subtree(el, found, "inactive-link")
+
+
+_PLACEHOLDER_LINKS = etree.XPath(
+    "//a[not(@href)][contains(concat(' ', normalize-space(@class), ' '), ' disabled ')]")
 
 
 def _logotypes(root, selectors, found) -> None:
