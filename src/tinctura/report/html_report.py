@@ -17,7 +17,7 @@ from tinctura import distribution
 from tinctura.colour import wcag
 from tinctura.problems import faded, target_declaration
 
-from . import audit, charts, plain, swatch
+from . import audit, charts, swatch
 from .appearance import is_appearance
 from .appearance import problem_lines as appearance_lines
 from . import messages as m
