@@ -210,3 +210,19 @@ def test_a_non_text_problem_is_not_labelled_text():
     doc = lxml.html.document_fromstring(html)
     labels = [dt.text_content() for dt in doc.xpath("//article//dl[@class='cause']//dt")]
     assert labels[0] == "Control boundary colour", labels
+    captions = doc.xpath("//article//table[@class='pictures']/caption/text()")
+    assert captions == ["The control boundary as readers see it"]
+    # the row is headed "Fix at the cause": its text does not say it again
+    fix = doc.xpath("//article//dl[@class='cause']/div[dt='Fix at the cause']/dd")[0]
+    assert fix.text_content().startswith("set border at"), fix.text_content()  # (code)
+
+
+def test_occurrences_in_several_schemes_name_their_scheme():
+    # two rows of one page and line, one per scheme, read as the same row twice
+    samples = [make_sample("#777777", "#ffffff", page="a.html", line=7, scheme=name)
+               for name in ("light", "dark")]
+    html, _, _ = build(samples)
+    doc = lxml.html.document_fromstring(html)
+    places = doc.xpath("//table[@class='occurrences']//th[@scope='row']")
+    assert sorted(th.text_content() for th in places) == \
+        ["a.html:7 (scheme dark)", "a.html:7 (scheme light)"]

@@ -305,7 +305,7 @@ class HtmlFormatter(Formatter):
                  f"{m.plural(p.occurrences, 'occurrence')} on {m.plural(p.pages, 'page')}.</p>"
                  f"<p>{e(sentence(m.message(worst)))}.</p>")
         fix = self.suggested(p, bg)
-        pictures = self.pictures(s, fg, bg, fix)
+        pictures = self.pictures(s, fg, bg, fix, "words" if what == "text" else what)
         cause = (f'<dl class="cause"><div><dt>{e(what[0].upper() + what[1:])} colour</dt><dd>'
                  f"{prose(m.cause(p.fg_cause, 'no declaration (initial value)'))}</dd></div>"
                  f"<div><dt>Background</dt><dd>"
@@ -351,7 +351,9 @@ class HtmlFormatter(Formatter):
                 return f.colour, f"Nearest passing {m.non_text(p.worst) or 'text'} colour"
         return None
 
-    def pictures(self, s, fg, bg, fix) -> str:
+    def pictures(self, s, fg, bg, fix, what: str = "words") -> str:
+        """Swatches of ``what`` (the words, or a TC110 object) as published, under each
+        simulated deficiency, and with the suggested colour."""
         text, size, weight = s.text, s.font_size_px, s.font_weight
         rows = [("Full colour vision", fg, bg, fix[0] if fix else None)]
         for name in swatch.deficiencies():
@@ -369,7 +371,8 @@ class HtmlFormatter(Formatter):
                     *(() if c is None else (cell(c, b, label + ", suggested"),)))
                 for label, a, b, c in rows]
         heads = ("Vision", "As published") + ((f"{fix[1]}: {m.colour(fix[0])}",) if fix else ())
-        return table("The words as readers see them", heads, body, cls="pictures")
+        seen = "them" if what == "words" else "it"
+        return table(f"The {what} as readers see {seen}", heads, body, cls="pictures")
 
     def fix_text(self, p, worst) -> str:
         lines = cause_fix_lines(p.fix_at_cause, m.needs(worst))
@@ -380,6 +383,8 @@ class HtmlFormatter(Formatter):
             rest = "<br>".join(prose(line.strip()) for line in lines) if lines else e(
                 "no single-colour change reaches the ratio; change both colours")
             return e(f"{m.RAISE_OPACITY}; {m.unfaded_too(unfaded)}:") + "<br>" + rest
+        if lines:  # (the row's heading says "Fix at the cause")
+            lines[0] = lines[0].removeprefix("fix at the cause: ")
         if not lines:
             other = m.fixes(worst)
             return e(f"for this occurrence: {other}" if other else "no single-colour change "
@@ -388,13 +393,17 @@ class HtmlFormatter(Formatter):
 
     def occurrences(self, p) -> str:
         chosen = examples(p.example_pool(), p.worst)[:EXAMPLE_ROWS]
+        many = len(getattr(p, "schemes", None) or ()) > 1  # rows told apart by their scheme
         rows = []
         for f in chosen:
             s = f.sample
             efg, ebg = m.finding_colours(f)
             source = source_of(s, self.header)
-            state = "" if s.state == "rest" else f" (:{s.state})"
-            where = e(f"{s.page}:{s.line}{state}") + (f"<br>source {e(source)}" if source else "")
+            context = ([f"scheme {s.scheme}"] if many else []) + \
+                ([] if s.state == "rest" else [f":{s.state}"])
+            context = f" ({', '.join(context)})" if context else ""
+            where = e(f"{s.page}:{s.line}{context}") + (f"<br>source {e(source)}" if source
+                                                        else "")
             rows.append(row(where, f'<code class="path">{e(m.css_path(s.xpath))}</code>',
                             e(m.excerpt(s.text, 80)),
                             e(f"{m.colour(efg)} on {m.colour(ebg)}, {m.measured(f)}")))
