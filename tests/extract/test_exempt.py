@@ -74,11 +74,11 @@ def test_aria_disabled_on_widget_and_group_roles_only(tmp_path):
 
 
 def test_a_link_placeholder_marked_disabled(tmp_path):
-    # HTML Living Standard, the a element: without href it "represents a placeholder for where
-    # a link might otherwise have been placed, if it had been relevant"; MkDocs' own theme
-    # writes the first page's Previous as <a class="nav-link disabled">. With an href, or
-    # without the class, it is judged (the class read as a perceived inactive control is our
-    # judgement: README, "What WCAG exempts")
+    # HTML Living Standard, the a element (quoted from memory): without href it "represents a
+    # placeholder for where a link might otherwise have been placed, if it had been relevant".
+    # MkDocs' own theme writes the first page's Previous as <a class="nav-link disabled">.
+    # With an href, or without the class, it is judged (the class read as a perceived
+    # inactive control is our judgement: README, "What WCAG exempts")
     got = scope(tmp_path, f'<nav><a class="nav-link disabled" style="{FAINT}"><i></i> Previous</a>'
                           f'<a class="nav-link disabled" href="#n" style="{FAINT}">Disabled with '
                           f'href</a><a class="nav-link" style="{FAINT}">No href, no class</a>'
