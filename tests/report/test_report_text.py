@@ -304,6 +304,12 @@ def test_site_level_problems_are_wrapped_and_worded_as_sentences(tmp_path):
     assert headlines, text  # the premise: a site-level problem is reported
     problems = text.split("\nChecked ")[0]  # (the summary line is one line by design)
     assert all(len(line) < 100 for line in problems.splitlines()), text
+    out = io.StringIO()  # grouped by page, the site-level findings come under the whole site
+    main(["check", str(tmp_path), "--no-states", "--jobs", "1", "--fail-on", "never",
+          "--color", "never", "--no-config", "--group", "page"], out, io.StringIO())
+    by_page = out.getvalue().split("\nChecked ")[0]
+    assert "TC300 surround-shift" in by_page or "TC310 lookalike" in by_page, by_page
+    assert all(len(line) < 100 for line in by_page.splitlines()), by_page
 
 
 def test_a_fix_split_by_backgrounds_says_what_the_problem_needs():
