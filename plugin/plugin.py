@@ -31,7 +31,8 @@ from tinctura.report.scope import scope_of
 from tinctura.report.status import at_or_above
 from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
-from tinctura.report.text_report import problem_lines, summary_line, terminal_width, wrapped
+from tinctura.report.text_report import (problem_lines, sentence_of, summary_line,
+                                         terminal_width, wrapped)
 from tinctura.writer import WriterAid
 
 from .config import TincturaConfig
@@ -554,7 +555,7 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
         if location is not None and location.source is not None and location.source.where():
             where = f" ({location.source.where()})"
         said = m.message(problem.worst) if is_appearance(problem.worst) else \
-            plain.sentence(problem, location, many_schemes)
+            sentence_of(problem, locate, many_schemes)
         lines.append(f"  {n}. {said}{where}")
     if len(failing_problems) > first:
         lines.append(f"  and {m.plural(len(failing_problems) - first, 'more problem')}: each "

@@ -76,3 +76,27 @@ def test_a_non_text_problem_names_the_object_not_text(what, named):
     assert plain.sentence(problem) == \
         f"Light grey {named} on white is too faint: 1.54:1, needs 3:1."
     assert messages.fixes(finding) == f"{named} #949494 (3.03:1)"  # not "text #949494"
+
+
+def test_an_area_is_named_only_where_every_example_is():
+    # a site-wide link colour whose worst occurrence (first in page order) is in the footer
+    # read "Blue link text on white in the footer"; the writer looked only there
+    samples = [make_sample("#777777", "#ffffff", page=p) for p in ("404.html", "index.html")]
+    (problem,) = group(run(samples, Options()))
+    footer = Location("footer > p", None, (("p", (), ""), ("footer", (), "")))
+    article = Location("article > p", None, (("p", (), ""), ("article", (), "")))
+    assert plain.sentence(problem, footer) == \
+        "Grey text on white in the footer is too faint: 4.47:1, needs 4.5:1."
+    assert plain.sentence(problem, footer, others=[article]) == \
+        "Grey text on white is too faint: 4.47:1, needs 4.5:1."
+    assert plain.sentence(problem, footer, others=[footer]).endswith("in the footer is too "
+                                                                      "faint: 4.47:1, needs 4.5:1.")
+
+
+def test_line_numbered_code_is_code_not_a_table():
+    # Pygments writes line-numbered code as <table class="highlighttable"> (common practice:
+    # its HtmlFormatter's linenos="table")
+    marks = (("span", ("filename",), ""), ("th", ("filename",), ""), ("tr", (), ""),
+             ("table", ("highlighttable",), ""), ("div", ("highlight",), ""))
+    assert plain.area(marks) == " in code"
+    assert plain.area((("td", (), ""), ("tr", (), ""), ("table", (), ""))) == " in tables"

@@ -350,3 +350,23 @@ def test_examples_on_one_theme_template_are_shown_once():
     assert len(where) == 2 and where[0] != where[1], where
     assert any("and 3 more occurrences" in text for _, text, _, _ in
                problem_lines(1, problem, locate))
+
+
+def test_the_sentence_names_an_area_only_where_the_examples_all_are():
+    from tinctura.report.text_report import problem_lines
+    from tinctura.writer import Location
+
+    samples = [make_sample("#777777", "#ffffff", page=p, fg_cause=MUTED, bg_cause=PAPER)
+               for p in ("404.html", "index.html")]
+    (problem,) = group(run(samples, Options()), samples)
+    where = {"404.html": (("p", (), ""), ("footer", (), "")),
+             "index.html": (("p", (), ""), ("article", (), ""))}
+
+    def locate(sample):
+        return Location("p", None, where[sample.page])
+
+    assert problem_lines(1, problem, locate)[0][1] == \
+        "1. Grey text on white is too faint: 4.47:1, needs 4.5:1."
+    where["index.html"] = where["404.html"]
+    assert problem_lines(1, problem, locate)[0][1] == \
+        "1. Grey text on white in the footer is too faint: 4.47:1, needs 4.5:1."

@@ -10,10 +10,10 @@ import os
 
 from . import appearance
 from . import messages as m
-from . import plain
 from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
+from .text_report import sentence_of
 
 SCHEMA_VERSION = 3  # the compact layout; the flat one keeps writing format 1
 FLAT_VERSION = 1
@@ -413,7 +413,7 @@ def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = Fals
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
         "where": where_dict(problem.worst, location),
         "sentence": m.message(problem.worst) if is_appearance(problem.worst) else
-        plain.sentence(problem, location, many_schemes or len(problem.schemes) > 1),
+        sentence_of(problem, locate, many_schemes or len(problem.schemes) > 1),
     }
 
 

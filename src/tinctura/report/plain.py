@@ -52,12 +52,14 @@ def colour_name(rgb) -> str:
 def area(landmarks) -> str:
     """`` in warning boxes``, `` in tables``, `` in the navigation``: where on the page, from the
     element's ancestors (innermost first); empty when nothing says more than "on the page"."""
-    for tag, classes, _ in landmarks:
+    for n, (tag, classes, _) in enumerate(landmarks):
         if "admonition" in classes or "details" == tag:
             kind = next((c for c in classes if c in _BOXES), "")
             return f" in {kind} boxes" if kind else " in note boxes"
         if tag in ("td", "th", "table"):
-            return " in tables"
+            table = next((c for t, c, _ in landmarks[n:] if t == "table"), ())
+            # (Pygments lays line-numbered code out as a table)
+            return " in code" if "highlighttable" in table else " in tables"
         if tag in ("pre", "code") or "highlight" in classes:
             return " in code"
         if tag == "article" or "md-content" in classes:
@@ -83,14 +85,19 @@ def subject(sample, landmarks) -> str:
     return "text"
 
 
-def sentence(problem, location=None, many_schemes: bool = False) -> str:
+def sentence(problem, location=None, many_schemes: bool = False, others=()) -> str:
     """The problem in one sentence: colours in words, where, how faint, the state, the
-    schemes with their own figures."""
+    schemes with their own figures. ``location``: the worst occurrence's; ``others``: those
+    of other occurrences (examples), whose areas must be the worst's for the sentence to
+    name one (a site-wide link colour is not "in the footer" because its worst is there)."""
     worst = problem.worst
     fg, bg = m.finding_colours(worst)
     marks = location.landmarks if location is not None else ()
+    where = area(marks)
+    if where and any(o is not None and area(o.landmarks) != where for o in others):
+        where = ""
     text = (told_by_colour_alone if worst.rule == LINK_CUE.code else too_faint)(
-        worst, fg, bg, marks)
+        worst, fg, bg, marks, where)
     schemes = getattr(problem, "schemes", None) or {}
     if many_schemes and len(schemes) == 1:
         text += f", in the {next(iter(schemes))} scheme"
@@ -100,11 +107,11 @@ def sentence(problem, location=None, many_schemes: bool = False) -> str:
     return text + "."
 
 
-def too_faint(worst, fg, bg, marks) -> str:
-    """Colours in words, where, faded or not, the state, and the rule's own measure (a
-    ratio, Lc, under a deficiency)."""
+def too_faint(worst, fg, bg, marks, where: str) -> str:
+    """Colours in words, ``where`` (``area``), faded or not, the state, and the rule's own
+    measure (a ratio, Lc, under a deficiency)."""
     thing = m.non_text(worst) or subject(worst.sample, marks)
-    what = f"{colour_name(fg)} {thing} on {colour_name(bg)}{area(marks)}"
+    what = f"{colour_name(fg)} {thing} on {colour_name(bg)}{where}"
     state = STATES.get(worst.sample.state)
     if faded(worst):
         what += ", faded by an element's opacity,"
@@ -114,10 +121,10 @@ def too_faint(worst, fg, bg, marks) -> str:
     return text + f": {m.measure(worst)}"
 
 
-def told_by_colour_alone(worst, fg, surround, marks) -> str:
+def told_by_colour_alone(worst, fg, surround, marks, where: str) -> str:
     """A link told apart by colour alone: its colour is set against the text around it (the
     finding's ``bg``), and what it misses is a ratio to that text, a cue on hover or focus."""
-    what = f"{colour_name(fg)} link text in {colour_name(surround)} text{area(marks)}"
+    what = f"{colour_name(fg)} link text in {colour_name(surround)} text{where}"
     misses = []
     if worst.ratio < worst.required:
         misses.append(m.measure(worst).replace(":1, needs", ":1 against that text, needs", 1))

@@ -283,9 +283,8 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
     """A problem for a writer: ``(indent, text, style, wrap)`` lines. The plain sentence first,
     then where it is, then the fix as the site's own CSS, then the technical detail."""
     worst = problem.worst
-    location = locate(worst.sample) if locate is not None else None
     lead = f"{index}. " if index else ""
-    out = [(0, lead + plain.sentence(problem, location, many_schemes), "bold", True)]
+    out = [(0, lead + sentence_of(problem, locate, many_schemes), "bold", True)]
     for n, place in enumerate(places := example_places(problem, locate, many_schemes)):
         out.append((1, f"{'Where:' if n == 0 else '      '} {place}", None, True))
     rest = problem.occurrences - len(places)
@@ -310,6 +309,17 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> li
         for line in cause_fix_lines(problem.fix_at_cause, m.needs(worst)):
             out.append((2, line, None, True))
     return out
+
+
+def sentence_of(problem, locate=None, many_schemes: bool = False) -> str:
+    """``plain.sentence`` of a problem, its worst occurrence located by ``locate``, and its
+    examples too: an area is named only where they all are."""
+    if locate is None:
+        return plain.sentence(problem, None, many_schemes)
+    worst = problem.worst
+    others = [locate(f.sample) for f in examples(problem.example_pool(), worst)
+              if f is not worst]
+    return plain.sentence(problem, locate(worst.sample), many_schemes, others)
 
 
 def example_places(problem, locate=None, many_schemes: bool = False) -> list:
