@@ -9,6 +9,7 @@ written CSS, added to the site the way a writer would add it, makes the same che
 import io
 import json
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -104,6 +105,25 @@ def test_findings_point_at_markdown_lines(example):
         first_words = " ".join(w["text"].split()[:3]).rstrip(":")
         assert first_words in line, (w["text"], line)
     assert all(w["locator"] and not w["locator"].startswith("/html") for w in places)
+
+
+@pytest.mark.slow
+def test_fixes_at_the_cause_name_the_writers_source_file(example):
+    # a declaration in the writer's own stylesheet is edited in docs_dir, not in the built
+    # site's copy (which the next build overwrites); the theme's stay where the site has them
+    root, config, site = example
+    status, out, err = call("check", site, "--config", config, "--fail-on", "never")
+    assert status == 0, err
+    places = re.findall(r"Fix: set `[^`]+` at (\S+?):\d+", out)
+    assert places, out  # the premise: fixes at the cause in both kinds of stylesheet
+    docs = Path(os.path.relpath(root / "docs", config.parent)).as_posix()
+    own = [p for p in places if not p.startswith("assets/")]
+    assert own and all(p.startswith(docs + "/stylesheets/") for p in own), own
+    for line in re.findall(r"Fix: set `([^`]+)` at (\S+?):(\d+)", out):
+        name, path, number = line
+        if path.startswith(docs):  # the line named holds the declaration in the source
+            text = (config.parent / path).read_text(encoding="utf-8").splitlines()
+            assert name in text[int(number) - 1], line
 
 
 @pytest.mark.slow

@@ -49,6 +49,9 @@ class CauseFix:
     ratio: Optional[float]
     contexts: tuple = ()  # tuple[Context], only when colour is None
     schemes: tuple = ()  # every scheme where the declaration's colour is used
+    # where the writer edits the declaration, when it is in their own stylesheet (its source
+    # in docs_dir, with line and column): set by ``writer.WriterAid``, which knows the project
+    shown: str = ""
 
     @property
     def possible(self) -> bool:

@@ -14,6 +14,7 @@ from typing import Optional
 
 from tinctura import overrides as overrides_mod
 from tinctura.locator import Pages, by_style, landmarks, pseudo, readable, selector
+from tinctura.mkdocs_project import owned
 from tinctura.sourcemap import Source, SourceMap
 
 
@@ -127,6 +128,7 @@ class WriterAid:
                        cache=None, helper=None) -> dict:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
         counts. ``loader``, ``cache``, ``helper``: see ``overrides.verify``."""
+        self.show_fix_sources(problems)
         first = pages_with_findings[0] if pages_with_findings else None
         planner = overrides_mod.Planner(schemes, self.project,
                                         self.sheet_order(first) if first else ())
@@ -151,6 +153,18 @@ class WriterAid:
                 break
             narrow = again
         return counts
+
+
+    def show_fix_sources(self, problems) -> None:
+        """Each fix at the cause in a stylesheet of the writer's names its source (``docs/
+        stylesheets/extra.css:12:3``), not the built site's copy they would edit in vain."""
+        if self.project is None:
+            return
+        for problem in problems:
+            fix = getattr(problem, "fix_at_cause", None)
+            d = fix.declaration if fix is not None else None
+            if d is not None and owned(d.sheet, self.project):
+                fix.shown = self.project.docs_path(d.sheet) + d.where()[len(d.sheet):]
 
 
 # more verifications, at most, for fixes moved to the rules using a variable or keeping out of

@@ -211,7 +211,7 @@ def cause_fix_lines(fix, need: str | None = None) -> list:
     if fix.possible:
         # (no declaration to change: the text has the initial colour, or one not traced)
         target = "give the text the colour" if d is None else \
-            f"set `{d.property}` at {d.where()} to"
+            f"set `{d.property}` at {fix.shown or d.where()} to"
         reached = f"{m.ratio(fix.ratio)}:1 or more on {on_all}" if need == ratio_needed else \
             f"reaches {need} on {on_all} ({m.ratio(fix.ratio)}:1)"
         return [f"fix at the cause: {target} {m.colour(fix.colour)}: {reached}"]
