@@ -191,3 +191,36 @@ def test_the_collector_builds_the_problems_group_builds(pages):
         assert examples(g.example_pool()) == examples(c.example_pool())
         assert [index[id(f)] for f in g.findings] == list(c.indexes)
         assert g.fix_at_cause == c.fix_at_cause
+
+
+def test_a_suggested_value_names_the_other_problems_of_its_declaration_it_settles():
+    # one text colour, two advice rules (APCA's level, TC200; daylight viewing, TC500), two
+    # suggested values for the one declaration: the writer sets one, so each says which other
+    # problems it settles, judged by their own tests on their own backgrounds
+    from tinctura.engine import Options
+    from tinctura.model import Cause, Declaration
+    from tinctura.problems import group, settled
+    from tinctura.rules import run
+    from tinctura.rules.examples import make_sample
+
+    cause = Cause(Declaration("color", "#8a8a8a", "site.css", 3, ".note", "author"))
+    ground = Cause(Declaration("background-color", "#1a1a1a", "site.css", 2, ".panel", "author"))
+    sample = make_sample("#8a8a8a", "#1a1a1a", fg_cause=cause, bg_cause=ground)
+    problems = group(run([sample], Options()), [sample])
+    rules = [p.rule for p in problems]
+    assert {"TC200", "TC500"} <= set(rules), rules  # the premise: both advise on the colour
+    settled(problems)
+    lc, glare = (problems[rules.index(r)] for r in ("TC200", "TC500"))
+    lc_test, glare_test = lc.worst.args["test"], glare.worst.args["test"]
+    for p, other, test in ((lc, glare, glare_test), (glare, lc, lc_test)):
+        said = rules.index(other.rule) + 1 in p.fix_at_cause.settles
+        passes = all(test(p.fix_at_cause.colour, bg) for bg in other.fix_at_cause.backgrounds)
+        assert said == passes, (p.rule, other.rule)
+    assert any(p.fix_at_cause.settles for p in (lc, glare))  # the premise of what follows
+    from tinctura.report.text_report import cause_fix_lines
+
+    for p in (lc, glare):
+        line = cause_fix_lines(p.fix_at_cause)[0]
+        named = ", ".join(map(str, p.fix_at_cause.settles))
+        assert ("settles problem" in line and line.endswith(f" {named} too")) == \
+            bool(p.fix_at_cause.settles), line

@@ -52,6 +52,7 @@ class CauseFix:
     # where the writer edits the declaration, when it is in their own stylesheet (its source
     # in docs_dir, with line and column): set by ``writer.WriterAid``, which knows the project
     shown: str = ""
+    settles: tuple = ()  # numbers (from 1) of other problems ``colour`` passes too (``settled``)
 
     @property
     def possible(self) -> bool:
@@ -504,6 +505,36 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
         context.schemes = tuple(sorted(set().union(*(backgrounds[b] for b in context.backgrounds))))
     return CauseFix(declaration, problem.required, ordered, None, None, contexts=contexts,
                     schemes=schemes)
+
+
+def settled(problems) -> None:
+    """Mark each suggested value at the cause with the other problems (numbers from 1, in
+    ``problems``' order) of the same declaration it passes as well, by their own test on
+    their own backgrounds: the advice rules (APCA, deficiency, viewing) each suggest a value
+    for one accent colour, and a writer can set only one. Problems with an override (TC100's
+    fixes in the site's stylesheet) are left out: theirs is the fix to apply."""
+    by_declaration: dict = {}
+    for n, p in enumerate(problems, 1):
+        fix = p.fix_at_cause
+        if fix is not None and fix.declaration is not None and \
+                getattr(p, "override", None) is None:
+            by_declaration.setdefault(fix.declaration, []).append((n, p))
+    for group in by_declaration.values():
+        for n, p in group:
+            if p.fix_at_cause.possible:
+                colour = p.fix_at_cause.colour
+                p.fix_at_cause.settles = tuple(m for m, other in group if m != n and
+                                               _passes(colour, other))
+
+
+def _passes(colour, problem) -> bool:
+    """Whether text ``colour`` meets ``problem``'s requirement on every background its fix
+    at the cause considered."""
+    test = problem.worst.args.get("test")
+    backgrounds = problem.fix_at_cause.backgrounds
+    if test is None:
+        return all(wcag.contrast_ratio(colour, bg) >= problem.required for bg in backgrounds)
+    return all(test(colour, bg) for bg in backgrounds)
 
 
 def _nearest(start, backgrounds, required: float, test=None):

@@ -13,6 +13,7 @@ from dataclasses import dataclass
 from typing import Optional
 
 from tinctura import overrides as overrides_mod
+from tinctura import problems as problems_mod
 from tinctura.locator import Pages, by_style, landmarks, pseudo, readable, selector
 from tinctura.mkdocs_project import owned
 from tinctura.sourcemap import Source, SourceMap
@@ -144,6 +145,7 @@ class WriterAid:
                 if override is not None and self.project is not None:
                     override.shown_file = self.project.docs_path(override.file)
             if not any(planned):
+                problems_mod.settled(problems)
                 return {"pages": 0, "remaining": 0}
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
                                           verification_pages(problems), loader, cache, helper)
@@ -152,6 +154,7 @@ class WriterAid:
             if again == narrow and not more:
                 break
             narrow = again
+        problems_mod.settled(problems)  # (once the overrides are known: theirs come first)
         return counts
 
 
