@@ -145,8 +145,8 @@ class WriterAid:
                 if override is not None and self.project is not None:
                     override.shown_file = self.project.docs_path(override.file)
             if not any(planned):
-                problems_mod.settled(problems)
-                return {"pages": 0, "remaining": 0}
+                counts = {"pages": 0, "remaining": 0}
+                break
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
                                           verification_pages(problems), loader, cache, helper)
             again = narrow | _to_narrow(problems, planned)

@@ -214,7 +214,7 @@ def cause_fix_lines(fix, need: str | None = None) -> list:
             f"set `{d.property}` at {fix.shown or d.where()} to"
         reached = f"{m.ratio(fix.ratio)}:1 or more on {on_all}" if need == ratio_needed else \
             f"reaches {need} on {on_all} ({m.ratio(fix.ratio)}:1)"
-        settles = getattr(fix, "settles", ())
+        settles = fix.settles
         if settles:  # one value for a declaration the advice rules each found a value for
             reached += (f"; it settles problem{'s' if len(settles) > 1 else ''} "
                         f"{', '.join(map(str, settles))} too")
