@@ -235,3 +235,117 @@ def test_fixes_on_a_two_scheme_theme_with_faded_tabs_make_the_check_pass(tmp_pat
     # the slate background is hsla(225deg, 15%, 14%, 1), #1e2129 plus a third of a step in
     # red: a suggested accent that passed against #1e2129 only read 4.49:1 once applied
     assert after["problems"] == []
+
+
+# -- the advice rules: a theme's accent fixed in the writer's own stylesheet -----------------
+
+ACCENT = """\
+site_name: Lockkeeper notes
+theme:
+  name: material
+  font: false
+  palette:
+    scheme: default
+    primary: indigo
+    accent: deep purple
+extra_css:
+  - stylesheets/extra.css
+nav:
+  - Home: index.md
+  - Gates: gates.md
+"""
+
+ADVICE = ("TC200", "TC400", "TC500")  # APCA, deficiency and viewing rules: no override
+
+
+@pytest.mark.slow
+def test_advice_fixes_in_the_writers_stylesheet_settle_their_problems(tmp_path):
+    # mkdocs-material's deep purple accent passes WCAG 2 when hovered on white but not the
+    # advice rules; the theme's palette file is copied again by every build, so the value is
+    # given as a rule for the writer's stylesheet. Applied as a writer would (one rule per
+    # declaration: the first problem's, whose value settles the later ones), the next check
+    # finds none of those problems left. The pass or fail comes from the rules' formulas
+    # (APCA: tests/colour/test_apca.py; Machado 2009: tests/colour/test_cvd.py).
+    docs = tmp_path / "docs"
+    (docs / "stylesheets").mkdir(parents=True)
+    (docs / "index.md").write_text("# Lock gates\n\nOpen the [upper gate](gates.md) only when "
+                                   "the levels match.\n")
+    (docs / "gates.md").write_text("# Gates\n\nThe lower gate closes first.\n")
+    extra = docs / "stylesheets" / "extra.css"
+    extra.write_text(".md-typeset p { margin: 0 0 1em; }\n")
+    config = tmp_path / "mkdocs.yml"
+    config.write_text(ACCENT)
+    doc, _ = json_report(mkdocs_build(config, tmp_path / "site"), config)
+    problems = doc["problems"]
+    own = [(n, p) for n, p in enumerate(problems, 1)
+           if (p["fix_at_cause"] or {}).get("own_css")]
+    assert own and all(p["rule"] in ADVICE for _, p in own)
+    accent = [n for n, p in own
+              if p["fix_at_cause"]["declaration"]["property"] == "--md-accent-fg-color"]
+    assert len(accent) >= 2  # the premise: several rules' values for one declaration
+    fixed, applied = set(), []
+    for n, p in own:
+        fix = p["fix_at_cause"]
+        assert fix["declaration"]["sheet"].startswith("assets/stylesheets/")  # the theme's
+        assert fix["own_css"]["file"] == "docs/stylesheets/extra.css"
+        assert fix["own_css"]["verified"] is False  # never checked again
+        assert fix["colour"] in fix["own_css"]["css"]
+        if n in fixed:
+            continue
+        applied.append(fix["own_css"]["css"])
+        fixed |= {n, *fix.get("settles", ())}
+    assert set(accent) <= fixed
+    extra.write_text(extra.read_text() + "".join(applied))
+    after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config)
+
+    def property_of(p):
+        d = (p["fix_at_cause"] or {}).get("declaration") or {}
+        return p["rule"], d.get("property")
+
+    left = {property_of(p) for p in after["problems"]}
+    assert not left & {property_of(problems[n - 1]) for n in fixed}
+    # what is left of the advice is what had no such rule
+    no_rule = {property_of(q) for q in problems if not (q["fix_at_cause"] or {}).get("own_css")}
+    assert all(property_of(p) in no_rule for p in after["problems"] if p["rule"] in ADVICE)
+
+
+@pytest.mark.slow
+def test_an_advice_value_for_a_property_a_checked_fix_sets_goes_into_that_rule(tmp_path):
+    # Line-number links in code are the accent on #f5f5f5 when hovered, which fails WCAG 2:
+    # that problem gets a checked override of the accent. The advice rules' value for the
+    # same accent is then offered for the override's rule (shared_with); written there
+    # instead of the override's own value, the next check finds neither problem.
+    docs = tmp_path / "docs"
+    (docs / "stylesheets").mkdir(parents=True)
+    (docs / "index.md").write_text("# Lock gates\n\nOpen the [upper gate](gates.md) only when "
+                                   "the levels match.\n")
+    (docs / "gates.md").write_text("# Gates\n\nThe lower gate closes first.\n\n```python\n"
+                                   "open_gate(\"upper\")\nwait(30)\n```\n")
+    extra = docs / "stylesheets" / "extra.css"
+    extra.write_text(".md-typeset p { margin: 0 0 1em; }\n")
+    config = tmp_path / "mkdocs.yml"
+    config.write_text(ACCENT + "markdown_extensions:\n  - pymdownx.highlight:\n"
+                      "      anchor_linenums: true\n      linenums: true\n"
+                      "  - pymdownx.superfences\n")
+    doc, _ = json_report(mkdocs_build(config, tmp_path / "site"), config)
+    problems = doc["problems"]
+    checked = [n for n, p in enumerate(problems, 1) if p["rule"] == "TC100"
+               and p["fix"] and p["fix"]["verified"] and "--md-accent-fg-color" in p["fix"]["css"]]
+    assert len(checked) == 1  # the premise: the accent fails WCAG 2 somewhere
+    sharing = [(n, p) for n, p in enumerate(problems, 1)
+               if checked[0] in ((p["fix_at_cause"] or {}).get("own_css") or {})
+               .get("shared_with", ())]
+    assert sharing and all(p["rule"] in ADVICE for _, p in sharing)
+    n, advice = sharing[0]
+    value = advice["fix_at_cause"]["colour"]
+    override = problems[checked[0] - 1]["fix"]["css"]
+    extra.write_text(extra.read_text() + re.sub(r"(--md-accent-fg-color: )#[0-9a-f]{6}",
+                                                rf"\g<1>{value}", override))
+    after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config)
+    gone = {checked[0], n, *advice["fix_at_cause"].get("settles", ())}
+    accent = {p["rule"] for m, p in enumerate(problems, 1) if m in gone}
+    assert "TC100" in accent and len(accent) >= 2
+    left = [p for p in after["problems"] if p["rule"] in accent
+            and ((p["fix_at_cause"] or {}).get("declaration") or {}).get("property")
+            == "--md-accent-fg-color"]
+    assert left == [] and not [p for p in after["problems"] if p["rule"] == "TC100"]

@@ -40,6 +40,13 @@ class Rule:
     declarations: tuple  # ((property, value, important), ...)
     media: str = ""  # "(prefers-color-scheme: dark)" or ""
 
+    def compact(self) -> str:
+        """The rule on one line, for a sentence."""
+        body = " ".join(f"{p}: {v}{' !important' if imp else ''};" for p, v, imp in
+                        self.declarations)
+        rule = f"{self.selector} {{ {body} }}"
+        return f"@media {self.media} {{ {rule} }}" if self.media else rule
+
     def css(self) -> str:
         body = "".join(f"  {p}: {v}{' !important' if imp else ''};\n"
                        for p, v, imp in self.declarations)
@@ -77,6 +84,10 @@ class Override:
 
     def css(self) -> str:
         return "".join(rule.css() for rule in self.rules)
+
+    def compact(self) -> str:
+        """The rules on one line, for a sentence."""
+        return " ".join(rule.compact() for rule in self.rules)
 
 
 @dataclass
@@ -448,6 +459,38 @@ def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None,
         if o is not None:
             o.shared_with = tuple(sorted({m for key in o.keys() for m in owners[key]} - {n}))
     return planned
+
+
+def plan_own_css(problems, planner: Planner) -> None:
+    """The fix at the cause of each problem without an override, where it changes a theme's
+    declaration (one the writer does not own: the next build copies the theme's file again),
+    as the same rule with the new value for the writer's own stylesheet
+    (``CauseFix.own_css``): the advice rules' problems, mostly. It is not checked again.
+    Where an override sets the same property on the same selector, it is offered only if its
+    value passes that override's problem too (``shared_with`` names it: one rule, this
+    value); else None."""
+    from tinctura.problems import passes
+
+    taken: dict = {}  # (media, selector, property) -> the problem (from 1) whose override sets it
+    for n, p in enumerate(problems, 1):
+        for key in (p.override.keys() if getattr(p, "override", None) is not None else ()):
+            taken.setdefault(key[:3], n)
+    for problem in problems:
+        fix = problem.fix_at_cause
+        if fix is None or getattr(problem, "override", None) is not None:
+            continue
+        fix.own_css = None
+        d = fix.declaration
+        if not fix.possible or d is None or d.origin != "author" or not d.selector \
+                or owned(d.sheet, planner.project) or faded(problem.worst):
+            continue
+        rules = planner._colours(problem, None)
+        if rules is None:
+            continue
+        shared = sorted({taken[k[:3]] for k in rules.keys() if k[:3] in taken})
+        if all(passes(fix.colour, problems[n - 1]) for n in shared):
+            rules.shared_with = tuple(shared)
+            fix.own_css = rules
 
 
 def combined_css(overrides) -> str:

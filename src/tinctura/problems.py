@@ -53,6 +53,10 @@ class CauseFix:
     # in docs_dir, with line and column): set by ``writer.WriterAid``, which knows the project
     shown: str = ""
     settles: tuple = ()  # numbers (from 1) of other problems ``colour`` passes too (``settled``)
+    # the new value as a rule for the writer's own stylesheet, where the declaration is the
+    # theme's (rebuilt with the site): an ``overrides.Override`` not checked again, set by
+    # ``overrides.plan_own_css``
+    own_css: Optional[object] = None
 
     @property
     def possible(self) -> bool:
@@ -524,14 +528,15 @@ def settled(problems) -> None:
             if p.fix_at_cause.possible:
                 colour = p.fix_at_cause.colour
                 p.fix_at_cause.settles = tuple(m for m, other in group if m != n and
-                                               _passes(colour, other))
+                                               passes(colour, other))
 
 
-def _passes(colour, problem) -> bool:
+def passes(colour, problem) -> bool:
     """Whether text ``colour`` meets ``problem``'s requirement on every background its fix
-    at the cause considered."""
+    at the cause considered (those of its worst text where it has no such fix)."""
     test = problem.worst.args.get("test")
-    backgrounds = problem.fix_at_cause.backgrounds
+    fix = problem.fix_at_cause
+    backgrounds = fix.backgrounds if fix is not None else (tuple(problem.worst.sample.bg)[:3],)
     if test is None:
         return all(wcag.contrast_ratio(colour, bg) >= problem.required for bg in backgrounds)
     return all(test(colour, bg) for bg in backgrounds)

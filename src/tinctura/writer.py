@@ -154,6 +154,11 @@ class WriterAid:
             if again == narrow and not more:
                 break
             narrow = again
+        overrides_mod.plan_own_css(problems, planner)
+        for problem in problems:
+            own = getattr(problem.fix_at_cause, "own_css", None)
+            if own is not None and self.project is not None:
+                own.shown_file = self.project.docs_path(own.file)
         problems_mod.settled(problems)  # (once the overrides are known: theirs come first)
         return counts
 

@@ -361,7 +361,8 @@ def cause_fix_dict(fix) -> dict | None:
             }
             for c in fix.contexts
         ],
-    }
+    } | ({"settles": list(fix.settles)} if fix.settles else {}) | \
+        ({"own_css": override_dict(fix.own_css)} if fix.own_css is not None else {})
 
 
 def override_dict(o) -> dict | None:
@@ -371,6 +372,8 @@ def override_dict(o) -> dict | None:
     out = {"file": o.where, "css": o.css(), "verified": bool(o.verified)}
     if o.note:
         out["note"] = o.note
+    if o.shared_with:
+        out["shared_with"] = list(o.shared_with)
     return out
 
 

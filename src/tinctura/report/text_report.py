@@ -218,7 +218,8 @@ def cause_fix_lines(fix, need: str | None = None) -> list:
         if settles:  # one value for a declaration the advice rules each found a value for
             reached += (f"; it settles problem{'s' if len(settles) > 1 else ''} "
                         f"{', '.join(map(str, settles))} too")
-        return [f"fix at the cause: {target} {m.colour(fix.colour)}: {reached}"]
+        return [f"fix at the cause: {target} {m.colour(fix.colour)}: {reached}"] + \
+            own_css_lines(fix.own_css)
     what = "no single text colour" if d is None else f"no single value of `{d.property}`"
     lines = [f"{what} reaches {need} on {on_all}; one value per group of backgrounds:"]
     several = len({sch for c in fix.contexts for sch in c.schemes}) > 1
@@ -232,6 +233,21 @@ def cause_fix_lines(fix, need: str | None = None) -> list:
         else:
             lines.append(f"  on {on}: {m.colour(c.colour)} ({m.ratio(c.ratio)}:1)")
     return lines
+
+
+def own_css_lines(own) -> list:
+    """A theme's declaration changed in the writer's own stylesheet (``CauseFix.own_css``)."""
+    if own is None:
+        return []
+    note = f" ({own.note})" if own.note else ""
+    shared = ""
+    if own.shared_with:  # an override of another problem sets the same property there
+        others = ", ".join(map(str, own.shared_with))
+        shared = (f"; the checked fix of problem{'s' if len(own.shared_with) > 1 else ''} "
+                  f"{others} sets the same property in the same rule: use this value there "
+                  f"(it passes problem{'s' if len(own.shared_with) > 1 else ''} {others} too)")
+    return [f"that stylesheet is the theme's, copied again by the next build: add to "
+            f"{own.where}{note} instead, not checked again: `{own.compact()}`{shared}"]
 
 
 def summary_line(summary, header: Header) -> str:
