@@ -325,7 +325,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.log_results(found, findings, many_schemes=len(schemes) > 1, locate=locate)
         else:
             self.log_results(changes[0], findings, many_schemes=len(schemes) > 1,
-                             locate=locate, label="New: ")
+                             locate=locate, label="New: ",
+                             numbers={id(p): n for n, p in enumerate(found, 1)})
         if self.command == "serve":  # what the next build of this session compares with
             self.previous = {problems.problem_key(p.worst): m.message(p.worst) if
                              is_appearance(p.worst) else plain.sentence(p) for p in found}
@@ -481,17 +482,23 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         return new, fixed
 
     def log_results(self, found, findings, many_schemes: bool, locate=None,
-                    label: str = "") -> None:
+                    label: str = "", numbers=None) -> None:
         if self.config.log_every:
             for f in findings:
                 level = logging.INFO if f.severity == "info" else logging.WARNING
                 if log.isEnabledFor(level):
                     log.log(level, finding_line(f, many_schemes, locate))
             return
+        # numbered as in the reports when there are several: fixes name other problems by
+        # number ("it settles problems 2, 4 too"); ``numbers``: those of the whole build
+        numbered = numbers if numbers is not None else \
+            {id(p): n for n, p in enumerate(found, 1)}
+        several = len(numbered) > 1
         for problem in found:
             level = logging.INFO if problem.severity == "info" else logging.WARNING
             if log.isEnabledFor(level):  # (`mkdocs build -q`: each line would be dropped)
-                log.log(level, label + problem_line(problem, many_schemes, locate))
+                log.log(level, label + problem_line(problem, many_schemes, locate,
+                                                    numbered.get(id(problem)) if several else 0))
 
 
 class Gating:
@@ -564,13 +571,15 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
     return "\n".join(lines)
 
 
-def problem_line(problem, many_schemes: bool = False, locate=None) -> str:
-    """One log message per problem: the plain sentence, where, the fix as CSS, the detail."""
+def problem_line(problem, many_schemes: bool = False, locate=None, number: int = 0) -> str:
+    """One log message per problem: the plain sentence, where, the fix as CSS, the detail;
+    ``number``: the problem's in the build (0: not numbered)."""
     if is_appearance(problem.worst):  # site-level appearance rules: entries and contexts
-        return (f"{problem.rule} {problem.slug}: {m.message(problem.worst)}\n  "
+        return (f"{f'{number}. ' if number else ''}{problem.rule} {problem.slug}: "
+                f"{m.message(problem.worst)}\n  "
                 + "\n  ".join(appearance_lines(problem, many_schemes)))
     width = terminal_width()
-    lines = problem_lines(0, problem, locate, many_schemes)
+    lines = problem_lines(number, problem, locate, many_schemes)
     # MkDocs puts "WARNING -  tinctura: " before the first line only
     out = wrapped(0, lines[0][1], width - len("WARNING -  tinctura: "))
     for indent, text, style, wrap in lines[1:]:
