@@ -221,7 +221,7 @@ def test_check_text_report(fake_engine):
     status, out, err = call("check", site)
     assert status == 1 and err == ""
     pytest.LineMatcher(out.splitlines()).fnmatch_lines([
-        "1 problem (1 occurrence on 1 page), largest first",
+        "1 problem (1 occurrence on 1 page), by severity, largest first",
         "1. Grey text on white is too faint: 4.47:1, needs 4.5:1.",
         "   Where: a.html:1 \"Seed swap on Saturday\"*",
         "Checked 1 page at level AA, 1 text sample; 1 error, 0 warnings, 0 info; 1 problem; 0 undetermined.",

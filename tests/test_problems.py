@@ -85,6 +85,26 @@ def test_order_severity_before_ratio():
     assert [p.severity for p in group(findings)] == ["error", "warning"]
 
 
+def test_errors_come_before_larger_warnings():
+    # a gate fails on errors: advice met on every page must not bury them (largest first
+    # within each severity)
+    samples = [sample("#8a8a8a", "#ffffff", INK, PAPER, xpath="/e")] + \
+        [sample("#bbbbbb", "#ffffff", MUTED, PAPER, xpath=f"/w[{i}]") for i in range(3)]
+    findings = findings_for(samples)
+    for f in findings:
+        if f.sample.xpath.startswith("/w"):
+            f.severity = "warning"
+    assert [(p.severity, p.occurrences) for p in group(findings)] == \
+        [("error", 1), ("warning", 3)]
+    from tinctura.problems import Collector
+
+    collector = Collector()
+    for n, f in enumerate(findings):
+        collector.add(f, n)
+    assert [(p.severity, p.occurrences) for p in collector.problems({})] == \
+        [("error", 1), ("warning", 3)]
+
+
 def test_fix_targets_the_custom_property_holding_the_value():
     assert target_declaration(MUTED).property == "--muted"
     assert target_declaration(INK).property == "color"

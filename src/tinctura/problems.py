@@ -207,7 +207,8 @@ def target_declaration(cause: Optional[Cause]) -> Optional[Declaration]:
 
 
 def group(findings, samples=(), uses=None) -> list:
-    """Group ``findings`` into problems, largest first.
+    """Group ``findings`` into problems: errors first, then warnings, then info, largest first
+    within each (a gate fails on errors: advice met on every page must not bury them).
 
     ``samples`` (optional, every sample of the run) widens the fix at the cause: the new value
     must also keep passing wherever the same declaration is used without a finding today,
@@ -239,7 +240,7 @@ def group(findings, samples=(), uses=None) -> list:
             _add_scheme(problem, f)
         problem.fix_at_cause = fix_at_cause(problem, uses)
         problems.append(problem)
-    problems.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
+    problems.sort(key=lambda p: (SEVERITY_RANK.get(p.severity, 9), -p.occurrences, p.worst_ratio))
     return problems
 
 
@@ -432,7 +433,7 @@ class Collector:
                 p.indexes = array("L", sorted(p.indexes))
             p.fix_at_cause = fix_at_cause(p, uses)
             out.append(p)
-        out.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
+        out.sort(key=lambda p: (SEVERITY_RANK.get(p.severity, 9), -p.occurrences, p.worst_ratio))
         return out
 
 

@@ -56,7 +56,7 @@ def site_samples():
 def test_problems_lead_largest_first():
     text, _ = report(site_samples())
     pytest.LineMatcher(text.splitlines()).fnmatch_lines([
-        "1 problem (5 occurrences on 2 pages), largest first",
+        "1 problem (5 occurrences on 2 pages), by severity, largest first",
         "1. Grey text on white is too faint: 4.47:1, needs 4.5:1.",
         "   Where: guide/p0.html:10 \"Sow the marsh marigold seeds in autumn,\u2026\" (\u2026 > body > main >",
         "*p:nth-of-type(1)), #777777 on #ffffff, 4.47:1",

@@ -46,7 +46,7 @@ def rules_run(header) -> list:
 
 
 class Formatter:
-    """start, then page* (stable order), problem* (largest first), diagnostic*, then stop.
+    """start, then page* (stable order), problem* (errors, then warnings, then info; largest first within each), diagnostic*, then stop.
 
     A formatter that sets ``wants_findings = False`` gets ``page(page, [])`` (nothing is read
     back from the run's store); one that sets ``wants_occurrences = True`` gets

@@ -77,7 +77,7 @@ class TextFormatter(Formatter):
             self.tw.line(
                 f"{m.plural(summary.problems, 'problem')} "
                 f"({m.plural(summary.findings, 'occurrence')} on "
-                f"{m.plural(summary.pages_with_findings, 'page')}), largest first",
+                f"{m.plural(summary.pages_with_findings, 'page')}), by severity, largest first",
                 "bold",
             )
             self.tw.line()
