@@ -224,3 +224,33 @@ def test_a_suggested_value_names_the_other_problems_of_its_declaration_it_settle
         named = ", ".join(map(str, p.fix_at_cause.settles))
         assert ("settles problem" in line and line.endswith(f" {named} too")) == \
             bool(p.fix_at_cause.settles), line
+
+
+def test_a_fix_at_the_cause_passes_every_tier_its_problem_meets():
+    # One colour declaration for a body text (APCA's Lc 75 tier) and a bold one (Lc 60): one
+    # TC200 problem, light on dark (the WCAG 2 ratio passes, 5.9:1 by the formula). Its
+    # suggested value must serve the body text too, not only the occurrence met first (APCA's
+    # tiers: README, TC200; the pass tests are the rule's own, whose Lc is checked against
+    # published values in tests/colour/test_apca.py).
+    from tinctura.problems import Collector, declaration_uses
+
+    cause = Cause(Declaration("color", "#b0b0b0", "site.css", 3, ".note", "author"))
+    ground = Cause(Declaration("background-color", "#333333", "site.css", 2, "body", "author"))
+    bold = make_sample("#b0b0b0", "#333333", weight=700, xpath="/h1", fg_cause=cause,
+                       bg_cause=ground)
+    body = make_sample("#b0b0b0", "#333333", xpath="/p", fg_cause=cause, bg_cause=ground)
+    samples = [bold, body]
+    findings = run(samples, Options(rules=("TC200",)))
+    tests = {f.sample.xpath: f.args["test"] for f in findings}
+    assert set(tests) == {"/h1", "/p"} and tests["/h1"] != tests["/p"]  # the premise
+    collector = Collector()
+    for n, f in enumerate(findings):
+        collector.add(f, n)
+    uses = declaration_uses(samples)
+    for (problem,) in (group(findings, samples), collector.problems(uses)):
+        fix = problem.fix_at_cause
+        assert fix.possible
+        for xpath, test in tests.items():
+            assert all(test(fix.colour, bg) for bg in fix.backgrounds), xpath
+        # at the same colours the body text is the worst: the sentence names its Lc 75
+        assert problem.worst.sample.xpath == "/p"

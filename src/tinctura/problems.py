@@ -76,6 +76,9 @@ class Problem:
     worst_ratio: float = 0.0
     required: float = 0.0  # the highest ratio any of its findings requires
     fix_at_cause: Optional[CauseFix] = None
+    # every pass test its findings carry (the rules beyond the WCAG 2 ratio): a fix at the
+    # cause must meet them all, a body text's Lc 75 as well as a heading's Lc 60
+    tests: tuple = ()
     # Built by a Collector, which keeps no findings list: how many there were, the worst, the
     # earliest candidates for examples, their indexes in the run, the backgrounds they met.
     count: Optional[int] = None
@@ -107,7 +110,7 @@ class Problem:
     def worst(self) -> Finding:
         if self.worst_finding is not None:
             return self.worst_finding
-        return min(self.findings, key=lambda f: f.ratio)
+        return min(self.findings, key=worse_key)
 
     @property
     def worst_unfaded(self) -> Optional[Finding]:
@@ -116,7 +119,7 @@ class Problem:
         is faded, raising the opacity does not fix the others."""
         if self.count is not None:
             return self.unfaded_finding
-        return min((f for f in self.findings if not faded(f)), key=lambda f: f.ratio,
+        return min((f for f in self.findings if not faded(f)), key=worse_key,
                    default=None)
 
     def using_declarations(self, side: str = "fg") -> list:
@@ -169,8 +172,15 @@ class SchemeFigures:
 
     def add(self, finding: Finding) -> None:
         self.count += 1
-        if self.worst is None or finding.ratio < self.worst_ratio:
+        if self.worst is None or worse_key(finding) < worse_key(self.worst):
             self.worst_ratio, self.worst = finding.ratio, finding
+
+
+def worse_key(finding: Finding) -> tuple:
+    """Findings in order, worst first: the lowest ratio; on a tie, the highest requirement
+    (at the same colours, a body text's Lc 75 before a bold text's Lc 60)."""
+    args = finding.args
+    return (finding.ratio, -finding.required, -(args.get("lc_required") or 0) if args else 0)
 
 
 def problem_key(finding: Finding) -> tuple:
@@ -237,6 +247,7 @@ def group(findings, samples=(), uses=None) -> list:
         )
         for f in members:
             _add_scheme(problem, f)
+            _add_test(problem, f)
         problem.fix_at_cause = fix_at_cause(problem, uses)
         problems.append(problem)
     problems.sort(key=lambda p: (-p.occurrences, SEVERITY_RANK.get(p.severity, 9), p.worst_ratio))
@@ -314,9 +325,9 @@ class Collector:
         _add_scheme(p, finding)
         if SEVERITY_RANK.get(finding.severity, 9) < SEVERITY_RANK.get(p.severity, 9):
             p.severity = finding.severity
-        if finding.ratio < p.worst_finding.ratio:
+        if worse_key(finding) < worse_key(p.worst_finding):
             p.worst_finding = finding
-        if (p.unfaded_finding is None or finding.ratio < p.unfaded_finding.ratio) \
+        if (p.unfaded_finding is None or worse_key(finding) < worse_key(p.unfaded_finding)) \
                 and not faded(finding):
             p.unfaded_finding = finding
         for cause, kept in ((finding.sample.fg_cause, p.using),
@@ -325,6 +336,7 @@ class Collector:
                 kept.setdefault(cause.declaration, None)
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
+        _add_test(p, finding)
         self._note_page(progress, p, finding.sample.page, lambda: finding)
         _add_backgrounds(p.backgrounds, finding.sample)
 
@@ -481,6 +493,41 @@ _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgro
 NO_COLOUR_FIX = frozenset({"TC120"})
 
 
+def _add_test(problem, finding) -> None:
+    """Keep ``finding``'s pass test among its problem's (each distinct one once)."""
+    test = finding.args.get("test") if finding.args else None
+    if test is not None and test not in problem.tests:
+        problem.tests += (test,)
+
+
+def passing(problem):
+    """The test a fix at the cause must pass: all of its findings' tests (the worst's alone
+    when the problem was made without them); None for the WCAG 2 ratio alone."""
+    tests = problem.tests or tuple(t for t in (problem.worst.args.get("test"),) if t is not None)
+    if len(tests) < 2:
+        return tests[0] if tests else None
+    return AllOf(tests)
+
+
+class AllOf:
+    """Several pass tests as one ``test(text, background)``; hashable, as the nearest-colour
+    search caches by test."""
+
+    __slots__ = ("tests",)
+
+    def __init__(self, tests):
+        self.tests = tuple(tests)
+
+    def __call__(self, text, background) -> bool:
+        return all(t(text, background) for t in self.tests)
+
+    def __eq__(self, other):
+        return isinstance(other, AllOf) and other.tests == self.tests
+
+    def __hash__(self):
+        return hash(("all of", self.tests))
+
+
 def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
     if problem.rule in NO_COLOUR_FIX or problem.required <= 1.0:
         # (no ratio is required: the site-level appearance rules)
@@ -499,7 +546,7 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
     schemes = tuple(sorted(set().union(*backgrounds.values()))) if backgrounds else ()
-    test = worst.args.get("test")  # rules beyond the WCAG 2 ratio: what a fix must meet
+    test = passing(problem)  # rules beyond the WCAG 2 ratio: what a fix must meet
     found = _nearest(start, ordered, problem.required, test)
     if found is not None:
         return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1],
@@ -534,7 +581,7 @@ def settled(problems) -> None:
 def passes(colour, problem) -> bool:
     """Whether text ``colour`` meets ``problem``'s requirement on every background its fix
     at the cause considered (those of its worst text where it has no such fix)."""
-    test = problem.worst.args.get("test")
+    test = passing(problem)
     fix = problem.fix_at_cause
     backgrounds = fix.backgrounds if fix is not None else (tuple(problem.worst.sample.bg)[:3],)
     if test is None:
