@@ -5,6 +5,7 @@ under test.
 """
 import pytest
 
+from tinctura.colour.convert import to_hex
 from tinctura.engine import Options
 from tinctura.model import Cause, Declaration
 from tinctura.problems import group, target_declaration
@@ -254,3 +255,26 @@ def test_a_fix_at_the_cause_passes_every_tier_its_problem_meets():
             assert all(test(fix.colour, bg) for bg in fix.backgrounds), xpath
         # at the same colours the body text is the worst: the sentence names its Lc 75
         assert problem.worst.sample.xpath == "/p"
+
+
+def test_a_control_boundary_is_fixed_against_the_colour_around_the_control():
+    # A text field filled white on a #fcfcfc page, its border #d1d4d5: SC 1.4.11 asks the
+    # border for 3:1 against what is around the control (Understanding SC 1.4.11), and so
+    # must the suggested border colour (WCAG 2.2's ratio: tests/wcag_reference.py).
+    import dataclasses
+
+    border = Cause(Declaration("border-color", "#d1d4d5", "site.css", 4, "form .search",
+                               "author"))
+    field = dataclasses.replace(
+        make_sample("#d1d4d5", "#ffffff", xpath="/input::boundary", fg_cause=border),
+        kind="boundary", text="input boundary", surround=(252 / 255, 252 / 255, 252 / 255))
+    findings = run([field], Options(rules=("TC110",)))
+    assert findings  # the premise: 1.45:1 against #fcfcfc
+    from tinctura.problems import Collector, declaration_uses
+
+    collector = Collector()
+    for n, f in enumerate(findings):
+        collector.add(f, n)
+    for (problem,) in (group(findings, [field]), collector.problems(declaration_uses([field]))):
+        fix = problem.fix_at_cause
+        assert ratio(to_hex(fix.colour), "#fcfcfc") >= 3.0

@@ -460,7 +460,7 @@ def declaration_uses(samples) -> dict:
     for s in samples:
         if s.status != DETERMINED or s.exempt or s.bg is None:
             continue
-        same = (id(s.fg_cause), id(s.bg), id(s.bg_alternatives), s.scheme)
+        same = (id(s.fg_cause), id(s.bg), id(s.bg_alternatives), id(s.surround), s.scheme)
         if same in seen:
             continue
         seen.add(same)
@@ -480,9 +480,18 @@ def merge_uses(into: dict, more: dict) -> dict:
 
 
 def _add_backgrounds(bucket: dict, sample) -> None:
-    for bg in (sample.bg,) + tuple(sample.bg_alternatives):
+    for bg in judged_against(sample):
         if bg is not None:
             bucket.setdefault(_quantize(tuple(bg)), set()).add(sample.scheme)
+
+
+def judged_against(sample) -> tuple:
+    """The colours a sample's colour is judged against: a control's boundary meets the colour
+    around the control (``extract/nontext.py``; its ``bg`` is the control's own fill), text
+    its background and any alternative ones."""
+    if sample.kind == "boundary":
+        return (sample.surround,)
+    return (sample.bg,) + tuple(sample.bg_alternatives)
 
 
 _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgrounds
