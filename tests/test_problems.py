@@ -278,3 +278,43 @@ def test_a_control_boundary_is_fixed_against_the_colour_around_the_control():
     for (problem,) in (group(findings, [field]), collector.problems(declaration_uses([field]))):
         fix = problem.fix_at_cause
         assert ratio(to_hex(fix.colour), "#fcfcfc") >= 3.0
+
+
+def test_problems_of_one_declaration_get_one_value_that_passes_them_all():
+    # A navigation caption #55a5d9 on #343131: TC200 wants Lc 75, TC400 wants the ratio kept
+    # under deuteranopia (and the Lc kept where normal vision reaches 75). Each rule's nearest
+    # value fails the other's test (seen on MkDocs's readthedocs theme); a writer can set one
+    # value, so both problems get one that passes both tests (the rules' own, checked against
+    # published values in tests/colour/test_apca.py and test_cvd.py).
+    from tinctura.problems import joined, settled
+
+    cause = Cause(Declaration("color", "#55a5d9", "css/theme.css", 13, ".caption", "author"))
+    ground = Cause(Declaration("background-color", "#343131", "css/theme.css", 13, ".side",
+                               "author"))
+    caption = make_sample("#55a5d9", "#343131", fg_cause=cause, bg_cause=ground)
+    problems = group(run([caption], Options(rules=("TC200", "TC400"))), [caption])
+    assert sorted(p.rule for p in problems) == ["TC200", "TC400"]  # the premise
+    tests = [p.worst.args["test"] for p in problems]
+    own = [p.fix_at_cause.colour for p in problems]
+    assert not any(all(t(c, (0.2039, 0.1922, 0.1922)) for t in tests) for c in own)  # premise
+    joined(problems)
+    settled(problems)
+    (colour,) = {p.fix_at_cause.colour for p in problems}
+    for p in problems:
+        assert all(t(colour, bg) for t in tests for bg in p.fix_at_cause.backgrounds)
+        assert p.fix_at_cause.settles  # each names the other
+
+
+def test_a_fix_at_the_cause_passes_on_the_background_its_hex_stands_for():
+    # mkdocs-material's slate background is hsla(225deg, 15%, 14%, 1): #1e2129 plus a third
+    # of a step in red. Backgrounds are grouped by their hex; a link colour found to reach
+    # exactly Lc 75 at the hex missed it on the page (Lc 74.99). The value must pass the
+    # rule's own test on the background as painted.
+    cause = Cause(Declaration("--md-typeset-a-color", "#5e8bde", "palette.css", 4, "[x]",
+                              "author"))
+    ground = Cause(Declaration("background-color", "hsla(225deg, 15%, 14%, 1)", "main.css", 6,
+                               "body", "author"))
+    link = make_sample("#5e8bde", "hsla(225deg, 15%, 14%, 1)", fg_cause=cause, bg_cause=ground)
+    (problem,) = group(run([link], Options(rules=("TC200",))), [link])
+    assert to_hex(link.bg) == "#1e2129" and link.bg != problem.fix_at_cause.backgrounds[0]
+    assert problem.worst.args["test"](problem.fix_at_cause.colour, link.bg)

@@ -518,6 +518,24 @@ def passing(problem):
     return AllOf(tests)
 
 
+class AtLeast:
+    """The WCAG 2 ratio alone as a pass test (TC100's, beside the other rules' in ``AllOf``)."""
+
+    __slots__ = ("ratio",)
+
+    def __init__(self, ratio: float):
+        self.ratio = ratio
+
+    def __call__(self, text, background) -> bool:
+        return wcag.contrast_ratio(text, background) >= self.ratio
+
+    def __eq__(self, other):
+        return isinstance(other, AtLeast) and other.ratio == self.ratio
+
+    def __hash__(self):
+        return hash(("at least", self.ratio))
+
+
 class AllOf:
     """Several pass tests as one ``test(text, background)``; hashable, as the nearest-colour
     search caches by test."""
@@ -567,19 +585,38 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
                     schemes=schemes)
 
 
+def joined(problems) -> None:
+    """One value for a declaration that several problems without an override share, where no
+    problem's own value passes the others (an accent whose APCA value loses Lc under a
+    deficiency, whose deficiency value misses the Lc): the nearest colour passing all their
+    tests on all their backgrounds replaces each one's, since a writer can set only one. Left
+    as they are where none exists. Before ``settled``, which then names them all."""
+    for group in _by_declaration(problems).values():
+        fixes = [p.fix_at_cause for _, p in group]
+        if len(group) < 2 or not all(f.possible for f in fixes):
+            continue
+        if any(all(passes(f.colour, q) for _, q in group) for f in fixes):
+            continue  # one of them serves all: ``settled`` says so
+        tests = tuple(dict.fromkeys(passing(q) or AtLeast(q.required) for _, q in group))
+        backgrounds = tuple(sorted({bg for f in fixes for bg in f.backgrounds},
+                                   key=wcag.relative_luminance))
+        worst = group[0][1].worst
+        start = tuple(worst.args.get("fg") or worst.sample.fg)
+        found = _nearest(start, backgrounds, max(q.required for _, q in group), AllOf(tests))
+        if found is None:
+            continue
+        for f in fixes:
+            f.colour = tuple(found[0])
+            f.ratio = min(wcag.contrast_ratio(f.colour, bg) for bg in f.backgrounds)
+
+
 def settled(problems) -> None:
     """Mark each suggested value at the cause with the other problems (numbers from 1, in
     ``problems``' order) of the same declaration it passes as well, by their own test on
     their own backgrounds: the advice rules (APCA, deficiency, viewing) each suggest a value
     for one accent colour, and a writer can set only one. Problems with an override (TC100's
     fixes in the site's stylesheet) are left out: theirs is the fix to apply."""
-    by_declaration: dict = {}
-    for n, p in enumerate(problems, 1):
-        fix = p.fix_at_cause
-        if fix is not None and fix.declaration is not None and \
-                getattr(p, "override", None) is None:
-            by_declaration.setdefault(fix.declaration, []).append((n, p))
-    for group in by_declaration.values():
+    for group in _by_declaration(problems).values():
         for n, p in group:
             if p.fix_at_cause.possible:
                 colour = p.fix_at_cause.colour
@@ -587,15 +624,26 @@ def settled(problems) -> None:
                                                passes(colour, other))
 
 
+def _by_declaration(problems) -> dict:
+    """Declaration -> [(number from 1, problem)] of the problems with a fix at the cause of
+    that declaration and no override."""
+    by_declaration: dict = {}
+    for n, p in enumerate(problems, 1):
+        fix = p.fix_at_cause
+        if fix is not None and fix.declaration is not None and \
+                getattr(p, "override", None) is None:
+            by_declaration.setdefault(fix.declaration, []).append((n, p))
+    return by_declaration
+
+
 def passes(colour, problem) -> bool:
     """Whether text ``colour`` meets ``problem``'s requirement on every background its fix
-    at the cause considered (those of its worst text where it has no such fix)."""
-    test = passing(problem)
+    at the cause considered (those of its worst text where it has no such fix), anywhere in
+    each one's hex (``_nearest``)."""
+    test = passing(problem) or AtLeast(problem.required)
     fix = problem.fix_at_cause
     backgrounds = fix.backgrounds if fix is not None else (tuple(problem.worst.sample.bg)[:3],)
-    if test is None:
-        return all(wcag.contrast_ratio(colour, bg) >= problem.required for bg in backgrounds)
-    return all(test(colour, bg) for bg in backgrounds)
+    return all(test(colour, e) for bg in backgrounds for e in suggest.hex_cell_edges(bg))
 
 
 def _nearest(start, backgrounds, required: float, test=None):
@@ -604,7 +652,13 @@ def _nearest(start, backgrounds, required: float, test=None):
     that gave ``test(text, background)`` (it includes the ratio), the nearest that passes it."""
     if test is None:
         return suggest.nearest_same_side(start, backgrounds, required)
-    return colour_fix.nearest_foreground_where(start, backgrounds, test)
+    # backgrounds are grouped by their hex: a theme's hsl() or translucent background lies
+    # between two 8-bit values, and a value that reaches Lc 75 at the hex may miss it there
+    edges = tuple(e for bg in backgrounds for e in suggest.hex_cell_edges(bg))
+    found = colour_fix.nearest_foreground_where(start, edges, test)
+    if found is None:
+        return None
+    return found[0], min(wcag.contrast_ratio(found[0], bg) for bg in backgrounds)
 
 
 def split_contexts(start, ordered, required: float, test=None) -> tuple:
