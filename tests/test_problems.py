@@ -5,6 +5,7 @@ under test.
 """
 import pytest
 
+from tinctura.colour.convert import to_hex
 from tinctura.engine import Options
 from tinctura.model import Cause, Declaration
 from tinctura.problems import group, target_declaration
@@ -244,3 +245,96 @@ def test_a_suggested_value_names_the_other_problems_of_its_declaration_it_settle
         named = ", ".join(map(str, p.fix_at_cause.settles))
         assert ("settles problem" in line and line.endswith(f" {named} too")) == \
             bool(p.fix_at_cause.settles), line
+
+
+def test_a_fix_at_the_cause_passes_every_tier_its_problem_meets():
+    # One colour declaration for a body text (APCA's Lc 75 tier) and a bold one (Lc 60): one
+    # TC200 problem, light on dark (the WCAG 2 ratio passes, 5.9:1 by the formula). Its
+    # suggested value must serve the body text too, not only the occurrence met first (APCA's
+    # tiers: README, TC200; the pass tests are the rule's own, whose Lc is checked against
+    # published values in tests/colour/test_apca.py).
+    from tinctura.problems import Collector, declaration_uses
+
+    cause = Cause(Declaration("color", "#b0b0b0", "site.css", 3, ".note", "author"))
+    ground = Cause(Declaration("background-color", "#333333", "site.css", 2, "body", "author"))
+    bold = make_sample("#b0b0b0", "#333333", weight=700, xpath="/h1", fg_cause=cause,
+                       bg_cause=ground)
+    body = make_sample("#b0b0b0", "#333333", xpath="/p", fg_cause=cause, bg_cause=ground)
+    samples = [bold, body]
+    findings = run(samples, Options(rules=("TC200",)))
+    tests = {f.sample.xpath: f.args["test"] for f in findings}
+    assert set(tests) == {"/h1", "/p"} and tests["/h1"] != tests["/p"]  # the premise
+    collector = Collector()
+    for n, f in enumerate(findings):
+        collector.add(f, n)
+    uses = declaration_uses(samples)
+    for (problem,) in (group(findings, samples), collector.problems(uses)):
+        fix = problem.fix_at_cause
+        assert fix.possible
+        for xpath, test in tests.items():
+            assert all(test(fix.colour, bg) for bg in fix.backgrounds), xpath
+        # at the same colours the body text is the worst: the sentence names its Lc 75
+        assert problem.worst.sample.xpath == "/p"
+
+
+def test_a_control_boundary_is_fixed_against_the_colour_around_the_control():
+    # A text field filled white on a #fcfcfc page, its border #d1d4d5: SC 1.4.11 asks the
+    # border for 3:1 against what is around the control (Understanding SC 1.4.11), and so
+    # must the suggested border colour (WCAG 2.2's ratio: tests/wcag_reference.py).
+    import dataclasses
+
+    border = Cause(Declaration("border-color", "#d1d4d5", "site.css", 4, "form .search",
+                               "author"))
+    field = dataclasses.replace(
+        make_sample("#d1d4d5", "#ffffff", xpath="/input::boundary", fg_cause=border),
+        kind="boundary", text="input boundary", surround=(252 / 255, 252 / 255, 252 / 255))
+    findings = run([field], Options(rules=("TC110",)))
+    assert findings  # the premise: 1.45:1 against #fcfcfc
+    from tinctura.problems import Collector, declaration_uses
+
+    collector = Collector()
+    for n, f in enumerate(findings):
+        collector.add(f, n)
+    for (problem,) in (group(findings, [field]), collector.problems(declaration_uses([field]))):
+        fix = problem.fix_at_cause
+        assert ratio(to_hex(fix.colour), "#fcfcfc") >= 3.0
+
+
+def test_problems_of_one_declaration_get_one_value_that_passes_them_all():
+    # A navigation caption #55a5d9 on #343131: TC200 wants Lc 75, TC400 wants the ratio kept
+    # under deuteranopia (and the Lc kept where normal vision reaches 75). Each rule's nearest
+    # value fails the other's test (seen on MkDocs's readthedocs theme); a writer can set one
+    # value, so both problems get one that passes both tests (the rules' own, checked against
+    # published values in tests/colour/test_apca.py and test_cvd.py).
+    from tinctura.problems import joined, settled
+
+    cause = Cause(Declaration("color", "#55a5d9", "css/theme.css", 13, ".caption", "author"))
+    ground = Cause(Declaration("background-color", "#343131", "css/theme.css", 13, ".side",
+                               "author"))
+    caption = make_sample("#55a5d9", "#343131", fg_cause=cause, bg_cause=ground)
+    problems = group(run([caption], Options(rules=("TC200", "TC400"))), [caption])
+    assert sorted(p.rule for p in problems) == ["TC200", "TC400"]  # the premise
+    tests = [p.worst.args["test"] for p in problems]
+    own = [p.fix_at_cause.colour for p in problems]
+    assert not any(all(t(c, (0.2039, 0.1922, 0.1922)) for t in tests) for c in own)  # premise
+    joined(problems)
+    settled(problems)
+    (colour,) = {p.fix_at_cause.colour for p in problems}
+    for p in problems:
+        assert all(t(colour, bg) for t in tests for bg in p.fix_at_cause.backgrounds)
+        assert p.fix_at_cause.settles  # each names the other
+
+
+def test_a_fix_at_the_cause_passes_on_the_background_its_hex_stands_for():
+    # mkdocs-material's slate background is hsla(225deg, 15%, 14%, 1): #1e2129 plus a third
+    # of a step in red. Backgrounds are grouped by their hex; a link colour found to reach
+    # exactly Lc 75 at the hex missed it on the page (Lc 74.99). The value must pass the
+    # rule's own test on the background as painted.
+    cause = Cause(Declaration("--md-typeset-a-color", "#5e8bde", "palette.css", 4, "[x]",
+                              "author"))
+    ground = Cause(Declaration("background-color", "hsla(225deg, 15%, 14%, 1)", "main.css", 6,
+                               "body", "author"))
+    link = make_sample("#5e8bde", "hsla(225deg, 15%, 14%, 1)", fg_cause=cause, bg_cause=ground)
+    (problem,) = group(run([link], Options(rules=("TC200",))), [link])
+    assert to_hex(link.bg) == "#1e2129" and link.bg != problem.fix_at_cause.backgrounds[0]
+    assert problem.worst.args["test"](problem.fix_at_cause.colour, link.bg)

@@ -76,6 +76,9 @@ class Problem:
     worst_ratio: float = 0.0
     required: float = 0.0  # the highest ratio any of its findings requires
     fix_at_cause: Optional[CauseFix] = None
+    # every pass test its findings carry (the rules beyond the WCAG 2 ratio): a fix at the
+    # cause must meet them all, a body text's Lc 75 as well as a heading's Lc 60
+    tests: tuple = ()
     # Built by a Collector, which keeps no findings list: how many there were, the worst, the
     # earliest candidates for examples, their indexes in the run, the backgrounds they met.
     count: Optional[int] = None
@@ -107,7 +110,7 @@ class Problem:
     def worst(self) -> Finding:
         if self.worst_finding is not None:
             return self.worst_finding
-        return min(self.findings, key=lambda f: f.ratio)
+        return min(self.findings, key=worse_key)
 
     @property
     def worst_unfaded(self) -> Optional[Finding]:
@@ -116,7 +119,7 @@ class Problem:
         is faded, raising the opacity does not fix the others."""
         if self.count is not None:
             return self.unfaded_finding
-        return min((f for f in self.findings if not faded(f)), key=lambda f: f.ratio,
+        return min((f for f in self.findings if not faded(f)), key=worse_key,
                    default=None)
 
     def using_declarations(self, side: str = "fg") -> list:
@@ -169,8 +172,15 @@ class SchemeFigures:
 
     def add(self, finding: Finding) -> None:
         self.count += 1
-        if self.worst is None or finding.ratio < self.worst_ratio:
+        if self.worst is None or worse_key(finding) < worse_key(self.worst):
             self.worst_ratio, self.worst = finding.ratio, finding
+
+
+def worse_key(finding: Finding) -> tuple:
+    """Findings in order, worst first: the lowest ratio; on a tie, the highest requirement
+    (at the same colours, a body text's Lc 75 before a bold text's Lc 60)."""
+    args = finding.args
+    return (finding.ratio, -finding.required, -(args.get("lc_required") or 0) if args else 0)
 
 
 def problem_key(finding: Finding) -> tuple:
@@ -238,6 +248,7 @@ def group(findings, samples=(), uses=None) -> list:
         )
         for f in members:
             _add_scheme(problem, f)
+            _add_test(problem, f)
         problem.fix_at_cause = fix_at_cause(problem, uses)
         problems.append(problem)
     problems.sort(key=lambda p: (SEVERITY_RANK.get(p.severity, 9), -p.occurrences, p.worst_ratio))
@@ -315,9 +326,9 @@ class Collector:
         _add_scheme(p, finding)
         if SEVERITY_RANK.get(finding.severity, 9) < SEVERITY_RANK.get(p.severity, 9):
             p.severity = finding.severity
-        if finding.ratio < p.worst_finding.ratio:
+        if worse_key(finding) < worse_key(p.worst_finding):
             p.worst_finding = finding
-        if (p.unfaded_finding is None or finding.ratio < p.unfaded_finding.ratio) \
+        if (p.unfaded_finding is None or worse_key(finding) < worse_key(p.unfaded_finding)) \
                 and not faded(finding):
             p.unfaded_finding = finding
         for cause, kept in ((finding.sample.fg_cause, p.using),
@@ -326,6 +337,7 @@ class Collector:
                 kept.setdefault(cause.declaration, None)
         p.worst_ratio = min(p.worst_ratio, finding.ratio)
         p.required = max(p.required, finding.required)
+        _add_test(p, finding)
         self._note_page(progress, p, finding.sample.page, lambda: finding)
         _add_backgrounds(p.backgrounds, finding.sample)
 
@@ -449,7 +461,7 @@ def declaration_uses(samples) -> dict:
     for s in samples:
         if s.status != DETERMINED or s.exempt or s.bg is None:
             continue
-        same = (id(s.fg_cause), id(s.bg), id(s.bg_alternatives), s.scheme)
+        same = (id(s.fg_cause), id(s.bg), id(s.bg_alternatives), id(s.surround), s.scheme)
         if same in seen:
             continue
         seen.add(same)
@@ -469,9 +481,18 @@ def merge_uses(into: dict, more: dict) -> dict:
 
 
 def _add_backgrounds(bucket: dict, sample) -> None:
-    for bg in (sample.bg,) + tuple(sample.bg_alternatives):
+    for bg in judged_against(sample):
         if bg is not None:
             bucket.setdefault(_quantize(tuple(bg)), set()).add(sample.scheme)
+
+
+def judged_against(sample) -> tuple:
+    """The colours a sample's colour is judged against: a control's boundary meets the colour
+    around the control (``extract/nontext.py``; its ``bg`` is the control's own fill), text
+    its background and any alternative ones."""
+    if sample.kind == "boundary":
+        return (sample.surround,)
+    return (sample.bg,) + tuple(sample.bg_alternatives)
 
 
 _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgrounds
@@ -480,6 +501,59 @@ _quantize = lru_cache(maxsize=4096)(quantize)  # a site has few distinct backgro
 # Rules whose verdict is not a colour against the background: no colour fix at the cause (TC120
 # is met by an underline or another cue; the rule's documentation says how)
 NO_COLOUR_FIX = frozenset({"TC120"})
+
+
+def _add_test(problem, finding) -> None:
+    """Keep ``finding``'s pass test among its problem's (each distinct one once)."""
+    test = finding.args.get("test") if finding.args else None
+    if test is not None and test not in problem.tests:
+        problem.tests += (test,)
+
+
+def passing(problem):
+    """The test a fix at the cause must pass: all of its findings' tests (the worst's alone
+    when the problem was made without them); None for the WCAG 2 ratio alone."""
+    tests = problem.tests or tuple(t for t in (problem.worst.args.get("test"),) if t is not None)
+    if len(tests) < 2:
+        return tests[0] if tests else None
+    return AllOf(tests)
+
+
+class AtLeast:
+    """The WCAG 2 ratio alone as a pass test (TC100's, beside the other rules' in ``AllOf``)."""
+
+    __slots__ = ("ratio",)
+
+    def __init__(self, ratio: float):
+        self.ratio = ratio
+
+    def __call__(self, text, background) -> bool:
+        return wcag.contrast_ratio(text, background) >= self.ratio
+
+    def __eq__(self, other):
+        return isinstance(other, AtLeast) and other.ratio == self.ratio
+
+    def __hash__(self):
+        return hash(("at least", self.ratio))
+
+
+class AllOf:
+    """Several pass tests as one ``test(text, background)``; hashable, as the nearest-colour
+    search caches by test."""
+
+    __slots__ = ("tests",)
+
+    def __init__(self, tests):
+        self.tests = tuple(tests)
+
+    def __call__(self, text, background) -> bool:
+        return all(t(text, background) for t in self.tests)
+
+    def __eq__(self, other):
+        return isinstance(other, AllOf) and other.tests == self.tests
+
+    def __hash__(self):
+        return hash(("all of", self.tests))
 
 
 def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
@@ -500,7 +574,7 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
     worst = problem.worst
     start = tuple(worst.args.get("fg") or worst.sample.fg)
     schemes = tuple(sorted(set().union(*backgrounds.values()))) if backgrounds else ()
-    test = worst.args.get("test")  # rules beyond the WCAG 2 ratio: what a fix must meet
+    test = passing(problem)  # rules beyond the WCAG 2 ratio: what a fix must meet
     found = _nearest(start, ordered, problem.required, test)
     if found is not None:
         return CauseFix(declaration, problem.required, ordered, tuple(found[0]), found[1],
@@ -512,19 +586,38 @@ def fix_at_cause(problem: Problem, uses: dict) -> Optional[CauseFix]:
                     schemes=schemes)
 
 
+def joined(problems) -> None:
+    """One value for a declaration that several problems without an override share, where no
+    problem's own value passes the others (an accent whose APCA value loses Lc under a
+    deficiency, whose deficiency value misses the Lc): the nearest colour passing all their
+    tests on all their backgrounds replaces each one's, since a writer can set only one. Left
+    as they are where none exists. Before ``settled``, which then names them all."""
+    for group in _by_declaration(problems).values():
+        fixes = [p.fix_at_cause for _, p in group]
+        if len(group) < 2 or not all(f.possible for f in fixes):
+            continue
+        if any(all(passes(f.colour, q) for _, q in group) for f in fixes):
+            continue  # one of them serves all: ``settled`` says so
+        tests = tuple(dict.fromkeys(passing(q) or AtLeast(q.required) for _, q in group))
+        backgrounds = tuple(sorted({bg for f in fixes for bg in f.backgrounds},
+                                   key=wcag.relative_luminance))
+        worst = group[0][1].worst
+        start = tuple(worst.args.get("fg") or worst.sample.fg)
+        found = _nearest(start, backgrounds, max(q.required for _, q in group), AllOf(tests))
+        if found is None:
+            continue
+        for f in fixes:
+            f.colour = tuple(found[0])
+            f.ratio = min(wcag.contrast_ratio(f.colour, bg) for bg in f.backgrounds)
+
+
 def settled(problems) -> None:
     """Mark each suggested value at the cause with the other problems (numbers from 1, in
     ``problems``' order) of the same declaration it passes as well, by their own test on
     their own backgrounds: the advice rules (APCA, deficiency, viewing) each suggest a value
     for one accent colour, and a writer can set only one. Problems with an override (TC100's
     fixes in the site's stylesheet) are left out: theirs is the fix to apply."""
-    by_declaration: dict = {}
-    for n, p in enumerate(problems, 1):
-        fix = p.fix_at_cause
-        if fix is not None and fix.declaration is not None and \
-                getattr(p, "override", None) is None:
-            by_declaration.setdefault(fix.declaration, []).append((n, p))
-    for group in by_declaration.values():
+    for group in _by_declaration(problems).values():
         for n, p in group:
             if p.fix_at_cause.possible:
                 colour = p.fix_at_cause.colour
@@ -532,15 +625,26 @@ def settled(problems) -> None:
                                                passes(colour, other))
 
 
+def _by_declaration(problems) -> dict:
+    """Declaration -> [(number from 1, problem)] of the problems with a fix at the cause of
+    that declaration and no override."""
+    by_declaration: dict = {}
+    for n, p in enumerate(problems, 1):
+        fix = p.fix_at_cause
+        if fix is not None and fix.declaration is not None and \
+                getattr(p, "override", None) is None:
+            by_declaration.setdefault(fix.declaration, []).append((n, p))
+    return by_declaration
+
+
 def passes(colour, problem) -> bool:
     """Whether text ``colour`` meets ``problem``'s requirement on every background its fix
-    at the cause considered (those of its worst text where it has no such fix)."""
-    test = problem.worst.args.get("test")
+    at the cause considered (those of its worst text where it has no such fix), anywhere in
+    each one's hex (``_nearest``)."""
+    test = passing(problem) or AtLeast(problem.required)
     fix = problem.fix_at_cause
     backgrounds = fix.backgrounds if fix is not None else (tuple(problem.worst.sample.bg)[:3],)
-    if test is None:
-        return all(wcag.contrast_ratio(colour, bg) >= problem.required for bg in backgrounds)
-    return all(test(colour, bg) for bg in backgrounds)
+    return all(test(colour, e) for bg in backgrounds for e in suggest.hex_cell_edges(bg))
 
 
 def _nearest(start, backgrounds, required: float, test=None):
@@ -549,7 +653,13 @@ def _nearest(start, backgrounds, required: float, test=None):
     that gave ``test(text, background)`` (it includes the ratio), the nearest that passes it."""
     if test is None:
         return suggest.nearest_same_side(start, backgrounds, required)
-    return colour_fix.nearest_foreground_where(start, backgrounds, test)
+    # backgrounds are grouped by their hex: a theme's hsl() or translucent background lies
+    # between two 8-bit values, and a value that reaches Lc 75 at the hex may miss it there
+    edges = tuple(e for bg in backgrounds for e in suggest.hex_cell_edges(bg))
+    found = colour_fix.nearest_foreground_where(start, edges, test)
+    if found is None:
+        return None
+    return found[0], min(wcag.contrast_ratio(found[0], bg) for bg in backgrounds)
 
 
 def split_contexts(start, ordered, required: float, test=None) -> tuple:

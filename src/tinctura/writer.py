@@ -154,6 +154,7 @@ class WriterAid:
             if again == narrow and not more:
                 break
             narrow = again
+        problems_mod.joined(problems)  # one value per declaration, before it is written
         overrides_mod.plan_own_css(problems, planner)
         for problem in problems:
             own = getattr(problem.fix_at_cause, "own_css", None)

@@ -140,6 +140,14 @@ def _edge(other, s) -> tuple:
     return tuple(min(1.0, max(0.0, c + s * _HALF_STEP)) for c in other[:3])
 
 
+def hex_cell_edges(other) -> tuple:
+    """The two colours within half an 8-bit step of ``other`` that are hardest to contrast
+    with from either side: a colour that passes a test against both passes it against every
+    colour written as ``other``'s hex (as far as the test grows with the luminance distance,
+    as the WCAG 2 ratio and APCA's Lc do)."""
+    return _edge(other, LIGHTER), _edge(other, DARKER)
+
+
 def _on_sides(rgb, others, sides) -> bool:
     return all(side(rgb, o) == s for o, s in zip(others, sides))
 
