@@ -169,6 +169,8 @@ class Planner:
         the rule that uses a custom property rather than the property itself (``narrowable``)."""
         if problem.rule not in OVERRIDE_RULES:
             return None  # advice (appearance rules): the colour suggested at the cause only
+        if problem.rule in CUE_RULES:
+            return self._cue(problem, element_selector)
         if faded(problem.worst):
             if opacity_of is None:
                 return None
@@ -225,6 +227,22 @@ class Planner:
             note = ("the colour is set by a style attribute in the page: changing it there is "
                     "better than this rule")
         return Override(file, rules, tuple(schemes), target, note)
+
+    def _cue(self, problem, element_selector=None) -> Optional[Override]:
+        """Links told apart by colour alone: underlined, on the rule that colours them (every
+        link it colours gets the same cue), else on the element."""
+        cause = problem.fg_cause
+        decl = cause.declaration if cause is not None else None
+        if decl is not None and decl.origin == "author" and decl.selector \
+                and "::" not in decl.selector:
+            selector = _SPACE.sub(" ", decl.selector.strip())
+        else:
+            selector = element_selector(problem.worst) if element_selector else None
+            if not selector:
+                return None
+        file, note = self._file(decl)
+        return Override(file, [Rule(selector, (("text-decoration-line", "underline", False),))],
+                        (), "cue", note or UNDERLINE_NOTE)
 
     def _mixed(self, problem, unfaded, element_selector, opacity_of,
                narrow=False) -> Optional[Override]:
@@ -420,7 +438,11 @@ def _first_compound(selector: str):
 # The rules whose problems get a CSS override: the WCAG 2 text ratio. The appearance rules are
 # advice (their problems keep a suggested colour at the cause); overrides for them would compete
 # with the text-ratio overrides for the same properties.
-OVERRIDE_RULES = frozenset({"TC100"})
+OVERRIDE_RULES = frozenset({"TC100", "TC120"})
+# Rules met by a cue besides colour (TC120: links in running text told apart by colour alone):
+# the override underlines them, the cue readers expect (W3C technique G183, failure F73)
+CUE_RULES = frozenset({"TC120"})
+UNDERLINE_NOTE = "an underline tells the links apart from the text around them without colour"
 
 
 def narrowable(problem, side: str = "fg") -> bool:

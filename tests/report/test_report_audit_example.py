@@ -125,3 +125,16 @@ def test_distribution_equals_a_full_walk(reports):
     a = summarise(fast.pages, fast.findings).ratios
     b = summarise(full.pages, full.findings).ratios
     assert a == b and sum(sum(bins.values()) for bins in a.values()) > 1000
+
+
+def test_links_told_apart_by_colour_alone_are_fixed_by_an_underline(reports):
+    # TC120 is met by a cue besides colour, not by a colour change (W3C technique G183): its
+    # problems give the underline the check verified, never "change both colours"
+    doc = lxml.html.document_fromstring(reports["html"])
+    links = doc.xpath("//article[@class='problem'][@data-rule='TC120']")
+    assert links  # the premise: the example site's links in running text
+    for article in links:
+        fix = " ".join(article.xpath(".//dt[.='Fix at the cause']/following-sibling::dd[1]"
+                                     "//text()"))
+        assert "underline the links" in fix and "text-decoration-line: underline" in fix
+        assert "change both colours" not in fix

@@ -386,10 +386,29 @@ class HtmlFormatter(Formatter):
         if lines:  # (the row's heading says "Fix at the cause")
             lines[0] = lines[0].removeprefix("fix at the cause: ")
         if not lines:
+            cue = self.cue_fix(p)
+            if cue:
+                return cue
             other = m.fixes(worst)
             return e(f"for this occurrence: {other}" if other else "no single-colour change "
                      "reaches the ratio; change both colours")
         return "<br>".join(prose(line.strip()) for line in lines)
+
+    def cue_fix(self, p) -> str:
+        """A rule met by a cue besides colour (TC120): the override that underlines the links
+        when there is one, else the rule's own advice; "" for the other rules."""
+        from tinctura.overrides import CUE_RULES
+
+        if p.rule not in CUE_RULES:
+            return ""
+        override = getattr(p, "override", None)
+        if override is not None:
+            checked = "checked again with it applied: it passes" if override.verified else \
+                "not verified: the check still fails with it"
+            return (e(f"underline the links: add to {override.where} ({checked}): ")
+                    + f"<code>{e(override.compact())}</code>")
+        rule = self.rule(p.rule)
+        return e(rule.docs.fix) if rule is not None else ""
 
     def occurrences(self, p) -> str:
         chosen = examples(p.example_pool(), p.worst)[:EXAMPLE_ROWS]
