@@ -260,6 +260,21 @@ nav:
 ADVICE = ("TC200", "TC400", "TC500")  # APCA, deficiency and viewing rules: no override
 
 
+def accent_site(root: Path, code: str = "", extensions: str = "") -> tuple:
+    """A two-page manual on ACCENT, with a stylesheet of the writer's own (``code``: more of
+    the second page; ``extensions``: more of mkdocs.yml); ``(that stylesheet, mkdocs.yml)``."""
+    docs = root / "docs"
+    (docs / "stylesheets").mkdir(parents=True)
+    (docs / "index.md").write_text("# Lock gates\n\nOpen the [upper gate](gates.md) only when "
+                                   "the levels match.\n")
+    (docs / "gates.md").write_text("# Gates\n\nThe lower gate closes first.\n" + code)
+    extra = docs / "stylesheets" / "extra.css"
+    extra.write_text(".md-typeset p { margin: 0 0 1em; }\n")
+    config = root / "mkdocs.yml"
+    config.write_text(ACCENT + extensions)
+    return extra, config
+
+
 @pytest.mark.slow
 def test_advice_fixes_in_the_writers_stylesheet_settle_their_problems(tmp_path):
     # mkdocs-material's deep purple accent passes WCAG 2 when hovered on white but not the
@@ -268,15 +283,7 @@ def test_advice_fixes_in_the_writers_stylesheet_settle_their_problems(tmp_path):
     # declaration: the first problem's, whose value settles the later ones), the next check
     # finds none of those problems left. The pass or fail comes from the rules' formulas
     # (APCA: tests/colour/test_apca.py; Machado 2009: tests/colour/test_cvd.py).
-    docs = tmp_path / "docs"
-    (docs / "stylesheets").mkdir(parents=True)
-    (docs / "index.md").write_text("# Lock gates\n\nOpen the [upper gate](gates.md) only when "
-                                   "the levels match.\n")
-    (docs / "gates.md").write_text("# Gates\n\nThe lower gate closes first.\n")
-    extra = docs / "stylesheets" / "extra.css"
-    extra.write_text(".md-typeset p { margin: 0 0 1em; }\n")
-    config = tmp_path / "mkdocs.yml"
-    config.write_text(ACCENT)
+    extra, config = accent_site(tmp_path)
     doc, _ = json_report(mkdocs_build(config, tmp_path / "site"), config)
     problems = doc["problems"]
     own = [(n, p) for n, p in enumerate(problems, 1)
@@ -317,18 +324,11 @@ def test_an_advice_value_for_a_property_a_checked_fix_sets_goes_into_that_rule(t
     # that problem gets a checked override of the accent. The advice rules' value for the
     # same accent is then offered for the override's rule (shared_with); written there
     # instead of the override's own value, the next check finds neither problem.
-    docs = tmp_path / "docs"
-    (docs / "stylesheets").mkdir(parents=True)
-    (docs / "index.md").write_text("# Lock gates\n\nOpen the [upper gate](gates.md) only when "
-                                   "the levels match.\n")
-    (docs / "gates.md").write_text("# Gates\n\nThe lower gate closes first.\n\n```python\n"
-                                   "open_gate(\"upper\")\nwait(30)\n```\n")
-    extra = docs / "stylesheets" / "extra.css"
-    extra.write_text(".md-typeset p { margin: 0 0 1em; }\n")
-    config = tmp_path / "mkdocs.yml"
-    config.write_text(ACCENT + "markdown_extensions:\n  - pymdownx.highlight:\n"
-                      "      anchor_linenums: true\n      linenums: true\n"
-                      "  - pymdownx.superfences\n")
+    extra, config = accent_site(
+        tmp_path, code="\n```python\nopen_gate(\"upper\")\nwait(30)\n```\n",
+        extensions="markdown_extensions:\n  - pymdownx.highlight:\n"
+                   "      anchor_linenums: true\n      linenums: true\n"
+                   "  - pymdownx.superfences\n")
     doc, _ = json_report(mkdocs_build(config, tmp_path / "site"), config)
     problems = doc["problems"]
     checked = [n for n, p in enumerate(problems, 1) if p["rule"] == "TC100"

@@ -519,22 +519,12 @@ def passing(problem):
     return AllOf(tests)
 
 
-class AtLeast:
-    """The WCAG 2 ratio alone as a pass test (TC100's, beside the other rules' in ``AllOf``)."""
+def ratio_test(required: float):
+    """The WCAG 2 ratio alone as a pass test: the rules' own ``Requirement`` with nothing
+    more (TC100's, beside the other rules' tests in ``AllOf``)."""
+    from tinctura.rules.perception import Requirement
 
-    __slots__ = ("ratio",)
-
-    def __init__(self, ratio: float):
-        self.ratio = ratio
-
-    def __call__(self, text, background) -> bool:
-        return wcag.contrast_ratio(text, background) >= self.ratio
-
-    def __eq__(self, other):
-        return isinstance(other, AtLeast) and other.ratio == self.ratio
-
-    def __hash__(self):
-        return hash(("at least", self.ratio))
+    return Requirement(required)
 
 
 class AllOf:
@@ -598,7 +588,7 @@ def joined(problems) -> None:
             continue
         if any(all(passes(f.colour, q) for _, q in group) for f in fixes):
             continue  # one of them serves all: ``settled`` says so
-        tests = tuple(dict.fromkeys(passing(q) or AtLeast(q.required) for _, q in group))
+        tests = tuple(dict.fromkeys(passing(q) or ratio_test(q.required) for _, q in group))
         backgrounds = tuple(sorted({bg for f in fixes for bg in f.backgrounds},
                                    key=wcag.relative_luminance))
         worst = group[0][1].worst
@@ -641,7 +631,7 @@ def passes(colour, problem) -> bool:
     """Whether text ``colour`` meets ``problem``'s requirement on every background its fix
     at the cause considered (those of its worst text where it has no such fix), anywhere in
     each one's hex (``_nearest``)."""
-    test = passing(problem) or AtLeast(problem.required)
+    test = passing(problem) or ratio_test(problem.required)
     fix = problem.fix_at_cause
     backgrounds = fix.backgrounds if fix is not None else (tuple(problem.worst.sample.bg)[:3],)
     return all(test(colour, e) for bg in backgrounds for e in suggest.hex_cell_edges(bg))
