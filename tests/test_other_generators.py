@@ -32,3 +32,31 @@ def test_sphinx_furo_schemes_and_planted_fault(sphinx_site):
     assert [(f.sample.scheme, to_hex(f.sample.fg)) for f in faint if f.sample.scheme == "light"] \
         == [("light", "#aaaaaa")]
     assert not any(d.severity == "error" for p in report.pages for d in p.diagnostics)
+
+
+def test_sphinx_fixes_go_into_the_writers_stylesheet_not_the_themes(sphinx_site, tmp_path):
+    # The site lists its own _static/lamp.css (html_css_files); furo writes its stylesheets to
+    # _static/styles/ and Sphinx its _static/pygments.css, which every build writes again.
+    # Fixes go into lamp.css: checked overrides, and the advice rules' values for furo's
+    # declarations; a declaration of lamp.css itself is changed where it is.
+    import io
+    import json
+
+    from tinctura.cli import main
+
+    out = io.StringIO()
+    status = main(["check", str(sphinx_site), "--fail-on", "never", "--format", "json",
+                   "--write-fixes", str(tmp_path / "fixes.css")], stdout=out,
+                  stderr=(err := io.StringIO()))
+    assert status == 0, err.getvalue()
+    problems = json.loads(out.getvalue())["problems"]
+    overrides = [p["fix"]["file"] for p in problems if p["fix"]]
+    advice = [p["fix_at_cause"] for p in problems if (p["fix_at_cause"] or {}).get("own_css")]
+    themes = {f["declaration"]["sheet"] for f in advice}
+    assert overrides and set(overrides) == {"_static/lamp.css"}
+    assert {"_static/styles/furo.css", "_static/pygments.css"} <= themes
+    assert {f["own_css"]["file"] for f in advice} == {"_static/lamp.css"}
+    lamp = [p for p in problems if p["rule"] == "TC100"
+            and (p["fix_at_cause"] or {}).get("declaration", {}).get("sheet") == "_static/lamp.css"]
+    assert lamp and not lamp[0]["fix_at_cause"].get("own_css")  # edited in place
+    assert "html_css_files" in err.getvalue() and "mkdocs.yml" not in err.getvalue()

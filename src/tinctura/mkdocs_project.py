@@ -14,7 +14,16 @@ from dataclasses import dataclass, field
 _HASHED = re.compile(r"\.[0-9a-f]{6,}(\.min)?\.css$", re.I)
 # asset folders of the themes MkDocs ships or commonly installs (mkdocs, readthedocs, material)
 _THEME_FOLDERS = ("assets/stylesheets/", "assets/javascripts/", "css/theme", "css/base.css",
-                  "css/bootstrap", "css/fontawesome", "css/brands", "css/solid", "css/v4-")
+                  "css/bootstrap", "css/fontawesome", "css/brands", "css/solid", "css/v4-",
+                  # Sphinx: its own files, the folder furo, pydata and the book theme write
+                  # theirs to, sphinx_rtd_theme's two (names recalled from Sphinx 7-9 builds;
+                  # furo's checked on tests/data/sphinx_site)
+                  "_static/styles/", "_static/css/theme.css", "_static/css/badge_only.css",
+                  "_static/basic.css", "_static/pygments.css", "_static/skeleton.css",
+                  "_static/debug.css", "_static/copybutton.css", "_static/graphviz.css")
+# Sphinx's built-in themes write _static/<theme>.css
+_SPHINX_THEMES = frozenset("""alabaster classic default nature sphinxdoc pyramid haiku scrolls
+    agogo bizstyle traditional epub nonav""".split())
 
 
 @dataclass
@@ -53,6 +62,8 @@ def owned(sheet: str, project: Project | None = None) -> bool:
         return sheet in project.extra_css or sheet in project.static
     name = sheet.lower()
     if _HASHED.search(name) or name.endswith(".min.css"):
+        return False
+    if name.startswith("_static/") and name[len("_static/"):-len(".css")] in _SPHINX_THEMES:
         return False
     return not any(name.startswith(folder) for folder in _THEME_FOLDERS)
 

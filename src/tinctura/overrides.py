@@ -28,6 +28,7 @@ from tinctura.problems import _quantize, faded, target_declaration
 from tinctura.situations import slot as slot_of
 
 DEFAULT_FILE = "stylesheets/colour-fixes.css"  # when the site has no stylesheet of its own
+SPHINX_FILE = "_static/colour-fixes.css"  # the same, on a site Sphinx built
 _COLOUR_PROPS = ("background-color", "background")
 _SPACE = re.compile(r"\s+")
 
@@ -111,6 +112,8 @@ class Planner:
         if project is not None and project.extra_css:
             own = [s for s in project.extra_css if s.endswith(".css")] or own
         self.last_own = own[-1] if own else None
+        # a site Sphinx built (its stylesheets in _static/): a new file goes there
+        self.sphinx = any(s.startswith("_static/") for s in sheet_order)
 
     # -- scopes ---------------------------------------------------------------------------
 
@@ -360,6 +363,9 @@ class Planner:
             return decl.sheet, ""
         if self.last_own:
             return self.last_own, ""
+        if self.project is None and self.sphinx:
+            return SPHINX_FILE, ("a new stylesheet: copy it to a folder of html_static_path and "
+                                 "list it in html_css_files in conf.py")
         return DEFAULT_FILE, "a new stylesheet: add it last to extra_css in mkdocs.yml"
 
 

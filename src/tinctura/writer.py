@@ -271,11 +271,15 @@ def write_fixes(path: str, problems, project=None) -> tuple:
               "   them applied. Automated checks cover only part of WCAG: review the result. */\n\n")
     with open(path, "w", encoding="utf-8") as fh:
         fh.write(header + css)
-    return len(chosen), how_to_add(path, project)
+    sphinx = project is None and any(o.file.startswith("_static/") for o in chosen)
+    return len(chosen), how_to_add(path, project, sphinx)
 
 
-def how_to_add(path: str, project=None) -> str:
+def how_to_add(path: str, project=None, sphinx: bool = False) -> str:
     name = os.path.basename(path)
+    if sphinx:  # a site Sphinx built (``overrides.Planner.sphinx``)
+        return (f"Copy it into a folder listed in html_static_path in conf.py and add "
+                f"{name!r} last to html_css_files there.")
     target = f"stylesheets/{name}"
     if project is not None and project.docs_dir:
         absolute = os.path.abspath(path)
