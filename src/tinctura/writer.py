@@ -263,11 +263,12 @@ def _met_on(problem) -> set:
 
 def write_fixes(path: str, problems, project=None) -> tuple:
     """Write every verified override into one stylesheet; returns (count written, how to add
-    it to mkdocs.yml)."""
+    it to the site: mkdocs.yml, or conf.py for a site Sphinx built)."""
     chosen = [p.override for p in problems
               if getattr(p, "override", None) is not None and p.override.verified]
     css = overrides_mod.combined_css(chosen)
-    header = ("/* Colour fixes suggested by tinctura and verified by checking the site again with\n"
+    header = ("/* Fixes suggested by tinctura (colours, and underlines for links told apart by\n"
+              "   colour alone) and verified by checking the site again with\n"
               "   them applied. Automated checks cover only part of WCAG: review the result. */\n\n")
     with open(path, "w", encoding="utf-8") as fh:
         fh.write(header + css)
