@@ -21,6 +21,7 @@ _THEME_FOLDERS = ("assets/stylesheets/", "assets/javascripts/", "css/theme", "cs
                   "_static/styles/", "_static/css/theme.css", "_static/css/badge_only.css",
                   "_static/basic.css", "_static/pygments.css", "_static/skeleton.css",
                   "_static/debug.css", "_static/copybutton.css", "_static/graphviz.css")
+SPHINX_STATIC = "_static/"  # where Sphinx copies its, its theme's and the writer's files
 # Sphinx's built-in themes write _static/<theme>.css
 _SPHINX_THEMES = frozenset("""alabaster classic default nature sphinxdoc pyramid haiku scrolls
     agogo bizstyle traditional epub nonav""".split())
@@ -63,9 +64,14 @@ def owned(sheet: str, project: Project | None = None) -> bool:
     name = sheet.lower()
     if _HASHED.search(name) or name.endswith(".min.css"):
         return False
-    if name.startswith("_static/") and name[len("_static/"):-len(".css")] in _SPHINX_THEMES:
+    if sphinx_sheet(name) and name[len(SPHINX_STATIC):].removesuffix(".css") in _SPHINX_THEMES:
         return False
     return not any(name.startswith(folder) for folder in _THEME_FOLDERS)
+
+
+def sphinx_sheet(sheet: str) -> bool:
+    """Whether a stylesheet (site-relative) lies where Sphinx puts a site's static files."""
+    return sheet.startswith(SPHINX_STATIC)
 
 
 def from_mkdocs_config(config) -> Project:

@@ -22,7 +22,7 @@ from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
 from tinctura.colour.parse import parse_color
 from tinctura.cyclic_gc import no_collections
-from tinctura.mkdocs_project import owned
+from tinctura.mkdocs_project import owned, sphinx_sheet
 from tinctura.model import REST
 from tinctura.problems import _quantize, faded, target_declaration
 from tinctura.situations import slot as slot_of
@@ -41,16 +41,16 @@ class Rule:
     declarations: tuple  # ((property, value, important), ...)
     media: str = ""  # "(prefers-color-scheme: dark)" or ""
 
+    def _declared(self) -> list:
+        return [f"{p}: {v}{' !important' if imp else ''};" for p, v, imp in self.declarations]
+
     def compact(self) -> str:
         """The rule on one line, for a sentence."""
-        body = " ".join(f"{p}: {v}{' !important' if imp else ''};" for p, v, imp in
-                        self.declarations)
-        rule = f"{self.selector} {{ {body} }}"
+        rule = f"{self.selector} {{ {' '.join(self._declared())} }}"
         return f"@media {self.media} {{ {rule} }}" if self.media else rule
 
     def css(self) -> str:
-        body = "".join(f"  {p}: {v}{' !important' if imp else ''};\n"
-                       for p, v, imp in self.declarations)
+        body = "".join(f"  {d}\n" for d in self._declared())
         rule = f"{self.selector} {{\n{body}}}\n"
         if not self.media:
             return rule
@@ -113,7 +113,7 @@ class Planner:
             own = [s for s in project.extra_css if s.endswith(".css")] or own
         self.last_own = own[-1] if own else None
         # a site Sphinx built (its stylesheets in _static/): a new file goes there
-        self.sphinx = any(s.startswith("_static/") for s in sheet_order)
+        self.sphinx = any(map(sphinx_sheet, sheet_order))
 
     # -- scopes ---------------------------------------------------------------------------
 

@@ -15,7 +15,7 @@ from typing import Optional
 from tinctura import overrides as overrides_mod
 from tinctura import problems as problems_mod
 from tinctura.locator import Pages, by_style, landmarks, pseudo, readable, selector
-from tinctura.mkdocs_project import owned
+from tinctura.mkdocs_project import owned, sphinx_sheet
 from tinctura.sourcemap import Source, SourceMap
 
 
@@ -272,7 +272,7 @@ def write_fixes(path: str, problems, project=None) -> tuple:
               "   them applied. Automated checks cover only part of WCAG: review the result. */\n\n")
     with open(path, "w", encoding="utf-8") as fh:
         fh.write(header + css)
-    sphinx = project is None and any(o.file.startswith("_static/") for o in chosen)
+    sphinx = project is None and any(sphinx_sheet(o.file) for o in chosen)
     return len(chosen), how_to_add(path, project, sphinx)
 
 
