@@ -31,7 +31,7 @@ from tinctura.report.scope import scope_of
 from tinctura.report.status import at_or_above
 from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
-from tinctura.report.text_report import (problem_lines, sentence_of, summary_line,
+from tinctura.report.text_report import (EXAMPLES, problem_lines, sentence_of, summary_line,
                                          terminal_width, wrapped)
 from tinctura.writer import WriterAid
 
@@ -494,11 +494,16 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         numbered = numbers if numbers is not None else \
             {id(p): n for n, p in enumerate(found, 1)}
         several = len(numbered) > 1
+        detail, briefed = self.config.log_detail, False
         for problem in found:
             level = logging.INFO if problem.severity == "info" else logging.WARNING
             if log.isEnabledFor(level):  # (`mkdocs build -q`: each line would be dropped)
                 log.log(level, label + problem_line(problem, many_schemes, locate,
-                                                    numbered.get(id(problem)) if several else 0))
+                                                    numbered.get(id(problem)) if several else 0,
+                                                    detail))
+                briefed = briefed or not is_appearance(problem.worst)
+        if briefed and not detail:
+            log.info(BRIEF_NOTE)
 
 
 class Gating:
@@ -571,15 +576,24 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
     return "\n".join(lines)
 
 
-def problem_line(problem, many_schemes: bool = False, locate=None, number: int = 0) -> str:
-    """One log message per problem: the plain sentence, where, the fix as CSS, the detail;
-    ``number``: the problem's in the build (0: not numbered)."""
+# said once after the problems when their detail was left out of the log
+BRIEF_NOTE = ("Each problem's rule, its measures and the declarations behind its colours are in "
+              "`tinctura check SITE_DIR --config mkdocs.yml` and the plugin's text report "
+              "(`report: [text:FILE]`), or in this log with `log_detail: true`.")
+
+
+def problem_line(problem, many_schemes: bool = False, locate=None, number: int = 0,
+                 detail: bool = True) -> str:
+    """One log message per problem: the plain sentence, where, the fix as CSS, the detail
+    (``detail``); ``number``: the problem's in the build (0: not numbered). A problem of
+    severity info shows one place, the others up to three."""
     if is_appearance(problem.worst):  # site-level appearance rules: entries and contexts
         return (f"{f'{number}. ' if number else ''}{problem.rule} {problem.slug}: "
                 f"{m.message(problem.worst)}\n  "
                 + "\n  ".join(appearance_lines(problem, many_schemes)))
     width = terminal_width()
-    lines = problem_lines(number, problem, locate, many_schemes)
+    lines = problem_lines(number, problem, locate, many_schemes, detail,
+                          1 if problem.severity == "info" else EXAMPLES)
     # MkDocs puts "WARNING -  tinctura: " before the first line only
     out = wrapped(0, lines[0][1], width - len("WARNING -  tinctura: "))
     for indent, text, style, wrap in lines[1:]:

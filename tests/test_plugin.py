@@ -19,7 +19,7 @@ def test_defaults():
     plugin = TincturaPlugin()
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
-                                   "viewport_width": 1280, "states": True, "log_every": False,
+                                   "viewport_width": 1280, "states": True, "log_every": False, "log_detail": False,
                                    "schemes": None, "jobs": None, "select": [], "ignore": [],
                                    "severity": {}, "allow": [], "baseline": None, "report": [], "fingerprints": False,
                                    "behaviours": (), "theme_behaviours": True,
@@ -55,6 +55,7 @@ def test_appearance_options_reach_the_engine():
     ("viewport_width", "wide", "whole number"),
     ("states", "yes", "expected true or false"),
     ("log_every", 1, "expected true or false"),
+    ("log_detail", "no", "expected true or false"),
     ("select", ["TC999"], "unknown rule 'TC999'"),
     ("severity", {"text-ratio": "fatal"}, "expected one of error, warning, info"),
     ("report", ["pdf:x.pdf"], "unknown format 'pdf'"),
@@ -140,13 +141,30 @@ def test_findings_fail_the_build(tmp_path, caplog):
     # a plain sentence first; #8a8a8a on white = 3.45:1 by the WCAG 2.2 formula
     assert warnings[0].startswith("Grey text on white is too faint: 3.45:1, needs 4.5:1.")
     assert "docs/lending.md:3 \"Return unused packets" in warnings[0]  # the Markdown line
-    assert "TC100 text-ratio" in warnings[0]
-    assert "color: #8a8a8a` at site.css:1" in warnings[0]
+    assert "Rule: TC100 text-ratio (error)" in warnings[0]  # what suppressions name
+    assert "color: #8a8a8a` at site.css:1" not in warnings[0]  # the detail: log_detail
     # the fix goes in the site's own stylesheet, and was checked
     assert "Fix: add to docs/site.css (checked again with it applied: it passes):" in warnings[0]
     assert ".muted {\n        color: #767676;\n      }" in warnings[0]
     errors = [r.getMessage() for r in caplog.records if r.levelno >= logging.ERROR]
     assert any("3 contrast findings at or above fail_on: error" in e for e in errors)
+
+
+@slow
+def test_log_detail_adds_the_rule_measures_and_causes(tmp_path, caplog):
+    caplog.set_level(logging.INFO, logger="mkdocs")
+    build(configure(make_project(tmp_path, {"fail_on": "never"})))
+    brief = messages(caplog)[0]
+    info = messages(caplog, logging.INFO)
+    assert any("`log_detail: true`" in line for line in info)  # said once, where to look
+    caplog.clear()
+    build(configure(make_project(tmp_path, {"fail_on": "never", "log_detail": True})))
+    (full,) = messages(caplog)
+    assert full.startswith(brief.split("   Rule:")[0])  # the same sentence, places and fix
+    assert "Detail:" in full and "Rule:" not in full
+    assert "ERROR TC100 text-ratio: text contrast 3.45:1 is below" in full
+    assert "color: #8a8a8a` at site.css:1" in full
+    assert not any("`log_detail: true`" in line for line in messages(caplog, logging.INFO))
 
 
 @slow

@@ -379,6 +379,9 @@ SETTINGS = (
             flag="--site-url", metavar="URL", where=FILE_AND_CLI, commands=("check", "pairs")),
     Setting("log_every", boolean, False, "one log line per occurrence, not per problem",
             where=frozenset({"plugin"})),
+    Setting("log_detail", boolean, False, "log each problem's rule, measures and the "
+            "declarations behind its colours too (they are always in the reports)",
+            where=frozenset({"plugin"})),
     Setting("select", rule_names, [], "run only these rules (codes or slugs; default: all)",
             flag="--select", metavar="RULES", parse=comma_list, many=True),
     Setting("ignore", rule_names, [], "do not run these rules (codes or slugs)",

@@ -109,6 +109,66 @@ def landmarks(el) -> list:
     return out
 
 
+def content_scope(tree, xpaths) -> str | None:
+    """A selector of one container holding the elements at ``xpaths`` (the first of them on
+    ``tree``'s page; the others at the same places of pages built from one template) and no
+    navigation (``nav``, ``role=navigation``) besides what lies among them: the widest such
+    ancestor of their nearest common one that a class, an id or ``role=main`` names alone on
+    the page. None where the page has no navigation outside them, or nothing names it."""
+    steps = [element_xpath(x).split("/") for x in xpaths]
+    common = []
+    for parts in zip(*steps):
+        if len(set(parts)) > 1:
+            break
+        common.append(parts[0])
+    found = tree.xpath("/".join(common)) if len(common) > 2 else []
+    if not found:
+        return None
+    inner = found[0]
+    around = [(n, set(n.iterancestors()))
+              for n in tree.xpath("//nav | //*[@role='navigation']")]
+    path = [inner]  # the container's candidates, innermost first
+    for parent in inner.iterancestors():
+        node = path[-1]
+        if any(parent in ups and node not in ups and n is not node for n, ups in around):
+            break
+        path.append(parent)
+    else:
+        return None  # every navigation is among the elements: nothing to keep out
+    for el in reversed(path):
+        name = _alone(tree, el)
+        if name:
+            return name
+    return None
+
+
+def _alone(tree, el) -> str | None:
+    """A selector naming ``el`` and no other element of ``tree``."""
+    ident = el.get("id")
+    candidates = [f"#{ident}"] if ident and _IDENT.match(ident) else []
+    candidates += [f".{c}" for c in (el.get("class") or "").split()
+                   if _IDENT.match(c) and not _NOISE.match(c)]
+    if el.get("role") == "main":
+        candidates.append('[role="main"]')
+    if el.tag in ("main", "article"):
+        candidates.append(el.tag)
+    for name in candidates:
+        if _count(tree, name) == 1:
+            return name
+    return None
+
+
+def _count(tree, name: str) -> int:
+    if name.startswith("#"):
+        return len(tree.xpath("//*[@id=$v]", v=name[1:]))
+    if name.startswith("."):
+        return len(tree.xpath("//*[contains(concat(' ', normalize-space(@class), ' '), $v)]",
+                              v=f" {name[1:]} "))
+    if name.startswith("["):
+        return len(tree.xpath("//*[@role='main']"))
+    return len(tree.xpath(f"//{name}"))
+
+
 class Pages:
     """Built pages parsed on demand, the last few kept."""
 

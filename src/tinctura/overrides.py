@@ -73,6 +73,7 @@ class Override:
     # (normalized selector, property) -> selectors of the rules whose elements it took over
     # (``recheck``): planned again without them (``excluding``)
     took_over: dict = field(default_factory=dict)
+    within: str = ""  # the container an underline was limited to (``Planner._cue``), if any
 
     def keys(self) -> set:
         """What it sets: (media, selector, property, value) for every declaration."""
@@ -114,6 +115,10 @@ class Planner:
         self.last_own = own[-1] if own else None
         # a site Sphinx built (its stylesheets in _static/): a new file goes there
         self.sphinx = any(map(sphinx_sheet, sheet_order))
+        # TC120's underlines: declaration_key -> the container to limit a page-wide rule to
+        # (``WriterAid.cue_scopes``); the keys whose limited rule failed its check
+        self.cue_scopes: dict = {}
+        self.unscoped: set = set()
 
     # -- scopes ---------------------------------------------------------------------------
 
@@ -233,19 +238,29 @@ class Planner:
 
     def _cue(self, problem, element_selector=None) -> Optional[Override]:
         """Links told apart by colour alone: underlined, on the rule that colours them (every
-        link it colours gets the same cue), else on the element."""
+        link it colours gets the same cue), else on the element. A rule for every link of the
+        page (``a``) is limited to the container of the failing ones that keeps the site's
+        menus out (``cue_scopes``), unless that failed its check (``unscoped``)."""
         cause = problem.fg_cause
         decl = cause.declaration if cause is not None else None
+        within = ""
         if decl is not None and decl.origin == "author" and decl.selector \
                 and "::" not in decl.selector:
             selector = _SPACE.sub(" ", decl.selector.strip())
+            key = declaration_key(decl)
+            within = self.cue_scopes.get(key, "") if key not in self.unscoped else ""
+            if within:
+                selector = ", ".join(f"{within} {part.strip()}" for part in selector.split(","))
         else:
             selector = element_selector(problem.worst) if element_selector else None
             if not selector:
                 return None
         file, note = self._file(decl)
+        if not note:
+            note = UNDERLINE_NOTE + (f", within `{within}` only: the menus outside it keep "
+                                     f"their look" if within else "")
         return Override(file, [Rule(selector, (("text-decoration-line", "underline", False),))],
-                        (), "cue", note or UNDERLINE_NOTE)
+                        (), "cue", note, within=within)
 
     def _mixed(self, problem, unfaded, element_selector, opacity_of,
                narrow=False) -> Optional[Override]:
@@ -449,6 +464,18 @@ OVERRIDE_RULES = frozenset({"TC100", "TC120"})
 # the override underlines them, the cue readers expect (W3C technique G183, failure F73)
 CUE_RULES = frozenset({"TC120"})
 UNDERLINE_NOTE = "an underline tells the links apart from the text around them without colour"
+_COMBINATOR = re.compile(r"[\s>+~]")
+
+
+def page_wide(selector: str) -> bool:
+    """Whether each selector of a list is one compound (``a``, ``a:link``): it reaches every
+    link of the page, menus too."""
+    parts = [part.strip() for part in (selector or "").split(",")]
+    return all(part and not _COMBINATOR.search(part) for part in parts)
+
+
+def declaration_key(decl) -> tuple:
+    return (decl.sheet, decl.line, decl.column, decl.property)
 
 
 def narrowable(problem, side: str = "fg") -> bool:

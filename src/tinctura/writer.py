@@ -14,7 +14,8 @@ from typing import Optional
 
 from tinctura import overrides as overrides_mod
 from tinctura import problems as problems_mod
-from tinctura.locator import Pages, by_style, landmarks, pseudo, readable, selector
+from tinctura.locator import (Pages, by_style, content_scope, landmarks, pseudo, readable,
+                              selector)
 from tinctura.mkdocs_project import owned, sphinx_sheet
 from tinctura.sourcemap import Source, SourceMap
 
@@ -134,6 +135,7 @@ class WriterAid:
         planner = overrides_mod.Planner(schemes, self.project,
                                         self.sheet_order(first) if first else ())
         self._options = options
+        planner.cue_scopes = self.cue_scopes(problems)
         narrow: frozenset = frozenset()
         exclude: dict = {}
         for _ in range(NARROWING_ROUNDS + 1):
@@ -151,7 +153,9 @@ class WriterAid:
                                           verification_pages(problems), loader, cache, helper)
             again = narrow | _to_narrow(problems, planned)
             more = _gather_taken(planned, exclude)
-            if again == narrow and not more:
+            wider = _to_widen(problems, planned) - planner.unscoped
+            planner.unscoped |= wider
+            if again == narrow and not more and not wider:
                 break
             narrow = again
         problems_mod.joined(problems)  # one value per declaration, before it is written
@@ -163,6 +167,27 @@ class WriterAid:
         problems_mod.settled(problems)  # (once the overrides are known: theirs come first)
         return counts
 
+
+    def cue_scopes(self, problems) -> dict:
+        """For each rule colouring every link of a page (``a``) that TC120 would underline:
+        the container of its failing links that keeps the site's menus out
+        (``locator.content_scope``), found over its problems' examples."""
+        found: dict = {}
+        for p in problems:
+            d = p.fg_cause.declaration if p.rule in overrides_mod.CUE_RULES and \
+                p.fg_cause is not None else None
+            if d is None or d.origin != "author" or not overrides_mod.page_wide(d.selector):
+                continue
+            found.setdefault(overrides_mod.declaration_key(d), []).extend(
+                f.sample for f in [p.worst, *p.example_pool()])
+        scopes = {}
+        for key, samples in found.items():
+            tree = self.pages.tree(samples[0].page)
+            within = content_scope(tree, [s.xpath for s in samples]) if tree is not None \
+                else None
+            if within:
+                scopes[key] = within
+        return scopes
 
     def show_fix_sources(self, problems) -> None:
         """Each fix at the cause in a stylesheet of the writer's names its source (``docs/
@@ -187,6 +212,14 @@ def _to_narrow(problems, planned) -> frozenset:
     return frozenset(n for n, (p, o) in enumerate(zip(problems, planned))
                      if o is not None and o.verified is False
                      and (overrides_mod.narrowable(p) or overrides_mod.narrowable(p, "bg")))
+
+
+def _to_widen(problems, planned) -> set:
+    """The declarations whose underline, limited to a container, failed its check: planned
+    once more on the whole rule."""
+    return {overrides_mod.declaration_key(p.fg_cause.declaration)
+            for p, o in zip(problems, planned)
+            if o is not None and o.within and o.verified is False}
 
 
 def _gather_taken(planned, exclude: dict) -> bool:

@@ -71,7 +71,7 @@ for (const td of document.querySelectorAll('table td')) {
     el = el.parentElement;
   }
   // the computed colour (alpha left out; compared with tinctura's computed colour)
-  const c = getComputedStyle(td).color.match(/[\d.]+/g).slice(0, 3).map(Number);
+  const c = getComputedStyle(td).color.match(/[\\d.]+/g).slice(0, 3).map(Number);
   const hex = '#' + c.map(v => Math.round(v).toString(16).padStart(2, '0')).join('');
   out.push([td.textContent.trim(), path, Math.round(r.left + 2), Math.round(r.top + 2), hex]);
 }

@@ -72,6 +72,20 @@ def test_problems_lead_largest_first():
     ])
 
 
+def test_brief_lines_keep_the_sentence_places_fix_and_rule_code():
+    """The plugin's log form: fewer places, the rule's code for suppressions, no detail."""
+    from tinctura.report.text_report import problem_lines
+
+    samples = site_samples()
+    (problem,) = group(run(samples, Options()), samples)
+    lines = [text for _, text, _, _ in problem_lines(1, problem, detail=False, most=1)]
+    assert lines[0] == "1. Grey text on white is too faint: 4.47:1, needs 4.5:1."
+    assert lines[1].startswith("Where: guide/p0.html:10 ")
+    assert lines[2] == "       and 4 more occurrences on 2 pages"
+    assert lines[3].startswith("Fix: set `--muted` at assets/site.css:3 to #767676")
+    assert lines[4:] == ["Rule: TC100 text-ratio (error)"]
+
+
 def test_lines_are_wrapped_at_the_terminal_width(monkeypatch):
     monkeypatch.setenv("COLUMNS", "64")
     text, _ = report(site_samples())

@@ -299,19 +299,25 @@ def wrapped(indent: int, text: str, width: int, hang: int = 2) -> list:
                          break_on_hyphens=False) or [lead]
 
 
-def problem_lines(index, problem, locate=None, many_schemes: bool = False) -> list:
+def problem_lines(index, problem, locate=None, many_schemes: bool = False, detail: bool = True,
+                  most: int = EXAMPLES) -> list:
     """A problem for a writer: ``(indent, text, style, wrap)`` lines. The plain sentence first,
-    then where it is, then the fix as the site's own CSS, then the technical detail."""
+    then where it is (up to ``most`` places), then the fix as the site's own CSS, then the
+    technical detail (unless ``detail`` is false)."""
     worst = problem.worst
     lead = f"{index}. " if index else ""
     out = [(0, lead + sentence_of(problem, locate, many_schemes), "bold", True)]
-    for n, place in enumerate(places := example_places(problem, locate, many_schemes)):
+    places = example_places(problem, locate, many_schemes, most)
+    for n, place in enumerate(places):
         out.append((1, f"{'Where:' if n == 0 else '      '} {place}", None, True))
     rest = problem.occurrences - len(places)
     if rest:
         pages = f" on {m.plural(problem.pages, 'page')}" if problem.pages > 1 else ""
         out.append((1, f"       and {m.plural(rest, 'more occurrence')}{pages}", "dim", True))
     out += fix_lines(problem)
+    if not detail:  # the rule's code still: suppressions and severities name it
+        return out + [(1, f"Rule: {problem.rule} {problem.slug} ({problem.severity})", "dim",
+                       True)]
     out.append((1, "Detail:", "dim", True))
     fg, bg = m.finding_colours(worst)
     out.append((2, f"{problem.severity} {problem.rule} {problem.slug}: {m.message(worst)}",
@@ -342,14 +348,15 @@ def sentence_of(problem, locate=None, many_schemes: bool = False) -> str:
     return plain.sentence(problem, locate(worst.sample), many_schemes, others)
 
 
-def example_places(problem, locate=None, many_schemes: bool = False) -> list:
-    """Up to EXAMPLES places of a problem's occurrences, each once as the writer reads it:
+def example_places(problem, locate=None, many_schemes: bool = False,
+                   most: int = EXAMPLES) -> list:
+    """Up to ``most`` places of a problem's occurrences, each once as the writer reads it:
     pages built from one theme template share the template's place, so candidates beyond
-    the first EXAMPLES are tried for other places."""
+    the first ``most`` are tried for other places."""
     places = {}
-    for f in examples(problem.example_pool(), problem.worst, 4 * EXAMPLES):
+    for f in examples(problem.example_pool(), problem.worst, 4 * most):
         places.setdefault(example_place(f, locate, many_schemes))
-        if len(places) == EXAMPLES:
+        if len(places) == most:
             break
     return list(places)
 
