@@ -567,6 +567,15 @@ def page_matches(page: str, patterns) -> bool:
 # -- the command line --------------------------------------------------------------------------
 
 
+def _default_shown(value) -> str:
+    """A default as a user would type it: on/off, a comma list; "" for none (left out)."""
+    if isinstance(value, bool):
+        return "on" if value else "off"
+    if isinstance(value, (list, tuple)):
+        return ",".join(map(str, value))
+    return "" if value is None or value == {} else str(value)
+
+
 def add_flags(parser, command: str) -> None:
     """One flag per setting that has one on ``command``; absent flags leave no attribute."""
     import argparse
@@ -574,8 +583,8 @@ def add_flags(parser, command: str) -> None:
     for s in SETTINGS:
         if s.flag is None or "cli" not in s.where or command not in s.commands:
             continue
-        shown = s.default if s.default not in (None, [], {}) else None
-        help_text = s.help + (f" (default {shown})" if shown is not None else "")
+        shown = _default_shown(s.default)
+        help_text = s.help + (f" (default {shown})" if shown else "")
         if s.name == "report":
             from tinctura import report
 
