@@ -284,7 +284,9 @@ def test_advice_fixes_in_the_writers_stylesheet_settle_their_problems(tmp_path):
     # finds none of those problems left. The pass or fail comes from the rules' formulas
     # (APCA: tests/colour/test_apca.py; Machado 2009: tests/colour/test_cvd.py).
     extra, config = accent_site(tmp_path)
-    doc, _ = json_report(mkdocs_build(config, tmp_path / "site"), config)
+    written = tmp_path / "fixes.css"
+    doc, err = json_report(mkdocs_build(config, tmp_path / "site"), config,
+                           "--write-fixes", written)
     problems = doc["problems"]
     own = [(n, p) for n, p in enumerate(problems, 1)
            if (p["fix_at_cause"] or {}).get("own_css")]
@@ -304,6 +306,11 @@ def test_advice_fixes_in_the_writers_stylesheet_settle_their_problems(tmp_path):
         applied.append(fix["own_css"]["css"])
         fixed |= {n, *fix.get("settles", ())}
     assert set(accent) <= fixed
+    # --write-fixes gives the same rules, commented out (not checked again) and numbered
+    commented = re.findall(r"/\* (\d+)\. TC\d+ [a-z-]+(?:, settles [\d, ]+ too)?:\n(.*?)\*/",
+                           written.read_text(), re.S)
+    assert [css for _, css in commented] == applied
+    assert f"{len(applied)} advice values for the theme's colours commented out" in err
     extra.write_text(extra.read_text() + "".join(applied))
     after, _ = json_report(mkdocs_build(config, tmp_path / "site2"), config)
 

@@ -504,7 +504,7 @@ def report_written_fixes(path: str, found, project, stderr) -> None:
     from tinctura.writer import write_fixes
 
     try:
-        count, how = write_fixes(path, found, project)
+        count, advice, how = write_fixes(path, found, project)
     except OSError as exc:
         raise UsageError(f"{path}: cannot write: {exc.strerror or exc}") from None
     skipped = sum(1 for p in found if getattr(p, "override", None) is not None
@@ -514,6 +514,9 @@ def report_written_fixes(path: str, found, project, stderr) -> None:
     if skipped or none:
         stderr.write(f" ({skipped} not verified and {none} without a fix left out: "
                      f"see the report)")
+    if advice:
+        stderr.write(f", and {m.plural(advice, 'advice value')} for the theme's colours "
+                     f"commented out (not checked again)")
     stderr.write(f".\n{how}\n")
 
 

@@ -295,18 +295,46 @@ def _met_on(problem) -> set:
 
 
 def write_fixes(path: str, problems, project=None) -> tuple:
-    """Write every verified override into one stylesheet; returns (count written, how to add
-    it to the site: mkdocs.yml, or conf.py for a site Sphinx built)."""
+    """Write every verified override into one stylesheet, then the advice rules' values for
+    the theme's declarations (``CauseFix.own_css``) commented out: they were not checked
+    again. Returns (overrides written, advice values written, how to add the file to the
+    site: mkdocs.yml, or conf.py for a site Sphinx built)."""
     chosen = [p.override for p in problems
               if getattr(p, "override", None) is not None and p.override.verified]
     css = overrides_mod.combined_css(chosen)
     header = ("/* Fixes suggested by tinctura (colours, and underlines for links told apart by\n"
               "   colour alone) and verified by checking the site again with\n"
               "   them applied. Automated checks cover only part of WCAG: review the result. */\n\n")
+    advice = _advice_css(problems)
     with open(path, "w", encoding="utf-8") as fh:
-        fh.write(header + css)
+        fh.write(header + css + ("\n" + ADVICE_HEADER + "\n".join(advice) if advice else ""))
     sphinx = project is None and any(sphinx_sheet(o.file) for o in chosen)
-    return len(chosen), how_to_add(path, project, sphinx)
+    return len(chosen), len(advice), how_to_add(path, project, sphinx)
+
+
+ADVICE_HEADER = ("/* Advice beyond WCAG 2 (APCA lightness contrast, colour-vision deficiency,\n"
+                 "   daylight viewing): values for the theme's colours that pass each problem's\n"
+                 "   own test on the colours measured, NOT checked again on the site. They are\n"
+                 "   commented out: remove the comment marks around those you accept, then\n"
+                 "   check the site again. Numbers are the report's problems. */\n\n")
+
+
+def _advice_css(problems) -> list:
+    """One commented rule per declaration with an ``own_css`` (the first problem's: its
+    value settles the later ones it names, ``CauseFix.settles``), in report order."""
+    out, settled = [], set()
+    for n, p in enumerate(problems, 1):
+        fix = getattr(p, "fix_at_cause", None)
+        own = getattr(fix, "own_css", None)
+        if own is None or n in settled:
+            continue
+        settled |= {n, *getattr(fix, "settles", ())}
+        rules = own.css()
+        if "*/" in rules:  # (cannot stand inside a comment)
+            continue
+        also = f", settles {', '.join(map(str, fix.settles))} too" if fix.settles else ""
+        out.append(f"/* {n}. {p.rule} {p.slug}{also}:\n{rules}*/\n")
+    return out
 
 
 def how_to_add(path: str, project=None, sphinx: bool = False) -> str:
