@@ -193,3 +193,20 @@ def test_findings_counted_only_give_the_same_counts_and_problems_as_kept_ones():
         if not keep:
             assert store.occurrences("a.html") == []  # (nothing to read back)
     assert kept[True] == kept[False]
+
+
+def test_names_given_by_two_workers_with_one_pid_differ(monkeypatch):
+    """`mkdocs serve` forks a worker per build from one state; a later one may get an earlier
+    one's pid. The names they give (template names, entry uids) must not collide."""
+    import os
+
+    from tinctura import situations as sit
+
+    token = sit.process_token()
+    assert sit.process_token() == token  # stable within a process
+    inherited = (token[0] + 1, token[1])  # what a forked worker starts with: its parent's
+    monkeypatch.setattr(sit, "_TOKEN", [inherited])
+    first = sit.process_token()
+    monkeypatch.setattr(sit, "_TOKEN", [inherited])  # the next build's worker, the same pid
+    second = sit.process_token()
+    assert first[0] == second[0] == os.getpid() and first != second

@@ -175,6 +175,19 @@ _TEMPLATES: dict = {}  # (pid, situation_id) -> (template, key): received from o
 _SHIPPED_ENTRIES: set = set()  # uids whose entries this process has pickled for another
 _SHIPPED_TEMPLATES: set = set()  # template names this process has pickled for another
 _uids = itertools.count(1)
+_TOKEN: list = [None]
+
+
+def process_token() -> tuple:
+    """This process's part of the names it gives (uids, template names): its pid and a random
+    number drawn when it first names something. A pid alone is not enough: `mkdocs serve` forks
+    a new worker for each build, the main process keeps what earlier workers sent, and a new
+    worker may get an old one's pid while counting on from the same numbers (forked from the
+    same state)."""
+    token = _TOKEN[0]
+    if token is None or token[0] != os.getpid():  # (a forked child inherits its parent's)
+        token = _TOKEN[0] = (os.getpid(), int.from_bytes(os.urandom(8), "big"))
+    return token
 
 
 def register_entries(entries: list) -> tuple:
@@ -185,7 +198,7 @@ def register_entries(entries: list) -> tuple:
     data = pickle.dumps(entries, protocol=pickle.HIGHEST_PROTOCOL)
     uid = _UID_OF.get(data)
     if uid is None:  # (a forked worker may name its parent's: it sends what it names once)
-        uid = _UID_OF[data] = (os.getpid(), next(_uids))
+        uid = _UID_OF[data] = (process_token(), next(_uids))
         _ENTRIES[uid] = data
     _live(uid, entries)
     return uid
@@ -231,7 +244,7 @@ def _live(uid, entries: list) -> list:
 def _shipped(findings: "PageFindings") -> tuple:
     """``(template names, templates and entries not sent before)`` of a packed page pickled
     for another process (``PageFindings.__reduce__``): each is sent once per process."""
-    pid = os.getpid()
+    pid = process_token()
     names = findings.names  # (made here by ``_Numbering.named``: named already)
     if not names or names[0][0] != pid:
         names = [(pid, situation_id(k)) for k in findings.keys]
@@ -498,7 +511,7 @@ class _Numbering:
     def named(self, findings: "PageFindings") -> "PageFindings":
         """``findings`` with the names of its templates in this process (as ``_shipped``
         gives them): the store finds a known situation by name, not by hashing its key."""
-        pid = os.getpid()
+        pid = process_token()
         findings.names = [(pid, sid) for sid in self.index]  # (in number order)
         return findings
 
