@@ -502,7 +502,8 @@ def test_json_report_written_where_pages_are_judged_is_the_same(tmp_path, monkey
 @pytest.mark.parametrize("options, encodes", [
     ({"report": ["json:out.json"]}, True),
     ({}, False),
-    ({"report": ["json:out.json", "sarif:out.sarif"]}, False),  # SARIF reads fingerprints
+    ({"report": ["json:out.json", "sarif-findings:out.sarif"]}, False),  # reads fingerprints
+    ({"report": ["json:out.json", "sarif:out.sarif"]}, True),  # by problem: no fingerprints
     ({"report": ["json:out.json"], "fingerprints": True}, False),
     ({"report": ["json:out.json"], "baseline": "base.json"}, False),
 ])

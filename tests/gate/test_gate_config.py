@@ -105,7 +105,8 @@ def test_mkdocs_config_points_sarif_at_the_markdown_source(site, tmp_path):
     (tmp_path / "docs" / "index.md").write_text("# Casting\n")
     (tmp_path / "docs" / "tuning.md").write_text("# Tuning\n")
     (tmp_path / "mkdocs.yml").write_text("site_name: K\nplugins:\n  - tinctura\n")
-    status, out, _ = call("check", "--config", "mkdocs.yml", "--format", "sarif", "--jobs", 1)
+    status, out, _ = call("check", "--config", "mkdocs.yml", "--format", "sarif-findings",
+                          "--jobs", 1)
     uris = sorted(r["locations"][0]["physicalLocation"]["artifactLocation"]["uri"]
                   for r in json.loads(out)["runs"][0]["results"])
     assert status == 1 and uris == ["docs/index.md", "docs/tuning.md"]

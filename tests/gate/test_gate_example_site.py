@@ -33,9 +33,10 @@ def test_baseline_and_suppression_on_the_example_site(tmp_path):
     text_md = tmp_path / "docs" / "faults" / "text.md"
     (tmp_path / "ci").mkdir()
     gate = ("      jobs: 1\n      baseline: ci/base.json\n"
-            "      report: [sarif:ci/r.sarif, json:ci/r.json]\n")
+            "      report: [sarif-findings:ci/r.sarif, json:ci/r.json]\n")
     done = build(tmp_path, "      fail_on: never\n      jobs: 1\n"
-                           "      report: [baseline:ci/base.json, sarif:ci/r.sarif, html:ci/r.html]\n")
+                           "      report: [baseline:ci/base.json, sarif-findings:ci/r.sarif, html:ci/r.html,"
+                           " sarif:ci/p.sarif]\n")
     assert done.returncode == 0, done.stderr
     # the plugin's audit report records how the run was made: the site and its title
     audit = (tmp_path / "ci" / "r.html").read_text()
@@ -52,6 +53,18 @@ def test_baseline_and_suppression_on_the_example_site(tmp_path):
              if FAINT[:30] in r["message"]["text"] and r["ruleId"] == "TC100"]
     assert faint and all(p["artifactLocation"]["uri"] == "docs/faults/text.md"
                          and p["region"]["startLine"] == line for p in faint)
+
+    # by problem: one result each (far fewer), at its worst occurrence's Markdown line
+    by_problem = json.loads((tmp_path / "ci" / "p.sarif").read_text())
+    jsonschema.validate(by_problem, json.loads(SARIF_SCHEMA.read_text()))
+    grouped = by_problem["runs"][0]["results"]
+    assert 0 < len(grouped) < len(results) / 5
+    assert all(r["partialFingerprints"]["tinctura-problem/v1"] for r in grouped)
+    assert sum(r["properties"]["occurrences"] for r in grouped) == len(results)
+    (faint_problem,) = [r for r in grouped if r["ruleId"] == "TC100" and r["locations"][0][
+        "physicalLocation"] == {"artifactLocation": {"uri": "docs/faults/text.md"},
+                                "region": {"startLine": line}}]
+    assert "Fix:" in faint_problem["message"]["text"]
 
     # a paragraph added above the faults, and two pages swapped in the navigation
     text_md.write_text(text_md.read_text().replace(

@@ -125,7 +125,7 @@ def test_markdown_comment_and_attribute_list_in_an_mkdocs_build(tmp_path):
     (tmp_path / "mkdocs.yml").write_text(
         "site_name: Kestrow handbook\ntheme: {name: mkdocs}\nextra_css: [extra.css]\n"
         "markdown_extensions: [attr_list]\nplugins:\n  - tinctura:\n      states: false\n"
-        "      fail_on: never\n      report: ['json:out.json', 'sarif:out.sarif']\n"
+        "      fail_on: never\n      report: ['json:out.json', 'sarif-findings:out.sarif']\n"
         "      allow: [{pages: 'tuning/*', selector: 'p.faint', reason: 'scanned sheet'}]\n")
     subprocess.run([sys.executable, "-m", "mkdocs", "build", "-q"], cwd=tmp_path, check=True,
                    env={"NO_MKDOCS_2_WARNING": "1", "PATH": "/usr/bin:/bin"})
@@ -171,7 +171,7 @@ def test_sarif_suppression_kind_names_where_the_suppression_was_written(site, tm
     (tmp_path / "tinctura.toml").write_text(
         'allow = [{pages = "tuning/*", reason = "tuning sheet is scanned from paper"}]\n')
     status, _, err = call("check", site, "--jobs", jobs, "--fail-on", "never",
-                          "--format", f"sarif:{tmp_path / 'r.sarif'}")
+                          "--format", f"sarif-findings:{tmp_path / 'r.sarif'}")
     assert status == 0, err
     sarif = json.loads((tmp_path / "r.sarif").read_text())
     jsonschema.validate(sarif, json.loads(SARIF_SCHEMA.read_text()))  # OASIS SARIF 2.1.0 schema

@@ -23,10 +23,11 @@ SARIF_SCHEMA = json.loads((pathlib.Path(__file__).resolve().parents[1] / "data" 
 NASTY = 'Bell <b>"metal"</b> & \'tin\'\r\nline two\x1b[31m red\x00 ::error file=x::boom 100%, a:b'
 
 
-def run(texts=("Let the mould cool.", "Polish the crown."), marks=None, gone=()):
-    """Hand-built findings on one page; ``marks`` sets (suppressed, baseline) per finding."""
+def run(texts=("Let the mould cool.", "Polish the crown."), marks=None, gone=(), first=10):
+    """Hand-built findings on one page; ``marks`` sets (suppressed, baseline) per finding;
+    ``first``: the line before the first text."""
     samples = [make_sample("#949494", "white", page="casting/index.html", text=t,
-                           xpath=f"/html/body/main/p[{n}]", line=10 + n)
+                           xpath=f"/html/body/main/p[{n}]", line=first + n)
                for n, t in enumerate(texts, 1)]
     findings = engine.evaluate(samples, engine.Options())
     fingerprint.assign(findings)
@@ -49,10 +50,29 @@ def render(fmt, header, pages, findings, diagnostics=()):
     return stream.getvalue()
 
 
-def sarif(*args, **kwargs):
-    doc = json.loads(render("sarif", *run(*args, **kwargs)))
-    jsonschema.validate(doc, SARIF_SCHEMA)
+def sarif(*args, fmt="sarif-findings", **kwargs):
+    doc = json.loads(render(fmt, *run(*args, **kwargs)))
+    jsonschema.validate(doc, SARIF_SCHEMA)  # the OASIS SARIF 2.1.0 schema
     return doc["runs"][0]
+
+
+def test_sarif_by_problem_one_result_with_examples_fix_and_a_stable_fingerprint():
+    run_ = sarif(fmt="sarif")
+    (result,) = run_["results"]  # two findings of one cause: one problem
+    assert result["ruleId"] == "TC100" and result["level"] == "error"
+    assert result["message"]["text"].splitlines()[1] == "2 occurrences; problem 1 of the reports."
+    assert result["properties"]["occurrences"] == 2 and result["properties"]["pages"] == 1
+    loc = result["locations"][0]
+    assert loc["physicalLocation"]["artifactLocation"]["uri"] == "casting/index.html"
+    assert [r["message"]["text"].startswith("also: ") for r in result["relatedLocations"]] == \
+        [True]  # the other occurrence (the worst is the result's own location)
+    assert "suppressions" not in result and "baselineState" not in result
+    # the same problem in a run with its lines moved and one more text: the same fingerprint
+    again = sarif(fmt="sarif", first=40, texts=("Skim the dross.", "Let the mould cool.",
+                                                "Polish the crown."))["results"][0]
+    assert again["properties"]["occurrences"] == 3
+    assert again["partialFingerprints"] == result["partialFingerprints"]
+    assert "one per problem" in run_["properties"]["results"]
 
 
 def test_sarif_is_valid_and_carries_rules_fingerprints_and_locations():
@@ -85,7 +105,7 @@ def test_sarif_suppressions_and_baseline_states():
 def test_sarif_points_at_the_markdown_source_when_known():
     header, pages, findings = run()
     header.source = lambda page, line: ("docs/casting.md", 4)
-    doc = json.loads(render("sarif", header, pages, findings))
+    doc = json.loads(render("sarif-findings", header, pages, findings))
     jsonschema.validate(doc, SARIF_SCHEMA)
     result = doc["runs"][0]["results"][0]
     assert result["locations"][0]["physicalLocation"] == {
@@ -132,10 +152,15 @@ def test_every_format_escapes_page_text(fmt, tmp_path):
         doc = json.loads(text)
         jsonschema.Draft202012Validator(report_schema()).validate(doc)
         assert expand(doc)[0]["text"].startswith('Bell <b>"metal"</b> & \'tin\' line two')
-    elif fmt == "sarif":
+    elif fmt == "sarif-findings":
         doc = json.loads(text)
         jsonschema.validate(doc, SARIF_SCHEMA)
         assert "Bell <b>\"metal\"</b>" in doc["runs"][0]["results"][0]["message"]["text"]
+    elif fmt == "sarif":
+        doc = json.loads(text)
+        jsonschema.validate(doc, SARIF_SCHEMA)
+        region = doc["runs"][0]["results"][0]["locations"][0]["physicalLocation"]["region"]
+        assert region["snippet"]["text"].startswith("Bell <b>\"metal\"</b>")
     elif fmt == "junit":
         root = ET.fromstring(text)
         assert "Bell <b>\"metal\"</b> & 'tin'" in root.find(".//failure").text
@@ -182,7 +207,8 @@ def test_records_are_read_back_by_every_output_but_the_text_report_by_problem():
 
     assert not records_read_back(["text"], "cause", False, False, False)
     assert records_read_back(["text", "json"], "cause", False, False, False)
-    assert records_read_back(["sarif"], "cause", False, False, False)
+    assert records_read_back(["sarif-findings"], "cause", False, False, False)
+    assert not records_read_back(["sarif"], "cause", False, False, False)  # by problem
     assert records_read_back(["text"], "page", False, False, False)
     assert records_read_back(["text"], "cause", True, False, False)  # flat findings
     assert records_read_back(["text"], "cause", False, True, False)  # fingerprints

@@ -24,7 +24,8 @@ __all__ = [
 _BUILTIN = {
     "text": ("text_report", "TextFormatter"),
     "json": ("json_report", "JsonFormatter"),
-    "sarif": ("sarif", "SarifFormatter"),
+    "sarif": ("sarif", "SarifFormatter"),  # one result per problem
+    "sarif-findings": ("sarif", "SarifFindingsFormatter"),  # one result per finding
     "junit": ("junit", "JunitFormatter"),
     "annotations": ("annotations", "AnnotationsFormatter"),
     "baseline": ("baseline_report", "BaselineFormatter"),

@@ -1,15 +1,23 @@
 """SARIF 2.1.0 (OASIS Static Analysis Results Interchange Format), for code-scanning views.
 
-One run: the rules run with their documentation, one result per finding (the held ones too:
-suppressed findings carry a suppression with its reason, and with a baseline every result has
-its ``baselineState``; baseline findings that are gone come last as "absent"), and the input
-diagnostics as tool notifications. Results point at the Markdown source when a source map
-gives one (``Header.source``), else at the built page; the element's XPath is a logical
-location; ``partialFingerprints`` holds the fingerprint (``tinctura.fingerprint``).
-Results are streamed as pages arrive. JSON escapes all page text; URIs are percent-encoded.
+Two formats. ``sarif``: one result per problem (a cause the writer fixes once, as the text
+report groups them), at its worst occurrence, with example occurrences as related locations,
+the fix in its message and properties, and a fingerprint of the problem that stays put when
+pages are added or lines move. A site whose accent fails on every navigation link gives a few
+hundred results, not hundreds of thousands: code-scanning services cap the results of a run
+(recalled from memory: GitHub reads at most 25,000, and files of at most 10 MB compressed).
+``sarif-findings``: one result per finding (the held ones too: suppressed findings carry a
+suppression with its reason, and with a baseline every result has its ``baselineState``;
+baseline findings that are gone come last as "absent"), streamed as pages arrive.
+
+Both: the rules run with their documentation and the input diagnostics as tool notifications;
+results point at the Markdown source when a source map gives one (``Header.source``), else at
+the built page; the element's XPath is a logical location. JSON escapes all page text; URIs
+are percent-encoded.
 """
 from __future__ import annotations
 
+import hashlib
 import json
 from urllib.parse import quote
 
@@ -22,6 +30,8 @@ from .notice import DISCLAIMER
 SCHEMA = "https://json.schemastore.org/sarif-2.1.0.json"
 LEVEL = {"error": "error", "warning": "warning", "info": "note"}
 FINGERPRINT_KEY = f"tinctura/{fp_mod.VERSION}"
+PROBLEM_KEY = "tinctura-problem/v1"
+RELATED = 10  # example occurrences a problem's result names besides its worst
 SUPPRESSION_KIND = {"comment": "inSource", "attribute": "inSource", "configuration": "external"}
 
 
@@ -50,9 +60,8 @@ def rule_dict(rule, level: str) -> dict:
     }
 
 
-class SarifFormatter(Formatter):
-    wants_fingerprints = True
-    marked = True
+class _Sarif(Formatter):
+    """The run around the results: the rules, the notifications, the run's properties."""
 
     def __init__(self, stream, header):
         super().__init__(stream, header)
@@ -73,10 +82,6 @@ class SarifFormatter(Formatter):
         self.stream.write(json.dumps(result, ensure_ascii=False))
         self.count += 1
 
-    def page(self, page, findings) -> None:
-        for f in findings:
-            self._write(self.result(f))
-
     def _location(self, page: str, line: int) -> dict:
         built = self.header.uri(page) if callable(self.header.uri) else page
         loc = {"artifactLocation": {"uri": uri(built)}}
@@ -84,20 +89,139 @@ class SarifFormatter(Formatter):
             loc["region"] = {"startLine": line}
         return loc
 
-    def result(self, f) -> dict:
-        s = f.sample
-        fg, bg = m.finding_colours(f)
+    def _places(self, s) -> tuple:
+        """``(where the result points, the built page or None)``: the Markdown source when
+        known (then the built page besides), else the built page."""
         built = self._location(s.page, s.line)
         if s.text and "region" in built:
             built["region"]["snippet"] = {"text": m.excerpt(s.text, 200)}
         source = markdown_source(self.header, s)
-        if source:
-            path, line = source
-            primary = {"artifactLocation": {"uri": uri(path)}}
-            if line and line > 0:
-                primary["region"] = {"startLine": line}
-        else:
-            primary = built
+        if not source:
+            return built, None
+        path, line = source
+        primary = {"artifactLocation": {"uri": uri(path)}}
+        if line and line > 0:
+            primary["region"] = {"startLine": line}
+        return primary, built
+
+    def diagnostic(self, d) -> None:
+        note = {"level": "error" if d.severity == "error" else "warning",
+                "message": {"text": d.message},
+                "locations": [{"physicalLocation": self._location(d.path, d.line)}]}
+        self.notifications.append(note)
+
+    def stop(self, summary) -> None:
+        self._last()
+        failed = any(n["level"] == "error" for n in self.notifications)  # unreadable input
+        invocations = [{"executionSuccessful": not failed,
+                        "toolExecutionNotifications": self.notifications}]
+        properties = {"disclaimer": DISCLAIMER, "schemes": list(summary.schemes),
+                      "level": self.header.level, **self._properties()}
+        self.stream.write('\n],\n"invocations": %s,\n"properties": %s\n}]\n}\n'
+                          % (_dumps(invocations), _dumps(properties)))
+
+    def _last(self) -> None:
+        """Results written after all others."""
+
+    def _properties(self) -> dict:
+        return {}
+
+
+class SarifFormatter(_Sarif):
+    """One result per problem (``sarif``)."""
+
+    wants_findings = False
+
+    @classmethod
+    def reads_records(cls, group: str) -> bool:
+        return False  # problems carry their examples
+
+    def problem(self, index: int, problem) -> None:
+        self._write(self.problem_result(index, problem))
+
+    def problem_result(self, index: int, p) -> dict:
+        from .appearance import is_appearance
+        from .text_report import examples, fix_lines, sentence_of
+
+        worst = p.worst
+        many = len(self.header.schemes) > 1
+        said = m.message(worst) if is_appearance(worst) else \
+            sentence_of(p, self.header.locate, many)
+        pages = f" on {m.plural(p.pages, 'page')}" if p.pages > 1 else ""
+        lines = [said, f"{m.plural(p.occurrences, 'occurrence')}{pages}; problem {index} of "
+                       f"the reports."]
+        lines += ["  " * max(indent - 1, 0) + text for indent, text, _, _ in fix_lines(p)]
+        primary, built = self._places(worst.sample)
+        result = {
+            "ruleId": p.rule, "ruleIndex": self.index.get(p.rule, -1),
+            "level": LEVEL.get(p.severity, "warning"),
+            "message": {"text": "\n".join(lines)},
+            "locations": [{"physicalLocation": primary, "logicalLocations": [
+                {"fullyQualifiedName": worst.sample.xpath, "kind": "element"}]}],
+            "partialFingerprints": {PROBLEM_KEY: problem_fingerprint(p)},
+            "properties": self._figures(p),
+        }
+        if result["ruleIndex"] < 0:
+            del result["ruleIndex"]
+        related = [] if built is None else [(built, "the built page")]
+        for f in examples(p.example_pool(), worst, RELATED + 1):
+            if f is not worst and len(related) < RELATED + 1:
+                fg, bg = m.finding_colours(f)
+                related.append((self._places(f.sample)[0],
+                                f"also: \u201c{m.excerpt(f.sample.text, 80)}\u201d, "
+                                f"{m.colour(fg)} on {m.colour(bg)}, {m.measured(f)}"))
+        if related:
+            result["relatedLocations"] = [{"id": n, "physicalLocation": where,
+                                           "message": {"text": text}}
+                                          for n, (where, text) in enumerate(related, 1)]
+        return result
+
+    def _figures(self, p) -> dict:
+        worst = p.worst
+        fg, bg = m.finding_colours(worst)
+        out = {"occurrences": p.occurrences, "pages": p.pages,
+               "schemes": sorted(p.schemes) or [worst.sample.scheme],
+               "state": worst.sample.state, "fg": m.colour(fg), "bg": m.colour(bg),
+               "ratio": float(worst.ratio), "required": float(worst.required),
+               "wcagLevel": worst.level}
+        override = getattr(p, "override", None)
+        if override is not None:
+            out["fix"] = {"file": override.where, "css": override.css(),
+                          "verified": bool(override.verified)}
+        return out
+
+    def _properties(self) -> dict:
+        gone = len(self.header.gone or ())
+        return {"results": "one per problem; `--format sarif-findings` gives one per finding",
+                **({"baselineGone": gone} if gone else {})}
+
+
+def problem_fingerprint(p) -> str:
+    """A problem's identity across runs: its rule and the declarations behind both colours
+    (selector, property, value; not the stylesheet's name, which a theme hashes, nor lines)."""
+    from tinctura.problems import target_declaration
+
+    parts = [p.rule]
+    for cause in (p.fg_cause, p.bg_cause):
+        d = target_declaration(cause) if cause is not None else None
+        parts.append("-" if d is None else f"{d.selector}|{d.property}|{d.value}")
+    return hashlib.sha1("\n".join(parts).encode("utf-8")).hexdigest()[:24]
+
+
+class SarifFindingsFormatter(_Sarif):
+    """One result per finding (``sarif-findings``)."""
+
+    wants_fingerprints = True
+    marked = True
+
+    def page(self, page, findings) -> None:
+        for f in findings:
+            self._write(self.result(f))
+
+    def result(self, f) -> dict:
+        s = f.sample
+        fg, bg = m.finding_colours(f)
+        primary, built = self._places(s)
         location = {"physicalLocation": primary,
                     "logicalLocations": [{"fullyQualifiedName": s.xpath, "kind": "element"}]}
         result = {
@@ -114,7 +238,7 @@ class SarifFormatter(Formatter):
         }
         if result["ruleIndex"] < 0:
             del result["ruleIndex"]
-        if source:
+        if built is not None:
             result["relatedLocations"] = [{"id": 1, "physicalLocation": built,
                                            "message": {"text": "the built page"}}]
         if f.fingerprint:
@@ -129,22 +253,9 @@ class SarifFormatter(Formatter):
             result["baselineState"] = f.baseline
         return result
 
-    def diagnostic(self, d) -> None:
-        note = {"level": "error" if d.severity == "error" else "warning",
-                "message": {"text": d.message},
-                "locations": [{"physicalLocation": self._location(d.path, d.line)}]}
-        self.notifications.append(note)
-
-    def stop(self, summary) -> None:
+    def _last(self) -> None:
         for entry in self.header.gone or ():
             self._write(self.gone_result(entry))
-        failed = any(n["level"] == "error" for n in self.notifications)  # unreadable input
-        invocations = [{"executionSuccessful": not failed,
-                        "toolExecutionNotifications": self.notifications}]
-        properties = {"disclaimer": DISCLAIMER, "schemes": list(summary.schemes),
-                      "level": self.header.level}
-        self.stream.write('\n],\n"invocations": %s,\n"properties": %s\n}]\n}\n'
-                          % (_dumps(invocations), _dumps(properties)))
 
     def gone_result(self, entry: dict) -> dict:
         text = (f"No longer found (recorded in the baseline): {entry.get('rule', '')} on "
