@@ -136,6 +136,26 @@ def test_annotations_workflow_commands_and_summary():
     assert lines[1].startswith("tinctura: 1 finding (1 error) on 1 page of 2 checked")
 
 
+def test_one_annotation_per_problem_with_its_counts_and_fix():
+    header, pages, findings = run()
+    (line, summary) = render("annotations", header, pages, findings).splitlines()
+    assert line.startswith("::error file=casting/index.html,line=11,title=TC100 text-ratio::")
+    assert "%0A2 occurrences (problem 1 of the reports); here: \u201cLet the mould cool.\u201d" \
+        in line and "%0AFix: " in line
+    assert "one per problem (1)" in summary
+
+
+def test_junit_lists_the_first_findings_of_a_case_and_counts_the_rest():
+    from tinctura.report.junit import LISTED
+
+    texts = tuple(f"Note {n}." for n in range(LISTED + 5))
+    root = ET.fromstring(render("junit", *run(texts=texts)))
+    failure = next(root.iter("failure"))
+    lines = failure.text.splitlines()
+    assert failure.get("message").startswith(f"{LISTED + 5} findings: ")
+    assert len(lines) == LISTED + 1 and lines[-1].startswith("and 5 more findings of this rule")
+
+
 def test_annotation_escaping_as_documented():
     # workflow-command escaping, as CI runners document it: data % CR LF; properties also : ,
     assert escape_data("100%\r\nnext") == "100%25%0D%0Anext"

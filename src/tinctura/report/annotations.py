@@ -2,6 +2,12 @@
 
     ::error file=site/guide/index.html,line=12,title=TC100 text-ratio::message
 
+One annotation per problem (as the text report groups them), at its worst occurrence's
+Markdown line when known, else its built page: the plain sentence, the counts and the fix. A
+site whose accent fails on every navigation link would otherwise write hundreds of thousands of
+lines into the job's log, of which runners show the first few (every finding is in the JSON,
+CSV and ``sarif-findings`` reports).
+
 Severity error -> ``error``, warning -> ``warning``, info -> ``notice``. Escaped as that
 syntax documents: in the message ``%`` -> ``%25``, CR -> ``%0D``, LF -> ``%0A``; in property
 values also ``:`` -> ``%3A`` and ``,`` -> ``%2C``. Other control characters are written as
@@ -14,7 +20,6 @@ import re
 
 from . import messages as m
 from .base import Formatter, markdown_source
-from .outputs import active
 
 COMMAND = {"error": "error", "warning": "warning", "info": "notice"}
 _CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f]")
@@ -39,30 +44,39 @@ def command(kind: str, message: str, **props) -> str:
 
 
 class AnnotationsFormatter(Formatter):
+    wants_findings = False
+
+    @classmethod
+    def reads_records(cls, group: str) -> bool:
+        return False  # problems carry their examples
+
     def __init__(self, stream, header):
         super().__init__(stream, header)
         self.count = 0
 
-    def page(self, page, findings) -> None:
-        for f in findings:
-            if active(f):
-                self.stream.write(self.annotation(f) + "\n")
-                self.count += 1
+    def problem(self, index: int, problem) -> None:
+        self.stream.write(self.annotation(index, problem) + "\n")
+        self.count += 1
 
-    def annotation(self, f) -> str:
-        s = f.sample
-        fg, bg = m.finding_colours(f)
+    def annotation(self, index: int, p) -> str:
+        from .appearance import is_appearance
+        from .text_report import fix_lines, sentence_of
+
+        s = p.worst.sample
         path, line = s.page, s.line
         if callable(self.header.uri):
             path = self.header.uri(s.page)
         source = markdown_source(self.header, s)
         if source:
             path, line = source
-        state = "" if s.state == "rest" else f", :{s.state}"
-        message = (f"{m.message(f)} ({m.colour(fg)} on {m.colour(bg)}; scheme {s.scheme}"
-                   f"{state}): \u201c{m.excerpt(s.text, 80)}\u201d at {s.xpath}")
-        return command(COMMAND.get(f.severity, "warning"), message, file=path,
-                       line=str(line) if line else None, title=f"{f.rule} {f.slug}")
+        said = m.message(p.worst) if is_appearance(p.worst) else \
+            sentence_of(p, self.header.locate, len(self.header.schemes) > 1)
+        pages = f" on {m.plural(p.pages, 'page')}" if p.pages > 1 else ""
+        lines = [said, f"{m.plural(p.occurrences, 'occurrence')}{pages} (problem {index} of "
+                       f"the reports); here: \u201c{m.excerpt(s.text, 80)}\u201d at {s.xpath}"]
+        lines += ["  " * max(indent - 1, 0) + text for indent, text, _, _ in fix_lines(p)]
+        return command(COMMAND.get(p.severity, "warning"), "\n".join(lines), file=path,
+                       line=str(line) if line else None, title=f"{p.rule} {p.slug}")
 
     def diagnostic(self, d) -> None:
         if d.severity == "error":
@@ -76,6 +90,6 @@ class AnnotationsFormatter(Formatter):
             f"tinctura: {m.plural(summary.findings, 'finding')}"
             + (f" ({by})" if by else "")
             + f" on {m.plural(summary.pages_with_findings, 'page')} of {summary.pages:,} "
-              f"checked; annotations above ({self.count:,}); the full list is in the other "
-              f"reports. Automated checks cover only part of WCAG: conformance needs a review "
+              f"checked; annotations above, one per problem ({self.count:,}); every finding is "
+              f"in the JSON, CSV and sarif-findings reports. Automated checks cover only part of WCAG: conformance needs a review "
               f"by qualified people.\n")

@@ -1,8 +1,10 @@
 """JUnit XML, for test dashboards: one test case per page and rule.
 
 A test case fails when the page has findings of that rule that count (not suppressed, not
-already in the baseline); the failure lists them. Held findings are named in the case's
-``system-out``. Names are unique (``page: code slug``). Page text is escaped by the XML
+already in the baseline); the failure lists the first ``LISTED`` of them and counts the rest
+(a page whose navigation link fails in a state has thousands: a dashboard shows a case's text
+whole, and every finding is in the JSON, CSV and ``sarif-findings`` reports). Held findings
+are named in the case's ``system-out``, likewise. Names are unique (``page: code slug``). Page text is escaped by the XML
 serializer; characters XML 1.0 cannot carry at all (most control characters) are written as
 ``\\xNN``.
 """
@@ -18,6 +20,7 @@ from .base import Formatter, rules_run
 from .notice import DISCLAIMER
 from .outputs import active
 
+LISTED = 20  # findings a case's failure (or system-out) lists; the rest are counted
 _NOT_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
 
 
@@ -39,6 +42,14 @@ def finding_line(f) -> str:
 def held_line(f) -> str:
     why = f"suppressed: {f.suppressed}" if f.suppressed else "unchanged against the baseline"
     return f"{finding_line(f)} ({why})"
+
+
+def _listed(findings, line) -> str:
+    lines = [line(f) for f in findings[:LISTED]]
+    if len(findings) > LISTED:
+        lines.append(f"and {m.plural(len(findings) - LISTED, 'more finding')} of this rule on "
+                     f"this page (every finding: the JSON, CSV and sarif-findings reports)")
+    return "\n".join(lines)
 
 
 class JunitFormatter(Formatter):
@@ -77,10 +88,10 @@ class JunitFormatter(Formatter):
             failure = ET.SubElement(case, "failure", type=code,
                                     message=xml_text(f"{m.plural(len(counting), 'finding')}: "
                                                      f"{m.message(counting[0])}"))
-            failure.text = xml_text("\n".join(finding_line(f) for f in counting))
+            failure.text = xml_text(_listed(counting, finding_line))
         if held:
             out = ET.SubElement(case, "system-out")
-            out.text = xml_text("\n".join(held_line(f) for f in held))
+            out.text = xml_text(_listed(held, held_line))
         return case
 
     def stop(self, summary) -> None:

@@ -6,6 +6,7 @@ from dataclasses import dataclass, field
 
 from tinctura import distribution
 from tinctura.model import DETERMINED
+from tinctura.palette import SITE_PAGE
 
 SEVERITIES = ("error", "warning", "info")  # most severe first
 
@@ -83,6 +84,7 @@ def summarise(pages, findings, problems=(), diagnostics=(), schemes=()) -> Summa
         skipped=dict(sorted(skipped.items())),
         diagnostics=len(diagnostics) + sum(len(p.diagnostics) for p in pages),
         schemes=names,
-        pages_with_findings=len(by_page),
+        pages_with_findings=sum(1 for name in by_page if name != SITE_PAGE),  # (pages, not
+        # the site-level rules' findings, which compare pages)
         ratios=ratios,
     )
