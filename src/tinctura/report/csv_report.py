@@ -33,30 +33,51 @@ def _declaration(cause) -> tuple:
     return f"{d.property}: {d.value}", d.where()
 
 
-def row(f, header=None) -> list:
+def row(f, header=None, memo=None) -> list:
+    """A finding's cells. ``memo``: a dict that keeps the cells a situation decides (colours,
+    measures, causes, message) once for all its occurrences, which share their template's
+    arguments and fixes (``situations.occurrence``)."""
     from .html_report import source_of
 
+    s = f.sample
+    key = (id(f.args), id(f.fixes), f.rule, s.scheme, s.state)
+    kept = memo.get(key) if memo is not None else None
+    if kept is None:
+        kept = (f.args, f.fixes, _situation_cells(f))  # (held: their ids stay theirs)
+        if memo is not None:
+            memo[key] = kept
+    head, numbers, causes, message = kept[2]
+    text = [s.page, s.line, s.xpath, s.scheme, s.state, *head, m.excerpt(s.text, 200)]
+    tail = [*causes, source_of(s, header), message]
+    return [safe(v) for v in text] + numbers + [safe(v) for v in tail]
+
+
+def _situation_cells(f) -> tuple:
     s = f.sample
     fg, bg = m.finding_colours(f)
     fix = {x.target: m.colour(x.colour) for x in f.fixes}
     fg_decl, fg_where = _declaration(s.fg_cause)
     bg_decl, bg_where = _declaration(s.bg_cause)
-    text = [s.page, s.line, s.xpath, s.scheme, s.state, f.rule, f.slug, f.severity, f.level,
-            m.message_args(f)["sc"], m.excerpt(s.text, 200)]
+    head = [f.rule, f.slug, f.severity, f.level, m.message_args(f)["sc"]]
     numbers = [m.colour(fg), m.colour(bg), f"{f.ratio:.4f}", m.required(f.required)]
-    tail = [fix.get("foreground", ""), fix.get("background", ""), fg_decl, fg_where, bg_decl,
-            bg_where, source_of(s, header), m.message(f)]
-    return [safe(v) for v in text] + numbers + [safe(v) for v in tail]
+    causes = [fix.get("foreground", ""), fix.get("background", ""), fg_decl, fg_where, bg_decl,
+              bg_where]
+    return head, numbers, causes, m.message(f)
 
 
 class CsvFormatter(Formatter):
+    MEMO_LIMIT = 50000  # situations whose cells are kept
+
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)
         self.writer = csv.writer(stream, lineterminator="\n")
+        self.memo: dict = {}
 
     def start(self, summary) -> None:
         self.writer.writerow(COLUMNS)
 
     def page(self, page, findings) -> None:
+        if len(self.memo) > self.MEMO_LIMIT:
+            self.memo.clear()
         for f in findings:
-            self.writer.writerow(row(f, self.header))
+            self.writer.writerow(row(f, self.header, self.memo))

@@ -214,13 +214,29 @@ class SarifFindingsFormatter(_Sarif):
     wants_fingerprints = True
     marked = True
 
+    def __init__(self, stream, header):
+        super().__init__(stream, header)
+        self._memo: dict = {}  # (id of a situation's arguments, ...) -> (them, what it says)
+
     def page(self, page, findings) -> None:
         for f in findings:
             self._write(self.result(f))
 
+    def _said(self, f) -> tuple:
+        """``(message, fg, bg)`` of a finding's situation, worked out once for all its
+        occurrences (they share their template's arguments: ``situations.occurrence``)."""
+        key = (id(f.args), f.rule, f.sample.scheme, f.sample.state)
+        kept = self._memo.get(key)
+        if kept is None:
+            if len(self._memo) > 50000:
+                self._memo.clear()
+            fg, bg = m.finding_colours(f)
+            kept = self._memo[key] = (f.args, (m.message(f), m.colour(fg), m.colour(bg)))
+        return kept[1]
+
     def result(self, f) -> dict:
         s = f.sample
-        fg, bg = m.finding_colours(f)
+        said, fg, bg = self._said(f)
         primary, built = self._places(s)
         location = {"physicalLocation": primary,
                     "logicalLocations": [{"fullyQualifiedName": s.xpath, "kind": "element"}]}
@@ -228,12 +244,11 @@ class SarifFindingsFormatter(_Sarif):
             "ruleId": f.rule,
             "ruleIndex": self.index.get(f.rule, -1),
             "level": LEVEL.get(f.severity, "warning"),
-            "message": {"text": f"{m.message(f)} ({m.colour(fg)} on {m.colour(bg)}; scheme "
-                                f"{s.scheme}, state {s.state}): \u201c"
-                                f"{m.excerpt(s.text, 80)}\u201d"},
+            "message": {"text": f"{said} ({fg} on {bg}; scheme {s.scheme}, state {s.state}): "
+                                f"\u201c{m.excerpt(s.text, 80)}\u201d"},
             "locations": [location],
-            "properties": {"scheme": s.scheme, "state": s.state, "fg": m.colour(fg),
-                           "bg": m.colour(bg), "ratio": float(f.ratio),
+            "properties": {"scheme": s.scheme, "state": s.state, "fg": fg, "bg": bg,
+                           "ratio": float(f.ratio),
                            "required": float(f.required), "wcagLevel": f.level},
         }
         if result["ruleIndex"] < 0:
