@@ -156,6 +156,19 @@ def test_junit_lists_the_first_findings_of_a_case_and_counts_the_rest():
     assert len(lines) == LISTED + 1 and lines[-1].startswith("and 5 more findings of this rule")
 
 
+def test_the_audit_report_counts_only_the_findings_that_count():
+    # read from the run's store as records (situations and places), the held ones among them
+    import lxml.html
+
+    from tinctura.report.store import FindingStore
+
+    header, pages, findings = run(marks=[("reviewed: stamped tag", ""), ("", "")])
+    doc = lxml.html.document_fromstring(render("html", header, pages, FindingStore.of(findings)))
+    rows = {row.get("data-page"): row.xpath("string(td[1])") for row in
+            doc.xpath("//tr[@data-page]")}
+    assert rows == {"casting/index.html": "1"}
+
+
 def test_annotation_escaping_as_documented():
     # workflow-command escaping, as CI runners document it: data % CR LF; properties also : ,
     assert escape_data("100%\r\nnext") == "100%25%0D%0Anext"

@@ -135,13 +135,16 @@ class Tally:
         self.pages: list = []  # every page checked, in run order
         self.undetermined: dict = {}  # page -> {reason: texts not judged}
 
-    def add(self, page: str, findings, undetermined=None) -> None:
+    def add(self, page: str, findings, undetermined=None, at=None) -> None:
+        """``findings``: the page's, or their situations' templates with ``at`` the page."""
         if page != SITE_PAGE:  # the site-level findings' group is not a page
             self.pages.append(page)
         if undetermined:
             self.undetermined[page] = dict(undetermined)
+        where = at
         for f in findings:
-            scheme, at = f.sample.scheme, f.sample.page  # site-level findings: their first page
+            # (site-level findings: their first page)
+            scheme, at = f.sample.scheme, f.sample.page if where is None else where
             self.by_page[at] += 1
             self.by_page_scheme.setdefault(at, Counter())[scheme] += 1
             self.by_page_severity.setdefault(at, Counter())[f.severity] += 1

@@ -52,7 +52,8 @@ class Formatter:
     back from the run's store); one that sets ``wants_occurrences = True`` gets
     ``occurrences(page, store)`` instead of ``page``: the ``report.store.FindingStore`` that
     holds each situation once and the page's small occurrence records
-    (``store.occurrences(page.page)``).
+    (``store.occurrences(page.page)``), those the gate holds too (marked, whatever
+    ``marked`` says: ``outputs.record_counts`` tells the others).
 
     ``wants_fingerprints = True``: every finding it gets carries its fingerprint (else only
     the findings of pages with suppressions, and every finding when a baseline is used).
@@ -142,8 +143,10 @@ def _emit_occurrences(formatter: Formatter, pages, findings) -> None:
     from .store import FindingStore
 
     inner = getattr(findings, "_findings", None)  # an outputs.GateView over the run's store
-    if getattr(findings, "marked", False) and isinstance(inner, FindingStore):
-        findings = inner  # every finding, marked: the store as it is
+    if isinstance(inner, FindingStore):
+        # the store as it is, every finding marked: a formatter that shows only those that
+        # count skips the others itself (``outputs.record_counts``)
+        findings = inner
     store = FindingStore.of(findings)
     listed = [page.page for page in pages]
     for page in pages:

@@ -23,6 +23,7 @@ from .appearance import problem_lines as appearance_lines
 from . import messages as m
 from .base import Formatter, Header
 from .notice import DISCLAIMER
+from .outputs import record_counts
 from .scope import Scope, now
 from .text_report import cause_fix_lines, examples
 
@@ -69,6 +70,9 @@ def prose(text: str) -> str:
 
 
 class HtmlFormatter(Formatter):
+    # the page counts need each occurrence's situation only: read as records, not findings
+    wants_occurrences = True
+
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)
         self.tally = audit.Tally()
@@ -77,6 +81,12 @@ class HtmlFormatter(Formatter):
 
     def page(self, page, findings) -> None:
         self.tally.add(page.page, findings, audit.undetermined_of(page))
+
+    def occurrences(self, page, store) -> None:
+        templates = store.situations
+        self.tally.add(page.page, [templates[r[0]] for r in store.occurrences(page.page)
+                                   if record_counts(r)], audit.undetermined_of(page),
+                       at=page.page)
 
     def problem(self, index, problem) -> None:
         self.problems.append(problem)
@@ -318,7 +328,7 @@ class HtmlFormatter(Formatter):
         return (f'<article class="problem" id="problem-{index}" data-rule="{e(p.rule)}" '
                 f'data-occurrences="{p.occurrences}" aria-labelledby="problem-{index}-h">'
                 f'<h3 id="problem-{index}-h">{title}</h3>{facts}{pictures}{cause}'
-                f"{self.occurrences(p)}</article>\n")
+                f"{self.occurrence_list(p)}</article>\n")
 
     @staticmethod
     def rule(code_):
@@ -410,7 +420,7 @@ class HtmlFormatter(Formatter):
         rule = self.rule(p.rule)
         return e(rule.docs.fix) if rule is not None else ""
 
-    def occurrences(self, p) -> str:
+    def occurrence_list(self, p) -> str:
         chosen = examples(p.example_pool(), p.worst)[:EXAMPLE_ROWS]
         many = len(getattr(p, "schemes", None) or ()) > 1  # rows told apart by their scheme
         rows = []

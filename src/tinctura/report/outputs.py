@@ -21,6 +21,13 @@ def active(finding) -> bool:
         getattr(finding, "baseline", "") != "unchanged"
 
 
+def record_counts(record) -> bool:
+    """``active`` for a store's occurrence record (``FindingStore.occurrences``): its gate
+    marks ``(fingerprint, suppressed, baseline, origin)`` or None."""
+    marks = record[6] if len(record) > 6 else None
+    return not marks or (not marks[1] and marks[2] != "unchanged")
+
+
 def count(findings) -> dict:
     """The counts a summary needs, in FindingStore's shape, over the findings that count."""
     counts = {"severity": Counter(), "rule": Counter(), "page": Counter(), "scheme": Counter()}
