@@ -18,7 +18,7 @@ from tinctura import rules
 from . import messages as m
 from .base import Formatter, rules_run
 from .notice import DISCLAIMER
-from .outputs import active
+from .outputs import active, record_counts
 
 LISTED = 20  # findings a case's failure (or system-out) lists; the rest are counted
 _NOT_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
@@ -44,10 +44,12 @@ def held_line(f) -> str:
     return f"{finding_line(f)} ({why})"
 
 
-def _listed(findings, line) -> str:
-    lines = [line(f) for f in findings[:LISTED]]
-    if len(findings) > LISTED:
-        lines.append(f"and {m.plural(len(findings) - LISTED, 'more finding')} of this rule on "
+def _listed(items, line, finding) -> str:
+    """The first ``LISTED`` of ``items`` as lines (``finding(item)``: the item as a Finding),
+    and a count of the others."""
+    lines = [line(finding(item)) for item in items[:LISTED]]
+    if len(items) > LISTED:
+        lines.append(f"and {m.plural(len(items) - LISTED, 'more finding')} of this rule on "
                      f"this page (every finding: the JSON, CSV and sarif-findings reports)")
     return "\n".join(lines)
 
@@ -63,15 +65,34 @@ class JunitFormatter(Formatter):
         self.failures = 0
         self.names: set = set()
 
+    # a case lists only its first findings: the store's records are read, and only those
+    # listed are rebuilt as findings
+    wants_occurrences = True
+
+    def occurrences(self, page, store) -> None:
+        from tinctura.situations import rebuild
+
+        templates, by_rule = store.situations, {}
+        for r in store.occurrences(page.page):
+            counts = record_counts(r)
+            by_rule.setdefault(templates[r[0]].rule, ([], []))[0 if counts else 1].append(r)
+        self._cases(page.page, by_rule,
+                    lambda r: rebuild(templates[r[0]], r[1:], page.page))
+
     def page(self, page, findings) -> None:
         by_rule: dict = {}
         for f in findings:
-            by_rule.setdefault(f.rule, []).append(f)
+            by_rule.setdefault(f.rule, ([], []))[0 if active(f) else 1].append(f)
+        self._cases(page.page, by_rule, lambda f: f)
+
+    def _cases(self, page: str, by_rule: dict, finding) -> None:
+        """``by_rule``: code -> (items that count, held items); ``finding(item)``: a Finding."""
         codes = [r.code for r in self.rules] + sorted(set(by_rule) - {r.code for r in self.rules})
         for code in codes:
-            self.cases.append(self.case(page.page, code, by_rule.get(code, [])))
+            counting, held = by_rule.get(code, ((), ()))
+            self.cases.append(self.case(page, code, counting, held, finding))
 
-    def case(self, page: str, code: str, findings) -> ET.Element:
+    def case(self, page: str, code: str, counting, held, finding) -> ET.Element:
         try:
             slug = rules.get(code).slug
         except KeyError:
@@ -81,17 +102,15 @@ class JunitFormatter(Formatter):
             name += " (again)"
         self.names.add(name)
         case = ET.Element("testcase", classname=xml_text(page), name=name)
-        counting = [f for f in findings if active(f)]
-        held = [f for f in findings if not active(f)]
         if counting:
             self.failures += 1
             failure = ET.SubElement(case, "failure", type=code,
                                     message=xml_text(f"{m.plural(len(counting), 'finding')}: "
-                                                     f"{m.message(counting[0])}"))
-            failure.text = xml_text(_listed(counting, finding_line))
+                                                     f"{m.message(finding(counting[0]))}"))
+            failure.text = xml_text(_listed(counting, finding_line, finding))
         if held:
             out = ET.SubElement(case, "system-out")
-            out.text = xml_text(_listed(held, held_line))
+            out.text = xml_text(_listed(held, held_line, finding))
         return case
 
     def stop(self, summary) -> None:
