@@ -35,6 +35,7 @@ from .extract import fragments as frag_mod
 from .extract import links as link_mod
 from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
+from .extract.disclosure import Disclosure
 from .extract.html import decode, parse_html, parser_warnings
 from .extract.loader import SheetLoader
 from .extract.media import Environment
@@ -185,6 +186,7 @@ class Site:
                                          self.options.logotypes, structure.text,
                                          source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
                                          else data, per_link=link_mod.consider)
+            disclosure = Disclosure(root)  # closed <details>, tab panels: walked open too
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 changed = [attr for _, attr, _ in scheme.attributes]
@@ -207,7 +209,7 @@ class Site:
                                         fingerprints=fingerprints,
                                         replay=self.options.replay and self.options.share,
                                         structure=structure, share=self.options.share,
-                                        exemptions=exemptions)
+                                        exemptions=exemptions, disclosure=disclosure)
                     walker.resolver.max_var_tokens = self.options.max_var_tokens
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)

@@ -18,7 +18,7 @@ from tinctura.colour import fix as colour_fix
 from tinctura.colour import suggest
 from tinctura.colour import wcag
 from tinctura.colour.convert import quantize
-from tinctura.model import DETERMINED, Cause, Declaration, Finding
+from tinctura.model import DETERMINED, Cause, Declaration, Finding, state_rank
 
 SEVERITY_RANK = {"error": 0, "warning": 1, "info": 2}
 
@@ -178,9 +178,11 @@ class SchemeFigures:
 
 def worse_key(finding: Finding) -> tuple:
     """Findings in order, worst first: the lowest ratio; on a tie, the highest requirement
-    (at the same colours, a body text's Lc 75 before a bold text's Lc 60)."""
+    (at the same colours, a body text's Lc 75 before a bold text's Lc 60), then the state a
+    reader meets first (text that fails at rest is not "too faint when hovered")."""
     args = finding.args
-    return (finding.ratio, -finding.required, -(args.get("lc_required") or 0) if args else 0)
+    return (finding.ratio, -finding.required, -(args.get("lc_required") or 0) if args else 0,
+            state_rank(finding.sample.state))
 
 
 def problem_key(finding: Finding) -> tuple:

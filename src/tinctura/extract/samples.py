@@ -18,6 +18,7 @@ from __future__ import annotations
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
+from . import disclosure as disclosure_mod
 from . import exempt as exempt_mod
 from . import fragments as frag_mod
 from . import links as link_mod
@@ -98,8 +99,10 @@ class StyleCache:
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
                  viewport_width, skipped, keep_layers=True, lazy=False, fingerprints=None,
-                 replay=True, structure=None, share=True, exemptions=None):
+                 replay=True, structure=None, share=True, exemptions=None, disclosure=None):
         self.page = page
+        # disclosure.Disclosure: closed <details> and tab panels, walked open too (None: none)
+        self.disclosure = disclosure or None
         self.exemptions = exemptions  # exempt.Decisions of the page (None: disabled only)
         self.keep_layers = keep_layers  # `check` reports name causes, not every layer
         # lazy: replayed fragments go to ``replays`` as (fragment, Stamp) for the engine to
@@ -184,6 +187,8 @@ class PageWalker:
         self._own_texts = self.structure.texts
         self._recording = []  # open recordings, innermost last
         self.collect = bool(states and self.index.dynamic_rules)
+        # the resting samples and the sibling facts the walks after the resting one read
+        self.keep_rest = self.collect or self.disclosure is not None
         self._getpath = self.structure.path
         self.state = REST
         if self.memo is not None:
@@ -193,7 +198,22 @@ class PageWalker:
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
             self.interactive = []
+        if self.disclosure is not None:
+            self._disclose()
         return self.samples
+
+    def _disclose(self):
+        """The page with every closed <details> open and every tab shown
+        (``disclosure.Disclosure``): what is new about it, in the state ``shown``."""
+        changed, restore = self.disclosure.apply()
+        self.structure.changed(changed, disclosure_mod.ATTRIBUTES)
+        try:
+            for target in self.disclosure.targets:
+                self._state(target, disclosure_mod.SHOWN, (), (), self.rest)
+        finally:
+            restore()
+            self.structure.changed(changed, disclosure_mod.ATTRIBUTES)
+            self.state = REST
 
     def _run_states(self, targets):
         can_matter = self.index.state_can_matter
@@ -212,6 +232,9 @@ class PageWalker:
     def _open_scope(self, el, key_id, is_root):
         """Start a scope at ``el``; returns True when a recorded fragment was replayed instead."""
         recording = None
+        if self.disclosure is not None and el in self.disclosure.holders:
+            # walked open afterwards: its resting samples must be this page's own
+            return (None, len(self.interactive))
         if self.memo is not None and not is_root and self.memo.worth_trying(key_id):
             fp = self.fingerprints.get(el)
             if fp is None:
@@ -266,6 +289,7 @@ class PageWalker:
         children_of = self.structure.children
         meta = self.meta
         collect = rest and self.collect
+        keep_meta = rest and self.keep_rest
         memo = self.memo
         interactive = self.interactive  # emptied in place by _close_scope
         inert = self.cache.inert
@@ -333,7 +357,7 @@ class PageWalker:
                 cid = ids.get((key_id, element_id)) if ids is not None else None
                 if cid is None:
                     cid = key(key_id, element_id)
-                if collect:
+                if keep_meta:
                     meta[child] = (siblings, cid)
                 quiet = inert.get(element_id)  # the id stands for tag, attributes, emptiness
                 if quiet is None:
@@ -507,7 +531,7 @@ class PageWalker:
             bg_cause, surround, size, weight = core
         getpath = self._getpath
         xpath = getpath(el) + suffix if suffix else getpath(el)
-        if self.collect and self.state == REST:
+        if self.keep_rest and self.state == REST:
             self.rest[(xpath, kind)] = (fg, bg)
         if inherited_at is not None:
             # texts inheriting from one ancestor share one (immutable) Cause

@@ -18,7 +18,8 @@ _HUES = ((50, "red"), (90, "orange"), (125, "yellow"), (170, "green"), (220, "te
          (295, "blue"), (345, "purple"), (360, "red"))
 _GREY_CHROMA = 0.035
 STATES = {"hover": "when hovered", "focus": "when focused",
-          "focus-visible": "when focused from the keyboard"}
+          "focus-visible": "when focused from the keyboard",
+          "shown": "once opened (a closed section, a tab not selected)"}
 _BOXES = ("note", "abstract", "summary", "info", "tip", "hint", "success", "question", "warning",
           "caution", "attention", "failure", "danger", "error", "bug", "example", "quote")
 

@@ -1,0 +1,65 @@
+"""Content a reader shows with a click: a closed ``<details>`` and the panels of tabs made of
+radio buttons (mkdocs-material's content tabs, pymdownx.tabbed, CSS-only tab sets).
+
+A browser hides them until the reader opens them, so a walk of the page as it loads never meets
+their text, yet a reader does: their colours must pass like any other. Each page is therefore
+also walked with every closed ``<details>`` open and every radio button of a group checked
+(a group's panels then show together, each with its label in the selected look), over the
+outermost such elements only; what that walk finds besides what the resting walk found is
+reported in the state ``shown`` (``samples.PageWalker._disclose``).
+
+How browsers hide them, as the HTML Living Standard specifies (the ``details`` element's
+rendering; radio button groups); tabs built on ``:checked`` (radios beside their panels) are
+common practice in themes, while a group of radios beside only their labels (a light/dark
+switch) is not taken for tabs.
+"""
+from __future__ import annotations
+
+SHOWN = "shown"  # the state of what only a disclosed walk meets
+ATTRIBUTES = ("open", "checked")
+
+
+class Disclosure:
+    """The elements to change on one page and the subtrees to walk once they are changed."""
+
+    def __init__(self, root):
+        self.changes = []  # (element, attribute) to set
+        groups = {}  # parent of radio buttons -> its radios
+        for el in root.iter("details", "input"):
+            if el.tag == "details":
+                if el.get("open") is None:
+                    self.changes.append((el, "open"))
+            elif (el.get("type") or "").lower() == "radio":
+                parent = el.getparent()
+                if parent is not None:
+                    groups.setdefault(parent, []).append(el)
+        # tabs: radio buttons beside the panels they show (a group of radios and their labels
+        # alone, as a theme's light/dark switch, shows nothing but itself)
+        tabs = [parent for parent, radios in groups.items()
+                if any(r.get("checked") is None for r in radios) and any(
+                    isinstance(c.tag, str) and c.tag not in ("input", "label") for c in parent)]
+        for parent in tabs:
+            self.changes.extend((r, "checked") for r in groups[parent]
+                                if r.get("checked") is None)
+        candidates = [el for el, attr in self.changes if attr == "open"] + tabs
+        inside = set(candidates)
+        # the outermost ones: a walk of each covers those nested in it
+        self.targets = [el for el in candidates
+                        if not any(up in inside for up in el.iterancestors())]
+        # elements whose subtrees hold a target: not replayed from another page's walk (the
+        # disclosed walk needs their resting samples to tell what is new)
+        self.holders = {up for el in self.targets for up in (el, *el.iterancestors())}
+
+    def __bool__(self) -> bool:
+        return bool(self.targets)
+
+    def apply(self):
+        """Open and check; returns the changed elements and a function that restores them."""
+        for el, attr in self.changes:
+            el.set(attr, attr)
+
+        def restore():
+            for el, attr in self.changes:
+                el.attrib.pop(attr, None)
+
+        return [el for el, _ in self.changes], restore

@@ -1,0 +1,54 @@
+"""Closed <details> and tabs made of radio buttons: their text is checked as a reader who opens
+them sees it, in the state "shown"; what the page shows already is not reported twice.
+
+The pages are written here. How a browser hides the content is the HTML Living Standard's (the
+details element's rendering) and the theme's CSS (`:checked` tabs), both modelled by the
+user-agent stylesheet and the cascade that tests/browser/ compares with Chromium.
+"""
+from lxml import html
+
+from tinctura.engine import Options, check_paths
+from tinctura.extract.disclosure import Disclosure
+
+# #b0b0b0 on white: 2.1685:1 (WCAG 2 contrast ratio, worked by hand: relative luminance 0.4342)
+CSS = """.faint { color: #b0b0b0; }
+.tabs > .panels > div { display: none; }
+.tabs > input:nth-of-type(1):checked ~ .panels > div:nth-child(1),
+.tabs > input:nth-of-type(2):checked ~ .panels > div:nth-child(2) { display: block; }
+"""
+PAGE = """<!doctype html><html lang="en"><head><title>Sail loft</title>
+<link rel="stylesheet" href="site.css"></head><body>
+<p class="faint">Seen at once.</p>
+<details><summary>Splicing</summary><p class="faint">Behind a closed summary.</p>
+ <details><summary>Inner</summary><p class="faint">Nested, closed too.</p></details></details>
+<details open><summary>Whipping</summary><p class="faint">Open already.</p></details>
+<div class="tabs"><input type="radio" name="t" id="t1" checked><input type="radio" name="t" id="t2">
+ <label for="t1">Canvas</label><label for="t2">Dacron</label>
+ <div class="panels"><div><p class="faint">First tab.</p></div>
+  <div><p class="faint">Second tab.</p></div></div></div>
+<form class="switch"><input type="radio" name="mode" checked><label>Day</label>
+ <input type="radio" name="mode"><label>Night</label></form>
+</body></html>"""
+
+
+def test_the_text_a_reader_opens_is_checked_once_as_shown(tmp_path):
+    (tmp_path / "site.css").write_text(CSS, encoding="utf-8")
+    (tmp_path / "index.html").write_text(PAGE, encoding="utf-8")
+    report = check_paths([str(tmp_path)], Options(jobs=1, states=False, rules=("TC100",)))
+    found = sorted((f.sample.text, f.sample.state) for f in report.findings)
+    assert found == [("Behind a closed summary.", "shown"), ("First tab.", "rest"),
+                     ("Nested, closed too.", "shown"), ("Open already.", "rest"),
+                     ("Second tab.", "shown"), ("Seen at once.", "rest")]
+    assert all(abs(f.ratio - 2.1685) < 0.001 for f in report.findings)
+
+
+def test_targets_are_the_outermost_closed_details_and_tab_sets():
+    root = html.fromstring(PAGE)
+    found = Disclosure(root)
+    names = [(el.tag, el.get("class")) for el in found.targets]
+    assert names == [("details", None), ("div", "tabs")]  # not the inner details, not the switch
+    changed, restore = found.apply()
+    assert len(changed) == 3 and all(el.get("open") or el.get("checked") for el in changed)
+    restore()
+    assert html.tostring(root) == html.tostring(html.fromstring(PAGE))
+    assert not Disclosure(html.fromstring("<p>plain</p>"))
