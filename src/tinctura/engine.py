@@ -186,42 +186,52 @@ class Site:
                                          self.options.logotypes, structure.text,
                                          source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
                                          else data, per_link=link_mod.consider)
-            disclosure = Disclosure(root)  # closed <details>, tab panels: walked open too
+            disclosure = Disclosure(root)  # closed <details>, tabs, menus: walked open too
+            walkers = []
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
                 changed = [attr for _, attr, _ in scheme.attributes]
                 _forget(fingerprints, restore.elements)
                 structure.changed(restore.elements, changed)
                 try:
-                    env = Environment(self.options.viewport_width, scheme_media=scheme.media)
-                    index = ruleset.index(env)
-                    # identity of the rule set (never reused); the scheme's name too, since
-                    # replayed fragments carry it
-                    key = (ruleset, env.key, scheme.attributes, scheme.name)
-                    cache = self._caches.get(key)
-                    if cache is None:
-                        cache = self._caches[key] = StyleCache()
-                    preferred = scheme.media_value("prefers-color-scheme", "light")
-                    walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred,
-                                        cache, self.options.viewport_width, result.skipped,
-                                        keep_layers=self.options.keep_samples,
-                                        lazy=not self.options.keep_samples,
-                                        fingerprints=fingerprints,
-                                        replay=self.options.replay and self.options.share,
-                                        structure=structure, share=self.options.share,
-                                        exemptions=exemptions, disclosure=disclosure)
-                    walker.resolver.max_var_tokens = self.options.max_var_tokens
+                    walker = self._walker(rel, root, ruleset, scheme, result, fingerprints,
+                                          structure, exemptions, disclosure)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                     _report_resolver(walker.resolver, result.diagnostics)
+                    walkers.append((scheme, walker))
                 finally:
                     restore()
                     _forget(fingerprints, restore.elements)
                     structure.changed(restore.elements, changed)
+            if disclosure:
+                _disclosed(root, disclosure, walkers, structure, result)
         except Exception as exc:  # report, keep the other pages
             result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result
 
+
+    def _walker(self, rel, root, ruleset, scheme, result, fingerprints, structure,
+                exemptions, disclosure) -> PageWalker:
+        """A walker of the page in ``scheme`` (its attributes applied to the tree)."""
+        env = Environment(self.options.viewport_width, scheme_media=scheme.media)
+        index = ruleset.index(env)
+        # identity of the rule set (never reused); the scheme's name too, since replayed
+        # fragments carry it
+        key = (ruleset, env.key, scheme.attributes, scheme.name)
+        cache = self._caches.get(key)
+        if cache is None:
+            cache = self._caches[key] = StyleCache()
+        preferred = scheme.media_value("prefers-color-scheme", "light")
+        walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred, cache,
+                            self.options.viewport_width, result.skipped,
+                            keep_layers=self.options.keep_samples,
+                            lazy=not self.options.keep_samples, fingerprints=fingerprints,
+                            replay=self.options.replay and self.options.share,
+                            structure=structure, share=self.options.share,
+                            exemptions=exemptions, disclosure=disclosure)
+        walker.resolver.max_var_tokens = self.options.max_var_tokens
+        return walker
 
     def _script_behaviours(self, root, result, source=None) -> None:
         """Apply what the page's theme scripts change before a reader sees it; say once per
@@ -231,6 +241,26 @@ class Site:
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)
                 result.diagnostics.append(Diagnostic(result.page, note))
+
+
+def _disclosed(root, disclosure, walkers, structure, result) -> None:
+    """What a reader opens (``extract/disclosure.py``), walked in each scheme once every
+    scheme's resting walk is done: the tree is changed once for all of them (a class a menu
+    gets makes the page's structure forget every children list)."""
+    changed, undo = disclosure.apply()
+    structure.changed(changed, disclosure.attributes)
+    try:
+        for scheme, walker in walkers:
+            restore = scheme_mod.apply(root, scheme)
+            attributes = [attr for _, attr, _ in scheme.attributes]
+            structure.changed(restore.elements, attributes)
+            try:
+                result.samples.extend(walker.disclose())
+            finally:
+                restore()
+                structure.changed(restore.elements, attributes)
+    finally:
+        undo()
 
 
 def internal_error(rel: str, exc: BaseException, debug: bool = False) -> Diagnostic:

@@ -1,12 +1,15 @@
 """Content a reader shows with a click: a closed ``<details>`` and the panels of tabs made of
-radio buttons (mkdocs-material's content tabs, pymdownx.tabbed, CSS-only tab sets).
+radio buttons (mkdocs-material's content tabs, pymdownx.tabbed, CSS-only tab sets). Menus a
+theme's script opens (MkDocs' own theme's navigation dropdowns) are not modelled yet: they
+repeat on every page, and walking them open on each would need the replay of repeated
+subtrees the resting walk has.
 
 A browser hides them until the reader opens them, so a walk of the page as it loads never meets
 their text, yet a reader does: their colours must pass like any other. Each page is therefore
-also walked with every closed ``<details>`` open and every radio button of a group checked
-(a group's panels then show together, each with its label in the selected look), over the
-outermost such elements only; what that walk finds besides what the resting walk found is
-reported in the state ``shown`` (``samples.PageWalker._disclose``).
+also walked with every closed ``<details>`` open and every radio button of a group checked (a
+group's panels then show together, each with its label in the selected look), over the
+outermost such elements only; what that walk finds besides what the resting walk
+found is reported in the state ``shown`` (``samples.PageWalker.disclose``).
 
 How browsers hide them, as the HTML Living Standard specifies (the ``details`` element's
 rendering; radio button groups); tabs built on ``:checked`` (radios beside their panels) are
@@ -16,19 +19,18 @@ switch) is not taken for tabs.
 from __future__ import annotations
 
 SHOWN = "shown"  # the state of what only a disclosed walk meets
-ATTRIBUTES = ("open", "checked")
 
 
 class Disclosure:
     """The elements to change on one page and the subtrees to walk once they are changed."""
 
     def __init__(self, root):
-        self.changes = []  # (element, attribute) to set
+        self.changes = []  # (element, attribute, value to set, value before or None)
         groups = {}  # parent of radio buttons -> its radios
         for el in root.iter("details", "input"):
             if el.tag == "details":
                 if el.get("open") is None:
-                    self.changes.append((el, "open"))
+                    self.changes.append((el, "open", "open", None))
             elif (el.get("type") or "").lower() == "radio":
                 parent = el.getparent()
                 if parent is not None:
@@ -39,9 +41,9 @@ class Disclosure:
                 if any(r.get("checked") is None for r in radios) and any(
                     isinstance(c.tag, str) and c.tag not in ("input", "label") for c in parent)]
         for parent in tabs:
-            self.changes.extend((r, "checked") for r in groups[parent]
+            self.changes.extend((r, "checked", "checked", None) for r in groups[parent]
                                 if r.get("checked") is None)
-        candidates = [el for el, attr in self.changes if attr == "open"] + tabs
+        candidates = [el for el, attr, _, _ in self.changes if attr == "open"] + tabs
         inside = set(candidates)
         # the outermost ones: a walk of each covers those nested in it
         self.targets = [el for el in candidates
@@ -49,17 +51,22 @@ class Disclosure:
         # elements whose subtrees hold a target: not replayed from another page's walk (the
         # disclosed walk needs their resting samples to tell what is new)
         self.holders = {up for el in self.targets for up in (el, *el.iterancestors())}
+        self.attributes = sorted({attr for _, attr, _, _ in self.changes})
 
     def __bool__(self) -> bool:
         return bool(self.targets)
 
     def apply(self):
-        """Open and check; returns the changed elements and a function that restores them."""
-        for el, attr in self.changes:
-            el.set(attr, attr)
+        """Open and check; returns the changed elements and a function that restores
+        them."""
+        for el, attr, value, _ in self.changes:
+            el.set(attr, value)
 
         def restore():
-            for el, attr in self.changes:
-                el.attrib.pop(attr, None)
+            for el, attr, _, before in self.changes:
+                if before is None:
+                    el.attrib.pop(attr, None)
+                else:
+                    el.set(attr, before)
 
-        return [el for el, _ in self.changes], restore
+        return [el for el, _, _, _ in self.changes], restore

@@ -198,22 +198,19 @@ class PageWalker:
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
             self.interactive = []
-        if self.disclosure is not None:
-            self._disclose()
         return self.samples
 
-    def _disclose(self):
-        """The page with every closed <details> open and every tab shown
-        (``disclosure.Disclosure``): what is new about it, in the state ``shown``."""
-        changed, restore = self.disclosure.apply()
-        self.structure.changed(changed, disclosure_mod.ATTRIBUTES)
+    def disclose(self) -> list:
+        """After ``walk``, with the page's ``disclosure`` applied to the tree (closed
+        <details> open, tabs shown, menus open: the engine applies it once for every scheme):
+        the samples that are new about it, in the state ``shown``."""
+        before = len(self.samples)
         try:
             for target in self.disclosure.targets:
                 self._state(target, disclosure_mod.SHOWN, (), (), self.rest)
         finally:
-            restore()
-            self.structure.changed(changed, disclosure_mod.ATTRIBUTES)
             self.state = REST
+        return self.samples[before:]
 
     def _run_states(self, targets):
         can_matter = self.index.state_can_matter
