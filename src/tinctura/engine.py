@@ -186,7 +186,7 @@ class Site:
                                          self.options.logotypes, structure.text,
                                          source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
                                          else data, per_link=link_mod.consider)
-            disclosure = Disclosure(root)  # closed <details>, tabs, menus: walked open too
+            disclosure = Disclosure(root, text)  # closed <details>, tabs, menus: walked open too
             walkers = []
             for scheme in schemes:
                 restore = scheme_mod.apply(root, scheme)
@@ -205,7 +205,7 @@ class Site:
                     _forget(fingerprints, restore.elements)
                     structure.changed(restore.elements, changed)
             if disclosure:
-                _disclosed(root, disclosure, walkers, structure, result)
+                _disclosed(root, disclosure, walkers, structure, result, fingerprints)
         except Exception as exc:  # report, keep the other pages
             result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result
@@ -243,21 +243,26 @@ class Site:
                 result.diagnostics.append(Diagnostic(result.page, note))
 
 
-def _disclosed(root, disclosure, walkers, structure, result) -> None:
+def _disclosed(root, disclosure, walkers, structure, result, fingerprints) -> None:
     """What a reader opens (``extract/disclosure.py``), walked in each scheme once every
     scheme's resting walk is done: the tree is changed once for all of them (a class a menu
     gets makes the page's structure forget every children list)."""
     changed, undo = disclosure.apply()
     structure.changed(changed, disclosure.attributes)
+    _forget(fingerprints, changed)  # (a menu's subtree is fingerprinted open, on every page)
     try:
         for scheme, walker in walkers:
             restore = scheme_mod.apply(root, scheme)
             attributes = [attr for _, attr, _ in scheme.attributes]
+            _forget(fingerprints, restore.elements)
             structure.changed(restore.elements, attributes)
             try:
+                before = len(walker.replays)
                 result.samples.extend(walker.disclose())
+                result.replays.extend(walker.replays[before:])
             finally:
                 restore()
+                _forget(fingerprints, restore.elements)
                 structure.changed(restore.elements, attributes)
     finally:
         undo()

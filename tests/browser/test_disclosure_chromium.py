@@ -100,3 +100,60 @@ def test_opened_details_and_tabs_agree_with_chromium(tmp_path):
         assert set(mine[scheme]) <= set(shown), (scheme, set(mine[scheme]) - set(shown))
     # the premise: the collapsed tip and the second tab's panel are among them
     assert {"Hidden until opened.", "Charge for six hours."} <= texts
+
+
+MKDOCS_THEME = """site_name: Theme check
+docs_dir: {docs}
+theme:
+  name: mkdocs
+markdown_extensions: [admonition, tables, attr_list, md_in_html]
+"""
+TOGGLES = "return document.querySelectorAll('[data-bs-toggle=dropdown]').length;"
+MENU_XPATHS = """
+const out = [];
+for (const m of document.querySelectorAll('.dropdown-menu.show')) {
+  const parts = [];
+  for (let n = m; n && n.nodeType === 1; n = n.parentElement) {
+    const same = Array.from(n.parentElement ? n.parentElement.children : [n])
+      .filter(c => c.tagName === n.tagName);
+    parts.unshift(n.tagName.toLowerCase() + (same.length > 1 ? `[${same.indexOf(n) + 1}]` : ''));
+  }
+  out.push('/' + parts.join('/'));
+}
+return out;
+"""
+
+
+def test_menus_opened_by_the_themes_script_agree_with_chromium(tmp_path):
+    """MkDocs' own theme: Bootstrap's script opens a navigation dropdown on a click (the menu
+    gets "show"); Chromium runs it (page scripts on), each dropdown is clicked in turn, and the
+    colours it paints in the open menu are those tinctura reports in the state "shown"."""
+    cfg = tmp_path / "mkdocs.yml"
+    cfg.write_text(MKDOCS_THEME.format(
+        docs=Path(__file__).resolve().parents[2] / "example_site" / "docs"))
+    site = tmp_path / "site"
+    subprocess.run([sys.executable, "-m", "mkdocs", "build", "-q", "-f", str(cfg), "-d",
+                    str(site)], check=True, env=dict(os.environ, NO_MKDOCS_2_WARNING="1"))
+    theirs = {}
+    with ref.serve(site) as base, ref.browser(scripts=True) as driver:
+        driver.execute_cdp_cmd("Emulation.setEmulatedMedia", {"features": [
+            {"name": "prefers-color-scheme", "value": "light"}]})
+        driver.get(base + "index.html")
+        ref._prepare(driver)
+        toggles = driver.execute_script(TOGGLES)
+        for n in range(toggles):
+            driver.execute_script(
+                "document.querySelectorAll('[data-bs-toggle=dropdown]')[arguments[0]].click();", n)
+            (menu,) = driver.execute_script(MENU_XPATHS)  # the script opened exactly one
+            for s in ref.collect_current(driver, states=())[0]:
+                if s["xpath"].startswith(menu + "/") and s["status"] == "determined":
+                    theirs[_key(s)] = s
+    ours = check_paths([str(site / "index.html")], Options(jobs=1, states=False))
+    mine = {s.xpath: s for p in ours.pages for s in p.samples
+            if s.scheme == "light" and s.state == "shown"}
+    assert toggles and len(theirs) >= 5  # the premise: a navigation of several entries
+    assert set(theirs) == set(mine)
+    for key, s in theirs.items():
+        m = mine[key]
+        assert _close(to_hex(m.fg), s["fg"]) and _close(to_hex(m.bg), s["bg"]), \
+            (key, to_hex(m.fg), to_hex(m.bg), s["fg"], s["bg"])

@@ -52,3 +52,35 @@ def test_targets_are_the_outermost_closed_details_and_tab_sets():
     restore()
     assert html.tostring(root) == html.tostring(html.fromstring(PAGE))
     assert not Disclosure(html.fromstring("<p>plain</p>"))
+
+
+MENU_CSS = """body { color: #222222; background: #ffffff; }
+.dropdown-menu { display: none; background: #ffffff; }
+.dropdown-menu.show { display: block; }
+.dropdown-item { color: #b0b0b0; }
+.dropdown-item:hover { color: #c8c8c8; }
+"""
+MENU_PAGE = """<!doctype html><html lang="en"><head><title>Rigging</title>
+<link rel="stylesheet" href="../site.css"></head><body>
+<nav><ul><li><a href="#" data-bs-toggle="dropdown">Guides</a>
+ <ul class="dropdown-menu"><li><a class="dropdown-item" href="../p0/">Knots</a></li>
+  <li><a class="dropdown-item" href="../p1/">Blocks</a></li></ul></li></ul></nav>
+<p>Main text {n}.</p></body></html>"""
+
+
+def test_a_theme_menu_is_checked_open_on_every_page_with_its_links_hovered(tmp_path):
+    # a repeated menu is replayed from the second page on: the same findings on each page
+    (tmp_path / "site.css").write_text(MENU_CSS, encoding="utf-8")
+    for n in range(4):
+        (tmp_path / f"p{n}").mkdir()
+        (tmp_path / f"p{n}" / "index.html").write_text(MENU_PAGE.replace("{n}", str(n)),
+                                                       encoding="utf-8")
+    report = check_paths([str(tmp_path)], Options(jobs=1, rules=("TC100",)))
+    found = sorted({(f.sample.text, f.sample.state) for f in report.findings})
+    assert found == [("Blocks", "hover"), ("Blocks", "shown"), ("Knots", "hover"),
+                     ("Knots", "shown")]
+    per_page = sorted(f.sample.page for f in report.findings)
+    assert per_page == sorted(f"p{n}/index.html" for n in range(4) for _ in range(4))
+    # without the theme's toggle, a hidden list is not a menu a reader can open
+    page = MENU_PAGE.replace('data-bs-toggle="dropdown"', "").replace("{n}", "0")
+    assert not Disclosure(html.fromstring(page)).menus

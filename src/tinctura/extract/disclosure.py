@@ -1,15 +1,15 @@
-"""Content a reader shows with a click: a closed ``<details>`` and the panels of tabs made of
-radio buttons (mkdocs-material's content tabs, pymdownx.tabbed, CSS-only tab sets). Menus a
-theme's script opens (MkDocs' own theme's navigation dropdowns) are not modelled yet: they
-repeat on every page, and walking them open on each would need the replay of repeated
-subtrees the resting walk has.
+"""Content a reader shows with a click: a closed ``<details>``, the panels of tabs made of
+radio buttons (mkdocs-material's content tabs, pymdownx.tabbed, CSS-only tab sets), and the
+dropdown menus a theme's script opens (MkDocs' own theme: its whole navigation).
 
 A browser hides them until the reader opens them, so a walk of the page as it loads never meets
 their text, yet a reader does: their colours must pass like any other. Each page is therefore
 also walked with every closed ``<details>`` open and every radio button of a group checked (a
 group's panels then show together, each with its label in the selected look), over the
 outermost such elements only; what that walk finds besides what the resting walk
-found is reported in the state ``shown`` (``samples.PageWalker.disclose``).
+found is reported in the state ``shown`` (``samples.PageWalker.disclose``). A menu, hidden
+whole until opened and repeated on every page, is walked open as the resting walk goes, its
+repeated parts replayed, its links hovered and focused too.
 
 How browsers hide them, as the HTML Living Standard specifies (the ``details`` element's
 rendering; radio button groups); tabs built on ``:checked`` (radios beside their panels) are
@@ -19,12 +19,21 @@ switch) is not taken for tabs.
 from __future__ import annotations
 
 SHOWN = "shown"  # the state of what only a disclosed walk meets
+# Menus a theme's script opens on click: (text the page must hold, XPath of what marks the
+# page, the menus' class, the class the script adds). Bootstrap 4 and 5 (MkDocs' own theme)
+# add "show" to a dropdown's menu (recalled from memory of Bootstrap's dropdown plugin; the
+# marker is its toggle's attribute; tests/browser/test_disclosure_chromium.py checks it
+# against the theme's script).
+MENUS = (("dropdown-menu", "//*[@data-bs-toggle='dropdown' or @data-toggle='dropdown']",
+          "dropdown-menu", "show"),)
 
 
 class Disclosure:
     """The elements to change on one page and the subtrees to walk once they are changed."""
 
-    def __init__(self, root):
+    def __init__(self, root, text: str | None = None):
+        """``text``: the page's HTML, when at hand (a page without a menu's class is not
+        searched for menus)."""
         self.changes = []  # (element, attribute, value to set, value before or None)
         groups = {}  # parent of radio buttons -> its radios
         for el in root.iter("details", "input"):
@@ -44,6 +53,13 @@ class Disclosure:
             self.changes.extend((r, "checked", "checked", None) for r in groups[parent]
                                 if r.get("checked") is None)
         candidates = [el for el, attr, _, _ in self.changes if attr == "open"] + tabs
+        self.menus = []  # the theme's menus, outermost: walked open as at rest (not deduped)
+        for el, cls in _menus(root, text):
+            self.changes.append((el, "class", f"{el.get('class', '')} {cls}".strip(),
+                                 el.get("class")))
+            self.menus.append(el)
+        self.menus = [el for el in self.menus
+                      if not any(up in set(self.menus) for up in el.iterancestors())]
         inside = set(candidates)
         # the outermost ones: a walk of each covers those nested in it
         self.targets = [el for el in candidates
@@ -54,10 +70,10 @@ class Disclosure:
         self.attributes = sorted({attr for _, attr, _, _ in self.changes})
 
     def __bool__(self) -> bool:
-        return bool(self.targets)
+        return bool(self.targets or self.menus)
 
     def apply(self):
-        """Open and check; returns the changed elements and a function that restores
+        """Open, check and show; returns the changed elements and a function that restores
         them."""
         for el, attr, value, _ in self.changes:
             el.set(attr, value)
@@ -70,3 +86,13 @@ class Disclosure:
                     el.set(attr, before)
 
         return [el for el, _, _, _ in self.changes], restore
+
+
+def _menus(root, text=None) -> list:
+    """``(menu, class to add)`` for the menus a theme's script opens on click."""
+    out = []
+    for needle, marker, menu, cls in MENUS:
+        if (text is None or needle in text) and root.xpath(marker):
+            out.extend((el, cls) for el in root.xpath(f"//*[contains(@class, '{menu}')]")
+                       if menu in el.get("class").split() and cls not in el.get("class").split())
+    return out

@@ -190,7 +190,7 @@ class PageWalker:
         # the resting samples and the sibling facts the walks after the resting one read
         self.keep_rest = self.collect or self.disclosure is not None
         self._getpath = self.structure.path
-        self.state = REST
+        self.state = self.base_state = REST  # base: what state walks compare with
         if self.memo is not None:
             self.memo.begin_page()
         root_key = self._key(0, self.structure.root_id())
@@ -198,6 +198,11 @@ class PageWalker:
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
             self.interactive = []
+        if self.disclosure is not None and self.disclosure.menus:
+            # a menu shown at rest (a site's own CSS) is not walked open again
+            found = [(m, self._path(m, REST)) for m in self.disclosure.menus]
+            self._closed_menus = [m for m, at in found
+                                  if at is not None and at[3].display == "none"]
         return self.samples
 
     def disclose(self) -> list:
@@ -208,9 +213,25 @@ class PageWalker:
         try:
             for target in self.disclosure.targets:
                 self._state(target, disclosure_mod.SHOWN, (), (), self.rest)
+            for menu in getattr(self, "_closed_menus", ()):
+                self._open(menu)
         finally:
-            self.state = REST
+            self.state = self.base_state = REST
         return self.samples[before:]
+
+    def _open(self, menu) -> None:
+        """A menu hidden whole at rest, walked open as the resting walk goes (scopes
+        replayed, links hovered and focused: compared with the menu open), in the state
+        ``shown``; its replays go to ``replays`` like the resting walk's."""
+        found = self._path(menu, disclosure_mod.SHOWN)
+        if found is None or not _displayed(found[3]):
+            return
+        parent_style, kid, chain, _ = found
+        self.state = self.base_state = disclosure_mod.SHOWN
+        self._walk([(menu, parent_style, kid, False, chain, True)], rest=True)
+        if self.interactive:
+            self._run_states(self.interactive)
+            self.interactive = []
 
     def _run_states(self, targets):
         can_matter = self.index.state_can_matter
@@ -224,7 +245,7 @@ class PageWalker:
                 if known is None or known[0] != len(self.texts):
                     known = signatures[el] = (len(self.texts), self._signature(el))
                 self._state_shared(el, kid, known[1], state, on_self, on_path, self.rest)
-        self.state = REST
+        self.state = self.base_state
 
     def _open_scope(self, el, key_id, is_root):
         """Start a scope at ``el``; returns True when a recorded fragment was replayed instead."""
@@ -398,36 +419,12 @@ class PageWalker:
 
     def _state(self, target, state, on_self, on_path, rest):
         """Samples of ``target``'s subtree with a dynamic pseudo-class in force."""
-        path = [target] + list(target.iterancestors())
-        path.reverse()
         marked = mark_states(target, on_self, on_path)
         try:
-            parent_style, parent_id, chain = ROOT_PARENT, 0, ()
-            memo = self._path_memo
-            for k, el in enumerate(path):
-                if el is not target:  # ancestors carry the same state for every target below
-                    hit = memo.get((el, state))
-                    if hit is not None:
-                        if hit is False:
-                            return
-                        parent_style, parent_id, chain = hit
-                        continue
-                siblings, _ = self.meta.get(el, (0, 0))
-                if k == 0:  # the root
-                    kid = self._key(0, self.structure.root_id())
-                else:
-                    kid = self._key(parent_id, self.structure.structure.element_id(
-                        el, siblings, self.structure.wrapper_of))
-                style = self.style_for(el, parent_style, kid, k == 0)
-                if style.display == "none" or style.opacity <= 0:
-                    if el is not target:
-                        memo[(el, state)] = False
-                    return
-                if el is target:
-                    break
-                chain = chain + ((el, style),)
-                parent_style, parent_id = style, kid
-                memo[(el, state)] = (parent_style, parent_id, chain)
+            found = self._path(target, state)
+            if found is None or not _displayed(found[3]):
+                return
+            parent_style, kid, chain, _ = found
             before = len(self.samples)
             self.state = state
             self._walk([(target, parent_style, kid, False, chain, False)])
@@ -439,6 +436,52 @@ class PageWalker:
                     self.samples.append(sample)
         finally:
             unmark_states(marked)
+
+    def _path(self, target, state):
+        """``(parent style, target's key, ancestors' chain, target's style)`` of ``target`` in
+        the tree as it is now (a state or a disclosure in force: ``state`` names it for the
+        ancestors' memo), or None when an ancestor is not displayed."""
+        path = [target] + list(target.iterancestors())
+        path.reverse()
+        parent_style, parent_id, chain = ROOT_PARENT, 0, ()
+        memo = self._path_memo
+        for k, el in enumerate(path):
+            if el is not target:  # ancestors carry the same state for every target below
+                hit = memo.get((el, state))
+                if hit is not None:
+                    if hit is False:
+                        return None
+                    parent_style, parent_id, chain = hit
+                    continue
+            if k == 0:  # the root
+                kid = self._key(0, self.structure.root_id())
+            else:
+                kid = self._key(parent_id, self.structure.structure.element_id(
+                    el, self._siblings(el), self.structure.wrapper_of))
+            style = self.style_for(el, parent_style, kid, k == 0)
+            if el is target:
+                return parent_style, kid, chain, style
+            if not _displayed(style):
+                memo[(el, state)] = False
+                return None
+            chain = chain + ((el, style),)
+            parent_style, parent_id = style, kid
+            memo[(el, state)] = (parent_style, parent_id, chain)
+        return None
+
+    def _siblings(self, el):
+        """What sibling-reading selectors need of ``el``'s place: from the resting walk, or
+        (an element it replayed, not walked) from its parent's children list."""
+        known = self.meta.get(el)
+        if known is not None:
+            return known[0]
+        parent = el.getparent()
+        if parent is None:
+            return 0
+        for child, _, siblings in self.structure.children(parent):
+            if child is el:
+                return siblings
+        return 0
 
     def _skip(self, reason, el):
         if el.tag in ("head", "script", "style", "template", "title", "noscript"):
@@ -528,7 +571,7 @@ class PageWalker:
             bg_cause, surround, size, weight = core
         getpath = self._getpath
         xpath = getpath(el) + suffix if suffix else getpath(el)
-        if self.keep_rest and self.state == REST:
+        if self.keep_rest and self.state == self.base_state:
             self.rest[(xpath, kind)] = (fg, bg)
         if inherited_at is not None:
             # texts inheriting from one ancestor share one (immutable) Cause
@@ -660,6 +703,10 @@ class PageWalker:
 # practice for legibility halos; not a published threshold).
 SHADOW_MAX_OFFSET_PX = 2.0
 SHADOW_MAX_BLUR_PX = 4.0
+
+
+def _displayed(style) -> bool:
+    return style.display != "none" and style.opacity > 0
 
 
 def outline_shadows(value: str, text_colour, style) -> list:

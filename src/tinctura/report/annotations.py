@@ -91,5 +91,5 @@ class AnnotationsFormatter(Formatter):
             + (f" ({by})" if by else "")
             + f" on {m.plural(summary.pages_with_findings, 'page')} of {summary.pages:,} "
               f"checked; annotations above, one per problem ({self.count:,}); every finding is "
-              f"in the JSON, CSV and sarif-findings reports. Automated checks cover only part of WCAG: conformance needs a review "
-              f"by qualified people.\n")
+              f"in the JSON, CSV and sarif-findings reports. Automated checks cover only part "
+              f"of WCAG: conformance needs a review by qualified people.\n")

@@ -4,9 +4,9 @@ A test case fails when the page has findings of that rule that count (not suppre
 already in the baseline); the failure lists the first ``LISTED`` of them and counts the rest
 (a page whose navigation link fails in a state has thousands: a dashboard shows a case's text
 whole, and every finding is in the JSON, CSV and ``sarif-findings`` reports). Held findings
-are named in the case's ``system-out``, likewise. Names are unique (``page: code slug``). Page text is escaped by the XML
-serializer; characters XML 1.0 cannot carry at all (most control characters) are written as
-``\\xNN``.
+are named in the case's ``system-out``, likewise. Names are unique (``page: code slug``).
+Page text is escaped by the XML serializer; characters XML 1.0 cannot carry at all (most
+control characters) are written as ``\\xNN``.
 """
 from __future__ import annotations
 
