@@ -163,8 +163,9 @@ class HtmlFormatter(Formatter):
                 ("Tool", f"tinctura {h.version}"),
                 ("Level", f"WCAG 2.2 level {h.level}"),
                 ("Colour schemes", ", ".join(s.schemes) or "none found"),
-                ("States", "resting, :hover, :focus and :focus-visible of links and controls"
-                 if getattr(sc, "states", True) else "resting state only"),
+                ("States", ("resting, :hover, :focus and :focus-visible of links and controls"
+                            if getattr(sc, "states", True) else "resting state")
+                 + "; closed sections (details), tabs and theme menus opened"),
                 ("Viewport width", f"{getattr(sc, 'viewport_width', 1280)} CSS pixels"),
                 ("Pages checked", f"{s.pages:,}"),
                 ("Pages excluded", self.excluded())]
