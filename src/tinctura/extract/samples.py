@@ -198,6 +198,7 @@ class PageWalker:
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
             self.interactive = []
+        self._closed_menus = []
         if self.disclosure is not None and self.disclosure.menus:
             # a menu shown at rest (a site's own CSS) is not walked open again
             found = [(m, self._path(m, REST)) for m in self.disclosure.menus]
@@ -210,13 +211,15 @@ class PageWalker:
         <details> open, tabs shown, menus open: the engine applies it once for every scheme):
         the samples that are new about it, in the state ``shown``."""
         before = len(self.samples)
+        self._path_memo.clear()  # (worked out in the tree as it was at rest)
         try:
             for target in self.disclosure.targets:
                 self._state(target, disclosure_mod.SHOWN, (), (), self.rest)
-            for menu in getattr(self, "_closed_menus", ()):
+            for menu in self._closed_menus:
                 self._open(menu)
         finally:
             self.state = self.base_state = REST
+            self._path_memo.clear()
         return self.samples[before:]
 
     def _open(self, menu) -> None:
