@@ -84,3 +84,23 @@ def test_a_theme_menu_is_checked_open_on_every_page_with_its_links_hovered(tmp_p
     # without the theme's toggle, a hidden list is not a menu a reader can open
     page = MENU_PAGE.replace('data-bs-toggle="dropdown"', "").replace("{n}", "0")
     assert not Disclosure(html.fromstring(page)).menus
+
+
+def test_a_details_repeated_on_every_page_gives_each_page_the_same_findings(tmp_path):
+    # from the third page on the walk replays what it met twice: a summary seen at rest must
+    # not come back as "shown"
+    (tmp_path / "site.css").write_text(".faint { color: #b0b0b0; }\n", encoding="utf-8")
+    for n in range(5):
+        (tmp_path / f"p{n}").mkdir()
+        (tmp_path / f"p{n}" / "index.html").write_text(
+            '<!doctype html><html lang="en"><head><title>t</title><link rel="stylesheet" '
+            f'href="../site.css"></head><body><p>Page {n}</p><details><summary><span '
+            'class="faint">Faint summary</span></summary><div><ul><li class="faint">Hidden '
+            'item</li></ul></div></details></body></html>', encoding="utf-8")
+    report = check_paths([str(tmp_path)], Options(jobs=1, rules=("TC100",)))
+    per_page = {}
+    for f in report.findings:
+        per_page.setdefault(f.sample.page, []).append((f.sample.text, f.sample.state))
+    assert len(per_page) == 5 and all(sorted(v) == [("Faint summary", "rest"),
+                                                    ("Hidden item", "shown")]
+                                      for v in per_page.values())

@@ -64,9 +64,9 @@ class Disclosure:
         # the outermost ones: a walk of each covers those nested in it
         self.targets = [el for el in candidates
                         if not any(up in inside for up in el.iterancestors())]
-        # elements whose subtrees hold a target: not replayed from another page's walk (the
-        # disclosed walk needs their resting samples to tell what is new)
-        self.holders = {up for el in self.targets for up in (el, *el.iterancestors())}
+        # the targets, what they hold and what holds them: never replayed from another
+        # page's walk (the disclosed walk tells what is new by this page's resting samples)
+        self.holders = {up for el in self.targets for up in (*el.iter(), *el.iterancestors())}
         self.attributes = sorted({attr for _, attr, _, _ in self.changes})
 
     def __bool__(self) -> bool:
