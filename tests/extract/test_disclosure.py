@@ -104,3 +104,17 @@ def test_a_details_repeated_on_every_page_gives_each_page_the_same_findings(tmp_
     assert len(per_page) == 5 and all(sorted(v) == [("Faint summary", "rest"),
                                                     ("Hidden item", "shown")]
                                       for v in per_page.values())
+
+
+def test_links_in_opened_content_are_hovered_once(tmp_path):
+    # the summary's link is hovered by the resting walk; the hidden one only once opened
+    (tmp_path / "site.css").write_text("a { color: #222222; } a:hover { color: #c8c8c8; }\n",
+                                       encoding="utf-8")
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html lang="en"><head><title>t</title><link rel="stylesheet" '
+        'href="site.css"></head><body><details><summary>Mooring <a href="#a">lines</a>'
+        '</summary><p>See <a href="#b">the cleat chart</a>.</p></details></body></html>',
+        encoding="utf-8")
+    report = check_paths([str(tmp_path)], Options(jobs=1, rules=("TC100",)))
+    found = sorted((f.sample.text, f.sample.state) for f in report.findings)
+    assert found == [("lines", "hover"), ("the cleat chart", "hover")]

@@ -180,6 +180,7 @@ class PageWalker:
         self.meta = {}
         self.texts = {}  # element -> its own text, from the resting walk
         self.interactive = []
+        self._stated = set()  # controls whose states a walk has worked out
         self.rest = {}  # (xpath, kind) -> (fg, bg) of resting samples, for the state walks
         self._svg_shapes = {}
         self._path_memo = {}
@@ -214,13 +215,41 @@ class PageWalker:
         self._path_memo.clear()  # (worked out in the tree as it was at rest)
         try:
             for target in self.disclosure.targets:
-                self._state(target, disclosure_mod.SHOWN, (), (), self.rest)
+                self._shown(target)
             for menu in self._closed_menus:
                 self._open(menu)
         finally:
             self.state = self.base_state = REST
             self._path_memo.clear()
         return self.samples[before:]
+
+    def _shown(self, target) -> None:
+        """Opened content (a details, a tab set): what differs from the resting samples, in
+        the state ``shown``, then the states of the controls the resting walk did not meet
+        (compared with their opened look)."""
+        found = self._path(target, disclosure_mod.SHOWN)
+        if found is None or not _displayed(found[3]):
+            return
+        parent_style, kid, chain, _ = found
+        before = len(self.samples)
+        self.state = disclosure_mod.SHOWN
+        self._walk([(target, parent_style, kid, False, chain, False)], gather=True)
+        new = self.samples[before:]
+        del self.samples[before:]
+        rest = self.rest
+        for sample in new:
+            key = (sample.xpath, sample.kind)
+            if rest.get(key) != (sample.fg, sample.bg):
+                self.samples.append(sample)
+                rest[key] = (sample.fg, sample.bg)  # what its states are compared with
+        controls = [(el, k) for el, k in self.interactive if el not in self._stated]
+        self.interactive = []
+        if controls:
+            self.base_state = disclosure_mod.SHOWN
+            try:
+                self._run_states(controls)
+            finally:
+                self.state = self.base_state = REST
 
     def _open(self, menu) -> None:
         """A menu hidden whole at rest, walked open as the resting walk goes (scopes
@@ -238,6 +267,7 @@ class PageWalker:
 
     def _run_states(self, targets):
         can_matter = self.index.state_can_matter
+        self._stated.update(el for el, _ in targets)
         targets = [(el, kid) for el, kid in targets if can_matter(el)]  # once for every state
         signatures = {}  # element -> (len(self.texts) then, _signature)
         for state, on_self, on_path in STATES:
@@ -300,7 +330,9 @@ class PageWalker:
             outer.nested.append((first, len(self.samples), stamp.new_base[len(outer.base):],
                                  fragment))
 
-    def _walk(self, stack, rest=False):
+    def _walk(self, stack, rest=False, gather=False):
+        """``rest``: the resting walk (or a menu's, as one); ``gather``: a walk outside it that
+        still gathers the controls for their states and the sibling facts (opened content)."""
         key = self._key
         # the common paths inlined (a page walks thousands of elements): a cached style,
         # a known children list, an interned key
@@ -309,8 +341,8 @@ class PageWalker:
         ids = None if self.uncached else self.cache.ids
         children_of = self.structure.children
         meta = self.meta
-        collect = rest and self.collect
-        keep_meta = rest and self.keep_rest
+        collect = (rest or gather) and self.collect
+        keep_meta = (rest or gather) and self.keep_rest
         memo = self.memo
         interactive = self.interactive  # emptied in place by _close_scope
         inert = self.cache.inert
