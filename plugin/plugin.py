@@ -31,7 +31,7 @@ from tinctura.report.scope import scope_of
 from tinctura.report.status import at_or_above
 from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
-from tinctura.report.text_report import (EXAMPLES, problem_lines, sentence_of, summary_line,
+from tinctura.report.text_report import (EXAMPLES, headline, problem_lines, summary_line,
                                          terminal_width, wrapped)
 from tinctura.writer import WriterAid
 
@@ -566,8 +566,7 @@ def quiet_summary(bad, found, fail_on, locate=None, many_schemes=False, first: i
         where = ""
         if location is not None and location.source is not None and location.source.where():
             where = f" ({location.source.where()})"
-        said = m.message(problem.worst) if is_appearance(problem.worst) else \
-            sentence_of(problem, locate, many_schemes)
+        said = headline(problem, locate, many_schemes)
         lines.append(f"  {n}. {said}{where}")
     if len(failing_problems) > first:
         lines.append(f"  and {m.plural(len(failing_problems) - first, 'more problem')}: each "

@@ -59,8 +59,7 @@ class AnnotationsFormatter(Formatter):
         self.count += 1
 
     def annotation(self, index: int, p) -> str:
-        from .appearance import is_appearance
-        from .text_report import fix_lines, sentence_of
+        from .text_report import counted, fix_texts, headline
 
         s = p.worst.sample
         path, line = s.page, s.line
@@ -69,12 +68,9 @@ class AnnotationsFormatter(Formatter):
         source = markdown_source(self.header, s)
         if source:
             path, line = source
-        said = m.message(p.worst) if is_appearance(p.worst) else \
-            sentence_of(p, self.header.locate, len(self.header.schemes) > 1)
-        pages = f" on {m.plural(p.pages, 'page')}" if p.pages > 1 else ""
-        lines = [said, f"{m.plural(p.occurrences, 'occurrence')}{pages} (problem {index} of "
-                       f"the reports); here: \u201c{m.excerpt(s.text, 80)}\u201d at {s.xpath}"]
-        lines += ["  " * max(indent - 1, 0) + text for indent, text, _, _ in fix_lines(p)]
+        lines = [headline(p, self.header.locate, len(self.header.schemes) > 1),
+                 f"{counted(p)} (problem {index} of the reports); here: "
+                 f"\u201c{m.excerpt(s.text, 80)}\u201d at {s.xpath}", *fix_texts(p)]
         return command(COMMAND.get(p.severity, "warning"), "\n".join(lines), file=path,
                        line=str(line) if line else None, title=f"{p.rule} {p.slug}")
 

@@ -10,10 +10,9 @@ import os
 
 from . import appearance
 from . import messages as m
-from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
-from .text_report import sentence_of
+from .text_report import headline
 
 SCHEMA_VERSION = 3  # the compact layout; the flat one keeps writing format 1
 FLAT_VERSION = 1
@@ -415,8 +414,7 @@ def problem_dict(problem, index_of: dict, locate=None, many_schemes: bool = Fals
         "findings": list(problem.indexes) if problem.indexes is not None else
         [index_of[id(f)] for f in problem.findings if id(f) in index_of],
         "where": where_dict(problem.worst, location),
-        "sentence": m.message(problem.worst) if is_appearance(problem.worst) else
-        sentence_of(problem, locate, many_schemes or len(problem.schemes) > 1),
+        "sentence": headline(problem, locate, many_schemes or len(problem.schemes) > 1),
     }
 
 

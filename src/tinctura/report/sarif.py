@@ -140,17 +140,11 @@ class SarifFormatter(_Sarif):
         self._write(self.problem_result(index, problem))
 
     def problem_result(self, index: int, p) -> dict:
-        from .appearance import is_appearance
-        from .text_report import examples, fix_lines, sentence_of
+        from .text_report import counted, examples, fix_texts, headline
 
         worst = p.worst
-        many = len(self.header.schemes) > 1
-        said = m.message(worst) if is_appearance(worst) else \
-            sentence_of(p, self.header.locate, many)
-        pages = f" on {m.plural(p.pages, 'page')}" if p.pages > 1 else ""
-        lines = [said, f"{m.plural(p.occurrences, 'occurrence')}{pages}; problem {index} of "
-                       f"the reports."]
-        lines += ["  " * max(indent - 1, 0) + text for indent, text, _, _ in fix_lines(p)]
+        lines = [headline(p, self.header.locate, len(self.header.schemes) > 1),
+                 f"{counted(p)}; problem {index} of the reports.", *fix_texts(p)]
         primary, built = self._places(worst.sample)
         result = {
             "ruleId": p.rule, "ruleIndex": self.index.get(p.rule, -1),

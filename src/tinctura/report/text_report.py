@@ -6,7 +6,6 @@ import textwrap
 
 from tinctura.colour import suggest
 from tinctura.overrides import faded
-from tinctura.problems import target_declaration
 from tinctura.situations import slot
 
 from . import messages as m
@@ -161,16 +160,6 @@ class TextFormatter(Formatter):
         for line in textwrap.wrap(DISCLAIMER, min(self.width, WIDTH)):
             tw.line(line, "dim")
         tw.flush()
-
-
-def headline(cause, rgb, what: str) -> str:
-    """``color `#777` at main.css:120``: the value and where it is set, for the problem line."""
-    d = target_declaration(cause)
-    if d is None:
-        return f"{what} {m.colour(rgb)} (not declared)"
-    return f"{d.property} `{d.value}` at {d.where()}"
-
-
 
 
 def examples(findings, first=None, most: int = EXAMPLES) -> list:
@@ -335,6 +324,25 @@ def problem_lines(index, problem, locate=None, many_schemes: bool = False, detai
         for line in cause_fix_lines(problem.fix_at_cause, m.needs(worst)):
             out.append((2, line, None, True))
     return out
+
+
+def headline(problem, locate=None, many_schemes: bool = False) -> str:
+    """A problem in one sentence: a site-level appearance problem's message (TC300, TC310),
+    else ``sentence_of``."""
+    worst = problem.worst
+    return m.message(worst) if is_appearance(worst) else \
+        sentence_of(problem, locate, many_schemes)
+
+
+def counted(problem) -> str:
+    """``7 occurrences on 3 pages``."""
+    pages = f" on {m.plural(problem.pages, 'page')}" if problem.pages > 1 else ""
+    return f"{m.plural(problem.occurrences, 'occurrence')}{pages}"
+
+
+def fix_texts(problem) -> list:
+    """``fix_lines`` as plain lines, nested lines indented by two spaces a level."""
+    return ["  " * max(indent - 1, 0) + text for indent, text, _, _ in fix_lines(problem)]
 
 
 def sentence_of(problem, locate=None, many_schemes: bool = False) -> str:
