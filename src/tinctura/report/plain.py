@@ -19,7 +19,8 @@ _HUES = ((50, "red"), (90, "orange"), (125, "yellow"), (170, "green"), (220, "te
 _GREY_CHROMA = 0.035
 STATES = {"hover": "when hovered", "focus": "when focused",
           "focus-visible": "when focused from the keyboard",
-          "shown": "once opened (a closed section, a tab not selected)"}
+          # a closed <details>, a tab not selected, a theme's menu (extract/disclosure.py)
+          "shown": "once opened"}
 _BOXES = ("note", "abstract", "summary", "info", "tip", "hint", "success", "question", "warning",
           "caution", "attention", "failure", "danger", "error", "bug", "example", "quote")
 
