@@ -55,7 +55,9 @@ def _listed(items, line, finding) -> str:
 
 
 class JunitFormatter(Formatter):
-    wants_fingerprints = True
+    # a finding's fingerprint is shown where the run has it (a baseline, a suppression on the
+    # page, another report that wants them): working it out for every finding only for the
+    # 20 a case lists was most of this report's cost
     marked = True
 
     def __init__(self, stream, header):
