@@ -45,3 +45,17 @@ def test_theme_text_names_the_template(tmp_path):
     assert found.template == "partials/header.html" and found.file is None
     assert theme_area((("p", (), ""), ("article", ("md-content__inner",), ""))) is None
     assert theme_area((("a", (), ""), ("footer", (), "")), "mkdocs") == (None, "the footer")
+
+
+def test_mkdocs_theme_navigation_bar_and_sidebar_are_the_themes():
+    # MkDocs' own theme renders its navigation (menus too) in a div.navbar and its table of
+    # contents in div.bs-sidebar, with no nav element around them (its base.html, built here)
+    menu_item = (("a", ("dropdown-item",), ""), ("li", (), ""), ("ul", ("dropdown-menu",), ""),
+                 ("li", ("nav-item", "dropdown"), ""), ("ul", ("nav", "navbar-nav"), ""),
+                 ("div", ("navbar-collapse", "collapse"), "navbar-collapse"),
+                 ("div", ("container",), ""), ("div", ("navbar", "fixed-top"), ""),
+                 ("body", (), ""))
+    assert theme_area(menu_item, "mkdocs") == (None, "the navigation bar")
+    toc = (("a", ("nav-link",), ""), ("div", ("navbar-expand-md", "bs-sidebar"), ""),
+           ("div", ("col-md-3",), ""), ("body", (), ""))
+    assert theme_area(toc, "mkdocs") == (None, "the table of contents")

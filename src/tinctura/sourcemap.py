@@ -28,6 +28,9 @@ _AREAS = (
     ("md-sidebar", "partials/nav.html", "the navigation"),
     ("md-footer", "partials/footer.html", "the footer"),
     ("md-banner", "main.html", "the announcement banner"),
+    # MkDocs' own theme (Bootstrap): its navigation bar, menus included, and its sidebar
+    ("navbar", "base.html", "the navigation bar"),
+    ("bs-sidebar", "toc.html", "the table of contents"),
 )
 _TAGS = {"header": "the site header", "nav": "the navigation", "footer": "the footer",
          "aside": "a sidebar"}
