@@ -275,3 +275,32 @@ def test_a_collectors_problems_know_every_page_they_were_met_on():
         collector.add(f)
     (problem,) = [p for p in collector.problems(uses={}) if p.rule == "TC100"]
     assert problem.met_on == {f"p{i}.html" for i in range(7)} and problem.pages == 7
+
+
+def test_a_fix_with_the_same_value_in_every_scheme_is_one_rule(tmp_path):
+    # white on #2fa4e7 in both schemes of a media-query site: no white text passes, so the
+    # background changes, to the same value in both; written once, outside any @media block
+    import io
+    import json
+    import re
+
+    from tinctura.cli import main
+    from wcag_reference import ratio
+
+    (tmp_path / "site.css").write_text(
+        "body { color: #222; background: #fff; }\n"
+        "@media (prefers-color-scheme: dark) { body { color: #eee; background: #111; } }\n"
+        ".badge { color: #ffffff; background-color: #2fa4e7; }\n", encoding="utf-8")
+    (tmp_path / "index.html").write_text(
+        '<!doctype html><html lang="en"><head><title>t</title><link rel="stylesheet" '
+        'href="site.css"></head><body><p>Tide <span class="badge">Slack water</span> now.</p>'
+        "</body></html>", encoding="utf-8")
+    out = io.StringIO()
+    main(["check", str(tmp_path), "--select", "TC100", "--no-states", "--jobs", "1",
+          "--fail-on", "never", "--format", "json"], stdout=out, stderr=io.StringIO())
+    (problem,) = json.loads(out.getvalue())["problems"]
+    assert problem["schemes"] and len(problem["schemes"]) == 2  # the premise
+    css, verified = problem["fix"]["css"], problem["fix"]["verified"]
+    value = re.fullmatch(r"\.badge \{\n  background-color: (#[0-9a-f]{6});\n\}\n", css)
+    assert value and verified, css
+    assert ratio("#ffffff", value.group(1)) >= 4.5  # WCAG 2.2 formula (tests/wcag_reference.py)

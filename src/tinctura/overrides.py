@@ -211,22 +211,23 @@ class Planner:
                                             None)
             schemes = [] if everywhere else used
         else:
+            per = {}  # scheme -> (its rules, what they change)
             for name in failing:
-                figures = problem.schemes.get(name)
-                worst = figures.worst if figures is not None else problem.worst
-                context = _context_for(fix.contexts, name, worst)
-                scope = self.scope(name)
-                if context is not None and context.colour is not None:
-                    per_bg = sum(1 for c in fix.contexts if name in c.schemes) > 1
-                    rules += self._fg_rules(problem, decl, scope, context.colour,
-                                            element_selector, worst if per_bg else None)
-                else:
-                    got = self._bg_rules(problem, scope, worst, narrow_bg)
-                    if not got:
-                        return None
-                    rules += got
-                    target = "background"
-                schemes.append(name)
+                per[name] = self._scheme_rules(problem, fix, decl, name, self.scope(name),
+                                               element_selector, narrow_bg)
+                if per[name] is None:
+                    return None
+            if len(per) > 1 and set(per) >= set(self.schemes):
+                # the same rules in every scheme once unscoped: one set (:where() gave the
+                # scoped ones no specificity, so it wins where they won)
+                plain = [self._scheme_rules(problem, fix, decl, name, Scope(),
+                                            element_selector, narrow_bg) for name in per]
+                if None not in plain and len({_rules_key(got) for got in plain}) == 1:
+                    per = {None: plain[0]}
+            for got, changed in per.values():
+                rules += got
+                target = changed
+            schemes = [name for name in per if name is not None]
         if not rules:
             return None
         file, note = self._file(decl if target == "foreground" else
@@ -235,6 +236,19 @@ class Planner:
             note = ("the colour is set by a style attribute in the page: changing it there is "
                     "better than this rule")
         return Override(file, rules, tuple(schemes), target, note)
+
+    def _scheme_rules(self, problem, fix, decl, name, scope, element_selector, narrow_bg):
+        """``(rules, "foreground" or "background")`` for the scheme ``name`` under ``scope``:
+        the text colour its worst texts need, else their background; None when neither."""
+        figures = problem.schemes.get(name)
+        worst = figures.worst if figures is not None else problem.worst
+        context = _context_for(fix.contexts, name, worst)
+        if context is not None and context.colour is not None:
+            per_bg = sum(1 for c in fix.contexts if name in c.schemes) > 1
+            return self._fg_rules(problem, decl, scope, context.colour, element_selector,
+                                  worst if per_bg else None), "foreground"
+        got = self._bg_rules(problem, scope, worst, narrow_bg)
+        return (got, "background") if got else None
 
     def _cue(self, problem, element_selector=None) -> Optional[Override]:
         """Links told apart by colour alone: underlined, on the rule that colours them (every
@@ -465,6 +479,12 @@ OVERRIDE_RULES = frozenset({"TC100", "TC120"})
 CUE_RULES = frozenset({"TC120"})
 UNDERLINE_NOTE = "an underline tells the links apart from the text around them without colour"
 _COMBINATOR = re.compile(r"[\s>+~]")
+
+
+def _rules_key(planned) -> tuple:
+    """What a planned ``(rules, target)`` writes, to compare plans."""
+    rules, target = planned
+    return target, tuple((r.media, r.selector, r.declarations) for r in rules)
 
 
 def page_wide(selector: str) -> bool:
