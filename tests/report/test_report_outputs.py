@@ -75,6 +75,13 @@ def test_sarif_by_problem_one_result_with_examples_fix_and_a_stable_fingerprint(
     assert "one per problem" in run_["properties"]["results"]
 
 
+def test_sarif_by_problem_with_a_baseline_marks_its_problems_new():
+    # a baseline holds the unchanged findings back: what is grouped is new
+    (result,) = sarif(fmt="sarif", marks=[("", "unchanged"), ("", "new")])["results"]
+    assert result["baselineState"] == "new" and result["properties"]["occurrences"] == 1
+    assert "baselineState" not in sarif(fmt="sarif")["results"][0]  # no baseline: none
+
+
 def test_sarif_is_valid_and_carries_rules_fingerprints_and_locations():
     run_ = sarif()
     rule = run_["tool"]["driver"]["rules"][0]

@@ -157,6 +157,8 @@ class SarifFormatter(_Sarif):
         }
         if result["ruleIndex"] < 0:
             del result["ruleIndex"]
+        if getattr(worst, "baseline", ""):  # with a baseline, problems group new findings only
+            result["baselineState"] = "new"
         related = [] if built is None else [(built, "the built page")]
         for f in examples(p.example_pool(), worst, RELATED + 1):
             if f is not worst and len(related) < RELATED + 1:
