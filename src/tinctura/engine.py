@@ -189,21 +189,13 @@ class Site:
             disclosure = Disclosure(root, text)  # closed <details>, tabs, menus: walked open too
             walkers = []
             for scheme in schemes:
-                restore = scheme_mod.apply(root, scheme)
-                changed = [attr for _, attr, _ in scheme.attributes]
-                _forget(fingerprints, restore.elements)
-                structure.changed(restore.elements, changed)
-                try:
+                with _scheme_applied(root, scheme, fingerprints, structure):
                     walker = self._walker(rel, root, ruleset, scheme, result, fingerprints,
                                           structure, exemptions, disclosure)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                     _report_resolver(walker.resolver, result.diagnostics)
                     walkers.append((scheme, walker))
-                finally:
-                    restore()
-                    _forget(fingerprints, restore.elements)
-                    structure.changed(restore.elements, changed)
             if disclosure:
                 _disclosed(root, disclosure, walkers, structure, result, fingerprints)
         except Exception as exc:  # report, keep the other pages
@@ -252,20 +244,28 @@ def _disclosed(root, disclosure, walkers, structure, result, fingerprints) -> No
     _forget(fingerprints, changed)  # (a menu's subtree is fingerprinted open, on every page)
     try:
         for scheme, walker in walkers:
-            restore = scheme_mod.apply(root, scheme)
-            attributes = [attr for _, attr, _ in scheme.attributes]
-            _forget(fingerprints, restore.elements)
-            structure.changed(restore.elements, attributes)
-            try:
+            with _scheme_applied(root, scheme, fingerprints, structure):
                 before = len(walker.replays)
                 result.samples.extend(walker.disclose())
                 result.replays.extend(walker.replays[before:])
-            finally:
-                restore()
-                _forget(fingerprints, restore.elements)
-                structure.changed(restore.elements, attributes)
     finally:
         undo()
+
+
+@contextmanager
+def _scheme_applied(root, scheme, fingerprints, structure):
+    """The tree with ``scheme``'s attributes set, and what read the changed elements forgotten
+    (their subtrees' fingerprints, the structure's lists) on the way in and out."""
+    restore = scheme_mod.apply(root, scheme)
+    changed = [attr for _, attr, _ in scheme.attributes]
+    _forget(fingerprints, restore.elements)
+    structure.changed(restore.elements, changed)
+    try:
+        yield
+    finally:
+        restore()
+        _forget(fingerprints, restore.elements)
+        structure.changed(restore.elements, changed)
 
 
 def internal_error(rel: str, exc: BaseException, debug: bool = False) -> Diagnostic:

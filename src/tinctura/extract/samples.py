@@ -227,21 +227,10 @@ class PageWalker:
         """Opened content (a details, a tab set): what differs from the resting samples, in
         the state ``shown``, then the states of the controls the resting walk did not meet
         (compared with their opened look)."""
-        found = self._path(target, disclosure_mod.SHOWN)
-        if found is None or not _displayed(found[3]):
-            return
-        parent_style, kid, chain, _ = found
-        before = len(self.samples)
-        self.state = disclosure_mod.SHOWN
-        self._walk([(target, parent_style, kid, False, chain, False)], gather=True)
-        new = self.samples[before:]
-        del self.samples[before:]
-        rest = self.rest
-        for sample in new:
-            key = (sample.xpath, sample.kind)
-            if rest.get(key) != (sample.fg, sample.bg):
-                self.samples.append(sample)
-                rest[key] = (sample.fg, sample.bg)  # what its states are compared with
+        for sample in self._state(target, disclosure_mod.SHOWN, (), (), self.rest,
+                                  gather=True):
+            # what its controls' states are compared with
+            self.rest[(sample.xpath, sample.kind)] = (sample.fg, sample.bg)
         controls = [(el, k) for el, k in self.interactive if el not in self._stated]
         self.interactive = []
         if controls:
@@ -452,23 +441,26 @@ class PageWalker:
                 moved.text = " ".join(texts.get(at, "").split())[:60]
             self.samples.append(moved)
 
-    def _state(self, target, state, on_self, on_path, rest):
-        """Samples of ``target``'s subtree with a dynamic pseudo-class in force."""
+    def _state(self, target, state, on_self, on_path, rest, gather=False) -> list:
+        """Samples of ``target``'s subtree with a dynamic pseudo-class (or, with none, what
+        the tree as it is now shows) in force: those that differ from ``rest``, kept and
+        returned. ``gather``: as ``_walk``'s."""
         marked = mark_states(target, on_self, on_path)
         try:
             found = self._path(target, state)
             if found is None or not _displayed(found[3]):
-                return
+                return []
             parent_style, kid, chain, _ = found
             before = len(self.samples)
             self.state = state
-            self._walk([(target, parent_style, kid, False, chain, False)])
+            self._walk([(target, parent_style, kid, False, chain, False)], gather=gather)
             new = self.samples[before:]
             del self.samples[before:]
             for sample in new:
                 sample.state = state
                 if rest.get((sample.xpath, sample.kind)) != (sample.fg, sample.bg):
                     self.samples.append(sample)
+            return self.samples[before:]
         finally:
             unmark_states(marked)
 

@@ -135,16 +135,15 @@ class Tally:
         self.pages: list = []  # every page checked, in run order
         self.undetermined: dict = {}  # page -> {reason: texts not judged}
 
-    def add(self, page: str, findings, undetermined=None, at=None) -> None:
-        """``findings``: the page's, or their situations' templates with ``at`` the page."""
+    def add(self, page: str, findings, undetermined=None, templates: bool = False) -> None:
+        """``findings``: the page's (site-level ones: counted on their first page), or, with
+        ``templates``, their situations' templates, counted on ``page``."""
         if page != SITE_PAGE:  # the site-level findings' group is not a page
             self.pages.append(page)
         if undetermined:
             self.undetermined[page] = dict(undetermined)
-        where = at
         for f in findings:
-            # (site-level findings: their first page)
-            scheme, at = f.sample.scheme, f.sample.page if where is None else where
+            scheme, at = f.sample.scheme, page if templates else f.sample.page
             self.by_page[at] += 1
             self.by_page_scheme.setdefault(at, Counter())[scheme] += 1
             self.by_page_severity.setdefault(at, Counter())[f.severity] += 1

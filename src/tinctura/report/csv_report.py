@@ -12,6 +12,7 @@ from tinctura.problems import target_declaration
 
 from . import messages as m
 from .base import Formatter, Header
+from .outputs import per_situation
 
 COLUMNS = (
     "page", "line", "xpath", "scheme", "state", "rule", "slug", "severity", "level", "criterion",
@@ -40,13 +41,8 @@ def row(f, header=None, memo=None) -> list:
     from .html_report import source_of
 
     s = f.sample
-    key = (id(f.args), id(f.fixes), f.rule, s.scheme, s.state)
-    kept = memo.get(key) if memo is not None else None
-    if kept is None:
-        kept = (f.args, f.fixes, _situation_cells(f))  # (held: their ids stay theirs)
-        if memo is not None:
-            memo[key] = kept
-    head, numbers, causes, message = kept[2]
+    head, numbers, causes, message = _situation_cells(f) if memo is None else \
+        per_situation(memo, f, _situation_cells)
     text = [s.page, s.line, s.xpath, s.scheme, s.state, *head, m.excerpt(s.text, 200)]
     tail = [*causes, source_of(s, header), message]
     return [safe(v) for v in text] + numbers + [safe(v) for v in tail]
@@ -66,8 +62,6 @@ def _situation_cells(f) -> tuple:
 
 
 class CsvFormatter(Formatter):
-    MEMO_LIMIT = 50000  # situations whose cells are kept
-
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)
         self.writer = csv.writer(stream, lineterminator="\n")
@@ -77,7 +71,5 @@ class CsvFormatter(Formatter):
         self.writer.writerow(COLUMNS)
 
     def page(self, page, findings) -> None:
-        if len(self.memo) > self.MEMO_LIMIT:
-            self.memo.clear()
         for f in findings:
             self.writer.writerow(row(f, self.header, self.memo))

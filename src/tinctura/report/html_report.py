@@ -86,7 +86,7 @@ class HtmlFormatter(Formatter):
         templates = store.situations
         self.tally.add(page.page, [templates[r[0]] for r in store.occurrences(page.page)
                                    if record_counts(r)], audit.undetermined_of(page),
-                       at=page.page)
+                       templates=True)
 
     def problem(self, index, problem) -> None:
         self.problems.append(problem)

@@ -21,6 +21,19 @@ def active(finding) -> bool:
         getattr(finding, "baseline", "") != "unchanged"
 
 
+def per_situation(memo: dict, f, make, limit: int = 50000):
+    """``make(f)``, worked out once for all the occurrences of ``f``'s situation: they share
+    their template's arguments and fixes (``situations.occurrence``), which the memo holds so
+    that their ids stay theirs. ``memo`` is cleared past ``limit`` situations."""
+    key = (id(f.args), id(f.fixes), f.rule, f.sample.scheme, f.sample.state)
+    kept = memo.get(key)
+    if kept is None:
+        if len(memo) >= limit:
+            memo.clear()
+        kept = memo[key] = (f.args, f.fixes, make(f))
+    return kept[2]
+
+
 def record_counts(record) -> bool:
     """``active`` for a store's occurrence record (``FindingStore.occurrences``): its gate
     marks ``(fingerprint, suppressed, baseline, origin)`` or None."""

@@ -26,6 +26,7 @@ from tinctura import fingerprint as fp_mod
 from . import messages as m
 from .base import Formatter, markdown_source, rules_run
 from .notice import DISCLAIMER
+from .outputs import per_situation
 
 SCHEMA = "https://json.schemastore.org/sarif-2.1.0.json"
 LEVEL = {"error": "error", "warning": "warning", "info": "note"}
@@ -204,6 +205,11 @@ def problem_fingerprint(p) -> str:
     return hashlib.sha1("\n".join(parts).encode("utf-8")).hexdigest()[:24]
 
 
+def _said(f) -> tuple:
+    fg, bg = m.finding_colours(f)
+    return m.message(f), m.colour(fg), m.colour(bg)
+
+
 class SarifFindingsFormatter(_Sarif):
     """One result per finding (``sarif-findings``)."""
 
@@ -221,14 +227,7 @@ class SarifFindingsFormatter(_Sarif):
     def _said(self, f) -> tuple:
         """``(message, fg, bg)`` of a finding's situation, worked out once for all its
         occurrences (they share their template's arguments: ``situations.occurrence``)."""
-        key = (id(f.args), f.rule, f.sample.scheme, f.sample.state)
-        kept = self._memo.get(key)
-        if kept is None:
-            if len(self._memo) > 50000:
-                self._memo.clear()
-            fg, bg = m.finding_colours(f)
-            kept = self._memo[key] = (f.args, (m.message(f), m.colour(fg), m.colour(bg)))
-        return kept[1]
+        return per_situation(self._memo, f, _said)
 
     def result(self, f) -> dict:
         s = f.sample
