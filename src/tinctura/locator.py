@@ -170,20 +170,28 @@ def _count(tree, name: str) -> int:
 
 
 class Pages:
-    """Built pages parsed on demand, the last few kept."""
+    """Built pages parsed on demand, the most recently used kept up to a budget of HTML bytes.
 
-    KEEP = 8
+    A report names each problem's examples in problem order, which jumps between pages: on
+    200 pages of a generated manual its 125 places stood on 34 pages, and keeping the last 8
+    trees parsed 74 of them (the whole report's place-naming took a fifth of what follows the
+    last page). A parsed tree takes about ten times its HTML (32 trees of 100 KB pages: 32 MB),
+    so the budget is in bytes: many small pages or a few large ones."""
+
+    KEEP = 64  # trees at most
+    KEEP_BYTES = 3_000_000  # of HTML, the trees' sum (a few large pages still fit: at least 2)
 
     def __init__(self, roots, behaviours=()):
         self.roots = [os.path.abspath(r) for r in roots]
         self.behaviours = tuple(behaviours)  # theme script behaviours the engine applied
-        self._trees: OrderedDict = OrderedDict()
+        self._trees: OrderedDict = OrderedDict()  # page -> (tree, HTML bytes)
+        self._bytes = 0
 
     def tree(self, page: str):
         if page in self._trees:
             self._trees.move_to_end(page)
-            return self._trees[page]
-        tree = None
+            return self._trees[page][0]
+        tree, size = None, 0
         for root in self.roots:
             path = os.path.join(root, page)
             if os.path.isfile(path):
@@ -191,7 +199,9 @@ class Pages:
 
                 try:
                     with open(path, "rb") as fh:
-                        tree = parse_html(fh.read())
+                        data = fh.read()
+                    size = len(data)
+                    tree = parse_html(data)
                     if self.behaviours:  # the XPaths are those of the tree the engine walked
                         from tinctura.extract import behaviours
 
@@ -199,9 +209,11 @@ class Pages:
                 except Exception:  # an unreadable page: no locator, the XPath remains
                     tree = None
                 break
-        self._trees[page] = tree
-        if len(self._trees) > self.KEEP:
-            self._trees.popitem(last=False)
+        self._trees[page] = (tree, size)
+        self._bytes += size
+        while len(self._trees) > 2 and (len(self._trees) > self.KEEP
+                                        or self._bytes > self.KEEP_BYTES):
+            self._bytes -= self._trees.popitem(last=False)[1][1]
         return tree
 
     def element(self, page: str, xpath: str):

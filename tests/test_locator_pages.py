@@ -1,0 +1,63 @@
+"""locator.Pages: built pages parsed on demand and kept within a budget of HTML bytes."""
+from tinctura import locator
+
+
+def _site(tmp_path, sizes):
+    """Pages ``p0.html``... whose HTML is about ``sizes[i]`` bytes."""
+    for i, size in enumerate(sizes):
+        body = "<p>" + "x" * max(size - 40, 1) + "</p>"
+        (tmp_path / f"p{i}.html").write_text(f"<html><body>{body}</body></html>")
+    return [f"p{i}.html" for i in range(len(sizes))]
+
+
+def _counting(pages):
+    parsed = []
+    original = pages.tree
+
+    def tree(page):
+        if page not in pages._trees:
+            parsed.append(page)
+        return original(page)
+
+    pages.tree = tree
+    return parsed
+
+
+def test_pages_revisited_within_the_budget_are_parsed_once(tmp_path):
+    # a report names problems' examples in problem order, jumping between pages
+    names = _site(tmp_path, [1000] * 20)
+    pages = locator.Pages([str(tmp_path)])
+    parsed = _counting(pages)
+    for _ in range(3):
+        for name in names:
+            assert pages.element(name, "/html/body/p") is not None
+    assert parsed == names
+
+
+def test_large_pages_are_let_go_beyond_the_byte_budget(tmp_path, monkeypatch):
+    monkeypatch.setattr(locator.Pages, "KEEP_BYTES", 10_000)
+    names = _site(tmp_path, [4000] * 5)
+    pages = locator.Pages([str(tmp_path)])
+    parsed = _counting(pages)
+    for name in names:
+        pages.tree(name)
+    assert len(pages._trees) == 2  # 8,000 bytes fit, 12,000 do not
+    assert pages._bytes <= 10_000
+    pages.tree(names[0])  # let go: parsed again
+    assert parsed == names + [names[0]]
+
+
+def test_at_least_two_pages_are_kept_however_large(tmp_path, monkeypatch):
+    monkeypatch.setattr(locator.Pages, "KEEP_BYTES", 100)
+    names = _site(tmp_path, [5000, 5000, 5000])
+    pages = locator.Pages([str(tmp_path)])
+    for name in names:
+        pages.tree(name)
+    assert list(pages._trees) == names[1:]
+
+
+def test_a_missing_page_has_no_tree_and_costs_nothing(tmp_path):
+    pages = locator.Pages([str(tmp_path)])
+    assert pages.tree("gone.html") is None
+    assert pages.element("gone.html", "/html/body") is None
+    assert pages._bytes == 0
