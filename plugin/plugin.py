@@ -21,6 +21,7 @@ from tinctura import engine, mkdocs_project, problems, rules, situations
 from tinctura import gate as gated
 from tinctura import palette as palette_mod
 from tinctura.extract import prepared as prepared_mod
+from tinctura.extract import sheet_cache
 from tinctura.report import messages as m
 from tinctura.report import outputs, plain
 from tinctura.report.base import Header
@@ -102,6 +103,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             schemes=self.config.schemes,
             behaviours=tuple(self.config.behaviours or ()),
             theme_behaviours=self.config.theme_behaviours,
+            cache_dir=sheet_cache.default_folder() if self.config.cache else "",
             keep_samples=False,  # a build log needs counts, findings and declaration uses
             rules=chosen,
             severity=tuple(sorted(self.config.severity.items())),

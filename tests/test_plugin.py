@@ -20,7 +20,7 @@ def test_defaults():
     assert plugin.load_config({}) == ([], [])
     assert dict(plugin.config) == {"level": "AA", "fail_on": "error", "exclude": [],
                                    "viewport_width": 1280, "states": True, "log_every": False, "log_detail": False,
-                                   "schemes": None, "jobs": None, "select": [], "ignore": [],
+                                   "schemes": None, "jobs": None, "cache": True, "select": [], "ignore": [],
                                    "severity": {}, "allow": [], "baseline": None, "report": [], "fingerprints": False,
                                    "behaviours": (), "theme_behaviours": True,
                                    "lc_levels": None, "cvd_severity": 1.0,
@@ -35,6 +35,16 @@ def test_appearance_options_reach_the_engine():
     options = plugin.engine_options()
     assert (options.lc_levels, options.cvd_severity, options.profiles) == (
         {"body": 90.0}, 0.5, ("dim", "daylight"))
+
+
+def test_the_stylesheet_cache_is_kept_unless_switched_off(monkeypatch, tmp_path):
+    monkeypatch.setenv("TINCTURA_CACHE_DIR", str(tmp_path / "kept"))
+    plugin = TincturaPlugin()
+    assert plugin.load_config({}) == ([], [])
+    assert plugin.engine_options().cache_dir == str(tmp_path / "kept")
+    off = TincturaPlugin()
+    assert off.load_config({"cache": False}) == ([], [])
+    assert off.engine_options().cache_dir == ""
 
 
 @pytest.mark.parametrize("option, value, needle", [

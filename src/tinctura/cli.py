@@ -13,6 +13,7 @@ import traceback
 from tinctura import baseline as baseline_mod
 from tinctura import config, engine, problems, report, rules
 from tinctura import gate as gated
+from tinctura.extract import sheet_cache
 from tinctura.model import Diagnostic
 from tinctura.palette import palette_setting
 from tinctura.report import messages as m
@@ -226,6 +227,7 @@ def options_from(args) -> engine.Options:
         site_url=args.site_url or "",
         behaviours=tuple(args.behaviours or ()),
         theme_behaviours=args.theme_behaviours,
+        cache_dir=sheet_cache.default_folder() if getattr(args, "cache", True) else "",
         rules=chosen,
         severity=tuple(sorted(getattr(args, "severity", {}).items())),
         lc_levels=getattr(args, "lc_levels", None),

@@ -368,6 +368,9 @@ SETTINGS = (
             flag="--schemes", metavar="FILE", parse=json_file, commands=("check", "pairs")),
     Setting("jobs", optional(whole(1)), None, "processes checking pages (default: the cores)",
             flag="--jobs", metavar="N", parse=int_text, commands=("check", "pairs")),
+    Setting("cache", boolean, True, "keep parsed stylesheets between runs in the user's "
+            "cache folder ($TINCTURA_CACHE_DIR, else $XDG_CACHE_HOME/tinctura or "
+            "~/.cache/tinctura)", flag="--cache", commands=("check", "pairs")),
     Setting("behaviours", behaviours, (), "what the site's own scripts change before a reader "
             "sees a page: a list of {action, selector, value[, marker, script]} (the command "
             "line: a JSON file of that list)", flag="--behaviours", metavar="FILE",

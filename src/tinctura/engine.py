@@ -35,6 +35,7 @@ from .extract import fragments as frag_mod
 from .extract import links as link_mod
 from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
+from .extract import sheet_cache
 from .extract.disclosure import Disclosure
 from .extract.html import decode, parse_html, parser_warnings
 from .extract.loader import SheetLoader
@@ -84,6 +85,8 @@ class Options:
     site_url: str = ""  # the site's public URL: its path prefixes absolute stylesheet links
     behaviours: tuple = ()  # user-declared script behaviours (extract.behaviours.Behaviour)
     theme_behaviours: bool = True  # apply the built-in table of theme script behaviours
+    # parsed stylesheets kept between runs here (extract/sheet_cache.py); "": none kept
+    cache_dir: str = ""
     # a compact JSON report will be written: each page's occurrences are written for it where
     # the page is judged (in the worker, with --jobs N)
     encode_occurrences: bool = False
@@ -117,6 +120,7 @@ class Site:
         self.loader = SheetLoader(self.root, prefix=urlsplit(self.options.site_url).path,
                                   max_file_bytes=self.options.max_file_bytes,
                                   max_rules=self.options.max_rules)
+        self.loader.cache = sheet_cache.open_cache(self.options.cache_dir)
         self._caches = {}
         self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
             + tuple(self.options.behaviours)
@@ -417,7 +421,8 @@ def verdict_key(options: Options) -> str:
     if known is not None and known[0] is options and known[2] == cheap:
         return known[1]
     key = repr(dataclasses.replace(options, jobs=1, keep_samples=True, replay=True,
-                                   exclude=(), share=True, encode_occurrences=False))
+                                   exclude=(), share=True, encode_occurrences=False,
+                                   cache_dir=""))
     if len(_VERDICT_KEYS) > 64:
         _VERDICT_KEYS.clear()
     _VERDICT_KEYS[id(options)] = (options, key, cheap)

@@ -48,6 +48,7 @@ class SheetLoader:
         self.generation = 0  # bumped when a stylesheet changed on disk
         # sheets parsed ahead in another process (``prepared.Prepared``), or None
         self.prepared = None
+        self.cache = None  # parsed sheets kept between runs (``sheet_cache.SheetCache``)
 
     def rel(self, path: str) -> str:
         return os.path.relpath(path, self.root).replace(os.sep, "/")
@@ -106,12 +107,10 @@ class SheetLoader:
                 self.generation += 1
                 self._rulesets.clear()
             ready = self.prepared.take(path, digest) if self.prepared is not None else None
-            if ready is not None:  # parsed in another process from the same bytes
-                parsed, diags = ready
-            else:
-                css, diags = self.decoded(data, path)
-                del data  # a large sheet: not kept twice while it is parsed
-                parsed = self.parsed(css, path)
+            if ready is None:
+                handed, data = [data], None  # a large sheet: not kept twice while parsed
+                ready = self.parse_data(handed, path, digest)
+            parsed, diags = ready
         except bounds.Refused as exc:
             parsed, digest = None, None
             diags.append(Diagnostic(self.rel(path), f"stylesheet not loaded: {exc}",
@@ -130,6 +129,20 @@ class SheetLoader:
             for line, message in parsed.errors[:20]:
                 diags.append(Diagnostic(self.rel(path), f"CSS: {message}", line=line))
         self._sheets[path] = (mtime, parsed, diags, digest)
+        return parsed, diags
+
+    def parse_data(self, handed: list, path: str, digest: bytes) -> tuple:
+        """``(ParsedSheet, diagnostics)`` of the bytes of the site file ``path`` (SHA-1
+        ``digest``), handed over as ``[bytes]`` (let go of once decoded): from the cache of
+        earlier runs when it holds them, else parsed (and kept there)."""
+        key = (digest, self.rel(path), self.max_rules)
+        found = self.cache.get(key) if self.cache else None
+        if found is not None:
+            return found
+        css, diags = self.decoded(handed.pop(), path)
+        parsed = self.parsed(css, path)
+        if self.cache:
+            self.cache.put(key, (parsed, diags))
         return parsed, diags
 
     def decoded(self, data: bytes, path: str) -> tuple:

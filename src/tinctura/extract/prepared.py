@@ -90,9 +90,8 @@ def _parse_all(loader, pairs, names, folder) -> None:
                 data = fh.read(loader.max_file_bytes + 1)
             if len(data) <= loader.max_file_bytes:
                 digest = hashlib.sha1(data).digest()
-                css, diags = loader.decoded(data, site)
-                del data
-                result = (digest, loader.parsed(css, site), diags)
+                handed, data = [data], None
+                result = (digest,) + loader.parse_data(handed, site, digest)
         except Exception:  # noqa: BLE001 - the loader parses it itself
             result = None
         try:
