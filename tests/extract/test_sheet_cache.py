@@ -160,3 +160,11 @@ def test_the_command_line_keeps_sheets_unless_told_not_to(tmp_path, monkeypatch)
     monkeypatch.setenv("TINCTURA_CACHE_DIR", str(tmp_path / "other"))
     assert _cli(*args, "--no-cache") == first
     assert parses == ["site.css", "site.css"] and not (tmp_path / "other").exists()
+
+
+def test_an_entry_of_other_code_is_not_read(tmp_path, monkeypatch):
+    cache = sheet_cache.SheetCache(str(tmp_path / "c"))
+    cache.put(("sheet",), "parsed by this code")
+    assert cache.get(("sheet",)) == "parsed by this code"
+    monkeypatch.setattr(sheet_cache, "_CODE_DIGEST", "an edited parser")
+    assert cache.get(("sheet",)) is None

@@ -7,8 +7,9 @@ while loading it parsed takes a twentieth of that. So ``SheetLoader`` keeps each
 parses here, pickled, and takes it back on a later run for the same bytes.
 
 An entry is named by what its parse depends on: the sheet's bytes (SHA-1), its path in the
-site (declarations carry it), the rule limit, the Python version and tinctura's own source
-(every module's bytes: an edited parser never reads an older parse). The cache only saves
+site (declarations carry it), the rule limit, the Python version, tinycss2's and cssselect2's
+versions and tinctura's own source (every module's bytes: an edited parser never reads an
+older parse). The cache only saves
 time: a missing, unreadable or foreign entry is parsed again, and nothing here stops a run.
 
 Bounds (hostile input): a sheet whose pickle would exceed ``MAX_ENTRY_BYTES`` is not kept; the
@@ -47,13 +48,16 @@ def default_folder() -> str:
 
 
 def code_digest() -> str:
-    """SHA-1 of tinctura's own modules (names and bytes), read once per process (1.5 ms)."""
+    """SHA-1 of tinctura's own modules (names and bytes) and of the parsing libraries'
+    versions, worked out once per process (1.5 ms)."""
     global _CODE_DIGEST
     if _CODE_DIGEST is None:
+        import cssselect2
+        import tinycss2
+
         root = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
-        h = hashlib.sha1(_FORMAT.encode())
-        for folder, dirs, files in sorted(os.walk(root)):
-            dirs.sort()
+        h = hashlib.sha1(repr((_FORMAT, tinycss2.__version__, cssselect2.__version__)).encode())
+        for folder, _, files in sorted(os.walk(root)):
             for name in sorted(files):
                 if name.endswith(".py"):
                     with open(os.path.join(folder, name), "rb") as fh:
