@@ -74,6 +74,11 @@ class Override:
     # (``recheck``): planned again without them (``excluding``)
     took_over: dict = field(default_factory=dict)
     within: str = ""  # the container an underline was limited to (``Planner._cue``), if any
+    scoped: tuple = ()  # ``declaration_key``s of the rules whose underline ``within`` limits
+    # why a re-check did not prove it (``_mark``): the problem is still there, and the rules of
+    # the findings its own values cause
+    remains: bool = False
+    causes: tuple = ()
 
     def keys(self) -> set:
         """What it sets: (media, selector, property, value) for every declaration."""
@@ -251,30 +256,42 @@ class Planner:
         return (got, "background") if got else None
 
     def _cue(self, problem, element_selector=None) -> Optional[Override]:
-        """Links told apart by colour alone: underlined, on the rule that colours them (every
-        link it colours gets the same cue), else on the element. A rule for every link of the
-        page (``a``) is limited to the container of the failing ones that keeps the site's
-        menus out (``cue_scopes``), unless that failed its check (``unscoped``)."""
+        """Links told apart by colour alone: underlined, on the rules that colour them (every
+        link they colour gets the same cue; a theme variable may colour links through
+        several rules, `.md-typeset a` and `.md-meta__link`), else on the element. A rule for
+        every link of the page (``a``) is limited to the container of the failing ones that
+        keeps the site's menus out (``cue_scopes``), unless that failed its check
+        (``unscoped``)."""
         cause = problem.fg_cause
         decl = cause.declaration if cause is not None else None
-        within = ""
-        if decl is not None and decl.origin == "author" and decl.selector \
-                and "::" not in decl.selector:
-            selector = _SPACE.sub(" ", decl.selector.strip())
-            key = declaration_key(decl)
+        if not _cue_rule(decl):
+            selector = element_selector(problem.worst) if element_selector else None
+            return self._underline(decl, [selector], (), ()) if selector else None
+        selectors, scoped, containers = [], [], []
+        for d in dict.fromkeys([decl] + [d for d in problem.using_declarations("fg")
+                                         if _cue_rule(d)]):
+            selector = _SPACE.sub(" ", d.selector.strip())
+            key = declaration_key(d)
             within = self.cue_scopes.get(key, "") if key not in self.unscoped else ""
             if within:
                 selector = ", ".join(f"{within} {part.strip()}" for part in selector.split(","))
-        else:
-            selector = element_selector(problem.worst) if element_selector else None
-            if not selector:
-                return None
+                scoped.append(key)
+                containers.append(within)
+            selectors.append(selector)
+        return self._underline(decl, selectors, scoped, containers)
+
+    def _underline(self, decl, selectors, scoped, containers) -> Override:
         file, note = self._file(decl)
+        containers = list(dict.fromkeys(containers))
         if not note:
-            note = UNDERLINE_NOTE + (f", within `{within}` only: the menus outside it keep "
-                                     f"their look" if within else "")
-        return Override(file, [Rule(selector, (("text-decoration-line", "underline", False),))],
-                        (), "cue", note, within=within)
+            named = " and ".join(f"`{c}`" for c in containers)
+            them = "it" if len(containers) == 1 else "them"
+            note = UNDERLINE_NOTE + (f", within {named} only: the menus outside {them} keep "
+                                     "their look" if containers else "")
+        return Override(file, [Rule(", ".join(dict.fromkeys(selectors)),
+                                    (("text-decoration-line", "underline", False),))],
+                        (), "cue", note, within=containers[0] if containers else "",
+                        scoped=tuple(scoped))
 
     def _mixed(self, problem, unfaded, element_selector, opacity_of,
                narrow=False) -> Optional[Override]:
@@ -487,6 +504,12 @@ def _rules_key(planned) -> tuple:
     return target, tuple((r.media, r.selector, r.declarations) for r in rules)
 
 
+def _cue_rule(decl) -> bool:
+    """Whether ``decl`` is a site's rule an underline can be added to."""
+    return decl is not None and decl.origin == "author" and bool(decl.selector) \
+        and "::" not in decl.selector
+
+
 def page_wide(selector: str) -> bool:
     """Whether each selector of a list is one compound (``a``, ``a:link``): it reaches every
     link of the page, menus too."""
@@ -671,19 +694,27 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
             suspects, own = _tally_findings(findings, css, remaining_keys, bad)
             if suspects or own:  # errors on what the overrides colour: new ones?
                 result, plain, _ = engine.judge_page(site, rel, keeping, html)
-                there = {slot_of(f) for f in plain}
+                # (a link that failed for want of a hover cue alone, and fails its ratio to
+                # the text around it with the overrides, fails anew)
+                there = {slot_of(f) for f in plain if f.rule not in CUE_RULES or _short(f)}
                 bad.update(why for slot, why in suspects if slot not in there)
                 _took_over(own, result.samples, took)
     return remaining_keys, bad, remaining, took
 
 
+def _short(f) -> bool:
+    """Whether a finding's colours fail its ratio (not only a cue other than colour)."""
+    return bool(f.required) and f.ratio is not None and f.ratio < f.required
+
+
 def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
     """Add a rechecked page's findings to the problem keys found and to the overrides' own
     declarations that cause a finding (``recheck``). Returns ``(suspects, own)``: the
-    ``(slot, declaration)`` of errors of other rules that the overrides colour, theirs only
-    when the page had no such error there before (a link's ratio to the text around it,
-    TC120, failing before and after its colour changed, is not); and the ``(slot, side,
-    declaration)`` of the overrides' own rule's findings they colour (``_took_over``)."""
+    ``(slot, declaration)`` of errors of other rules, and of links told apart by colour alone
+    (TC120), that the overrides colour, theirs only when the page had no such error there
+    before (a link that takes its colour from the text around it fails TC120 before and
+    after that text's colour changed); and the ``(slot, side, declaration)`` of the
+    overrides' own rule's findings they colour (``_took_over``)."""
     from tinctura.problems import problem_key
 
     suspects, own = [], []
@@ -695,7 +726,7 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
             for d in _declarations(cause):
                 if "<style>" in d.sheet and d.line and _injected(d, css):
                     why = (_normal(d.selector), d.property, f.rule, f.severity)
-                    if f.rule in OVERRIDE_RULES:
+                    if f.rule in OVERRIDE_RULES and f.rule not in CUE_RULES:
                         bad.add(why)
                         own.append((slot_of(f), side, why))
                     else:
@@ -791,10 +822,11 @@ def _mark(problems, overrides, remaining_keys, bad, took=None) -> None:
         override.took_over = {key: rules for key, rules in (took or {}).items()
                               if key in mine}
         # an override undoes itself when it causes a finding of its own rule, or an error
-        caused = {(sel, prop) for sel, prop, rule, severity in bad
-                  if rule == problem.rule or severity == "error"}
-        override.verified = problem_key(problem.worst) not in remaining_keys and \
-            not (mine & caused)
+        caused = {rule for sel, prop, rule, severity in bad
+                  if (sel, prop) in mine and (rule == problem.rule or severity == "error")}
+        override.remains = problem_key(problem.worst) in remaining_keys
+        override.causes = tuple(sorted(caused))
+        override.verified = not override.remains and not caused
 
 
 def excluding(planned, exclude: dict) -> None:

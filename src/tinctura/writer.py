@@ -120,9 +120,21 @@ class WriterAid:
             href = (link.get("href") or "").split("?")[0].split("#")[0]
             if not href or "://" in href or href.startswith("//"):
                 continue
-            path = href.lstrip("/") if href.startswith("/") else posixpath.join(base, href)
+            path = self._rooted(href) if href.startswith("/") else posixpath.join(base, href)
             out.append(posixpath.normpath(path))
         return out
+
+    def _rooted(self, href: str) -> str:
+        """The site file a root-relative ``href`` names. A site served below a path (its
+        ``site_url``'s, `/manual/`) links `/manual/stylesheets/extra.css` for its
+        `stylesheets/extra.css` (mkdocs-material's 404 page does): leading segments are
+        dropped until a file of the site is found, as the loader resolves them."""
+        segments = href.lstrip("/").split("/")
+        for k in range(len(segments)):
+            candidate = "/".join(segments[k:])
+            if os.path.isfile(os.path.join(self.site_root, candidate)):
+                return candidate
+        return href.lstrip("/")
 
     # -- overrides -----------------------------------------------------------------------
 
@@ -153,7 +165,7 @@ class WriterAid:
                                           verification_pages(problems), loader, cache, helper)
             again = narrow | _to_narrow(problems, planned)
             more = _gather_taken(planned, exclude)
-            wider = _to_widen(problems, planned) - planner.unscoped
+            wider = _to_widen(planned) - planner.unscoped
             planner.unscoped |= wider
             if again == narrow and not more and not wider:
                 break
@@ -174,12 +186,13 @@ class WriterAid:
         (``locator.content_scope``), found over its problems' examples."""
         found: dict = {}
         for p in problems:
-            d = p.fg_cause.declaration if p.rule in overrides_mod.CUE_RULES and \
-                p.fg_cause is not None else None
-            if d is None or d.origin != "author" or not overrides_mod.page_wide(d.selector):
+            if p.rule not in overrides_mod.CUE_RULES:
                 continue
-            found.setdefault(overrides_mod.declaration_key(d), []).extend(
-                f.sample for f in [p.worst, *p.example_pool()])
+            for f in [p.worst, *p.example_pool()]:
+                cause = f.sample.fg_cause
+                d = cause.declaration if cause is not None else None
+                if d is not None and d.origin == "author" and overrides_mod.page_wide(d.selector):
+                    found.setdefault(overrides_mod.declaration_key(d), []).append(f.sample)
         scopes = {}
         for key, samples in found.items():
             tree = self.pages.tree(samples[0].page)
@@ -214,12 +227,11 @@ def _to_narrow(problems, planned) -> frozenset:
                      and (overrides_mod.narrowable(p) or overrides_mod.narrowable(p, "bg")))
 
 
-def _to_widen(problems, planned) -> set:
+def _to_widen(planned) -> set:
     """The declarations whose underline, limited to a container, failed its check: planned
     once more on the whole rule."""
-    return {overrides_mod.declaration_key(p.fg_cause.declaration)
-            for p, o in zip(problems, planned)
-            if o is not None and o.within and o.verified is False}
+    return {key for o in planned if o is not None and o.verified is False
+            for key in o.scoped}
 
 
 def _gather_taken(planned, exclude: dict) -> bool:

@@ -415,7 +415,7 @@ class HtmlFormatter(Formatter):
         override = getattr(p, "override", None)
         if override is not None:
             checked = "checked again with it applied: it passes" if override.verified else \
-                "not verified: the check still fails with it"
+                f"not verified: {m.not_verified(override)}"
             return (e(f"underline the links: add to {override.where} ({checked}): ")
                     + f"<code>{e(override.compact())}</code>")
         rule = self.rule(p.rule)

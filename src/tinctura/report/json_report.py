@@ -369,6 +369,8 @@ def override_dict(o) -> dict | None:
     if o is None:
         return None
     out = {"file": o.where, "css": o.css(), "verified": bool(o.verified)}
+    if o.verified is False:
+        out["not_verified"] = m.not_verified(o)
     if o.note:
         out["note"] = o.note
     if o.shared_with:

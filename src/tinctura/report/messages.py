@@ -201,3 +201,19 @@ def fixes(finding: Finding) -> str:
         what = (non_text(finding) or "text") if fix.target == "foreground" else fix.target
         parts.append(f"{what} {colour(fix.colour)} ({ratio(fix.ratio)}:1)")
     return " or ".join(parts)
+
+
+def not_verified(override) -> str:
+    """Why checking again with an override applied did not prove it, in a clause."""
+    causes = tuple(getattr(override, "causes", ()) or ())
+    if causes and not getattr(override, "remains", False):
+        named = []
+        for code in causes:
+            try:
+                named.append(f"{code} {rules.get(code).slug}")
+            except KeyError:
+                named.append(code)
+        return ("the problem is gone with it applied, but its values cause new findings: "
+                + ", ".join(named))
+    return ("the check still fails with it; the cause may be opacity or a rule this override "
+            "does not beat")

@@ -438,8 +438,7 @@ def override_lines(override) -> list:
     elif override.verified is None:
         head = f"Fix: add to {override.where}:"
     else:
-        head = (f"Possible fix, not verified (the check still fails with it; the cause may be "
-                f"opacity or a rule this override does not beat): {override.where}")
+        head = f"Possible fix, not verified ({m.not_verified(override)}): {override.where}"
     out = [(1, head, "green" if override.verified else None, True)]
     if override.note:
         out.append((2, f"({override.note})", "dim", True))

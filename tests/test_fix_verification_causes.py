@@ -1,0 +1,121 @@
+"""Fixes checked again: what undoes one, and what the report then says.
+
+Found on a mkdocs-material blog: a post's meta line is coloured by one variable, and its
+category link inherits that colour, so the link is told apart by colour alone (TC120, 1.00:1
+against the text around it) before any fix and after. That finding must not undo the
+variable's TC100 fix; a TC120 finding the fix's own colours bring must, and the report must say
+that this is why. And a theme variable that colours links through two rules is underlined on
+both.
+
+The sites are written here. Contrast ratios in the comments are WCAG 2 ratios worked by hand
+from the sRGB relative luminance (W3C WCAG 2.2, "relative luminance"); the 3:1 between a link
+and its text is W3C technique G183.
+"""
+import io
+import json
+
+import jsonschema
+
+from tinctura.cli import main
+from tinctura.report.json_report import schema
+from tinctura.writer import WriterAid
+
+PAGE = """<!doctype html><html lang="en"><head><title>Ferry bulletin {n}</title>
+<link rel="stylesheet" href="../site.css"></head><body><main>
+{body}
+</main></body></html>"""
+
+
+def _site(tmp_path, css, body):
+    (tmp_path / "site.css").write_text(css, encoding="utf-8")
+    for n in range(2):
+        (tmp_path / f"p{n}").mkdir(exist_ok=True)
+        (tmp_path / f"p{n}" / "index.html").write_text(PAGE.format(n=n, body=body),
+                                                       encoding="utf-8")
+    return tmp_path
+
+
+def _fixes(site, *rules):
+    out, err = io.StringIO(), io.StringIO()
+    status = main(["check", str(site), "--format", "json", "--jobs", "1", "--no-states",
+                   "--fail-on", "never", "--select", ",".join(rules)], stdout=out, stderr=err)
+    assert status == 0, err.getvalue()
+    doc = json.loads(out.getvalue())
+    jsonschema.validate(doc, schema())  # the report's own schema, with `not_verified`
+    return [(p["rule"], p["fix"]) for p in doc["problems"]]
+
+
+# the meta line's #a0a0a0 on white: 2.6:1, below 4.5:1; its link inherits it (1.00:1 to the text)
+META_CSS = """:root { --muted: #a0a0a0; }
+body { color: #202020; background: #ffffff; }
+.meta { color: var(--muted); }
+.meta a { color: inherit; text-decoration: none; }
+"""
+META = '<p class="meta">Filed under <a href="../p0/">Operations</a> on the third of May.</p>'
+
+
+def test_a_link_that_failed_before_the_fix_does_not_undo_it(tmp_path):
+    fixes = dict(_fixes(_site(tmp_path, META_CSS, META), "TC100", "TC120"))
+    assert set(fixes) == {"TC100", "TC120"}  # the premise: both fail
+    assert "--muted:" in fixes["TC100"]["css"]  # the variable, fixed where it is declared
+    assert fixes["TC100"]["verified"] is True
+    assert "not_verified" not in fixes["TC100"]
+    assert fixes["TC120"]["verified"] is True  # the link underlined
+
+
+# links #6fa8ff on white: 2.4:1, below 4.5:1; against the #3a3a3a text 4.7:1, above 3:1. Any blue
+# of the same hue dark enough for 4.5:1 on white comes within 3:1 of that text.
+LINK_CSS = """:root { --link: #6fa8ff; }
+body { color: #3a3a3a; background: #ffffff; }
+a { color: var(--link); text-decoration: none; }
+"""
+LINKS = '<p>Board at the north ramp, then read <a href="../p1/">the crossing log</a> again.</p>'
+
+
+def test_a_fix_whose_colour_makes_a_link_fail_says_so(tmp_path):
+    css = LINK_CSS + "a:hover, a:focus { text-decoration-line: underline; }\n"
+    fixes = dict(_fixes(_site(tmp_path, css, LINKS), "TC100", "TC120"))
+    assert set(fixes) == {"TC100"}  # the premise: the link is told apart by colour today
+    fix = fixes["TC100"]
+    assert fix["verified"] is False
+    assert fix["not_verified"] == ("the problem is gone with it applied, but its values cause "
+                                   "new findings: TC120 link-cue")
+
+
+def test_fixes_are_checked_together(tmp_path):
+    # without a hover cue the link fails TC120 before the fix too; its underline, checked with
+    # the colour fix, tells the darker link apart from the text
+    fixes = dict(_fixes(_site(tmp_path, LINK_CSS, LINKS), "TC100", "TC120"))
+    assert set(fixes) == {"TC100", "TC120"}
+    assert fixes["TC100"]["verified"] is True and fixes["TC120"]["verified"] is True
+
+
+# one variable colours the article's links and the tags: #2b6cb0 against the #404040 text,
+# 1.91:1, below 3:1
+TWO_RULES_CSS = """:root { --link: #2b6cb0; }
+body { color: #404040; background: #ffffff; }
+.prose a { color: var(--link); text-decoration: none; }
+.tag { color: var(--link); text-decoration: none; }
+"""
+TWO_RULES = ('<div class="prose"><p>Check the tide, see <a href="../p1/">the tide table</a>.</p>'
+             '</div><p class="byline">Filed under <a class="tag" href="../p0/">Tides</a> '
+             'by the harbour office.</p>')
+
+
+def test_links_coloured_by_two_rules_are_underlined_on_both(tmp_path):
+    fixes = _fixes(_site(tmp_path, TWO_RULES_CSS, TWO_RULES), "TC120")
+    assert len(fixes) == 1  # one problem: one variable
+    fix = fixes[0][1]
+    assert fix["verified"] is True
+    selectors = fix["css"].split("{")[0]
+    assert ".prose a" in selectors and ".tag" in selectors
+
+
+def test_stylesheets_linked_below_the_sites_path_are_the_sites(tmp_path):
+    # mkdocs-material's 404 page links its stylesheets from the site_url's path
+    (tmp_path / "stylesheets").mkdir()
+    (tmp_path / "stylesheets" / "ferry.css").write_text("p { color: #222; }")
+    (tmp_path / "404.html").write_text(
+        '<html><head><link rel="stylesheet" href="/ferry/stylesheets/ferry.css">'
+        '<link rel="stylesheet" href="stylesheets/ferry.css"></head><body></body></html>')
+    assert WriterAid(str(tmp_path)).sheet_order("404.html") == ["stylesheets/ferry.css"] * 2
