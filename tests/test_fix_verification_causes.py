@@ -60,7 +60,9 @@ def test_a_link_that_failed_before_the_fix_does_not_undo_it(tmp_path):
     assert "--muted:" in fixes["TC100"]["css"]  # the variable, fixed where it is declared
     assert fixes["TC100"]["verified"] is True
     assert "not_verified" not in fixes["TC100"]
-    assert fixes["TC120"]["verified"] is True  # the link underlined
+    # the links of the block they take their colour from are underlined, not the block
+    assert fixes["TC120"]["css"] == ".meta a {\n  text-decoration-line: underline;\n}\n"
+    assert fixes["TC120"]["verified"] is True
 
 
 # links #6fa8ff on white: 2.4:1, below 4.5:1; against the #3a3a3a text 4.7:1, above 3:1. Any blue
@@ -119,3 +121,21 @@ def test_stylesheets_linked_below_the_sites_path_are_the_sites(tmp_path):
         '<html><head><link rel="stylesheet" href="/ferry/stylesheets/ferry.css">'
         '<link rel="stylesheet" href="stylesheets/ferry.css"></head><body></body></html>')
     assert WriterAid(str(tmp_path)).sheet_order("404.html") == ["stylesheets/ferry.css"] * 2
+
+
+def test_a_colour_an_override_gives_keeps_the_cause_it_replaces():
+    # checked with a variable's fix, the link that takes the text's colour fails TC120 as
+    # before, its cause now the fix's own value: still the problem it was, not a new one
+    from tinctura.model import Cause, Declaration
+    from tinctura.overrides import Override, Rule, _remaining
+    from tinctura.problems import Problem, cause_key
+
+    muted = Declaration("--muted", "#a0a0a0", "site.css", 1, 9, ":root", "author")
+    text = Cause(Declaration("color", "var(--muted)", "site.css", 3, 1, ".meta", "author"),
+                 None, (muted,))
+    white = Cause(Declaration("background-color", "#fff", "site.css", 2, 1, "body", "author"))
+    fixed = Problem("TC100", "text-ratio", "error", "light", text, white)
+    fix = Override("site.css", [Rule(":root", (("--muted", "#767676", False),))])
+    left = {("TC120", ("<style>#1", 2, 3, "--muted", "#767676"), cause_key(white),
+             (":root", "--muted"), None)}
+    assert _remaining([fixed], [fix], left) == {("TC120", cause_key(text), cause_key(white))}

@@ -268,9 +268,13 @@ class Planner:
             selector = element_selector(problem.worst) if element_selector else None
             return self._underline(decl, [selector], (), ()) if selector else None
         selectors, scoped, containers = [], [], []
+        inherited = _inherited_by_links(problem)
         for d in dict.fromkeys([decl] + [d for d in problem.using_declarations("fg")
                                          if _cue_rule(d)]):
             selector = _SPACE.sub(" ", d.selector.strip())
+            if d in inherited:  # the rule colours a block its links inherit from: its links
+                selectors.append(", ".join(f"{part.strip()} a" for part in selector.split(",")))
+                continue
             key = declaration_key(d)
             within = self.cue_scopes.get(key, "") if key not in self.unscoped else ""
             if within:
@@ -504,6 +508,17 @@ def _rules_key(planned) -> tuple:
     return target, tuple((r.media, r.selector, r.declarations) for r in rules)
 
 
+def _inherited_by_links(problem) -> set:
+    """The declarations that colour a problem's links by inheritance (set on an ancestor: a
+    post's meta line whose category link takes its colour), as its examples show."""
+    found = set()
+    for f in [problem.worst, *problem.example_pool()]:
+        cause = f.sample.fg_cause
+        if cause is not None and cause.declaration is not None and cause.inherited_from:
+            found.add(cause.declaration)
+    return found
+
+
 def _cue_rule(decl) -> bool:
     """Whether ``decl`` is a site's rule an underline can be added to."""
     return decl is not None and decl.origin == "author" and bool(decl.selector) \
@@ -668,8 +683,9 @@ CACHED_VERIFICATIONS = 8  # a build's rounds, a few times over
 
 def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     """``pages`` checked with ``css`` injected as their last stylesheet, by the rules that can
-    undo an override: ``(problem keys found, overrides' own declarations in findings,
-    number of findings, the rules whose elements an override took over (``_took_over``))``."""
+    undo an override: ``(problem keys found, each with the overrides whose values its colours
+    take (``_remaining``), overrides' own declarations in findings, number of findings, the
+    rules whose elements an override took over (``_took_over``))``."""
     from tinctura import engine
 
     options = _deciding(options)
@@ -702,6 +718,35 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
     return remaining_keys, bad, remaining, took
 
 
+def _own_value(cause, css: str):
+    """``(selector, property)`` of the override whose value a colour takes (the cause's target
+    declaration, injected), else None."""
+    d = target_declaration(cause)
+    if d is not None and "<style>" in d.sheet and d.line and _injected(d, css):
+        return (_normal(d.selector), d.property)
+    return None
+
+
+def _remaining(problems, overrides, remaining_keys) -> set:
+    """The problem keys of the findings left on the pages checked with the overrides, each
+    colour that an override's value gives keyed by the cause that override replaces: a
+    variable's fix gives a problem of another rule on the same texts (a link that takes the
+    text's colour, 1.00:1 to it) a new cause, and that problem is still the same one."""
+    from tinctura.problems import cause_key
+
+    replaces = {}  # (selector, property) -> the cause key its override replaces
+    for problem, override in zip(problems, overrides):
+        if override is None or override.target not in ("foreground", "background"):
+            continue
+        cause = problem.fg_cause if override.target == "foreground" else problem.bg_cause
+        for r in override.rules:
+            for one in _listed(r.selector):
+                for d in r.declarations:
+                    replaces.setdefault((_normal(one), d[0]), cause_key(cause))
+    return {(rule, replaces.get(fg_own, fg), replaces.get(bg_own, bg))
+            for rule, fg, bg, fg_own, bg_own in remaining_keys}
+
+
 def _short(f) -> bool:
     """Whether a finding's colours fail its ratio (not only a cue other than colour)."""
     return bool(f.required) and f.ratio is not None and f.ratio < f.required
@@ -719,7 +764,8 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
 
     suspects, own = [], []
     for f in findings:
-        remaining_keys.add(problem_key(f))
+        remaining_keys.add(problem_key(f) + (_own_value(f.sample.fg_cause, css),
+                                             _own_value(f.sample.bg_cause, css)))
         if f.required and f.ratio is not None and f.ratio >= f.required:
             continue  # its colours pass (a link's missing hover cue, say): no colour's fault
         for side, cause in (("fg", f.sample.fg_cause), ("bg", f.sample.bg_cause)):
@@ -813,6 +859,7 @@ def _same_line_for_overrides(loader) -> None:
 def _mark(problems, overrides, remaining_keys, bad, took=None) -> None:
     from tinctura.problems import problem_key
 
+    remaining_keys = _remaining(problems, overrides, remaining_keys)
     for problem, override in zip(problems, overrides):
         if override is None:
             continue
