@@ -5,7 +5,10 @@ category link inherits that colour, so the link is told apart by colour alone (T
 against the text around it) before any fix and after. That finding must not undo the
 variable's TC100 fix; a TC120 finding the fix's own colours bring must, and the report must say
 that this is why. And a theme variable that colours links through two rules is underlined on
-both.
+both. Found on a custom-coloured mkdocs-material handbook: a rule whose selector list colours a
+note's title and a collapsible note's summary is fixed on both selectors, and a background
+under translucent text (the search field's placeholder) is chosen for what the text
+composites to over it.
 
 The sites are written here. Contrast ratios in the comments are WCAG 2 ratios worked by hand
 from the sRGB relative luminance (W3C WCAG 2.2, "relative luminance"); the 3:1 between a link
@@ -139,3 +142,40 @@ def test_a_colour_an_override_gives_keeps_the_cause_it_replaces():
     left = {("TC120", ("<style>#1", 2, 3, "--muted", "#767676"), cause_key(white),
              (":root", "--muted"), None)}
     assert _remaining([fixed], [fix], left) == {("TC120", cause_key(text), cause_key(white))}
+
+
+# -- fixes that reach every text of their problem ---------------------------------------------
+
+# #b39b6b on #f6efe0: 2.34:1, below 4.5:1; one rule colours a note's title and a collapsible
+# note's summary
+LIST_CSS = """body { color: #202020; background: #ffffff; }
+.note > .title, .note > summary { color: #b39b6b; background: #f6efe0; }
+"""
+LIST = ('<div class="note"><p class="title">Grain moisture</p><p>Keep it under 14 %.</p></div>'
+        '<details class="note"><summary>Older stones</summary><p>Dress them in spring.</p>'
+        '</details>')
+
+
+def test_a_rule_with_a_selector_list_is_fixed_on_every_selector_its_texts_matched(tmp_path):
+    fixes = _fixes(_site(tmp_path, LIST_CSS, LIST), "TC100")
+    assert len(fixes) == 1  # one declaration: one problem
+    fix = fixes[0][1]
+    assert fix["verified"] is True
+    selectors = {s.strip() for s in fix["css"].split("{")[0].split(",")}
+    assert selectors == {".note > .title", ".note > summary"}
+
+
+# white at 70 % over #937c4f composites to about #dfd8cb: 2.8:1 against it; even opaque white
+# gives 4.0:1 there, so the background must change, and the text's composite with it
+BAR_CSS = """body { color: #202020; background: #ffffff; }
+.bar { background-color: #937c4f; color: rgba(255, 255, 255, 0.7); }
+"""
+BAR = '<div class="bar"><p>Mill open from six until the bell.</p></div>'
+
+
+def test_a_background_under_translucent_text_is_chosen_for_what_it_composites_to(tmp_path):
+    fixes = _fixes(_site(tmp_path, BAR_CSS, BAR), "TC100")
+    assert len(fixes) == 1
+    fix = fixes[0][1]
+    assert fix["css"].startswith(".bar {\n  background-color: #")
+    assert fix["verified"] is True

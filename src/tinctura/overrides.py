@@ -363,9 +363,9 @@ class Planner:
                 return []
             return [Rule(self.scoped(scope, selector), (("color", value, True),), scope.media)]
         declarations = [(decl.property, value, important)]
-        selector = self.scoped(scope, decl.selector)
-        declarations += self._aliases(problem.fg_cause, decl, selector)
-        return [Rule(selector, tuple(declarations), scope.media)]
+        scoped = [self.scoped(scope, one) for one in _matched(problem, decl)]
+        declarations += self._aliases(problem.fg_cause, decl, scoped[0])
+        return [Rule(", ".join(dict.fromkeys(scoped)), tuple(declarations), scope.media)]
 
     def _aliases(self, cause, decl, selector) -> list:
         """Custom properties between the colour's use and ``decl`` that were resolved on
@@ -394,7 +394,11 @@ class Planner:
         from tinctura.report.messages import finding_colours
 
         fg, bg = finding_colours(worst)
-        found = suggest.background(fg, bg, problem.required)
+        raw = worst.sample.fg_raw
+        if raw is not None and len(raw) > 3 and raw[3] < 1:  # translucent text moves with it
+            found = suggest.background_under(raw, bg, problem.required)
+        else:
+            found = suggest.background(fg, bg, problem.required)
         if found is None:
             return []
         if narrow:
@@ -506,6 +510,16 @@ def _rules_key(planned) -> tuple:
     """What a planned ``(rules, target)`` writes, to compare plans."""
     rules, target = planned
     return target, tuple((r.media, r.selector, r.declarations) for r in rules)
+
+
+def _matched(problem, decl) -> list:
+    """The selectors of ``decl``'s rule that the problem's texts matched, ``decl``'s first: a
+    finding's declaration names the selector of its list that matched (one rule colours a
+    collapsible note's summary and a note's title alike)."""
+    where = (decl.sheet, decl.line, decl.column, decl.property)
+    return list(dict.fromkeys([decl.selector] + [
+        d.selector for d in problem.using_declarations("fg")
+        if d.selector and (d.sheet, d.line, d.column, d.property) == where]))
 
 
 def _inherited_by_links(problem) -> set:

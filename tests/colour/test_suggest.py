@@ -80,3 +80,26 @@ def test_a_suggestion_passes_against_every_colour_written_as_the_backgrounds_hex
     found, got = suggest.foreground(rgb("#526cfe"), rgb("#1e2129"), 4.5)
     assert ratio(to_hex(found), exact) >= 4.5  # (WCAG 2.2 formula, tests/wcag_reference.py)
     assert got == pytest.approx(ratio(to_hex(found), "#1e2129"), abs=1e-9)  # told for the hex
+
+
+def test_a_background_for_translucent_text_passes_with_the_text_composited_over_it():
+    # a search field's placeholder: white at 70 % over a tan header (mkdocs-material's
+    # --md-primary-bg-color--light on a custom primary). Source-over compositing of straight
+    # alpha in sRGB, as browsers paint (W3C Compositing and Blending Level 1, "simple alpha
+    # compositing": co = cs x as + cb x (1 - as)), written out here
+    text, bg = (1.0, 1.0, 1.0, 0.7), rgb("#937c4f")
+    seen = tuple(0.7 + c * 0.3 for c in bg)
+    assert ratio(seen, bg) < 4.5  # the premise: 2.8:1
+    plain = suggest.background(seen, bg, 4.5)  # the text taken as opaque
+    moved = plain[0]
+    assert ratio(tuple(0.7 + c * 0.3 for c in moved), moved) < 4.5  # it moved with it
+    found, got = suggest.background_under(text, bg, 4.5)
+    composite = tuple(0.7 + c * 0.3 for c in found)
+    assert ratio(composite, found) >= 4.5
+    assert got == pytest.approx(ratio(composite, found), abs=1e-9)
+    assert luminance(found) < luminance(bg)  # darker: light text stays on a dark ground
+
+
+def test_no_background_when_the_translucent_text_cannot_pass():
+    # black at 10 % over anything is within a shade of it: no background gives 3:1
+    assert suggest.background_under((0.0, 0.0, 0.0, 0.1), rgb("#808080"), 3.0) is None

@@ -90,6 +90,26 @@ def background(fg, bg, required: float):
     return nearest_same_side(bg, (fg,), required)
 
 
+def background_under(text, bg, required: float, rounds: int = 12):
+    """A background on the side ``bg`` is on for text drawn translucent (``text``: r, g, b, a
+    with a < 1), or None. What the reader sees of such text is its composite over the
+    background, which moves with the background: the background is moved (``background``)
+    until the composite over it passes too. ``(rgb, ratio)`` as ``background`` gives."""
+    from .composite import over
+
+    candidate = tuple(bg)[:3]
+    for _ in range(rounds):
+        seen = over(tuple(text), candidate + (1.0,))[:3]
+        ratio = contrast_ratio(seen, candidate)
+        if ratio >= required:
+            return candidate, ratio
+        found = background(seen, bg, required)
+        if found is None or tuple(found[0]) == candidate:
+            return None
+        candidate = tuple(found[0])[:3]
+    return None
+
+
 def describe_side(colour, other) -> str:
     """``lighter`` or ``darker``: the way a suggestion for ``colour`` may move."""
     return "lighter" if side(colour, other) == LIGHTER else "darker"
