@@ -373,7 +373,8 @@ UI_RATIO = Rule(
             "words, or neither in a control nor named) and disabled controls. Undetermined, "
             "because geometry decides and tinctura does not lay pages out: an inset focus "
             "outline (it lies on the element's own fill), SVG icons drawn with strokes or "
-            "several fills. Not checked: a focus indicator made of a colour change alone (its "
+            "several fills (an icon's <use> of a symbol counts what the symbol draws), and "
+            "those drawn from a symbol in another file. Not checked: a focus indicator made of a colour change alone (its "
             "contrast with the unfocused state), checkbox and radio marks, chart graphics."
         ),
         why=(

@@ -51,3 +51,30 @@ def test_svg_icons_that_carry_meaning(tmp_path):
     # the named link icon, the hidden icon that is all a named button shows, the named image
     assert found(tmp_path, body, css) == [("svg-icon", "a[1]/svg"), ("svg-icon", "body/svg"),
                                           ("svg-icon", "button/svg")]
+
+
+def _icon_status(tmp_path, body, css=""):
+    page = tmp_path / "ui.html"
+    page.write_text(PAGE.format(body=body, css=css), encoding="utf-8")
+    report = engine.check_paths([str(page)], engine.Options(rules=("TC110",)))
+    return [(s.status, s.reason) for p in report.pages for s in p.samples
+            if s.kind == "svg-icon"], [f.sample.kind for f in report.findings]
+
+
+def test_an_icon_drawn_from_a_symbol_is_judged_by_what_the_symbol_draws(tmp_path):
+    # Sphinx's Furo theme draws its icons as <use href="#svg-eye"> of symbols stroked with
+    # currentColor (SVG 2, "The use element": the symbol's content is rendered in its place);
+    # on a dark page the <svg>'s own initial black fill is not what a reader sees
+    sprite = ('<svg style="display:none"><symbol id="svg-eye" viewBox="0 0 24 24">'
+              '<svg fill="none" stroke="currentColor"><path d="M1 12a11 11 0 0 1 22 0"/></svg>'
+              '</symbol></svg>')
+    css = "body{background:#131416;color:#cfd0d0}"
+    body = sprite + '<a href="#" title="View this page"><svg><use href="#svg-eye"></use></svg></a>'
+    statuses, findings = _icon_status(tmp_path, body, css)
+    assert statuses == [("undetermined", "icon drawn with strokes or several fills: geometry "
+                                         "decides")]
+    assert findings == []
+    # a symbol in another file (a sprite sheet): not here to read
+    body = '<a href="#" title="View"><svg><use href="icons.svg#eye"></use></svg></a>'
+    assert _icon_status(tmp_path, body, css)[0] == [("undetermined",
+                                                     "icon drawn from a symbol in another file")]

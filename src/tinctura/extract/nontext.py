@@ -160,10 +160,15 @@ def _svg_icon(walker, el, style, chain) -> None:
     elif exempt_mod._control_of(el) is None and not _named_svg(el):
         return  # neither in a control nor named: nothing says it carries meaning
     inner = [d for d in el.iter() if isinstance(d.tag, str) and d is not el]
-    if any(d.tag in ("text", "foreignObject") for d in inner):
+    used = _used(inner)
+    if any(d.tag in ("text", "foreignObject") for d in inner + (used or [])):
         return  # a chart or diagram with text, not an icon: not judged (documented)
     fill = style.svg_fill[0] if style.svg_fill is not None else (0.0, 0.0, 0.0, 1.0)
     status, reason = DETERMINED, ""
+    if used is None:  # drawn from another file's symbol: what it fills or strokes is not here
+        status, reason = UNDETERMINED, "icon drawn from a symbol in another file"
+        used = []
+    inner += used
     own = {(d.get("fill") or "").strip().lower() for d in inner}
     own -= {"", "currentcolor", "inherit"}
     styled = any(d.get("class") or d.get("style") for d in inner)  # fills from CSS per shape
@@ -174,6 +179,26 @@ def _svg_icon(walker, el, style, chain) -> None:
     if bg is None:
         bg = walker._paint(chain, TRANSPARENT)[0][1]
     _append(walker, el, "svg-icon", "svg icon", fg, bg, bg, style, status, reason)
+
+
+def _used(inner) -> list | None:
+    """The shapes of the symbols the ``<use>`` elements among ``inner`` draw (SVG 2, "The
+    use element": the referenced element's content is rendered in its place, and inherits
+    from it), found by id in the page; None when one refers to another file (a sprite sheet).
+    A theme's icons are often a ``<use href="#svg-eye">`` of a symbol drawn with
+    ``stroke="currentColor"`` (Sphinx's Furo theme)."""
+    found = []
+    for d in inner:
+        if d.tag != "use":
+            continue
+        href = (d.get("href") or d.get("xlink:href")
+                or d.get("{http://www.w3.org/1999/xlink}href") or "").strip()
+        if not href.startswith("#"):
+            return None
+        target = d.getroottree().getroot().xpath("//*[@id=$name]", name=href[1:])
+        if target:
+            found.extend(t for t in target[0].iter() if isinstance(t.tag, str))
+    return found
 
 
 def _named_svg(el) -> bool:
