@@ -269,8 +269,8 @@ class Planner:
             return self._underline(decl, [selector], (), ()) if selector else None
         selectors, scoped, containers = [], [], []
         inherited = _inherited_by_links(problem)
-        for d in dict.fromkeys([decl] + [d for d in problem.using_declarations("fg")
-                                         if _cue_rule(d)]):
+        for d in dict.fromkeys([decl] + [u for u in problem.using_declarations("fg")
+                                         if _cue_rule(u)]):
             selector = _SPACE.sub(" ", d.selector.strip())
             if d in inherited:  # the rule colours a block its links inherit from: its links
                 selectors.append(", ".join(f"{part.strip()} a" for part in selector.split(",")))
