@@ -16,6 +16,7 @@ and its text is W3C technique G183.
 """
 import io
 import json
+import re
 
 import jsonschema
 
@@ -179,3 +180,29 @@ def test_a_background_under_translucent_text_is_chosen_for_what_it_composites_to
     fix = fixes[0][1]
     assert fix["css"].startswith(".bar {\n  background-color: #")
     assert fix["verified"] is True
+
+
+# a navigation bar drawn by a gradient (MkDocs' own theme's, from Bootstrap's Cerulean) over a
+# background colour set !important by a utility class: the brand in white (2.3:1 on the lightest
+# stop, #50b3eb), its links in white at 80 % (2.0:1); no lighter text exists
+BAR_GRADIENT_CSS = """body { color: #202020; background: #ffffff; }
+.bg-primary { background-color: #2fa4e7 !important; }
+.navbar.bg-primary { background-image: linear-gradient(#50b3eb, #2fa4e7 60%, #2c9ad9); }
+.brand { color: #ffffff; }
+.navbar a.link { color: rgba(255, 255, 255, 0.8); text-decoration: none; }
+"""
+BAR_GRADIENT = ('<div class="navbar bg-primary"><span class="brand">Fernbank ferries</span> '
+                '<a class="link" href="../p0/">Timetables</a></div>')
+
+
+def test_a_gradient_becomes_one_colour_that_every_text_on_it_passes(tmp_path):
+    fixes = _fixes(_site(tmp_path, BAR_GRADIENT_CSS, BAR_GRADIENT), "TC100")
+    assert len(fixes) == 2  # the brand and the link: two text colours, one background
+    css = {fix["css"] for _, fix in fixes}
+    assert len(css) == 1  # one value for both: the darker of the two each would need
+    one = css.pop()
+    # a gradient from one colour to itself paints over the !important background colour
+    assert re.fullmatch(r"\.navbar\.bg-primary \{\n  background-image: "
+                        r"linear-gradient\((#[0-9a-f]{6}), \1\);\n\}\n", one)
+    assert all(fix["verified"] for _, fix in fixes)
+    assert all("gradient becomes one colour" in fix["note"] for _, fix in fixes)

@@ -237,6 +237,9 @@ class Planner:
             return None
         file, note = self._file(decl if target == "foreground" else
                                 target_declaration(problem.bg_cause))
+        if target == "background" and any(d[0] == "background-image" and "gradient(" in d[1]
+                                           for r in rules for d in r.declarations):
+            note = GRADIENT_NOTE
         if target == "foreground" and decl is not None and decl.origin == "inline":
             note = ("the colour is set by a style attribute in the page: changing it there is "
                     "better than this rule")
@@ -382,14 +385,16 @@ class Planner:
 
     def _bg_rules(self, problem, scope, worst, narrow=False) -> list:
         """When no text colour on the same side passes: a new background colour (``narrow``:
-        on the rules using the custom property that holds it, ``narrowable``)."""
+        on the rules using the custom property that holds it, ``narrowable``). A gradient
+        becomes one colour, found for its worst stop (MkDocs' own theme's navigation bar)."""
         bg_cause = problem.bg_cause
         decl = target_declaration(bg_cause)
         if decl is None or not decl.selector or decl.origin == "user-agent":
             return []
-        if not (decl.property in _COLOUR_PROPS or decl.property.startswith("--")):
+        gradient = "gradient(" in decl.value and decl.property in GRADIENT_PROPS
+        if not (decl.property in _COLOUR_PROPS or decl.property.startswith("--") or gradient):
             return []
-        if "gradient(" in decl.value or "url(" in decl.value:
+        if "url(" in decl.value or ("gradient(" in decl.value and (narrow or not gradient)):
             return []
         from tinctura.report.messages import finding_colours
 
@@ -409,6 +414,11 @@ class Planner:
         prop = "background-color" if decl.property == "background" else decl.property
         selector = self.scoped(scope, decl.selector)
         declarations = [(prop, to_hex(found[0]), decl.important)]
+        if gradient:  # one colour as the image it replaces: it paints over any background
+            # colour below it, which may win otherwise (Bootstrap's `.bg-primary` is !important)
+            colour = to_hex(found[0])
+            declarations = [("background-image", f"linear-gradient({colour}, {colour})",
+                             decl.important)]
         declarations += self._aliases(bg_cause, decl, selector)
         return [Rule(selector, tuple(declarations), scope.media)]
 
@@ -512,6 +522,11 @@ def _rules_key(planned) -> tuple:
     return target, tuple((r.media, r.selector, r.declarations) for r in rules)
 
 
+GRADIENT_PROPS = frozenset({"background", "background-image"})
+GRADIENT_NOTE = ("the gradient becomes one colour (a gradient from it to itself); the same "
+                 "darkening or lightening of each of its stops would serve as well")
+
+
 def _matched(problem, decl) -> list:
     """The selectors of ``decl``'s rule that the problem's texts matched, ``decl``'s first: a
     finding's declaration names the selector of its list that matched (one rule colours a
@@ -578,6 +593,7 @@ def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None,
     ``narrow``: the numbers (from 0) of problems planned with ``Planner.plan``'s ``narrow``."""
     planned = [planner.plan(p, element_selector, opacity_of, n in narrow)
                for n, p in enumerate(problems)]
+    _joined_backgrounds(problems, planned)
     owners: dict = {}
     for n, o in enumerate(planned, 1):
         for key in (o.keys() if o is not None else ()):
@@ -586,6 +602,46 @@ def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None,
         if o is not None:
             o.shared_with = tuple(sorted({m for key in o.keys() for m in owners[key]} - {n}))
     return planned
+
+
+_ONE_COLOUR = re.compile(r"^linear-gradient\((#[0-9a-f]{6}), \1\)$")
+
+
+def _joined_backgrounds(problems, planned) -> None:
+    """Overrides that give one background (a selector's property) different colours, each
+    for its own problem's text (white and 80 % white on one navigation bar), all take the
+    colour furthest from the background they replace, when all move it the same way: the
+    other texts pass on it too (moving a background away from a text raises their contrast;
+    a translucent text's composite stays nearer the text). Else each keeps its own, and the
+    check again says which fail."""
+    from tinctura.colour.wcag import relative_luminance
+    from tinctura.report.messages import finding_colours
+
+    groups: dict = {}  # (media, selector, property) -> [(override, rule index, decl index, hex)]
+    for problem, o in zip(problems, planned):
+        if o is None or o.target != "background":
+            continue
+        base = relative_luminance(finding_colours(problem.worst)[1])
+        for k, r in enumerate(o.rules):
+            for i, (prop, value, _) in enumerate(r.declarations):
+                hex_ = value if re.match(r"^#[0-9a-f]{6}$", value) else \
+                    (_ONE_COLOUR.match(value) or [None, None])[1]
+                if hex_ is not None:
+                    groups.setdefault((r.media, _normal(r.selector), prop), []).append(
+                        (o, k, i, hex_, base))
+    for members in groups.values():
+        if len({m[3] for m in members}) < 2:
+            continue
+        moves = [relative_luminance(parse_color(m[3])[:3]) - m[4] for m in members]
+        if not (all(d < 0 for d in moves) or all(d > 0 for d in moves)):
+            continue
+        chosen = members[max(range(len(members)), key=lambda n: abs(moves[n]))][3]
+        for o, k, i, hex_, _ in members:
+            r = o.rules[k]
+            prop, value, important = r.declarations[i]
+            declarations = list(r.declarations)
+            declarations[i] = (prop, value.replace(hex_, chosen), important)
+            o.rules[k] = replace(r, declarations=tuple(declarations))
 
 
 def plan_own_css(problems, planner: Planner) -> None:
