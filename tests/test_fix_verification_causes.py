@@ -206,3 +206,24 @@ def test_a_gradient_becomes_one_colour_that_every_text_on_it_passes(tmp_path):
                         r"linear-gradient\((#[0-9a-f]{6}), \1\);\n\}\n", one)
     assert all(fix["verified"] for _, fix in fixes)
     assert all("gradient becomes one colour" in fix["note"] for _, fix in fixes)
+
+
+# a signal legend whose cells carry both colours in their style attributes: white on yellow
+# (1.2:1), white on green (2.8:1), white on red (3.7:1); one `color: #ffffff` as written in all
+LEGEND = ('<table><tr><td style="background:#ffeb3b;color:#ffffff">Caution</td></tr>'
+          '<tr><td style="background:#4caf50;color:#ffffff">Clear</td></tr>'
+          '<tr><td style="background:#f44336;color:#ffffff">Danger</td></tr></table>')
+
+
+def test_a_legend_of_style_attributes_is_fixed_cell_by_cell(tmp_path):
+    fixes = dict((fix["css"].split(" {")[0], fix) for _, fix in
+                 _fixes(_site(tmp_path, "body { color: #202020; }\n", LEGEND), "TC100"))
+    yellow = 'td[style="background:#ffeb3b;color:#ffffff" i]'
+    green = 'td[style="background:#4caf50;color:#ffffff" i]'
+    red = 'td[style="background:#f44336;color:#ffffff" i]'
+    assert set(fixes) == {yellow, green, red}  # each cell by its attribute as written
+    assert "color: #" in fixes[yellow]["css"]  # a darker text is the nearer fix there
+    for cell in (green, red):  # no lighter text than white: a darker background
+        assert "background-color: #" in fixes[cell]["css"]
+        assert "background is set by a style attribute" in fixes[cell]["note"]
+    assert all(fix["verified"] for fix in fixes.values())

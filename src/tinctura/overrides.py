@@ -240,9 +240,13 @@ class Planner:
         if target == "background" and any(d[0] == "background-image" and "gradient(" in d[1]
                                            for r in rules for d in r.declarations):
             note = GRADIENT_NOTE
+        bg_decl = target_declaration(problem.bg_cause)
         if target == "foreground" and decl is not None and decl.origin == "inline":
             note = ("the colour is set by a style attribute in the page: changing it there is "
                     "better than this rule")
+        elif target == "background" and bg_decl is not None and bg_decl.origin == "inline":
+            note = ("the background is set by a style attribute in the page: changing it there "
+                    "is better than this rule")
         return Override(file, rules, tuple(schemes), target, note)
 
     def _scheme_rules(self, problem, fix, decl, name, scope, element_selector, narrow_bg):
@@ -255,7 +259,7 @@ class Planner:
             per_bg = sum(1 for c in fix.contexts if name in c.schemes) > 1
             return self._fg_rules(problem, decl, scope, context.colour, element_selector,
                                   worst if per_bg else None), "foreground"
-        got = self._bg_rules(problem, scope, worst, narrow_bg)
+        got = self._bg_rules(problem, scope, worst, narrow_bg, element_selector)
         return (got, "background") if got else None
 
     def _cue(self, problem, element_selector=None) -> Optional[Override]:
@@ -352,6 +356,13 @@ class Planner:
         important = bool(decl is not None and (decl.important or decl.origin == "inline"))
         if per_bg_finding is not None:  # one value per group of backgrounds: scope to this one
             bg = problem.bg_cause.declaration if problem.bg_cause is not None else None
+            if (bg is None or not bg.selector) and decl is not None and \
+                    decl.origin == "inline" and element_selector is not None:
+                # both colours in the element's style attribute (a legend's cells, each its
+                # own background, all `color: #fff`): that attribute as written
+                selector = element_selector(per_bg_finding)
+                return [Rule(self.scoped(scope, selector), (("color", value, True),),
+                             scope.media)] if selector else []
             if bg is None or not bg.selector:
                 return []
             prop = "color"
@@ -383,12 +394,14 @@ class Planner:
                 out.append((step.property, step.value, step.important))
         return out
 
-    def _bg_rules(self, problem, scope, worst, narrow=False) -> list:
+    def _bg_rules(self, problem, scope, worst, narrow=False, element_selector=None) -> list:
         """When no text colour on the same side passes: a new background colour (``narrow``:
         on the rules using the custom property that holds it, ``narrowable``). A gradient
         becomes one colour, found for its worst stop (MkDocs' own theme's navigation bar)."""
         bg_cause = problem.bg_cause
         decl = target_declaration(bg_cause)
+        if decl is not None and decl.origin == "inline":
+            return self._inline_bg(problem, scope, worst, decl, element_selector)
         if decl is None or not decl.selector or decl.origin == "user-agent":
             return []
         gradient = "gradient(" in decl.value and decl.property in GRADIENT_PROPS
@@ -396,14 +409,7 @@ class Planner:
             return []
         if "url(" in decl.value or ("gradient(" in decl.value and (narrow or not gradient)):
             return []
-        from tinctura.report.messages import finding_colours
-
-        fg, bg = finding_colours(worst)
-        raw = worst.sample.fg_raw
-        if raw is not None and len(raw) > 3 and raw[3] < 1:  # translucent text moves with it
-            found = suggest.background_under(raw, bg, problem.required)
-        else:
-            found = suggest.background(fg, bg, problem.required)
+        found = self._background_for(problem, worst)
         if found is None:
             return []
         if narrow:
@@ -421,6 +427,32 @@ class Planner:
                              decl.important)]
         declarations += self._aliases(bg_cause, decl, selector)
         return [Rule(selector, tuple(declarations), scope.media)]
+
+    def _inline_bg(self, problem, scope, worst, decl, element_selector) -> list:
+        """A background set by a style attribute whose text colour is set there too (a
+        legend's cells, each its own background, white text): that attribute as written
+        (``element_selector``) gets the new background."""
+        fg = problem.fg_cause.declaration if problem.fg_cause is not None else None
+        if element_selector is None or fg is None or fg.origin != "inline" \
+                or decl.property not in _COLOUR_PROPS or "(" in decl.value:
+            return []
+        found = self._background_for(problem, worst)
+        selector = element_selector(worst) if found is not None else None
+        if not selector:
+            return []
+        return [Rule(self.scoped(scope, selector),
+                     (("background-color", to_hex(found[0]), True),), scope.media)]
+
+    def _background_for(self, problem, worst):
+        """``(colour, ratio)`` of the nearest background on which the worst text passes (its
+        composite over it, when the text is translucent), or None."""
+        from tinctura.report.messages import finding_colours
+
+        fg, bg = finding_colours(worst)
+        raw = worst.sample.fg_raw
+        if raw is not None and len(raw) > 3 and raw[3] < 1:  # translucent text moves with it
+            return suggest.background_under(raw, bg, problem.required)
+        return suggest.background(fg, bg, problem.required)
 
     def _file(self, decl):
         if decl is not None and owned(decl.sheet, self.project):
