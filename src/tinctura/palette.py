@@ -13,7 +13,11 @@ A palette entry is found three ways, in this order:
    ``var(--tw-state-caution)`` that paints it); its family is the name without its last
    hyphenated part (``--tw-state``), and it counts once at least two members of the family
    occur on the site (``--tw-state-ok``, ``--tw-state-fault``): a theme's many single
-   variables (a brand colour, a link colour, syntax colours) are styles, not codes.
+   variables (a brand colour, a link colour, syntax colours) are styles, not codes;
+4. a colour written in a style attribute (a legend's cells, `<td style="background:
+   #4caf50">Clear</td>`; each colour as written is one entry, text colours one family and
+   backgrounds another), counting once two members occur on the site; not inside code (a
+   highlighter that writes its colours inline is not a legend).
 
 Discovered entries (2 and 3) must be chromatic and opaque: greys are text and rules, and a
 translucent tint is a shade of whatever lies below it, not a code of its own.
@@ -130,11 +134,14 @@ def _uses_of(memo: dict, s, palette) -> tuple:
     if s.state != REST or s.status != DETERMINED or s.fg is None or s.bg is None \
             or s.kind in NONTEXT_KINDS:  # control boundaries, focus rings: not a colour code
         return ()
+    in_code = "/pre" in s.xpath or "/code" in s.xpath
     found = [((entry, "text", _quantized(s.fg), _quantized(s.bg), s.scheme), s.fg_cause)
-             for entry in _entries_of(memo, s.fg_cause, s.fg, palette)]
+             for entry in _entries_of(memo, s.fg_cause, s.fg, palette)
+             if not (in_code and entry.source == "inline")]
     if s.surround is not None and s.bg_cause is not None:
         found.extend(((entry, "fill", _quantized(s.bg), _quantized(s.surround), s.scheme),
-                      s.bg_cause) for entry in _entries_of(memo, s.bg_cause, s.bg, palette))
+                      s.bg_cause) for entry in _entries_of(memo, s.bg_cause, s.bg, palette)
+                     if not (in_code and entry.source == "inline"))
     return tuple(found)
 
 
@@ -255,7 +262,16 @@ def _discovered(cause) -> tuple:
         return (Entry(selector, "variant", family),)
     if target.property.startswith("--"):
         return (Entry(target.property, "property", property_family(target.property)),)
+    if target.origin == "inline" and target.property in INLINE_FAMILIES:
+        family = INLINE_FAMILIES[target.property]
+        return (Entry(f'style="{target.property}: {target.value.strip()}"', "inline",
+                      f"style attribute {family}"),)
     return ()
+
+
+# the properties a style attribute colours a legend with, and the family each belongs to
+INLINE_FAMILIES = {"color": "color", "background-color": "background",
+                   "background": "background"}
 
 
 def _translucent(value: str) -> bool:

@@ -271,3 +271,27 @@ def test_html_and_csv_reports_carry_the_appearance_findings(status_site):
     main(["check", str(status_site), "--no-states", "--jobs", "1", "--fail-on", "never",
           "--format", "csv"], out, io.StringIO())
     assert "TC300" in out.getvalue() and "TC310" in out.getvalue()
+
+
+# a signal legend written with style attributes (Markdown tables with inline HTML), a lone
+# inline colour elsewhere, and a highlighter that writes its colours inline
+LEGEND_PAGE = """<!doctype html><html><head><style>body { background: #ffffff; color: #1a1a1a; }
+</style></head><body>
+<table><tr><td style="background:#2e7d32;color:#ffffff">Clear</td></tr>
+<tr><td style="background:#c62828;color:#ffffff">Danger</td></tr></table>
+<p><span style="color:#1565c0">Blue flags mark the ferry berth.</span></p>
+<pre><code><span style="color:#2e7d32">ok</span> <span style="color:#c62828">stop</span></code></pre>
+</body></html>"""
+
+
+def test_colours_written_in_style_attributes_are_a_palette(tmp_path):
+    page = tmp_path / "legend.html"
+    page.write_text(LEGEND_PAGE, encoding="utf-8")
+    looks = _by_rule(_check(page, keep_samples=False), "TC310")
+    pairs = {(f.args["entry"], f.args["other"]): f for f in looks}
+    # the legend's cells are one family: its red and green collapse for readers with
+    # deuteranopia (Machado 2009), as the classes' chips do
+    pair = ('style="background-color: #2e7d32"', 'style="background-color: #c62828"')
+    assert pair in pairs and "deuteranopia" in pairs[pair].args["conditions"]
+    # the lone blue text has no partner; the code's inline colours are a highlighter's
+    assert list(pairs) == [pair]

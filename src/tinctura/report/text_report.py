@@ -73,10 +73,13 @@ class TextFormatter(Formatter):
     def start(self, summary) -> None:
         self.schemes = list(self.header.schemes or summary.schemes)
         if self.header.group == "cause" and summary.problems:
+            # (site-level problems compare pages: they stand on none of their own)
+            where = f"on {m.plural(summary.pages_with_findings, 'page')}" \
+                if summary.pages_with_findings else "across the site"
             self.tw.line(
                 f"{m.plural(summary.problems, 'problem')} "
-                f"({m.plural(summary.findings, 'occurrence')} on "
-                f"{m.plural(summary.pages_with_findings, 'page')}), by severity, largest first",
+                f"({m.plural(summary.findings, 'occurrence')} {where}), by severity, "
+                "largest first",
                 "bold",
             )
             self.tw.line()
