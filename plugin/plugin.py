@@ -103,7 +103,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             schemes=self.config.schemes,
             behaviours=tuple(self.config.behaviours or ()),
             theme_behaviours=self.config.theme_behaviours,
-            cache_dir=sheet_cache.default_folder() if self.config.cache else "",
+            cache_dir=sheet_cache.folder_for(self.config.cache),
             keep_samples=False,  # a build log needs counts, findings and declaration uses
             rules=chosen,
             severity=tuple(sorted(self.config.severity.items())),

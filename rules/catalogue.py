@@ -374,8 +374,9 @@ UI_RATIO = Rule(
             "because geometry decides and tinctura does not lay pages out: an inset focus "
             "outline (it lies on the element's own fill), SVG icons drawn with strokes or "
             "several fills (an icon's <use> of a symbol counts what the symbol draws), and "
-            "those drawn from a symbol in another file. Not checked: a focus indicator made of a colour change alone (its "
-            "contrast with the unfocused state), checkbox and radio marks, chart graphics."
+            "those drawn from a symbol in another file. Not checked: a focus indicator made "
+            "of a colour change alone (its contrast with the unfocused state), checkbox and "
+            "radio marks, chart graphics."
         ),
         why=(
             "An icon that is the only visible label of a control, such as a cross that closes a "

@@ -49,6 +49,13 @@ def _fixes(site, *rules):
     return [(p["rule"], p["fix"]) for p in doc["problems"]]
 
 
+def _only_fix(site, rule):
+    """The fix of the site's one problem of ``rule``."""
+    fixes = _fixes(site, rule)
+    assert len(fixes) == 1, fixes
+    return fixes[0][1]
+
+
 # the meta line's #a0a0a0 on white: 2.6:1, below 4.5:1; its link inherits it (1.00:1 to the text)
 META_CSS = """:root { --muted: #a0a0a0; }
 body { color: #202020; background: #ffffff; }
@@ -109,9 +116,7 @@ TWO_RULES = ('<div class="prose"><p>Check the tide, see <a href="../p1/">the tid
 
 
 def test_links_coloured_by_two_rules_are_underlined_on_both(tmp_path):
-    fixes = _fixes(_site(tmp_path, TWO_RULES_CSS, TWO_RULES), "TC120")
-    assert len(fixes) == 1  # one problem: one variable
-    fix = fixes[0][1]
+    fix = _only_fix(_site(tmp_path, TWO_RULES_CSS, TWO_RULES), "TC120")  # one variable
     assert fix["verified"] is True
     selectors = fix["css"].split("{")[0]
     assert ".prose a" in selectors and ".tag" in selectors
@@ -158,9 +163,7 @@ LIST = ('<div class="note"><p class="title">Grain moisture</p><p>Keep it under 1
 
 
 def test_a_rule_with_a_selector_list_is_fixed_on_every_selector_its_texts_matched(tmp_path):
-    fixes = _fixes(_site(tmp_path, LIST_CSS, LIST), "TC100")
-    assert len(fixes) == 1  # one declaration: one problem
-    fix = fixes[0][1]
+    fix = _only_fix(_site(tmp_path, LIST_CSS, LIST), "TC100")  # one declaration
     assert fix["verified"] is True
     selectors = {s.strip() for s in fix["css"].split("{")[0].split(",")}
     assert selectors == {".note > .title", ".note > summary"}
@@ -175,9 +178,7 @@ BAR = '<div class="bar"><p>Mill open from six until the bell.</p></div>'
 
 
 def test_a_background_under_translucent_text_is_chosen_for_what_it_composites_to(tmp_path):
-    fixes = _fixes(_site(tmp_path, BAR_CSS, BAR), "TC100")
-    assert len(fixes) == 1
-    fix = fixes[0][1]
+    fix = _only_fix(_site(tmp_path, BAR_CSS, BAR), "TC100")
     assert fix["css"].startswith(".bar {\n  background-color: #")
     assert fix["verified"] is True
 

@@ -227,7 +227,7 @@ def options_from(args) -> engine.Options:
         site_url=args.site_url or "",
         behaviours=tuple(args.behaviours or ()),
         theme_behaviours=args.theme_behaviours,
-        cache_dir=sheet_cache.default_folder() if getattr(args, "cache", True) else "",
+        cache_dir=sheet_cache.folder_for(getattr(args, "cache", True)),
         rules=chosen,
         severity=tuple(sorted(getattr(args, "severity", {}).items())),
         lc_levels=getattr(args, "lc_levels", None),

@@ -206,7 +206,6 @@ class Site:
             result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result
 
-
     def _walker(self, rel, root, ruleset, scheme, result, fingerprints, structure,
                 exemptions, disclosure) -> PageWalker:
         """A walker of the page in ``scheme`` (its attributes applied to the tree)."""

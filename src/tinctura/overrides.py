@@ -356,13 +356,11 @@ class Planner:
         important = bool(decl is not None and (decl.important or decl.origin == "inline"))
         if per_bg_finding is not None:  # one value per group of backgrounds: scope to this one
             bg = problem.bg_cause.declaration if problem.bg_cause is not None else None
-            if (bg is None or not bg.selector) and decl is not None and \
-                    decl.origin == "inline" and element_selector is not None:
+            if (bg is None or not bg.selector) and decl is not None and decl.origin == "inline":
                 # both colours in the element's style attribute (a legend's cells, each its
                 # own background, all `color: #fff`): that attribute as written
-                selector = element_selector(per_bg_finding)
-                return [Rule(self.scoped(scope, selector), (("color", value, True),),
-                             scope.media)] if selector else []
+                return self._on_element(scope, element_selector, per_bg_finding, "color",
+                                        value)
             if bg is None or not bg.selector:
                 return []
             prop = "color"
@@ -372,10 +370,7 @@ class Planner:
             return [Rule(self.scoped(scope, bg.selector), ((prop, value, important),),
                          scope.media)]
         if decl is None or decl.origin == "inline" or not decl.selector:
-            selector = element_selector(problem.worst) if element_selector else None
-            if not selector:
-                return []
-            return [Rule(self.scoped(scope, selector), (("color", value, True),), scope.media)]
+            return self._on_element(scope, element_selector, problem.worst, "color", value)
         declarations = [(decl.property, value, important)]
         scoped = [self.scoped(scope, one) for one in _matched(problem, decl)]
         declarations += self._aliases(problem.fg_cause, decl, scoped[0])
@@ -417,14 +412,15 @@ class Planner:
                          (("background-color" if d.property == "background" else d.property,
                            to_hex(found[0]), d.important),), scope.media)
                     for d in _using(problem, "bg")]
-        prop = "background-color" if decl.property == "background" else decl.property
-        selector = self.scoped(scope, decl.selector)
-        declarations = [(prop, to_hex(found[0]), decl.important)]
+        colour = to_hex(found[0])
         if gradient:  # one colour as the image it replaces: it paints over any background
             # colour below it, which may win otherwise (Bootstrap's `.bg-primary` is !important)
-            colour = to_hex(found[0])
             declarations = [("background-image", f"linear-gradient({colour}, {colour})",
                              decl.important)]
+        else:
+            prop = "background-color" if decl.property == "background" else decl.property
+            declarations = [(prop, colour, decl.important)]
+        selector = self.scoped(scope, decl.selector)
         declarations += self._aliases(bg_cause, decl, selector)
         return [Rule(selector, tuple(declarations), scope.media)]
 
@@ -437,11 +433,18 @@ class Planner:
                 or decl.property not in _COLOUR_PROPS or "(" in decl.value:
             return []
         found = self._background_for(problem, worst)
-        selector = element_selector(worst) if found is not None else None
+        if found is None:
+            return []
+        return self._on_element(scope, element_selector, worst, "background-color",
+                                to_hex(found[0]))
+
+    def _on_element(self, scope, element_selector, finding, prop, value) -> list:
+        """``prop: value !important`` on the finding's element (``element_selector``: by its
+        style attribute as written, else by its place), or none when it cannot be named."""
+        selector = element_selector(finding) if element_selector is not None else None
         if not selector:
             return []
-        return [Rule(self.scoped(scope, selector),
-                     (("background-color", to_hex(found[0]), True),), scope.media)]
+        return [Rule(self.scoped(scope, selector), ((prop, value, True),), scope.media)]
 
     def _background_for(self, problem, worst):
         """``(colour, ratio)`` of the nearest background on which the worst text passes (its
@@ -563,10 +566,10 @@ def _matched(problem, decl) -> list:
     """The selectors of ``decl``'s rule that the problem's texts matched, ``decl``'s first: a
     finding's declaration names the selector of its list that matched (one rule colours a
     collapsible note's summary and a note's title alike)."""
-    where = (decl.sheet, decl.line, decl.column, decl.property)
+    where = declaration_key(decl)
     return list(dict.fromkeys([decl.selector] + [
         d.selector for d in problem.using_declarations("fg")
-        if d.selector and (d.sheet, d.line, d.column, d.property) == where]))
+        if d.selector and declaration_key(d) == where]))
 
 
 def _inherited_by_links(problem) -> set:
@@ -636,6 +639,7 @@ def plan_all(problems, planner: Planner, element_selector=None, opacity_of=None,
     return planned
 
 
+_HEX = re.compile(r"^#[0-9a-f]{6}$")  # as to_hex writes them
 _ONE_COLOUR = re.compile(r"^linear-gradient\((#[0-9a-f]{6}), \1\)$")
 
 
@@ -656,7 +660,7 @@ def _joined_backgrounds(problems, planned) -> None:
         base = relative_luminance(finding_colours(problem.worst)[1])
         for k, r in enumerate(o.rules):
             for i, (prop, value, _) in enumerate(r.declarations):
-                hex_ = value if re.match(r"^#[0-9a-f]{6}$", value) else \
+                hex_ = value if _HEX.match(value) else \
                     (_ONE_COLOUR.match(value) or [None, None])[1]
                 if hex_ is not None:
                     groups.setdefault((r.media, _normal(r.selector), prop), []).append(

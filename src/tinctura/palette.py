@@ -1,6 +1,6 @@
 """Palette colours: the colours of a site that carry a meaning, and where each one is used.
 
-A palette entry is found three ways, in this order:
+A palette entry is found four ways, in this order:
 
 1. declared by the user (``Options.palette``: name -> a CSS colour or a custom property);
 2. a modifier family: the declaration that holds the colour (past ``var()`` aliases) has a
@@ -19,7 +19,7 @@ A palette entry is found three ways, in this order:
    backgrounds another), counting once two members occur on the site; not inside code (a
    highlighter that writes its colours inline is not a legend).
 
-Discovered entries (2 and 3) must be chromatic and opaque: greys are text and rules, and a
+Discovered entries (2 to 4) must be chromatic and opaque: greys are text and rules, and a
 translucent tint is a shade of whatever lies below it, not a code of its own.
 
 Each judged sample whose text colour (role ``text``) or background (role ``fill``, judged on the

@@ -14,6 +14,7 @@ from typing import Optional
 
 from tinctura import overrides as overrides_mod
 from tinctura import problems as problems_mod
+from tinctura.extract.loader import SheetLoader
 from tinctura.locator import (Pages, by_style, content_scope, landmarks, pseudo, readable,
                               selector)
 from tinctura.mkdocs_project import owned, sphinx_sheet
@@ -32,6 +33,7 @@ class WriterAid:
         self.site_root = os.path.abspath(site_root)
         self.project = project
         self.pages = Pages([self.site_root], script_behaviours(options))
+        self._sheets = SheetLoader(self.site_root)  # resolves the pages' stylesheet links
         self.sources = SourceMap(project) if project is not None else None
         self._cache: dict = {}
         self._options = None
@@ -120,21 +122,16 @@ class WriterAid:
             href = (link.get("href") or "").split("?")[0].split("#")[0]
             if not href or "://" in href or href.startswith("//"):
                 continue
-            path = self._rooted(href) if href.startswith("/") else posixpath.join(base, href)
-            out.append(posixpath.normpath(path))
+            # resolved as the check loads them: a site served below a path (its site_url's,
+            # `/manual/`) links `/manual/stylesheets/extra.css` for its own
+            # `stylesheets/extra.css` (mkdocs-material's 404 page does)
+            found, _ = self._sheets.resolve(href, os.path.join(self.site_root, base))
+            if found is not None:
+                out.append(self._sheets.rel(found))
+            else:  # not a file of the site: named as written
+                path = href.lstrip("/") if href.startswith("/") else posixpath.join(base, href)
+                out.append(posixpath.normpath(path))
         return out
-
-    def _rooted(self, href: str) -> str:
-        """The site file a root-relative ``href`` names. A site served below a path (its
-        ``site_url``'s, `/manual/`) links `/manual/stylesheets/extra.css` for its
-        `stylesheets/extra.css` (mkdocs-material's 404 page does): leading segments are
-        dropped until a file of the site is found, as the loader resolves them."""
-        segments = href.lstrip("/").split("/")
-        for k in range(len(segments)):
-            candidate = "/".join(segments[k:])
-            if os.path.isfile(os.path.join(self.site_root, candidate)):
-                return candidate
-        return href.lstrip("/")
 
     # -- overrides -----------------------------------------------------------------------
 

@@ -64,9 +64,13 @@ def test_other_bytes_are_parsed_again(tmp_path, monkeypatch):
 
 
 def test_parse_diagnostics_come_back_with_the_cached_sheet(tmp_path):
+    # what decoding the bytes said (not valid UTF-8) is kept with the entry; what parsing said
+    # is read from the parsed sheet on every load
     site, cache = _site(tmp_path, ".x { color: #bbbbbb; \n p { color: }\n"), tmp_path / "cache"
+    (site / "site.css").write_bytes(b"/* caf\xe9 */ .x { color: #bbbbbb; }\n p { color: }\n")
     _, _, notes = _check(site, cache)
-    _, _, notes_again = _check(site, cache)
+    again, _, notes_again = _check(site, cache)
+    assert again.loader.cache.hits == 1 and any("UTF-8" in n for n in notes)
     assert notes_again == notes
 
 

@@ -58,8 +58,9 @@ class Disclosure:
             self.changes.append((el, "class", f"{el.get('class', '')} {cls}".strip(),
                                  el.get("class")))
             self.menus.append(el)
+        opened = set(self.menus)
         self.menus = [el for el in self.menus
-                      if not any(up in set(self.menus) for up in el.iterancestors())]
+                      if not any(up in opened for up in el.iterancestors())]
         inside = set(candidates)
         # the outermost ones: a walk of each covers those nested in it
         self.targets = [el for el in candidates
@@ -93,6 +94,8 @@ def _menus(root, text=None) -> list:
     out = []
     for needle, marker, menu, cls in MENUS:
         if (text is None or needle in text) and root.xpath(marker):
-            out.extend((el, cls) for el in root.xpath(f"//*[contains(@class, '{menu}')]")
-                       if menu in el.get("class").split() and cls not in el.get("class").split())
+            for el in root.xpath(f"//*[contains(@class, '{menu}')]"):
+                classes = el.get("class").split()
+                if menu in classes and cls not in classes:
+                    out.append((el, cls))
     return out

@@ -160,7 +160,7 @@ def _svg_icon(walker, el, style, chain) -> None:
     elif exempt_mod._control_of(el) is None and not _named_svg(el):
         return  # neither in a control nor named: nothing says it carries meaning
     inner = [d for d in el.iter() if isinstance(d.tag, str) and d is not el]
-    used = _used(inner)
+    used = _used(inner, walker.structure.by_id)
     if any(d.tag in ("text", "foreignObject") for d in inner + (used or [])):
         return  # a chart or diagram with text, not an icon: not judged (documented)
     fill = style.svg_fill[0] if style.svg_fill is not None else (0.0, 0.0, 0.0, 1.0)
@@ -181,10 +181,11 @@ def _svg_icon(walker, el, style, chain) -> None:
     _append(walker, el, "svg-icon", "svg icon", fg, bg, bg, style, status, reason)
 
 
-def _used(inner) -> list | None:
+def _used(inner, by_id) -> list | None:
     """The shapes of the symbols the ``<use>`` elements among ``inner`` draw (SVG 2, "The
     use element": the referenced element's content is rendered in its place, and inherits
-    from it), found by id in the page; None when one refers to another file (a sprite sheet).
+    from it), found by id in the page (``by_id``: ``PageStructure.by_id``); None when one
+    refers to another file (a sprite sheet).
     A theme's icons are often a ``<use href="#svg-eye">`` of a symbol drawn with
     ``stroke="currentColor"`` (Sphinx's Furo theme)."""
     found = []
@@ -195,9 +196,9 @@ def _used(inner) -> list | None:
                 or d.get("{http://www.w3.org/1999/xlink}href") or "").strip()
         if not href.startswith("#"):
             return None
-        target = d.getroottree().getroot().xpath("//*[@id=$name]", name=href[1:])
-        if target:
-            found.extend(t for t in target[0].iter() if isinstance(t.tag, str))
+        target = by_id(href[1:])
+        if target is not None:
+            found.extend(t for t in target.iter() if isinstance(t.tag, str))
     return found
 
 

@@ -9,8 +9,8 @@ parses here, pickled, and takes it back on a later run for the same bytes.
 An entry is named by what its parse depends on: the sheet's bytes (SHA-1), its path in the
 site (declarations carry it), the rule limit, the Python version, tinycss2's and cssselect2's
 versions and tinctura's own source (every module's bytes: an edited parser never reads an
-older parse). The cache only saves
-time: a missing, unreadable or foreign entry is parsed again, and nothing here stops a run.
+older parse). The cache only saves time: a missing, unreadable or foreign entry is parsed
+again, and nothing here stops a run.
 
 Bounds (hostile input): a sheet whose pickle would exceed ``MAX_ENTRY_BYTES`` is not kept; the
 folder keeps the ``MAX_ENTRIES`` most recently used entries. Entries are pickles, loaded only
@@ -45,6 +45,11 @@ def default_folder() -> str:
         return chosen
     base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
     return os.path.join(base, "tinctura")
+
+
+def folder_for(enabled: bool) -> str:
+    """``Options.cache_dir`` for the ``cache`` setting: the default folder, or "" (none)."""
+    return default_folder() if enabled else ""
 
 
 def code_digest() -> str:

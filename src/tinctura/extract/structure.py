@@ -223,7 +223,17 @@ class PageStructure:
         # level's siblings: a tenth of all the work on a large page)
         self.paths = {root: "/" + root.tag}
         self._getpath = root.getroottree().getpath
+        self._ids = None  # id -> element, made on first use (``by_id``)
         self._reset_wrappers()
+
+    def by_id(self, name: str):
+        """The page's first element whose id is ``name``, or None: the page's ids are indexed
+        once, on first use (an icon's ``<use href="#...">``, met in every scheme's walk)."""
+        if self._ids is None:
+            self._ids = {}
+            for el in self.root.xpath("//*[@id]"):
+                self._ids.setdefault(el.get("id"), el)
+        return self._ids.get(name)
 
     def _reset_wrappers(self) -> None:
         self.wrapper = cssselect2.ElementWrapper.from_html_root(self.root)

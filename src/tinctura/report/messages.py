@@ -205,10 +205,9 @@ def fixes(finding: Finding) -> str:
 
 def not_verified(override) -> str:
     """Why checking again with an override applied did not prove it, in a clause."""
-    causes = tuple(getattr(override, "causes", ()) or ())
-    if causes and not getattr(override, "remains", False):
+    if override.causes and not override.remains:
         named = []
-        for code in causes:
+        for code in override.causes:
             try:
                 named.append(f"{code} {rules.get(code).slug}")
             except KeyError:
