@@ -91,6 +91,13 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.command = command
         self.previous = None  # the first build of a session logs every problem
 
+    def on_shutdown(self) -> None:
+        """MkDocs is about to exit: what is alive moves out of the collector's reach
+        (``gc.freeze``). Python's shutdown would otherwise collect the whole heap, which the
+        check made larger (its caches, the store's records): 0.2 s of a 200-page build's
+        3.5 s, measured. Objects made later are collected as usual."""
+        gc.freeze()
+
     def engine_options(self) -> engine.Options:
         try:
             chosen = rules.selection(self.config.select, self.config.ignore)
