@@ -4,8 +4,8 @@ Found on a mkdocs-material blog: a post's meta line is coloured by one variable,
 category link inherits that colour, so the link is told apart by colour alone (TC120, 1.00:1
 against the text around it) before any fix and after. That finding must not undo the
 variable's TC100 fix; a TC120 finding the fix's own colours bring must, and the report must say
-that this is why. And a theme variable that colours links through two rules is underlined on
-both. Found on a custom-coloured mkdocs-material handbook: a rule whose selector list colours a
+that this is why, as must a paragraph's fix that brings its links within 3:1 of it. And a theme
+variable that colours links through two rules is underlined on both. Found on a custom-coloured mkdocs-material handbook: a rule whose selector list colours a
 note's title and a collapsible note's summary is fixed on both selectors, and a background
 under translucent text (the search field's placeholder) is chosen for what the text
 composites to over it.
@@ -90,6 +90,27 @@ def test_a_fix_whose_colour_makes_a_link_fail_says_so(tmp_path):
     fixes = dict(_fixes(_site(tmp_path, css, LINKS), "TC100", "TC120"))
     assert set(fixes) == {"TC100"}  # the premise: the link is told apart by colour today
     fix = fixes["TC100"]
+    assert fix["verified"] is False
+    assert fix["not_verified"] == ("the problem is gone with it applied, but its values cause "
+                                   "new findings: TC120 link-cue")
+
+
+# the note's #aaaaaa on white: 2.3:1, below 4.5:1; its link #333333 against that text 5.4:1,
+# above 3:1. Any grey dark enough for 4.5:1 on white (#767676 or darker) comes within 3:1 of
+# the link (#767676 against #333333: 2.8:1): the text's fix makes the link fail TC120.
+FAINT_CSS = """body { color: #202020; background: #ffffff; }
+.faint { color: #aaaaaa; }
+a { color: #333333; text-decoration: none; }
+a:hover, a:focus { text-decoration-line: underline; }
+"""
+FAINT = '<p class="faint">Tickets bought on board cost more; see <a href="../p1/">fares</a>.</p>'
+
+
+def test_a_text_fix_that_brings_its_links_within_3_to_1_says_so(tmp_path):
+    fixes = dict(_fixes(_site(tmp_path, FAINT_CSS, FAINT), "TC100", "TC120"))
+    assert set(fixes) == {"TC100"}  # the premise: the link stands apart from the text today
+    fix = fixes["TC100"]
+    assert ".faint" in fix["css"]
     assert fix["verified"] is False
     assert fix["not_verified"] == ("the problem is gone with it applied, but its values cause "
                                    "new findings: TC120 link-cue")

@@ -153,6 +153,9 @@ class LinkCues:
     rest: tuple = ()  # non-colour cues at rest: "underline", "border", "shadow", "weight"...
     hover: tuple = ()  # non-colour cues with :hover (those of rest included)
     focus: tuple = ()  # likewise with :focus / :focus-visible ("outline" for a focus ring)
+    # why the surrounding text has its colour: a fix's verification tells by it whether the
+    # fix coloured that text (never compared: links alike but for it are judged alike)
+    surround_cause: Optional[Cause] = field(default=None, compare=False, hash=False)
 
 
 @dataclass(slots=True)

@@ -874,7 +874,7 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
                                              _own_value(f.sample.bg_cause, css)))
         if f.required and f.ratio is not None and f.ratio >= f.required:
             continue  # its colours pass (a link's missing hover cue, say): no colour's fault
-        for side, cause in (("fg", f.sample.fg_cause), ("bg", f.sample.bg_cause)):
+        for side, cause in _sides(f):
             for d in _declarations(cause):
                 if "<style>" in d.sheet and d.line and _injected(d, css):
                     why = (_normal(d.selector), d.property, f.rule, f.severity)
@@ -884,6 +884,16 @@ def _tally_findings(findings, css: str, remaining_keys: set, bad: set) -> list:
                     else:
                         suspects.append((slot_of(f), why))
     return suspects, own
+
+
+def _sides(f) -> tuple:
+    """``(side, cause)`` of the colours a finding's failure depends on; a link told apart by
+    colour alone (TC120) also on the colour of the text around it."""
+    sides = (("fg", f.sample.fg_cause), ("bg", f.sample.bg_cause))
+    link = f.sample.link
+    if f.rule in CUE_RULES and link is not None and link.surround_cause is not None:
+        sides += (("surround", link.surround_cause),)
+    return sides
 
 
 def _took_over(own, samples, took: dict) -> None:

@@ -155,7 +155,8 @@ def context(walker, el, chain, fg, bg):
 
 def _context(walker, link, chain, at):
     parent = chain[at - 1][1]
-    text = parent.fill_color[0] if parent.fill_color is not None else parent.color
+    text, cause = parent.fill_color if parent.fill_color is not None else (
+        parent.color, parent.color_cause)
     surround, parent_bg = walker._paint(chain[:at], text)[0]
     link_style = chain[at][1]
     rest = set(state_cues(walker, link, link_style, None))
@@ -168,7 +169,7 @@ def _context(walker, link, chain, at):
     for state in ("hover", "focus"):
         states[state] = tuple(sorted(rest | state_cues(walker, link, link_style, state)))
     return LinkCues(surround=tuple(surround), rest=tuple(sorted(rest)), hover=states["hover"],
-                    focus=states["focus"])
+                    focus=states["focus"], surround_cause=cause)
 
 
 def state_cues(walker, link, link_style, state) -> frozenset:
