@@ -76,6 +76,19 @@ def test_a_link_that_failed_before_the_fix_does_not_undo_it(tmp_path):
     assert fixes["TC120"]["verified"] is True
 
 
+# as META, but the tag's own rule takes the underline away with more specificity (0,2,0) than
+# `.meta a` (0,1,1): the underline must also go on that rule's selector to be seen
+TAG_CSS = META_CSS.replace(".meta a {", ".meta .tag {")
+TAG = META.replace('<a href="../p0/">', '<a class="tag" href="../p0/">')
+
+
+def test_an_underline_goes_where_it_beats_the_rule_that_removes_it(tmp_path):
+    fixes = dict(_fixes(_site(tmp_path, TAG_CSS, TAG), "TC100", "TC120"))
+    selectors = [s.strip() for s in fixes["TC120"]["css"].split("{")[0].split(",")]
+    assert selectors == [".meta a", ".meta .tag"]
+    assert fixes["TC120"]["verified"] is True
+
+
 # links #6fa8ff on white: 2.4:1, below 4.5:1; against the #3a3a3a text 4.7:1, above 3:1. Any blue
 # of the same hue dark enough for 4.5:1 on white comes within 3:1 of that text.
 LINK_CSS = """:root { --link: #6fa8ff; }

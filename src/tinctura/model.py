@@ -156,6 +156,9 @@ class LinkCues:
     # why the surrounding text has its colour: a fix's verification tells by it whether the
     # fix coloured that text (never compared: links alike but for it are judged alike)
     surround_cause: Optional[Cause] = field(default=None, compare=False, hash=False)
+    # the author rule that takes the underline away at rest, ``(selector, specificity)``, or
+    # (): a fix's underline must beat it (never compared, as ``surround_cause``)
+    undecorated: tuple = field(default=(), compare=False, hash=False)
 
 
 @dataclass(slots=True)

@@ -280,7 +280,8 @@ class Planner:
                                          if _cue_rule(u)]):
             selector = _SPACE.sub(" ", d.selector.strip())
             if d in inherited:  # the rule colours a block its links inherit from: its links
-                selectors.append(", ".join(f"{part.strip()} a" for part in selector.split(",")))
+                links = [f"{part.strip()} a" for part in selector.split(",")]
+                selectors.append(", ".join(links + _outbid(problem, links)))
                 continue
             key = declaration_key(d)
             within = self.cue_scopes.get(key, "") if key not in self.unscoped else ""
@@ -581,6 +582,22 @@ def _inherited_by_links(problem) -> set:
         if cause is not None and cause.declaration is not None and cause.inherited_from:
             found.add(cause.declaration)
     return found
+
+
+def _outbid(problem, selectors) -> list:
+    """The selectors of the rules that take the underline away from a problem's links with
+    more specificity than one of ``selectors`` (``.meta .tag`` against ``.meta a``): the
+    underline goes on them too, and wins there by coming last."""
+    from tinctura.extract.sheet import compile_one
+
+    ours = [compile_one(s)[0] for s in selectors]
+    weakest = min((c.specificity for c in ours if c is not None), default=None)
+    found = []
+    for f in [problem.worst, *problem.example_pool()]:
+        plain = f.sample.link.undecorated if f.sample.link is not None else ()
+        if plain and weakest is not None and plain[1] > weakest:
+            found.append(_SPACE.sub(" ", plain[0].strip()))
+    return list(dict.fromkeys(found))
 
 
 def _cue_rule(decl) -> bool:

@@ -169,7 +169,8 @@ def _context(walker, link, chain, at):
     for state in ("hover", "focus"):
         states[state] = tuple(sorted(rest | state_cues(walker, link, link_style, state)))
     return LinkCues(surround=tuple(surround), rest=tuple(sorted(rest)), hover=states["hover"],
-                    focus=states["focus"], surround_cause=cause)
+                    focus=states["focus"], surround_cause=cause,
+                    undecorated=walker.cache.cores.get(("link-plain", link_style), ()))
 
 
 def state_cues(walker, link, link_style, state) -> frozenset:
@@ -192,12 +193,25 @@ def state_cues(walker, link, link_style, state) -> frozenset:
     finally:
         unmark_states(marked)
     found = set(cues(winners))
+    if state is None:
+        cache[("link-plain", link_style)] = _undecorated(winners)
     if state == "focus" and not _outline_removed(winners):
         found.add("outline")
     if state is not None:
         found |= _state_background(walker, link, link_style, state)
     got = cache[key] = frozenset(found)
     return got
+
+
+def _undecorated(winners) -> tuple:
+    """``(selector, specificity)`` of the site's rule whose declaration takes the underline
+    away from the link, or () (none does, or it is !important: no fix outbids that)."""
+    w = latest_winner(winners, ("text-decoration", "text-decoration-line"))
+    if w is None or w.rule is None or w.origin != "author" or w.decl.important:
+        return ()
+    if "none" not in w.decl.text.lower().split():
+        return ()
+    return (w.rule.selector_text, w.rule.specificity)
 
 
 def _state_background(walker, link, link_style, state) -> set:
