@@ -5,7 +5,7 @@ stylesheet follows Chromium (common browser practice). Source of truth: headless
 computed ``color`` and ``background-color`` of each control, composited by the test over the
 page's canvas and then the control's background (CSS Compositing and Blending Level 1, simple
 alpha compositing, source-over), against the colours of tinctura's sample of the control's
-text (a button's label, an input's value). Found on MkDocs sites themed by mkdocs-bootswatch,
+text (a button's label, an input's value, a text area's text, a drop-down's selected option). Found on MkDocs sites themed by mkdocs-bootswatch,
 whose disabled buttons tinctura drew in grey on grey (#808080 on #efefef) where Chromium draws
 translucent ink (#b4b4b4 on #fafafa on white).
 """
@@ -25,9 +25,13 @@ CONTROLS = """<!doctype html><html><head><meta charset="utf-8"><title>Gate contr
 <input id="reset" type="reset" value="Clear" disabled>
 <input id="field" value="Berth 4">
 <input id="locked" value="Berth 9" disabled>
+<textarea id="note">Swell from the west</textarea>
+<textarea id="sealed" disabled>Swell from the east</textarea>
+<select id="pier"><option>North pier</option><option selected>South pier</option></select>
+<select id="shut" disabled><option>East pier</option></select>
 </form></body></html>"""
 DARK = "<style>:root { color-scheme: dark; }</style>"
-IDS = ("open", "close", "submit", "reset", "field", "locked")
+IDS = ("open", "close", "submit", "reset", "field", "locked", "note", "sealed", "pier", "shut")
 
 
 def _over(top, under):
@@ -78,12 +82,16 @@ CANVAS = {"light.html": (1.0, 1.0, 1.0), "dark.html": (18 / 255, 18 / 255, 18 / 
 def test_controls_are_coloured_as_chromium_colours_them(pages, page):
     chromium, ours = pages
     steps = {"open": "button[1]", "close": "button[2]", "submit": "input[1]",
-             "reset": "input[2]", "field": "input[3]", "locked": "input[4]"}
+             "reset": "input[2]", "field": "input[3]", "locked": "input[4]",
+             "note": "textarea[1]", "sealed": "textarea[2]", "pier": "select[1]",
+             "shut": "select[2]"}
     for ident in IDS:
         colour, background = (_rgba(v) for v in chromium[page][ident])
         bg = _over(background, CANVAS[page])
         fg = _over(colour, bg)
         sample = ours[(page, steps[ident])]
+        if ident == "pier":  # a closed drop-down shows its selected option
+            assert sample.text == "South pier"
         expected = (to_hex(fg), to_hex(bg))
         got = (to_hex(sample.fg), to_hex(sample.bg))
         assert _near(got[0], expected[0]) and _near(got[1], expected[1]), (page, ident, got,

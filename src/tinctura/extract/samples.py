@@ -27,6 +27,7 @@ from .sheet import mark_states, parse_declarations, unmark_states
 from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
 
+FIELDS = frozenset({"input", "textarea", "select"})  # their value is text, not their content
 NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
                      "select", "option", "optgroup", "iframe", "object", "canvas", "video",
                      "audio", "img", "input", "br", "wbr", "math"})
@@ -382,7 +383,7 @@ class PageWalker:
                     text = text_of(el)
                 if text:
                     texts[el] = text
-            if text or style.generated or tag == "input":  # most elements show nothing
+            if text or style.generated or tag in FIELDS:  # most elements show nothing
                 self._texts(el, tag, style, chain, key_id, text)
             if tag in nontext_mod.TAGS:  # SC 1.4.11: boundaries, focus rings, icons
                 nontext_mod.emit(self, el, tag, style, chain)
@@ -523,7 +524,13 @@ class PageWalker:
     # -- samples ---------------------------------------------------------------------------
     def _texts(self, el, tag, style, chain, key_id, text):
         """The samples of ``el``: generated content, form values, its own ``text``."""
-        if tag == "textarea" or tag == "select":
+        if tag == "textarea":  # its text is its value (placeholder when empty)
+            self._field(el, style, chain, key_id, el.text or "")
+            return
+        if tag == "select":
+            shown = _shown_option(el)
+            if shown:
+                self._emit(el, style, chain, shown, "value", ("value", key_id))
             return
         for pseudo, ps, content in style.generated:
             self._emit(el, ps, chain + ((None, ps),), content, "generated",
@@ -535,18 +542,7 @@ class PageWalker:
                 if label.strip():
                     self._emit(el, style, chain, label, "value", ("value", key_id))
             elif itype in ("text", "search", "email", "url", "tel", "number", "password"):
-                value = el.get("value")
-                if value:
-                    self._emit(el, style, chain, value, "value", ("value", key_id))
-                elif el.get("placeholder") and style.pseudo and "placeholder" in style.pseudo:
-                    ps = style.pseudo["placeholder"]
-                    self._emit(el, ps, chain + ((None, ps),), el.get("placeholder"),
-                               "placeholder", ("placeholder", key_id), "::placeholder")
-                elif el.get("placeholder"):
-                    ps = self.resolver.compute({}, style, False)
-                    ps.color = parse_color("GrayText", scheme=style.scheme)
-                    self._emit(el, ps, chain + ((None, ps),), el.get("placeholder"),
-                               "placeholder", ("placeholder-ua", key_id), "::placeholder")
+                self._field(el, style, chain, key_id, el.get("value") or "")
             return
         if not text:
             return
@@ -564,6 +560,22 @@ class PageWalker:
                        shapes=shapes)
             return
         self._emit(el, style, chain, text, "text", ("text", key_id))
+
+    def _field(self, el, style, chain, key_id, value: str) -> None:
+        """A text field's value, or its placeholder when it is empty (a blank value shows
+        neither)."""
+        if value:
+            if value.strip():
+                self._emit(el, style, chain, value, "value", ("value", key_id))
+        elif el.get("placeholder") and style.pseudo and "placeholder" in style.pseudo:
+            ps = style.pseudo["placeholder"]
+            self._emit(el, ps, chain + ((None, ps),), el.get("placeholder"),
+                       "placeholder", ("placeholder", key_id), "::placeholder")
+        elif el.get("placeholder"):
+            ps = self.resolver.compute({}, style, False)
+            ps.color = parse_color("GrayText", scheme=style.scheme)
+            self._emit(el, ps, chain + ((None, ps),), el.get("placeholder"),
+                       "placeholder", ("placeholder-ua", key_id), "::placeholder")
 
     def _marker(self, el, style, chain, key_id):
         """A numbered list item's marker is text ("3."); bullets are symbols and are not."""
@@ -812,6 +824,23 @@ def _path_at(chain, at, getpath):
         return ""
     el = chain[at][0]
     return getpath(el) if el is not None else ""
+
+
+def _shown_option(select) -> str:
+    """The text a closed drop-down ``select`` shows: its selected option's (the last marked
+    selected), else its first option's (HTML Living Standard, the select element's selectedness
+    setting algorithm); a list box (``multiple`` or ``size`` above 1) shows its options as a
+    list, which is left unchecked here."""
+    size = (select.get("size") or "").strip()
+    if select.get("multiple") is not None or (size.isdigit() and int(size) > 1):
+        return ""
+    options = [o for o in select.iter("option")]
+    if not options:
+        return ""
+    chosen = [o for o in options if o.get("selected") is not None]
+    shown = chosen[-1] if chosen else options[0]
+    label = shown.get("label")
+    return " ".join((label if label else "".join(shown.itertext())).split())
 
 
 def _svg_root(el):
