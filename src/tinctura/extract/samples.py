@@ -834,7 +834,7 @@ def _shown_option(select) -> str:
     size = (select.get("size") or "").strip()
     if select.get("multiple") is not None or (size.isdigit() and int(size) > 1):
         return ""
-    options = [o for o in select.iter("option")]
+    options = list(select.iter("option"))
     if not options:
         return ""
     chosen = [o for o in options if o.get("selected") is not None]
