@@ -341,9 +341,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if self.command == "serve":  # what the next build of this session compares with
             self.previous = {problems.problem_key(p.worst): m.message(p.worst) if
                              is_appearance(p.worst) else plain.sentence(p) for p in found}
-        for d in [d for page in pages for d in page.diagnostics] + gate_notes:
-            at = f"{d.path}:{d.line}" if d.line else d.path
-            (log.warning if d.severity == "error" else log.info)(f"{at}: {d.message}")
+        for d, elsewhere in m.grouped_diagnostics(
+                [d for page in pages for d in page.diagnostics] + gate_notes):
+            (log.warning if d.severity == "error" else log.info)(
+                m.diagnostic_line(d, elsewhere, severity=False))
         header = Header(level=self.config.level, schemes=schemes, fail_on=self.config.fail_on,
                         rules=self.options.rules, source=self.source_of, uri=self.built_uri,
                         gone=gate.gone(), version=plugin_version(), locate=aid,

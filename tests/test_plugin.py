@@ -216,6 +216,21 @@ def test_clean_site_builds_in_strict_mode(tmp_path, caplog):
 
 
 @slow
+def test_a_remote_stylesheet_of_every_page_is_logged_once(tmp_path, caplog):
+    project = make_project(tmp_path, plugin_options={"fail_on": "never"})
+    yml = project / "mkdocs.yml"
+    yml.write_text(yml.read_text().replace(
+        "extra_css: [site.css]", "extra_css: [site.css, 'https://fonts.example.net/fern.css']"))
+    caplog.set_level(logging.INFO)
+    build(configure(project))
+    remote = [line for line in messages(caplog, logging.INFO) if "fern.css" in line]
+    assert len(remote) == 1, remote  # three pages link it
+    assert remote[0].endswith("remote stylesheet not loaded (tinctura never fetches from the "
+                              "network); the same on 2 more pages (index.html, "
+                              "lending/index.html)")
+
+
+@slow
 def test_exclude_globs_on_source_paths(tmp_path, caplog):
     project = make_project(tmp_path, {"exclude": '["lending.md", "drafts/*.md"]'})
     build(configure(project, strict=True))

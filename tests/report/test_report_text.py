@@ -162,6 +162,22 @@ def test_summary_counts_skipped_exempt_and_diagnostics():
     ])
 
 
+def test_a_diagnostic_met_on_every_page_is_listed_once():
+    # a theme links the same remote stylesheet from every page: one line, the other pages named
+    remote = "https://fonts.example.net/dune.css: remote stylesheet not loaded"
+    diagnostics = [Diagnostic(f"guide/p{i}.html", remote, line=7) for i in range(6)]
+    diagnostics.append(Diagnostic("guide/p2.html", "cannot read page: gone", severity="error"))
+    text, summary = report(site_samples(), diagnostics=diagnostics)
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "Not everything could be checked:",
+        f"  guide/p0.html:7: warning: {remote}; the same on 5 more pages (guide/p1.html, "
+        "guide/p2.html, guide/p3.html, and 2 more)",
+        "  guide/p2.html: error: cannot read page: gone",
+        "Checked *; 7 diagnostics.",
+    ])
+    assert text.count("remote stylesheet not loaded") == 1
+
+
 def test_schemes_are_named_only_when_there_are_several():
     one, _ = report(site_samples())
     assert "scheme" not in one

@@ -458,8 +458,8 @@ class HtmlFormatter(Formatter):
             parts.append(table("Elements not rendered, so not checked", ("Why", "#Elements"),
                                [row(e(k), v) for k, v in s.skipped.items()]))
         if self.diagnostics:
-            items = "".join(f"<li>{e(d.path)}{':' + str(d.line) if d.line else ''}: "
-                            f"{e(d.severity)}: {e(d.message)}</li>" for d in self.diagnostics)
+            items = "".join(f"<li>{e(m.diagnostic_line(d, elsewhere))}</li>"
+                            for d, elsewhere in m.grouped_diagnostics(self.diagnostics))
             parts.append(f"<h3>What the check could not read or model</h3><ul>{items}</ul>")
         return section("not-judged", "Not judged, and why", *parts)
 

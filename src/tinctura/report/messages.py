@@ -216,3 +216,32 @@ def not_verified(override) -> str:
                 + ", ".join(named))
     return ("the check still fails with it; the cause may be opacity or a rule this override "
             "does not beat")
+
+
+def grouped_diagnostics(diagnostics) -> list:
+    """``(diagnostic, where else)`` for a human-read list: a diagnostic whose severity and
+    message recur on other pages (a theme's remote stylesheet, linked from every page) is
+    listed once, at its first place, with the other pages' paths (``diagnostic_line``). The
+    JSON, SARIF and CSV reports keep every one."""
+    firsts, others = {}, {}
+    for d in diagnostics:
+        key = (d.severity, d.message)
+        if key in firsts:
+            if d.path != firsts[key].path:
+                others[key].append(d.path)
+        else:
+            firsts[key], others[key] = d, []
+    return [(d, list(dict.fromkeys(others[key]))) for key, d in firsts.items()]
+
+
+def diagnostic_line(d, elsewhere=(), shown: int = 3, severity: bool = True) -> str:
+    """``path:line: severity: message`` (without the severity: ``severity`` False, for a log
+    that shows it as its level), then the other pages it recurs on (a few named)."""
+    at = f"{d.path}:{d.line}" if d.line else d.path
+    line = f"{at}: {d.severity}: {d.message}" if severity else f"{at}: {d.message}"
+    if elsewhere:
+        named = ", ".join(elsewhere[:shown])
+        more = len(elsewhere) - shown
+        line += (f"; the same on {plural(len(elsewhere), 'more page')} ({named}"
+                 f"{f', and {more} more' if more > 0 else ''})")
+    return line

@@ -155,9 +155,8 @@ class TextFormatter(Formatter):
             tw.line("No contrast findings.", "green", "bold")
         if self.diagnostics:
             tw.line("Not everything could be checked:", "yellow")
-            for d in self.diagnostics:
-                at = f"{d.path}:{d.line}" if d.line else d.path
-                tw.line(f"  {at}: {d.severity}: {d.message}")
+            for d, elsewhere in m.grouped_diagnostics(self.diagnostics):
+                tw.line("  " + m.diagnostic_line(d, elsewhere))
         tw.line(summary_line(summary, self.header))
         tw.line()
         for line in textwrap.wrap(DISCLAIMER, min(self.width, WIDTH)):
