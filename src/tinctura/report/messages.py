@@ -222,7 +222,7 @@ def grouped_diagnostics(diagnostics) -> list:
     """``(diagnostic, where else)`` for a human-read list: a diagnostic whose severity and
     message recur on other pages (a theme's remote stylesheet, linked from every page) is
     listed once, at its first place, with the other pages' paths (``diagnostic_line``). The
-    JSON, SARIF and CSV reports keep every one."""
+    JSON and SARIF reports keep every one."""
     firsts, others = {}, {}
     for d in diagnostics:
         key = (d.severity, d.message)
