@@ -151,6 +151,23 @@ def test_read_inside_refuses_fifos_and_large_files(tmp_path):
         bounds.read_inside(str(tmp_path / "big.css"), str(tmp_path), max_bytes=100)
 
 
+def test_a_file_that_grows_after_its_size_was_read_is_read_whole_or_refused(tmp_path,
+                                                                            monkeypatch):
+    (tmp_path / "grown.css").write_bytes(b"p{}" * 100)  # 300 bytes, stated as 30
+    real_stat = os.stat
+
+    def stale(path, *args, **kwargs):
+        info = real_stat(path, *args, **kwargs)
+        if str(path).endswith("grown.css"):
+            return os.stat_result((info.st_mode, *info[1:6], 30, *info[7:]))
+        return info
+
+    monkeypatch.setattr(bounds.os, "stat", stale)
+    assert bounds.read_inside(str(tmp_path / "grown.css"), str(tmp_path)) == b"p{}" * 100
+    with pytest.raises(bounds.Refused, match="larger than the limit of 100 bytes"):
+        bounds.read_inside(str(tmp_path / "grown.css"), str(tmp_path), max_bytes=100)
+
+
 # -- nothing silently lost ---------------------------------------------------------------------
 
 def test_deep_nesting_keeps_the_deep_and_the_following_text(tmp_path):

@@ -66,7 +66,10 @@ def read_inside(path: str, root_real: str, max_bytes: int = MAX_FILE_BYTES) -> b
     if info.st_size > max_bytes:
         raise Refused(too_large(info.st_size, max_bytes))
     with open(real, "rb") as fh:
-        data = fh.read(max_bytes + 1)  # the file may have grown since
+        # as large as the file (asking for max_bytes would allocate that much each time)
+        data = fh.read(info.st_size + 1)
+        if len(data) > info.st_size:  # it has grown since: on, up to the limit
+            data += fh.read(max_bytes + 1 - len(data))
     if len(data) > max_bytes:
         raise Refused(too_large(len(data), max_bytes))
     return data
