@@ -77,6 +77,22 @@ def test_redirect_pages_are_skipped(tmp_path):
     assert report.pages[0].samples == [] and report.pages[0].skipped == {"redirect page": 1}
 
 
+def test_a_theme_template_copied_into_the_site_is_not_a_page(tmp_path):
+    # a theme's Jinja macros, shipped among its static files (pydata-sphinx-theme's
+    # _static/webpack-macros.html); a page about Jinja shows the same syntax in its text
+    (tmp_path / "macros.html").write_text(
+        "{% macro head() %}\n<link href=\"{{ pathto('_static/theme.css', 1) }}\" "
+        "rel=\"stylesheet\">\n{% endmacro %}\n")
+    (tmp_path / "jinja.html").write_text(
+        "<!doctype html><html><head><title>Macros</title></head><body>"
+        "<pre><code>{% macro head() %}&lt;link href=\"{{ url }}\"&gt;</code></pre></body></html>")
+    report = check_paths([str(tmp_path)], Options(jobs=1))
+    pages = {p.page: p for p in report.pages}
+    assert pages["macros.html"].samples == [] and pages["macros.html"].diagnostics == []
+    assert pages["macros.html"].skipped == {"unrendered template": 1}
+    assert pages["jinja.html"].samples and "unrendered template" not in pages["jinja.html"].skipped
+
+
 def test_trace_names_the_custom_property_chain(site):
     t = trace(str(site), "p1/index.html", "page 1")
     sample = t.schemes[0].samples[0]

@@ -159,6 +159,9 @@ class Site:
                 raise bounds.Refused(refused)
             text = decode(html) if isinstance(html, bytes) else html  # behaviours read it too
             root = parse_html(text)
+            if _unrendered_template(root, text):
+                result.skipped["unrendered template"] = 1
+                return result
             for line, message in parser_warnings():
                 result.diagnostics.append(Diagnostic(rel, message, line=line))
             refused = _too_many_elements(root, data, self.options.max_elements)
@@ -315,6 +318,16 @@ def _forget(fingerprints: dict, elements) -> None:
         fingerprints.pop(el, None)
         for up in el.iterancestors():
             fingerprints.pop(up, None)
+
+
+def _unrendered_template(root, text: str) -> bool:
+    """A theme's template copied into the site as it is (pydata-sphinx-theme's
+    ``_static/webpack-macros.html``), not a page: its links' addresses still hold template
+    syntax, which no rendered page's do."""
+    if "{{" not in text and "{%" not in text:
+        return False
+    return any("{{" in href or "{%" in href
+               for href in (link.get("href") or "" for link in root.iter("link")))
 
 
 def _is_redirect(data: bytes) -> bool:

@@ -88,6 +88,17 @@ def test_token_level_substitution_in_colour_function(render):
     assert hexes(light(s, "t"))[0] == "#008000"
 
 
+def test_generated_content_from_a_custom_property(render):
+    # Custom Properties 1: var() substitutes in any property, `content` too (a theme's icon
+    # glyphs set per admonition kind, as pydata-sphinx-theme does); an unknown one makes the
+    # declaration invalid at computed-value time, and ::before then shows nothing
+    css = (':root{--mark:"Tide: "} .note::before{content:var(--mark);color:#224466}'
+           ".none::before{content:var(--missing);color:#224466}")
+    s = render('<p class="note">high</p><p class="none">low</p>', css)
+    assert hexes(light(s, "Tide:"))[0] == "#224466"
+    assert [k for k in s if k[2] not in ("high", "low", "Tide:")] == []
+
+
 def test_keywords_inherit_initial_unset(render):
     # Cascade 5, 7.3: initial resets color to canvastext's initial (black in CSS 2 terms:
     # the initial value of color is CanvasText), unset inherits for inherited properties

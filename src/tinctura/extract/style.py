@@ -488,8 +488,8 @@ class Resolver:
             s.list_style = "disc"
         s.visually_hidden = self._visually_hidden(keyword, s)
         kind, w = keyword("content")
-        if kind == "value":
-            s.content = w.decl.tokens
+        if kind == "value":  # a theme's icon glyph may come from a custom property
+            s.content = self.value(w, s)[0] if _has_var(w.decl.tokens) else w.decl.tokens
         return s
 
     def _font(self, kw, s, part, inherited, initial, parse):
