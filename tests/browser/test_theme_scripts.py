@@ -277,3 +277,80 @@ def test_material_script_links_content_tab_labels(tmp_path):
         assert path.endswith("/label[1]/a") or path.endswith("/label[2]/a"), path
         assert ours[text].xpath == path
         assert _close(fg, to_hex(ours[text].fg_raw[:3])), (text, fg)
+
+
+def _sphinx(tmp_path, theme: str):
+    """tests/data/sphinx_site built with ``theme``."""
+    from pathlib import Path
+
+    pytest.importorskip("sphinx")
+    pytest.importorskip(theme)
+    source = Path(__file__).resolve().parents[1] / "data" / "sphinx_site"
+    out = tmp_path / theme
+    subprocess.run([sys.executable, "-m", "sphinx", "-q", "-b", "html", "-D",
+                    f"html_theme={theme}", str(source), str(out)], check=True)
+    return out
+
+
+# XPaths of the table-of-contents entries a scroll spy marked as the section in view (class
+# "active" in a nav or aside: pydata-sphinx-theme; "scroll-current": Furo), written as lxml's
+# getpath writes them (a position only among several siblings of the same tag)
+_ACTIVE_XPATHS = """
+const path = el => {
+  const steps = [];
+  for (; el && el.nodeType === 1; el = el.parentElement) {
+    const tag = el.tagName.toLowerCase();
+    const same = el.parentElement ? Array.from(el.parentElement.children)
+      .filter(c => c.tagName === el.tagName) : [el];
+    steps.unshift(same.length > 1 ? `${tag}[${same.indexOf(el) + 1}]` : tag);
+  }
+  return '/' + steps.join('/');
+};
+return Array.from(document.querySelectorAll('nav .active, aside .active, .scroll-current'))
+  .map(path);
+"""
+
+
+@pytest.mark.parametrize("theme", ["furo", "pydata_sphinx_theme"])
+def test_sphinx_themes_scripts_set_data_theme_where_tinctura_sets_it(tmp_path, theme):
+    """A theme's script gives the reader's preference to a data-theme attribute (Furo's on
+    <body>, pydata-sphinx-theme's on <html>; the latter's stylesheets also carry Bootstrap's
+    data-bs-theme selectors, which its script never uses). With the script running in Chromium and the preference emulated,
+    the colours it paints are the ones tinctura finds in the scheme of that name."""
+    site = _sphinx(tmp_path, theme)
+    result = Site(str(site), Options(states=False, theme_behaviours=False)).check_page(
+        "index.html")
+    ours = {s.name: s for s in result.schemes}
+    assert set(ours) == {"light", "dark"}
+    mine = {(s.scheme, s.xpath): s for s in result.samples}
+    with ref.serve(site) as base, ref.browser(scripts=True) as driver:
+        for media in ("light", "dark"):
+            driver.execute_cdp_cmd("Emulation.setEmulatedMedia", {"features": [
+                {"name": "prefers-color-scheme", "value": media}]})
+            driver.get(base + "index.html")
+            time.sleep(0.5)
+            holders = driver.execute_script(
+                "return [document.documentElement.getAttribute('data-theme'),"
+                " document.body.getAttribute('data-theme')]")
+            set_on = {"html": holders[0], "body": holders[1]}
+            # (Furo's script writes "auto" and leaves the preference to its media queries)
+            (element, attribute, value), = ours[media].attributes
+            assert (attribute, value) == ("data-theme", media)
+            assert set_on[element] in (media, "auto"), (holders, element)
+            samples, _ = ref.collect_current(driver, states=())
+            # the themes' scroll spies mark the section in view in the page's table of
+            # contents: a change of their scripts' that tinctura does not model
+            scrolled = set(driver.execute_script(_ACTIVE_XPATHS))
+            compared = disagree = 0
+            for s in samples:
+                if s["status"] != "determined" or s.get("pseudo") or \
+                        any(s["xpath"].startswith(x) for x in scrolled):
+                    continue
+                found = mine.get((media, s["xpath"]))
+                if found is None or found.status != "determined":
+                    continue
+                compared += 1
+                if not (_close(to_hex(found.fg), s["fg"], 1) and
+                        _close(to_hex(found.bg), s["bg"], 1)):
+                    disagree += 1
+            assert compared >= 20 and disagree <= 0.01 * compared, (media, compared, disagree)

@@ -160,6 +160,22 @@ def test_prefers_color_scheme_makes_two_schemes(render):
     assert hexes(s[("dark", "rest", "t")]) == ("#eeeeee", "#000000")
 
 
+def test_a_data_theme_attribute_goes_where_the_selectors_look_for_it(render):
+    # A theme's script sets data-theme from the reader's preference: on <html> where its
+    # selectors say html[data-theme=...] (pydata-sphinx-theme, whose Bootstrap stylesheet also
+    # holds [data-bs-theme] selectors its script never serves), on <body> where they say
+    # body[data-theme=...] (Furo); tests/browser/test_theme_scripts.py runs both scripts
+    css = ("p{color:#111111} html[data-theme=dark] p{color:#eeeeee}"
+           "[data-bs-theme=dark]{--bs-body-color:#dee2e6}")
+    s = render('<p>t</p>', css)
+    assert hexes(s[("dark", "rest", "t")])[0] == "#eeeeee"
+    assert [sch.attributes for sch in render.result.schemes] == [
+        (("html", "data-theme", "light"),), (("html", "data-theme", "dark"),)]
+    s = render('<p>t</p>', "p{color:#111111} body[data-theme=dark] p{color:#eeeeee}")
+    assert hexes(s[("dark", "rest", "t")])[0] == "#eeeeee"
+    assert render.result.schemes[1].attributes == (("body", "data-theme", "dark"),)
+
+
 def test_light_dark_follows_color_scheme(render):
     # CSS Color 5, light-dark(): the used colour scheme picks the branch
     css = ":root{color-scheme:light dark} p{color:light-dark(#101010,#f0f0f0)}"

@@ -16,6 +16,8 @@ from ..model import LIGHT, Scheme
 from .behaviours import select, selector_check
 
 _PREFERS = re.compile(r"prefers-color-scheme\s*:\s*(light|dark)", re.I)
+_ON_HTML = re.compile(r"(?:^|[\s,(])(?:html|:root)\[data-theme\b", re.I)
+_ON_BODY = re.compile(r"(?:^|[\s,(>+~])body\[data-theme\b", re.I)
 
 
 def discover(root, ruleset) -> list:
@@ -24,13 +26,20 @@ def discover(root, ruleset) -> list:
         return palette
     facts = ruleset.scheme_facts  # worked out once per rule set, not per page
     html = root
-    if html.get("data-bs-theme") is not None or facts.data_bs_theme:
+    # an attribute the page carries decides; else the theme's own data-theme selectors come
+    # before Bootstrap's data-bs-theme ones, which a theme built on Bootstrap may carry unused
+    # (pydata-sphinx-theme's script sets data-theme on <html>, never data-bs-theme)
+    if html.get("data-bs-theme") is not None or (facts.data_bs_theme and not facts.data_theme):
         return [Scheme(n, (("prefers-color-scheme", n),), (("html", "data-bs-theme", n),),
                        "data-bs-theme") for n in ("light", "dark")]
     if facts.data_theme:
-        holder = "body" if root.find("body") is not None and \
-            root.find("body").get("data-theme") is not None else (
-                "html" if html.get("data-theme") is not None else "body")
+        body = root.find("body")
+        if body is not None and body.get("data-theme") is not None:
+            holder = "body"
+        elif html.get("data-theme") is not None:
+            holder = "html"
+        else:  # set by the theme's script: where its selectors look for it
+            holder = facts.data_theme_holder
         return [Scheme(n, (("prefers-color-scheme", n),), ((holder, "data-theme", n),),
                        "data-theme") for n in ("light", "dark")]
     if facts.media or facts.light_dark:
@@ -47,6 +56,10 @@ class SchemeFacts:
         selectors = " ".join(r.selector_text for r in author)
         self.data_bs_theme = "data-bs-theme" in selectors
         self.data_theme = "data-theme" in selectors
+        # the element a theme's script gives data-theme to, as its selectors name it
+        # (pydata-sphinx-theme: html[data-theme=dark]; Furo: body[data-theme=dark])
+        self.data_theme_holder = "html" if _ON_HTML.search(selectors) and \
+            not _ON_BODY.search(selectors) else "body"
         self.media = any(any("prefers-color-scheme" in m for m in r.media) for r in rules)
         self.light_dark = any("light-dark(" in d.text.lower() for r in author for d in r.decls)
 
