@@ -167,15 +167,17 @@ def test_a_diagnostic_met_on_every_page_is_listed_once():
     remote = "https://fonts.example.net/dune.css: remote stylesheet not loaded"
     diagnostics = [Diagnostic(f"guide/p{i}.html", remote, line=7) for i in range(6)]
     diagnostics.append(Diagnostic("guide/p2.html", "cannot read page: gone", severity="error"))
+    diagnostics.append(Diagnostic("guide/p0.html", remote, line=9))  # the same file: listed
     text, summary = report(site_samples(), diagnostics=diagnostics)
     pytest.LineMatcher(text.splitlines()).fnmatch_lines([
         "Not everything could be checked:",
         f"  guide/p0.html:7: warning: {remote}; the same on 5 more pages (guide/p1.html, "
         "guide/p2.html, guide/p3.html, and 2 more)",
         "  guide/p2.html: error: cannot read page: gone",
-        "Checked *; 7 diagnostics.",
+        f"  guide/p0.html:9: warning: {remote}",
+        "Checked *; 8 diagnostics.",
     ])
-    assert text.count("remote stylesheet not loaded") == 1
+    assert text.count("remote stylesheet not loaded") == 2
 
 
 def test_schemes_are_named_only_when_there_are_several():

@@ -221,17 +221,19 @@ def not_verified(override) -> str:
 def grouped_diagnostics(diagnostics) -> list:
     """``(diagnostic, where else)`` for a human-read list: a diagnostic whose severity and
     message recur on other pages (a theme's remote stylesheet, linked from every page) is
-    listed once, at its first place, with the other pages' paths (``diagnostic_line``). The
-    JSON and SARIF reports keep every one."""
-    firsts, others = {}, {}
+    listed once, at its first place, with the other pages' paths (``diagnostic_line``); its
+    other places in the same file stay listed. The JSON and SARIF reports keep every one."""
+    out, firsts = [], {}
     for d in diagnostics:
         key = (d.severity, d.message)
-        if key in firsts:
-            if d.path != firsts[key].path:
-                others[key].append(d.path)
-        else:
-            firsts[key], others[key] = d, []
-    return [(d, list(dict.fromkeys(others[key]))) for key, d in firsts.items()]
+        first = firsts.get(key)
+        if first is None or first[0].path == d.path:
+            entry = (d, [])
+            out.append(entry)
+            firsts.setdefault(key, entry)
+        elif d.path not in first[1]:
+            first[1].append(d.path)
+    return out
 
 
 def diagnostic_line(d, elsewhere=(), shown: int = 3, severity: bool = True) -> str:
