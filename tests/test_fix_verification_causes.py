@@ -89,6 +89,37 @@ def test_an_underline_goes_where_it_beats_the_rule_that_removes_it(tmp_path):
     assert fixes["TC120"]["verified"] is True
 
 
+# a focus ring #cccccc on white: 1.6:1, below 3:1 (WCAG 2.2 SC 1.4.11); the fix may change
+# only its colour: `outline: #xxxxxx` would also reset its style to none, removing the ring
+RING_CSS = """body { color: #202020; background: #ffffff; }
+a { color: #1a4d8f; }
+a:focus-visible { outline: 3px solid #cccccc; }
+"""
+RING = '<p>Board at the <a href="../p1/">north ramp</a>.</p>'
+
+
+def test_a_shorthand_outline_is_fixed_by_its_colour_alone(tmp_path):
+    site = _site(tmp_path, RING_CSS, RING)
+    out = io.StringIO()
+    main(["check", str(site), "--jobs", "1", "--fail-on", "never", "--select", "TC110",
+          "--color", "never"], stdout=out, stderr=io.StringIO())
+    # the writer's own declaration: its value with the new colour, width and style kept
+    assert re.search(r"set `outline` at site\.css:3:\d+ to `3px solid #[0-9a-f]{6}`",
+                     out.getvalue()), out.getvalue()
+    # a theme's (a minified asset): its colour alone, in the writer's stylesheet
+    for n in range(2):
+        page = site / f"p{n}" / "index.html"
+        page.write_text(page.read_text().replace("../site.css", "../assets/theme.min.css"))
+    (site / "assets").mkdir()
+    (site / "assets" / "theme.min.css").write_text(RING_CSS.replace("\n", " "))
+    out = io.StringIO()
+    main(["check", str(site), "--format", "json", "--jobs", "1", "--no-states", "--fail-on",
+          "never", "--select", "TC110"], stdout=out, stderr=io.StringIO())
+    problem, = json.loads(out.getvalue())["problems"]
+    own = problem["fix_at_cause"]["own_css"]["css"]  # (advice: TC110 gets no checked override)
+    assert re.search(r"a:focus-visible \{\s*outline-color: #[0-9a-f]{6};\s*\}", own), own
+
+
 # links #6fa8ff on white: 2.4:1, below 4.5:1; against the #3a3a3a text 4.7:1, above 3:1. Any blue
 # of the same hue dark enough for 4.5:1 on white comes within 3:1 of that text.
 LINK_CSS = """:root { --link: #6fa8ff; }

@@ -22,6 +22,7 @@ from tinctura.colour import suggest
 from tinctura.colour.convert import to_hex
 from tinctura.colour.parse import parse_color
 from tinctura.cyclic_gc import no_collections
+from tinctura.extract.values import colour_longhand
 from tinctura.mkdocs_project import owned, sphinx_sheet
 from tinctura.model import REST
 from tinctura.problems import _quantize, faded, target_declaration
@@ -372,7 +373,8 @@ class Planner:
                          scope.media)]
         if decl is None or decl.origin == "inline" or not decl.selector:
             return self._on_element(scope, element_selector, problem.worst, "color", value)
-        declarations = [(decl.property, value, important)]
+        # (a shorthand's colour alone: `outline: #c` would also reset its style to none)
+        declarations = [(colour_longhand(decl.property), value, important)]
         scoped = [self.scoped(scope, one) for one in _matched(problem, decl)]
         declarations += self._aliases(problem.fg_cause, decl, scoped[0])
         return [Rule(", ".join(dict.fromkeys(scoped)), tuple(declarations), scope.media)]

@@ -40,6 +40,21 @@ def test_author_focus_outline(tmp_path):
     assert found(tmp_path, body, css) == [("focus-ring", "p/a[1]")]
 
 
+def test_outline_and_border_colours_from_custom_properties(tmp_path):
+    # Custom Properties 1: var() substitutes in a shorthand too (pydata-sphinx-theme draws its
+    # focus ring as `outline: var(--pst-color-accent) solid .1875rem`); the faint ring and
+    # border fail, the dark ones pass, whatever the links' and fields' own text colour
+    assert ratio("#cccccc", "#ffffff") < 3 <= ratio("#333333", "#ffffff")
+    css = (":root{--ring:#cccccc;--edge:#333333}"
+           "a:focus-visible{outline:var(--ring) solid 3px}a{color:#222}"
+           ".dark a:focus-visible{outline:var(--edge) solid 3px}"
+           "input{border:1px solid var(--ring);color:#222}input.ok{border-color:var(--edge)}")
+    body = ('<p><a href="#">One</a></p><p class="dark"><a href="#">Two</a></p>'
+            '<input value="a"><input class="ok" value="b">')
+    assert found(tmp_path, body, css) == [("boundary", "body/input[1]"),
+                                          ("focus-ring", "p[1]/a")]
+
+
 def test_svg_icons_that_carry_meaning(tmp_path):
     css = ".ico{fill:#c8c8c8}"
     path = '<path d="M0 0h9v9z"/>'

@@ -26,7 +26,7 @@ from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Sample
 from . import exempt as exempt_mod
 from .sheet import mark_states, split_declarations, unmark_states
-from .style import cascade, latest_winner
+from .style import cascade, has_var, latest_winner
 from .values import significant
 
 KINDS = frozenset({"boundary", "focus-ring", "svg-icon"})
@@ -80,8 +80,10 @@ def _winners(walker, el, states=()):
         unmark_states(marked)
 
 
-def _line(winners, shorthand, colour_names, current, scheme):
-    """(colour, whether drawn, the declaration's Cause) of a border or outline, or None."""
+def _line(winners, shorthand, colour_names, current, scheme, tokens_of=None):
+    """(colour, whether drawn, the declaration's Cause) of a border or outline, or None.
+    ``tokens_of(winner)``: its value's tokens with var() substituted (None: invalid)."""
+    tokens_of = tokens_of or (lambda w: w.decl.tokens)
     w = latest_winner(winners, shorthand)
     c = latest_winner(winners, colour_names)
     if w is None and c is None:
@@ -89,7 +91,7 @@ def _line(winners, shorthand, colour_names, current, scheme):
     colour, drawn, cause = current, False, Cause()
     if w is not None:
         cause = Cause(w.provenance())
-        tokens = significant(w.decl.tokens)
+        tokens = significant(tokens_of(w) or ())
         words = {t.lower_value for t in tokens if t.type == "ident"}
         zero = any(t.type in ("number", "dimension") and t.value == 0 for t in tokens)
         drawn = bool(words & LINE_STYLES) and not zero and "none" not in words
@@ -101,11 +103,20 @@ def _line(winners, shorthand, colour_names, current, scheme):
                 if isinstance(parsed, tuple):
                     colour = parsed
     if c is not None and (w is None or c.key > w.key):
-        parsed = parse_color(significant(c.decl.tokens), current=current, scheme=scheme)
+        parsed = parse_color(significant(tokens_of(c) or ()), current=current, scheme=scheme)
         if isinstance(parsed, tuple):
             colour = parsed
         cause = Cause(c.provenance())
     return colour, drawn, cause
+
+
+def _substituted(walker, style):
+    """``tokens_of`` for ``_line``: a value's var()s substituted with the element's custom
+    properties (an outline of ``var(--accent) solid 3px``, as pydata-sphinx-theme draws)."""
+    def tokens_of(winner):
+        tokens = winner.decl.tokens
+        return walker.resolver.value(winner, style)[0] if has_var(tokens) else tokens
+    return tokens_of
 
 
 def _boundary(walker, el, tag, style, chain) -> None:
@@ -114,7 +125,7 @@ def _boundary(walker, el, tag, style, chain) -> None:
     line = cache.get(key)
     if line is None:
         line = cache[key] = (_line(_winners(walker, el), BORDER, BORDER_COLOUR, style.color,
-                                   style.scheme),)
+                                   style.scheme, _substituted(walker, style)),)
     line = line[0]
     author_fill = style.bg_cause is not None and style.bg_cause.declaration is not None and \
         style.bg_cause.declaration.origin != "user-agent"
@@ -137,7 +148,8 @@ def _focus_ring(walker, el, style, chain) -> None:
     got = cache.get(key)
     if got is None:
         winners = _winners(walker, el, FOCUS)
-        line = _line(winners, OUTLINE, OUTLINE_COLOUR, style.color, style.scheme)
+        line = _line(winners, OUTLINE, OUTLINE_COLOUR, style.color, style.scheme,
+                     _substituted(walker, style))
         offset = winners.get("outline-offset")
         inset = offset is not None and offset.decl.text.strip().startswith("-")
         got = cache[key] = (line, inset)

@@ -305,3 +305,39 @@ def background_images(tokens, current, scheme) -> list:
             if kind:
                 images.append(_image(t, kind, current, scheme))
     return images
+
+
+# Shorthands that carry a colour among other parts (CSS Backgrounds 3, CSS UI 4, CSS Text
+# Decoration 3, CSS Multi-column 1): a fix changes the colour alone, for `outline: #c` would
+# reset the outline's style to none and its width to medium, removing it.
+_COLOUR_OF = {"outline": "outline-color", "text-decoration": "text-decoration-color",
+              "column-rule": "column-rule-color", "border": "border-color"}
+_BORDER_SIDES = ("top", "right", "bottom", "left", "block", "inline", "block-start",
+                 "block-end", "inline-start", "inline-end")
+
+
+def colour_longhand(prop: str) -> str:
+    """The property that sets only the colour of ``prop`` (``prop`` itself when it is one)."""
+    if prop in _COLOUR_OF:
+        return _COLOUR_OF[prop]
+    if prop.startswith("border-") and prop[7:] in _BORDER_SIDES:
+        return prop + "-color"
+    return prop
+
+
+def with_colour(prop: str, value: str, colour: str) -> str:
+    """``value`` of ``prop`` with ``colour`` in place of its colour: the colour alone for a
+    colour property, a shorthand's other parts kept (`3px solid #cccccc` -> `3px solid
+    #949494`; a shorthand with no colour gets it added)."""
+    if colour_longhand(prop) == prop:
+        return colour
+    parts, done = [], False
+    for t in tinycss2.parse_component_value_list(value):
+        if not done and t.type != "whitespace" and \
+                isinstance(parse_color([t], current=(0, 0, 0, 1)), tuple):
+            parts.append(colour)
+            done = True
+        else:
+            parts.append(t.serialize())
+    text = "".join(parts).strip()
+    return text if done else f"{text} {colour}"

@@ -5,6 +5,7 @@ import shutil
 import textwrap
 
 from tinctura.colour import suggest
+from tinctura.extract.values import colour_longhand, with_colour
 from tinctura.overrides import faded
 from tinctura.situations import slot
 
@@ -203,13 +204,16 @@ def cause_fix_lines(fix, need: str | None = None) -> list:
         # (no declaration to change: the text has the initial colour, or one not traced)
         target = "give the text the colour" if d is None else \
             f"set `{d.property}` at {fix.shown or d.where()} to"
+        value = m.colour(fix.colour)
+        if d is not None and colour_longhand(d.property) != d.property:  # (its other parts kept)
+            value = f"`{with_colour(d.property, d.value, value)}`"
         reached = f"{m.ratio(fix.ratio)}:1 or more on {on_all}" if need == ratio_needed else \
             f"reaches {need} on {on_all} ({m.ratio(fix.ratio)}:1)"
         settles = fix.settles
         if settles:  # one value for a declaration the advice rules each found a value for
             reached += (f"; it settles problem{'s' if len(settles) > 1 else ''} "
                         f"{', '.join(map(str, settles))} too")
-        return [f"fix at the cause: {target} {m.colour(fix.colour)}: {reached}"] + \
+        return [f"fix at the cause: {target} {value}: {reached}"] + \
             own_css_lines(fix.own_css)
     what = "no single text colour" if d is None else f"no single value of `{d.property}`"
     lines = [f"{what} reaches {need} on {on_all}; one value per group of backgrounds:"]
