@@ -197,6 +197,22 @@ def test_stylesheets_linked_below_the_sites_path_are_the_sites(tmp_path):
     assert WriterAid(str(tmp_path)).sheet_order("404.html") == ["stylesheets/ferry.css"] * 2
 
 
+def test_a_theme_templates_links_name_no_stylesheet(tmp_path):
+    # pydata-sphinx-theme copies its Jinja macros into _static/ (the first page in path order):
+    # their links are no stylesheet a fix could go into
+    (tmp_path / "_static").mkdir()
+    (tmp_path / "_static" / "macros.html").write_text(
+        "{% macro head() %}<link href=\"{{ pathto('_static/theme.css', 1) }}?digest=9\" "
+        "rel=\"stylesheet\">{% endmacro %}")
+    assert WriterAid(str(tmp_path)).sheet_order("_static/macros.html") == []
+    # the fixes' stylesheet is then told by the next page that links any
+    (tmp_path / "_static" / "quay.css").write_text("p { color: #222; }")
+    (tmp_path / "index.html").write_text(
+        '<html><head><link rel="stylesheet" href="_static/quay.css"></head><body></body></html>')
+    assert WriterAid(str(tmp_path))._linked_sheets(["_static/macros.html", "index.html"]) == [
+        "_static/quay.css"]
+
+
 def test_a_colour_an_override_gives_keeps_the_cause_it_replaces():
     # checked with a variable's fix, the link that takes the text's colour fails TC120 as
     # before, its cause now the fix's own value: still the problem it was, not a new one

@@ -120,8 +120,8 @@ class WriterAid:
             if "stylesheet" not in (link.get("rel") or "").lower().split():
                 continue
             href = (link.get("href") or "").split("?")[0].split("#")[0]
-            if not href or "://" in href or href.startswith("//"):
-                continue
+            if not href or "://" in href or href.startswith("//") or "{{" in href or "{%" in href:
+                continue  # (remote, or a theme template's: `{{ pathto('...') }}`)
             # resolved as the check loads them: a site served below a path (its site_url's,
             # `/manual/`) links `/manual/stylesheets/extra.css` for its own
             # `stylesheets/extra.css` (mkdocs-material's 404 page does)
@@ -133,6 +133,15 @@ class WriterAid:
                 out.append(posixpath.normpath(path))
         return out
 
+    def _linked_sheets(self, pages, tried: int = 8) -> list:
+        """``sheet_order`` of the first of ``pages`` that links a stylesheet (the first in path
+        order may link none: a theme's template copied into ``_static/``)."""
+        for page in list(pages)[:tried]:
+            order = self.sheet_order(page)
+            if order:
+                return order
+        return []
+
     # -- overrides -----------------------------------------------------------------------
 
     def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
@@ -140,9 +149,8 @@ class WriterAid:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
         counts. ``loader``, ``cache``, ``helper``: see ``overrides.verify``."""
         self.show_fix_sources(problems)
-        first = pages_with_findings[0] if pages_with_findings else None
         planner = overrides_mod.Planner(schemes, self.project,
-                                        self.sheet_order(first) if first else ())
+                                        self._linked_sheets(pages_with_findings))
         self._options = options
         planner.cue_scopes = self.cue_scopes(problems)
         narrow: frozenset = frozenset()
