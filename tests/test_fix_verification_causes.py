@@ -129,6 +129,17 @@ a { color: var(--link); text-decoration: none; }
 LINKS = '<p>Board at the north ramp, then read <a href="../p1/">the crossing log</a> again.</p>'
 
 
+# as LINKS, the link's words in a span (Sphinx writes cross-references so): the span inherits
+# the link's own colour, which is no block's; the underline goes on the links' rule
+SPAN = LINKS.replace("the crossing log</a>", '<span class="ref">the crossing log</span></a>')
+
+
+def test_text_inside_a_link_inherits_no_blocks_colour(tmp_path):
+    fix = _only_fix(_site(tmp_path, LINK_CSS, SPAN), "TC120")
+    assert fix["css"].split("{")[0].strip() == "a", fix["css"]
+    assert fix["verified"] is True
+
+
 def test_a_fix_whose_colour_makes_a_link_fail_says_so(tmp_path):
     css = LINK_CSS + "a:hover, a:focus { text-decoration-line: underline; }\n"
     fixes = dict(_fixes(_site(tmp_path, css, LINKS), "TC100", "TC120"))

@@ -581,9 +581,16 @@ def _inherited_by_links(problem) -> set:
     found = set()
     for f in [problem.worst, *problem.example_pool()]:
         cause = f.sample.fg_cause
-        if cause is not None and cause.declaration is not None and cause.inherited_from:
+        if cause is not None and cause.declaration is not None and cause.inherited_from \
+                and not _is_link_path(cause.inherited_from):
             found.add(cause.declaration)
     return found
+
+
+def _is_link_path(xpath: str) -> bool:
+    """Whether ``xpath`` names a link (``.../a[2]``): text inside a link (a span in it)
+    inherits the link's own colour, which is no block's."""
+    return xpath.rsplit("/", 1)[-1].split("[")[0].lower() == "a"
 
 
 def _outbid(problem, selectors) -> list:
