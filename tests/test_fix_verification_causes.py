@@ -198,6 +198,23 @@ def test_links_coloured_by_two_rules_are_underlined_on_both(tmp_path):
     assert ".prose a" in selectors and ".tag" in selectors
 
 
+# readthedocs' Sphinx theme: one rule gives the titles of warnings and of to-do notes an orange
+# #f0b37e under white text, 1.83:1; only a darker background reaches 4.5:1 for white
+TITLES_CSS = """body { color: #404040; background: #ffffff; }
+.note-title { color: #ffffff; }
+.warning .note-title, .todo .note-title { background: #f0b37e; }
+"""
+TITLES = ('<div class="warning"><p class="note-title">Warning</p></div>'
+          '<div class="todo"><p class="note-title">To do</p></div>')
+
+
+def test_a_background_override_covers_every_selector_of_the_list_its_texts_matched(tmp_path):
+    fix = _only_fix(_site(tmp_path, TITLES_CSS, TITLES), "TC100")
+    assert fix["css"].split("{")[0].strip() == ".warning .note-title, .todo .note-title"
+    assert "background-color:" in fix["css"]
+    assert fix["verified"] is True
+
+
 def test_stylesheets_linked_below_the_sites_path_are_the_sites(tmp_path):
     # mkdocs-material's 404 page links its stylesheets from the site_url's path
     (tmp_path / "stylesheets").mkdir()

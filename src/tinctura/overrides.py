@@ -423,9 +423,9 @@ class Planner:
         else:
             prop = "background-color" if decl.property == "background" else decl.property
             declarations = [(prop, colour, decl.important)]
-        selector = self.scoped(scope, decl.selector)
-        declarations += self._aliases(bg_cause, decl, selector)
-        return [Rule(selector, tuple(declarations), scope.media)]
+        scoped = [self.scoped(scope, one) for one in _matched(problem, decl, "bg")]
+        declarations += self._aliases(bg_cause, decl, scoped[0])
+        return [Rule(", ".join(dict.fromkeys(scoped)), tuple(declarations), scope.media)]
 
     def _inline_bg(self, problem, scope, worst, decl, element_selector) -> list:
         """A background set by a style attribute whose text colour is set there too (a
@@ -565,13 +565,14 @@ GRADIENT_NOTE = ("the gradient becomes one colour (a gradient from it to itself)
                  "darkening or lightening of each of its stops would serve as well")
 
 
-def _matched(problem, decl) -> list:
+def _matched(problem, decl, side: str = "fg") -> list:
     """The selectors of ``decl``'s rule that the problem's texts matched, ``decl``'s first: a
     finding's declaration names the selector of its list that matched (one rule colours a
-    collapsible note's summary and a note's title alike)."""
+    collapsible note's summary and a note's title alike; another, readthedocs', the titles of
+    warnings and of to-do notes). ``side`` "bg": of the rule that sets their background."""
     where = declaration_key(decl)
     return list(dict.fromkeys([decl.selector] + [
-        d.selector for d in problem.using_declarations("fg")
+        d.selector for d in problem.using_declarations(side)
         if d.selector and declaration_key(d) == where]))
 
 
