@@ -112,12 +112,25 @@ def test_a_shorthand_outline_is_fixed_by_its_colour_alone(tmp_path):
         page.write_text(page.read_text().replace("../site.css", "../assets/theme.min.css"))
     (site / "assets").mkdir()
     (site / "assets" / "theme.min.css").write_text(RING_CSS.replace("\n", " "))
-    out = io.StringIO()
-    main(["check", str(site), "--format", "json", "--jobs", "1", "--no-states", "--fail-on",
-          "never", "--select", "TC110"], stdout=out, stderr=io.StringIO())
-    problem, = json.loads(out.getvalue())["problems"]
-    own = problem["fix_at_cause"]["own_css"]["css"]  # (advice: TC110 gets no checked override)
-    assert re.search(r"a:focus-visible \{\s*outline-color: #[0-9a-f]{6};\s*\}", own), own
+    fix = _only_fix(site, "TC110")
+    assert re.search(r"a:focus-visible \{\s*outline-color: #[0-9a-f]{6};\s*\}", fix["css"]), \
+        fix["css"]
+    assert fix["verified"] is True  # checked again: the ring is still drawn, and passes
+
+
+# one border colour for fields on white and on a #555555 panel: 3:1 against both needs a
+# luminance at least 0.37 (against the panel's 0.09) and at most 0.30 (against white's 1.0), so
+# none exists; the fix must not repaint the panel or the page to make room for one
+FIELDS_CSS = """body { color: #202020; background: #ffffff; }
+.panel { background: #555555; color: #ffffff; padding: 8px; }
+input { border: 1px solid #dddddd; background: #ffffff; color: #202020; }
+"""
+FIELDS = '<p><input value="Berth 4"></p><div class="panel"><input value="Berth 9"></div>'
+
+
+def test_a_graphics_problem_without_one_passing_colour_gets_advice_only(tmp_path):
+    fixes = _fixes(_site(tmp_path, FIELDS_CSS, FIELDS), "TC110")
+    assert fixes and all(rule == "TC110" and fix is None for rule, fix in fixes), fixes
 
 
 # links #6fa8ff on white: 2.4:1, below 4.5:1; against the #3a3a3a text 4.7:1, above 3:1. Any blue

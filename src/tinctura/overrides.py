@@ -185,6 +185,8 @@ class Planner:
             return None  # advice (appearance rules): the colour suggested at the cause only
         if problem.rule in CUE_RULES:
             return self._cue(problem, element_selector)
+        if problem.rule in GRAPHIC_RULES and not _one_line_colour(problem):
+            return None  # advice at the cause only
         if faded(problem.worst):
             if opacity_of is None:
                 return None
@@ -546,7 +548,11 @@ def _first_compound(selector: str):
 # The rules whose problems get a CSS override: the WCAG 2 text ratio. The appearance rules are
 # advice (their problems keep a suggested colour at the cause); overrides for them would compete
 # with the text-ratio overrides for the same properties.
-OVERRIDE_RULES = frozenset({"TC100", "TC120"})
+OVERRIDE_RULES = frozenset({"TC100", "TC110", "TC120"})
+# Rules about graphics and controls (TC110: boundaries, focus rings, icons): overridden only by
+# one colour for the line or glyph that passes everywhere it is used; never by repainting
+# what lies around it (the page, a toolbar), which would change far more than the problem
+GRAPHIC_RULES = frozenset({"TC110"})
 # Rules met by a cue besides colour (TC120: links in running text told apart by colour alone):
 # the override underlines them, the cue readers expect (W3C technique G183, failure F73)
 CUE_RULES = frozenset({"TC120"})
@@ -563,6 +569,15 @@ def _rules_key(planned) -> tuple:
 GRADIENT_PROPS = frozenset({"background", "background-image"})
 GRADIENT_NOTE = ("the gradient becomes one colour (a gradient from it to itself); the same "
                  "darkening or lightening of each of its stops would serve as well")
+
+
+def _one_line_colour(problem) -> bool:
+    """Whether a graphics problem's fix is one colour, for a site's own rule with a selector,
+    that passes on every background it is used on (``fix_at_cause.possible``)."""
+    fix = problem.fix_at_cause
+    decl = target_declaration(problem.fg_cause)
+    return fix is not None and fix.possible and not faded(problem.worst) and \
+        decl is not None and decl.origin == "author" and bool(decl.selector)
 
 
 def _matched(problem, decl, side: str = "fg") -> list:
