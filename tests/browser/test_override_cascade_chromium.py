@@ -1,6 +1,7 @@
 """Fixes as tinctura writes them, cascaded by Chromium: an override that leaves out the elements
 of a rule it would otherwise take over (``a:hover:where(:not(.menu a))``, no specificity
-added by ``:where``) colours the texts Chromium colours with it, and no others.
+added by ``:where``) colours the texts Chromium colours with it, and no others; a focus ring's
+fix by its colour alone (``outline-color``) keeps the ring Chromium draws.
 
 Source of truth: Chromium's computed colours with ``:hover`` forced (chromium_reference.py).
 """
@@ -78,3 +79,37 @@ def test_a_fix_by_style_attribute_cascades_as_in_chromium(tmp_path):
         banded = f"/html/body/p[{n + 2}]/span"
         assert chromium[(f"p{n}/index.html", pasted)] == new
         assert chromium[(f"p{n}/index.html", banded)] == "#222222"
+
+
+def test_a_focus_ring_fix_keeps_the_ring_in_chromium(tmp_path):
+    # a theme's `outline: 3px solid #cccccc` (1.6:1 on white) fixed by its colour alone in the
+    # writer's stylesheet, loaded after the theme's: Chromium still draws the ring, solid and
+    # 3px wide, in the fix's colour, as tinctura's check with the fix applied says
+    import re
+
+    import chromium_reference as ref
+    from test_fix_verification_causes import RING, RING_CSS, _site
+
+    site = _site(tmp_path, RING_CSS, RING)
+    out = tmp_path / "report.json"
+    main(["check", str(site), "--no-config", "--select", "TC110", "--fail-on", "never",
+          "--no-states", "--format", f"json:{out}"], stdout=io.StringIO(), stderr=io.StringIO())
+    (problem,) = json.loads(out.read_text())["problems"]
+    css = problem["fix"]["css"]
+    colour = re.search(r"outline-color: (#[0-9a-f]{6})", css).group(1)
+    (site / "fixes.css").write_text(css)
+    page = site / "p0" / "index.html"
+    page.write_text(page.read_text().replace(
+        '<link rel="stylesheet" href="../site.css">',
+        '<link rel="stylesheet" href="../site.css"><link rel="stylesheet" href="../fixes.css">'))
+    with ref.serve(site) as base, ref.browser() as driver:
+        driver.get(base + "p0/index.html")
+        drawn = driver.execute_script(
+            "const a = document.querySelector('main a'); a.focus();"
+            "const s = getComputedStyle(a);"
+            "return [a.matches(':focus-visible'), s.outlineStyle, s.outlineWidth, s.outlineColor];")
+    hexed = "#" + "".join(f"{int(v):02x}" for v in re.findall(r"\d+", drawn[3])[:3])
+    assert drawn[:3] == [True, "solid", "3px"] and hexed == colour, drawn
+    ring = [s for p in check_paths([str(site)], Options(jobs=1)).pages
+            for s in p.samples if s.kind == "focus-ring" and s.page == "p0/index.html"]
+    assert [to_hex(s.fg) for s in ring] == [colour]
