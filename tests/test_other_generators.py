@@ -1,6 +1,7 @@
 """Sites built by another generator work with no setting: Sphinx with the furo theme, whose
 colour schemes come from a `data-theme` attribute on <body> together with
-prefers-color-scheme media queries."""
+prefers-color-scheme media queries, and with pydata-sphinx-theme, whose come from one on
+<html>."""
 import subprocess
 import sys
 from pathlib import Path
@@ -32,6 +33,11 @@ def test_sphinx_furo_schemes_and_planted_fault(sphinx_site):
     assert [(f.sample.scheme, to_hex(f.sample.fg)) for f in faint if f.sample.scheme == "light"] \
         == [("light", "#aaaaaa")]
     assert not any(d.severity == "error" for p in report.pages for d in p.diagnostics)
+    # once per site: what Furo's script changes on scroll is not checked (its scroll spy; seen
+    # in Chromium, tests/browser/test_theme_scripts.py)
+    notes = [d.message for p in report.pages for d in p.diagnostics if "furo theme" in d.message]
+    assert notes == ["furo theme: the theme's script marks the table-of-contents entry of the "
+                     "section in view; that look is not checked"]
 
 
 def test_sphinx_fixes_go_into_the_writers_stylesheet_not_the_themes(sphinx_site, tmp_path):
@@ -60,3 +66,26 @@ def test_sphinx_fixes_go_into_the_writers_stylesheet_not_the_themes(sphinx_site,
             and (p["fix_at_cause"] or {}).get("declaration", {}).get("sheet") == "_static/lamp.css"]
     assert lamp and not lamp[0]["fix_at_cause"].get("own_css")  # edited in place
     assert "html_css_files" in err.getvalue() and "mkdocs.yml" not in err.getvalue()
+
+
+def test_pydata_sphinx_theme_dark_mode_and_what_its_script_does(tmp_path):
+    # pydata-sphinx-theme's script sets data-theme on <html> (its stylesheets also hold
+    # Bootstrap's unused data-bs-theme selectors): the dark scheme is the theme's dark mode
+    # (tests/browser/test_theme_scripts.py compares it with Chromium running the script)
+    pytest.importorskip("sphinx")
+    pytest.importorskip("pydata_sphinx_theme")
+    out = tmp_path / "pydata"
+    subprocess.run([sys.executable, "-m", "sphinx", "-q", "-b", "html", "-D",
+                    "html_theme=pydata_sphinx_theme", str(SOURCE), str(out)], check=True)
+    report = check_paths([str(out)], Options(jobs=1, states=False))
+    assert [(s.name, s.attributes) for s in report.schemes] == [
+        ("light", (("html", "data-theme", "light"),)), ("dark", (("html", "data-theme", "dark"),))]
+    dark = {to_hex(s.bg) for p in report.pages for s in p.samples if s.scheme == "dark"}
+    assert "#ffffff" not in dark  # (its light look, white, was what "dark" showed before)
+    notes = [d.message for p in report.pages for d in p.diagnostics if "theme:" in d.message]
+    assert notes == ["pydata-sphinx-theme theme: the theme's script marks the table-of-contents "
+                     "entry of the section in view and darkens dropdown menus in the dark "
+                     "scheme; those looks are not checked"]
+    # its Jinja macros, copied into _static/, are no page
+    macros = [p for p in report.pages if p.page == "_static/webpack-macros.html"]
+    assert [p.skipped for p in macros] == [{"unrendered template": 1}]

@@ -234,7 +234,8 @@ class Site:
     def _script_behaviours(self, root, result, source=None) -> None:
         """Apply what the page's theme scripts change before a reader sees it; say once per
         site what those scripts change that tinctura does not model."""
-        for theme in behaviour_mod.apply(root, self._behaviours, source):
+        detected = behaviour_mod.DETECTED if self.options.theme_behaviours else ()
+        for theme in behaviour_mod.apply(root, self._behaviours, source, detected):
             note = behaviour_mod.NOTES_BY_THEME.get(theme)
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)

@@ -79,6 +79,18 @@ BUILTIN = (
               "body.wy-body-for-nav", "js/theme.js", "readthedocs theme js/theme.js"),
 )
 
+# Themes whose scripts change only what is not modelled (below): (theme, marker, script), as
+# a Behaviour's; the page has the theme when both match, and the note is made
+DETECTED = (
+    # Furo's scroll spy (seen in Chromium running _static/scripts/furo.js): the table of
+    # contents entry of the section in view gets the class "scroll-current"
+    ("furo", ".sidebar-drawer", "scripts/furo.js"),
+    # pydata-sphinx-theme's _static/scripts/pydata-sphinx-theme.js: Bootstrap's scroll spy marks
+    # the entry in view "active"; in the dark, `.dropdown-menu` elements get
+    # "dropdown-menu-dark" (`"dark"===n?e.classList.add("dropdown-menu-dark")`)
+    ("pydata-sphinx-theme", ".bd-header", "scripts/pydata-sphinx-theme.js"),
+)
+
 NOT_MODELLED = {
     "mkdocs-material": "the theme's script also marks the current table-of-contents entry on "
                        "scroll and adds buttons (copy, tabs); those are not checked",
@@ -86,6 +98,11 @@ NOT_MODELLED = {
               "those states are not checked",
     "readthedocs": "the theme's script also marks the current navigation entry from the URL "
                    "fragment and adds expand buttons; those are not checked",
+    "furo": "the theme's script marks the table-of-contents entry of the section in view; "
+            "that look is not checked",
+    "pydata-sphinx-theme": "the theme's script marks the table-of-contents entry of the "
+                           "section in view and darkens dropdown menus in the dark scheme; "
+                           "those looks are not checked",
 }
 
 
@@ -126,8 +143,9 @@ def from_setting(entries) -> tuple:
     return tuple(out)
 
 
-def apply(root, behaviours=BUILTIN, source=None) -> list:
-    """Apply the behaviours whose theme the page has, in order; returns the themes applied.
+def apply(root, behaviours=BUILTIN, source=None, detected=DETECTED) -> list:
+    """Apply the behaviours whose theme the page has, in order; returns the themes applied,
+    then those of ``detected`` (theme, marker, script) the page has.
 
     ``source``: the page's HTML (decoded text) the tree was parsed from, when at hand: a
     selector that names a tag or an attribute the page never mentions cannot match, and is
@@ -148,6 +166,10 @@ def apply(root, behaviours=BUILTIN, source=None) -> list:
             mentions.made(b)
         if b.theme not in applied:
             applied.append(b.theme)
+    for theme, marker, script in detected:
+        if any(script in src.split("?")[0] for src in scripts) and \
+                mentions.may_match(marker) and select(root, marker):
+            applied.append(theme)
     return applied
 
 
