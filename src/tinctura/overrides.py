@@ -545,8 +545,8 @@ def _first_compound(selector: str):
     return selector[:i], selector[i:]
 
 
-# The rules whose problems get a CSS override: the WCAG 2 text ratio. The appearance rules are
-# advice (their problems keep a suggested colour at the cause); overrides for them would compete
+# The rules whose problems get a CSS override: the WCAG 2 ratios of text and of graphics, and
+# links told apart by colour alone. The appearance rules are advice (their problems keep a suggested colour at the cause); overrides for them would compete
 # with the text-ratio overrides for the same properties.
 OVERRIDE_RULES = frozenset({"TC100", "TC110", "TC120"})
 # Rules about graphics and controls (TC110: boundaries, focus rings, icons): overridden only by
