@@ -241,7 +241,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
                                         self.get_site())
             return
-        if self.pool.submit(rel, html):
+        if self.pool.submit(rel, html) or self.pool.defer(rel, html):
             self.digests[rel] = key
         else:
             self.check(rel, html, key)

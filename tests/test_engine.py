@@ -185,6 +185,42 @@ def test_page_pool_answers_as_this_process_and_leaves_no_files(site):
         assert seen(there[rel][1])  # (the faint text fails: something was compared)
 
 
+@pytest.mark.parametrize("copy", ["forked", "cannot fork", "fails"])
+def test_deferred_pages_are_checked_by_the_worker_and_its_copy(site, monkeypatch, copy):
+    """Pages kept for the end while the worker is behind (the plugin's MkDocs process then
+    renders on instead of checking them cold): the worker checks half of them and a copy of
+    itself it forks the other half; the answers are this process's, each page once, in order.
+    A copy that cannot start, or fails, leaves its half to the worker."""
+    import os
+
+    from tinctura import engine
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    if copy == "cannot fork":  # (set before the pool forks its worker, which inherits it)
+        monkeypatch.setattr(engine, "_fork_checker", lambda pages, spool: None)
+    if copy == "fails":  # the copy dies before its first page
+
+        def fail():
+            raise RuntimeError("the copy fails")
+        monkeypatch.setattr(engine, "_die_with_parent", fail)
+    options = Options(keep_samples=False)
+    names = [f"p{n}/index.html" for n in range(5)]
+    here = engine.Site(str(site), options)
+    pool = engine.PagePool(str(site), options, 1)
+    folder = pool._spool
+    assert pool.submit(names[0], (site / names[0]).read_text())
+    for rel in names[1:]:
+        assert pool.defer(rel, (site / rel).read_text())
+    there = list(pool.results())
+    assert [rel for rel, _ in there] == names and not os.path.exists(folder)
+
+    def seen(findings):
+        return [(f.rule, f.sample.state, f.sample.xpath, f.ratio) for f in findings]
+    for rel, answer in there:
+        assert seen(answer[1]) == seen(engine.judge_page(here, rel, options)[1])
+
+
 def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
     """After the last page the plugin's worker checks some pages again with the fixes as CSS
     (overrides.verify): what it finds is what checking them here finds."""

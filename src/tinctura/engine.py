@@ -758,6 +758,9 @@ def judge_page(site, rel, options, html=None, packed: bool = False):
 
 PAGE_TIMEOUT_S = 300  # far beyond any page seen (tens of milliseconds)
 PAGES_AHEAD = 8  # pages waiting per plugin worker (PagePool)
+# pages kept for the end while the workers are behind (PagePool.defer), their HTML in the
+# spool folder: 400 pages of 100 KB hold 40 MB there; beyond, MkDocs' process checks them
+DEFERRED_MOST = 400
 
 
 def can_fork() -> bool:
@@ -795,12 +798,14 @@ class PagePool:
             shutil.rmtree(self._spool, ignore_errors=True)
             raise
         self._pending = []
-        # pages given to the workers and not answered yet. This process checks a page itself
-        # only when they are this far behind: its own checks run with colder caches (about
-        # twice a worker's time per page). With 3, a 200-page build checked ~35 pages here,
-        # with 8 about 15; the build's wall time did not change measurably (MkDocs's process
-        # is the busy one either way), but fewer pages are checked twice as slowly
+        # pages given to the workers and not answered yet. When they are this far behind,
+        # pages are kept for the end (``defer``), when a worker and a copy of it share them:
+        # checked here, MkDocs' process, they cost it 16-140 ms each with its cold caches
+        # against a worker's 13 (200 pages of the benchmark's `states`: 5-12 pages; of
+        # `mkdocs-theme`, whose pages render faster, 55-62)
         self._limit = PAGES_AHEAD * workers
+        self._workers = workers
+        self._deferred = []  # (rel, its HTML's file): pages kept for the end (``defer``)
         self._done = 0
         self._lock = threading.Lock()
 
@@ -822,6 +827,29 @@ class PagePool:
             error_callback=self._finished)))
         return True
 
+    def defer(self, rel: str, html: str) -> bool:
+        """Keep a page for the end, when the workers are behind (``submit`` said False):
+        then each worker checks its share of them beside a copy of itself that it forks
+        (``_worker_check_split``), both warm, while this process, MkDocs', has rendered every
+        page. False when enough wait already (``DEFERRED_MOST``) or there is no room: the
+        caller then checks the page itself, as before."""
+        if len(self._deferred) >= DEFERRED_MOST:
+            return False
+        try:
+            self._deferred.append((rel, _to_file(self._spool, html)))
+        except OSError:
+            return False
+        return True
+
+    def _split_deferred(self) -> None:
+        """The deferred pages, one run of neighbours per worker, each split with a fork."""
+        tasks, self._deferred = self._deferred, []
+        size = -(-len(tasks) // self._workers)
+        for at in range(0, len(tasks), size):
+            run = tasks[at:at + size]
+            self._pending.append((tuple(rel for rel, _ in run), self._pool.apply_async(
+                _worker_check_split, ((run, self._spool),))))
+
     def ready(self):
         """``(rel, result or exception)`` of the pages answered so far, oldest first, in
         submission order (each given once): a caller that takes them as it goes holds no
@@ -836,10 +864,15 @@ class PagePool:
                 yield rel, exc
 
     def results(self, keep: bool = False):
-        """Every answer still due; then the workers end, unless ``keep`` (the caller then has
-        them ``recheck`` pages and calls ``close``)."""
+        """Every answer still due, the deferred pages' last; then the workers end, unless
+        ``keep`` (the caller then has them ``recheck`` pages and calls ``close``)."""
+        if self._deferred:
+            self._split_deferred()
         try:
             for rel, pending in self._pending:
+                if isinstance(rel, tuple):  # a split run: its answers in order
+                    yield from _answers(rel, pending)
+                    continue
                 try:  # a worker that died never answers: give up on it, not on the build
                     yield rel, _from_file(pending.get(timeout=PAGE_TIMEOUT_S))
                 except Exception as exc:  # the page, not the build, failed
@@ -912,9 +945,99 @@ def _worker_recheck(args):
 
 def _worker_check_html(args):
     rel, path, spool = args
+    return _check_to_file(rel, _from_file(path), spool)
+
+
+def _check_to_file(rel, html, spool) -> str:
+    """A worker's answer for the page ``rel`` (its ``html``), in a file of ``spool``."""
     site, options, judged = _WORKER
-    html = _from_file(path)
     return _to_file(spool, _packed(_process(site, rel, options, judged, html), options))
+
+
+def _answers(rels, pending):
+    """``(rel, answer or exception)`` of a split run (``_worker_check_split``)."""
+    try:
+        paths = pending.get(timeout=PAGE_TIMEOUT_S)
+    except Exception as exc:  # the worker died: those pages, not the build, failed
+        for rel in rels:
+            yield rel, exc
+        return
+    for rel, path in zip(rels, paths):
+        try:
+            yield rel, _from_file(path)
+        except Exception as exc:
+            yield rel, exc
+
+
+def _worker_check_split(args):
+    """The pages kept for the end (``PagePool.defer``): this worker, warm from the pages it
+    checked, forks a copy of itself that checks the second half while it checks the first
+    (two cores, no cold start). The answers' files, in order. A copy that cannot start, fails
+    or dies leaves its half to this worker, which read every page before forking."""
+    tasks, spool = args
+    pages = [(rel, _from_file(path)) for rel, path in tasks]
+    half = len(pages) // 2
+    copy = _fork_checker(pages[half:], spool) if half and hasattr(os, "fork") else None
+    mine = pages[:half] if copy is not None else pages
+    out = [_check_to_file(rel, html, spool) for rel, html in mine]
+    if copy is not None:
+        theirs = _reaped(*copy)
+        out += theirs if theirs is not None else [
+            _check_to_file(rel, html, spool) for rel, html in pages[half:]]
+    return out
+
+
+def _fork_checker(pages, spool):
+    """``(pid, file of its answers' paths)`` of a forked copy of this worker checking
+    ``pages``, or None when it cannot start."""
+    fd, listing = tempfile.mkstemp(dir=spool)
+    os.close(fd)
+    try:
+        pid = os.fork()
+    except OSError:
+        os.unlink(listing)
+        return None
+    if pid:
+        return pid, listing
+    code = 1
+    try:  # the copy: its answers, then out without any of the worker's exit handlers
+        _die_with_parent()
+        paths = [_check_to_file(rel, html, spool) for rel, html in pages]
+        with open(listing, "wb") as fh:
+            pickle.dump(paths, fh)
+        code = 0
+    finally:
+        os._exit(code)
+
+
+def _reaped(pid, listing):
+    """The answers' paths the forked copy ``pid`` wrote, once it has ended; None if it
+    failed."""
+    try:
+        _, status = os.waitpid(pid, 0)
+        if os.waitstatus_to_exitcode(status) != 0:
+            return None
+        with open(listing, "rb") as fh:
+            return pickle.load(fh)
+    except (OSError, EOFError, pickle.UnpicklingError):
+        return None
+    finally:
+        try:
+            os.unlink(listing)
+        except OSError:
+            pass
+
+
+def _die_with_parent() -> None:
+    """Linux: end this forked copy with the worker (a build that is stopped terminates its
+    workers, which would leave the copy running its pages to no one)."""
+    try:
+        import ctypes
+        import signal
+
+        ctypes.CDLL(None).prctl(1, signal.SIGTERM)  # PR_SET_PDEATHSIG
+    except Exception:
+        pass
 
 
 def _spool_folder() -> str:
