@@ -119,8 +119,8 @@ def test_a_shorthand_outline_is_fixed_by_its_colour_alone(tmp_path):
 
 
 # one border colour for fields on white and on a #555555 panel: 3:1 against both needs a
-# luminance at least 0.37 (against the panel's 0.09) and at most 0.30 (against white's 1.0), so
-# none exists; the fix must not repaint the panel or the page to make room for one
+# relative luminance (WCAG 2.2's formula, worked by hand) at least 0.37 (against the panel's
+# 0.09) and at most 0.30 (against white's 1.0), so none exists; the fix must not repaint the panel or the page to make room for one
 FIELDS_CSS = """body { color: #202020; background: #ffffff; }
 .panel { background: #555555; color: #ffffff; padding: 8px; }
 input { border: 1px solid #dddddd; background: #ffffff; color: #202020; }

@@ -37,7 +37,7 @@ from .extract.nontext import KINDS as NON_TEXT
 from .extract import schemes as scheme_mod
 from .extract import sheet_cache
 from .extract.disclosure import Disclosure
-from .extract.html import decode, parse_html, parser_warnings
+from .extract.html import decode, parse_html, parser_warnings, unrendered
 from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.samples import PageWalker, StyleCache
@@ -325,10 +325,9 @@ def _unrendered_template(root, text: str) -> bool:
     """A theme's template copied into the site as it is (pydata-sphinx-theme's
     ``_static/webpack-macros.html``), not a page: its links' addresses still hold template
     syntax, which no rendered page's do."""
-    if "{{" not in text and "{%" not in text:
+    if not unrendered(text):
         return False
-    return any("{{" in href or "{%" in href
-               for href in (link.get("href") or "" for link in root.iter("link")))
+    return any(unrendered(link.get("href") or "") for link in root.iter("link"))
 
 
 def _is_redirect(data: bytes) -> bool:

@@ -546,8 +546,9 @@ def _first_compound(selector: str):
 
 
 # The rules whose problems get a CSS override: the WCAG 2 ratios of text and of graphics, and
-# links told apart by colour alone. The appearance rules are advice (their problems keep a suggested colour at the cause); overrides for them would compete
-# with the text-ratio overrides for the same properties.
+# links told apart by colour alone. The appearance rules are advice (their problems keep a
+# suggested colour at the cause); overrides for them would compete with the text-ratio
+# overrides for the same properties.
 OVERRIDE_RULES = frozenset({"TC100", "TC110", "TC120"})
 # Rules about graphics and controls (TC110: boundaries, focus rings, icons): overridden only by
 # one colour for the line or glyph that passes everywhere it is used; never by repainting
@@ -595,7 +596,7 @@ def _inherited_by_links(problem) -> set:
     """The declarations that colour a problem's links by inheritance (set on an ancestor: a
     post's meta line whose category link takes its colour), as its examples show."""
     found = set()
-    for f in [problem.worst, *problem.example_pool()]:
+    for f in problem.worst_and_pool():
         cause = f.sample.fg_cause
         if cause is not None and cause.declaration is not None and cause.inherited_from \
                 and not _is_link_path(cause.inherited_from):
@@ -618,7 +619,7 @@ def _outbid(problem, selectors) -> list:
     ours = [compile_one(s)[0] for s in selectors]
     weakest = min((c.specificity for c in ours if c is not None), default=None)
     found = []
-    for f in [problem.worst, *problem.example_pool()]:
+    for f in problem.worst_and_pool():
         plain = f.sample.link.undecorated if f.sample.link is not None else ()
         if plain and weakest is not None and plain[1] > weakest:
             found.append(_SPACE.sub(" ", plain[0].strip()))

@@ -140,6 +140,10 @@ class Problem:
         """The findings examples are chosen from, in report order."""
         return self.findings if self.candidates is None else self.candidates
 
+    def worst_and_pool(self) -> list:
+        """The worst finding, then ``example_pool``: what the examples can show."""
+        return [self.worst, *self.example_pool()]
+
 
 def faded(finding) -> bool:
     """True when the text is fainter than its colour over its background: an ancestor's

@@ -14,6 +14,7 @@ from typing import Optional
 
 from tinctura import overrides as overrides_mod
 from tinctura import problems as problems_mod
+from tinctura.extract.html import unrendered
 from tinctura.extract.loader import SheetLoader
 from tinctura.locator import (Pages, by_style, content_scope, landmarks, pseudo, readable,
                               selector)
@@ -120,7 +121,7 @@ class WriterAid:
             if "stylesheet" not in (link.get("rel") or "").lower().split():
                 continue
             href = (link.get("href") or "").split("?")[0].split("#")[0]
-            if not href or "://" in href or href.startswith("//") or "{{" in href or "{%" in href:
+            if not href or "://" in href or href.startswith("//") or unrendered(href):
                 continue  # (remote, or a theme template's: `{{ pathto('...') }}`)
             # resolved as the check loads them: a site served below a path (its site_url's,
             # `/manual/`) links `/manual/stylesheets/extra.css` for its own
@@ -193,7 +194,7 @@ class WriterAid:
         for p in problems:
             if p.rule not in overrides_mod.CUE_RULES:
                 continue
-            for f in [p.worst, *p.example_pool()]:
+            for f in p.worst_and_pool():
                 cause = f.sample.fg_cause
                 d = cause.declaration if cause is not None and not cause.inherited_from \
                     else None  # (links inheriting a block's colour: that block's links)

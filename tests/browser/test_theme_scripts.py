@@ -184,6 +184,15 @@ def test_material_script_wraps_tables_and_drops_no_js(tmp_path):
     assert set(root.get("class").split()) == set(html_class.split())
 
 
+def _load_preferring(driver, url: str, media: str) -> None:
+    """Load ``url`` with the reader's preference ``media`` (light or dark) emulated, and give
+    the theme's script time to apply it."""
+    driver.execute_cdp_cmd("Emulation.setEmulatedMedia", {"features": [
+        {"name": "prefers-color-scheme", "value": media}]})
+    driver.get(url)
+    time.sleep(0.5)
+
+
 def test_material_automatic_palette_entry_resolves_like_the_theme_script(tmp_path):
     """With the automatic entry selected (the first, as on a first visit), the theme's script
     applies the light or the dark entry by the system preference: tinctura offers exactly those
@@ -192,10 +201,7 @@ def test_material_automatic_palette_entry_resolves_like_the_theme_script(tmp_pat
     seen = {}
     with ref.serve(site) as base, ref.browser(scripts=True) as driver:
         for media in ("light", "dark"):
-            driver.execute_cdp_cmd("Emulation.setEmulatedMedia", {"features": [
-                {"name": "prefers-color-scheme", "value": media}]})
-            driver.get(base + "index.html")
-            time.sleep(0.5)
+            _load_preferring(driver, base + "index.html", media)
             seen[media] = tuple(driver.execute_script(
                 "return ['scheme', 'primary', 'accent'].map("
                 "k => document.body.getAttribute('data-md-color-' + k))"))
@@ -325,10 +331,7 @@ def test_sphinx_themes_scripts_set_data_theme_where_tinctura_sets_it(tmp_path, t
     mine = {(s.scheme, s.xpath): s for s in result.samples}
     with ref.serve(site) as base, ref.browser(scripts=True) as driver:
         for media in ("light", "dark"):
-            driver.execute_cdp_cmd("Emulation.setEmulatedMedia", {"features": [
-                {"name": "prefers-color-scheme", "value": media}]})
-            driver.get(base + "index.html")
-            time.sleep(0.5)
+            _load_preferring(driver, base + "index.html", media)
             holders = driver.execute_script(
                 "return [document.documentElement.getAttribute('data-theme'),"
                 " document.body.getAttribute('data-theme')]")

@@ -33,6 +33,12 @@ _LIMITED = lxml.etree.HTMLParser(remove_comments=False, collect_ids=False, huge_
 MAX_DEPTH = 512
 
 
+def unrendered(value: str) -> bool:
+    """Whether ``value`` (a link's address) still holds template syntax (``{{ pathto(...) }}``,
+    ``{% ... %}``): a theme's template copied into the site as it is, not a rendered page."""
+    return "{{" in value or "{%" in value
+
+
 def decode(data: bytes) -> str:
     """Decode page bytes: BOM (UTF-8 or UTF-16), then the declared charset, then UTF-8, then
     bs4's guess."""

@@ -26,7 +26,7 @@ from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Sample
 from . import exempt as exempt_mod
 from .sheet import mark_states, split_declarations, unmark_states
-from .style import cascade, has_var, latest_winner
+from .style import cascade, latest_winner
 from .values import significant
 
 KINDS = frozenset({"boundary", "focus-ring", "svg-icon"})
@@ -113,10 +113,7 @@ def _line(winners, shorthand, colour_names, current, scheme, tokens_of=None):
 def _substituted(walker, style):
     """``tokens_of`` for ``_line``: a value's var()s substituted with the element's custom
     properties (an outline of ``var(--accent) solid 3px``, as pydata-sphinx-theme draws)."""
-    def tokens_of(winner):
-        tokens = winner.decl.tokens
-        return walker.resolver.value(winner, style)[0] if has_var(tokens) else tokens
-    return tokens_of
+    return lambda winner: walker.resolver.value(winner, style)[0]
 
 
 def _boundary(walker, el, tag, style, chain) -> None:

@@ -529,7 +529,7 @@ class PageWalker:
             return
         if tag == "select":
             shown = _shown_option(el)
-            if shown:
+            if shown.strip():
                 self._emit(el, style, chain, shown, "value", ("value", key_id))
             return
         for pseudo, ps, content in style.generated:
@@ -839,8 +839,7 @@ def _shown_option(select) -> str:
         return ""
     chosen = [o for o in options if o.get("selected") is not None]
     shown = chosen[-1] if chosen else options[0]
-    label = shown.get("label")
-    return " ".join((label if label else "".join(shown.itertext())).split())
+    return shown.get("label") or "".join(shown.itertext())  # (_emit collapses it)
 
 
 def _svg_root(el):

@@ -270,7 +270,7 @@ class Resolver:
         """Replace var() in tokens; returns (tokens, chain of Declarations, valid).
 
         ``budget`` is a one-item list: tokens the expansion may still add (``_Overflow``)."""
-        if not has_var(tokens):
+        if not _has_var(tokens):
             return tokens, (), True
         if budget is None:
             budget = [self.max_var_tokens]
@@ -303,13 +303,13 @@ class Resolver:
                     out.extend(fb)
                     chain.extend(fb_chain)
                     continue
-                if has_var(t.arguments):
+                if _has_var(t.arguments):
                     inner, sub_chain, ok = self._substitute(t.arguments, lookup, budget)
                     if not ok:
                         return None, (), False
                     t = tinycss2.ast.FunctionBlock(t.source_line, t.source_column, t.name, inner)
                     chain.extend(sub_chain)
-            elif t.type in ("() block", "[] block", "{} block") and has_var(t.content):
+            elif t.type in ("() block", "[] block", "{} block") and _has_var(t.content):
                 inner, sub_chain, ok = self._substitute(t.content, lookup, budget)
                 if not ok:
                     return None, (), False
@@ -489,7 +489,7 @@ class Resolver:
         s.visually_hidden = self._visually_hidden(keyword, s)
         kind, w = keyword("content")
         if kind == "value":  # a theme's icon glyph may come from a custom property
-            s.content = self.value(w, s)[0] if has_var(w.decl.tokens) else w.decl.tokens
+            s.content = self.value(w, s)[0]  # (a value without var() as it is)
         return s
 
     def _font(self, kw, s, part, inherited, initial, parse):
@@ -545,11 +545,11 @@ class Resolver:
         return all(x is not None and x <= 1 for x in sizes) and overflow in ("hidden", "clip")
 
 
-def has_var(tokens) -> bool:
+def _has_var(tokens) -> bool:
     for t in tokens:
         if t.type == "function":
-            if t.lower_name == "var" or has_var(t.arguments):
+            if t.lower_name == "var" or _has_var(t.arguments):
                 return True
-        elif t.type in ("() block", "[] block", "{} block") and has_var(t.content):
+        elif t.type in ("() block", "[] block", "{} block") and _has_var(t.content):
             return True
     return False
