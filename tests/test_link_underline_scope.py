@@ -97,3 +97,18 @@ def test_no_container_without_navigation_or_a_name():
     # every navigation lies among the links: nothing is kept out
     tree = _tree('<div class="all"><nav><a href=x>m</a></nav><p><a href=x>a</a></p></div>')
     assert content_scope(tree, ["/html/body/div/nav/a", "/html/body/div/p/a"]) is None
+
+
+def test_links_holding_spans_are_scoped_too(tmp_path):
+    # the failing links' text is a span in each link (as Sphinx writes references): the span
+    # takes the colour of its link, not of a block, so the link's own rule is still the one
+    # to underline, within the container that keeps the menus out
+    _site(tmp_path)
+    for n in range(2):
+        page = tmp_path / f"p{n}" / "index.html"
+        text = page.read_text(encoding="utf-8")
+        for words in ("the salting log", "the rack guide", "drying crew"):
+            text = text.replace(f">{words}<", f"><span>{words}</span><")
+        page.write_text(text, encoding="utf-8")
+    assert _cue_fixes(tmp_path) == {(".column a {\n  text-decoration-line: underline;\n}\n",
+                                     True)}

@@ -598,10 +598,15 @@ def _inherited_by_links(problem) -> set:
     found = set()
     for f in problem.worst_and_pool():
         cause = f.sample.fg_cause
-        if cause is not None and cause.declaration is not None and cause.inherited_from \
-                and not _is_link_path(cause.inherited_from):
+        if cause is not None and cause.declaration is not None and from_a_block(cause):
             found.add(cause.declaration)
     return found
+
+
+def from_a_block(cause) -> bool:
+    """Whether a text's colour comes by inheritance from a block around its link (a post's
+    meta line), not from a link's own rule (text in a span inside the link inherits that)."""
+    return bool(cause.inherited_from) and not _is_link_path(cause.inherited_from)
 
 
 def _is_link_path(xpath: str) -> bool:

@@ -196,8 +196,8 @@ class WriterAid:
                 continue
             for f in p.worst_and_pool():
                 cause = f.sample.fg_cause
-                d = cause.declaration if cause is not None and not cause.inherited_from \
-                    else None  # (links inheriting a block's colour: that block's links)
+                d = cause.declaration if cause is not None and \
+                    not overrides_mod.from_a_block(cause) else None  # (that block's links)
                 if d is not None and d.origin == "author" and overrides_mod.page_wide(d.selector):
                     found.setdefault(overrides_mod.declaration_key(d), []).append(f.sample)
         scopes = {}
