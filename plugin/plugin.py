@@ -68,6 +68,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.records: dict = {}  # output path (site-relative) -> PageRecord
         self.current: dict = {}  # output path -> source path, for the pages of this build
         self.stale: set = set()  # pages whose record predates a stylesheet change
+        self.digesting = True  # whether pages are compared with earlier builds' (on_pre_build)
         self.sheets_checked = False
         self.pool = None  # worker processes checking pages while MkDocs renders the next
         self.helper = None  # the same workers after the last page: they verify fixes too
@@ -163,6 +164,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.options = options
         self.sheets_checked = False
         self.early, self.kept_now = None, set()
+        # a page's digest tells whether it changed since an earlier build of this process:
+        # `mkdocs build` has none (0.25 ms a page on the build's own process, measured)
+        self.digesting = bool(self.records) or self.command == "serve"
 
     @event_priority(-100)  # after plugins that add pages in on_files
     def on_files(self, files, *, config):
@@ -298,9 +302,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if self.gc_before is None:  # as `tinctura check` does; MkDocs's heap is large too
             self.gc_before = engine.relax_gc()
         self.gate_early()
-        # the digest tells a later build of this process which pages changed: `mkdocs
-        # build` makes no later build (0.25 ms a page, on the build's own process)
-        key = digest(output) if self.records or self.command == "serve" else None
+        key = digest(output) if self.digesting else None
         self.get_site()  # the first call of a build decides which records are stale
         record = self.records.get(rel)
         if record is None or record.digest != key or rel in self.stale:
