@@ -100,3 +100,79 @@ def test_controls_are_coloured_as_chromium_colours_them(pages, page):
 
 def _near(a: str, b: str, tolerance: int = 1) -> bool:
     return all(abs(int(a[i:i + 2], 16) - int(b[i:i + 2], 16)) <= tolerance for i in (1, 3, 5))
+
+
+# List boxes (a select with `multiple` or a size above 1) show their options as rows: each
+# row's text on the row's background (a selected row highlighted, differently while the list
+# box has focus), over the list box's. Chromium's computed colours, as above.
+LIST_BOXES = """<!doctype html><html><head><meta charset="utf-8"><title>Berth lists</title>{style}
+</head><body><form>
+<select id="berths" size="3"><option id="b1">North berth</option>
+<option id="b2" selected>South berth</option><option id="b3" disabled>East berth</option></select>
+<select id="lights" multiple><optgroup id="g1" label="Flashing"><option id="l1">Red flash</option>
+<option id="l2" selected>Green flash</option></optgroup>
+<optgroup id="g2" label="Fixed" disabled><option id="l3">White light</option></optgroup></select>
+</form></body></html>"""
+ROWS = {"b1": "select[1]/option[1]", "b2": "select[1]/option[2]", "b3": "select[1]/option[3]",
+        "g1": "select[2]/optgroup[1]", "l1": "select[2]/optgroup[1]/option[1]",
+        "l2": "select[2]/optgroup[1]/option[2]", "g2": "select[2]/optgroup[2]",
+        "l3": "select[2]/optgroup[2]/option"}
+UNDER = {"b": "berths", "g": "lights", "l": "lights"}  # each row's list box
+
+
+def _rows(driver, url, focus=None) -> dict:
+    driver.get(url)
+    if focus:
+        driver.execute_script(f"document.getElementById('{focus}').focus()")
+    return driver.execute_script(
+        "const out = {};"
+        "for (const el of document.querySelectorAll('[id]')) {"
+        "  const s = getComputedStyle(el); out[el.id] = [s.color, s.backgroundColor]; }"
+        "return out;")
+
+
+@pytest.fixture(scope="module")
+def list_boxes(tmp_path_factory):
+    root = tmp_path_factory.mktemp("list-boxes")
+    (root / "light.html").write_text(LIST_BOXES.format(style=""), encoding="utf-8")
+    (root / "dark.html").write_text(LIST_BOXES.format(style=DARK), encoding="utf-8")
+    with ref.serve(root) as base, ref.browser() as driver:
+        chromium = {(name, focus): _rows(driver, f"{base}/{name}", focus)
+                    for name in ("light.html", "dark.html") for focus in (None, "berths")}
+    report = check_paths([str(root)], Options(jobs=1, exemptions=(), states=True))
+    ours = {}
+    for page in report.pages:
+        for s in page.samples:
+            ours[(s.page, s.state, s.xpath.split("/body/form/", 1)[-1])] = s
+    return chromium, ours
+
+
+def _expected(chromium: dict, page: str, row: str) -> tuple:
+    canvas = CANVAS[page]
+    box = _over(_rgba(chromium[UNDER[row[0]]][1]), canvas)
+    bg = _over(_rgba(chromium[row][1]), box)
+    return to_hex(_over(_rgba(chromium[row][0]), bg)), to_hex(bg)
+
+
+@pytest.mark.parametrize("page", ["light.html", "dark.html"])
+def test_list_box_rows_are_coloured_as_chromium_colours_them(list_boxes, page):
+    chromium, ours = list_boxes
+    for row, step in ROWS.items():
+        sample = ours[(page, "rest", step)]
+        expected = _expected(chromium[(page, None)], page, row)
+        got = (to_hex(sample.fg), to_hex(sample.bg))
+        assert _near(got[0], expected[0]) and _near(got[1], expected[1]), (page, row, got,
+                                                                           expected)
+    assert ours[(page, "rest", ROWS["g1"])].text == "Flashing"  # an optgroup shows its label
+    # a drop-down's options are not rows: its closed box shows the selected one (above)
+    assert not any(key[2].startswith("select[3]") for key in ours)
+
+
+@pytest.mark.parametrize("page", ["light.html", "dark.html"])
+def test_focused_list_box_highlights_as_chromium_does(list_boxes, page):
+    chromium, ours = list_boxes
+    sample = ours[(page, "focus", ROWS["b2"])]  # the selected row of the focused list box
+    expected = _expected(chromium[(page, "berths")], page, "b2")
+    assert (_near(to_hex(sample.fg), expected[0]) and _near(to_hex(sample.bg), expected[1])), \
+        (page, to_hex(sample.fg), to_hex(sample.bg), expected)
+    assert expected != _expected(chromium[(page, None)], page, "b2")  # the premise

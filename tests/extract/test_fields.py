@@ -1,5 +1,6 @@
 """What form fields show as text: an input's value, a text area's text, a closed drop-down's
-selected option; a placeholder only when the field is empty.
+selected option, a list box's rows (its options, its option groups' labels); a placeholder only
+when the field is empty.
 
 Source: HTML Living Standard (the select element: with no option marked selected, the first
 is shown; the last marked one wins; ``multiple`` or a ``size`` above 1 makes a list box; an
@@ -25,8 +26,14 @@ def shown(tmp_path, body) -> list:
     ("<select><option selected>North</option><option selected>South</option></select>",
      [("value", "South")]),
     ('<select><option label="N">North pier</option></select>', [("value", "N")]),
-    ("<select multiple><option>North</option></select>", []),
-    ('<select size="3"><option>North</option></select>', []),
+    # a list box: every option a row (its label if it has one), option groups' labels too
+    ("<select multiple><option>North</option></select>", [("value", "North")]),
+    ('<select size="3"><option label="N">North pier</option><option>South</option></select>',
+     [("value", "N"), ("value", "South")]),
+    ('<select size="2"><optgroup label="Piers"><option>North</option></optgroup></select>',
+     [("value", "Piers"), ("value", "North")]),
+    ('<select size="1"><option>North</option><option>South</option></select>',
+     [("value", "North")]),  # a size of 1: a drop-down
     ("<select></select>", []),
     ("<textarea>Swell  from\nthe west</textarea>", [("value", "Swell from the west")]),
     ('<textarea placeholder="Your note"></textarea>', [("placeholder", "Your note")]),

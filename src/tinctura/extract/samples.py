@@ -28,6 +28,7 @@ from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
 
 FIELDS = frozenset({"input", "textarea", "select"})  # their value is text, not their content
+LISTED = frozenset({"option", "optgroup"})  # rows of a list box (``_listed``)
 NO_TEXT = frozenset({"script", "style", "template", "noscript", "title", "head", "textarea",
                      "select", "option", "optgroup", "iframe", "object", "canvas", "video",
                      "audio", "img", "input", "br", "wbr", "math"})
@@ -376,7 +377,7 @@ class PageWalker:
             if collect and focusable and not style.disabled:
                 interactive.append((el, key_id))
             if tag in NO_TEXT:
-                text = ""
+                text = _listed(el, tag) if tag in LISTED else ""
             else:
                 text = own_texts.get(el)
                 if text is None:
@@ -551,6 +552,9 @@ class PageWalker:
             return
         if style.hidden_within:
             self.skipped["visually hidden"] = self.skipped.get("visually hidden", 0) + 1
+            return
+        if tag in LISTED:  # a list box's row: what the control shows, as a value
+            self._emit(el, style, chain, text, "value", ("value", key_id))
             return
         if tag == "li" and style.display == "list-item" and style.list_style not in GLYPH_MARKERS:
             self._marker(el, style, chain, key_id)
@@ -829,10 +833,8 @@ def _path_at(chain, at, getpath):
 def _shown_option(select) -> str:
     """The text a closed drop-down ``select`` shows: its selected option's (the last marked
     selected), else its first option's (HTML Living Standard, the select element's selectedness
-    setting algorithm); a list box (``multiple`` or ``size`` above 1) shows its options as a
-    list, which is left unchecked here."""
-    size = (select.get("size") or "").strip()
-    if select.get("multiple") is not None or (size.isdigit() and int(size) > 1):
+    setting algorithm); none for a list box, whose options are rows of their own (``_listed``)."""
+    if _list_box(select):
         return ""
     options = list(select.iter("option"))
     if not options:
@@ -840,6 +842,27 @@ def _shown_option(select) -> str:
     chosen = [o for o in options if o.get("selected") is not None]
     shown = chosen[-1] if chosen else options[0]
     return shown.get("label") or "".join(shown.itertext())  # (_emit collapses it)
+
+
+def _list_box(select) -> bool:
+    """Whether ``select`` shows its options as a list: ``multiple``, or a display size above 1
+    (HTML Living Standard, the select element)."""
+    size = (select.get("size") or "").strip()
+    return select.get("multiple") is not None or (size.isdigit() and int(size) > 1)
+
+
+def _listed(el, tag: str) -> str:
+    """The text of an option (an optgroup's label) as a list box shows it, as a row; "" in a
+    drop-down, whose closed box shows one option as the select's value. (An option shown by its
+    ``label`` attribute alone, with no text, is not reached: the walk skips empty elements.)"""
+    select = el.getparent()
+    if tag == "option" and select is not None and select.tag == "optgroup":
+        select = select.getparent()
+    if select is None or select.tag != "select" or not _list_box(select):
+        return ""
+    if tag == "optgroup":
+        return el.get("label") or ""
+    return el.get("label") or "".join(el.itertext())
 
 
 def _svg_root(el):
