@@ -30,7 +30,9 @@ def _site(tmp_path, html):
     page_html,  # navigation moved by a banner and by blank lines; two schemes; two states
     lambda n: page_html(n, sections=12),  # li[1] and li[10] sort apart from document order
     lambda n: page_html(n, sections=12).replace("\n", ""),  # one line: ordered by XPath only
-], ids=["moving", "many-sections", "one-line"])
+    # a per cent sign in the texts (blocks are filled by %-formatting)
+    lambda n: page_html(n).replace(">Page ", ">100% Page ").replace("pages<", "pages %d%%<"),
+], ids=["moving", "many-sections", "one-line", "per-cent"])
 def test_blocks_are_written_as_their_records(tmp_path, html):
     site = _site(tmp_path, html)
     by_block = 0

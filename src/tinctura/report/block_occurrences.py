@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import operator
 from bisect import bisect_left, bisect_right
+from itertools import chain
 
 from .json_report import (
     _COMPACT,
@@ -49,7 +50,7 @@ class _Layout:
     occurrences, for their slots' lines ``lines`` (one list per fragment). At a place whose
     lines are these shifted by one constant, the order and the groups are the same."""
 
-    __slots__ = ("lines", "occurrences", "first", "last", "depth", "kinds", "kind_of")
+    __slots__ = ("lines", "occurrences", "first", "last", "depth", "kinds", "kind_of", "tail")
 
     def __init__(self, lines, occurrences, depth, kinds, kind_of):
         self.lines = lines
@@ -62,6 +63,8 @@ class _Layout:
         self.occurrences = occurrences
         self.first, self.last = occurrences[0], occurrences[-1]
         self.depth = depth  # levels the base must have for the "up"s above it to hold
+        # the occurrences after the first as one %-format and what fills it (``_tail``)
+        self.tail = _tail(occurrences)
 
 
 def _runs(lazy) -> list | None:
@@ -251,10 +254,32 @@ def _records(records: list, previous: str, pieces: list) -> str | None:
     return previous
 
 
+def _tail(occurrences: list):
+    """The occurrences after the first, as ``_block`` writes them, as one %-format of their
+    numbers, shared lengths (less the base's) and lines, with the shared lengths and the
+    ``(fragment, slot)`` of each line; None when an "up" depends on the place. Filled by one
+    C-level formatting per page: a 1,000-page manual's navigation has thousands a page."""
+    rest = occurrences[1:]
+    if any(o[6] is None for o in rest):
+        return None
+    fmt = ",".join("[[\0%s\0],%d," + o[4].replace("%", "%%") + ",%d,"
+                   + (o[5] + o[6]).replace("%", "%%") + "]" for o in rest)
+    return fmt, [o[3] for o in rest], [(o[1], o[2]) for o in rest]
+
+
 def _block(layout: _Layout, numbers: list, base: str, lines: list, previous: str,
            pieces: list) -> str | None:
     """Write the fragments placed at ``base``; the XPath of their last occurrence (None: an
     inherited-from XPath held a NUL)."""
+    tail = layout.tail
+    if tail is not None and _first(layout.occurrences[0], numbers[0], base, lines, previous,
+                                   pieces):
+        if len(numbers) > 1:
+            fmt, shared, slots = tail
+            n = len(base)
+            values = zip(numbers[1:], [k + n for k in shared], [lines[f][i] for f, i in slots])
+            pieces.append(fmt % tuple(chain.from_iterable(values)))
+        return base + layout.last[8]
     n, first = len(base), True
     for (_, f, slot, shared, rest, text, up, per_place, rel), listed in zip(
             layout.occurrences, numbers):
@@ -271,3 +296,16 @@ def _block(layout: _Layout, numbers: list, base: str, lines: list, previous: str
                 return None  # (as encoded_occurrences: then written from the records)
         pieces.append(f"[[\0{listed}\0],{shared},{rest},{lines[f][slot]},{text}{up}]")
     return base + layout.last[8]
+
+
+def _first(occurrence, listed: str, base: str, lines: list, previous: str, pieces: list) -> bool:
+    """Write a block's first occurrence (against the occurrence before it, ``previous``);
+    False, writing nothing, when its "up" depends on the place."""
+    _, f, slot, _, _, text, up, _, rel = occurrence
+    if up is None:
+        return False
+    xpath = base + rel
+    shared = _shared(previous, xpath)
+    pieces.append(f"[[\0{listed}\0],{shared},{_COMPACT(xpath[shared:])},{lines[f][slot]},"
+                  f"{text}{up}]")
+    return True
