@@ -167,7 +167,7 @@ class Site:
             refused = _too_many_elements(root, data, self.options.max_elements)
             if refused:
                 raise bounds.Refused(refused)
-            self._script_behaviours(root, result, text)
+            spied = self._script_behaviours(root, result, text)
         except bounds.Refused as exc:  # outside the site (a warning); too large, binary
             result.diagnostics.append(Diagnostic(rel, f"page not checked: {exc}",
                                                  severity="warning" if exc.outside else "error"))
@@ -193,7 +193,8 @@ class Site:
                                          self.options.logotypes, structure.text,
                                          source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
                                          else data, per_link=link_mod.consider)
-            disclosure = Disclosure(root, text)  # closed <details>, tabs, menus: walked open too
+            # closed <details>, tabs, menus: walked open too; a scroll spy's marks, in turn
+            disclosure = Disclosure(root, text, spied)
             walkers = []
             for scheme in schemes:
                 with _scheme_applied(root, scheme, fingerprints, structure):
@@ -231,15 +232,19 @@ class Site:
         walker.resolver.max_var_tokens = self.options.max_var_tokens
         return walker
 
-    def _script_behaviours(self, root, result, source=None) -> None:
+    def _script_behaviours(self, root, result, source=None) -> list:
         """Apply what the page's theme scripts change before a reader sees it; say once per
-        site what those scripts change that tinctura does not model."""
+        site what those scripts change that tinctura does not model. Returns what a scroll
+        spy marks as the reader scrolls, ``(element, classes)``: with states checked, each
+        is walked in that look (``extract/disclosure.py``)."""
         detected = behaviour_mod.DETECTED if self.options.theme_behaviours else ()
-        for theme in behaviour_mod.apply(root, self._behaviours, source, detected):
+        spied = [] if self.options.states else None
+        for theme in behaviour_mod.apply(root, self._behaviours, source, detected, spied):
             note = behaviour_mod.NOTES_BY_THEME.get(theme)
             if note and theme not in self._themes_noted:
                 self._themes_noted.add(theme)
                 result.diagnostics.append(Diagnostic(result.page, note))
+        return spied or []
 
 
 def _disclosed(root, disclosure, walkers, structure, result, fingerprints) -> None:

@@ -14,10 +14,11 @@ RGBA = tuple  # (r, g, b, a)
 DETERMINED = "determined"
 UNDETERMINED = "undetermined"
 
-REST = "rest"  # the resting state; other states: "hover", "focus", "focus-visible", and
-# "shown": in a closed <details> or a tab not selected, opened (extract/disclosure.py)
+REST = "rest"  # the resting state; other states: "hover", "focus", "focus-visible",
+# "shown": in a closed <details> or a tab not selected, opened, and "current": a table-of-contents
+# entry as a theme's scroll spy marks it (extract/disclosure.py)
 # Reports list an element's states in this order: at rest first, as a reader first sees it
-_STATE_ORDER = {REST: 0, "hover": 1, "focus": 2, "focus-visible": 3, "shown": 4}
+_STATE_ORDER = {REST: 0, "hover": 1, "focus": 2, "focus-visible": 3, "shown": 4, "current": 5}
 
 
 def state_rank(state: str) -> tuple:

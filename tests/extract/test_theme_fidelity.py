@@ -125,6 +125,27 @@ def test_user_behaviours_apply_before_the_cascade(render):
     assert hexes(code)[0] == "#123456" and code.xpath.endswith("/article/div/pre")
 
 
+def test_a_scroll_spys_mark_is_walked_in_turn(render):
+    # a site's own scroll spy (the action "current"): each entry is walked with the class,
+    # one at a time, and only what its look changes is reported, in the state "current"; the
+    # tree keeps no mark (the other entries and the rest of the page are as they are)
+    from tinctura.extract.behaviours import from_setting
+
+    spy = from_setting([{"action": "current", "selector": "nav.toc li", "value": "here"}])
+    css = ".toc a { color: #333333; } .toc li.here > a { color: #9a9a9a; }"
+    body = ('<nav class="toc"><ul><li><a href="#a">Berths</a></li>'
+            '<li class="here"><a href="#b">Tides</a></li></ul></nav><p>text</p>')
+    got = render(body, css, behaviours=spy, states=True)
+    assert hexes(got[("light", "rest", "Berths")])[0] == "#333333"
+    assert hexes(got[("light", "current", "Berths")])[0] == "#9a9a9a"
+    # marked already at rest (the page as built): nothing new when marked again
+    assert hexes(got[("light", "rest", "Tides")])[0] == "#9a9a9a"
+    assert ("light", "current", "Tides") not in got
+    assert {state for _, state, _ in got} == {"rest", "current"}
+    # with states off, no entry is walked marked
+    assert {state for _, state, _ in render(body, css, behaviours=spy)} == {"rest"}
+
+
 @pytest.mark.parametrize("entry, message", [
     ({"action": "paint", "selector": "p", "value": "x"}, "action must be one of"),
     ({"action": "wrap", "selector": "", "value": "div"}, "selector must be a non-empty"),

@@ -9,9 +9,12 @@ checked against Chromium running the theme's real script (tests/browser/test_the
 A behaviour applies to a page when the page loads the theme's script (a ``<script src>``
 contains ``script``) and has the theme's marker (``marker``: a CSS selector). Users declare their own
 behaviours for their own scripts in the configuration (``behaviours``: the same fields, with
-``script`` optional). What a script changes later, on scroll or on click (the current
-table-of-contents entry, opened menus), is not modelled: :data:`NOT_MODELLED` says so once per
-site for the themes in the table.
+``script`` optional). A scroll spy, which marks the table-of-contents entry of the section in
+view as the reader scrolls, is the action ``current``: the tree is left as it is, and each
+matching element is walked again with the classes added, one at a time, in the state
+``current`` (``samples.PageWalker.disclose``). What else a script changes later, on scroll or
+on click, is not modelled: :data:`NOT_MODELLED` says so once per site for the themes in the
+table.
 """
 from __future__ import annotations
 
@@ -21,14 +24,17 @@ from functools import lru_cache
 
 from lxml import etree
 
-ACTIONS = ("add-class", "remove-class", "wrap", "wrap-children")
+from .disclosure import CURRENT  # an action, and the state of what it marks
+
+ACTIONS = ("add-class", "remove-class", "wrap", "wrap-children", "current")
 
 
 @dataclass(frozen=True)
 class Behaviour:
     theme: str  # a readable name for reports
     action: str  # "add-class" / "remove-class": the classes in ``value``; "wrap": wrap the
-    # element in ``value``; "wrap-children": wrap its content (text and children) in ``value``
+    # element in ``value``; "wrap-children": wrap its content (text and children) in ``value``;
+    # "current": the classes in ``value`` on one matching element at a time (a scroll spy)
     selector: str  # the elements changed (CSS selector)
     # classes ("a b"), or the wrappers, outermost first ("div.outer > div.inner"), each
     # tag.class[attribute=value], where {name} in a value stands for the element's attribute
@@ -60,10 +66,21 @@ BUILTIN = (
     Behaviour("mkdocs-material", "wrap-children", "[data-tabs] > .tabbed-labels > label[for]",
               "a[href=#{for}][tabindex=-1]", *_MATERIAL,
               "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    # its scroll spy marks the link of the section in view in each table of contents (the
+    # sidebar's and the one inside the navigation) "md-nav__link--active" (seen in Chromium,
+    # tests/browser/test_scroll_spies_chromium.py; those passed get "--passed", whose look is
+    # the rest's in the theme's palettes)
+    Behaviour("mkdocs-material", "current", ".md-nav--secondary a.md-nav__link",
+              "md-nav__link--active", *_MATERIAL,
+              "mkdocs-material assets/javascripts/bundle.*.min.js"),
     # MkDocs' own theme, js/base.js: document.querySelectorAll('table').forEach(table =>
     # table.classList.add('table', 'table-striped', 'table-hover'))
     Behaviour("mkdocs", "add-class", "table", "table table-striped table-hover",
               "html[data-bs-theme]", "js/base.js", "mkdocs theme js/base.js"),
+    # js/base.js: new bootstrap.ScrollSpy(document.body, {target: '.bs-sidebar'}): Bootstrap's
+    # scroll spy marks the sidebar's link of the section in view "active"
+    Behaviour("mkdocs", "current", ".bs-sidebar a.nav-link", "active", "html[data-bs-theme]",
+              "js/base.js", "mkdocs theme js/base.js"),
     # MkDocs' readthedocs theme: js/theme_extra.js adds 'docutils' to content tables, then
     # js/theme.js wraps them: $("table.docutils:not(.field-list,.footnote,.citation)")
     # .wrap("<div class='wy-table-responsive'></div>"), footnotes and citations likewise.
@@ -77,32 +94,37 @@ BUILTIN = (
               "body.wy-body-for-nav", "js/theme.js", "readthedocs theme js/theme.js"),
     Behaviour("readthedocs", "wrap", "table.docutils.citation", "div.wy-table-responsive.citation",
               "body.wy-body-for-nav", "js/theme.js", "readthedocs theme js/theme.js"),
+    # Sphinx's Furo, _static/scripts/furo.js: its scroll spy marks the table-of-contents item
+    # of the section in view "scroll-current" (its link takes the look)
+    Behaviour("furo", "current", ".toc-tree li", "scroll-current", ".sidebar-drawer",
+              "scripts/furo.js", "furo _static/scripts/furo.js"),
+    # pydata-sphinx-theme, _static/scripts/pydata-sphinx-theme.js: Bootstrap's scroll spy marks
+    # the page's table-of-contents entry in view "active", its link and its item (whose nested
+    # list the theme's stylesheet then shows; not modelled: NOT_MODELLED)
+    Behaviour("pydata-sphinx-theme", "current", ".page-toc .toc-entry > a.nav-link", "active",
+              ".bd-header", "scripts/pydata-sphinx-theme.js",
+              "pydata-sphinx-theme _static/scripts/pydata-sphinx-theme.js"),
 )
 
 # Themes whose scripts change only what is not modelled (below): (theme, marker, script), as
 # a Behaviour's; the page has the theme when both match, and the note is made
 DETECTED = (
-    # Furo's scroll spy (seen in Chromium running _static/scripts/furo.js): the table of
-    # contents entry of the section in view gets the class "scroll-current"
-    ("furo", ".sidebar-drawer", "scripts/furo.js"),
-    # pydata-sphinx-theme's _static/scripts/pydata-sphinx-theme.js: Bootstrap's scroll spy marks
-    # the entry in view "active"; in the dark, `.dropdown-menu` elements get
-    # "dropdown-menu-dark" (`"dark"===n?e.classList.add("dropdown-menu-dark")`)
+    # pydata-sphinx-theme's _static/scripts/pydata-sphinx-theme.js: in the dark,
+    # `.dropdown-menu` elements get "dropdown-menu-dark"
+    # (`"dark"===n?e.classList.add("dropdown-menu-dark")`)
     ("pydata-sphinx-theme", ".bd-header", "scripts/pydata-sphinx-theme.js"),
 )
 
 NOT_MODELLED = {
-    "mkdocs-material": "the theme's script also marks the current table-of-contents entry on "
-                       "scroll and adds buttons (copy, tabs); those are not checked",
-    "mkdocs": "the theme's script also changes classes on click (menus) and on scroll; "
+    "mkdocs-material": "the theme's script also adds buttons (copy, tabs) and marks the "
+                       "table-of-contents entries passed on scroll; those are not checked",
+    "mkdocs": "the theme's script also changes classes on click, besides opening its menus; "
               "those states are not checked",
     "readthedocs": "the theme's script also marks the current navigation entry from the URL "
                    "fragment and adds expand buttons; those are not checked",
-    "furo": "the theme's script marks the table-of-contents entry of the section in view; "
-            "that look is not checked",
-    "pydata-sphinx-theme": "the theme's script marks the table-of-contents entry of the "
-                           "section in view and darkens dropdown menus in the dark scheme; "
-                           "those looks are not checked",
+    "pydata-sphinx-theme": "the theme's script also shows the nested entries of the "
+                           "table-of-contents entry in view and darkens dropdown menus in the "
+                           "dark scheme; those looks are not checked",
 }
 
 
@@ -143,9 +165,10 @@ def from_setting(entries) -> tuple:
     return tuple(out)
 
 
-def apply(root, behaviours=BUILTIN, source=None, detected=DETECTED) -> list:
+def apply(root, behaviours=BUILTIN, source=None, detected=DETECTED, spied=None) -> list:
     """Apply the behaviours whose theme the page has, in order; returns the themes applied,
-    then those of ``detected`` (theme, marker, script) the page has.
+    then those of ``detected`` (theme, marker, script) the page has. A ``current`` behaviour
+    leaves the tree as it is: its ``(element, classes)`` go to ``spied`` (a list), when given.
 
     ``source``: the page's HTML (decoded text) the tree was parsed from, when at hand: a
     selector that names a tag or an attribute the page never mentions cannot match, and is
@@ -160,10 +183,14 @@ def apply(root, behaviours=BUILTIN, source=None, detected=DETECTED) -> list:
         if b.marker and not (mentions.may_match(b.marker) and select(root, b.marker)):
             continue
         targets = select(root, b.selector) if mentions.may_match(b.selector) else []
-        for el in targets:
-            _ACT[b.action](el, b.value)
-        if targets:
-            mentions.made(b)
+        if b.action == CURRENT:
+            if spied is not None:
+                spied.extend((el, b.value) for el in targets)
+        else:
+            for el in targets:
+                _ACT[b.action](el, b.value)
+            if targets:
+                mentions.made(b)
         if b.theme not in applied:
             applied.append(b.theme)
     for theme, marker, script in detected:

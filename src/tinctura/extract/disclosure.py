@@ -1,6 +1,8 @@
 """Content a reader shows with a click: a closed ``<details>``, the panels of tabs made of
 radio buttons (mkdocs-material's content tabs, pymdownx.tabbed, CSS-only tab sets), and the
-dropdown menus a theme's script opens (MkDocs' own theme: its whole navigation).
+dropdown menus a theme's script opens (MkDocs' own theme: its whole navigation). Last, the
+table-of-contents entries a theme's scroll spy marks as the reader scrolls are walked marked,
+one at a time, in the state ``current`` (``behaviours``' action of that name).
 
 A browser hides them until the reader opens them, so a walk of the page as it loads never meets
 their text, yet a reader does: their colours must pass like any other. Each page is therefore
@@ -21,6 +23,7 @@ from __future__ import annotations
 from lxml import etree
 
 SHOWN = "shown"  # the state of what only a disclosed walk meets
+CURRENT = "current"  # the state of an element a theme's scroll spy marks (behaviours.py)
 # Menus a theme's script opens on click: (text the page must hold, the attributes of a toggle
 # that marks the page, the menus' class, the class the script adds). Bootstrap 4 and 5
 # (MkDocs' own theme) add "show" to a dropdown's menu (recalled from memory of Bootstrap's
@@ -33,9 +36,11 @@ MENUS = (("dropdown-menu", (("data-bs-toggle", "dropdown"), ("data-toggle", "dro
 class Disclosure:
     """The elements to change on one page and the subtrees to walk once they are changed."""
 
-    def __init__(self, root, text: str | None = None):
+    def __init__(self, root, text: str | None = None, spied=()):
         """``text``: the page's HTML, when at hand (a page without a menu's class is not
-        searched for menus)."""
+        searched for menus); ``spied``: ``(element, classes)`` a theme's scroll spy adds as
+        the reader scrolls (``behaviours``' action ``current``), each walked with them in turn
+        in the state ``current``."""
         self.changes = []  # (element, attribute, value to set, value before or None)
         groups = {}  # parent of radio buttons -> its radios
         for el in root.iter("details", "input"):
@@ -69,11 +74,14 @@ class Disclosure:
                         if not any(up in inside for up in el.iterancestors())]
         # the targets, what they hold and what holds them: never replayed from another
         # page's walk (the disclosed walk tells what is new by this page's resting samples)
-        self.holders = {up for el in self.targets for up in (*el.iter(), *el.iterancestors())}
+        self.spied = [(el, classes) for el, classes in spied
+                      if not set(classes.split()) <= set((el.get("class") or "").split())]
+        self.holders = {up for el in self.targets + [el for el, _ in self.spied]
+                        for up in (*el.iter(), *el.iterancestors())}
         self.attributes = sorted({attr for _, attr, _, _ in self.changes})
 
     def __bool__(self) -> bool:
-        return bool(self.targets or self.menus)
+        return bool(self.targets or self.menus or self.spied)
 
     def apply(self):
         """Open, check and show; returns the changed elements and a function that restores

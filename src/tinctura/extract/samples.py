@@ -220,6 +220,8 @@ class PageWalker:
                 self._shown(target)
             for menu in self._closed_menus:
                 self._open(menu)
+            for target, classes in self.disclosure.spied:
+                self._spied(target, classes)
         finally:
             self.state = self.base_state = REST
             self._path_memo.clear()
@@ -241,6 +243,24 @@ class PageWalker:
                 self._run_states(controls)
             finally:
                 self.state = self.base_state = REST
+
+    def _spied(self, target, classes: str) -> None:
+        """An element as a theme's scroll spy marks it (``classes`` added: the table-of-contents
+        entry of the section in view): what differs from the resting samples, in the state
+        ``current``. The classes are taken off again; what read them is forgotten both ways."""
+        before = target.get("class")
+        have = (before or "").split()
+        target.set("class", " ".join(have + [c for c in classes.split() if c not in have]))
+        self.structure.reclassed(target)
+        try:
+            self._state(target, disclosure_mod.CURRENT, (), (), self.rest)
+        finally:
+            if before is None:
+                target.attrib.pop("class", None)
+            else:
+                target.set("class", before)
+            self.structure.reclassed(target)
+            self.state = self.base_state
 
     def _open(self, menu) -> None:
         """A menu hidden whole at rest, walked open as the resting walk goes (scopes

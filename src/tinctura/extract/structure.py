@@ -285,6 +285,23 @@ class PageStructure:
         return self.structure.intern(("root", self.structure.element_id(
             self.root, wrapper_of=self.wrapper_of)))
 
+    def reclassed(self, el) -> None:
+        """A class set on ``el`` alone and taken off again (a scroll spy's mark, walked in
+        turn on each entry): forget what read its classes, less than ``changed`` forgets for
+        the whole page. Its wrapper's classes (cssselect2 caches them), its parent's list of
+        children (its id), the lists below it and the ancestry numbers (which read classes)."""
+        wrapper = self.wrappers.get(el)
+        if wrapper is not None:
+            wrapper.__dict__.pop("classes", None)  # (a cached_property of ElementWrapper)
+        self.chains.clear()
+        for up in (el.getparent(), *el.iter()):
+            self.kids.pop(up, None)
+        if self.structure.has is not None:  # ancestors' subtree answers read it too
+            for up in el.iterancestors():
+                grand = up.getparent()
+                if grand is not None:
+                    self.kids.pop(grand, None)
+
     def changed(self, elements, attributes) -> None:
         """A scheme set ``attributes`` on ``elements``: forget what read them."""
         if not elements:

@@ -165,7 +165,8 @@ class HtmlFormatter(Formatter):
                 ("Colour schemes", ", ".join(s.schemes) or "none found"),
                 ("States", ("resting, :hover, :focus and :focus-visible of links and controls"
                             if getattr(sc, "states", True) else "resting state")
-                 + "; closed sections (details), tabs and theme menus opened"),
+                 + "; closed sections (details), tabs and theme menus opened; "
+                   "table-of-contents entries marked as a theme's scroll spy marks them"),
                 ("Viewport width", f"{getattr(sc, 'viewport_width', 1280)} CSS pixels"),
                 ("Pages checked", f"{s.pages:,}"),
                 ("Pages excluded", self.excluded())]

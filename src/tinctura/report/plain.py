@@ -20,7 +20,9 @@ _GREY_CHROMA = 0.035
 STATES = {"hover": "when hovered", "focus": "when focused",
           "focus-visible": "when focused from the keyboard",
           # a closed <details>, a tab not selected, a theme's menu (extract/disclosure.py)
-          "shown": "once opened"}
+          "shown": "once opened",
+          # a table-of-contents entry a theme's scroll spy marks (extract/behaviours.py)
+          "current": "when marked as the section in view"}
 _BOXES = ("note", "abstract", "summary", "info", "tip", "hint", "success", "question", "warning",
           "caution", "attention", "failure", "danger", "error", "bug", "example", "quote")
 
