@@ -247,13 +247,23 @@ class PageWalker:
     def _spied(self, target, classes: str) -> None:
         """An element as a theme's scroll spy marks it (``classes`` added: the table-of-contents
         entry of the section in view): what differs from the resting samples, in the state
-        ``current``. The classes are taken off again; what read them is forgotten both ways."""
+        ``current``. The classes are taken off again; what read them is forgotten both ways.
+        Entries alike (their resting key and subtree, as ``_state_shared`` compares them) are
+        walked once per site: the others are re-stamped from the first, unmarked."""
+        state, known = disclosure_mod.CURRENT, self.meta.get(target)
+        sig = (classes, self._signature(target)) if known is not None else None
+        if sig is not None and (known[1], state, sig) in self.cache.states:
+            self._state_shared(target, known[1], sig, state, (), (), self.rest)
+            return
         before = target.get("class")
         have = (before or "").split()
         target.set("class", " ".join(have + [c for c in classes.split() if c not in have]))
         self.structure.reclassed(target)
         try:
-            self._state(target, disclosure_mod.CURRENT, (), (), self.rest)
+            if sig is None:
+                self._state(target, state, (), (), self.rest)
+            else:
+                self._state_shared(target, known[1], sig, state, (), (), self.rest)
         finally:
             if before is None:
                 target.attrib.pop("class", None)
