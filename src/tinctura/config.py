@@ -361,7 +361,8 @@ SETTINGS = (
             parse=lambda t: [t], many=True, commands=("check", "pairs")),
     Setting("viewport_width", whole(1), 1280, "viewport width in CSS pixels for media queries",
             flag="--viewport-width", metavar="N", parse=int_text, commands=("check", "pairs")),
-    Setting("states", boolean, True, "also check :hover, :focus and :focus-visible",
+    Setting("states", boolean, True, "also check :hover, :focus and :focus-visible, and the "
+            "table-of-contents entry a theme's scroll spy marks",
             flag="--states", commands=("check", "pairs")),
     Setting("schemes", optional(schemes), None, "colour schemes replacing discovery: a list of "
             "{name, media, attributes} (the command line: a JSON file of that list)",
