@@ -373,8 +373,8 @@ SETTINGS = (
             "cache folder ($TINCTURA_CACHE_DIR, else $XDG_CACHE_HOME/tinctura or "
             "~/.cache/tinctura)", flag="--cache", commands=("check", "pairs")),
     Setting("behaviours", behaviours, (), "what the site's own scripts change before a reader "
-            "sees a page: a list of {action, selector, value[, marker, script]} (the command "
-            "line: a JSON file of that list)", flag="--behaviours", metavar="FILE",
+            "sees a page: a list of {action, selector, value[, marker, script, within]} (the "
+            "command line: a JSON file of that list)", flag="--behaviours", metavar="FILE",
             parse=json_file, commands=("check", "pairs")),
     Setting("theme_behaviours", boolean, True, "apply the themes' script behaviours",
             where=frozenset({"file", "plugin"})),

@@ -131,7 +131,8 @@ def test_a_scroll_spys_mark_is_walked_in_turn(render):
     # tree keeps no mark (the other entries and the rest of the page are as they are)
     from tinctura.extract.behaviours import from_setting
 
-    spy = from_setting([{"action": "current", "selector": "nav.toc li", "value": "here"}])
+    spy = from_setting([{"action": "current", "selector": "li", "value": "here",
+                         "within": "nav.toc"}])
     css = ".toc a { color: #333333; } .toc li.here > a { color: #9a9a9a; }"
     body = ('<nav class="toc"><ul><li><a href="#a">Berths</a></li>'
             '<li class="here"><a href="#b">Tides</a></li></ul></nav><p>text</p>')
@@ -151,6 +152,7 @@ def test_a_scroll_spys_mark_is_walked_in_turn(render):
     ({"action": "wrap", "selector": "", "value": "div"}, "selector must be a non-empty"),
     ({"action": "wrap", "selector": "p[", "value": "div"}, "invalid selector"),
     ({"action": "wrap", "selector": "p", "value": "div", "colour": "red"}, "unknown keys colour"),
+    ({"action": "current", "selector": "li", "value": "on", "within": "nav["}, "invalid selector"),
 ])
 def test_bad_behaviours_are_named(entry, message):
     from tinctura.extract.behaviours import from_setting

@@ -42,6 +42,10 @@ class Behaviour:
     marker: str = ""  # the page has the theme when this selector matches ("" always)
     script: str = ""  # ... and loads a script whose src contains this ("" any page)
     source: str = ""  # where the theme's script does it
+    # the elements matching ``selector`` at or below each element matching this, searched
+    # from each of those ("" the whole page): far faster than "container item" where the
+    # item is common and the container rare (``_targets``)
+    within: str = ""
 
 
 _MATERIAL = ("body", "assets/javascripts/bundle.")  # any page of the theme; its script bundle
@@ -70,17 +74,17 @@ BUILTIN = (
     # sidebar's and the one inside the navigation) "md-nav__link--active" (seen in Chromium,
     # tests/browser/test_scroll_spies_chromium.py; those passed get "--passed", whose look is
     # the rest's in the theme's palettes)
-    Behaviour("mkdocs-material", "current", ".md-nav--secondary a.md-nav__link",
-              "md-nav__link--active", *_MATERIAL,
-              "mkdocs-material assets/javascripts/bundle.*.min.js"),
+    Behaviour("mkdocs-material", "current", "a.md-nav__link", "md-nav__link--active",
+              *_MATERIAL, "mkdocs-material assets/javascripts/bundle.*.min.js",
+              within=".md-nav--secondary"),
     # MkDocs' own theme, js/base.js: document.querySelectorAll('table').forEach(table =>
     # table.classList.add('table', 'table-striped', 'table-hover'))
     Behaviour("mkdocs", "add-class", "table", "table table-striped table-hover",
               "html[data-bs-theme]", "js/base.js", "mkdocs theme js/base.js"),
     # js/base.js: new bootstrap.ScrollSpy(document.body, {target: '.bs-sidebar'}): Bootstrap's
     # scroll spy marks the sidebar's link of the section in view "active"
-    Behaviour("mkdocs", "current", ".bs-sidebar a.nav-link", "active", "html[data-bs-theme]",
-              "js/base.js", "mkdocs theme js/base.js"),
+    Behaviour("mkdocs", "current", "a.nav-link", "active", "html[data-bs-theme]",
+              "js/base.js", "mkdocs theme js/base.js", within=".bs-sidebar"),
     # MkDocs' readthedocs theme: js/theme_extra.js adds 'docutils' to content tables, then
     # js/theme.js wraps them: $("table.docutils:not(.field-list,.footnote,.citation)")
     # .wrap("<div class='wy-table-responsive'></div>"), footnotes and citations likewise.
@@ -96,14 +100,14 @@ BUILTIN = (
               "body.wy-body-for-nav", "js/theme.js", "readthedocs theme js/theme.js"),
     # Sphinx's Furo, _static/scripts/furo.js: its scroll spy marks the table-of-contents item
     # of the section in view "scroll-current" (its link takes the look)
-    Behaviour("furo", "current", ".toc-tree li", "scroll-current", ".sidebar-drawer",
-              "scripts/furo.js", "furo _static/scripts/furo.js"),
+    Behaviour("furo", "current", "li", "scroll-current", ".sidebar-drawer",
+              "scripts/furo.js", "furo _static/scripts/furo.js", within=".toc-tree"),
     # pydata-sphinx-theme, _static/scripts/pydata-sphinx-theme.js: Bootstrap's scroll spy marks
     # the page's table-of-contents entry in view "active", its link and its item (whose nested
     # list the theme's stylesheet then shows; not modelled: NOT_MODELLED)
-    Behaviour("pydata-sphinx-theme", "current", ".page-toc .toc-entry > a.nav-link", "active",
+    Behaviour("pydata-sphinx-theme", "current", ".toc-entry > a.nav-link", "active",
               ".bd-header", "scripts/pydata-sphinx-theme.js",
-              "pydata-sphinx-theme _static/scripts/pydata-sphinx-theme.js"),
+              "pydata-sphinx-theme _static/scripts/pydata-sphinx-theme.js", within=".page-toc"),
 )
 
 # Themes whose scripts change only what is not modelled (below): (theme, marker, script), as
@@ -141,7 +145,8 @@ def from_setting(entries) -> tuple:
         where = f"behaviour #{n}"
         if not isinstance(entry, dict):
             raise ValueError(f"{where}: expected a mapping with action, selector, value")
-        unknown = set(entry) - {"action", "selector", "value", "marker", "script", "theme"}
+        unknown = set(entry) - {"action", "selector", "value", "marker", "script", "theme",
+                                "within"}
         if unknown:
             raise ValueError(f"{where}: unknown keys {', '.join(sorted(unknown))}")
         if entry.get("action") not in ACTIONS:
@@ -151,14 +156,16 @@ def from_setting(entries) -> tuple:
                 raise ValueError(f"{where}: {key} must be a non-empty string")
         behaviour = Behaviour(entry.get("theme", "configuration"), entry["action"],
                               entry["selector"], entry["value"], entry.get("marker", ""),
-                              entry.get("script", ""), "configuration")
+                              entry.get("script", ""), "configuration",
+                              entry.get("within", ""))
         if behaviour.action.startswith("wrap") and not all(
                 _PART.fullmatch(p.strip()) for p in behaviour.value.split(">")):
             raise ValueError(f"{where}: value must be tag.class[attribute=value] > ...")
         try:
             _compiled(behaviour.selector)
-            if behaviour.marker:
-                _compiled(behaviour.marker)
+            for other in (behaviour.marker, behaviour.within):
+                if other:
+                    _compiled(other)
         except Exception as exc:
             raise ValueError(f"{where}: invalid selector: {exc}") from None
         out.append(behaviour)
@@ -182,7 +189,7 @@ def apply(root, behaviours=BUILTIN, source=None, detected=DETECTED, spied=None) 
             continue
         if b.marker and not (mentions.may_match(b.marker) and select(root, b.marker)):
             continue
-        targets = select(root, b.selector) if mentions.may_match(b.selector) else []
+        targets = _targets(root, b, mentions)
         if b.action == CURRENT:
             if spied is not None:
                 spied.extend((el, b.value) for el in targets)
@@ -198,6 +205,21 @@ def apply(root, behaviours=BUILTIN, source=None, detected=DETECTED, spied=None) 
                 mentions.may_match(marker) and select(root, marker):
             applied.append(theme)
     return applied
+
+
+def _targets(root, b: Behaviour, mentions) -> list:
+    """The elements ``b`` changes. With ``within``, each container is searched from itself
+    down: a scroll spy's links (``a.md-nav__link``, one of a thousand in a large navigation)
+    inside a rare container cost 6 ms a page written as one selector, whose search looks up
+    from every such link (``_translator``), measured on 1,000 pages."""
+    if not mentions.may_match(b.selector) or (b.within and not mentions.may_match(b.within)):
+        return []
+    if not b.within:
+        return select(root, b.selector)
+    found = {}
+    for container in select(root, b.within):
+        found.update(dict.fromkeys(select(container, b.selector)))
+    return list(found)
 
 
 # Tags an HTML parser (or parse_html) may create without a tag in the source.
