@@ -111,6 +111,28 @@ def chromium_version(driver) -> str:
 
 # ---- schemes ----------------------------------------------------------------------------------
 
+# The XPaths, as lxml's getpath writes them (a position only among several siblings of the same
+# tag), of the elements matching the CSS selector arguments[0]
+_XPATHS_JS = """
+const path = el => {
+  const steps = [];
+  for (; el && el.nodeType === 1; el = el.parentElement) {
+    const tag = el.tagName.toLowerCase();
+    const same = el.parentElement ? Array.from(el.parentElement.children)
+      .filter(c => c.tagName === el.tagName) : [el];
+    steps.unshift(same.length > 1 ? `${tag}[${same.indexOf(el) + 1}]` : tag);
+  }
+  return '/' + steps.join('/');
+};
+return Array.from(document.querySelectorAll(arguments[0])).map(path);
+"""
+
+
+def xpaths_of(driver, selector: str) -> list[str]:
+    """The XPaths of the elements of the current page that match ``selector``."""
+    return driver.execute_script(_XPATHS_JS, selector)
+
+
 _DISCOVER_JS = """
 const inputs = Array.from(document.querySelectorAll('input.md-option[data-md-color-scheme]'));
 if (inputs.length) return {kind: 'material', entries: inputs.map(i => ({

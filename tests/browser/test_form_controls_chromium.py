@@ -46,8 +46,12 @@ def _rgba(css: str) -> tuple:
     return tuple(p / 255 for p in parts[:3]) + (alpha,)
 
 
-def _chromium(driver, url) -> dict:
+def _chromium(driver, url, focus=None) -> dict:
+    """Chromium's computed colour and background of each element with an id (the element
+    ``focus`` names focused first), and the page's canvas."""
     driver.get(url)
+    if focus:
+        driver.execute_script(f"document.getElementById('{focus}').focus()")
     found = driver.execute_script(
         "const out = {canvas: getComputedStyle(document.documentElement).backgroundColor};"
         "for (const el of document.querySelectorAll('[id]')) {"
@@ -120,24 +124,13 @@ ROWS = {"b1": "select[1]/option[1]", "b2": "select[1]/option[2]", "b3": "select[
 UNDER = {"b": "berths", "g": "lights", "l": "lights"}  # each row's list box
 
 
-def _rows(driver, url, focus=None) -> dict:
-    driver.get(url)
-    if focus:
-        driver.execute_script(f"document.getElementById('{focus}').focus()")
-    return driver.execute_script(
-        "const out = {};"
-        "for (const el of document.querySelectorAll('[id]')) {"
-        "  const s = getComputedStyle(el); out[el.id] = [s.color, s.backgroundColor]; }"
-        "return out;")
-
-
 @pytest.fixture(scope="module")
 def list_boxes(tmp_path_factory):
     root = tmp_path_factory.mktemp("list-boxes")
     (root / "light.html").write_text(LIST_BOXES.format(style=""), encoding="utf-8")
     (root / "dark.html").write_text(LIST_BOXES.format(style=DARK), encoding="utf-8")
     with ref.serve(root) as base, ref.browser() as driver:
-        chromium = {(name, focus): _rows(driver, f"{base}/{name}", focus)
+        chromium = {(name, focus): _chromium(driver, f"{base}/{name}", focus)
                     for name in ("light.html", "dark.html") for focus in (None, "berths")}
     report = check_paths([str(root)], Options(jobs=1, exemptions=(), states=True))
     ours = {}

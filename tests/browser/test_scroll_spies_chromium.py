@@ -61,22 +61,6 @@ def _sphinx(tmp_path, theme: str):
     return out
 
 
-# XPaths (as lxml's getpath writes them) of the elements carrying the class arguments[0]
-_MARKED_XPATHS = """
-const path = el => {
-  const steps = [];
-  for (; el && el.nodeType === 1; el = el.parentElement) {
-    const tag = el.tagName.toLowerCase();
-    const same = el.parentElement ? Array.from(el.parentElement.children)
-      .filter(c => c.tagName === el.tagName) : [el];
-    steps.unshift(same.length > 1 ? `${tag}[${same.indexOf(el) + 1}]` : tag);
-  }
-  return '/' + steps.join('/');
-};
-return Array.from(document.getElementsByClassName(arguments[0])).map(path);
-"""
-
-
 def _scrolled(site, mark: str):
     """Chromium's samples of index.html scrolled to Section 4, its scripts running, and the
     XPaths its scroll spy marked."""
@@ -87,7 +71,7 @@ def _scrolled(site, mark: str):
         time.sleep(0.5)
         driver.execute_script("document.getElementById('section-4').scrollIntoView()")
         time.sleep(1.0)
-        marked = driver.execute_script(_MARKED_XPATHS, mark)
+        marked = ref.xpaths_of(driver, f".{mark}")
         samples, _ = ref.collect_current(driver, states=())
     return samples, marked
 

@@ -298,23 +298,9 @@ def _sphinx(tmp_path, theme: str):
     return out
 
 
-# XPaths of the table-of-contents entries a scroll spy marked as the section in view (class
-# "active" in a nav or aside: pydata-sphinx-theme; "scroll-current": Furo), written as lxml's
-# getpath writes them (a position only among several siblings of the same tag)
-_ACTIVE_XPATHS = """
-const path = el => {
-  const steps = [];
-  for (; el && el.nodeType === 1; el = el.parentElement) {
-    const tag = el.tagName.toLowerCase();
-    const same = el.parentElement ? Array.from(el.parentElement.children)
-      .filter(c => c.tagName === el.tagName) : [el];
-    steps.unshift(same.length > 1 ? `${tag}[${same.indexOf(el) + 1}]` : tag);
-  }
-  return '/' + steps.join('/');
-};
-return Array.from(document.querySelectorAll('nav .active, aside .active, .scroll-current'))
-  .map(path);
-"""
+# the table-of-contents entries a scroll spy marked as the section in view (class "active" in
+# a nav or aside: pydata-sphinx-theme; "scroll-current": Furo)
+_ACTIVE = "nav .active, aside .active, .scroll-current"
 
 
 @pytest.mark.parametrize("theme", ["furo", "pydata_sphinx_theme"])
@@ -343,7 +329,7 @@ def test_sphinx_themes_scripts_set_data_theme_where_tinctura_sets_it(tmp_path, t
             samples, _ = ref.collect_current(driver, states=())
             # the themes' scroll spies mark the section in view in the page's table of
             # contents: a change of their scripts' that tinctura does not model
-            scrolled = set(driver.execute_script(_ACTIVE_XPATHS))
+            scrolled = set(ref.xpaths_of(driver, _ACTIVE))
             compared = disagree = 0
             for s in samples:
                 if s["status"] != "determined" or s.get("pseudo") or \

@@ -282,7 +282,8 @@ def _named(selector: str) -> tuple:
     return tuple(out)
 
 
-def _add_classes(el, value: str) -> None:
+def add_classes(el, value: str) -> None:
+    """The classes of ``value`` added to ``el``'s, those it has kept once."""
     have = (el.get("class") or "").split()
     el.set("class", " ".join(have + [c for c in value.split() if c not in have]))
 
@@ -338,7 +339,7 @@ def _wrappers(el, value: str) -> tuple:
     return outer, inner
 
 
-_ACT = {"add-class": _add_classes, "remove-class": _remove_classes, "wrap": _wrap,
+_ACT = {"add-class": add_classes, "remove-class": _remove_classes, "wrap": _wrap,
         "wrap-children": _wrap_children}
 
 

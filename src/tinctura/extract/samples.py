@@ -18,6 +18,7 @@ from __future__ import annotations
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
+from . import behaviours as behaviours_mod
 from . import disclosure as disclosure_mod
 from . import exempt as exempt_mod
 from . import fragments as frag_mod
@@ -256,8 +257,7 @@ class PageWalker:
             self._state_shared(target, known[1], sig, state, (), (), self.rest)
             return
         before = target.get("class")
-        have = (before or "").split()
-        target.set("class", " ".join(have + [c for c in classes.split() if c not in have]))
+        behaviours_mod.add_classes(target, classes)
         self.structure.reclassed(target)
         try:
             if sig is None:
