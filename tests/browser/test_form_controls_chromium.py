@@ -60,11 +60,16 @@ def _chromium(driver, url, focus=None) -> dict:
     return found
 
 
+def _light_and_dark(root, page: str):
+    """``page`` written as light.html and, under ``color-scheme: dark``, dark.html."""
+    (root / "light.html").write_text(page.format(style=""), encoding="utf-8")
+    (root / "dark.html").write_text(page.format(style=DARK), encoding="utf-8")
+    return root
+
+
 @pytest.fixture(scope="module")
 def pages(tmp_path_factory):
-    root = tmp_path_factory.mktemp("controls")
-    (root / "light.html").write_text(CONTROLS.format(style=""), encoding="utf-8")
-    (root / "dark.html").write_text(CONTROLS.format(style=DARK), encoding="utf-8")
+    root = _light_and_dark(tmp_path_factory.mktemp("controls"), CONTROLS)
     with ref.serve(root) as base, ref.browser() as driver:
         chromium = {name: _chromium(driver, f"{base}/{name}") for name in ("light.html",
                                                                           "dark.html")}
@@ -126,9 +131,7 @@ UNDER = {"b": "berths", "g": "lights", "l": "lights"}  # each row's list box
 
 @pytest.fixture(scope="module")
 def list_boxes(tmp_path_factory):
-    root = tmp_path_factory.mktemp("list-boxes")
-    (root / "light.html").write_text(LIST_BOXES.format(style=""), encoding="utf-8")
-    (root / "dark.html").write_text(LIST_BOXES.format(style=DARK), encoding="utf-8")
+    root = _light_and_dark(tmp_path_factory.mktemp("list-boxes"), LIST_BOXES)
     with ref.serve(root) as base, ref.browser() as driver:
         chromium = {(name, focus): _chromium(driver, f"{base}/{name}", focus)
                     for name in ("light.html", "dark.html") for focus in (None, "berths")}
