@@ -61,3 +61,23 @@ def test_a_missing_page_has_no_tree_and_costs_nothing(tmp_path):
     assert pages.tree("gone.html") is None
     assert pages.element("gone.html", "/html/body") is None
     assert pages._bytes == 0
+
+
+def test_the_writer_locates_ahead_page_by_page(tmp_path, monkeypatch):
+    # examples of one problem are on different pages: asked problem by problem, pages kept
+    # within a small budget were parsed again; located ahead, page by page, once each
+    from types import SimpleNamespace
+
+    from tinctura.writer import WriterAid
+
+    monkeypatch.setattr(locator.Pages, "KEEP_BYTES", 100)  # two pages kept
+    names = _site(tmp_path, [1000] * 4)
+    asked = [SimpleNamespace(page=names[i % 4], xpath="/html/body/p", text="x")
+             for i in (0, 1, 2, 3, 1, 0, 3, 2, 0, 2)]
+    aid = WriterAid(str(tmp_path))
+    parsed = _counting(aid.pages)
+    aid.locate_all(asked)
+    assert sorted(parsed) == names
+    located = [aid.locate(s) for s in asked]  # as a report asks: nothing parsed again
+    assert sorted(parsed) == names
+    assert {loc.locator for loc in located} == {"body > p"}

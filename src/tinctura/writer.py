@@ -58,12 +58,21 @@ class WriterAid:
                 own = " ".join("".join(el.itertext()).split())
                 source = self.sources.locate(sample.page, sample.text, marks, own)
             got = Location(readable(el) + pseudo(sample.xpath), source, marks)
-        if len(self._cache) > 4096:
+        if len(self._cache) > LOCATED_MOST:
             self._cache.clear()
         self._cache[key] = got
         return got
 
     __call__ = locate  # reports call the aid itself to locate a sample
+
+    def locate_all(self, samples) -> None:
+        """``locate`` each of ``samples``, page by page (a page is parsed once), while the
+        cache holds them all; beyond, reports locate the rest as they ask."""
+        room = LOCATED_MOST - len(self._cache)
+        if room <= 0:
+            return
+        for sample in sorted(samples[:room], key=lambda s: s.page):
+            self.locate(sample)
 
     def locator(self, page: str, xpath: str) -> str:
         """The readable locator of any element of a page (an ancestor a colour came from)."""
@@ -224,6 +233,7 @@ class WriterAid:
 # more verifications, at most, for fixes moved to the rules using a variable or keeping out of
 # the elements of rules they took over
 NARROWING_ROUNDS = 2
+LOCATED_MOST = 4096  # samples' locations kept (WriterAid.locate)
 
 
 def _to_narrow(problems, planned) -> frozenset:
