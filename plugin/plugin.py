@@ -260,6 +260,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.helper, self.pool = self.pool, None
         for done in self.helper.results(keep=True):
             self.take(*done)
+            # (while the last pages are checked this process waits: it gates those in)
+            self.gate_early()
 
     def release(self) -> None:
         """End the workers (kept by ``collect``, or left by a failed build); the collector

@@ -221,6 +221,31 @@ def test_deferred_pages_are_checked_by_the_worker_and_its_copy(site, monkeypatch
         assert seen(answer[1]) == seen(engine.judge_page(here, rel, options)[1])
 
 
+def test_pages_kept_for_the_end_are_always_the_last_given(site):
+    """The plugin gates answers in page order: a page kept for the end (the worker behind)
+    goes to the worker as soon as it has room, before any later page, and while one is kept
+    every later page is kept after it; the answers come in the order the pages were given."""
+    from tinctura import engine
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    names = [f"p{n}/index.html" for n in range(4)]
+    html = {rel: (site / rel).read_text() for rel in names}
+    pool = engine.PagePool(str(site), Options(keep_samples=False), 1)
+    room = [0]
+    pool._behind = lambda: len(pool._pending) >= room[0]  # how far behind, set by the test
+    for rel in names[:2]:  # behind: kept
+        assert not pool.submit(rel, html[rel]) and pool.defer(rel, html[rel])
+    room[0] = 1  # room for one: the first kept goes, the next page waits behind the second
+    assert not pool.submit(names[2], html[names[2]]) and pool.defer(names[2], html[names[2]])
+    assert [rel for rel, _ in pool._pending] == names[:1]
+    assert [rel for rel, _ in pool._deferred] == names[1:3]
+    room[0] = 10  # caught up: the kept ones first, then the new page
+    assert pool.submit(names[3], html[names[3]])
+    assert [rel for rel, _ in pool._pending] == names and not pool._deferred
+    assert [rel for rel, answer in pool.results() if not isinstance(answer, Exception)] == names
+
+
 def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
     """After the last page the plugin's worker checks some pages again with the fixes as CSS
     (overrides.verify): what it finds is what checking them here finds."""

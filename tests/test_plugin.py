@@ -429,6 +429,29 @@ def test_worker_processes_give_the_same_log(tmp_path, caplog):
     assert logs[0] == logs[1] and any("TC100 text-ratio" in line for line in logs[0])
 
 
+@slow
+def test_pages_go_through_the_gate_while_the_worker_checks_the_last(tmp_path, monkeypatch,
+                                                                   caplog):
+    """With the worker behind (one page ahead at most), pages are kept for the end; they are
+    always the last given, so the pages answered before them go through the gate as they
+    come, and by the end of the build every page has (none is left for the serial end)."""
+    from tinctura.plugin import plugin as plugin_mod
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    monkeypatch.setattr(engine, "PAGES_AHEAD", 1)
+    seen = {}
+    original = plugin_mod.TincturaPlugin.gated
+
+    def gated(self, records):
+        seen["early"], seen["records"] = len(self.early.done), len(records)
+        return original(self, records)
+    monkeypatch.setattr(plugin_mod.TincturaPlugin, "gated", gated)
+    logs = logs_with_and_without_workers(tmp_path, caplog)
+    assert logs[0] == logs[1]
+    assert seen["records"] == len(PAGES) and seen["early"] == seen["records"]  # (jobs: 2)
+
+
 def logs_with_and_without_workers(tmp_path, caplog) -> list:
     """The build's log with `jobs: 1` (in-process) and with `jobs: 2` (a worker)."""
     logs = []

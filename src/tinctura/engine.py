@@ -817,18 +817,34 @@ class PagePool:
             self._done += 1
 
     def submit(self, rel: str, html: str) -> bool:
-        """Queue a page; False when the workers are behind (the caller then checks it itself,
-        which keeps memory bounded and shares the work)."""
-        if len(self._pending) - self._done >= self._limit:
+        """Queue a page; False when the workers are behind (the caller then keeps it for the
+        end, ``defer``, or checks it itself, which keeps memory bounded and shares the work).
+        The pages kept for the end go to the workers first as they catch up, so those kept
+        are always the last given and the answers come in page order up to them: the plugin
+        takes the answers through its gate in page order, and one early page kept for the end
+        held back every later one until the build's end (191 of 200 pages)."""
+        self._catch_up()
+        if self._deferred or self._behind():
             return False
         try:
-            task = (rel, _to_file(self._spool, html), self._spool)
+            path = _to_file(self._spool, html)
         except OSError:  # no room for it: the caller checks it
             return False
-        self._pending.append((rel, self._pool.apply_async(
-            _worker_check_html, (task,), callback=self._finished,
-            error_callback=self._finished)))
+        self._queue(rel, path)
         return True
+
+    def _behind(self) -> bool:
+        return len(self._pending) - self._done >= self._limit
+
+    def _catch_up(self) -> None:
+        """The pages kept for the end, oldest first, to the workers while they have room."""
+        while self._deferred and not self._behind():
+            self._queue(*self._deferred.pop(0))
+
+    def _queue(self, rel: str, path: str) -> None:
+        self._pending.append((rel, self._pool.apply_async(
+            _worker_check_html, ((rel, path, self._spool),), callback=self._finished,
+            error_callback=self._finished)))
 
     def defer(self, rel: str, html: str) -> bool:
         """Keep a page for the end, when the workers are behind (``submit`` said False):
