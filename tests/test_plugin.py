@@ -468,8 +468,9 @@ def logs_with_and_without_workers(tmp_path, caplog) -> list:
 @slow
 def test_stylesheets_are_parsed_ahead_while_markdown_is_converted(tmp_path, monkeypatch, caplog):
     """With workers, the site's stylesheets are parsed in another process from their sources
-    before the first page (extract/prepared.py); the first page takes them, the log is what
-    parsing them in-process gives, and nothing is left behind. `serve` prepares nothing."""
+    before the first page (extract/prepared.py); the worker checking the first page takes
+    them, the log is what parsing them in-process gives, and nothing is left behind. `serve`
+    prepares nothing."""
     from tinctura.extract import prepared
 
     started = []
@@ -480,11 +481,22 @@ def test_stylesheets_are_parsed_ahead_while_markdown_is_converted(tmp_path, monk
         started[-1].process.join(10)
         return started[-1]
 
+    took = tmp_path / "taken"  # (written by the worker process)
+    take = prepared.Prepared.take
+
+    def taking(self, path, digest):
+        got = take(self, path, digest)
+        if got is not None:
+            with open(took, "a", encoding="utf-8") as fh:
+                fh.write(os.path.basename(path) + "\n")
+        return got
+
     monkeypatch.setattr(prepared, "start", finished)
+    monkeypatch.setattr(prepared.Prepared, "take", taking)
     logs = logs_with_and_without_workers(tmp_path, caplog)
     assert logs[0] == logs[1]
     assert len(started) == 1  # jobs 1: no worker, nothing to prepare
-    assert started[0].taken == 1 and not started[0].names  # site.css, taken by the first page
+    assert took.read_text(encoding="utf-8").split() == ["site.css"]  # parsed once, ahead
     assert not started[0].process.is_alive() and not os.path.exists(started[0].folder)
     project = make_project(tmp_path / "serve", {"jobs": 2, "fail_on": "never"})
     config = configure(project)
