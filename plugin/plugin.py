@@ -515,6 +515,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             {id(p): n for n, p in enumerate(found, 1)}
         several = len(numbered) > 1
         detail, briefed = self.config.log_detail, False
+        if log.isEnabledFor(logging.WARNING):  # (each line names its examples' places)
+            outputs.locate_ahead(locate, found)
         for problem in found:
             level = logging.INFO if problem.severity == "info" else logging.WARNING
             if log.isEnabledFor(level):  # (`mkdocs build -q`: each line would be dropped)

@@ -159,7 +159,8 @@ def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=
     """Write each ``(format, file or None)`` of ``specs``; no file: ``stdout``."""
     from . import FORMATS, render
 
-    _locate_ahead(header.locate, problems)
+    if specs:
+        locate_ahead(header.locate, problems)
     for name, path in specs:
         view = GateView(findings, FORMATS[name].marked, counts)
         if path:
@@ -171,7 +172,7 @@ def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=
                    colour_choice=colour_choice)
 
 
-def _locate_ahead(aid, problems) -> None:
+def locate_ahead(aid, problems) -> None:
     """Locate each problem's worst occurrence and the examples its sentence names, page by
     page: reports ask for them problem by problem, and the examples of one problem are on
     different pages, so asked in that order the pages kept parsed (``locator.Pages``) were
