@@ -258,8 +258,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if self.pool is None:
             return
         self.helper, self.pool = self.pool, None
-        for done in self.helper.results(keep=True):
+        for n, done in enumerate(self.helper.results(keep=True)):
             self.end_preparation()
+            if n == 0:  # (the last pages are under way: this process waits for them)
+                engine.ready_for_site_rules()
             self.take(*done)
             # (while the last pages are checked this process waits: it gates those in)
             self.gate_early()
