@@ -279,8 +279,9 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             self.gc_before = None
 
     def end_preparation(self) -> None:
-        """The first page has taken what it could: the process parsing stylesheets ahead
-        ends (it would compete with the workers for the cores) and its folder goes."""
+        """The first page has taken what it could (a worker has answered, or the page was
+        checked here): the process parsing stylesheets ahead ends (it would compete with the
+        workers for the cores) and its folder goes."""
         if self.prepared is not None:
             self.prepared.close()
             self.prepared = None

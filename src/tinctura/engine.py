@@ -783,8 +783,8 @@ class PagePool:
     each page as MkDocs renders the next). ``submit`` returns at once; ``results`` gives
     ``(rel, result or exception)`` in submission order.
 
-    ``site``: the caller's Site, which has checked a page: each worker starts from a copy of it
-    (forked, not pickled), with its stylesheets parsed and its caches warm."""
+    ``site``: the caller's Site: each worker starts from a copy of it (forked, not pickled),
+    with whatever it holds (the plugin's: the stylesheets parsed ahead, ``prepared``)."""
 
     def __init__(self, root: str, options: Options, workers: int, site=None):
         import multiprocessing
