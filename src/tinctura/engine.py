@@ -15,6 +15,7 @@ from __future__ import annotations
 import dataclasses
 import fnmatch
 import gc
+import importlib
 import os
 import pickle
 import re
@@ -513,7 +514,7 @@ def judge_site(palette_uses: dict, options: Options, ordered: bool = False) -> l
 def ready_for_site_rules() -> None:
     """Import what ``judge_site`` computes with (numpy, for CIECAM02: 45 ms) ahead of it: the
     plugin does so while its workers check the last pages and MkDocs' process only waits."""
-    from .colour import ciecam02  # noqa: F401
+    importlib.import_module(".colour.ciecam02", __package__)
 
 
 def iter_pages(paths, options: Options, judged: bool = False, sites=None):
