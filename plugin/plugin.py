@@ -41,6 +41,9 @@ from .config import TincturaConfig
 log = get_plugin_logger(__name__)
 
 
+SHARED_MOST = 200_000  # distinct record parts shared (TincturaPlugin.keep): a bound only
+
+
 class PageRecord:
     """What one page produced, and the digest of the HTML it was computed from."""
 
@@ -84,6 +87,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.gc_before = None  # the collector's thresholds while pages are checked (release)
         self.kept_now: set = set()  # pages checked in this build
         self.prepared = None  # stylesheets parsed ahead while MkDocs converts the Markdown
+        self.shared: dict = {}  # one object for equal parts of the pages' records (keep)
 
     # -- lifecycle -------------------------------------------------------------------------
 
@@ -227,6 +231,10 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
     def keep(self, rel: str, key: str | None, judged) -> None:
         result, findings, uses = judged
         self.found.replace(rel, findings)
+        if len(self.shared) > SHARED_MOST:  # (later pages then share among themselves)
+            self.shared.clear()
+        result.palette = palette_mod.shared(result.palette, self.shared)
+        uses = problems.shared_uses(uses, self.shared)
         self.records[rel] = PageRecord(key, result, len(findings), uses)
         self.stale.discard(rel)
         self.rechecked.append(rel)

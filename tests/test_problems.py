@@ -338,3 +338,42 @@ def test_a_fix_at_the_cause_passes_on_the_background_its_hex_stands_for():
     (problem,) = group(run([link], Options(rules=("TC200",))), [link])
     assert to_hex(link.bg) == "#1e2129" and link.bg != problem.fix_at_cause.backgrounds[0]
     assert problem.worst.args["test"](problem.fix_at_cause.colour, link.bg)
+
+
+def test_pages_records_share_equal_parts_and_merge_as_before():
+    """The plugin keeps each page's declaration uses and palette uses (``mkdocs serve``
+    checks only changed pages again): equal declarations, backgrounds, keys and causes on two
+    pages become one object, and merging the pages gives what merging the originals gave."""
+    import copy
+
+    from tinctura import palette
+    from tinctura.problems import merge_uses, shared_uses
+
+    nav = Declaration("--accent", "#4051b5", "theme.css", 4, "[data-scheme=indigo]", "author")
+    body = Declaration("color", "#333", "site.css", 9, ".note", "author")
+    pages = [{nav: {(1.0, 1.0, 1.0): {"default"}}, body: {(0.9, 0.9, 0.9): {"default"}}},
+             {nav: {(1.0, 1.0, 1.0): {"default"}}, body: {(0.0, 0.0, 0.0): {"slate"}}}]
+    pages = copy.deepcopy(pages)  # (as unpickled: equal, not the same objects)
+    table = {}
+    kept = [shared_uses(page, table) for page in pages]
+    (d1, b1), (d2, b2) = [next((d, b) for d, b in k.items() if d == nav) for k in kept]
+    assert d1 is d2 and b1 is b2  # the navigation's declaration: one object
+    assert [k[body] for k in kept] == [p[body] for p in pages]  # the others: their own
+    merged, expected = {}, {}
+    for k, p in zip(kept, pages):
+        merge_uses(merged, k)
+        merge_uses(expected, p)
+    assert merged == expected and kept[0][nav] == {(1.0, 1.0, 1.0): {"default"}}
+
+    cause = Cause(nav)
+    entry = palette.Entry("--accent", "property", "--accent")
+    uses = [{(entry, "text", (0.25, 0.32, 0.71), (1.0, 1.0, 1.0), "default"):
+             palette.Use(3, [(f"p{n}.html", 7, "/html/body/a", "Home")], copy.deepcopy(cause))}
+            for n in range(2)]
+    shared = [palette.shared(u, table) for u in uses]
+    (k1, u1), (k2, u2) = [next(iter(s.items())) for s in shared]
+    assert k1 is k2 and u1.cause is u2.cause and u1 is not u2  # places stay each page's
+    site = {}
+    for s in shared:
+        palette.merge(site, s)
+    assert next(iter(site.values())).count == 6 and len(next(iter(site.values())).where) == 2

@@ -201,6 +201,18 @@ def merge(into: dict, more: dict, times: int = 1) -> dict:
     return into
 
 
+def shared(uses: dict, table: dict) -> dict:
+    """``uses`` (a page's, kept by the plugin) with their keys and causes the objects
+    ``table`` already holds for equal ones, as ``problems.shared_uses`` does: 19 KB a page
+    kept, 10 KB shared (the examples' places stay each page's own)."""
+    out = {}
+    for key, use in uses.items():
+        if use.cause is not None:
+            use.cause = table.setdefault(("cause", use.cause), use.cause)
+        out[table.setdefault(("key", key), key)] = use
+    return out
+
+
 def families(uses) -> dict:
     """Family -> the discovered entries seen in it, over a site's uses."""
     seen: dict = {}
