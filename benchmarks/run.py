@@ -495,6 +495,14 @@ def report_size(res: dict, jobs: int) -> dict:
     def pct(v):
         return "n/a" if v is None else f"{v * 100:+.1f} %"
 
+    def paired(a, b):
+        """``a``'s wall time over ``b``'s, round by round (both measured in the same round, so
+        the machine's drift between rounds cancels): (median, lowest, highest) or None."""
+        pairs = zip(res["runs"].get(a) or [], res["runs"].get(b) or [])
+        values = [x["wall_s"] / y["wall_s"] for x, y in pairs
+                  if x.get("ok") and y.get("ok") and y.get("wall_s")]
+        return (statistics.median(values), min(values), max(values)) if values else None
+
     check_build = ratio("check_1", "build")
     plugin_over = ratio("build_plugin", "build", minus_one=True)
     check_parse = ratio("check_1", "parse_only")
@@ -516,6 +524,16 @@ def report_size(res: dict, jobs: int) -> dict:
     if "check_n" in res["runs"]:
         print(f"   {f'check speed-up with --jobs {jobs}':<34}{fmt(speedup):>10}{'':>10}  "
               "(information)")
+    rounds = {"plugin_overhead": paired("build_plugin", "build"),
+              "check_n_over_build": paired("check_n", "build")}
+    if rounds["plugin_overhead"]:
+        m, lo, hi = (v - 1 for v in rounds["plugin_overhead"])
+        print(f"   {'plugin build / build - 1, rounds':<34}{pct(m):>10}{'':>10}  "
+              f"(each round's own ratio: {lo * 100:+.0f} % to {hi * 100:+.0f} %)")
+    if rounds["check_n_over_build"]:
+        m, lo, hi = rounds["check_n_over_build"]
+        print(f"   {f'check --jobs {jobs} / build, rounds':<34}{fmt(m):>10}{'':>10}  "
+              f"(each round's own ratio: {lo:.2f} to {hi:.2f})")
     print(f"   {'check (1 core) peak RSS MB':<34}{fmt(peak, '.1f'):>10}{'':>10}  "
           f"< {TARGET_PEAK_MB:.0f}  {verdict(peak, TARGET_PEAK_MB)}")
     part = s["check_part"]["peak_rss_mb"] if s.get("check_part") else None
@@ -527,14 +545,17 @@ def report_size(res: dict, jobs: int) -> dict:
             "ratios": {
         "check_over_build": check_build, "plugin_overhead": plugin_over,
         "check_over_parse": check_parse, "jobs_speedup": speedup, "check_peak_rss_mb": peak,
-        "part_peak_rss_mb": part, "memory_growth_with_pages": growth, "cpu": cpu}}
+        "part_peak_rss_mb": part, "memory_growth_with_pages": growth, "cpu": cpu,
+        "rounds": rounds}}
 
 
 def report_side_by_side(summaries: list[dict], jobs: int) -> None:
     """One line per variant and size: what the README's table quotes (its worst line)."""
-    print("\n-- side by side (wall s; ratios to mkdocs build)")
+    print("\n-- side by side (wall s; ratios to mkdocs build: of the medians, and the median of "
+          "each round's own)")
     print(f"   {'variant':<10}{'pages':>6}{'build':>8}{'+plugin':>16}{'check 1 core':>20}"
-          f"{f'--jobs {jobs}':>10}{'parse':>8}{'JSON MB':>9}{'findings':>10}{'peak MB':>9}")
+          f"{f'--jobs {jobs}':>10}{'parse':>8}{'JSON MB':>9}{'findings':>10}{'peak MB':>9}"
+          f"{'plugin/round':>14}{'jobs/round':>12}")
     for x in summaries:
         st, r = x["steps"], x["ratios"]
 
@@ -549,7 +570,17 @@ def report_side_by_side(summaries: list[dict], jobs: int) -> None:
         print(f"   {x.get('variant', 'baseline'):<10}{x['pages']:>6}{fmt(wall('build'), '.1f'):>8}"
               f"{plugin:>16}{check:>20}{fmt(wall('check_n'), '.1f'):>10}"
               f"{fmt(wall('parse_only'), '.1f'):>8}{fmt(c1.get('report_mb'), '.1f'):>9}"
-              f"{c1.get('findings', 'n/a')!s:>10}{fmt(c1.get('peak_rss_mb'), '.0f'):>9}")
+              f"{c1.get('findings', 'n/a')!s:>10}{fmt(c1.get('peak_rss_mb'), '.0f'):>9}"
+              f"{_round_cell(r, 'plugin_overhead', True):>14}"
+              f"{_round_cell(r, 'check_n_over_build'):>12}")
+
+
+def _round_cell(ratios: dict, key: str, overhead: bool = False) -> str:
+    """A ratio taken round by round (``report_size``'s ``rounds``), for the side-by-side table."""
+    got = (ratios.get("rounds") or {}).get(key)
+    if not got:
+        return "n/a"
+    return f"{(got[0] - 1) * 100:+.0f}%" if overhead else f"{got[0]:.2f}x"
 
 
 def report_memory(summaries: list[dict]) -> dict | None:
