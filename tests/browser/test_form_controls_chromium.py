@@ -117,12 +117,14 @@ def _near(a: str, b: str, tolerance: int = 1) -> bool:
 LIST_BOXES = """<!doctype html><html><head><meta charset="utf-8"><title>Berth lists</title>{style}
 </head><body><form>
 <select id="berths" size="3"><option id="b1">North berth</option>
-<option id="b2" selected>South berth</option><option id="b3" disabled>East berth</option></select>
+<option id="b2" selected>South berth</option><option id="b3" disabled>East berth</option>
+<option id="b4" label="West berth"></option><option id="b5" label="Quay berth"></option></select>
 <select id="lights" multiple><optgroup id="g1" label="Flashing"><option id="l1">Red flash</option>
 <option id="l2" selected>Green flash</option></optgroup>
 <optgroup id="g2" label="Fixed" disabled><option id="l3">White light</option></optgroup></select>
 </form></body></html>"""
 ROWS = {"b1": "select[1]/option[1]", "b2": "select[1]/option[2]", "b3": "select[1]/option[3]",
+        "b4": "select[1]/option[4]", "b5": "select[1]/option[5]",
         "g1": "select[2]/optgroup[1]", "l1": "select[2]/optgroup[1]/option[1]",
         "l2": "select[2]/optgroup[1]/option[2]", "g2": "select[2]/optgroup[2]",
         "l3": "select[2]/optgroup[2]/option"}
@@ -160,6 +162,9 @@ def test_list_box_rows_are_coloured_as_chromium_colours_them(list_boxes, page):
         assert _near(got[0], expected[0]) and _near(got[1], expected[1]), (page, row, got,
                                                                            expected)
     assert ours[(page, "rest", ROWS["g1"])].text == "Flashing"  # an optgroup shows its label
+    # an option with a label and no text shows its label, coloured as a row
+    assert [ours[(page, "rest", ROWS[b])].text for b in ("b4", "b5")] == ["West berth",
+                                                                           "Quay berth"]
     # a drop-down's options are not rows: its closed box shows the selected one (above)
     assert not any(key[2].startswith("select[3]") for key in ours)
 

@@ -32,6 +32,10 @@ def shown(tmp_path, body) -> list:
      [("value", "N"), ("value", "South")]),
     ('<select size="2"><optgroup label="Piers"><option>North</option></optgroup></select>',
      [("value", "Piers"), ("value", "North")]),
+    # an option with a label and no text: its label, in the second list box too (whose style
+    # is known from the first: the walk once skipped the element as empty)
+    ('<select size="2"><option label="N"></option></select>'
+     '<select size="2"><option label="S"></option></select>', [("value", "N"), ("value", "S")]),
     ('<select size="1"><option>North</option><option>South</option></select>',
      [("value", "North")]),  # a size of 1: a drop-down
     ("<select></select>", []),

@@ -882,9 +882,9 @@ def _list_box(select) -> bool:
 
 
 def _listed(el, tag: str) -> str:
-    """The text of an option (an optgroup's label) as a list box shows it, as a row; "" in a
-    drop-down, whose closed box shows one option as the select's value. (An option shown by its
-    ``label`` attribute alone, with no text, is not reached: the walk skips empty elements.)"""
+    """The text of an option (an optgroup's label) as a list box shows it, as a row: its
+    ``label`` when not empty, else its text (HTML Living Standard, the option element); "" in
+    a drop-down, whose closed box shows one option as the select's value."""
     select = el.getparent()
     if tag == "option" and select is not None and select.tag == "optgroup":
         select = select.getparent()
@@ -916,7 +916,12 @@ def _inert(el) -> bool:
     not focusable, not a control, link or SVG shape (nothing the walk checks or counts)."""
     if len(el) or (el.text or "").strip() or el.get("tabindex") is not None:
         return False
-    return el.tag.lower() not in SHOW_EMPTY
+    tag = el.tag.lower()
+    # a list box's row may show its label alone (the cache of this answer is keyed by the
+    # element's structural id, which keeps the attribute's presence, not its value)
+    if tag in LISTED and el.get("label") is not None:
+        return False
+    return tag not in SHOW_EMPTY
 
 
 def _disabled(el) -> bool:
