@@ -371,7 +371,10 @@ class Planner:
             if decl is not None and decl.property.startswith("--") and \
                     problem.fg_cause.inherited_from is None:
                 prop = decl.property  # resolved on the text element itself: set the variable
-            return [Rule(self.scoped(scope, bg.selector), ((prop, value, important),),
+            selectors = [self.scoped(scope, bg.selector)]
+            if prop == "color":
+                selectors = self._within(scope, problem, decl, bg) + selectors
+            return [Rule(", ".join(dict.fromkeys(selectors)), ((prop, value, important),),
                          scope.media)]
         if decl is None or decl.origin == "inline" or not decl.selector:
             return self._on_element(scope, element_selector, problem.worst, "color", value)
@@ -380,6 +383,21 @@ class Planner:
         scoped = [self.scoped(scope, one) for one in _matched(problem, decl)]
         declarations += self._aliases(problem.fg_cause, decl, scoped[0])
         return [Rule(", ".join(dict.fromkeys(scoped)), tuple(declarations), scope.media)]
+
+    def _within(self, scope, problem, decl, bg) -> list:
+        """The text's own colour rule below the background's (``.dusk .tide-note``): a colour
+        set on the background's element reaches only texts that have no colour rule of their
+        own, and the texts of this problem have one (``decl``); below the background's rule,
+        the text's rule is more specific than it, and only texts on that background match.
+        Only where ``decl`` colours the text element itself (not by inheritance: an ancestor
+        it is set on may lie above the background's element, a variable on ``body``, and then
+        the background's rule alone serves)."""
+        if decl is None or decl.origin == "inline" or not decl.selector or \
+                decl.property.startswith("--") or problem.fg_cause.inherited_from is not None:
+            return []
+        pairs = [(b, f) for b in _listed(bg.selector) if "::" not in b
+                 for f in _matched(problem, decl) if _normal(f) != _normal(b)]
+        return [self.scoped(scope, f"{b} {f}") for b, f in pairs[:WITHIN_MOST]]
 
     def _aliases(self, cause, decl, selector) -> list:
         """Custom properties between the colour's use and ``decl`` that were resolved on
@@ -1056,6 +1074,9 @@ def excluding(planned, exclude: dict) -> None:
                 o.rules[n] = replace(rule, selector=", ".join(
                     f"{one.strip()}:where(:not({', '.join(gone)}))"
                     for one in _listed(rule.selector)))
+
+
+WITHIN_MOST = 8  # selectors a per-background override names below the background's rule
 
 
 def _listed(selector: str) -> list:

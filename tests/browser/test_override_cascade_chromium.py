@@ -113,3 +113,43 @@ def test_a_focus_ring_fix_keeps_the_ring_in_chromium(tmp_path):
     ring = [s for p in check_paths([str(site)], Options(jobs=1)).pages
             for s in p.samples if s.kind == "focus-ring" and s.page == "p0/index.html"]
     assert [to_hex(s.fg) for s in ring] == [colour]
+
+
+TIDE_CSS = """body { background: #ffffff; color: #111111; }
+.dusk { background: #222222; }
+.dawn { background: #eeeeee; }
+.tide-note { color: #777777; }
+"""
+TIDE_PAGE = """<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Tide notes</title>
+<link rel="stylesheet" href="site.css"></head><body><main>
+<div class="dusk"><p class="tide-note">High water at the north quay after dusk.</p>
+<p>Moorings are lit.</p></div>
+<div class="dawn"><p class="tide-note">Low water at the south quay before dawn.</p></div>
+</main></body></html>"""
+
+
+def test_a_fix_per_background_beats_the_texts_own_rule_as_in_chromium(tmp_path):
+    # one grey on a dark and on a light panel: no one colour passes on both, so each panel
+    # gets its own value. Set on the panel alone it would reach only texts without a colour
+    # rule of their own; the note has one (`.tide-note`), so the fix names it below the
+    # panel's rule too (more specific than it). Chromium gives each note its panel's value,
+    # and the panel's other text the value on the panel (inherited).
+    site = tmp_path / "site"
+    site.mkdir()
+    (site / "site.css").write_text(TIDE_CSS)
+    (site / "index.html").write_text(TIDE_PAGE)
+    out = tmp_path / "report.json"
+    main(["check", str(site), "--no-config", "--select", "TC100", "--fail-on", "never",
+          "--format", f"json:{out}"], stdout=io.StringIO(), stderr=io.StringIO())
+    problems = json.loads(out.read_text())["problems"]  # (the body's text on .dusk too)
+    fixes = {p["bg_cause"]["declaration"]["selector"]: p["fix"] for p in problems
+             if p["fg_cause"]["declaration"]["selector"] == ".tide-note"}
+    assert set(fixes) == {".dusk", ".dawn"} and all(f["verified"] for f in fixes.values())
+    assert fixes[".dusk"]["css"].startswith(".dusk .tide-note, .dusk {")
+    (site / "site.css").write_text(TIDE_CSS + "".join(f["css"] for f in fixes.values()))
+    chromium = {r["xpath"]: r["fg"] for r in run_site(site)
+                if r["type"] == "sample" and r["scheme"] == "light"}
+    value = {name: fix["css"].split("color: ")[1][:7] for name, fix in fixes.items()}
+    assert chromium["/html/body/main/div[1]/p[1]"] == value[".dusk"]
+    assert chromium["/html/body/main/div[1]/p[2]"] == value[".dusk"]  # .dusk's, inherited
+    assert chromium["/html/body/main/div[2]/p"] == value[".dawn"]
