@@ -269,7 +269,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         for n, done in enumerate(self.helper.results(keep=True)):
             self.end_preparation()
             if n == 0:  # (the last pages are under way: this process waits for them)
-                engine.ready_for_site_rules()
+                engine.ready_for_site_rules(self.options)
             self.take(*done)
             # (while the last pages are checked this process waits: it gates those in)
             self.gate_early()

@@ -511,11 +511,13 @@ def judge_site(palette_uses: dict, options: Options, ordered: bool = False) -> l
     return found
 
 
-def ready_for_site_rules() -> None:
+def ready_for_site_rules(options: Options) -> None:
     """Import what ``judge_site`` computes with (numpy, for CIECAM02: 45 ms) ahead of it,
     while workers check pages and this process only waits: the plugin's while they check the
-    last ones, ``check --jobs N``'s as they start (it cost 78 ms after the last page)."""
-    importlib.import_module(".colour.ciecam02", __package__)
+    last ones, ``check --jobs N``'s as they start (it cost 78 ms after the last page). Only
+    when a site-level rule is selected."""
+    if palette_mod.site_rules_selected(options):
+        importlib.import_module(".colour.ciecam02", __package__)
 
 
 def iter_pages(paths, options: Options, judged: bool = False, sites=None):
@@ -1194,7 +1196,7 @@ def _site_pages(site, pages, options, judged):
                       initargs=(site.root, options, judged, warm)) as pool:
             answers = pool.imap(_worker_check_all, shrinking_chunks(pages, jobs))
             if judged:  # (the workers are under way; this process mostly waits for them)
-                ready_for_site_rules()
+                ready_for_site_rules(options)
             for results in answers:
                 yield from results
 

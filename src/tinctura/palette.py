@@ -100,13 +100,19 @@ def report_page(finding) -> str:
 
 def collect_for(samples, options, same=None) -> dict:
     """:func:`collect` when a site-level rule is selected (``options.rules``), else nothing."""
-    chosen = getattr(options, "rules", ()) or ()
-    if chosen:
-        from .rules import get
-
-        if not {get(name).code for name in chosen} & set(SITE_RULES):
-            return {}
+    if not site_rules_selected(options):
+        return {}
     return collect(samples, getattr(options, "palette", ()) or (), same)
+
+
+def site_rules_selected(options) -> bool:
+    """Whether ``options.rules`` (none: every rule) selects a site-level rule."""
+    chosen = getattr(options, "rules", ()) or ()
+    if not chosen:
+        return True
+    from .rules import get
+
+    return bool({get(name).code for name in chosen} & set(SITE_RULES))
 
 
 def collect(samples, palette: tuple = (), same=None) -> dict:
