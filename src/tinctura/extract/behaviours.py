@@ -76,7 +76,7 @@ BUILTIN = (
     # the rest's in the theme's palettes)
     Behaviour("mkdocs-material", "current", "a.md-nav__link", "md-nav__link--active",
               *_MATERIAL, "mkdocs-material assets/javascripts/bundle.*.min.js",
-              within=".md-nav--secondary"),
+              within="nav.md-nav--secondary"),
     # MkDocs' own theme, js/base.js: document.querySelectorAll('table').forEach(table =>
     # table.classList.add('table', 'table-striped', 'table-hover'))
     Behaviour("mkdocs", "add-class", "table", "table table-striped table-hover",
@@ -84,7 +84,7 @@ BUILTIN = (
     # js/base.js: new bootstrap.ScrollSpy(document.body, {target: '.bs-sidebar'}): Bootstrap's
     # scroll spy marks the sidebar's link of the section in view "active"
     Behaviour("mkdocs", "current", "a.nav-link", "active", "html[data-bs-theme]",
-              "js/base.js", "mkdocs theme js/base.js", within=".bs-sidebar"),
+              "js/base.js", "mkdocs theme js/base.js", within="div.bs-sidebar"),
     # MkDocs' readthedocs theme: js/theme_extra.js adds 'docutils' to content tables, then
     # js/theme.js wraps them: $("table.docutils:not(.field-list,.footnote,.citation)")
     # .wrap("<div class='wy-table-responsive'></div>"), footnotes and citations likewise.
@@ -101,7 +101,7 @@ BUILTIN = (
     # Sphinx's Furo, _static/scripts/furo.js: its scroll spy marks the table-of-contents item
     # of the section in view "scroll-current" (its link takes the look)
     Behaviour("furo", "current", "li", "scroll-current", ".sidebar-drawer",
-              "scripts/furo.js", "furo _static/scripts/furo.js", within=".toc-tree"),
+              "scripts/furo.js", "furo _static/scripts/furo.js", within="div.toc-tree"),
     # pydata-sphinx-theme, _static/scripts/pydata-sphinx-theme.js: Bootstrap's scroll spy marks
     # the page's table-of-contents entry in view "active", its link and its item (whose nested
     # list the theme's stylesheet then shows; not modelled: NOT_MODELLED)
