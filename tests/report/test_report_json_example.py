@@ -52,3 +52,18 @@ def test_compact_report_expands_to_the_flat_one(site, tmp_path, marked):
     if marked:
         assert all(len(occ) == 7 and len(occ[6]) == len(occ[0]) for occ in occurrences)
         assert {f["baseline"] for f in findings} == {"unchanged"}
+
+
+@pytest.mark.parametrize("jobs", ["1", "2"])
+def test_compact_report_the_same_whether_or_not_records_are_kept(site, tmp_path, jobs):
+    """Alone, the compact report reads what each page wrote for it as it was judged, and the
+    pages' records are counted, not kept (``outputs.records_read_back``); beside a report
+    that reads the records (JUnit), they are kept. The JSON text is the same."""
+    texts = []
+    for extra in ([], ["--format", f"junit:{tmp_path / 'cases.xml'}"]):
+        path = tmp_path / f"report-{len(extra)}.json"
+        cli.main(["check", str(site), "--jobs", jobs, "--fail-on", "never", "--format",
+                  f"json:{path}", *extra], io.StringIO(), io.StringIO())
+        texts.append(path.read_text())
+    assert json.loads(texts[0])["summary"]["findings"] > 0
+    assert texts[0] == texts[1]

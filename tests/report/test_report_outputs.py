@@ -241,12 +241,15 @@ def test_several_reports_at_once_written_atomically(tmp_path, monkeypatch):
 
 
 def test_records_are_read_back_by_every_output_but_the_text_report_by_problem():
-    """``engine.Options.keep_records``: only a run whose sole output is the text report
-    grouped by problem (no baseline written, no gate marks) leaves the records unkept."""
+    """``engine.Options.keep_records``: a run whose outputs are the text report grouped by
+    problem and the compact JSON report (which reads what each page wrote for it as it was
+    judged), with no baseline written and no gate marks, leaves the records unkept."""
     from tinctura.report.outputs import records_read_back
 
     assert not records_read_back(["text"], "cause", False, False, False)
-    assert records_read_back(["text", "json"], "cause", False, False, False)
+    assert not records_read_back(["text", "json"], "cause", False, False, False)
+    assert records_read_back(["json", "junit"], "cause", False, False, False)
+    assert records_read_back(["json"], "cause", True, False, False)  # the flat JSON
     assert records_read_back(["sarif-findings"], "cause", False, False, False)
     assert not records_read_back(["sarif"], "cause", False, False, False)  # by problem
     assert records_read_back(["text"], "page", False, False, False)

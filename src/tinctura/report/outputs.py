@@ -147,11 +147,14 @@ def records_read_back(names, group: str, flat: bool, marked: bool, baseline: boo
     """Whether an output reads the pages' records back from the run's store: a report of the
     formats ``names`` that says so (``Formatter.reads_records``: all but the text one grouped
     by problem, whose problems carry their examples), or a baseline written, or findings that
-    carry gate marks (``engine.Options.keep_records``)."""
+    carry gate marks (``engine.Options.keep_records``). The compact JSON report reads what
+    was written for it as each page was judged, when it was (``records_written_as_judged``):
+    pickling each page's records too cost a few per cent of a check."""
     from . import FORMATS
 
-    return any(FORMATS[name].reads_records(group) for name in names) or flat or marked \
-        or baseline
+    written = records_written_as_judged(names, flat, marked)
+    return any(FORMATS[name].reads_records(group) and not (written and name == "json")
+               for name in names) or flat or marked or baseline
 
 
 def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=(),

@@ -37,8 +37,12 @@ COMPACT_AFTER_BYTES = 16 << 20  # unused bytes in a store's file before it is co
 class FindingStore:
     """Sequence-like: ``len``, iteration in run order, ``by_page(name)``; plus ``counts``."""
 
-    def __init__(self):
+    def __init__(self, keep_records: bool = True):
         self._file = tempfile.TemporaryFile()
+        # False: no output reads packed pages' records back, only what was written of them
+        # for a report as they were judged (``engine.Options.keep_records``): those records
+        # are counted, not written to the file
+        self.keep_records = keep_records
         # page -> [(offset, length, template mapping or None, encoded length or None,
         # occurrences per template index in first-seen order)], in run order
         self._where = {}
@@ -149,15 +153,19 @@ class FindingStore:
         per_situation = Counter()  # (two templates may name one situation: numbered twice
         for n in first:           # on a page whose situation ids were renewed meanwhile)
             per_situation[numbers[n]] += counts[n]
-        if data is None:  # counted only (``PageFindings.pack``): no output reads them back
-            self._where.setdefault(page, [])
-            self._count(page, per_situation, sum(counts), 1)
-            return per_situation
-        uids = findings.entry_uids
+        encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
+        if data is None or not self.keep_records:
+            # counted only (``PageFindings.pack``): no output reads them back; a report's
+            # text written as they were judged is kept
+            if encoded is None:
+                self._where.setdefault(page, [])
+                self._count(page, per_situation, sum(counts), 1)
+                return per_situation
+            data = b""
+        uids = findings.entry_uids if data else ()
         if uids:  # (a page may be kept in several parts)
             self._uids[page] = self._uids.get(page, ()) + uids
         mapping = None if all(numbers[n] == n for n in first) else tuple(numbers)
-        encoded = findings.encoded.encode("utf-8") if findings.encoded is not None else None
         self._write(page, data, mapping, per_situation, sum(counts), encoded,
                     {n: counts[n] for n in first})
         return per_situation
@@ -229,6 +237,8 @@ class FindingStore:
         ``page``, in run order."""
         out = []
         for offset, length, mapping, _, _ in self._where.get(page, ()):
+            if not length:  # counted only, with a report's text (``put_packed``)
+                continue
             self._file.seek(offset)
             records = sit.unpack(self._file.read(length))
             if mapping is not None:  # kept as a worker packed them: its template indexes
