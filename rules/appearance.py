@@ -87,7 +87,9 @@ def _groups(uses: dict) -> dict:
             {"colour": colour, "bg": bg, "scheme": scheme, "count": use.count,
              "where": list(use.where), "cause": use.cause, "role": role})
     for contexts in groups.values():
-        contexts.sort(key=lambda c: (-c["count"], c["scheme"], c["bg"]))
+        # (the colour last: ties do not fall to the order uses were first met in, which
+        # depends on the pages each process walked)
+        contexts.sort(key=lambda c: (-c["count"], c["scheme"], c["bg"], c["colour"]))
         del contexts[CONTEXTS_PER_COLOUR:]
     return groups
 

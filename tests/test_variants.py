@@ -52,6 +52,10 @@ def findings_of(report):
                    for f in report.findings for s in [f.sample]), key=repr)
 
 
+def palette_of(report):
+    return {key: (use.count, use.where) for key, use in report.palette.items()}
+
+
 def problems_of(report):
     return [(p.rule, p.scheme, cause_key(p.fg_cause), cause_key(p.bg_cause), p.occurrences,
              p.pages, round(p.worst_ratio, 9),
@@ -67,6 +71,9 @@ def test_shared_check_equals_a_fresh_one(variant_site):
     assert problems_of(shared) == problems_of(fresh)
     assert [p.stats for p in shared.pages] == [p.stats for p in fresh.pages]
     assert shared.uses == fresh.uses
+    # the site-level rules' uses: counted, and each with the site's first places (a page's
+    # first in line and XPath order), whether a subtree was walked or replayed
+    assert palette_of(shared) == palette_of(fresh)
     states = {f.sample.state for f in shared.findings}
     if name in ("states", "many"):  # the accent fails on every navigation link
         assert {"hover", "focus"} <= states
@@ -84,3 +91,16 @@ def test_compact_report_holds_the_same_findings(variant_site):
     compact, flat = docs
     assert expand(compact) == flat["findings"]
     assert len(json.dumps(compact)) < len(json.dumps(flat))
+
+
+def test_one_process_or_two_write_the_same_report(variant_site):
+    """``--jobs 2`` checks the pages in two processes, each replaying what it has recorded
+    itself: the JSON report is the same text as with one (the site-level rules' example
+    places included)."""
+    _, site = variant_site
+    texts = []
+    for jobs in ("1", "2"):
+        out = io.StringIO()
+        cli.main(["check", str(site), "--jobs", jobs, "--format", "json"], out, io.StringIO())
+        texts.append(out.getvalue())
+    assert texts[0] == texts[1]

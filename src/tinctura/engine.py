@@ -418,14 +418,15 @@ def _judge_new(todo: dict, memo: dict, options: Options) -> None:
         memo[k] = tuple(found.get(id(s), ()))
 
 
-def _survey(samples, options: Options) -> tuple:
+def _survey(samples, options: Options, every: bool = False) -> tuple:
     """``(_situations, declaration uses, counts, palette uses)`` of samples, grouped once
-    (``situations.Alike``)."""
+    (``situations.Alike``); ``every``: the palette uses keep every place
+    (``palette.collect``)."""
     judge_gradients(samples, options.level)
     same = situations.Alike(samples)
     return (_situations(samples, options, same), problems_mod.declaration_uses(same.firsts),
             sample_stats(same.firsts, same.counts),
-            palette_mod.collect_for(samples, options, same))
+            palette_mod.collect_for(samples, options, same, every))
 
 
 _VERDICT_KEYS: dict = {}  # id(options) -> (options, key): a run asks for every fragment
@@ -606,7 +607,7 @@ def _judge_replays(page, uses, options) -> list:
     """What the replayed fragments contribute: their findings as ``(fragments.Placement,
     Stamp)`` blocks for this page (returned), their declaration uses and their counts (added
     to ``uses`` and the page's stats). Each fragment is judged once per site."""
-    found = []
+    found, placed = [], []
     tally = {}  # verdict id -> [verdict, occurrences]
     key = verdict_key(options)
     for fragment, stamp in page.replays:
@@ -617,6 +618,8 @@ def _judge_replays(page, uses, options) -> list:
                 placement = verdict.placement = frag_mod.Placement(verdict.findings,
                                                                    stamp.anchor)
             found.append((placement, stamp))
+        if verdict.places:
+            placed.append((verdict, stamp))
         entry = tally.get(id(verdict))
         if entry is None:
             tally[id(verdict)] = [verdict, 1]
@@ -626,12 +629,16 @@ def _judge_replays(page, uses, options) -> list:
     counted = {}  # id(stats) -> [stats, occurrences]: equal counts are one shared object
     for verdict, times in tally.values():
         counted.setdefault(id(verdict.stats), [verdict.stats, 0])[1] += times
-        palette_mod.merge(page.palette, verdict.palette, times)
+        palette_mod.merge(page.palette, verdict.palette, times, places=False)
         if verdict.uses_key not in merged:  # uses are sets: once per distinct content
             merged.add(verdict.uses_key)
             problems_mod.merge_uses(uses, verdict.uses)
     for stats, times in counted.values():
         _add_stats(page.stats, stats, times)
+    for verdict, stamp in placed:  # the palette uses' examples at this page's places
+        if verdict.place_plan is None:
+            verdict.place_plan = palette_mod.ReplayPlaces(verdict.places, stamp.anchor)
+        verdict.place_plan.offer(page.palette, page.page, stamp.anchor, stamp.new_base)
     return found
 
 
@@ -642,12 +649,17 @@ class _Verdict:
     are one shared object: a large navigation has thousands of fragments and few distinct
     verdicts."""
 
-    __slots__ = ("findings", "uses", "uses_key", "stats", "palette", "placement")
+    __slots__ = ("findings", "uses", "uses_key", "stats", "palette", "placement", "places",
+                 "place_plan")
 
-    def __init__(self, findings, uses, stats, palette=None):
+    def __init__(self, findings, uses, stats, palette=None, places=None):
         self.findings = findings or ()
         self.placement = None  # fragments.Placement of the findings, from the first replay
-        self.palette = palette or {}  # palette uses (site-level rules), merged per replay
+        self.palette = palette or {}  # palette uses (site-level rules), counted per replay
+        # their places: {use key: [(XPath relative to the fragment's root, has a line,
+        # text)]}, and palette.ReplayPlaces of them, from the first replay
+        self.places = places or {}
+        self.place_plan = None
         uses_key = frozenset((decl, bg, frozenset(schemes))
                              for decl, bgs in uses.items() for bg, schemes in bgs.items())
         self.uses_key, self.uses = _canonical(("uses", uses_key), (uses_key, uses))
@@ -678,19 +690,34 @@ def _verdict(fragment, options) -> _Verdict:
     if verdict is not None:
         return verdict
     samples = fragment.samples()
-    judged, uses, stats, palette = _survey(samples, options)
+    judged, uses, stats, palette = _survey(samples, options, every=True)
     found = [("", fragment.base, f, k) for f, k in zip(*_findings_of(judged))]
+    places = _relative_places(palette, fragment.base)
     for rel, nested in fragment.nested():
         inner = _verdict(nested, options)
         found.extend((rel + deeper, base, f, k) for deeper, base, f, k in inner.findings)
         problems_mod.merge_uses(uses, inner.uses)
-        palette_mod.merge(palette, inner.palette)
+        palette_mod.merge(palette, inner.palette, places=False)
+        for use_key, items in inner.places.items():
+            places.setdefault(use_key, []).extend((rel + deeper, lined, text)
+                                                  for deeper, lined, text in items)
         _add_stats(stats, inner.stats)
-    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats, palette)
+    verdict = fragment.verdicts[key] = _Verdict(found, uses, stats, palette, places)
     if not options.keep_samples:
         # judged: its samples are not needed again (only failing ones, kept in the findings)
         fragment.items = fragment.nested()
     return verdict
+
+
+def _relative_places(palette: dict, base: str) -> dict:
+    """A fragment's palette uses' places (``palette.collect``'s ``every``) relative to its
+    root ``base``, taken out of the uses: each replay places them on its own page."""
+    places = {}
+    for use_key, use in palette.items():
+        places[use_key] = [(xpath[len(base):], bool(line), text)
+                           for _, line, xpath, text in use.where]
+        use.where = []
+    return places
 
 
 def sample_stats(samples, counts=None) -> dict:

@@ -98,11 +98,11 @@ def report_page(finding) -> str:
     return SITE_PAGE if finding.rule in SITE_RULES else finding.sample.page
 
 
-def collect_for(samples, options, same=None) -> dict:
+def collect_for(samples, options, same=None, every: bool = False) -> dict:
     """:func:`collect` when a site-level rule is selected (``options.rules``), else nothing."""
     if not site_rules_selected(options):
         return {}
-    return collect(samples, getattr(options, "palette", ()) or (), same)
+    return collect(samples, getattr(options, "palette", ()) or (), same, every)
 
 
 def site_rules_selected(options) -> bool:
@@ -115,9 +115,11 @@ def site_rules_selected(options) -> bool:
     return bool({get(name).code for name in chosen} & set(SITE_RULES))
 
 
-def collect(samples, palette: tuple = (), same=None) -> dict:
+def collect(samples, palette: tuple = (), same=None, every: bool = False) -> dict:
     """Uses of palette entries among ``samples``: {(entry, role, colour, bg, scheme): Use}.
-    ``same``: the samples' ``situations.Alike`` (made here if None)."""
+    ``same``: the samples' ``situations.Alike`` (made here if None). Each use keeps the
+    first places of one page in (line, XPath) order (``offer``); ``every``: every place, in
+    the samples' order (a fragment's, placed anew in each replay: ``ReplayPlaces``)."""
     from .situations import Alike
 
     if same is None:
@@ -125,13 +127,13 @@ def collect(samples, palette: tuple = (), same=None) -> dict:
         same = Alike(samples)
     memo = _memo(palette)
     # what a sample adds depends on what Alike groups by: worked out once per group (most
-    # groups add nothing); each use keeps the places of the first samples that add to it
+    # groups add nothing)
     found = [_uses_of(memo, s, palette) for s in same.firsts]
     uses: dict = {}
     if any(found):
         for s, g in zip(samples, same.of):
             for key, cause in found[g]:
-                _add(uses, key, s, cause)
+                _add(uses, key, s, cause, every=every)
     return uses
 
 
@@ -179,19 +181,42 @@ def _memo(palette: tuple) -> dict:
     return memo
 
 
-def _add(uses: dict, key, sample, cause, times: int = 1) -> None:
+def _add(uses: dict, key, sample, cause, every: bool = False) -> None:
     use = uses.get(key)
     if use is None:
         if len(uses) >= USES_LIMIT:
             return
         use = uses[key] = Use(cause=cause)
-    use.count += times
-    if len(use.where) < EXAMPLES:
-        use.where.append((sample.page, sample.line, sample.xpath, sample.text))
+    use.count += 1
+    place = (sample.page, sample.line, sample.xpath, sample.text)
+    if every:
+        use.where.append(place)
+    else:
+        offer(use, place)
 
 
-def merge(into: dict, more: dict, times: int = 1) -> dict:
-    """Add ``more``'s uses to ``into`` (``times`` over: a fragment replayed that often)."""
+def offer(use: Use, place: tuple) -> None:
+    """Keep ``place`` ``(page, line, XPath, text)`` among ``use``'s examples if it is one of
+    the first EXAMPLES of its page in (line, XPath) order: which of a page's subtrees were
+    walked and which replayed (recorded on another page, or in another process) then does
+    not change the examples, nor do the order of its walks and ``--jobs``."""
+    where = use.where
+    at = len(where)
+    if at >= EXAMPLES and (place[1], place[2]) >= (where[-1][1], where[-1][2]):
+        return
+    if place in where:
+        return
+    while at and (place[1], place[2]) < (where[at - 1][1], where[at - 1][2]):
+        at -= 1
+    where.insert(at, place)
+    del where[EXAMPLES:]
+
+
+def merge(into: dict, more: dict, times: int = 1, places: bool = True) -> dict:
+    """Add ``more``'s uses to ``into`` (``times`` over: a fragment replayed that often). The
+    site's uses take each page's, in page order: their examples are the site's first places.
+    ``places`` False: the counts only (a replayed fragment's places are its page's:
+    ``ReplayPlaces``)."""
     for key, use in more.items():
         mine = into.get(key)
         if mine is None:
@@ -199,12 +224,59 @@ def merge(into: dict, more: dict, times: int = 1) -> dict:
                 continue
             mine = into[key] = Use(cause=use.cause)
         mine.count += use.count * times
+        if not places:
+            continue
         for place in use.where:
             if len(mine.where) >= EXAMPLES:
                 break
             if place not in mine.where:
                 mine.where.append(place)
     return into
+
+
+class ReplayPlaces:
+    """Where a judged fragment's palette uses stand in any replay of it, worked out once (as
+    ``fragments.Placement`` does for its findings): per use, its texts' places relative to
+    the fragment's root, in document order, each with the child positions (comments
+    included) that reach its element from the root. A replay offers its page the places at
+    its own base, with the lines of its own elements, in that order, and stops at the first
+    place past the page's examples (lines do not decrease in document order). Places with no
+    line come first (line 0)."""
+
+    __slots__ = ("by_key",)
+
+    def __init__(self, candidates: dict, anchor):
+        """``candidates``: {use key: [(relative XPath, has a line, text)]}; ``anchor``: the
+        root element of one replay of the fragment."""
+        from .extract.fragments import _Finder
+
+        find = _Finder()
+        self.by_key = {}
+        for key, items in candidates.items():
+            located = []
+            for rel, lined, text in dict.fromkeys(items):
+                positions = find.at((anchor, ()), rel.split("::")[0])[1] if lined else ()
+                located.append((lined, positions, rel, text))
+            located.sort(key=lambda item: (item[0], item[1]))
+            self.by_key[key] = tuple(located)
+
+    def offer(self, uses: dict, page: str, anchor, base: str) -> None:
+        """Offer ``uses`` (a page's) the places of a replay at ``base`` (its root ``anchor``)."""
+        for key, located in self.by_key.items():
+            use = uses.get(key)
+            if use is None:  # (uses past USES_LIMIT are not kept)
+                continue
+            where = use.where
+            for lined, positions, rel, text in located:
+                line = 0
+                if lined:
+                    el = anchor
+                    for i in positions:
+                        el = el[i]
+                    line = el.sourceline or 0
+                    if len(where) >= EXAMPLES and line > where[-1][1]:
+                        break
+                offer(use, (page, line, base + rel, text))
 
 
 def shared(uses: dict, table: dict) -> dict:
