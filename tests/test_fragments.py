@@ -364,7 +364,7 @@ def test_entries_no_kept_page_names_are_forgotten_and_registered_again(repeated_
 
 
 def test_finder_resolves_as_resolve_does_with_positions_counting_comments():
-    # fragments._Finder indexes each parent's children once; ``resolve`` counts along them
+    # fragments.PathFinder indexes each parent's children once; ``resolve`` counts along them
     # for each step. Same element for every path (a missing step gives the start, as
     # ``resolve`` does), and the child positions lead to it with comments counted (lxml's
     # ``el[i]``, which Placement.lines indexes by)
@@ -373,7 +373,7 @@ def test_finder_resolves_as_resolve_does_with_positions_counting_comments():
     root = etree.fromstring(
         "<div><!-- c --><p>a</p><pre><code><!-- x --><span>1</span><b/><span>2</span>"
         "<span>3</span></code></pre><p>b</p></div>")
-    finder = fragments._Finder()
+    finder = fragments.PathFinder()
     paths = ["", "p", "p[2]", "pre/code/span[3]", "pre/code/span", "pre/code/b",
              "pre/code/span[4]", "pre/nope/span", "p[3]"]
     for rel in paths:

@@ -36,6 +36,7 @@ from dataclasses import dataclass, field
 from functools import lru_cache
 
 from .colour.convert import linear_srgb_to_oklab, quantize, srgb_to_linear
+from .extract.fragments import PathFinder
 from .extract.nontext import KINDS as NONTEXT_KINDS
 from .model import DETERMINED, REST
 
@@ -248,9 +249,7 @@ class ReplayPlaces:
     def __init__(self, candidates: dict, anchor):
         """``candidates``: {use key: [(relative XPath, has a line, text)]}; ``anchor``: the
         root element of one replay of the fragment."""
-        from .extract.fragments import _Finder
-
-        find = _Finder()
+        find = PathFinder()
         self.by_key = {}
         for key, items in candidates.items():
             located = []

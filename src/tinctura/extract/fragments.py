@@ -285,7 +285,7 @@ class Placement:
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
         ``anchor``: the root element of one replay of the fragment."""
-        find = _Finder()
+        find = PathFinder()
         nested, slots = {}, {}
         self.positions = []  # child positions below the anchor, one per distinct element
         # (relative XPath, line slot, text, inherited, layers, group): ``group`` indexes
@@ -363,7 +363,7 @@ def _groups(situations) -> list:
     return [(entries[0], tuple(entries)) for entries in by_sid.values()]
 
 
-class _Finder:
+class PathFinder:
     """``resolve`` for many relative XPaths below one anchor, with the child positions
     (comments included) that lead to each element. Each parent's children are indexed once
     and each path's parent resolved once, where ``resolve`` counts along the children for
