@@ -319,7 +319,7 @@ def run_check(args, stdout, stderr) -> int:
     # findings go to disk page by page and problems are built as they come: memory does not
     # grow with the number of findings. Every finding is stored (JSON and SARIF list the
     # suppressed and baseline-known ones, marked); only those that count are grouped.
-    store = FindingStore(keep_records=options.keep_records)
+    store = FindingStore(keep_records=options.keep_records, hand_on=False)
     collector = problems.Collector(keep_indexes=args.flat_findings)
     written = []
 

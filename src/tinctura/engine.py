@@ -475,7 +475,7 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
     """
     options = options or Options()
     report = Report()
-    seen = {}
+    seen, schemes = {}, {}
     for item in iter_pages(paths, options, judged=True, sites=report.sites):
         if isinstance(item, Diagnostic):
             report.diagnostics.append(item)
@@ -487,7 +487,11 @@ def check_paths(paths, options: Options | None = None, findings_to=None) -> Repo
         else:
             findings_to(page, findings)
         problems_mod.merge_uses(report.uses, uses)
+        # the pages are kept to the end: what is merged site-wide leaves them, and equal
+        # schemes are one object (at 1,000 pages, 11 KB a page kept grew the peak by 10 MB)
         palette_mod.merge(report.palette, page.palette)
+        page.palette = {}
+        page.schemes = [schemes.setdefault(scheme, scheme) for scheme in page.schemes]
         for scheme in page.schemes:
             seen.setdefault(scheme.name, scheme)
     report.schemes = list(seen.values())

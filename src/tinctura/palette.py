@@ -171,7 +171,9 @@ def _entries_of(memo: dict, cause, rgb, palette) -> tuple:
 
 
 _MEMOS: dict = {}
-_MEMO_LIMIT = 20000
+# entries: a page's own causes (inherited from an XPath of it) are new objects, which the
+# memo keeps alive with their XPaths until it is cleared: 20,000 kept 4 MB more at 1,000 pages
+_MEMO_LIMIT = 4000
 
 
 def _memo(palette: tuple) -> dict:

@@ -95,8 +95,17 @@ def test_fragments_judged_once_give_the_findings_of_a_full_walk(status_site):
 
 def test_only_text_ratio_gathers_no_palette(status_site):
     report = _check(status_site, rules=("TC100",), keep_samples=False)
-    assert all(not p.palette for p in report.pages)
+    assert not report.palette
     assert not _by_rule(report, "TC300")
+
+
+def test_pages_kept_to_the_end_hold_no_palette_of_their_own(status_site):
+    """``check_paths`` keeps every page's result to the end: the palette uses merged
+    site-wide leave them, and the pages share their schemes (memory flat in page count)."""
+    report = _check(status_site, keep_samples=False)
+    assert report.palette and all(not p.palette for p in report.pages)
+    schemes = {id(s) for p in report.pages for s in p.schemes}
+    assert len(schemes) == len({s for p in report.pages for s in p.schemes})
 
 
 def test_declared_palette_entries_name_the_findings(status_site):
