@@ -66,6 +66,10 @@ class Formatter:
     wants_occurrences = False
     wants_fingerprints = False  # the gate then gives every finding its fingerprint
     marked = False
+    # True: in its compact layout, with no gate marks, the format reads each page's
+    # occurrences as written where the page was judged (``outputs.records_written_as_judged``,
+    # ``engine.Options.encode_occurrences``) instead of the records
+    written_as_judged = False
 
     @classmethod
     def reads_records(cls, group: str) -> bool:

@@ -492,6 +492,7 @@ class JsonFormatter(Formatter):
     FLAT_SECTIONS = ("findings", "problems", "diagnostics")
     COMPACT_SECTIONS = ("pages", "problems", "situations", "diagnostics")
     marked = True  # suppressed and baseline-known findings are listed too, marked
+    written_as_judged = True  # (``occurrences``: ``store.encoded``)
 
     def __init__(self, stream, header: Header):
         super().__init__(stream, header)

@@ -140,7 +140,9 @@ def records_written_as_judged(names, flat: bool, marked: bool) -> bool:
     """Whether each page's records are written for the report where the page is judged (in
     a worker; ``engine.Options.encode_occurrences``): a compact JSON report among the formats
     ``names``, whose findings carry no gate marks (``marked``: fingerprints, a baseline)."""
-    return any(name == "json" for name in names) and not flat and not marked
+    from . import FORMATS
+
+    return any(FORMATS[name].written_as_judged for name in names) and not flat and not marked
 
 
 def records_read_back(names, group: str, flat: bool, marked: bool, baseline: bool) -> bool:
@@ -153,7 +155,8 @@ def records_read_back(names, group: str, flat: bool, marked: bool, baseline: boo
     from . import FORMATS
 
     written = records_written_as_judged(names, flat, marked)
-    return any(FORMATS[name].reads_records(group) and not (written and name == "json")
+    return any(FORMATS[name].reads_records(group)
+               and not (written and FORMATS[name].written_as_judged)
                for name in names) or flat or marked or baseline
 
 
