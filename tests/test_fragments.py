@@ -90,6 +90,26 @@ def test_replayed_samples_equal_walked_ones(repeated_site):
     assert bases == {"/html/body/div", "/html/body/div[2]"}
 
 
+def test_skipped_counts_are_the_pages_at_rest_however_they_are_walked(tmp_path):
+    # A label hidden only while its button is hovered or focused is shown at rest: the
+    # skipped counts are the two paragraphs hidden at rest (counted by hand from the CSS
+    # below), on the first page walked cold as on the later ones, whose states are re-stamped
+    # from the first's, and with nothing shared or replayed.
+    (tmp_path / "site.css").write_text(
+        ".hidden { display: none; } .ghost { opacity: 0; } "
+        "button:hover .label, button:focus .label { display: none; }")
+    for n in range(3):
+        (tmp_path / f"p{n}.html").write_text(
+            '<!doctype html><html><head><link rel="stylesheet" href="site.css"></head><body>'
+            '<nav><button>Theme <span class="label">light</span></button></nav>'
+            f'<p class="hidden">draft {n}</p><p class="ghost">faint</p><p>shown {n}</p>'
+            '</body></html>')
+    for options in (Options(), Options(keep_samples=False), Options(share=False, replay=False)):
+        site = Site(str(tmp_path), options)
+        for rel in site.pages():
+            assert site.check_page(rel).skipped == {"display:none": 1, "opacity:0": 1}, rel
+
+
 def test_judged_replays_give_the_same_findings_counts_and_uses(repeated_site):
     def run(replay):
         options = Options(replay=replay, keep_samples=False)

@@ -364,6 +364,9 @@ class PageWalker:
         meta = self.meta
         collect = (rest or gather) and self.collect
         keep_meta = (rest or gather) and self.keep_rest
+        # what a reader cannot see is counted where it is walked as shown; a state walk keeps
+        # only what differs from that (and is shared between elements alike, uncounted)
+        counted = rest or gather
         memo = self.memo
         interactive = self.interactive  # emptied in place by _close_scope
         inert = self.cache.inert
@@ -394,10 +397,12 @@ class PageWalker:
             if is_root:
                 self.canvas = self._canvas(style)
             if style.display == "none":
-                self._skip("display:none", el)
+                if counted:
+                    self._skip("display:none", el)
                 continue
             if style.opacity <= 0:
-                self._skip("opacity:0", el)
+                if counted:
+                    self._skip("opacity:0", el)
                 continue
             chain = chain + ((el, style),)
             if tag in SVG_SHAPES and style.visibility == "visible":
