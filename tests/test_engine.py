@@ -34,6 +34,23 @@ def test_jobs_give_identical_results_in_the_same_order(site):
         [(f.sample.page, f.ratio) for f in two.findings]
 
 
+def test_a_prepared_site_has_the_rule_set_and_checks_the_page_as_a_fresh_one(site):
+    # with --jobs N the main process only builds the first page's rule set before forking:
+    # the workers' result for that page is a fresh Site's; an unreadable page is left to the
+    # check that reports it
+    from tinctura.engine import Site
+
+    prepared, fresh = Site(str(site)), Site(str(site))
+    prepared.prepare("index.html")
+    assert len(prepared.loader._rulesets) == 1
+    assert [(s.xpath, s.fg, s.bg) for s in prepared.check_page("index.html").samples] == \
+        [(s.xpath, s.fg, s.bg) for s in fresh.check_page("index.html").samples]
+    (site / "p3" / "index.html").write_bytes(b"\xff\xfe\x00")
+    prepared.prepare("p3/index.html")
+    prepared.prepare("missing.html")
+    assert prepared.check_page("missing.html").diagnostics
+
+
 def test_workers_leave_the_collector_as_they_found_it(site):
     # the main process freezes its heap before forking workers and thaws it after, but only
     # when nothing was frozen: a caller's frozen objects stay frozen (and the collector, off
