@@ -234,6 +234,7 @@ class SiblingIndex:
         self._universal = {}  # parent's (tag, class, id) -> universal compounds it may meet
         self._satisfied = {}  # (ancestry number, id(compound)) -> _Ancestry.satisfies
         self._needs_memo = {}  # (ancestry number, *candidates of each child) -> needs_of
+        self._child_needs = {}  # (ancestry number, candidates of a child) -> its need
         self._chain_ids = {}  # (parent's ancestry number, tag, class, id) -> ancestry number
         self._next_chain = 0
         self.formulas = {}  # (of-type, from the end, a, b) -> its bit in a need
@@ -296,23 +297,34 @@ class SiblingIndex:
         if hit is None:
             if len(self._needs_memo) > MEMO_LIMIT:
                 self._needs_memo.clear()
-            hit = self._needs_memo[key] = self._needs(
-                universal, candidates, self._satisfies_memo(chain_id, context))
+            hit = self._needs_memo[key] = self._needs_by_child(chain_id, universal,
+                                                                candidates, context)
         return hit
+
+    def _needs_by_child(self, chain_id: int, universal, candidates, context) -> list | None:
+        """``_needs``, each child's answer kept by the ancestry and the child's candidates:
+        lists under one ancestry differ (a paragraph's inline elements, a table's rows), the
+        answers for their children repeat (the children lists of 40 pages of the benchmark's
+        readthedocs-theme: 300 lists a page not met before, 380 distinct children in them)."""
+        memo, out, every, satisfies = self._child_needs, [], None, None
+        for found in candidates:
+            key = (chain_id, found)
+            need = memo.get(key)
+            if need is None:
+                if satisfies is None:
+                    satisfies = self._satisfies_memo(chain_id, context)
+                    every = _need(0, universal, satisfies)
+                need = _need(every, found, satisfies)
+                if len(memo) > MEMO_LIMIT:
+                    memo.clear()
+                memo[key] = need
+            out.append(need)
+        return out if any(out) else None
 
     @staticmethod
     def _needs(universal, candidates, satisfies) -> list | None:
-        every = 0
-        for c in universal:
-            if (every & c.needs) != c.needs and satisfies(c):
-                every |= c.needs
-        out = []
-        for found in candidates:
-            need = every
-            for c in found:
-                if (need & c.needs) != c.needs and satisfies(c):
-                    need |= c.needs
-            out.append(need)
+        every = _need(0, universal, satisfies)
+        out = [_need(every, found, satisfies) for found in candidates]
         return out if any(out) else None
 
     def _satisfies_memo(self, chain_id: int, context):
@@ -509,6 +521,14 @@ class _Ancestry:
         if c.parent is not None and not c.parent.could_match(*self.chain()[0]):
             return False
         return all(any(a.could_match(*f) for f in self.chain()) for a in c.ancestors)
+
+
+def _need(need: int, compounds, satisfies) -> int:
+    """``need`` with what each of ``compounds`` reads whose parent and ancestors can match."""
+    for c in compounds:
+        if (need & c.needs) != c.needs and satisfies(c):
+            need |= c.needs
+    return need
 
 
 def _facts(el) -> tuple:
