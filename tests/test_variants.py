@@ -2,8 +2,9 @@
 
 The generator in ``benchmarks/generate_site.py`` writes mkdocs-material sites of several shapes
 (page kinds, expanded navigation sections, structural and ``:has()`` selectors in the site's
-CSS, an accent that fails on :hover and :focus, faint colours all over the article), and one on
-MkDocs' own theme (Bootstrap, light and dark by ``data-bs-theme``). Each is
+CSS, an accent that fails on :hover and :focus, faint colours all over the article), one on
+MkDocs' own theme (Bootstrap, light and dark by ``data-bs-theme``) and one on its readthedocs
+theme (the current section's pages in a dark side navigation). Each is
 built with MkDocs and checked twice: as ``tinctura check`` runs (styles shared by structural
 key, repeated subtrees replayed, each colour situation judged once) and with all of that off
 (``Options(share=False, replay=False)``: every element's cascade computed, every sample judged).
@@ -30,7 +31,8 @@ pytestmark = pytest.mark.slow
 PAGES = 14
 
 
-@pytest.fixture(scope="module", params=["varied", "states", "many", "mkdocs-theme"])
+@pytest.fixture(scope="module", params=["varied", "states", "many", "mkdocs-theme",
+                                                 "readthedocs-theme"])
 def variant_site(request, tmp_path_factory):
     out = tmp_path_factory.mktemp(request.param)
     before = generate_site.SECTION_SIZE
