@@ -206,12 +206,16 @@ def test_simple_has_answers_agree_with_cssselect2():
 
 
 def test_sibling_needs_are_the_same_with_and_without_ancestry_numbers(tmp_path):
+    # (with them, each child's answer is kept by its ancestry and candidates: the lists of
+    # other lengths and mixes under one ancestry below are answered from the first one's)
     from tinctura.extract.html import parse_html
 
     css = (".n > li:not(:first-child) { color: #555 } .m li + li { color: #666 }"
            " ul > :last-child { color: #777 } .z p:nth-child(2) { color: #888 }")
     body = ('<div class="m"><ul class="n"><li>a</li><li>b</li></ul><ul><li>c</li><li>d</li></ul>'
-            '</div><div class="z"><p>e</p><p>f</p><section><p>g</p><p>h</p></section></div>')
+            '<ul class="n"><li>i</li><li>j</li><li class="k">k</li><b>l</b></ul></div>'
+            '<div class="z"><p>e</p><p>f</p><section><p>g</p><p>h</p></section>'
+            '<section><p>m</p><em>n</em><p>o</p><p>p</p></section></div>')
     (tmp_path / "site.css").write_text(css)
     page = tmp_path / "a.html"
     page.write_text(f'<!doctype html><html><head><link rel="stylesheet" href="site.css">'
