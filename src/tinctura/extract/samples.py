@@ -520,8 +520,7 @@ class PageWalker:
             if k == 0:  # the root
                 kid = self._key(0, self.structure.root_id())
             else:
-                kid = self._key(parent_id, self.structure.structure.element_id(
-                    el, self._siblings(el), self.structure.wrapper_of))
+                kid = self._key(parent_id, self._element_id(el))
             style = self.style_for(el, parent_style, kid, k == 0)
             if el is target:
                 return parent_style, kid, chain, style
@@ -533,19 +532,19 @@ class PageWalker:
             memo[(el, state)] = (parent_style, parent_id, chain)
         return None
 
-    def _siblings(self, el):
-        """What sibling-reading selectors need of ``el``'s place: from the resting walk, or
-        (an element it replayed, not walked) from its parent's children list."""
+    def _element_id(self, el) -> int:
+        """The structural id of ``el`` at its place: worked out from what sibling-reading
+        selectors need of it as the resting walk found it, or (an element it replayed, not
+        walked: a menu of a replayed navigation bar, met on every page in every scheme) taken
+        from its parent's children list, which holds both."""
         known = self.meta.get(el)
-        if known is not None:
-            return known[0]
-        parent = el.getparent()
-        if parent is None:
-            return 0
-        for child, _, siblings in self.structure.children(parent):
-            if child is el:
-                return siblings
-        return 0
+        parent = el.getparent() if known is None else None
+        if parent is not None:
+            for child, ident, _ in self.structure.children(parent):
+                if child is el:
+                    return ident
+        siblings = known[0] if known is not None else 0
+        return self.structure.structure.element_id(el, siblings, self.structure.wrapper_of)
 
     def _skip(self, reason, el):
         if el.tag in ("head", "script", "style", "template", "title", "noscript"):
