@@ -538,13 +538,14 @@ class PageWalker:
         walked: a menu of a replayed navigation bar, met on every page in every scheme) taken
         from its parent's children list, which holds both."""
         known = self.meta.get(el)
-        parent = el.getparent() if known is None else None
+        if known is not None:
+            return self.structure.structure.element_id(el, known[0], self.structure.wrapper_of)
+        parent = el.getparent()
         if parent is not None:
             for child, ident, _ in self.structure.children(parent):
                 if child is el:
                     return ident
-        siblings = known[0] if known is not None else 0
-        return self.structure.structure.element_id(el, siblings, self.structure.wrapper_of)
+        return self.structure.structure.element_id(el, 0, self.structure.wrapper_of)
 
     def _skip(self, reason, el):
         if el.tag in ("head", "script", "style", "template", "title", "noscript"):
