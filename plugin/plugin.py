@@ -487,7 +487,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
                                    loader, self.verify_cache,
-                                   self.helper.recheck if self.helper is not None else None)
+                                   self.helper.rechecker() if self.helper is not None else None)
             except Exception as exc:  # a fix that cannot be worked out must not stop the build
                 log.info(f"fixes as CSS overrides could not be worked out: {exc!r}")
         return aid

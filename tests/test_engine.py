@@ -279,7 +279,7 @@ def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
     try:
         assert pool.submit("p0/index.html", (site / "p0/index.html").read_text())
         list(pool.results(keep=True))
-        there = pool.recheck(css, pages)()
+        there = pool.rechecker()(css, pages)()
     finally:
         pool.close()
     assert there == here and here[2] > 0
@@ -429,10 +429,11 @@ def _rechecks(log):
     return found
 
 
-def test_cli_jobs_2_verifies_fixes_as_jobs_1_with_a_forked_worker(shaded, tmp_path_factory,
-                                                                   monkeypatch, logged):
-    """With --jobs 2 a forked worker rechecks some of the verification pages beside the main
-    process: the same fixes are verified as with --jobs 1; no process or folder is left."""
+def test_cli_jobs_2_verifies_fixes_as_jobs_1_in_the_checks_own_workers(shaded, tmp_path_factory,
+                                                                       monkeypatch, logged):
+    """With --jobs 2 the workers that checked the pages stay, warm, and recheck every
+    verification page (engine.pools_kept): the same fixes are verified as with --jobs 1, this
+    process rechecks none, no other process starts and none is left."""
     import multiprocessing
     import os
 
@@ -449,15 +450,41 @@ def test_cli_jobs_2_verifies_fixes_as_jobs_1_with_a_forked_worker(shaded, tmp_pa
     assert shared == alone and len(alone) == len(SHADES) and any(alone.values())
     one, two = _rechecks(logs / "one"), _rechecks(logs / "two")
     assert list(one) == [os.getpid()] and len(one[os.getpid()]) == len(SHADES)
-    theirs = [pages for pid, pages in two.items() if pid != os.getpid()]
-    assert len(theirs) == 1 and theirs[0]  # one worker, and it had pages
+    assert os.getpid() not in two and two  # the check's workers, not this process
     assert sorted(sum(two.values(), [])) == sorted(one[os.getpid()])  # each page once
+    assert not folders  # (no worker forked for the rechecks: a PagePool makes a folder)
+    assert multiprocessing.active_children() == [] and engine._KEPT is None
+
+
+def test_cli_verifies_beside_a_forked_worker_where_the_check_kept_none(shaded, tmp_path_factory,
+                                                                      monkeypatch, logged):
+    """Fewer pages than two per process: they are checked here, and a forked worker rechecks
+    some of the verification pages beside this process (engine.recheck_helper); the same
+    fixes are verified as with --jobs 1 and no process or folder is left."""
+    import multiprocessing
+    import os
+
+    from tinctura import engine
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    logs = tmp_path_factory.mktemp("logs")
+    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
+    folders = []
+    spool = engine._spool_folder
+    monkeypatch.setattr(engine, "_spool_folder", lambda: folders.append(spool()) or folders[-1])
+    shared = _verified_by_cli(shaded, 3, logged, logs / "three")  # 5 pages < 2 x 3
+    assert shared == alone and len(alone) == len(SHADES) and any(alone.values())
+    one, three = _rechecks(logs / "one"), _rechecks(logs / "three")
+    theirs = [pages for pid, pages in three.items() if pid != os.getpid()]
+    assert len(theirs) == 1 and theirs[0] and three[os.getpid()]  # one worker, and this one
+    assert sorted(sum(three.values(), [])) == sorted(one[os.getpid()])  # each page once
     assert folders and not any(os.path.exists(f) for f in folders)
     assert multiprocessing.active_children() == []
 
 
-def test_cli_jobs_2_checks_the_pages_itself_when_no_worker_starts(shaded, tmp_path_factory,
-                                                                  monkeypatch, logged):
+def test_cli_checks_the_pages_itself_when_no_worker_starts(shaded, tmp_path_factory, monkeypatch,
+                                                           logged):
     import os
 
     from tinctura import engine
@@ -468,11 +495,36 @@ def test_cli_jobs_2_checks_the_pages_itself_when_no_worker_starts(shaded, tmp_pa
     logs = tmp_path_factory.mktemp("logs")
     alone = _verified_by_cli(shaded, 1, logged, logs / "one")
     monkeypatch.setattr(engine, "PagePool", refused)
+    shared = _verified_by_cli(shaded, 3, logged, logs / "three")  # (no workers kept)
+    assert shared == alone and any(alone.values())
+    three = _rechecks(logs / "three")
+    assert list(three) == [os.getpid()] and sorted(three[os.getpid()]) == sorted(
+        _rechecks(logs / "one")[os.getpid()])
+
+
+def test_cli_checks_the_pages_itself_when_a_kept_worker_fails(shaded, tmp_path_factory,
+                                                               monkeypatch, logged):
+    """A kept worker whose recheck fails gives no answer: its pages are checked here, and the
+    fixes verified are the same."""
+    import os
+
+    from tinctura import engine
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+
+    logs = tmp_path_factory.mktemp("logs")
+    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
+    monkeypatch.setattr(engine, "_worker_recheck", _failing)  # (the workers are forked after)
     shared = _verified_by_cli(shaded, 2, logged, logs / "two")
     assert shared == alone and any(alone.values())
     two = _rechecks(logs / "two")
     assert list(two) == [os.getpid()] and sorted(two[os.getpid()]) == sorted(
         _rechecks(logs / "one")[os.getpid()])
+
+
+def _failing(args):
+    raise RuntimeError("the worker failed")
 
 
 @pytest.mark.parametrize("count, jobs", [(1, 2), (7, 2), (199, 2), (999, 2), (400, 4)])

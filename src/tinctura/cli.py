@@ -333,12 +333,14 @@ def run_check(args, stdout, stderr) -> int:
     # Markdown sources and the site's own stylesheets
     project = load_project(args.mkdocs_config, stderr) \
         if getattr(args, "mkdocs_config", None) else None
-    result = engine.check_paths(list(args.paths), options, findings_to=keep)
-    # what the check keeps lives to the end of the command and makes no cycles: the
-    # collections of what follows (verifying fixes, writing reports) need not scan it again
-    with engine.kept_out_of_collections():
-        return _after_check(args, stdout, stderr, options, specs, gate, store, collector,
-                            written, project, result)
+    # (with --jobs N the workers, warm from the pages, stay to verify the fixes)
+    with engine.pools_kept():
+        result = engine.check_paths(list(args.paths), options, findings_to=keep)
+        # what the check keeps lives to the end of the command and makes no cycles: the
+        # collections of what follows (verifying fixes, writing reports) need not scan it
+        with engine.kept_out_of_collections():
+            return _after_check(args, stdout, stderr, options, specs, gate, store, collector,
+                                written, project, result)
 
 
 def _after_check(args, stdout, stderr, options, specs, gate, store, collector, written,

@@ -818,7 +818,9 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     build's every round of planning, ``writer.NARROWING_ROUNDS``);
     ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
     worker, idle by then) and returns a callable giving its result (None if the worker
-    failed), or None when no worker could start; those pages are then checked here.
+    failed), or None when no worker could start; those pages are then checked here. The
+    pages are shared in two; this process checks the first share, unless the helper's
+    ``all_shares`` is true (warm workers of its own: ``engine.pools_kept``).
     What is found is the same wherever a page is checked: the answers are unions."""
     css = combined_css(overrides)
     if not css:
@@ -828,14 +830,19 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         remaining_keys, bad, counts, took = cache[key]
         _mark(problems, overrides, remaining_keys, bad, took)
         return counts
-    mine, theirs = list(pages), []
+    shares = [list(pages)]
     if helper is not None and len(pages) > 1:
-        mine, theirs = mine[0::2], mine[1::2]
-    answer = helper(css, theirs) if theirs else None
-    remaining_keys, bad, remaining, took = recheck(site_root, options, css, mine, loader)
-    if theirs:  # a helper that could not start (None) or failed (its answer None): here
-        got = (answer() if answer is not None else None) or \
-            recheck(site_root, options, css, theirs, loader)
+        shares = [shares[0][0::2], shares[0][1::2]]
+    # a helper with warm workers of its own takes every share; another, all but the first
+    away = shares if getattr(helper, "all_shares", False) else shares[1:]
+    started = [(share, helper(css, share)) for share in away]  # under way while this works
+    found = [recheck(site_root, options, css, share, loader)
+             for share in shares[:len(shares) - len(away)]]
+    for share, answer in started:  # a helper that could not start (None) or failed: here
+        found.append((answer() if answer is not None else None)
+                     or recheck(site_root, options, css, share, loader))
+    remaining_keys, bad, remaining, took = set(), set(), 0, {}
+    for got in found:
         remaining_keys |= got[0]
         bad |= got[1]
         remaining += got[2]
