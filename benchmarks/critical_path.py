@@ -1,15 +1,17 @@
 """Where the wall time of `tinctura check --jobs N` goes, in instructions: the main process's
-phases, each worker's share and the helper that verifies fixes, counted under valgrind's
-callgrind (the machine's drift does not move them).
+phases and each worker's share (its pages, then its share of the fixes verified), counted
+under valgrind's callgrind (the machine's drift does not move them).
 
     python benchmarks/critical_path.py SITE_DIR [--jobs 2] [--format json]
 
 With N workers the wall time follows one path: the main process until the workers start
-(imports, the first page checked cold), then the busiest worker, then the main process again
-(problems, the fixes verified beside the helper, the reports). Its length in instructions
-stands in for wall time on a shared machine whose speed drifts by a third within the hour;
-the total says what the other cores carry. The two disagree where cores are short: here the
-main process takes the workers' pages in while they run, on the same cores.
+(imports, the first page's rule set), then the busiest worker, then the main process again
+(problems, waiting while the workers verify the fixes, the reports; a site with fewer pages
+than two per worker keeps no workers, and a helper forked then verifies beside the main
+process). The path's length in instructions stands in for wall time on a shared machine
+whose speed drifts by a third within the hour; the total says what the other cores carry.
+The two disagree where cores are short: here the main process takes the workers' pages in
+while they run, on the same cores.
 
 How the phases are cut: callgrind writes a process's counts out before each fork
 (`--dump-before=*fork*`: a forked worker then counts its own work only) and before each call
@@ -52,8 +54,8 @@ sys.argv = ["tinctura", "check", site, "--jobs", jobs, "--fail-on", "never", "--
 cli.command()
 '''
 
-PHASES = ("until the workers start (imports, the first page)", "while the workers check",
-          "problems, fixes verified", "reports")
+PHASES = ("until the workers start (imports, the first page's rules)", "while the workers check",
+          "problems, fixes verified (by the workers)", "reports")
 
 
 def callgrind_dump(path: str) -> tuple:
