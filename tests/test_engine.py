@@ -429,6 +429,23 @@ def _rechecks(log):
     return found
 
 
+def _alone_and_shared(shaded, jobs, logged, tmp_path_factory, monkeypatch) -> tuple:
+    """``(rechecks with --jobs 1, with --jobs N, the folders made for pages by a PagePool)``
+    (``_rechecks``) of two CLI runs, which verify the same fixes."""
+    from tinctura import engine
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    logs = tmp_path_factory.mktemp("logs")
+    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
+    folders = []
+    spool = engine._spool_folder
+    monkeypatch.setattr(engine, "_spool_folder", lambda: folders.append(spool()) or folders[-1])
+    shared = _verified_by_cli(shaded, jobs, logged, logs / "many")
+    assert shared == alone and len(alone) == len(SHADES) and any(alone.values())
+    return _rechecks(logs / "one"), _rechecks(logs / "many"), folders
+
+
 def test_cli_jobs_2_verifies_fixes_as_jobs_1_in_the_checks_own_workers(shaded, tmp_path_factory,
                                                                        monkeypatch, logged):
     """With --jobs 2 the workers that checked the pages stay, warm, and recheck every
@@ -439,16 +456,7 @@ def test_cli_jobs_2_verifies_fixes_as_jobs_1_in_the_checks_own_workers(shaded, t
 
     from tinctura import engine
 
-    if not engine.can_fork():
-        pytest.skip("worker processes need fork")
-    logs = tmp_path_factory.mktemp("logs")
-    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
-    folders = []
-    spool = engine._spool_folder
-    monkeypatch.setattr(engine, "_spool_folder", lambda: folders.append(spool()) or folders[-1])
-    shared = _verified_by_cli(shaded, 2, logged, logs / "two")
-    assert shared == alone and len(alone) == len(SHADES) and any(alone.values())
-    one, two = _rechecks(logs / "one"), _rechecks(logs / "two")
+    one, two, folders = _alone_and_shared(shaded, 2, logged, tmp_path_factory, monkeypatch)
     assert list(one) == [os.getpid()] and len(one[os.getpid()]) == len(SHADES)
     assert os.getpid() not in two and two  # the check's workers, not this process
     assert sorted(sum(two.values(), [])) == sorted(one[os.getpid()])  # each page once
@@ -464,18 +472,8 @@ def test_cli_verifies_beside_a_forked_worker_where_the_check_kept_none(shaded, t
     import multiprocessing
     import os
 
-    from tinctura import engine
-
-    if not engine.can_fork():
-        pytest.skip("worker processes need fork")
-    logs = tmp_path_factory.mktemp("logs")
-    alone = _verified_by_cli(shaded, 1, logged, logs / "one")
-    folders = []
-    spool = engine._spool_folder
-    monkeypatch.setattr(engine, "_spool_folder", lambda: folders.append(spool()) or folders[-1])
-    shared = _verified_by_cli(shaded, 3, logged, logs / "three")  # 5 pages < 2 x 3
-    assert shared == alone and len(alone) == len(SHADES) and any(alone.values())
-    one, three = _rechecks(logs / "one"), _rechecks(logs / "three")
+    # (5 pages < 2 x 3)
+    one, three, folders = _alone_and_shared(shaded, 3, logged, tmp_path_factory, monkeypatch)
     theirs = [pages for pid, pages in three.items() if pid != os.getpid()]
     assert len(theirs) == 1 and theirs[0] and three[os.getpid()]  # one worker, and this one
     assert sorted(sum(three.values(), [])) == sorted(one[os.getpid()])  # each page once
