@@ -1281,10 +1281,10 @@ _KEPT: dict | None = None
 @contextmanager
 def pools_kept():
     """While the block runs, the first site's check with --jobs N keeps its workers after its
-    last page instead of ending them: ``recheck_helper`` gives them the verification of the fixes, warm
-    from the pages (in a process that checked none, the first page rechecked cost 115-120 ms
-    against 75-80 ms in one that had checked 30: 200 pages of the benchmark's `baseline`).
-    They end with the block."""
+    last page instead of ending them: ``recheck_helper`` gives them the verification of the
+    fixes, warm from the pages (in a process that checked none, the first page rechecked cost
+    115-120 ms against 75-80 ms in one that had checked 30: 200 pages of the benchmark's
+    `baseline`). They end with the block."""
     global _KEPT
     outer, _KEPT = _KEPT, {}
     try:
