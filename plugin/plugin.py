@@ -36,12 +36,14 @@ from tinctura.report.text_report import (EXAMPLES, headline, problem_lines, summ
                                          terminal_width, wrapped)
 from tinctura.writer import WriterAid
 
+from . import ahead
 from .config import TincturaConfig
 
 log = get_plugin_logger(__name__)
 
 
 SHARED_MOST = 200_000  # distinct record parts shared (TincturaPlugin.keep): a bound only
+CHECK_AHEAD = True  # pages rendered and checked in the worker during the conversion (ahead)
 
 
 class PageRecord:
@@ -88,6 +90,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.kept_now: set = set()  # pages checked in this build
         self.prepared = None  # stylesheets parsed ahead while MkDocs converts the Markdown
         self.shared: dict = {}  # one object for equal parts of the pages' records (keep)
+        self.files = self.nav = None  # this build's, for pages rendered ahead (``ahead``)
 
     # -- lifecycle -------------------------------------------------------------------------
 
@@ -184,7 +187,37 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.project = mkdocs_project.from_files(config, files)
         self.rechecked = []
         self.prepare_sheets(files, config.extra_css)
+        self.files, self.nav = files, None
         return files
+
+    @event_priority(-100)  # after plugins that change the navigation
+    def on_nav(self, nav, *, config, files):
+        self.nav = nav
+        return nav
+
+    @event_priority(-100)  # last: the content as MkDocs will render it
+    def on_page_content(self, html: str, *, page, config, files):
+        self.check_ahead(page, html, config)
+        return html
+
+    def check_ahead(self, page, html: str, config) -> None:
+        """A page whose Markdown is converted goes to the worker, which renders and checks it
+        while MkDocs converts the next ones (``ahead``); the worker is forked at the first,
+        once the stylesheets are in place. Only where pages are checked in a worker."""
+        if not CHECK_AHEAD or self.workers() == 0 or self.nav is None or self.files is None \
+                or self.excluded(page.file.src_uri):
+            return
+        if self.pool is None:
+            try:
+                ahead.copy_sheets(self.files, self.site_dir)
+            except OSError as exc:  # (the pages are checked once MkDocs has written them)
+                log.info(f"stylesheets not put in place ahead: {exc}")
+                self.nav = None
+                return
+            ahead.begin(config, self.files, self.nav)
+            self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
+                                        self.get_site())
+        self.pool.ahead(page.file.dest_uri, ahead.render, ahead.payload(page, html))
 
     def prepare_sheets(self, files, extra_css) -> None:
         """Have the stylesheets MkDocs will copy parsed in another process while it converts

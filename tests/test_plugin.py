@@ -608,3 +608,141 @@ def test_problems_named_by_number_in_the_log_are_numbered(tmp_path, caplog):
              for refs in re.findall(r"settles problems? ([\d, ]+) too", line)
              for n in refs.split(", ")}
     assert named and named <= numbered and len(numbered) > 2
+
+
+# -- pages checked ahead, while MkDocs converts the Markdown ---------------------------------
+
+def _nav_project(path, ahead: bool, monkeypatch):
+    """The tiny project with a navigation naming its pages, jobs 2, a JSON report; checking
+    ahead on or off (``plugin.CHECK_AHEAD``)."""
+    from tinctura.plugin import plugin as plugin_mod
+
+    monkeypatch.setattr(plugin_mod, "CHECK_AHEAD", ahead)
+    project = make_project(path, {"jobs": 2, "fail_on": "never", "report": "['json:out.json']"})
+    with open(project / "mkdocs.yml", "a", encoding="utf-8") as fh:
+        fh.write("nav:\n  - Home: index.md\n  - Lending rules: lending.md\n"
+                 "  - Notes: drafts/notes.md\n")
+    return project
+
+
+@slow
+def test_pages_checked_ahead_give_the_same_report_and_log(tmp_path, monkeypatch, caplog):
+    """With a navigation that names the pages, the worker renders and checks each page as soon
+    as its Markdown is converted and gives that answer when MkDocs has written the same HTML
+    (plugin/ahead.py): the report and the log are those of checking the written pages."""
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    hits = tmp_path / "hits"
+    checked_ahead = engine._checked_ahead
+
+    def logged(rel, html):  # (runs in the worker, forked after this is in place)
+        answer = checked_ahead(rel, html)
+        if answer is not None:
+            with open(hits, "a", encoding="utf-8") as fh:
+                fh.write(rel + "\n")
+        return answer
+    monkeypatch.setattr(engine, "_checked_ahead", logged)
+    out = []
+    for ahead in (True, False):
+        project = _nav_project(tmp_path / str(ahead), ahead, monkeypatch)
+        caplog.clear()
+        config = configure(project)
+        config.plugins.on_startup(command="build", dirty=False)
+        build(config)
+        out.append(((project / "out.json").read_text(encoding="utf-8"),
+                    messages(caplog, logging.INFO)))
+        if ahead:  # (the worker takes the pages converted first before any written page)
+            assert hits.exists() and "index.html" in hits.read_text().split()
+    report = [re.sub(r'"(started|finished|duration)[^,]*,', "", text) for text, _ in out]
+    assert report[0] == report[1] and out[0][1] == out[1][1]
+
+
+def _worker_with(site_dir, monkeypatch):
+    """This process as a worker (``engine._WORKER``) on ``site_dir``, the answers kept ahead
+    empty, the stylesheets not compared yet."""
+    site = engine.Site(str(site_dir), engine.Options(keep_samples=False))
+    monkeypatch.setattr(engine, "_WORKER", (site, site.options, True), raising=False)
+    monkeypatch.setattr(engine, "_AHEAD", {})
+    monkeypatch.setattr(engine, "_SHEETS_SAME", [None])
+    return site
+
+
+PAGE = ('<!doctype html><html><head><link rel="stylesheet" href="{css}"></head>'
+        '<body><p class="muted">Return unused packets before the first frost.</p></body></html>')
+
+
+def _render(html):
+    return html
+
+
+def test_an_answer_ahead_is_given_for_the_same_html_only(tmp_path, monkeypatch):
+    """Kept ahead under the HTML's digest: the same HTML takes it, other HTML is checked (and
+    what the check ahead noted once for the site is withdrawn, for that check to note)."""
+    (tmp_path / "site.css").write_text(".muted { color: #8a8a8a; }\n")
+    site = _worker_with(tmp_path, monkeypatch)
+    html = PAGE.format(css="site.css")
+    process = engine._process
+
+    def noting(site, rel, options, judged, html=None):  # a theme noted by the first check
+        site._themes_noted.add("a theme")
+        return process(site, rel, options, judged, html)
+    monkeypatch.setattr(engine, "_process", noting)
+    engine._worker_ahead(("a.html", _render, (html,)))
+    engine._worker_ahead(("b.html", _render, (html,)))
+    assert set(engine._AHEAD) == {"a.html", "b.html"}
+    assert engine._checked_ahead("a.html", html) is not None  # the same HTML: the answer
+    site._themes_noted.clear()
+    site._themes_noted.add("a theme")  # (noted ahead by b.html's check, say)
+    monkeypatch.setattr(engine, "_AHEAD", {"b.html": engine._AHEAD["b.html"][:2] + ({"a theme"},)})
+    assert engine._checked_ahead("b.html", html + " ") is None  # other HTML: checked anew
+    assert "a theme" not in site._themes_noted and not engine._AHEAD
+
+
+def test_a_check_ahead_that_missed_a_stylesheet_is_not_kept(tmp_path, monkeypatch):
+    """A stylesheet not in place yet (one a plugin writes later, say): the answer would not be
+    the written page's, so it is not kept, and what the check noted is withdrawn."""
+    site = _worker_with(tmp_path, monkeypatch)
+    before = set(site._themes_noted)
+    engine._worker_ahead(("a.html", _render, (PAGE.format(css="later.css"),)))
+    assert not engine._AHEAD and site._themes_noted == before
+    (tmp_path / "site.css").write_text(".muted { color: #8a8a8a; }\n")
+    engine._worker_ahead(("a.html", _render, (PAGE.format(css="site.css"),)))
+    assert set(engine._AHEAD) == {"a.html"}
+
+
+def test_a_stylesheet_changed_after_the_check_ahead_voids_its_answers(tmp_path, monkeypatch):
+    """The stylesheets MkDocs copies are compared, once, with those read ahead: other bytes
+    (a plugin rewrote one) and every answer kept ahead is checked again."""
+    import time
+
+    css = tmp_path / "site.css"
+    css.write_text(".muted { color: #8a8a8a; }\n")
+    _worker_with(tmp_path, monkeypatch)
+    html = PAGE.format(css="site.css")
+    engine._worker_ahead(("a.html", _render, (html,)))
+    engine._worker_ahead(("b.html", _render, (html,)))
+    time.sleep(0.01)
+    css.write_text(".muted { color: #595959; }\n")  # (7:1 on white)
+    assert engine._checked_ahead("a.html", html) is None
+    assert engine._checked_ahead("b.html", html) is None
+
+
+def test_stylesheets_are_put_in_place_ahead_from_their_sources(tmp_path):
+    from types import SimpleNamespace
+
+    from tinctura.plugin import ahead
+
+    (tmp_path / "src").mkdir()
+    (tmp_path / "src" / "a.css").write_text("a { color: red }")
+    (tmp_path / "src" / "b.css").write_text("b { color: blue }")
+    site = tmp_path / "site"
+    (site / "css").mkdir(parents=True)
+    (site / "css" / "b.css").write_text("kept")  # there already: left as it is
+    files = [SimpleNamespace(dest_uri="css/a.css", abs_src_path=str(tmp_path / "src" / "a.css")),
+             SimpleNamespace(dest_uri="css/b.css", abs_src_path=str(tmp_path / "src" / "b.css")),
+             SimpleNamespace(dest_uri="index.html", abs_src_path=str(tmp_path / "src" / "a.css")),
+             SimpleNamespace(dest_uri="gen.css", abs_src_path=None)]  # (made by a plugin)
+    ahead.copy_sheets(files, str(site))
+    assert (site / "css" / "a.css").read_text() == "a { color: red }"
+    assert (site / "css" / "b.css").read_text() == "kept"
+    assert not (site / "index.html").exists() and not (site / "gen.css").exists()

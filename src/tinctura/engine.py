@@ -15,6 +15,7 @@ from __future__ import annotations
 import dataclasses
 import fnmatch
 import gc
+import hashlib
 import importlib
 import os
 import pickle
@@ -815,6 +816,7 @@ def judge_page(site, rel, options, html=None, packed: bool = False):
 
 PAGE_TIMEOUT_S = 300  # far beyond any page seen (tens of milliseconds)
 PAGES_AHEAD = 8  # pages waiting per plugin worker (PagePool)
+AHEAD_WAITING = 2  # pages waiting to be checked ahead (PagePool.ahead)
 # pages kept for the end while the workers are behind (PagePool.defer), their HTML in the
 # spool folder: 400 pages of 100 KB hold 40 MB there; beyond, MkDocs' process checks them
 DEFERRED_MOST = 400
@@ -864,6 +866,7 @@ class PagePool:
         self._workers = workers
         self._deferred = []  # (rel, its HTML's file): pages kept for the end (``defer``)
         self._done = 0
+        self._ahead = 0  # pages sent to be checked ahead, not done yet (``ahead``)
         self._lock = threading.Lock()
 
     def _finished(self, _result) -> None:
@@ -955,6 +958,27 @@ class PagePool:
             if not keep:
                 self.close()
 
+    def ahead(self, rel: str, render, payload) -> bool:
+        """Have a worker render the page ``rel`` (``render(*payload)``, a module's function:
+        MkDocs has converted its Markdown and will render it later) and check it, keeping
+        the answer for when the page comes (``_checked_ahead``). At most ``AHEAD_WAITING``
+        wait: more would hold back the rendered pages. False when the page is not sent."""
+        with self._lock:
+            if self._ahead >= AHEAD_WAITING:
+                return False
+            self._ahead += 1
+        try:
+            self._pool.apply_async(_worker_ahead, ((rel, render, payload),),
+                                   callback=self._ahead_done, error_callback=self._ahead_done)
+        except Exception:
+            self._ahead_done(None)
+            return False
+        return True
+
+    def _ahead_done(self, _result) -> None:
+        with self._lock:
+            self._ahead -= 1
+
     def rechecker(self):
         """``overrides.verify``'s helper on these workers, once every page is answered
         (``results(keep=True)``): ``overrides.recheck`` of pages in a worker, with the
@@ -1044,9 +1068,64 @@ def _worker_check_html(args):
 
 
 def _check_to_file(rel, html, spool) -> str:
-    """A worker's answer for the page ``rel`` (its ``html``), in a file of ``spool``."""
+    """A worker's answer for the page ``rel`` (its ``html``), in a file of ``spool``: the
+    answer of its check ahead when it was of the same HTML (``PagePool.ahead``)."""
     site, options, judged = _WORKER
-    return _to_file(spool, _packed(_process(site, rel, options, judged, html), options))
+    answer = _checked_ahead(rel, html)
+    if answer is None:
+        answer = _packed(_process(site, rel, options, judged, html), options)
+    return _to_file(spool, answer)
+
+
+# In a worker: page -> (digest of the HTML checked ahead, its answer) (``PagePool.ahead``)
+_AHEAD: dict = {}
+AHEAD_KEPT = 200  # answers kept ahead at most (each is dropped once given): memory bounded
+_SHEETS_SAME: list = [None]  # whether the stylesheets read ahead are the site's (first use)
+
+
+def _worker_ahead(args) -> None:
+    """Render a page ahead (``render(*payload)``, the caller's), check it and keep the answer
+    under its HTML's digest, with what its check noted once for the site (a theme's note,
+    which goes with the first page checked). A check that missed a stylesheet (not in place
+    yet) is not kept; a page that cannot be rendered or checked is checked when it comes.
+    What an answer not kept noted is withdrawn: the page's own check notes it."""
+    rel, render, payload = args
+    site, options, judged = _WORKER
+    if len(_AHEAD) >= AHEAD_KEPT:  # (no room: the page is checked when it comes)
+        return
+    missing, noted = site.loader.missing, set(site._themes_noted)
+    kept = False
+    try:
+        html = render(*payload)
+        answer = _packed(_process(site, rel, options, judged, html), options)
+        if site.loader.missing == missing:
+            _AHEAD[rel] = (_html_digest(html), answer, site._themes_noted - noted)
+            kept = True
+    except Exception:
+        pass
+    finally:
+        if not kept:
+            site._themes_noted = noted
+
+
+def _checked_ahead(rel, html):
+    """The answer kept ahead for ``rel`` when it was of this HTML and the stylesheets MkDocs
+    has copied since are the bytes read ahead (compared once), else None (and what it noted
+    is withdrawn, for the page's own check to note)."""
+    known = _AHEAD.pop(rel, None)
+    if known is None:
+        return None
+    site = _WORKER[0]
+    if _SHEETS_SAME[0] is None:
+        _SHEETS_SAME[0] = not site.stylesheets_changed()
+    if not _SHEETS_SAME[0] or known[0] != _html_digest(html):
+        site._themes_noted -= known[2]
+        return None
+    return known[1]
+
+
+def _html_digest(html: str) -> bytes:
+    return hashlib.blake2b(html.encode("utf-8", "surrogatepass"), digest_size=16).digest()
 
 
 def _answers(rels, pending):

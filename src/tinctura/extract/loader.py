@@ -46,6 +46,7 @@ class SheetLoader:
         self._sheets = {}  # path -> (mtime, ParsedSheet, diagnostics)
         self._rulesets = {}
         self.generation = 0  # bumped when a stylesheet changed on disk
+        self.missing = 0  # stylesheets linked or imported that were not there or not read
         # sheets parsed ahead in another process (``prepared.Prepared``), or None
         self.prepared = None
         self.cache = None  # parsed sheets kept between runs (``sheet_cache.SheetCache``)
@@ -80,6 +81,7 @@ class SheetLoader:
         if not (candidate + os.sep).startswith(self.root + os.sep) and candidate != self.root:
             return None, "stylesheet outside the site directory not loaded"
         if not os.path.isfile(candidate):
+            self.missing += 1
             return None, "stylesheet file not found"
         if not bounds.inside(candidate, self.real_root):
             return None, ("stylesheet is a symbolic link leading outside the site directory; "
@@ -91,6 +93,7 @@ class SheetLoader:
         try:
             mtime = os.stat(path).st_mtime_ns
         except OSError as exc:
+            self.missing += 1
             return None, [Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
                                      severity="error")]
         cached = self._sheets.get(path)
@@ -117,6 +120,7 @@ class SheetLoader:
                                     severity="error"))
         except OSError as exc:
             parsed, digest = None, None
+            self.missing += 1
             diags.append(Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
                                     severity="error"))
         except Exception as exc:  # a broken sheet must not stop the site
