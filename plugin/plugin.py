@@ -207,17 +207,16 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if not CHECK_AHEAD or self.workers() == 0 or self.nav is None or self.files is None \
                 or self.excluded(page.file.src_uri):
             return
-        if self.pool is None:
-            try:
+        try:
+            if self.pool is None:
                 ahead.copy_sheets(self.files, self.site_dir)
-            except OSError as exc:  # (the pages are checked once MkDocs has written them)
-                log.info(f"stylesheets not put in place ahead: {exc}")
-                self.nav = None
-                return
-            ahead.begin(config, self.files, self.nav)
-            self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
-                                        self.get_site())
-        self.pool.ahead(page.file.dest_uri, ahead.render, ahead.payload(page, html))
+                ahead.begin(config, self.files, self.nav)
+                self.pool = engine.PagePool(self.site_dir, self.options, self.workers(),
+                                            self.get_site())
+            self.pool.ahead(page.file.dest_uri, ahead.render, ahead.payload(page, html))
+        except Exception as exc:  # (the pages are checked once MkDocs has written them)
+            log.info(f"pages not checked ahead: {exc!r}")
+            self.nav = None
 
     def prepare_sheets(self, files, extra_css) -> None:
         """Have the stylesheets MkDocs will copy parsed in another process while it converts

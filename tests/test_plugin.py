@@ -746,3 +746,30 @@ def test_stylesheets_are_put_in_place_ahead_from_their_sources(tmp_path):
     assert (site / "css" / "a.css").read_text() == "a { color: red }"
     assert (site / "css" / "b.css").read_text() == "kept"
     assert not (site / "index.html").exists() and not (site / "gen.css").exists()
+
+
+@slow
+def test_a_page_that_cannot_go_ahead_is_checked_when_written(tmp_path, monkeypatch, caplog):
+    """Checking ahead leans on MkDocs' page internals: where they are not as expected (another
+    MkDocs version, say) it stops, says so at INFO, and the pages are checked as written."""
+    from tinctura.plugin import ahead
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+
+    def broken(page, content):
+        raise AttributeError("'Page' object has no attribute '_title_from_render'")
+    monkeypatch.setattr(ahead, "payload", broken)
+    caplog.set_level(logging.INFO, logger="mkdocs")
+    reports = []
+    for on in (True, False):
+        project = _nav_project(tmp_path / str(on), on, monkeypatch)
+        caplog.clear()
+        config = configure(project)
+        config.plugins.on_startup(command="build", dirty=False)
+        build(config)
+        reports.append((project / "out.json").read_text(encoding="utf-8"))
+        if on:
+            assert any(line.startswith("pages not checked ahead")
+                       for line in messages(caplog, logging.INFO))
+    assert reports[0] == reports[1]
