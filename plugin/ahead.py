@@ -5,9 +5,10 @@ MkDocs converts every page's Markdown before it renders the first: a third to th
 a build, on one core, while the worker's core idles. A page rendered with MkDocs' own context
 and the theme's template right after its conversion is, on a site whose navigation names its
 pages, the page MkDocs writes later (199-200 of 200 pages of the benchmark's shapes, HISTORY
-2026-12-04 23:26; without ``nav:`` the titles of pages not yet converted are unknown, and few
-pages agree). So each converted page goes to the worker, which renders it (``render``), checks
-it and keeps the answer under the HTML's digest; when MkDocs has written the page and hands it
+2026-12-04 23:26); without ``nav:``, MkDocs names a page by its first heading, known once the
+page is converted, so the worker first reads every page's Markdown (``_read_sources``). So
+each converted page goes to the worker, which renders it (``render``), checks it and keeps the
+answer under the HTML's digest; when MkDocs has written the page and hands it
 over, the answer for the same HTML is given at once (``engine.PagePool.ahead``). Nothing is
 reused on trust: the HTML must be the same characters, the stylesheets the same bytes (put in
 place ahead from the sources MkDocs copies later, ``copy_sheets``; the worker compares them
@@ -43,6 +44,7 @@ def render(src_uri: str, content: str, toc, meta: dict, title) -> str:
     config, files, nav = _STATE["config"], _STATE["files"], _STATE["nav"]
     if _STATE["env"] is None:
         _STATE["env"] = config.theme.get_env()
+        _read_sources(config, files)
     page = files.get_file_from_path(src_uri).page
     if page.markdown is None:  # (read in MkDocs' process: the title comes from the render)
         page.markdown = ""
@@ -56,6 +58,20 @@ def render(src_uri: str, content: str, toc, meta: dict, title) -> str:
     finally:
         config._current_page = None
         page.active = False
+
+
+def _read_sources(config, files) -> None:
+    """Every page's Markdown read now, as MkDocs reads it before converting it: a page not
+    converted yet is then named in the navigation by its metadata's title or its first
+    heading, as MkDocs names it once converted (where the heading reads the same rendered;
+    where not, the digest differs and the page is checked when written)."""
+    for f in files.documentation_pages():
+        page = f.page
+        if page is not None and page.markdown is None:
+            try:
+                page.read_source(config)
+            except Exception:  # (MkDocs reports it when it reads the page itself)
+                pass
 
 
 def copy_sheets(files, site_dir: str) -> None:

@@ -2,6 +2,7 @@
 import logging
 import os
 import re
+import sys
 import textwrap
 
 import pytest
@@ -612,16 +613,17 @@ def test_problems_named_by_number_in_the_log_are_numbered(tmp_path, caplog):
 
 # -- pages checked ahead, while MkDocs converts the Markdown ---------------------------------
 
-def _nav_project(path, ahead: bool, monkeypatch):
-    """The tiny project with a navigation naming its pages, jobs 2, a JSON report; checking
-    ahead on or off (``plugin.CHECK_AHEAD``)."""
+def _nav_project(path, ahead: bool, monkeypatch, nav: bool = True):
+    """The tiny project with a navigation naming its pages (``nav``), jobs 2, a JSON report;
+    checking ahead on or off (``plugin.CHECK_AHEAD``)."""
     from tinctura.plugin import plugin as plugin_mod
 
     monkeypatch.setattr(plugin_mod, "CHECK_AHEAD", ahead)
     project = make_project(path, {"jobs": 2, "fail_on": "never", "report": "['json:out.json']"})
-    with open(project / "mkdocs.yml", "a", encoding="utf-8") as fh:
-        fh.write("nav:\n  - Home: index.md\n  - Lending rules: lending.md\n"
-                 "  - Notes: drafts/notes.md\n")
+    if nav:
+        with open(project / "mkdocs.yml", "a", encoding="utf-8") as fh:
+            fh.write("nav:\n  - Home: index.md\n  - Lending rules: lending.md\n"
+                     "  - Notes: drafts/notes.md\n")
     return project
 
 
@@ -648,9 +650,35 @@ def test_pages_checked_ahead_give_the_same_report_and_log(tmp_path, monkeypatch,
     assert on == _built(tmp_path, False, monkeypatch, caplog)
 
 
-def _built(tmp_path, ahead: bool, monkeypatch, caplog) -> tuple:
-    """``(JSON report, log messages)`` of a build of ``_nav_project``."""
-    project = _nav_project(tmp_path / str(ahead), ahead, monkeypatch)
+@slow
+def test_pages_named_by_their_headings_are_checked_ahead_too(tmp_path, monkeypatch, caplog):
+    """No `nav:`: MkDocs names each page by its first heading, known once the page is
+    converted; the worker reads every page's Markdown first, so the first page's navigation
+    already names the pages converted after it, as MkDocs' written page does."""
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    hits = tmp_path / "hits"
+    checked_ahead = engine._checked_ahead
+
+    def logged(rel, html):
+        answer = checked_ahead(rel, html)
+        if answer is not None:
+            with open(hits, "a", encoding="utf-8") as fh:
+                fh.write(rel + "\n")
+        return answer
+    monkeypatch.setattr(engine, "_checked_ahead", logged)
+    nav_theme = THEME.replace("<body>", "<body><nav>{% for item in nav %}<a>{{ item.title }}</a>"
+                                        "{% endfor %}</nav>")
+    monkeypatch.setattr(sys.modules[__name__], "THEME", nav_theme)
+    on = _built(tmp_path, True, monkeypatch, caplog, nav=False)
+    assert hits.exists() and "index.html" in hits.read_text().split()
+    assert on == _built(tmp_path, False, monkeypatch, caplog, nav=False)
+
+
+def _built(tmp_path, ahead: bool, monkeypatch, caplog, nav: bool = True) -> tuple:
+    """``(JSON report, log messages)`` of a build of ``_nav_project`` (``nav``: with its
+    navigation)."""
+    project = _nav_project(tmp_path / str(ahead), ahead, monkeypatch, nav)
     caplog.clear()
     config = configure(project)
     config.plugins.on_startup(command="build", dirty=False)
