@@ -632,6 +632,30 @@ def test_pages_checked_ahead_give_the_same_report_and_log(tmp_path, monkeypatch,
     """With a navigation that names the pages, the worker renders and checks each page as soon
     as its Markdown is converted and gives that answer when MkDocs has written the same HTML
     (plugin/ahead.py): the report and the log are those of checking the written pages."""
+    hits = _answered_ahead(tmp_path, monkeypatch)
+    on = _built(tmp_path, True, monkeypatch, caplog)
+    # (the worker takes the pages converted first before any written page)
+    assert hits.exists() and "index.html" in hits.read_text().split()
+    assert on == _built(tmp_path, False, monkeypatch, caplog)
+
+
+@slow
+def test_pages_named_by_their_headings_are_checked_ahead_too(tmp_path, monkeypatch, caplog):
+    """No `nav:`: MkDocs names each page by its first heading, known once the page is
+    converted; the worker reads every page's Markdown first, so the first page's navigation
+    already names the pages converted after it, as MkDocs' written page does."""
+    hits = _answered_ahead(tmp_path, monkeypatch)
+    nav_theme = THEME.replace("<body>", "<body><nav>{% for item in nav %}<a>{{ item.title }}</a>"
+                                        "{% endfor %}</nav>")
+    monkeypatch.setattr(sys.modules[__name__], "THEME", nav_theme)
+    on = _built(tmp_path, True, monkeypatch, caplog, nav=False)
+    assert hits.exists() and "index.html" in hits.read_text().split()
+    assert on == _built(tmp_path, False, monkeypatch, caplog, nav=False)
+
+
+def _answered_ahead(tmp_path, monkeypatch):
+    """The file where the worker names each page it answered from its check ahead (skips
+    where workers cannot be forked)."""
     if not engine.can_fork():
         pytest.skip("worker processes need fork")
     hits = tmp_path / "hits"
@@ -644,35 +668,7 @@ def test_pages_checked_ahead_give_the_same_report_and_log(tmp_path, monkeypatch,
                 fh.write(rel + "\n")
         return answer
     monkeypatch.setattr(engine, "_checked_ahead", logged)
-    on = _built(tmp_path, True, monkeypatch, caplog)
-    # (the worker takes the pages converted first before any written page)
-    assert hits.exists() and "index.html" in hits.read_text().split()
-    assert on == _built(tmp_path, False, monkeypatch, caplog)
-
-
-@slow
-def test_pages_named_by_their_headings_are_checked_ahead_too(tmp_path, monkeypatch, caplog):
-    """No `nav:`: MkDocs names each page by its first heading, known once the page is
-    converted; the worker reads every page's Markdown first, so the first page's navigation
-    already names the pages converted after it, as MkDocs' written page does."""
-    if not engine.can_fork():
-        pytest.skip("worker processes need fork")
-    hits = tmp_path / "hits"
-    checked_ahead = engine._checked_ahead
-
-    def logged(rel, html):
-        answer = checked_ahead(rel, html)
-        if answer is not None:
-            with open(hits, "a", encoding="utf-8") as fh:
-                fh.write(rel + "\n")
-        return answer
-    monkeypatch.setattr(engine, "_checked_ahead", logged)
-    nav_theme = THEME.replace("<body>", "<body><nav>{% for item in nav %}<a>{{ item.title }}</a>"
-                                        "{% endfor %}</nav>")
-    monkeypatch.setattr(sys.modules[__name__], "THEME", nav_theme)
-    on = _built(tmp_path, True, monkeypatch, caplog, nav=False)
-    assert hits.exists() and "index.html" in hits.read_text().split()
-    assert on == _built(tmp_path, False, monkeypatch, caplog, nav=False)
+    return hits
 
 
 def _built(tmp_path, ahead: bool, monkeypatch, caplog, nav: bool = True) -> tuple:
