@@ -74,15 +74,19 @@ def _read_sources(config, files) -> None:
                 pass
 
 
+def stylesheet_files(files) -> list:
+    """The stylesheets among MkDocs' ``files`` that it copies from a source on disk (a file a
+    plugin generates has none), in MkDocs' order."""
+    return [f for f in files if f.dest_uri.lower().endswith(".css") and f.abs_src_path
+            and os.path.isfile(f.abs_src_path)]
+
+
 def copy_sheets(files, site_dir: str) -> None:
     """The site's stylesheets, where MkDocs will copy them from their sources after the
     conversion, put there now (those already there are left): pages checked ahead read them.
     MkDocs copies them again; the worker then compares their bytes (``engine._checked_ahead``)."""
-    for f in files:
-        if not f.dest_uri.lower().endswith(".css") or not f.abs_src_path:
-            continue
+    for f in stylesheet_files(files):
         dest = os.path.join(site_dir, f.dest_uri)
-        if os.path.exists(dest) or not os.path.isfile(f.abs_src_path):
-            continue
-        os.makedirs(os.path.dirname(dest), exist_ok=True)
-        shutil.copyfile(f.abs_src_path, dest)
+        if not os.path.exists(dest):
+            os.makedirs(os.path.dirname(dest), exist_ok=True)
+            shutil.copyfile(f.abs_src_path, dest)

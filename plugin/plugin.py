@@ -8,7 +8,6 @@ from __future__ import annotations
 
 import fnmatch
 import gc
-import hashlib
 import logging
 import os
 
@@ -58,8 +57,7 @@ class PageRecord:
         self.uses = uses  # declaration -> backgrounds, for fixes at the cause
 
 
-def digest(html: str) -> str:
-    return hashlib.blake2b(html.encode("utf-8", "surrogatepass"), digest_size=16).hexdigest()
+digest = engine.html_digest  # (a page's HTML, compared with an earlier build's)
 
 
 class TincturaPlugin(BasePlugin[TincturaConfig]):
@@ -227,9 +225,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         if self.site is not None or self.prepared is not None or self.workers() == 0:
             return
         root, extra = os.path.abspath(self.site_dir), {str(path) for path in extra_css}
-        css = [f for f in files if f.dest_uri.lower().endswith(".css") and f.abs_src_path
-               and os.path.isfile(f.abs_src_path)]
-        css.sort(key=lambda f: f.dest_uri not in extra)  # (stable: MkDocs' order otherwise)
+        css = sorted(ahead.stylesheet_files(files),  # (stable: MkDocs' order otherwise)
+                     key=lambda f: f.dest_uri not in extra)
         sources = [(os.path.join(root, f.dest_uri), f.abs_src_path) for f in css]
         if sources:  # parsed as this build's Site will parse them
             self.prepared = prepared_mod.start(engine.Site(root, self.options).loader, sources)

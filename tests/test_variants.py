@@ -32,7 +32,7 @@ PAGES = 14
 
 
 @pytest.fixture(scope="module", params=["varied", "states", "many", "mkdocs-theme",
-                                                 "readthedocs-theme"])
+                                        "readthedocs-theme"])
 def variant_site(request, tmp_path_factory):
     out = tmp_path_factory.mktemp(request.param)
     before = generate_site.SECTION_SIZE

@@ -1099,7 +1099,7 @@ def _worker_ahead(args) -> None:
         html = render(*payload)
         answer = _packed(_process(site, rel, options, judged, html), options)
         if site.loader.missing == missing:
-            _AHEAD[rel] = (_html_digest(html), answer, site._themes_noted - noted)
+            _AHEAD[rel] = (html_digest(html), answer, site._themes_noted - noted)
             kept = True
     except Exception:
         pass
@@ -1118,14 +1118,16 @@ def _checked_ahead(rel, html):
     site = _WORKER[0]
     if _SHEETS_SAME[0] is None:
         _SHEETS_SAME[0] = not site.stylesheets_changed()
-    if not _SHEETS_SAME[0] or known[0] != _html_digest(html):
+    if not _SHEETS_SAME[0] or known[0] != html_digest(html):
         site._themes_noted -= known[2]
         return None
     return known[1]
 
 
-def _html_digest(html: str) -> bytes:
-    return hashlib.blake2b(html.encode("utf-8", "surrogatepass"), digest_size=16).digest()
+def html_digest(html: str) -> str:
+    """A page's HTML in 32 hex digits: the plugin's records (a page changed since an earlier
+    build?) and the answers kept ahead (the page rendered ahead is the page written?)."""
+    return hashlib.blake2b(html.encode("utf-8", "surrogatepass"), digest_size=16).hexdigest()
 
 
 def _answers(rels, pending):
