@@ -30,3 +30,17 @@ def test_wheel_contains_every_subpackage(tmp_path):
     assert "tinctura/data/user-agent.css" in names
     assert "tinctura/data/report-schema.json" in names
     assert not any(n.startswith(("rules/", "plugin/")) for n in names)
+
+
+def test_mkdocs_floor_turns_the_plugin_off_with_enabled():
+    """The README turns the plugin off with `enabled: !ENV [CI, false]`, an option MkDocs
+    itself handles for every plugin since 1.6.0 (MkDocs' release notes, recalled from memory).
+    MkDocs 1.5.3 warned "Unrecognised configuration name: enabled" and ran the plugin anyway
+    (tests/test_plugin.py::test_enabled_is_left_to_mkdocs under 1.5.3, 2026-12-05), so the
+    package does not accept it."""
+    import re
+
+    text = (ROOT / "pyproject.toml").read_text(encoding="utf-8")
+    floor = re.search(r'"mkdocs>=(\d+)\.(\d+)', text)
+    assert floor is not None, "the mkdocs requirement names its lowest version"
+    assert (int(floor.group(1)), int(floor.group(2))) >= (1, 6)
