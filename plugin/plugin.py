@@ -377,6 +377,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         aid = self.writer_aid(found, pages, records, fixes=self.fixes_read())
+        if self.helper is not None:  # (they verified the fixes: nothing more for them)
+            self.helper.end_soon()
         locate = aid  # callable: sample -> Location
         changes = self.log_changes(found) if self.serving_again() else None
         findings = outputs.GateView(store, marked=False, counts=gate.counts)  # those that count

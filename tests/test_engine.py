@@ -287,6 +287,30 @@ def test_page_pool_rechecks_pages_with_css_as_this_process_does(site):
     assert here[0] < without[0]  # the faint text's problem is gone with the CSS
 
 
+def test_page_pool_ends_its_workers_in_the_background_and_close_waits(site):
+    """The plugin starts ending its worker once the fixes are verified (``end_soon``), while
+    it writes the reports; ``close`` then waits for that and removes the pages' folder."""
+    import multiprocessing
+    import os
+
+    from tinctura.engine import PagePool, can_fork
+
+    if not can_fork():
+        pytest.skip("worker processes need fork")
+    pool = PagePool(str(site), Options(keep_samples=False), 1)
+    try:
+        assert pool.submit("p0/index.html", (site / "p0/index.html").read_text())
+        assert [rel for rel, _ in pool.results(keep=True)] == ["p0/index.html"]
+        pool.end_soon()
+        pool.end_soon()  # (once)
+        ending = pool._ending
+        assert ending is not None
+    finally:
+        pool.close()
+    assert not ending.is_alive() and multiprocessing.active_children() == []
+    assert not os.path.exists(pool._spool)
+
+
 def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     """Half the pages checked by a helper (the plugin's worker): the same verdicts and counts."""
     from tinctura import overrides
@@ -461,6 +485,35 @@ def test_cli_jobs_2_verifies_fixes_as_jobs_1_in_the_checks_own_workers(shaded, t
     assert os.getpid() not in two and two  # the check's workers, not this process
     assert sorted(sum(two.values(), [])) == sorted(one[os.getpid()])  # each page once
     assert not folders  # (no worker forked for the rechecks: a PagePool makes a folder)
+    assert multiprocessing.active_children() == [] and engine._KEPT is None
+    assert engine._ENDING == []
+
+
+def test_cli_jobs_2_workers_start_ending_before_the_reports(shaded, monkeypatch):
+    """Once the kept workers have verified the fixes they have nothing more to do: they are
+    ending (in a thread) while the reports are written, and gone when the command returns."""
+    import multiprocessing
+
+    from tinctura import cli, engine
+    from tinctura.report import outputs
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    seen = []
+    write = outputs.write_reports
+
+    def spied(*args, **kwargs):
+        seen.append((dict(engine._KEPT), list(engine._ENDING)))
+        return write(*args, **kwargs)
+
+    monkeypatch.setattr(outputs, "write_reports", spied)
+    out = shaded.parent / "ending.json"
+    cli.main(["check", str(shaded), "--no-config", "--fail-on", "never", "--jobs", "2",
+              "--format", f"json:{out}"])
+    assert len(seen) == 1
+    kept, ending = seen[0]
+    assert kept == {} and len(ending) == 1  # no pool kept: one ending
+    assert not ending[0].is_alive() and engine._ENDING == []
     assert multiprocessing.active_children() == [] and engine._KEPT is None
 
 

@@ -22,6 +22,7 @@ import pickle
 import re
 import shutil
 import tempfile
+import threading
 from contextlib import ExitStack, contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
@@ -857,6 +858,7 @@ class PagePool:
             shutil.rmtree(self._spool, ignore_errors=True)
             raise
         self._pending = []
+        self._ending = None  # the thread ending the workers (``end_soon``)
         # pages given to the workers and not answered yet. When they are this far behind,
         # pages are kept for the end (``defer``), when a worker and a copy of it share them:
         # checked here, MkDocs' process, they cost it 16-140 ms each with its cold caches
@@ -987,10 +989,19 @@ class PagePool:
         either way, 200 pages of the benchmark's `baseline`.)"""
         return _pool_helper(self._pool, False)
 
+    def end_soon(self) -> None:
+        """Start ending the workers, their work done, while this process writes the reports;
+        ``close`` waits for it. (The collector's freeze is left to ``close``: thawed now, the
+        reports' collections would scan everything the check keeps.)"""
+        if self._ending is None:
+            self._ending = _ending(self._pool)
+
     def close(self) -> None:
         """End the workers: every answer is in, and a stuck worker must not hold the build."""
-        self._pool.terminate()
-        self._pool.join()
+        if self._ending is None:
+            _end(self._pool)
+        else:
+            self._ending.join()
         self._frozen.close()
         shutil.rmtree(self._spool, ignore_errors=True)  # pages no worker took
 
@@ -1004,13 +1015,17 @@ def recheck_helper(root: str, options: Options, loader=None):
     first use only) that inherits ``loader``'s parsed stylesheets and rechecks its share
     beside this process. When the worker cannot start the helper gives None, and ``verify``
     checks those pages here. On exit the worker and its folder are gone. Where the check kept
-    its workers (``pools_kept``), they recheck every share instead."""
+    its workers (``pools_kept``), they recheck every share instead, and on exit start ending."""
     if int(options.jobs or 1) < 2 or not can_fork():
         yield None
         return
     kept = (_KEPT or {}).get(root)
     if kept is not None:  # the check's own workers, warm: they take every share
-        yield _pool_helper(kept, True)
+        try:
+            yield _pool_helper(kept, True)
+        finally:  # then they end while this process writes the reports
+            del _KEPT[root]
+            _ENDING.append(_ending(kept))
         return
     pools = []
 
@@ -1357,6 +1372,7 @@ def _site_pages(site, pages, options, judged):
 # site root -> the pool of its pages' workers, kept after its last page while ``pools_kept``
 # holds it (None: pools end with their pages)
 _KEPT: dict | None = None
+_ENDING: list = []  # threads ending kept pools once they verified the fixes (``_ending``)
 
 
 @contextmanager
@@ -1365,7 +1381,8 @@ def pools_kept():
     last page instead of ending them: ``recheck_helper`` gives them the verification of the
     fixes, warm from the pages (in a process that checked none, the first page rechecked cost
     115-120 ms against 75-80 ms in one that had checked 30: 200 pages of the benchmark's
-    `baseline`). They end with the block."""
+    `baseline`). They end once they have (in a thread, while the reports are written), or
+    with the block."""
     global _KEPT
     outer, _KEPT = _KEPT, {}
     try:
@@ -1374,6 +1391,8 @@ def pools_kept():
         kept, _KEPT = _KEPT, outer
         for pool in kept.values():
             _end(pool)
+        while _ENDING:
+            _ENDING.pop().join()
 
 
 def _keep(root: str, pool) -> bool:
@@ -1389,6 +1408,15 @@ def _end(pool) -> None:
     """End a pool's workers (as leaving its ``with`` block does): every answer is in."""
     pool.terminate()
     pool.join()
+
+
+def _ending(pool) -> threading.Thread:
+    """``_end(pool)`` in a thread, started: ending two workers took 21-26 ms of the command's
+    end, mostly waiting for them to exit, which the reports need not wait for."""
+    thread = threading.Thread(target=_end, args=(pool,), name="tinctura-end-workers",
+                              daemon=True)
+    thread.start()
+    return thread
 
 
 def shrinking_chunks(pages: list, jobs: int, most: int = 25) -> list:
