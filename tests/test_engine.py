@@ -311,6 +311,55 @@ def test_page_pool_ends_its_workers_in_the_background_and_close_waits(site):
     assert not os.path.exists(pool._spool)
 
 
+@pytest.mark.parametrize("copy", ["works", "cannot start", "fails"])
+def test_a_lone_worker_rechecks_every_page_beside_a_copy_of_itself(site, tmp_path_factory,
+                                                                    logged, monkeypatch, copy):
+    """The plugin's lone worker takes every verification page and forks a copy of itself that
+    rechecks every other one (``_worker_recheck_split``): MkDocs' process rechecks none, the
+    answer is the union of the two, the same as rechecking them all here. A copy that cannot
+    start or fails leaves its pages to the worker, with the same answer."""
+    import os
+
+    from tinctura import engine, overrides
+
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    options = Options(keep_samples=False)
+    css = ".faint { color: #595959; }\n"
+    pages = ["p1/index.html", "p2/index.html", "p3/index.html"]
+    logs = tmp_path_factory.mktemp("logs")
+    logged[0] = logs / "here"
+    here = overrides.recheck(str(site), options, css, pages)
+    logged[0] = logs / "there"  # (the worker is forked after this: it inherits the log's name
+    fork_copy = engine._fork_copy  # and what its copy does)
+    if copy == "cannot start":
+        monkeypatch.setattr(engine, "_fork_copy", lambda spool, work: None)
+    elif copy == "fails":
+        monkeypatch.setattr(engine, "_fork_copy",
+                            lambda spool, work: fork_copy(spool, _failing_copy))
+    pool = engine.PagePool(str(site), options, 1)
+    try:
+        assert pool.submit("p0/index.html", (site / "p0/index.html").read_text())
+        list(pool.results(keep=True))
+        helper = pool.rechecker()
+        assert helper.all_shares and helper.splits
+        there = helper(css, pages)()
+    finally:
+        pool.close()
+    assert there == here and here[2] > 0
+    rechecks = _rechecks(logs / "there")
+    assert os.getpid() not in rechecks
+    assert sorted(sum(rechecks.values(), [])) == sorted(pages)  # each page once
+    if copy == "works":
+        assert sorted(rechecks.values()) == [pages[0::2], pages[1::2]]
+    else:  # the worker alone: all the pages, or its share then the copy's
+        assert len(rechecks) == 1
+
+
+def _failing_copy():
+    raise RuntimeError("the copy failed")
+
+
 def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     """Half the pages checked by a helper (the plugin's worker): the same verdicts and counts."""
     from tinctura import overrides

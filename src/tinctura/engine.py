@@ -981,13 +981,19 @@ class PagePool:
         with self._lock:
             self._ahead -= 1
 
-    def rechecker(self):
+    def rechecker(self, every_page: bool = True):
         """``overrides.verify``'s helper on these workers, once every page is answered
-        (``results(keep=True)``): ``overrides.recheck`` of pages in a worker, with the
-        workers' options and parsed stylesheets, beside the caller. (Giving the plugin's
-        worker every share instead, MkDocs' process none, made no difference: 140-165 ms
-        either way, 200 pages of the benchmark's `baseline`.)"""
-        return _pool_helper(self._pool, False)
+        (``results(keep=True)``): ``overrides.recheck`` of pages in the workers, warm, with
+        their options and parsed stylesheets. ``every_page``: they take every page, a lone
+        worker splitting them with a copy of itself (the plugin: MkDocs' process, whose
+        caches have seen no page, took 155-267 ms for its share where the worker took 104-191
+        ms for the other, 200 pages of the benchmark's `baseline`; the worker taking both
+        shares without a copy made no difference); else the share they are given."""
+        if not every_page:
+            return _pool_helper(self._pool, False)
+        if self._workers == 1:
+            return _pool_helper(self._pool, True, split_in=self._spool)
+        return _pool_helper(self._pool, True)
 
     def end_soon(self) -> None:
         """Start ending the workers, their work done, while this process writes the reports;
@@ -1036,7 +1042,7 @@ def recheck_helper(root: str, options: Options, loader=None):
                 if loader is not None:
                     site.loader = loader
                 pools.append(PagePool(root, options, 1, site))
-            return pools[0].rechecker()(css, pages)
+            return pools[0].rechecker(every_page=False)(css, pages)
         except Exception:  # no worker: verify checks these pages itself
             return None
 
@@ -1047,14 +1053,19 @@ def recheck_helper(root: str, options: Options, loader=None):
             pool.close()
 
 
-def _pool_helper(pool, all_shares: bool):
+def _pool_helper(pool, all_shares: bool, split_in: str | None = None):
     """``overrides.verify``'s helper on a pool's workers: each call starts ``recheck`` of some
     pages in one of them and returns at once a callable that waits for the answer (None when
     the worker failed: the caller then checks the pages itself), or None when the pool takes
-    no work. ``all_shares``: the workers take every share (two or more, warm)."""
+    no work. ``all_shares``: the workers take every share (two or more, warm). ``split_in``:
+    one worker takes every page, splitting them with a copy of itself
+    (``_worker_recheck_split``; the copy's answer in a file of that folder)."""
     def helper(css, pages):
         try:
-            pending = pool.apply_async(_worker_recheck, ((css, pages),))
+            if split_in is not None:
+                pending = pool.apply_async(_worker_recheck_split, ((css, pages, split_in),))
+            else:
+                pending = pool.apply_async(_worker_recheck, ((css, pages),))
         except Exception:
             return None
 
@@ -1065,7 +1076,8 @@ def _pool_helper(pool, all_shares: bool):
                 return None
         return answer
 
-    helper.all_shares = all_shares
+    helper.all_shares = all_shares or split_in is not None
+    helper.splits = split_in is not None  # one share: every page
     return helper
 
 
@@ -1075,6 +1087,28 @@ def _worker_recheck(args):
     from . import overrides
 
     return overrides.recheck(site.root, options, css, pages, site.loader)
+
+
+def _worker_recheck_split(args):
+    """``_worker_recheck`` of every verification page by a lone worker (the plugin's): it
+    forks a copy of itself, warm, that rechecks every other page while it rechecks the rest,
+    where MkDocs' process, cold, took a share. A copy that cannot start or fails leaves its
+    pages to this worker. The answers' union (``overrides.union``)."""
+    css, pages, spool = args
+    site, options, _ = _WORKER
+    from . import overrides
+
+    def recheck(share):
+        return overrides.recheck(site.root, options, css, share, site.loader)
+
+    theirs = pages[1::2]
+    copy = _fork_copy(spool, lambda: recheck(theirs)) if theirs and hasattr(os, "fork") \
+        else None
+    mine = recheck(pages[0::2] if copy is not None else pages)
+    if copy is None:
+        return mine
+    got = _reaped(*copy)
+    return overrides.union([mine, got if got is not None else recheck(theirs)])
 
 
 def _worker_check_html(args):
@@ -1185,6 +1219,13 @@ def _fork_checker(tasks, spool):
     """``(pid, file of its answers' paths)`` of a forked copy of this worker checking the
     pages of ``tasks`` (``(rel, file of its HTML)``, the files left in place), or None when
     it cannot start."""
+    return _fork_copy(spool, lambda: [_check_to_file(rel, _from_file(path, keep=True), spool)
+                                      for rel, path in tasks])
+
+
+def _fork_copy(spool, work):
+    """``(pid, file of its answer)`` of a forked copy of this worker that pickles what
+    ``work()`` returns into a file of ``spool``, or None when it cannot start."""
     fd, listing = tempfile.mkstemp(dir=spool)
     os.close(fd)
     try:
@@ -1195,19 +1236,18 @@ def _fork_checker(tasks, spool):
     if pid:
         return pid, listing
     code = 1
-    try:  # the copy: its answers, then out without any of the worker's exit handlers
+    try:  # the copy: its answer, then out without any of the worker's exit handlers
         _die_with_parent()
-        paths = [_check_to_file(rel, _from_file(path, keep=True), spool)
-                 for rel, path in tasks]
+        answer = work()
         with open(listing, "wb") as fh:
-            pickle.dump(paths, fh)
+            pickle.dump(answer, fh)
         code = 0
     finally:
         os._exit(code)
 
 
 def _reaped(pid, listing):
-    """The answers' paths the forked copy ``pid`` wrote, once it has ended; None if it
+    """What the forked copy ``pid`` wrote (``_fork_copy``), once it has ended; None if it
     failed."""
     try:
         _, status = os.waitpid(pid, 0)

@@ -820,7 +820,9 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     worker, idle by then) and returns a callable giving its result (None if the worker
     failed), or None when no worker could start; those pages are then checked here. The
     pages are shared in two; this process checks the first share, unless the helper's
-    ``all_shares`` is true (warm workers of its own: ``engine.pools_kept``).
+    ``all_shares`` is true (warm workers: ``engine.pools_kept``, the plugin's), and a helper
+    whose ``splits`` is true takes every page as one share (a lone worker that splits them
+    with a copy of itself).
     What is found is the same wherever a page is checked: the answers are unions."""
     css = combined_css(overrides)
     if not css:
@@ -831,7 +833,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         _mark(problems, overrides, remaining_keys, bad, took)
         return counts
     shares = [list(pages)]
-    if helper is not None and len(pages) > 1:
+    if helper is not None and len(pages) > 1 and not getattr(helper, "splits", False):
         shares = [shares[0][0::2], shares[0][1::2]]
     # a helper with warm workers of its own takes every share; another, all but the first
     away = shares if getattr(helper, "all_shares", False) else shares[1:]
@@ -841,13 +843,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     for share, answer in started:  # a helper that could not start (None) or failed: here
         found.append((answer() if answer is not None else None)
                      or recheck(site_root, options, css, share, loader))
-    remaining_keys, bad, remaining, took = set(), set(), 0, {}
-    for got in found:
-        remaining_keys |= got[0]
-        bad |= got[1]
-        remaining += got[2]
-        for where, rules in got[3].items():
-            took.setdefault(where, set()).update(rules)
+    remaining_keys, bad, remaining, took = union(found)
     counts = {"pages": len(pages), "remaining": remaining}
     if cache is not None:
         if len(cache) >= CACHED_VERIFICATIONS:
@@ -858,6 +854,18 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
 
 
 CACHED_VERIFICATIONS = 8  # a build's rounds, a few times over
+
+
+def union(found) -> tuple:
+    """``recheck``'s answers for shares of the pages as one answer for them all."""
+    remaining_keys, bad, remaining, took = set(), set(), 0, {}
+    for got in found:
+        remaining_keys |= got[0]
+        bad |= got[1]
+        remaining += got[2]
+        for where, rules in got[3].items():
+            took.setdefault(where, set()).update(rules)
+    return remaining_keys, bad, remaining, took
 
 
 def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
