@@ -356,7 +356,8 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
     aid = writer_aid(args.paths, project, options)
     if aid is not None and found:
         loader = loaders.get(aid.site_root)
-        # with --jobs N a forked worker rechecks half the verification pages beside this one
+        # with --jobs N the check's workers, kept, recheck the verification pages (where
+        # none were kept, a worker forked now rechecks half of them beside this process)
         with engine.recheck_helper(aid.site_root, options, loader) as helper:
             aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
                                helper=helper)
