@@ -373,7 +373,13 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                 self.check(rel, None, None)
         self.stale.clear()
         records = [self.records[rel] for rel in sorted(self.records)]
-        pages = list(engine.noted_once(r.result for r in records))  # (once, not per worker)
+        # what is said once per site (a theme's note) on the first of its pages in MkDocs'
+        # order (the order pages are converted and written in), whoever checked which first
+        place = {rel: n for n, rel in enumerate(self.current)}
+        list(engine.noted_once(self.records[rel].result for rel in
+                               sorted(self.records, key=lambda rel: (place.get(rel, len(place)),
+                                                                     rel))))
+        pages = [r.result for r in records]
         found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
         aid = self.writer_aid(found, pages, records, fixes=self.fixes_read())

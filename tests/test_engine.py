@@ -34,6 +34,47 @@ def test_jobs_give_identical_results_in_the_same_order(site):
         [(f.sample.page, f.ratio) for f in two.findings]
 
 
+def test_a_themes_note_is_on_every_page_and_reported_once_on_the_first(site):
+    """What a theme's script changes that is not modelled is noted on each of its pages
+    (which process checks which page first does not matter), and a site's check keeps it
+    once, on the first page in order, with one process or two."""
+    from tinctura.engine import Site
+
+    bundle = '<script src="assets/javascripts/bundle.0.min.js"></script></head>'
+    for page in sorted(site.rglob("*.html")):
+        page.write_text(page.read_text().replace("</head>", bundle))
+    lone = Site(str(site), Options(jobs=1))
+    assert all(["mkdocs-material theme:" in d.message for d in lone.check_page(rel).diagnostics]
+               == [True] for rel in ("p3/index.html", "index.html", "p3/index.html"))
+    for jobs in (1, 2):
+        report = check_paths([str(site)], Options(jobs=jobs))
+        noted = [(p.page, d.message.split(":")[0]) for p in report.pages for d in p.diagnostics]
+        assert noted == [("index.html", "mkdocs-material theme")]
+
+
+def test_a_custom_property_past_its_bound_is_reported_once_with_one_process_or_two(site):
+    """A value dropped for growing past the bound on var() expansion is said once per site:
+    each process that computes the style says it, and the report keeps the first (two
+    workers said it twice before)."""
+    import json
+
+    from tinctura import cli
+
+    chain = "".join(f"--{chr(98 + i)}:" + " ".join([f"var(--{chr(97 + i)})"] * 4) + ";"
+                    for i in range(9))
+    (site / "site.css").write_text(":root{--a:1px;" + chain + "} p{margin:var(--j)}"
+                                   " .faint{color:#999}")
+    said = []
+    for jobs in ("1", "2"):
+        out = site.parent / f"bound{jobs}.json"
+        cli.main(["check", str(site), "--no-config", "--fail-on", "never", "--jobs", jobs,
+                  "--format", f"json:{out}"])
+        said.append([(d["path"], d["line"], d["message"])
+                     for d in json.loads(out.read_text())["diagnostics"]])
+    assert said[0] == said[1] and len(said[0]) == 1
+    assert said[0][0][0] == "site.css" and "expansion longer than" in said[0][0][2]
+
+
 def test_a_prepared_site_has_the_rule_set_and_checks_the_page_as_a_fresh_one(site):
     # with --jobs N the main process only builds the first page's rule set before forking:
     # the workers' result for that page is a fresh Site's; an unreadable page is left to the

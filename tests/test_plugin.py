@@ -453,10 +453,28 @@ def test_pages_go_through_the_gate_while_the_worker_checks_the_last(tmp_path, mo
     assert seen["records"] == len(PAGES) and seen["early"] == seen["records"]  # (jobs: 2)
 
 
-def logs_with_and_without_workers(tmp_path, caplog) -> list:
-    """The build's log with `jobs: 1` (in-process) and with `jobs: 2` (a worker)."""
+@slow
+def test_a_themes_note_is_on_its_first_page_in_mkdocs_order_whoever_checked_it(
+        tmp_path, monkeypatch, caplog):
+    """A theme's note (what its script changes that is not modelled) is said once, on the
+    first of its pages in MkDocs' order (the order pages are converted and written in:
+    index.html, then lending/, then drafts/), not the first by name (drafts/...), and the
+    same with two workers, where either may check any page first."""
+    bundle = '<script src="{{ \'assets/javascripts/bundle.0.min.js\' | url }}"></script>'
+    monkeypatch.setattr(sys.modules[__name__], "THEME",
+                        THEME.replace("</head>", bundle + "</head>"))
+    caplog.set_level(logging.INFO, logger="mkdocs.plugins.tinctura")
+    logs = logs_with_and_without_workers(tmp_path, caplog, jobs=(1, 3))
+    noted = [[line for line in log if "mkdocs-material theme:" in line] for log in logs]
+    assert noted[0] == noted[1] and len(noted[0]) == 1
+    assert noted[0][0].startswith("index.html: mkdocs-material theme:")
+    assert logs[0] == logs[1]
+
+
+def logs_with_and_without_workers(tmp_path, caplog, jobs=(1, 2)) -> list:
+    """The build's log with `jobs: 1` (in-process) and with `jobs: 2` (a worker), or ``jobs``."""
     logs = []
-    for jobs in (1, 2):
+    for jobs in jobs:
         project = make_project(tmp_path / f"jobs{jobs}", {"jobs": jobs, "fail_on": "never"})
         caplog.clear()
         config = configure(project)
@@ -701,35 +719,24 @@ def _render(html):
 
 
 def test_an_answer_ahead_is_given_for_the_same_html_only(tmp_path, monkeypatch):
-    """Kept ahead under the HTML's digest: the same HTML takes it, other HTML is checked (and
-    what the check ahead noted once for the site is withdrawn, for that check to note)."""
+    """Kept ahead under the HTML's digest: the same HTML takes it, other HTML is checked."""
     (tmp_path / "site.css").write_text(".muted { color: #8a8a8a; }\n")
-    site = _worker_with(tmp_path, monkeypatch)
+    _worker_with(tmp_path, monkeypatch)
     html = PAGE.format(css="site.css")
-    process = engine._process
-
-    def noting(site, rel, options, judged, html=None):  # a theme noted by the first check
-        site._themes_noted.add("a theme")
-        return process(site, rel, options, judged, html)
-    monkeypatch.setattr(engine, "_process", noting)
     engine._worker_ahead(("a.html", _render, (html,)))
     engine._worker_ahead(("b.html", _render, (html,)))
     assert set(engine._AHEAD) == {"a.html", "b.html"}
     assert engine._checked_ahead("a.html", html) is not None  # the same HTML: the answer
-    site._themes_noted.clear()
-    site._themes_noted.add("a theme")  # (noted ahead by b.html's check, say)
-    monkeypatch.setattr(engine, "_AHEAD", {"b.html": engine._AHEAD["b.html"][:2] + ({"a theme"},)})
     assert engine._checked_ahead("b.html", html + " ") is None  # other HTML: checked anew
-    assert "a theme" not in site._themes_noted and not engine._AHEAD
+    assert not engine._AHEAD
 
 
 def test_a_check_ahead_that_missed_a_stylesheet_is_not_kept(tmp_path, monkeypatch):
     """A stylesheet not in place yet (one a plugin writes later, say): the answer would not be
-    the written page's, so it is not kept, and what the check noted is withdrawn."""
-    site = _worker_with(tmp_path, monkeypatch)
-    before = set(site._themes_noted)
+    the written page's, so it is not kept."""
+    _worker_with(tmp_path, monkeypatch)
     engine._worker_ahead(("a.html", _render, (PAGE.format(css="later.css"),)))
-    assert not engine._AHEAD and site._themes_noted == before
+    assert not engine._AHEAD
     (tmp_path / "site.css").write_text(".muted { color: #8a8a8a; }\n")
     engine._worker_ahead(("a.html", _render, (PAGE.format(css="site.css"),)))
     assert set(engine._AHEAD) == {"a.html"}

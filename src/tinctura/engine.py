@@ -127,7 +127,6 @@ class Site:
         self._caches = {}
         self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
             + tuple(self.options.behaviours)
-        self._themes_noted = set()  # themes whose unmodelled script changes were reported
 
     def pages(self) -> list:
         found = []
@@ -248,17 +247,18 @@ class Site:
         return walker
 
     def _script_behaviours(self, root, result, source=None) -> list:
-        """Apply what the page's theme scripts change before a reader sees it; say once per
-        site what those scripts change that tinctura does not model. Returns what a scroll
-        spy marks as the reader scrolls, ``(element, classes)``: with states checked, each
-        is walked in that look (``extract/disclosure.py``)."""
+        """Apply what the page's theme scripts change before a reader sees it; say on the page
+        what those scripts change that tinctura does not model (on every page of the theme:
+        the reports keep the first, ``noted_once``). Returns what a scroll spy marks as the
+        reader scrolls, ``(element, classes)``: with states checked, each is walked in that
+        look (``extract/disclosure.py``)."""
         detected = behaviour_mod.DETECTED if self.options.theme_behaviours else ()
         spied = [] if self.options.states else None
-        for theme in behaviour_mod.apply(root, self._behaviours, source, detected, spied):
+        for theme in dict.fromkeys(behaviour_mod.apply(root, self._behaviours, source, detected,
+                                                       spied)):  # (each theme once)
             note = behaviour_mod.NOTES_BY_THEME.get(theme)
-            if note and theme not in self._themes_noted:
-                self._themes_noted.add(theme)
-                result.diagnostics.append(Diagnostic(result.page, note))
+            if note:
+                result.diagnostics.append(Diagnostic(result.page, note, once=True))
         return spied or []
 
 
@@ -325,9 +325,10 @@ def _too_many_elements(root, data: bytes, limit: int) -> str | None:
 
 
 def _report_resolver(resolver, diagnostics) -> None:
-    """Custom properties whose value was dropped for going past a bound, once per site."""
+    """Custom properties whose value was dropped for going past a bound, once per site (each
+    process that computed the style says it: ``noted_once`` keeps the first)."""
     for (sheet, line, name), why in resolver.problems.items():
-        note = Diagnostic(sheet, f"{name}: {why}", line=line)
+        note = Diagnostic(sheet, f"{name}: {why}", line=line, once=True)
         if note not in diagnostics:  # met again in another scheme's walk
             diagnostics.append(note)
     resolver.problems.clear()
@@ -567,16 +568,24 @@ def iter_pages(paths, options: Options, judged: bool = False, sites=None):
 
 
 def noted_once(results):
-    """Keep the first of the site-wide notes that each worker's Site makes once (what theme
-    scripts change that is not modelled): with --jobs N there would be up to N of them."""
+    """Keep the first of each diagnostic said once per site (``Diagnostic.once``: what theme
+    scripts change that is not modelled, on every page of the theme; a custom property
+    dropped for going past a bound, by each process that computed it), so that the report
+    says it once, on the first page of ``results`` that has it, whichever process checked
+    which page first."""
     seen = set()
     for item in results:
         page = item[0] if isinstance(item, tuple) else item
-        notes = [d for d in page.diagnostics if d.message in behaviour_mod.NOTES]
-        if notes:
-            page.diagnostics = [d for d in page.diagnostics
-                                if d.message not in behaviour_mod.NOTES or d.message not in seen]
-            seen.update(d.message for d in notes)
+        if any(d.once for d in page.diagnostics):
+            kept = []
+            for d in page.diagnostics:
+                if d.once:
+                    key = (d.message, d.line, None if d.path == page.page else d.path)
+                    if key in seen:
+                        continue
+                    seen.add(key)
+                kept.append(d)
+            page.diagnostics = kept
         yield item
 
 
@@ -1134,41 +1143,31 @@ _SHEETS_SAME: list = [None]  # whether the stylesheets read ahead are the site's
 
 def _worker_ahead(args) -> None:
     """Render a page ahead (``render(*payload)``, the caller's), check it and keep the answer
-    under its HTML's digest, with what its check noted once for the site (a theme's note,
-    which goes with the first page checked). A check that missed a stylesheet (not in place
-    yet) is not kept; a page that cannot be rendered or checked is checked when it comes.
-    What an answer not kept noted is withdrawn: the page's own check notes it."""
+    under its HTML's digest. A check that missed a stylesheet (not in place yet) is not kept;
+    a page that cannot be rendered or checked is checked when it comes."""
     rel, render, payload = args
     site, options, judged = _WORKER
     if len(_AHEAD) >= AHEAD_KEPT:  # (no room: the page is checked when it comes)
         return
-    missing, noted = site.loader.missing, set(site._themes_noted)
-    kept = False
+    missing = site.loader.missing
     try:
         html = render(*payload)
         answer = _packed(_process(site, rel, options, judged, html), options)
         if site.loader.missing == missing:
-            _AHEAD[rel] = (html_digest(html), answer, site._themes_noted - noted)
-            kept = True
+            _AHEAD[rel] = (html_digest(html), answer)
     except Exception:
         pass
-    finally:
-        if not kept:
-            site._themes_noted = noted
 
 
 def _checked_ahead(rel, html):
     """The answer kept ahead for ``rel`` when it was of this HTML and the stylesheets MkDocs
-    has copied since are the bytes read ahead (compared once), else None (and what it noted
-    is withdrawn, for the page's own check to note)."""
+    has copied since are the bytes read ahead (compared once), else None."""
     known = _AHEAD.pop(rel, None)
     if known is None:
         return None
-    site = _WORKER[0]
     if _SHEETS_SAME[0] is None:
-        _SHEETS_SAME[0] = not site.stylesheets_changed()
+        _SHEETS_SAME[0] = not _WORKER[0].stylesheets_changed()
     if not _SHEETS_SAME[0] or known[0] != html_digest(html):
-        site._themes_noted -= known[2]
         return None
     return known[1]
 

@@ -218,3 +218,6 @@ class Diagnostic:
     message: str
     line: int = 0
     severity: str = "warning"  # "error" when a file could not be read at all
+    # said once per site: the reports keep the first (``engine.noted_once``), wherever and in
+    # whichever process the pages were checked (not written in any report)
+    once: bool = field(default=False, compare=False)

@@ -133,7 +133,6 @@ NOT_MODELLED = {
 
 
 NOTES_BY_THEME = {theme: f"{theme} theme: {note}" for theme, note in NOT_MODELLED.items()}
-NOTES = frozenset(NOTES_BY_THEME.values())  # as the reports show them
 
 
 def from_setting(entries) -> tuple:
