@@ -373,12 +373,13 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                 self.check(rel, None, None)
         self.stale.clear()
         records = [self.records[rel] for rel in sorted(self.records)]
-        # what is said once per site (a theme's note) on the first of its pages in MkDocs'
-        # order (the order pages are converted and written in), whoever checked which first
+        # what is said once per site (a theme's note) stays on the first of its pages in
+        # MkDocs' order (the order pages are converted and written in), whoever checked which
+        # first: ``noted_once`` drops the others from their pages as it goes
         place = {rel: n for n, rel in enumerate(self.current)}
-        list(engine.noted_once(self.records[rel].result for rel in
-                               sorted(self.records, key=lambda rel: (place.get(rel, len(place)),
-                                                                     rel))))
+        in_mkdocs_order = sorted(self.records, key=lambda rel: (place.get(rel, len(place)), rel))
+        for _ in engine.noted_once(self.records[rel].result for rel in in_mkdocs_order):
+            pass
         pages = [r.result for r in records]
         found, store, gate, gate_notes = self.gated(records)
         schemes = sorted({n for page in pages for n in page.stats["schemes"]})
