@@ -796,3 +796,23 @@ def test_a_page_that_cannot_go_ahead_is_checked_when_written(tmp_path, monkeypat
     report, log_lines = _built(tmp_path, True, monkeypatch, caplog)
     assert any(line.startswith("pages not checked ahead") for line in log_lines)
     assert report == _built(tmp_path, False, monkeypatch, caplog)[0]
+
+
+def test_a_note_said_once_by_an_answer_ahead_not_taken_is_kept(tmp_path, monkeypatch):
+    """A custom property past the var() expansion bound is said where its style is first
+    computed: by a check ahead whose answer is not taken (other HTML), the page's own check
+    finds the style computed. The note goes with that check's answer (it was lost before)."""
+    chain = "".join(f"--{chr(98 + i)}:" + " ".join([f"var(--{chr(97 + i)})"] * 4) + ";"
+                    for i in range(9))
+    (tmp_path / "site.css").write_text(":root{--a:1px;" + chain + "} p{margin:var(--j)}"
+                                       " .muted{color:#8a8a8a}")
+    _worker_with(tmp_path, monkeypatch)
+    monkeypatch.setattr(engine, "_UNTAKEN", {}, raising=False)
+    html = PAGE.format(css="site.css")
+    engine._worker_ahead(("a.html", _render, (html,)))
+    spool = tmp_path / "spool"
+    spool.mkdir()
+    answer = engine._from_file(engine._check_to_file("a.html", html + " ", str(spool)))
+    notes = [d for d in answer[0].diagnostics if d.once]
+    assert len(notes) == 1 and "expansion longer than" in notes[0].message
+    assert not engine._UNTAKEN

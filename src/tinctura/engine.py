@@ -1132,11 +1132,25 @@ def _check_to_file(rel, html, spool) -> str:
     answer = _checked_ahead(rel, html)
     if answer is None:
         answer = _packed(_process(site, rel, options, judged, html), options)
+        _noted_before(answer, _UNTAKEN.pop(rel, ()))
     return _to_file(spool, answer)
+
+
+def _noted_before(answer, notes) -> None:
+    """Add to a page's answer the notes said once (``Diagnostic.once``) by its check ahead,
+    whose answer was not taken: a custom property past its bound is said where its style is
+    first computed, and the page's own check found that style computed."""
+    page = answer[0] if isinstance(answer, tuple) else answer
+    said = getattr(page, "diagnostics", None)
+    for note in notes if said is not None else ():
+        if note not in said:
+            said.append(note)
 
 
 # In a worker: page -> (digest of the HTML checked ahead, its answer) (``PagePool.ahead``)
 _AHEAD: dict = {}
+# page -> the notes said once by its answer ahead, which was not taken (``_noted_before``)
+_UNTAKEN: dict = {}
 AHEAD_KEPT = 200  # answers kept ahead at most (each is dropped once given): memory bounded
 _SHEETS_SAME: list = [None]  # whether the stylesheets read ahead are the site's (first use)
 
@@ -1167,7 +1181,11 @@ def _checked_ahead(rel, html):
         return None
     if _SHEETS_SAME[0] is None:
         _SHEETS_SAME[0] = not _WORKER[0].stylesheets_changed()
-    if not _SHEETS_SAME[0] or known[0] != html_digest(html):
+    if not _SHEETS_SAME[0]:
+        return None
+    if known[0] != html_digest(html):  # (the same stylesheets: what it said once holds)
+        page = known[1][0] if isinstance(known[1], tuple) else known[1]
+        _UNTAKEN[rel] = [d for d in getattr(page, "diagnostics", ()) if d.once]
         return None
     return known[1]
 
@@ -1368,6 +1386,11 @@ def _preload(options) -> None:
         from .colour import colour_science
 
         colour_science()
+    # the theme scripts' selectors are read with cssselect (5 ms to import), and a JSON
+    # report's occurrences are written where each page is judged
+    importlib.import_module("cssselect")
+    if options.encode_occurrences:
+        importlib.import_module(".report.block_occurrences", __package__)
 
 
 def _site_pages(site, pages, options, judged):
