@@ -406,26 +406,3 @@ def test_finder_resolves_as_resolve_does_with_positions_counting_comments():
     inner = finder.at((root, ()), "pre/code")
     assert finder.at(inner, "span[2]")[0] is fragments.resolve(root, "pre/code/span[2]")
     assert finder.at(inner, "em")[0] is inner[0]  # missing below a start: the start
-
-
-def test_lines_along_a_route_are_the_lines_of_each_position_indexed_alone():
-    # Placement.lines reads its slots in document order, each from the elements it shares
-    # with the slot before (``route``): the same lines as indexing each position from the
-    # anchor, whatever the order of the positions (a slot above another one, comments
-    # counted as lxml's ``el[i]`` counts them)
-    from lxml import etree
-
-    root = etree.fromstring(
-        "<ul>\n<!-- c -->\n<li><a>1</a>\n<b>x</b></li>\n<li>\n<a>2</a></li>\n"
-        "<li><a>\n<span>3</span></a></li>\n</ul>", etree.HTMLParser()).find(".//ul")
-    positions = [(3, 0, 0), (1, 1), (1,), (3, 0), (2, 0), (1, 0), ()]
-
-    def alone(where):
-        el = root
-        for i in where:
-            el = el[i]
-        return el.sourceline
-
-    expected = [alone(where) for where in positions]
-    assert len(set(expected)) > 3  # lines that differ
-    assert fragments.lines_along(fragments.route(positions), root) == expected + [0]

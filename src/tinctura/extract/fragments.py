@@ -280,7 +280,7 @@ class Placement:
     """
 
     __slots__ = ("positions", "entries", "situations", "groups", "group_of", "placed", "uid",
-                 "lineless", "layouts", "serial", "group_sids", "_route")
+                 "lineless", "layouts", "serial", "group_sids")
 
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
@@ -324,7 +324,6 @@ class Placement:
         self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
         self.layouts = {}  # the JSON report's, by order of situations (block_occurrences)
         self.serial = next(_serials)  # names it in another's layouts (ids are reused)
-        self._route = route(self.positions)
 
     def named(self):
         """The entries as a page's block names them: on the first page that places them, the
@@ -340,42 +339,19 @@ class Placement:
 
     def lines(self, stamp: Stamp) -> list:
         """The line of each slot at ``stamp``'s place (and 0 last: slot -1, no line)."""
-        return lines_along(self._route, stamp.anchor)
+        lines = []
+        for where in self.positions:
+            el = stamp.anchor
+            for i in where:
+                el = el[i]
+            lines.append(el.sourceline or 0)
+        lines.append(0)
+        return lines
 
     def place(self, stamp: Stamp, numbers, out: list) -> None:
         """Append the record ``(number,) + place`` of every finding placed at ``stamp`` to
         ``out``; ``numbers``: the number of each group's situation (``groups`` order)."""
         place_block(self.entries, numbers, stamp.new_base, self.lines(stamp), out)
-
-
-def route(positions: list) -> list:
-    """The slots in document order, each as ``(slot, steps kept, further steps)``: the steps
-    it shares with the slot read before it and the child positions below them. A navigation
-    list's entries share their list's element: indexing each from the anchor made as many
-    elements again (a thousand-page site's navigation has thousands of slots a page)."""
-    route, before = [], ()
-    for slot in sorted(range(len(positions)), key=positions.__getitem__):
-        where = positions[slot]
-        kept = 0
-        while kept < min(len(where), len(before)) and where[kept] == before[kept]:
-            kept += 1
-        route.append((slot, kept, where[kept:]))
-        before = where
-    return route
-
-
-def lines_along(route: list, anchor) -> list:
-    """The line of each slot of ``route`` (``_route``) below ``anchor``, then 0 (slot -1)."""
-    lines = [0] * (len(route) + 1)
-    path = [anchor]  # the elements down to the last slot read
-    for slot, kept, steps in route:
-        del path[kept + 1:]
-        el = path[kept]
-        for i in steps:
-            el = el[i]
-            path.append(el)
-        lines[slot] = el.sourceline or 0
-    return lines
 
 
 def _groups(situations) -> list:
