@@ -109,9 +109,10 @@ def main() -> None:
         runs = []
         for name, rev in (("base", args.base), ("head", args.head)):
             folder = Path(tmp) / name
-            (folder / "cg").mkdir(parents=True)
+            dumps = folder / "cg"
+            dumps.mkdir(parents=True)
             path = checkout(rev, folder / "code")
-            runs.append((name, rev, path, folder / "cg", counted(path, site, (a, b), folder / "cg")))
+            runs.append((name, rev, path, dumps, counted(path, site, (a, b), dumps)))
         counts = []
         for name, rev, path, cg, process in runs:
             stderr = process.communicate()[1]
