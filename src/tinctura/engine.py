@@ -327,11 +327,17 @@ def _too_many_elements(root, data: bytes, limit: int) -> str | None:
 def _report_resolver(resolver, diagnostics) -> None:
     """Custom properties whose value was dropped for going past a bound, once per site (each
     process that computed the style says it: ``noted_once`` keeps the first)."""
-    for (sheet, line, name), why in resolver.problems.items():
-        note = Diagnostic(sheet, f"{name}: {why}", line=line, once=True)
-        if note not in diagnostics:  # met again in another scheme's walk
-            diagnostics.append(note)
+    _said_once(diagnostics, [Diagnostic(sheet, f"{name}: {why}", line=line, once=True)
+                             for (sheet, line, name), why in resolver.problems.items()])
     resolver.problems.clear()
+
+
+def _said_once(diagnostics: list, notes) -> None:
+    """Add ``notes`` to ``diagnostics`` but those already there (met again in another
+    scheme's walk, or said by the page's check ahead as well)."""
+    for note in notes:
+        if note not in diagnostics:
+            diagnostics.append(note)
 
 
 def _forget(fingerprints: dict, elements) -> None:
@@ -1141,10 +1147,8 @@ def _noted_before(answer, notes) -> None:
     whose answer was not taken: a custom property past its bound is said where its style is
     first computed, and the page's own check found that style computed."""
     page = answer[0] if isinstance(answer, tuple) else answer
-    said = getattr(page, "diagnostics", None)
-    for note in notes if said is not None else ():
-        if note not in said:
-            said.append(note)
+    if getattr(page, "diagnostics", None) is not None:
+        _said_once(page.diagnostics, notes)
 
 
 # In a worker: page -> (digest of the HTML checked ahead, its answer) (``PagePool.ahead``)
