@@ -55,6 +55,12 @@ VARIANTS = {
     # adds a dark scheme by prefers-color-scheme), a remote stylesheet that is never fetched
     "readthedocs-theme": dict(kinds=True, expand=True, structural=True,
                               accent=DEFAULT_ACCENT, many=False, theme="readthedocs"),
+    # states' site with Markdown extensions the others leave out (content tabs, code
+    # annotations, icons drawn as inline SVG, cards, task lists, keys, footnotes), navigation
+    # tabs with the page's table of contents in the side navigation, and :has() selectors
+    # that read the following siblings or name no tag, class or id
+    "extensions": dict(kinds=True, expand=True, structural=True, accent=FAILING_ACCENT,
+                       many=False, extensions=True),
 }
 PAGE_KINDS = ("code", "table", "prose", "api")
 
@@ -166,6 +172,31 @@ STRUCTURAL_CSS = """
 .md-typeset ol > li:nth-child(2n) { color: var(--md-default-fg-color); }
 """
 
+# The "extensions" variant: :has() that reads the following siblings (a section's link before
+# its list of pages, a paragraph introducing a list) or names no tag, class or id (whatever holds
+# keyboard keys). Their colours pass, as the structural ones do.
+RELATIONS_CSS = """
+.md-nav__item--nested > .md-nav__link:has(+ nav) { color: var(--md-default-fg-color); }
+.md-typeset p:has(+ ul) { color: var(--md-default-fg-color); }
+.md-typeset :has(> kbd) { color: var(--md-default-fg-color); }
+"""
+EXTENSION_FEATURES = ("navigation.tabs", "toc.integrate", "content.code.annotate",
+                      "content.tabs.link")
+EXTENSION_MARKDOWN = """\
+  - abbr
+  - footnotes
+  - pymdownx.critic
+  - pymdownx.keys
+  - pymdownx.mark
+  - pymdownx.tabbed:
+      alternate_style: true
+  - pymdownx.tasklist:
+      custom_checkbox: true
+  - pymdownx.emoji:
+      emoji_index: !!python/name:material.extensions.emoji.twemoji
+      emoji_generator: !!python/name:material.extensions.emoji.to_svg
+"""
+
 # The "many findings" variant: faint colours used all over the article.
 MANY_CSS = """
 .md-typeset td:not(:first-child) { color: #a4a4a4; }           /* planted: faint table cells */
@@ -213,7 +244,8 @@ def relative_link(from_path: str, to_path: str) -> str:
 
 class PageWriter:
     def __init__(self, rng: random.Random, all_pages: list, path: str, index: int,
-                 kinds: bool = False):
+                 kinds: bool = False, extensions: bool = False):
+        self.extensions = extensions
         self.rng = rng
         self.all_pages = all_pages
         self.path = path
@@ -330,6 +362,26 @@ class PageWriter:
             lines += ["!!! note", "", "    " + self.sentence(links=False), ""]
         return "\n".join(lines)
 
+    def extension_blocks(self) -> list:
+        """Content tabs (one with annotated code), cards with icons, a task list, keys, marks
+        and a footnote: what the Markdown extensions of the "extensions" variant write."""
+        r = self.rng
+        ident = r.choice(IDENTS)
+        out = [f"Press ++ctrl+alt+{r.choice('bdfhk')}++ to {r.choice(VERBS)[:-1]} the "
+               f"==selected {r.choice(NOUNS)}== and {{++confirm++}} it[^1]. The ROTA screen "
+               f"shows :material-ferry: {r.choice(VESSELS)}.", "",
+               f"*[ROTA]: rotation of arrivals", "",
+               '=== "Planner"', "", f"    {self.sentence(links=False)}", "",
+               "    ``` yaml", f"    {ident}: {r.randint(1, 99)}  # (1)!", "    ```", "",
+               f"    1.  {self.sentence(links=False)}", "",
+               '=== "Desk"', "", "    - [x] " + self.sentence(links=False),
+               "    - [ ] " + self.sentence(links=False), "",
+               '<div class="grid cards" markdown>', ""]
+        for icon in ("material-anchor", "material-weather-windy"):
+            out += [f"-   :{icon}: **{r.choice(ADJECTIVES).capitalize()} {r.choice(NOUNS)}s**",
+                    "", "    ---", "", f"    {self.sentence(links=False)}", ""]
+        return out + ["</div>", "", f"[^1]: {self.sentence(links=False)}", ""]
+
     def kind_sections(self) -> list:
         r = self.rng
         out = []
@@ -356,6 +408,8 @@ class PageWriter:
             out += [f'<span class="tw-badge">since 2.{self.index % 9}</span> '
                     f'<span class="tw-muted">Maintained by the {r.choice(ROLES)}.</span>', ""]
         blocks = [self.table, self.code_block, self.admonition, self.bullet_list, self.paragraph]
+        if self.extensions:
+            out += self.extension_blocks()
         if self.kind != "mixed":
             out += self.kind_sections()
         for _ in range(r.randint(3, 5) if self.kind == "mixed" else 0):
@@ -449,9 +503,10 @@ theme:
 """
 
 
-def material_theme(accent: str, expand: bool) -> str:
+def material_theme(accent: str, expand: bool, more: tuple = ()) -> str:
     # expanded: every section of the navigation open on every page (links all visible)
     features = "    - navigation.sections\n    - navigation.expand\n" if expand else ""
+    features += "".join(f"    - {name}\n" for name in more)
     return f"""\
 theme:
   name: material
@@ -478,7 +533,7 @@ theme:
 
 
 def mkdocs_yml(home, sections, plugin: bool, accent: str = DEFAULT_ACCENT,
-               expand: bool = False, theme: str = "material") -> str:
+               expand: bool = False, theme: str = "material", extensions: bool = False) -> str:
     nav = [f"  - {home[0]}: {home[1]}"]
     for title, _sdir, pages in sections:
         nav.append(f"  - \"{title}\":")
@@ -488,7 +543,7 @@ def mkdocs_yml(home, sections, plugin: bool, accent: str = DEFAULT_ACCENT,
     # must finish to be timed.
     plugins = "  - search\n" + ("  - tinctura:\n      fail_on: never\n" if plugin else "")
     theme_block = {"mkdocs": MKDOCS_THEME, "readthedocs": "theme:\n  name: readthedocs\n"}.get(
-        theme) or material_theme(accent, expand)
+        theme) or material_theme(accent, expand, EXTENSION_FEATURES if extensions else ())
     return f"""\
 # Generated by benchmarks/generate_site.py; do not edit.
 site_name: Tidewright harbour scheduler
@@ -509,7 +564,7 @@ markdown_extensions:
       anchor_linenums: true
   - pymdownx.inlinehilite
   - pymdownx.superfences
-plugins:
+{EXTENSION_MARKDOWN if extensions else ""}plugins:
 {plugins}nav:
 """ + "\n".join(nav) + "\n"
 
@@ -521,7 +576,8 @@ def generate(n_pages: int, outdir: Path, seed: int = 7, plugin: bool = False,
     shape = VARIANTS[variant]
     accent = accent or shape["accent"]
     css = EXTRA_CSS + (STRUCTURAL_CSS if shape["structural"] else "") + \
-        (MANY_CSS if shape["many"] else "")
+        (MANY_CSS if shape["many"] else "") + \
+        (RELATIONS_CSS if shape.get("extensions") else "")
     rng = random.Random(seed)
     home, sections = page_layout(n_pages, rng)
     docs = outdir / "docs"
@@ -538,14 +594,16 @@ def generate(n_pages: int, outdir: Path, seed: int = 7, plugin: bool = False,
             # One generator per page: a page keeps its shape when N changes (link targets differ).
             page_rng = random.Random(f"{seed}:{index}")
             text = PageWriter(page_rng, all_pages, path, index,
-                              kinds=shape["kinds"]).render(ptitle)
+                              kinds=shape["kinds"],
+                              extensions=shape.get("extensions", False)).render(ptitle)
             (docs / path).write_text(text, encoding="utf-8")
             index += 1
     for name, with_plugin in (("mkdocs-plain.yml", False), ("mkdocs-plugin.yml", True),
                               ("mkdocs.yml", plugin)):
         (outdir / name).write_text(mkdocs_yml(home, sections, with_plugin, accent,
                                               expand=shape["expand"],
-                                              theme=shape.get("theme", "material")),
+                                              theme=shape.get("theme", "material"),
+                                              extensions=shape.get("extensions", False)),
                                    encoding="utf-8")
     return {"pages": len(all_pages), "sections": len(sections), "variant": variant}
 

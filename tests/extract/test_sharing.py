@@ -169,8 +169,60 @@ def test_has_keeps_only_the_elements_it_can_match_apart(tmp_path):
     assert ids["t1"] != ids["t2"]  # :has(code) holds for one, not the other
     assert ids["t1"] == ids["t3"]  # different subtrees, same answer: what the cascade reads
     assert ids["p1"] == ids["p2"]
-    _, ruleset = structural_ids(tmp_path, body, "table:has(+ p) { color: #555 }")
-    assert ruleset.uses_has  # a :has() that reads siblings: nothing is shared
+    # a :has() that reads the following siblings: t2 is right before a <p>, t1 and t3 are not
+    ids, ruleset = structural_ids(tmp_path, body, "table:has(+ p) { color: #555 }"
+                                  " div:not(:has(+ p)) { color: #666 }")
+    assert not ruleset.uses_has and not ruleset.siblings.any  # sharing stays on
+    assert ids["t1"] == ids["t3"] != ids["t2"]
+    assert ids["p1"] == ids["p2"]
+    # a compound naming no tag, class or id: every element keeps its answer, and shares by it
+    ids, ruleset = structural_ids(tmp_path, body, ":has(> code) { color: #555 }")
+    assert not ruleset.uses_has
+    assert ids["t1"] == ids["t2"] == ids["t3"]  # their children are rows, never code
+    assert ids["p1"] == ids["p2"]
+
+
+HAS_CSS = ("p:has(+ ul) { color: #111111 } li:not(:has(~ li.k)) { color: #222222 }"
+           " :has(> b) { color: #333333 } [data-x]:has(i) { color: #444444 }"
+           " h2:has(em) + p { color: #555555 } div:has(+ div .k) > span { color: #666666 }")
+
+
+def test_has_reading_siblings_or_any_element_colours_as_cssselect2_matches(tmp_path):
+    # the reference is cssselect2's own matching of each rule on the page (Selectors 4 :has()
+    # with relative selectors), the rule written last winning among equal specificities
+    import cssselect2
+    from lxml import etree
+
+    body = ('<p>p before list</p><ul><li>i1</li><li>i2</li><li class="k">ik</li><li>i4</li></ul>'
+            '<p>p alone</p><div><p>bold <b>b</b> parent</p></div><section data-x="1">'
+            '<span>x with <i>i</i></span></section><section data-x="2"><span>x plain</span>'
+            '</section><h2>head <em>e</em></h2><p>after em head</p><h2>plain head</h2>'
+            '<p>after plain head</p><div><span>s1</span></div><div><p class="k">deep k</p></div>'
+            '<div><span>s3</span></div>')
+    pages = {"a.html": ("", body), "b.html": ("", body.replace('<li class="k">ik</li>', "")),
+             "c.html": ("", body.replace("<ul>", "<ol>").replace("</ul>", "</ol>")),
+             "d.html": ("", body.replace("<em>e</em>", "<i>e</i>"))}  # the same siblings
+    got = colours(tmp_path, pages, css=HAS_CSS)
+    matcher = cssselect2.Matcher()
+    for order, rule in enumerate(r.strip() for r in HAS_CSS.split("}") if r.strip()):
+        selector, colour = rule.split("{")
+        for compiled in cssselect2.compile_selector_list(selector):
+            matcher.add_selector(compiled, (order, colour.split(":")[1].strip()))
+    checked = set()
+    for name, (_, html) in pages.items():
+        root = etree.fromstring(f"<html><body>{html}</body></html>")
+        inherited = {}
+        for wrapper in cssselect2.ElementWrapper.from_xml_root(root).iter_subtree():
+            el = wrapper.etree_element
+            matches = matcher.match(wrapper)
+            own = max((m[0], m[3]) for m in matches)[1][1] if matches else None
+            parent = el.getparent()
+            inherited[el] = own or (inherited[parent] if parent is not None else "#000000")
+            text = (el.text or "").strip()
+            if text and (name, el.text) in got:
+                assert got[(name, el.text)] == inherited[el], (name, el.text)
+                checked.add(inherited[el])
+    assert len(checked) >= 6  # most rules decide some text
 
 
 def test_simple_has_answers_agree_with_cssselect2():
@@ -191,7 +243,8 @@ def test_simple_has_answers_agree_with_cssselect2():
         etree.HTMLParser())
     compounds = ["table:has(code)", ".admonition:has(> ul)", "div:has(.k)",
                  "div.note:has(span.k.x)", "table.t:has(> tr)", "table:has(code.k)",
-                 "div:has(> p[class])"]
+                 "div:has(> p[class])", "table:has(+ table)", "table:has(~ div.admonition)",
+                 ":has(> li)", "p:has(+ ul)", "div:has(~ div.note)", ":has(+ [class])"]
     checked = 0
     for wrapper in cssselect2.ElementWrapper.from_html_root(root).iter_subtree():
         for compound in compounds:
@@ -200,8 +253,9 @@ def test_simple_has_answers_agree_with_cssselect2():
             expected = compile_one(compound)[0].test(wrapper)
             assert _has_simple(wrapper.etree_element, spec) == expected, compound
             checked += expected
-    assert checked >= 5  # some of them match
-    for compound in ("div:has(.a .b)", "a:hover:has(b)", "div:has(b, i)", "li:first-child:has(a)"):
+    assert checked >= 9  # some of them match
+    for compound in ("div:has(.a .b)", "a:hover:has(b)", "div:has(b, i)", "li:first-child:has(a)",
+                     "div:has(+ p span)", "div:has(~ p:hover)"):
         assert _simple_has(compound) is None, compound
 
 

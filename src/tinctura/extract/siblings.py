@@ -21,11 +21,13 @@ same wherever it stands among its siblings. Selectors whose sibling tests hide i
 ``:is()``/``:not()``/``:where()`` arguments with combinators are not analysed: they make every
 element ``FULL``.
 
-``:has()`` looks at an element's descendants: an element a ``:has()`` compound could match keeps
-in its key whether each such compound matches it (``HasIndex``: the answers are all the cascade
-reads of its subtree); every other element shares as usual. A
-``:has()`` that looks at siblings (``:has(+ x)``, ``:has(~ x)``) or whose compound names no tag,
-class or id is not analysed: then nothing is shared (``RuleSet.uses_has``).
+``:has()`` looks at an element's descendants, or at its following siblings (``:has(+ x)``,
+``:has(~ x)``): an element a ``:has()`` compound could match keeps in its key whether each such
+compound matches it (``HasIndex``: the answers are all the cascade reads of its subtree and
+siblings); every other element shares as usual. A compound that names no tag, class or id
+(``:has(> img)``, ``[open]:has(x)``) could match any element: every element keeps its answers
+then, which costs a test per element but still lets elements with the same answers share. Only
+a ``:has()`` that cssselect2 cannot compile turns sharing off (``RuleSet.uses_has``).
 """
 from __future__ import annotations
 
@@ -35,6 +37,7 @@ import cssselect2
 import tinycss2
 import tinycss2.nth
 from lxml import etree
+from lxml.etree import Element
 
 MEMO_LIMIT = 50000
 STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type|last-of-type|"
@@ -137,8 +140,10 @@ def sensitive_compounds(tokens, formulas=None):
         for t in parts:
             if t.type == "function":
                 inner = tinycss2.serialize(t.arguments)
-                if ("+" in inner or "~" in inner) and \
-                        t.lower_name in ("is", "not", "where", "matches", "has", "-webkit-any"):
+                # (a :has() reading siblings is answered in the key: ``HasIndex``)
+                bare = _without_has(inner)
+                if ("+" in bare or "~" in bare) and \
+                        t.lower_name in ("is", "not", "where", "matches", "-webkit-any"):
                     return None
                 needs |= _needs_of(":" + t.lower_name + "(" + inner + ")", formulas)
         text = tinycss2.serialize(parts)
@@ -151,6 +156,21 @@ def sensitive_compounds(tokens, formulas=None):
         out.append(c)
     # the left side of + / ~ is read from the right side's view, which already carries it
     return out
+
+
+def _without_has(text: str) -> str:
+    """``text`` without the arguments of its ``:has()`` (``:not(:has(+ p))`` reads no sibling of
+    the element itself: its answers are in its key)."""
+    out, at, lower = [], 0, text.lower()
+    while True:
+        start = lower.find(":has(", at)
+        if start < 0:
+            return "".join(out) + text[at:]
+        out.append(text[at:start])
+        depth, at = 1, start + 5
+        while at < len(text) and depth:
+            depth += {"(": 1, ")": -1}.get(text[at], 0)
+            at += 1
 
 
 def _needs_of(text: str, formulas=None) -> int:
@@ -200,25 +220,14 @@ def fits(a: int, b: int, position: int) -> bool:
     return rest == 0 and n >= 0
 
 
-def has_compounds(tokens):
-    """Compounds of one selector that contain ``:has()``, each with its text in
-    ``.selector``; None when they cannot be analysed (a relative sibling selector inside, or a
-    compound that names no tag, class or id)."""
+def has_compounds(tokens) -> list:
+    """``(requirements, compound text)`` of the compounds of one selector that contain
+    ``:has()`` (a compound that names no tag, class or id is a candidate for every element)."""
     out = []
-    compounds = split_compounds(tokens)
-    for _comb, parts in compounds:
+    for _comb, parts in split_compounds(tokens):
         text = tinycss2.serialize(parts)
-        if ":has(" not in text.lower():
-            continue
-        for t in parts:
-            if t.type == "function" and t.lower_name == "has":
-                inner = tinycss2.serialize(t.arguments).strip()
-                if "+" in inner or "~" in inner:
-                    return None
-        req = _requirements(parts)
-        if req.universal:
-            return None
-        out.append((req, text.strip()))
+        if ":has(" in text.lower():
+            out.append((_requirements(parts), text.strip()))
     return out
 
 
@@ -397,11 +406,7 @@ class HasIndex:
             text = rule.selector_text
             if ":has(" not in text.lower():
                 continue
-            found = has_compounds(tinycss2.parse_component_value_list(text))
-            if found is None:
-                self.usable = False
-                return
-            for req, compound in found:
+            for req, compound in has_compounds(tinycss2.parse_component_value_list(text)):
                 if compound in seen:
                     continue
                 compiled, _ = compile_one(compound)
@@ -458,25 +463,61 @@ class HasIndex:
 
 
 def _simple_has(compound: str):
-    """``(test of A, child only, test of B, B's tag or None)`` for ``A:has(B)`` or
-    ``A:has(> B)`` where A and B are compounds without pseudo-classes; None otherwise."""
+    """``(test of A or None, reach, test of B, B's tag or None)`` for ``A:has(B)``,
+    ``A:has(> B)``, ``A:has(+ B)`` or ``A:has(~ B)`` (``reach``: " ", ">", "+", "~") where A
+    and B are compounds without pseudo-classes (A may be empty: ``:has(> img)`` tests every
+    element); None otherwise."""
     from .sheet import compile_one
 
     lower = compound.lower()
     at = lower.find(":has(")
     if at < 0 or lower.count(":has(") != 1 or not compound.rstrip().endswith(")"):
         return None
-    outer, arg = compound[:at], compound[at + 5:compound.rstrip().rindex(")")]
-    child = arg.strip().startswith(">")
-    arg = arg.strip()[1:].strip() if child else arg.strip()
-    if not outer or not arg or any(c in outer + arg for c in ":(),>+~ \t\n\r\f\\"):
+    outer, arg = compound[:at], compound[at + 5:compound.rstrip().rindex(")")].strip()
+    reach = arg[0] if arg[:1] in (">", "+", "~") else " "
+    arg = arg[1:].strip() if reach != " " else arg
+    if not arg or any(c in outer + arg for c in ":(),>+~ \t\n\r\f\\"):
         return None
-    outer_test, dynamic = compile_one(outer)
+    outer_test, dynamic = compile_one(outer) if outer else (None, False)
     arg_test, arg_dynamic = compile_one(arg)
-    if outer_test is None or arg_test is None or dynamic or arg_dynamic:
+    if (outer and outer_test is None) or arg_test is None or dynamic or arg_dynamic:
         return None
-    tag = _requirements(tinycss2.parse_component_value_list(arg)).tag
-    return (outer_test.test, child, arg_test.test, tag if tag not in (None, "*") else None)
+    tokens = tinycss2.parse_component_value_list(arg)
+    req = _requirements(tokens)
+    tag = req.tag if req.tag not in (None, "*") else None
+    # B of tag, classes and id only: tested on lxml's element itself (a cssselect2 wrapper
+    # per descendant cost 1.5 ms an element whose subtree is the page)
+    test = _plain_test(req) if _names_only(tokens) else lambda d, t=arg_test.test: t(_lone(d))
+    return (outer_test.test if outer else None, reach, test, tag)
+
+
+def _names_only(tokens) -> bool:
+    """Whether a compound's tokens are a tag, ``*``, ``.class`` and ``#id`` alone."""
+    for i, t in enumerate(tokens):
+        if t.type == "ident" and (i == 0 or tokens[i - 1].type == "literal"
+                                  and tokens[i - 1].value == "."):
+            continue
+        if t.type == "hash" or (t.type == "literal" and (t.value == "." or
+                                                         (t.value == "*" and i == 0))):
+            continue
+        return False
+    return True
+
+
+def _plain_test(req):
+    """A test of an lxml element for a compound of classes and id (its tag is looked for by
+    the caller; Selectors 4: class names and ids match case-sensitively in a document in
+    standards mode)."""
+    classes, ident = req.classes, req.ident
+
+    def test(el) -> bool:
+        if ident is not None and el.get("id") != ident:
+            return False
+        if not classes:
+            return True
+        have = el.get("class")
+        return have is not None and classes.issubset(have.split())
+    return test
 
 
 def _lone(el):
@@ -486,21 +527,28 @@ def _lone(el):
 
 
 def _has_simple(el, spec) -> bool:
-    outer, child, arg, tag = spec
-    if not outer(_lone(el)):
+    outer, reach, arg, tag = spec
+    if outer is not None and not outer(_lone(el)):
         return False
-    if child:
-        items = el.iterchildren("{*}" + tag) if tag else el.iterchildren()
+    if reach == "+":  # the next element sibling only
+        after = next(el.itersiblings(Element), None)
+        return after is not None and (tag is None or after.tag.lower() == tag) and arg(after)
+    named = "{*}" + tag if tag else Element
+    if reach == "~":
+        items = el.itersiblings(named)
+    elif reach == ">":
+        items = el.iterchildren(named)
     else:
-        items = el.iterdescendants("{*}" + tag) if tag else el.iterdescendants()
-    return any(isinstance(d.tag, str) and arg(_lone(d)) for d in items)
+        items = el.iterdescendants(named)
+    return any(arg(d) for d in items)
 
 
 def _reads_subtree_only(compound: str) -> bool:
     """A ``:has()`` compound whose only pseudo-class is ``:has()`` and whose arguments use no
-    sibling combinator (``has_compounds`` refuses those) reads nothing outside the element's
-    subtree."""
-    return ":" not in compound.lower().replace(":has(", "(")
+    sibling combinator reads nothing outside the element's subtree (``+`` or ``~`` anywhere,
+    even inside a string, sends it to cssselect2's own test, which is always right)."""
+    return ":" not in compound.lower().replace(":has(", "(") and \
+        "+" not in compound and "~" not in compound
 
 
 class _Ancestry:

@@ -34,6 +34,10 @@ class Structure:
         self.ids = {}
         self.attr_sigs = {}
         self.raw_ids = {}  # (tag, attribute items, empty) -> id, for elements no sibling test reads
+        # element -> its :has() answers, for the page being checked (a state walk asks again
+        # for an element's id; an answer may read the whole subtree): emptied with each
+        # PageStructure and whenever the tree changes
+        self.answered = {}
         self._next = 0
 
     def intern(self, key) -> int:
@@ -67,16 +71,23 @@ class Structure:
     def _id(self, el, attrs: tuple, siblings, wrapper_of=None) -> int:
         empty = not len(el) and not (el.text or "").strip()
         if self.has is not None:
-            candidates = self.has.candidates(el)
-            if candidates:
-                # a :has() compound reads the subtree: whether it matches is in the identity
-                if wrapper_of is None:
-                    wrapper_of = _standalone_wrapper
-                answers = self.has.answers_of(el, candidates, wrapper_of)
+            answers = self._answers(el, wrapper_of)
+            if answers:
+                # a :has() compound reads the subtree or the following siblings: whether it
+                # matches is in the identity
                 return self.intern((el.tag, attrs, siblings, empty, answers))
         if siblings:
             return self.intern((el.tag, attrs, siblings, empty))
         return self.intern((el.tag, attrs, empty))
+
+    def _answers(self, el, wrapper_of=None) -> tuple:
+        """Whether each ``:has()`` compound ``el`` could match does (``()``: none could)."""
+        answers = self.answered.get(el)
+        if answers is None:
+            candidates = self.has.candidates(el)
+            answers = self.answered[el] = () if not candidates else \
+                self.has.answers_of(el, candidates, wrapper_of or _standalone_wrapper)
+        return answers
 
     def children(self, el, wrapper_of=None, chains=None) -> list:
         """``(child, structural id, sibling facts)`` for the child elements of ``el``; the
@@ -105,7 +116,12 @@ class Structure:
                 return [(cel, hit[0], 0) for cel, hit in zip(children, known)]
             return [(cel, hit[0] if hit[0] != HAS_SUBTREE else self._id(cel, hit[2], 0, wrapper_of),
                      0) for cel, hit in zip(children, known)]
-        facts = self._sibling_facts(children, needs, [hit[2] for hit in known])
+        attrs = [hit[2] for hit in known]
+        if not plain and any(need & FULL for need in needs):
+            # a previous sibling is its :has() answers too (`x:has(y) + z`)
+            attrs = [a if hit[0] != HAS_SUBTREE else (a, self._answers(cel, wrapper_of))
+                     for cel, hit, a in zip(children, known, attrs)]
+        facts = self._sibling_facts(children, needs, attrs)
         out = []
         for cel, (ident, _, attrs, tag, empty), siblings in zip(children, known, facts):
             if ident == HAS_SUBTREE:
@@ -224,6 +240,7 @@ class PageStructure:
         self.paths = {root: "/" + root.tag}
         self._getpath = root.getroottree().getpath
         self._ids = None  # id -> element, made on first use (``by_id``)
+        structure.answered = {}
         self._reset_wrappers()
 
     def by_id(self, name: str):
@@ -294,6 +311,7 @@ class PageStructure:
         if wrapper is not None:
             wrapper.__dict__.pop("classes", None)  # (a cached_property of ElementWrapper)
         self.chains.clear()
+        self.structure.answered.clear()
         for up in (el.getparent(), *el.iter()):
             self.kids.pop(up, None)
         if self.structure.has is not None:  # ancestors' subtree answers read it too
@@ -307,6 +325,7 @@ class PageStructure:
         if not elements:
             return
         self.chains.clear()  # they read classes and ids
+        self.structure.answered.clear()
         if WRAPPER_CACHED & {a.lower() for a in attributes}:
             self._reset_wrappers()
             self.kids.clear()
