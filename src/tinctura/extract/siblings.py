@@ -11,8 +11,13 @@ need them, and only the facts that rule reads:
   (``SiblingIndex.formulas``), and the key holds only the answer;
 - ``INDEX`` / ``TYPE``: a position test whose argument is not read as An+B keeps the position
   itself, among all siblings or same-tag ones, from both ends;
-- ``FULL``: the right side of ``+`` / ``~`` (and ``:nth-child(An+B of S)``) reads the previous
-  siblings themselves; the key then holds their identity and the following siblings' tags.
+- the right side of ``+`` / ``~`` reads whether the previous sibling, or some previous one,
+  matches the compound on the left: where that compound tests the sibling alone (names and
+  attributes), each such relation has a bit of its own, as formulas do, and the key holds the
+  answer (``h2 ~ p``: after an ``h2`` or not);
+- ``FULL``: other right sides of ``+`` / ``~`` (``a:hover + b``, ``a + b + c``) and
+  ``:nth-child(An+B of S)`` read the previous siblings themselves; the key then holds their
+  identity and the following siblings' tags.
 
 Each such compound is reduced to what it requires of the element itself (tag, classes, id), of
 its parent (the compound left of a ``>``) and of its ancestors (the compounds further left,
@@ -128,15 +133,17 @@ def _context(compounds, reqs, k) -> tuple:
     return parent, tuple(ancestors)
 
 
-def sensitive_compounds(tokens, formulas=None):
+def sensitive_compounds(tokens, formulas=None, outer_context=None):
     """Compounds of one selector that need sibling information, each with its ``needs``,
     parent and ancestors; None means "any element, FULL". ``formulas``: a dict that gives
-    each position formula a bit (``_formula_needs``); without it positions are read whole."""
+    each position formula a bit (``_formula_needs``); without it positions are read whole.
+    ``outer_context``: (parent, ancestors) the rightmost compound must also have (a selector
+    inside ``:is()``, whose element is the outer compound's)."""
     compounds = split_compounds(tokens)
     reqs = [_requirements(parts) for _, parts in compounds]
     out = []
     for k, (comb, parts) in enumerate(compounds):
-        needs = FULL if comb in ("+", "~") else 0
+        needs = _relation_need(comb, compounds[k - 1], formulas) if comb in ("+", "~") else 0
         for t in parts:
             if t.type == "function":
                 inner = tinycss2.serialize(t.arguments)
@@ -144,7 +151,11 @@ def sensitive_compounds(tokens, formulas=None):
                 bare = _without_has(inner)
                 if ("+" in bare or "~" in bare) and \
                         t.lower_name in ("is", "not", "where", "matches", "-webkit-any"):
-                    return None
+                    found = _inner_compounds(t.arguments, formulas,
+                                             _context(compounds, reqs, k) if k else (None, ()))
+                    if found is None:
+                        return None
+                    out += found
                 needs |= _needs_of(":" + t.lower_name + "(" + inner + ")", formulas)
         text = tinycss2.serialize(parts)
         needs |= _needs_of(text, formulas)
@@ -153,9 +164,73 @@ def sensitive_compounds(tokens, formulas=None):
         c = Compound(reqs[k].tag, reqs[k].classes, reqs[k].ident)
         c.needs = needs
         c.parent, c.ancestors = _context(compounds, reqs, k)
+        if outer_context is not None and k == len(compounds) - 1:
+            c.parent = c.parent or outer_context[0]
+            c.ancestors = c.ancestors + outer_context[1]
         out.append(c)
     # the left side of + / ~ is read from the right side's view, which already carries it
     return out
+
+
+def _relation_need(comb: str, left: tuple, formulas) -> int:
+    """What a compound right of ``+`` / ``~`` reads of its siblings: whether the previous one
+    (``+``) or some previous one (``~``) matches the compound on its left, a bit of its own,
+    where that compound reads nothing but the sibling itself (names and attributes, and no
+    ``+`` / ``~`` before it); else FULL, the previous siblings themselves."""
+    left_comb, parts = left
+    text = tinycss2.serialize(parts).strip()
+    if formulas is None or left_comb in ("+", "~") or any(c in text for c in ":()\\"):
+        return FULL
+    if _sibling_test(text) is None:
+        return FULL
+    form = ("sibling", comb, text)
+    bit = formulas.get(form)
+    if bit is None:
+        bit = formulas[form] = 1 << (FORMULA_BITS + len(formulas))
+    return bit
+
+
+def _sibling_test(text: str):
+    """A test of an lxml element for a compound of names and attributes (None: not one)."""
+    tokens = tinycss2.parse_component_value_list(text)
+    req = _requirements(tokens)
+    tag = req.tag if req.tag not in (None, "*") else None
+    if _names_only(tokens):
+        plain = _plain_test(req)
+        return (lambda el: el.tag.lower() == tag and plain(el)) if tag else plain
+    from .sheet import compile_one
+
+    compiled, dynamic = compile_one(text)
+    if compiled is None or dynamic:
+        return None
+    return lambda el, test=compiled.test: test(_lone(el))
+
+
+def _inner_compounds(arguments, formulas, outer_context):
+    """``sensitive_compounds`` of each selector of ``:is()``/``:not()``/``:where()``'s list
+    whose combinators read siblings (``:not(li + li)``: an element that cannot be an ``li`` is
+    matched or not whatever its siblings; an ``li`` reads them). The rightmost compound of each
+    is the element itself, so the outer compound's parent and ancestors hold for it too."""
+    out = []
+    for selector in _split_list(arguments):
+        found = sensitive_compounds(selector, formulas, outer_context)
+        if found is None:
+            return None
+        out += found
+    return out
+
+
+def _split_list(tokens) -> list:
+    """The token lists of a selector list's selectors (split at its top-level commas)."""
+    out, current = [], []
+    for t in tokens:
+        if t.type == "literal" and t.value == ",":
+            out.append(current)
+            current = []
+        else:
+            current.append(t)
+    return [part for part in out + [current]
+            if any(t.type not in ("whitespace", "comment") for t in part)]
 
 
 def _without_has(text: str) -> str:
@@ -248,6 +323,7 @@ class SiblingIndex:
         self._next_chain = 0
         self.formulas = {}  # (of-type, from the end, a, b) -> its bit in a need
         self._formulas_of = {}  # a children list's needs together -> formulas_of(them)
+        self._relations_of = {}  # the same -> relations_of(them)
         for rule in rules:
             text = rule.selector_text
             if not (STRUCTURAL.search(text) or "+" in text or "~" in text):
@@ -265,6 +341,18 @@ class SiblingIndex:
                 else:
                     self.free.append(c)
 
+    def relations_of(self, want: int) -> tuple:
+        """``(bit, combinator, test)`` of the sibling relations in ``want`` (``+``: the
+        previous sibling passes ``test``; ``~``: some previous sibling does)."""
+        hit = self._relations_of.get(want)
+        if hit is None:
+            if len(self._relations_of) > MEMO_LIMIT:
+                self._relations_of.clear()
+            hit = self._relations_of[want] = tuple(
+                (bit, form[1], _sibling_test(form[2])) for form, bit in self.formulas.items()
+                if want & bit and form[0] == "sibling")
+        return hit
+
     def formulas_of(self, want: int) -> tuple:
         """``(bit, of-type, from the end, a, b)`` of the position formulas in ``want``."""
         hit = self._formulas_of.get(want)
@@ -272,7 +360,8 @@ class SiblingIndex:
             if len(self._formulas_of) > MEMO_LIMIT:
                 self._formulas_of.clear()
             hit = self._formulas_of[want] = tuple(
-                (bit, *form) for form, bit in self.formulas.items() if want & bit)
+                (bit, *form) for form, bit in self.formulas.items()
+                if want & bit and form[0] != "sibling")
         return hit
 
     def needs_children(self, parent, children, chains=None) -> list | None:

@@ -153,6 +153,7 @@ class Structure:
             want |= need
         # (bit, of-type, from the end, a, b) of the position formulas some child reads
         formulas = self.siblings.formulas_of(want)
+        relations = self._relations(children, want)
         types = ends = None
         if want & TYPE or any(form[1] for form in formulas):
             seen, types = {}, []
@@ -191,9 +192,28 @@ class Structure:
                     position = (ends[i] + 1 if from_end else types[i]) if of_type \
                         else (n - i if from_end else i + 1)
                     facts.append(fits(a, b, position))
+            for bit, after in relations:
+                if need & bit:
+                    facts.append(after[i])
             if need & FULL:
                 facts += (prevs[i], following[i])
             out.append(tuple(facts))
+        return out
+
+    def _relations(self, children, want: int) -> list:
+        """``(bit, answers)`` of the sibling relations in ``want``: per child, whether the
+        previous sibling (``+``) or some previous sibling (``~``) passes the relation's test."""
+        out = []
+        for bit, comb, test in self.siblings.relations_of(want):
+            hits = [test(c) for c in children]
+            if comb == "+":
+                after = [False] + hits[:-1]
+            else:
+                after, seen = [], False
+                for hit in hits:
+                    after.append(seen)
+                    seen = seen or hit
+            out.append((bit, after))
         return out
 
 
