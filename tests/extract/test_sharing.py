@@ -276,6 +276,18 @@ def test_sibling_relations_colour_as_cssselect2_matches(tmp_path):
     ids, ruleset = structural_ids(tmp_path, body, RELATION_CSS)
     assert not ruleset.siblings.any
     assert ids["p1"] == ids["p2"]  # both after the h2: their other siblings do not count
+    # a hovered link before a span: the span keeps whether its previous sibling is a hovered
+    # link, not the siblings themselves; :root is the html element, the only one whose
+    # :has() answers are kept
+    ids, _ = structural_ids(tmp_path, '<p><b>x</b><span id="s1">1</span><a href="#">l</a>'
+                            '<span id="s2">2</span><i>y</i><span id="s3">3</span></p>',
+                            "a:hover + span { color: #666 } :root:has(input:checked) p"
+                            " { color: #777 }")
+    assert ids["s1"] == ids["s2"] == ids["s3"]  # (no link is hovered at rest)
+    from tinctura.extract.siblings import has_compounds
+    import tinycss2
+    (req, _), = has_compounds(tinycss2.parse_component_value_list(":root:has(input:checked) p"))
+    assert req.tag == "html"
 
 
 def test_simple_has_answers_agree_with_cssselect2():

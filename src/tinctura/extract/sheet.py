@@ -370,6 +370,12 @@ _COMPILED: dict = {}  # selector text -> (LazySelector or None, dynamic): equal 
 _COMPILED_LIMIT = 20_000
 
 
+def with_state_attributes(text: str) -> str:
+    """``text`` with its dynamic pseudo-classes written as the attributes that stand for them
+    (``mark_states``)."""
+    return _DYNAMIC_RE.sub(lambda m: f"[{STATE_ATTR}{m.group(1).lower().lstrip('-')}]", text)
+
+
 def compile_one(text: str, tokens=None):
     """Compile one selector (no commas at top level); None when cssselect2 cannot.
 
@@ -377,7 +383,7 @@ def compile_one(text: str, tokens=None):
     got = _COMPILED.get(text)
     if got is not None:
         return got
-    rewritten = _DYNAMIC_RE.sub(lambda m: f"[{STATE_ATTR}{m.group(1).lower().lstrip('-')}]", text)
+    rewritten = with_state_attributes(text)
     rewritten = _STATIC_RE.sub(lambda m: _STATIC_PSEUDO[m.group(1).lower()], rewritten)
     dynamic = rewritten != text
     try:

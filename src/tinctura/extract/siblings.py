@@ -15,7 +15,7 @@ need them, and only the facts that rule reads:
   matches the compound on the left: where that compound tests the sibling alone (names and
   attributes), each such relation has a bit of its own, as formulas do, and the key holds the
   answer (``h2 ~ p``: after an ``h2`` or not);
-- ``FULL``: other right sides of ``+`` / ``~`` (``a:hover + b``, ``a + b + c``) and
+- ``FULL``: other right sides of ``+`` / ``~`` (``a:first-child + b``, ``a + b + c``) and
   ``:nth-child(An+B of S)`` read the previous siblings themselves; the key then holds their
   identity and the following siblings' tags.
 
@@ -100,11 +100,16 @@ def split_compounds(tokens) -> list:
 
 
 def _requirements(parts) -> Compound:
-    """What a compound requires of the element: tag, classes, id (the rest is ignored)."""
+    """What a compound requires of the element: tag, classes, id (the rest is ignored;
+    ``:root`` is the ``html`` element of a page)."""
     tag, classes, ident = None, [], None
     for i, t in enumerate(parts):
         if t.type == "ident" and i == 0:
             tag = t.lower_value
+        elif t.type == "ident" and t.lower_value == "root" and i and \
+                parts[i - 1].type == "literal" and parts[i - 1].value == ":" and \
+                tag in (None, "*"):
+            tag = "html"
         elif t.type == "literal" and t.value == "*" and i == 0:
             tag = "*"
         elif t.type == "literal" and t.value == "." and i + 1 < len(parts) \
@@ -177,8 +182,11 @@ def _relation_need(comb: str, left: tuple, formulas) -> int:
     (``+``) or some previous one (``~``) matches the compound on its left, a bit of its own,
     where that compound reads nothing but the sibling itself (names and attributes, and no
     ``+`` / ``~`` before it); else FULL, the previous siblings themselves."""
+    from .sheet import with_state_attributes
+
     left_comb, parts = left
-    text = tinycss2.serialize(parts).strip()
+    # (`a:hover + b`: whether the previous sibling is a hovered `a`, as state walks mark it)
+    text = with_state_attributes(tinycss2.serialize(parts).strip())
     if formulas is None or left_comb in ("+", "~") or any(c in text for c in ":()\\"):
         return FULL
     if _sibling_test(text) is None:
