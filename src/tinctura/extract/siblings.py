@@ -22,9 +22,10 @@ need them, and only the facts that rule reads:
 Each such compound is reduced to what it requires of the element itself (tag, classes, id), of
 its parent (the compound left of a ``>``) and of its ancestors (the compounds further left,
 across descendant and child combinators): an element that satisfies none of them is styled the
-same wherever it stands among its siblings. Selectors whose sibling tests hide inside
-``:is()``/``:not()``/``:where()`` arguments with combinators are not analysed: they make every
-element ``FULL``.
+same wherever it stands among its siblings. A selector list inside ``:is()``/``:not()``/
+``:where()`` whose selectors have sibling combinators (``:not(li + li)``) is read the same way,
+selector by selector: its rightmost compound is the element itself, so the outer compound's
+parent and ancestors hold for it too.
 
 ``:has()`` looks at an element's descendants, or at its following siblings (``:has(+ x)``,
 ``:has(~ x)``): an element a ``:has()`` compound could match keeps in its key whether each such
