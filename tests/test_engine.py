@@ -773,3 +773,34 @@ def test_one_places_findings_are_ordered_by_state_then_scheme(tmp_path):
     order = [(f.sample.state, f.sample.scheme) for f in report.findings
              if f.rule == "TC100" and f.sample.xpath == "/html/body/p/a"]
     assert order == [("rest", "dark"), ("rest", "light"), ("hover", "dark"), ("hover", "light")]
+
+
+def test_texts_on_several_backgrounds_are_judged_as_against_each_one():
+    """A text on several possible backgrounds is undetermined when they disagree about the
+    required ratio: the lowest and highest ratio come from sorted luminances (the nearest
+    and the farthest), which must give what the WCAG 2 contrast ratio against each
+    background gives (the reference: ``wcag.contrast_ratio``, the formula of WCAG 2.2's
+    definition of contrast ratio, applied to every background in turn)."""
+    import random
+
+    from tinctura import engine
+    from tinctura.colour import wcag
+    from tinctura.model import Sample
+    from tinctura.rules.text import foreground_on
+
+    rng = random.Random(5)
+    for _ in range(300):
+        colour = lambda: tuple(rng.random() for _ in range(3))  # noqa: E731
+        fg, bg = colour(), colour()
+        alternatives = tuple(colour() for _ in range(rng.randint(1, 12)))
+        alpha = rng.choice([1.0, 1.0, 0.6])
+        sample = Sample(page="a.html", scheme="light", state="rest", xpath="/html/body/p",
+                        line=1, text="t", kind="text", fg=fg, bg=bg, fg_raw=fg + (alpha,),
+                        bg_alternatives=alternatives, font_size_px=16.0, font_weight=400)
+        engine.judge_gradients([sample], "AA")
+        ratios = [wcag.contrast_ratio(foreground_on(sample, b), b) for b in (bg,) + alternatives]
+        expected = min(ratios) < 4.5 <= max(ratios)
+        assert (sample.status == "undetermined") == expected
+        if expected:
+            assert f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1" in sample.reason
+

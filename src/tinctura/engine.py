@@ -12,6 +12,7 @@ Interface (stable; the CLI, the plugin and the benchmarks use only this):
 """
 from __future__ import annotations
 
+import bisect
 import dataclasses
 import fnmatch
 import gc
@@ -469,20 +470,50 @@ def verdict_key(options: Options) -> str:
 
 
 def judge_gradients(samples, level: str) -> None:
-    """Text with several possible backgrounds (gradient stops, an outlining text shadow) is
-    judged only when all of them agree; otherwise it is undetermined."""
+    """Text with several possible backgrounds (gradient stops, an outlining text shadow, the
+    shapes of a diagram) is judged only when all of them agree; otherwise it is
+    undetermined."""
     from .rules.text import backgrounds, foreground_on
+
+    spans = {}  # (bg, id of its alternatives) -> their luminances, sorted: texts share them
+    known = {}  # colour -> relative luminance (a diagram's texts share most of its fills)
+
+    def luminance(colour) -> float:
+        found = known.get(colour)
+        if found is None:
+            found = known[colour] = wcag.relative_luminance(colour)
+        return found
 
     for s in samples:
         if not s.bg_alternatives or s.status == UNDETERMINED or s.fg is None:
             continue
         required = wcag.required_ratio(level, wcag.is_large_text(s.font_size_px, s.font_weight))
-        ratios = [wcag.contrast_ratio(foreground_on(s, bg), bg) for bg in backgrounds(s)]
-        if min(ratios) < required <= max(ratios):
+        raw = s.fg_raw
+        if raw is None or len(raw) < 4 or raw[3] >= 1.0:  # the same text colour on each
+            key = (s.bg, id(s.bg_alternatives))
+            found = spans.get(key)
+            if found is None:
+                found = spans[key] = sorted(map(luminance, backgrounds(s)))
+            low, high = _ratio_span(luminance(s.fg), found)
+        else:  # composited again over each background
+            ratios = [wcag.contrast_ratio(foreground_on(s, bg), bg) for bg in backgrounds(s)]
+            low, high = min(ratios), max(ratios)
+        if low < required <= high:
             s.status = UNDETERMINED
             s.reason = ("backgrounds disagree (gradient stops, a partial inset shadow or an "
-                        f"outlining text shadow): {min(ratios):.2f}:1 to {max(ratios):.2f}:1 "
+                        f"outlining text shadow): {low:.2f}:1 to {high:.2f}:1 "
                         f"against {required:g}:1")
+
+
+def _ratio_span(text: float, backgrounds: list) -> tuple:
+    """The lowest and highest contrast ratio of a text of luminance ``text`` on backgrounds
+    of the luminances ``backgrounds`` (sorted): the ratio grows with the distance between
+    the luminances, so the lowest is next to ``text`` and the highest at an end."""
+    at = bisect.bisect_left(backgrounds, text)
+    near = backgrounds[max(0, at - 1):at + 1]
+    ends = (backgrounds[0], backgrounds[-1])
+    return (min(wcag.ratio_from_luminances(text, b) for b in near),
+            max(wcag.ratio_from_luminances(text, b) for b in ends))
 
 
 def check_paths(paths, options: Options | None = None, findings_to=None) -> Report:

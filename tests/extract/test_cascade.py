@@ -276,6 +276,16 @@ def test_svg_text_fill_and_shapes_behind(render):
     assert on_shape.bg_alternatives == ((0.0, 0.0, 0.0),)
 
 
+def test_a_diagrams_shapes_are_each_fill_once(render):
+    # a diagram of many shapes in a few fills: each fill is one possible background, once
+    # (every shape was one before: 2,000 shapes made each later label cost 2,000 judgements)
+    rects = "".join(f'<rect width="9" height="9" fill="{("#000000", "#ffffff", "#ff0000")[i % 3]}"/>'
+                    for i in range(60))
+    s = render(f'<svg>{rects}<text fill="#777777">label</text></svg>')
+    assert light(s, "label").bg_alternatives == ((0.0, 0.0, 0.0), (1.0, 1.0, 1.0),
+                                                 (1.0, 0.0, 0.0))
+
+
 def test_numbered_list_markers_are_text(render):
     # HTML Rendering 15.3.8: ol is list-style-type decimal, li is display list-item; the
     # marker takes the li's colour unless ::marker sets one (CSS Lists 3)

@@ -633,8 +633,8 @@ class PageWalker:
     def _shape(self, el, style):
         """Record an SVG shape's fill: later text in the same <svg> may lie on it."""
         fill = style.svg_fill[0] if style.svg_fill is not None else BLACK  # SVG initial fill
-        if fill[3] > 0:
-            self._svg_shapes.setdefault(_svg_root(el), []).append(fill)
+        if fill[3] > 0:  # each fill once (a diagram of 2,000 shapes has a few fills)
+            self._svg_shapes.setdefault(_svg_root(el), {})[fill] = None
 
     def _emit(self, el, style, chain, text, kind, core_key, suffix="", shapes=()):
         """Append a Sample. The colour work is cached by style key; anything positional
