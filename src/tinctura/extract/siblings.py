@@ -499,6 +499,9 @@ class HasIndex:
         self._memo = {}
         self._answers = {}  # (compounds, serialization length, hash) -> answers
         self._simple = {}  # compound text -> _simple_has(compound text)
+        # compounds reading a state (`li:has(a:hover)`): their answers change while a state
+        # walk marks an element, so they are not kept (``Structure.answered``)
+        self.dynamic = set()
         seen = {}
         for rule in rules:
             text = rule.selector_text
@@ -507,10 +510,12 @@ class HasIndex:
             for req, compound in has_compounds(tinycss2.parse_component_value_list(text)):
                 if compound in seen:
                     continue
-                compiled, _ = compile_one(compound)
+                compiled, dynamic = compile_one(compound)
                 if compiled is None:
                     self.usable = False
                     return
+                if dynamic:
+                    self.dynamic.add(compound)
                 seen[compound] = compiled.test
                 self.own.add(req, (compound, compiled.test))
                 self._simple[compound] = _simple_has(compound)

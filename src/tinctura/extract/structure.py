@@ -85,8 +85,13 @@ class Structure:
         answers = self.answered.get(el)
         if answers is None:
             candidates = self.has.candidates(el)
-            answers = self.answered[el] = () if not candidates else \
-                self.has.answers_of(el, candidates, wrapper_of or _standalone_wrapper)
+            if not candidates:
+                answers = self.answered[el] = ()
+            else:
+                answers = self.has.answers_of(el, candidates, wrapper_of or _standalone_wrapper)
+                if not self.has.dynamic or not any(c[0] in self.has.dynamic
+                                                   for c in candidates):
+                    self.answered[el] = answers
         return answers
 
     def children(self, el, wrapper_of=None, chains=None) -> list:
