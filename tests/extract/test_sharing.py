@@ -292,9 +292,6 @@ def test_sibling_relations_colour_as_cssselect2_matches(tmp_path):
     assert req.tag == "html"
 
 
-@pytest.mark.xfail(strict=True, reason="known limitation: a state walk takes an ancestor's "
-                   "style in that state from the first control walked below it "
-                   "(PageWalker._path's memo), which a :has() reading the state breaks")
 def test_a_has_that_reads_a_state_is_answered_in_each_state_walk(tmp_path):
     # Selectors 4: `tr:has(a:hover)` holds while the link is hovered, not while another
     # control of the row is (`:hover` also holds for the row itself in both): the row's

@@ -510,6 +510,8 @@ class PageWalker:
         parent_style, parent_id, chain = ROOT_PARENT, 0, ()
         memo = self._path_memo
         for k, el in enumerate(path):
+            if memo is not None and self._reads_state_below(el):
+                memo = {}  # (`tr:has(a:hover)`: from here on, which control is in the state counts)
             if el is not target:  # ancestors carry the same state for every target below
                 hit = memo.get((el, state))
                 if hit is not None:
@@ -531,6 +533,13 @@ class PageWalker:
             parent_style, parent_id = style, kid
             memo[(el, state)] = (parent_style, parent_id, chain)
         return None
+
+    def _reads_state_below(self, el) -> bool:
+        """Whether a ``:has()`` compound that reads a state (``tr:has(a:hover)``) could match
+        ``el``: its style in a state then depends on which control below is in it."""
+        has = self.structure.structure.has
+        return has is not None and bool(has.dynamic) and \
+            any(text in has.dynamic for text, _ in has.candidates(el))
 
     def _element_id(self, el) -> int:
         """The structural id of ``el`` at its place: worked out from what sibling-reading
