@@ -7,6 +7,7 @@ colour, visibility or font size are dropped here, and so are rules left with non
 """
 from __future__ import annotations
 
+import itertools
 import re
 from dataclasses import dataclass, field
 from functools import cached_property
@@ -357,10 +358,15 @@ class LazySelector(cssselect2.compiler.CompiledSelector):
 
     @cached_property
     def test(self):
-        return eval("lambda el: " + self._source, {  # as cssselect2 builds it
+        # :has() lists a subtree's wrappers whole before any() reads them; read lazily, the
+        # test stops at the first match (`:root:has(input:checked)`: the page's first
+        # checked input, not every element of the page)
+        source = self._source.replace("list(el.iter_subtree())[1:]",
+                                      "_islice(el.iter_subtree(), 1, None)")
+        return eval("lambda el: " + source, {  # as cssselect2 builds it
             "split_whitespace": cssselect2.compiler.split_whitespace,
             "ascii_lower": cssselect2.compiler.ascii_lower,
-            "urlparse": cssselect2.compiler.urlparse}, {})
+            "urlparse": cssselect2.compiler.urlparse, "_islice": itertools.islice}, {})
 
 
 # cssselect2's private source builder, used by LazySelector; without it, compile at once
