@@ -191,8 +191,8 @@ HAS_CSS = ("p:has(+ ul) { color: #111111 } li:not(:has(~ li.k)) { color: #222222
 
 def colours_as_cssselect2_matches(tmp_path, pages: dict, css: str) -> set:
     """Assert that every text of ``pages`` has the colour cssselect2's own matching of each
-    rule of ``css`` gives it (the rule written last winning: the rules below have equal
-    specificities), inherited from the parent where none matches; returns the colours met."""
+    rule of ``css`` gives it (the most specific rule winning, then the one written last: CSS
+    Cascade 4), inherited from the parent where none matches; returns the colours met."""
     import cssselect2
     from lxml import etree
 
@@ -258,7 +258,8 @@ def test_sibling_combinators_inside_is_and_not_colour_as_cssselect2_matches(tmp_
 
 RELATION_CSS = ("h2 ~ p { color: #111111 } .n h3 + p { color: #222222 }"
                 " [data-x] ~ span { color: #333333 } .w h1 ~ * { color: #444444 }"
-                " .w h1 + p + p { color: #555555 }")
+                " .w h1 + p + p { color: #555555 } section :is(b, i) + :is(span, em)"
+                " { color: #666666 } :where(h3, h4) ~ :is(p) { color: #777777 }")
 
 
 def test_sibling_relations_colour_as_cssselect2_matches(tmp_path):
@@ -267,17 +268,18 @@ def test_sibling_relations_colour_as_cssselect2_matches(tmp_path):
     body = ('<div><p>p0</p><h2>h</h2><p id="p1">p1</p><p id="p2">p2</p><div><p>in</p></div>'
             '<p>p3</p></div><div class="n"><p>n0</p><h3>h3</h3><p>n1</p><p>n2</p></div>'
             '<section><span>s0</span><b data-x="1">x</b><span>s1</span><span>s2</span>'
-            '</section><div class="w"><p>w0</p><h1>t</h1><p>w1</p><p>w2</p><p>w3</p>'
-            '<em>w4</em></div>')
+            '<i>i</i><em>e1</em><em>e2</em></section><div class="w"><p>w0</p><h1>t</h1>'
+            '<p>w1</p><p>w2</p><p>w3</p><em>w4</em></div>')
     pages = {"a.html": ("", body),
              "b.html": ("", body.replace("<h2>h</h2>", "").replace("<p>p3</p>",
                                                                    "<h2>h</h2><p>p3</p>")),
              "c.html": ("", body.replace(' data-x="1"', "").replace("<h3>h3</h3>", "<h4>4</h4>")),
              "d.html": ("", body.replace("<h1>t</h1>", "<h5>t</h5>"))}
-    assert len(colours_as_cssselect2_matches(tmp_path, pages, RELATION_CSS)) >= 6
+    assert len(colours_as_cssselect2_matches(tmp_path, pages, RELATION_CSS)) >= 8
     ids, ruleset = structural_ids(tmp_path, body, RELATION_CSS)
     assert not ruleset.siblings.any
     assert ids["p1"] == ids["p2"]  # both after the h2: their other siblings do not count
+    from tinctura.extract.siblings import has_compounds
     # a hovered link before a span: the span keeps whether its previous sibling is a hovered
     # link, not the siblings themselves; :root is the html element, the only one whose
     # :has() answers are kept
@@ -286,8 +288,16 @@ def test_sibling_relations_colour_as_cssselect2_matches(tmp_path):
                             "a:hover + span { color: #666 } :root:has(input:checked) p"
                             " { color: #777 }")
     assert ids["s1"] == ids["s2"] == ids["s3"]  # (no link is hovered at rest)
-    from tinctura.extract.siblings import has_compounds
+    # a compound that names its elements only through :is() is those elements: a
+    # <div> after a heading keeps nothing of its siblings, a <p> keeps whether one came before
+    ids, ruleset = structural_ids(tmp_path, '<h2>h</h2><div id="d1">x</div><p id="q1">a</p>'
+                                  '<div id="d2">y</div><p id="q2">b</p>',
+                                  ":is(h1, h2, h3) + :is(p, ul) { color: #888 }"
+                                  " :is(h2, h3):has(+ p) { color: #999 }")
+    assert ids["d1"] == ids["d2"] and not ruleset.siblings.free
     import tinycss2
+    reqs = has_compounds(tinycss2.parse_component_value_list(":is(h2, h3):has(+ p)"))
+    assert sorted(req.tag for req, _ in reqs) == ["h2", "h3"]
     (req, _), = has_compounds(tinycss2.parse_component_value_list(":root:has(input:checked) p"))
     assert req.tag == "html"
 

@@ -121,6 +121,27 @@ def _requirements(parts) -> Compound:
     return Compound(tag, classes, ident)
 
 
+def _alternatives(parts) -> list:
+    """The requirements of a compound, one per alternative where it names no tag, class or id
+    but through one ``:is()`` / ``:where()`` of compounds of names (``:is(h1, h2, h3)``: an
+    ``h1``, an ``h2`` or an ``h3``); else its requirements alone."""
+    req = _requirements(parts)
+    if not req.universal:
+        return [req]
+    lists = [t for t in parts if t.type == "function"
+             and t.lower_name in ("is", "where", "matches", "-webkit-any")]
+    if len(lists) != 1:
+        return [req]
+    out = []
+    for selector in _split_list(lists[0].arguments):
+        tokens = [t for t in selector if t.type not in ("whitespace", "comment")]
+        alternative = _requirements(tokens)
+        if not tokens or not _names_only(tokens) or alternative.universal:
+            return [req]
+        out.append(alternative)
+    return out
+
+
 def _context(compounds, reqs, k) -> tuple:
     """(parent requirement, ancestor requirements) of compound ``k``: the compound left of a
     ``>`` is the parent; those reached across `` `` and ``>`` are ancestors (a compound left of
@@ -167,15 +188,23 @@ def sensitive_compounds(tokens, formulas=None, outer_context=None):
         needs |= _needs_of(text, formulas)
         if not needs:
             continue
-        c = Compound(reqs[k].tag, reqs[k].classes, reqs[k].ident)
-        c.needs = needs
-        c.parent, c.ancestors = _context(compounds, reqs, k)
-        if outer_context is not None and k == len(compounds) - 1:
-            c.parent = c.parent or outer_context[0]
-            c.ancestors = c.ancestors + outer_context[1]
-        out.append(c)
+        for req in _alternatives(parts):
+            c = Compound(req.tag, req.classes, req.ident)
+            c.needs = needs
+            c.parent, c.ancestors = _context(compounds, reqs, k)
+            if outer_context is not None and k == len(compounds) - 1:
+                c.parent = c.parent or outer_context[0]
+                c.ancestors = c.ancestors + outer_context[1]
+            out.append(c)
     # the left side of + / ~ is read from the right side's view, which already carries it
     return out
+
+
+# :is(h1, h2), :where(.a), :not(.x, p): lists of compounds of names and attributes, which test
+# the element alone (a sibling's cssselect2 test of its own wrapper is then enough)
+_NAMES = r"[\w.#*\-\[\]=\"']+"
+_LISTS_OF_NAMES = re.compile(r":(is|where|not|matches)\(\s*%s(?:\s*,\s*%s)*\s*\)" % (_NAMES, _NAMES),
+                             re.I)
 
 
 def _relation_need(comb: str, left: tuple, formulas) -> int:
@@ -188,7 +217,8 @@ def _relation_need(comb: str, left: tuple, formulas) -> int:
     left_comb, parts = left
     # (`a:hover + b`: whether the previous sibling is a hovered `a`, as state walks mark it)
     text = with_state_attributes(tinycss2.serialize(parts).strip())
-    if formulas is None or left_comb in ("+", "~") or any(c in text for c in ":()\\"):
+    if formulas is None or left_comb in ("+", "~") or "\\" in text or \
+            any(c in _LISTS_OF_NAMES.sub("", text) for c in ":()"):
         return FULL
     if _sibling_test(text) is None:
         return FULL
@@ -311,7 +341,7 @@ def has_compounds(tokens) -> list:
     for _comb, parts in split_compounds(tokens):
         text = tinycss2.serialize(parts)
         if ":has(" in text.lower():
-            out.append((_requirements(parts), text.strip()))
+            out += [(req, text.strip()) for req in _alternatives(parts)]
     return out
 
 
