@@ -336,12 +336,16 @@ def test_simple_has_answers_agree_with_cssselect2():
         '</table><table><tr><td>y<CODE class="k">z</CODE></td></tr></table>'
         '<div class="admonition"><p>p</p><ul><li>i</li></ul></div>'
         '<div class="admonition"><p><ul><li>deep</li></ul></p></div>'
-        '<div class="admonition note"><span class="k x">s</span></div></body></html>',
+        '<div class="admonition note"><span class="k x">s</span></div>'
+        '<form><input type="checkbox" checked><input type="radio"></form></body></html>',
         etree.HTMLParser())
     compounds = ["table:has(code)", ".admonition:has(> ul)", "div:has(.k)",
                  "div.note:has(span.k.x)", "table.t:has(> tr)", "table:has(code.k)",
                  "div:has(> p[class])", "table:has(+ table)", "table:has(~ div.admonition)",
-                 ":has(> li)", "p:has(+ ul)", "div:has(~ div.note)", ":has(+ [class])"]
+                 ":has(> li)", "p:has(+ ul)", "div:has(~ div.note)", ":has(+ [class])",
+                 ":has(> p):not(ul)", "*:has(> li)", "div:has(> span:is(.k, .x))",
+                 "div:where(.admonition):has(ul)", "body:has(input:checked)",
+                 ":root:has(input:checked)", "html:root:has(.k)", ":root:has(> body)"]
     checked = 0
     for wrapper in cssselect2.ElementWrapper.from_html_root(root).iter_subtree():
         for compound in compounds:
@@ -352,7 +356,8 @@ def test_simple_has_answers_agree_with_cssselect2():
             checked += expected
     assert checked >= 9  # some of them match
     for compound in ("div:has(.a .b)", "a:hover:has(b)", "div:has(b, i)", "li:first-child:has(a)",
-                     "div:has(+ p span)", "div:has(~ p:hover)"):
+                     "div:has(+ p span)", "div:has(~ p:hover)", ":root:has(p:hover)",
+                     "div:has(> p):first-child", "div:has(:is(p span))"):
         assert _simple_has(compound) is None, compound
 
 

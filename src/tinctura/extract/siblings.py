@@ -574,54 +574,89 @@ class HasIndex:
         return tuple(test(wrapper) for _, test in candidates)
 
     def answers_of(self, el, candidates, wrapper_of) -> tuple:
-        """``answers`` for ``el``. A compound ``A:has(B)`` or ``A:has(> B)`` whose parts test
-        only the element they apply to (tag, classes, id, attributes) is answered by testing
-        ``A`` on ``el`` and ``B`` on the descendants (children) lxml finds with ``B``'s tag:
-        cssselect2's own test builds a wrapper for every element of the subtree. Others are
-        remembered by the element's serialization where every candidate reads only the
-        element and its subtree (no pseudo-class but ``:has()`` itself)."""
-        simple = self._simple
-        if all(simple.get(text) is not None for text, _ in candidates):
-            return tuple(_has_simple(el, simple[text]) for text, _ in candidates)
-        if not all(_reads_subtree_only(text) for text, _ in candidates):
-            return self.answers(candidates, wrapper_of(el))
-        data = etree.tostring(el, with_tail=False, encoding="utf-8")
-        key = (tuple(text for text, _ in candidates), len(data), hash(data))
-        hit = self._answers.get(key)
-        if hit is None:
-            if len(self._answers) > MEMO_LIMIT:
-                self._answers.clear()
-            hit = self._answers[key] = self.answers(candidates, wrapper_of(el))
-        return hit
+        """``answers`` for ``el``, each compound on its own. ``A:has(B)``, ``A:has(> B)``,
+        ``A:has(+ B)`` or ``A:has(~ B)`` whose parts test only the element they apply to
+        (tag, classes, id, attributes) is answered with lxml (``_has_simple``): cssselect2's
+        own test builds a wrapper for every element it reads. Others are remembered by the
+        element's serialization where they read only the element and its subtree (no
+        pseudo-class but ``:has()`` itself), else asked of cssselect2."""
+        simple, out, wrapper, data = self._simple, [], None, None
+        for text, test in candidates:
+            spec = simple.get(text)
+            if spec is not None:
+                out.append(_has_simple(el, spec))
+                continue
+            if wrapper is None:
+                wrapper = wrapper_of(el)
+            if not _reads_subtree_only(text):
+                out.append(test(wrapper))
+                continue
+            if data is None:
+                data = etree.tostring(el, with_tail=False, encoding="utf-8")
+            key = (text, len(data), hash(data))
+            hit = self._answers.get(key)
+            if hit is None:
+                if len(self._answers) > MEMO_LIMIT:
+                    self._answers.clear()
+                hit = self._answers[key] = test(wrapper)
+            out.append(hit)
+        return tuple(out)
 
 
 def _simple_has(compound: str):
     """``(test of A or None, reach, test of B, B's tag or None)`` for ``A:has(B)``,
     ``A:has(> B)``, ``A:has(+ B)`` or ``A:has(~ B)`` (``reach``: " ", ">", "+", "~") where A
-    and B are compounds without pseudo-classes (A may be empty: ``:has(> img)`` tests every
-    element); None otherwise."""
-    from .sheet import compile_one
-
+    and B test only the element they apply to (``_tests_element_only``; A may be empty:
+    ``:has(> img)`` tests every element, and may go on after the ``:has()``:
+    ``:has(> code):not(pre)``); None otherwise. Tests take lxml elements."""
     lower = compound.lower()
     at = lower.find(":has(")
-    if at < 0 or lower.count(":has(") != 1 or not compound.rstrip().endswith(")"):
+    if at < 0 or lower.count(":has(") != 1:
         return None
-    outer, arg = compound[:at], compound[at + 5:compound.rstrip().rindex(")")].strip()
+    end = _closing(compound, at + 4)
+    if end < 0:
+        return None
+    outer = (compound[:at] + compound[end + 1:]).strip()
+    root = bool(_ROOT.search(outer))  # `:root:has(...)`: the page's root element
+    outer = _ROOT.sub("", outer) or ("*" if root else "")
+    arg = compound[at + 5:end].strip()
     reach = arg[0] if arg[:1] in (">", "+", "~") else " "
     arg = arg[1:].strip() if reach != " " else arg
-    if not arg or any(c in outer + arg for c in ":(),>+~ \t\n\r\f\\"):
+    if not arg or not _tests_element_only(outer) or not _tests_element_only(arg):
         return None
-    outer_test, dynamic = compile_one(outer) if outer else (None, False)
-    arg_test, arg_dynamic = compile_one(arg)
-    if (outer and outer_test is None) or arg_test is None or dynamic or arg_dynamic:
+    outer_test = _sibling_test(outer) if outer and outer != "*" else None
+    arg_test = _sibling_test(arg)
+    if (outer and outer != "*" and outer_test is None) or arg_test is None:
         return None
-    tokens = tinycss2.parse_component_value_list(arg)
-    req = _requirements(tokens)
-    tag = req.tag if req.tag not in (None, "*") else None
-    # B of tag, classes and id only: tested on lxml's element itself (a cssselect2 wrapper
-    # per descendant cost 1.5 ms an element whose subtree is the page)
-    test = _plain_test(req) if _names_only(tokens) else lambda d, t=arg_test.test: t(_lone(d))
-    return (outer_test.test if outer else None, reach, test, tag)
+    if root:
+        outer_test = (lambda el, test=outer_test: el.getparent() is None and
+                      (test is None or test(el)))
+    tag = _requirements(tinycss2.parse_component_value_list(arg)).tag
+    return (outer_test, reach, arg_test, tag if tag not in (None, "*") else None)
+
+
+_ROOT = re.compile(r":root(?![\w-])", re.I)
+
+
+def _closing(text: str, at: int) -> int:
+    """The index of the parenthesis that closes the one at ``at`` (-1: none)."""
+    depth = 0
+    for i in range(at, len(text)):
+        depth += {"(": 1, ")": -1}.get(text[i], 0)
+        if depth == 0:
+            return i
+    return -1
+
+
+# pseudo-classes a lone element answers: :checked reads its own attributes (HTML, "checked")
+_ELEMENT_ONLY = re.compile(r":checked(?![\w-])", re.I)
+
+
+def _tests_element_only(text: str) -> bool:
+    """Whether a compound tests only the element itself: names, attributes, ``:checked`` and
+    ``:is()`` / ``:where()`` / ``:not()`` lists of names and attributes."""
+    rest = _ELEMENT_ONLY.sub("", _LISTS_OF_NAMES.sub("", text))
+    return not any(c in rest for c in ":(),>+~ \t\n\r\f\\")
 
 
 def _names_only(tokens) -> bool:
@@ -661,7 +696,7 @@ def _lone(el):
 
 def _has_simple(el, spec) -> bool:
     outer, reach, arg, tag = spec
-    if outer is not None and not outer(_lone(el)):
+    if outer is not None and not outer(el):
         return False
     if reach == "+":  # the next element sibling only
         after = next(el.itersiblings(Element), None)
