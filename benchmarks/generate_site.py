@@ -174,11 +174,16 @@ STRUCTURAL_CSS = """
 
 # The "extensions" variant: :has() that reads the following siblings (a section's link before
 # its list of pages, a paragraph introducing a list) or names no tag, class or id (whatever holds
-# keyboard keys). Their colours pass, as the structural ones do.
+# keyboard keys), and sibling relations of the kinds that once turned sharing off (a heading's
+# next paragraph through :is(), everything after the title, a hovered link's neighbour). Their
+# colours pass, as the structural ones do.
 RELATIONS_CSS = """
 .md-nav__item--nested > .md-nav__link:has(+ nav) { color: var(--md-default-fg-color); }
 .md-typeset p:has(+ ul) { color: var(--md-default-fg-color); }
 .md-typeset :has(> kbd) { color: var(--md-default-fg-color); }
+.md-typeset :is(h1, h2, h3, h4) + :is(p, ul) { color: var(--md-default-fg-color); }
+.md-typeset h1 ~ * code, .md-typeset :not(li + li) > code { color: var(--md-code-fg-color); }
+.md-typeset a:hover + span, :root:has(input:checked) .md-typeset strong { color: inherit; }
 """
 EXTENSION_FEATURES = ("navigation.tabs", "toc.integrate", "content.code.annotate",
                       "content.tabs.link")
