@@ -375,7 +375,7 @@ class PageWriter:
         out = [f"Press ++ctrl+alt+{r.choice('bdfhk')}++ to {r.choice(VERBS)[:-1]} the "
                f"==selected {r.choice(NOUNS)}== and {{++confirm++}} it[^1]. The ROTA screen "
                f"shows :material-ferry: {r.choice(VESSELS)}.", "",
-               f"*[ROTA]: rotation of arrivals", "",
+               "*[ROTA]: rotation of arrivals", "",
                '=== "Planner"', "", f"    {self.sentence(links=False)}", "",
                "    ``` yaml", f"    {ident}: {r.randint(1, 99)}  # (1)!", "    ```", "",
                f"    1.  {self.sentence(links=False)}", "",

@@ -5,8 +5,6 @@ Expected colours are the values written in the CSS and HTML below (the cascade i
 4: a class selector beats the inherited value; a presentation attribute is an author-level
 declaration below every style rule, SVG 2 "presentation attributes").
 """
-import pytest
-
 from tinctura.colour.convert import to_hex
 from tinctura.engine import Options, Site
 

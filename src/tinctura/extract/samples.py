@@ -510,8 +510,8 @@ class PageWalker:
         parent_style, parent_id, chain = ROOT_PARENT, 0, ()
         memo = self._path_memo
         for k, el in enumerate(path):
-            if memo is not None and self._reads_state_below(el):
-                memo = {}  # (`tr:has(a:hover)`: from here on, which control is in the state counts)
+            if self._reads_state_below(el):  # (`tr:has(a:hover)`): from here down, which
+                memo = {}  # control below is in the state counts: nothing is kept for others
             if el is not target:  # ancestors carry the same state for every target below
                 hit = memo.get((el, state))
                 if hit is not None:

@@ -203,8 +203,8 @@ def sensitive_compounds(tokens, formulas=None, outer_context=None):
 # :is(h1, h2), :where(.a), :not(.x, p): lists of compounds of names and attributes, which test
 # the element alone (a sibling's cssselect2 test of its own wrapper is then enough)
 _NAMES = r"[\w.#*\-\[\]=\"']+"
-_LISTS_OF_NAMES = re.compile(r":(is|where|not|matches)\(\s*%s(?:\s*,\s*%s)*\s*\)" % (_NAMES, _NAMES),
-                             re.I)
+_LISTS_OF_NAMES = re.compile(r":(is|where|not|matches)\(\s*%s(?:\s*,\s*%s)*\s*\)"
+                             % (_NAMES, _NAMES), re.I)
 
 
 def _relation_need(comb: str, left: tuple, formulas) -> int:
@@ -527,7 +527,7 @@ class HasIndex:
         self.usable = True
         self.active = False
         self._memo = {}
-        self._answers = {}  # (compounds, serialization length, hash) -> answers
+        self._answers = {}  # (compound, serialization length, hash) -> its answer
         self._simple = {}  # compound text -> _simple_has(compound text)
         # compounds reading a state (`li:has(a:hover)`): their answers change while a state
         # walk marks an element, so they are not kept (``Structure.answered``)
@@ -567,11 +567,6 @@ class HasIndex:
 
     def could_match(self, el) -> bool:
         return bool(self.candidates(el))
-
-    @staticmethod
-    def answers(candidates, wrapper) -> tuple:
-        """Whether each candidate compound matches the element (its cssselect2 wrapper)."""
-        return tuple(test(wrapper) for _, test in candidates)
 
     def answers_of(self, el, candidates, wrapper_of) -> tuple:
         """``answers`` for ``el``, each compound on its own. ``A:has(B)``, ``A:has(> B)``,
