@@ -45,6 +45,8 @@ import tinycss2.nth
 from lxml import etree
 from lxml.etree import Element
 
+from ..tokens import significant, split_commas
+
 MEMO_LIMIT = 50000
 STRUCTURAL = re.compile(r":(nth-|first-child|last-child|only-child|first-of-type|last-of-type|"
                         r"only-of-type)", re.I)
@@ -261,15 +263,7 @@ def _inner_compounds(arguments, formulas, outer_context):
 
 def _split_list(tokens) -> list:
     """The token lists of a selector list's selectors (split at its top-level commas)."""
-    out, current = [], []
-    for t in tokens:
-        if t.type == "literal" and t.value == ",":
-            out.append(current)
-            current = []
-        else:
-            current.append(t)
-    return [part for part in out + [current]
-            if any(t.type not in ("whitespace", "comment") for t in part)]
+    return [part for part in split_commas(tokens) if significant(part)]
 
 
 def _without_has(text: str) -> str:
@@ -281,10 +275,8 @@ def _without_has(text: str) -> str:
         if start < 0:
             return "".join(out) + text[at:]
         out.append(text[at:start])
-        depth, at = 1, start + 5
-        while at < len(text) and depth:
-            depth += {"(": 1, ")": -1}.get(text[at], 0)
-            at += 1
+        end = _closing(text, start + 4)
+        at = len(text) if end < 0 else end + 1
 
 
 def _needs_of(text: str, formulas=None) -> int:
