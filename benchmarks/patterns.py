@@ -79,6 +79,11 @@ CONTENTS = {
                               f'<a href="#x">l</a></p></details>' for i in range(100)),
     "inline-colours": "<p>" + " ".join(f'<span style="color:#{(i * 40503) % 0x7f7f7f:06x}">'
                                        f's{i}</span>' for i in range(500)) + "</p>",
+    "form-controls": "<form>" + "".join(f'<label>field {i} <input name="f{i}" value="v{i}">'
+                                        f'</label><button type="button">go {i}</button>'
+                                        for i in range(100)) + "</form>",
+    "link-index": "<ul>" + "".join(f'<li><a href="#t{i}">term {i}</a> - a gloss</li>'
+                                   for i in range(1000)) + "</ul>",
 }
 
 TIMER = r'''
