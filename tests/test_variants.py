@@ -5,8 +5,8 @@ The generator in ``benchmarks/generate_site.py`` writes mkdocs-material sites of
 CSS, an accent that fails on :hover and :focus, faint colours all over the article), one on
 MkDocs' own theme (Bootstrap, light and dark by ``data-bs-theme``) and one on its readthedocs
 theme (the current section's pages in a dark side navigation), and one with more Markdown
-extensions and ``:has()`` selectors that read the following siblings or name no tag, class or
-id. Each is
+extensions, ``:has()`` selectors that read the following siblings or name no tag, class or id,
+and sibling relations (``:is(h1, h2) + :is(p, ul)``, ``:not(li + li)``). Each is
 built with MkDocs and checked twice: as ``tinctura check`` runs (styles shared by structural
 key, repeated subtrees replayed, each colour situation judged once) and with all of that off
 (``Options(share=False, replay=False)``: every element's cascade computed, every sample judged).

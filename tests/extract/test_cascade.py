@@ -279,8 +279,8 @@ def test_svg_text_fill_and_shapes_behind(render):
 def test_a_diagrams_shapes_are_each_fill_once(render):
     # a diagram of many shapes in a few fills: each fill is one possible background, once
     # (every shape was one before: 2,000 shapes made each later label cost 2,000 judgements)
-    rects = "".join(f'<rect width="9" height="9" fill="{("#000000", "#ffffff", "#ff0000")[i % 3]}"/>'
-                    for i in range(60))
+    fills = ("#000000", "#ffffff", "#ff0000")
+    rects = "".join(f'<rect width="9" height="9" fill="{fills[i % 3]}"/>' for i in range(60))
     s = render(f'<svg>{rects}<text fill="#777777">label</text></svg>')
     assert light(s, "label").bg_alternatives == ((0.0, 0.0, 0.0), (1.0, 1.0, 1.0),
                                                  (1.0, 0.0, 0.0))
