@@ -1192,8 +1192,11 @@ _SHEETS_SAME: list = [None]  # whether the stylesheets read ahead are the site's
 
 def _worker_ahead(args) -> None:
     """Render a page ahead (``render(*payload)``, the caller's), check it and keep the answer
-    under its HTML's digest. A check that missed a stylesheet (not in place yet) is not kept;
-    a page that cannot be rendered or checked is checked when it comes."""
+    under its HTML's digest, with the generation of the stylesheets it read (MkDocs copies
+    them again meanwhile: an answer from a sheet read half written is not given once the
+    sheet has been read whole, ``_checked_ahead``). A check that missed a stylesheet (not in
+    place yet) is not kept; a page that cannot be rendered or checked is checked when it
+    comes."""
     rel, render, payload = args
     site, options, judged = _WORKER
     if len(_AHEAD) >= AHEAD_KEPT:  # (no room: the page is checked when it comes)
@@ -1203,20 +1206,22 @@ def _worker_ahead(args) -> None:
         html = render(*payload)
         answer = _packed(_process(site, rel, options, judged, html), options)
         if site.loader.missing == missing:
-            _AHEAD[rel] = (html_digest(html), answer)
+            _AHEAD[rel] = (html_digest(html), answer, site.loader.generation)
     except Exception:
         pass
 
 
 def _checked_ahead(rel, html):
     """The answer kept ahead for ``rel`` when it was of this HTML and the stylesheets MkDocs
-    has copied since are the bytes read ahead (compared once), else None."""
+    has copied since are the bytes read ahead (compared once) and read for it, else None."""
     known = _AHEAD.pop(rel, None)
     if known is None:
         return None
     if _SHEETS_SAME[0] is None:
         _SHEETS_SAME[0] = not _WORKER[0].stylesheets_changed()
     if not _SHEETS_SAME[0]:
+        return None
+    if known[2] != _WORKER[0].loader.generation:  # (a sheet read since had other bytes)
         return None
     if known[0] != html_digest(html):  # (the same stylesheets: what it said once holds)
         page = known[1][0] if isinstance(known[1], tuple) else known[1]

@@ -4,7 +4,7 @@
 ``@import`` are followed inside the site root. Nothing is fetched from the network: a remote
 stylesheet is recorded as not loaded. A file whose real path (symbolic links resolved) lies
 outside the site root is not read either (``bounds.read_inside``). Parsed sheets are cached per
-site by path and mtime.
+site by path, mtime and size.
 """
 from __future__ import annotations
 
@@ -43,8 +43,8 @@ class SheetLoader:
         # the path the site is served under ("/project/" for https://host/project/): absolute
         # links start with it
         self.prefix = "/" + prefix.strip("/") + "/" if prefix.strip("/") else ""
-        self._sheets = {}  # path -> (mtime, ParsedSheet, diagnostics)
-        self._rulesets = {}
+        self._sheets = {}  # path -> ((mtime, size), ParsedSheet, diagnostics, SHA-1)
+        self._rulesets = {}  # the page's sheets -> (RuleSet, the files it was built from)
         self.generation = 0  # bumped when a stylesheet changed on disk
         self.missing = 0  # stylesheets linked or imported that were not there or not read
         # sheets parsed ahead in another process (``prepared.Prepared``), or None
@@ -89,22 +89,26 @@ class SheetLoader:
         return candidate, None
 
     def sheet(self, path: str):
-        """(ParsedSheet or None, diagnostics) for a file, cached by mtime."""
+        """(ParsedSheet or None, diagnostics) for a file, cached by mtime and size."""
         try:
-            mtime = os.stat(path).st_mtime_ns
+            st = os.stat(path)
         except OSError as exc:
             self.missing += 1
             return None, [Diagnostic(self.rel(path), f"cannot read stylesheet: {exc.strerror}",
                                      severity="error")]
         cached = self._sheets.get(path)
-        if cached and cached[0] == mtime:
+        if cached and cached[0] == (st.st_mtime_ns, st.st_size):
             return cached[1], cached[2]
-        diags = []
+        diags, stamp = [], (st.st_mtime_ns, st.st_size)
         try:
             data = bounds.read_inside(path, self.real_root, self.max_file_bytes)
             digest = hashlib.sha1(data).digest()
+            # the size of the bytes read, not the stat's: a file read while it was rewritten
+            # (truncated, then written within one tick of the clock that stamps mtimes) keeps
+            # its mtime and is told by its size
+            stamp = (st.st_mtime_ns, len(data))
             if cached and cached[3] == digest:  # copied again, same content (a fresh build)
-                self._sheets[path] = (mtime,) + cached[1:]
+                self._sheets[path] = (stamp,) + cached[1:]
                 return cached[1], cached[2]
             if cached:
                 self.generation += 1
@@ -132,7 +136,7 @@ class SheetLoader:
         if parsed is not None:
             for line, message in parsed.errors[:20]:
                 diags.append(Diagnostic(self.rel(path), f"CSS: {message}", line=line))
-        self._sheets[path] = (mtime, parsed, diags, digest)
+        self._sheets[path] = (stamp, parsed, diags, digest)
         return parsed, diags
 
     def parse_data(self, handed: list, path: str, digest: bytes) -> tuple:
@@ -166,9 +170,10 @@ class SheetLoader:
 
         Content, not mtime: a normal MkDocs build copies every static file again.
         """
-        for path, (mtime, _, _, digest) in list(self._sheets.items()):
+        for path, (stamp, _, _, digest) in list(self._sheets.items()):
             try:
-                if os.stat(path).st_mtime_ns == mtime:
+                st = os.stat(path)
+                if (st.st_mtime_ns, st.st_size) == stamp:
                     continue
                 data = bounds.read_inside(path, self.real_root, self.max_file_bytes)
                 if hashlib.sha1(data).digest() != digest:
@@ -201,22 +206,23 @@ class SheetLoader:
                 entries.append(("style", el.text or "", media, el.sourceline or 0, el))
         key = tuple(e if e[0] == "file" else ("style", hash(e[1]), e[2], e[3]) for e in entries)
         cached = self._rulesets.get(key)
-        if cached is not None:
+        if cached is not None and self._unchanged(cached[1]):
             for e in entries:  # refresh sheet diagnostics once per page for reporting
                 if e[0] == "file":
                     diags.extend(self.sheet(e[1])[1])
-            return cached, _dedupe(diags)
-        rules, layers = [], []
+            return cached[0], _dedupe(diags)
+        rules, layers, read = [], [], []
         self._expand(user_agent_sheet(), (), (), rules, layers, set(), diags)
         n_style = 0
         for e in entries:
             if e[0] == "file":
                 parsed, d = self.sheet(e[1])
                 diags.extend(d)
+                read.append(e[1])
                 if parsed is None:
                     continue
                 self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, {e[1]}, diags,
-                             base=os.path.dirname(e[1]))
+                             base=os.path.dirname(e[1]), read=read)
             else:
                 n_style += 1
                 name = f"{self.rel(page_path)} <style> #{n_style}"
@@ -234,10 +240,20 @@ class SheetLoader:
                 self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(), diags,
                              base=base_dir)
         ruleset = RuleSet(rules, layers)
-        self._rulesets[key] = ruleset
+        self._rulesets[key] = (ruleset, tuple(read))
         return ruleset, _dedupe(diags)
 
-    def _expand(self, parsed, media, layer, out, layers, seen, diags, base=None):
+    def _unchanged(self, paths) -> bool:
+        """Whether the files a rule set was built from are as they were read (each one's
+        stamp compared, a changed one read again). MkDocs copies the stylesheets again while
+        the plugin's worker checks pages ahead: a rule set built from a sheet read half
+        written must not serve the next page once the sheet is whole."""
+        before = self.generation
+        for path in paths:
+            self.sheet(path)
+        return self.generation == before
+
+    def _expand(self, parsed, media, layer, out, layers, seen, diags, base=None, read=None):
         for path in parsed.layer_names:
             layers.append(layer + path)
         for rule in parsed.rules:
@@ -254,9 +270,11 @@ class SheetLoader:
                 continue  # an import cycle
             child, d = self.sheet(path)
             diags.extend(d)
+            if read is not None:
+                read.append(path)
             if child is not None:
                 self._expand(child, media + imp_media, layer + imp_layer, out, layers,
-                             seen | {path}, diags, base=os.path.dirname(path))
+                             seen | {path}, diags, base=os.path.dirname(path), read=read)
 
 
 def _truncated(parsed, name, line=0):
