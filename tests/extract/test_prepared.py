@@ -76,6 +76,20 @@ def test_a_sheet_rewritten_on_its_way_to_the_site_is_parsed_here(tmp_path):
         assert parsed.rules[0].decls[0].text == "#222222"
 
 
+def test_a_sheet_read_half_written_takes_its_result_when_read_whole(tmp_path):
+    """MkDocs copies the sheets again while the plugin's worker checks pages ahead: a read
+    between the copy's truncation and its write sees other bytes; the whole file, read next,
+    still takes the result parsed ahead."""
+    path, source, root = _site(tmp_path, site_css="")
+    with _ahead(root, path, source) as loader:
+        assert loader.sheet(path)[0].rules == [] and loader.prepared.taken == 0
+        with open(path, "w", encoding="utf-8") as fh:
+            fh.write(CSS)
+        parsed, _ = loader.sheet(path)
+        assert loader.prepared.taken == 1
+        assert parsed.rules[0].decls[0].text == "#6f6f6f"
+
+
 def test_undecodable_bytes_give_the_same_diagnostic_either_way(tmp_path):
     path, source, root = _site(tmp_path)
     for name in (path, source):
