@@ -76,6 +76,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         self.pool = None  # worker processes checking pages while MkDocs renders the next
         self.helper = None  # the same workers after the last page: they verify fixes too
         self.digests: dict = {}  # page -> digest of the HTML sent to a worker
+        self.unwritten: list = []  # (page, digest): its worker failed before MkDocs wrote it
         self.project = None  # mkdocs_project.Project: Markdown sources, the site's own sheets
         self.rechecked: list = []  # pages checked in this build (serve logs them)
         self.previous = None  # problem key -> sentence after the previous build (serve)
@@ -330,9 +331,18 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
         key = self.digests.pop(rel, None)
         if isinstance(outcome, Exception):
             log.info(f"{rel}: a worker failed ({outcome!r}); checking it here")
-            self.check(rel, None, key)  # the page is on disk by now
+            if os.path.isfile(os.path.join(self.site_dir, rel)):
+                self.check(rel, None, key)
+            else:  # (failed at once: MkDocs writes the page after it hands it over)
+                self.unwritten.append((rel, key))
             return
         self.keep(rel, key, outcome)
+
+    def check_unwritten(self) -> None:
+        """The pages whose worker failed before MkDocs wrote them, checked here from disk."""
+        unwritten, self.unwritten = self.unwritten, []
+        for rel, key in unwritten:
+            self.check(rel, None, key)
 
     # -- events ----------------------------------------------------------------------------
 
@@ -355,6 +365,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
     def on_post_build(self, *, config) -> None:
         try:
             self.collect()
+            self.check_unwritten()
             self.after_pages()
         finally:
             self.release()
@@ -363,6 +374,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
 
     def on_build_error(self, *, error) -> None:
         self.release()
+        self.unwritten = []
 
     def after_pages(self) -> None:
         if self.current:

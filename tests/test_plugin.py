@@ -542,6 +542,36 @@ def test_a_failing_worker_falls_back_to_checking_in_process(tmp_path, monkeypatc
 
 
 @slow
+def test_a_worker_failing_before_its_page_is_written_has_it_checked_once_written(
+        tmp_path, monkeypatch, caplog):
+    """A worker may fail at once (here: the task cannot be pickled), and its answer come
+    while MkDocs has not written the page yet: the page is checked here once written, not
+    reported as missing. (Seen in CI: one run in a few hundred.) The answers are made to
+    come before each page is written."""
+    def broken(args):
+        raise RuntimeError("worker lost")
+
+    ready = engine.PagePool.ready
+
+    def at_once(self):
+        for _, pending in self._pending:
+            pending.wait(10)
+        yield from ready(self)
+
+    monkeypatch.setattr(engine, "_worker_check_html", broken)
+    monkeypatch.setattr(engine.PagePool, "ready", at_once)
+    caplog.set_level(logging.INFO, logger="mkdocs")
+    project = make_project(tmp_path, {"jobs": 2, "fail_on": "never"})
+    config = configure(project)
+    config.plugins.on_startup(command="build", dirty=False)
+    build(config)
+    infos = [r.getMessage() for r in caplog.records]
+    assert not any("cannot read page" in m for m in infos), infos
+    assert any("Grey text on white is too faint" in w for w in messages(caplog)), infos
+    assert "Checked 3 pages" in " ".join(infos)
+
+
+@slow
 def test_site_level_appearance_findings_are_logged(tmp_path, caplog):
     """A declared palette colour used on a light and a dark surround (TC300) and a red/green
     pair (TC310): logged once each after the build, with their contexts."""
