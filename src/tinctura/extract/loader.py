@@ -206,10 +206,11 @@ class SheetLoader:
                 entries.append(("style", el.text or "", media, el.sourceline or 0, el))
         key = tuple(e if e[0] == "file" else ("style", hash(e[1]), e[2], e[3]) for e in entries)
         cached = self._rulesets.get(key)
-        if cached is not None and self._unchanged(cached[1]):
+        found = self._restamped(cached[1]) if cached is not None else None
+        if found is not None:
             for e in entries:  # refresh sheet diagnostics once per page for reporting
                 if e[0] == "file":
-                    diags.extend(self.sheet(e[1])[1])
+                    diags.extend(found[e[1]])
             return cached[0], _dedupe(diags)
         rules, layers, read = [], [], []
         self._expand(user_agent_sheet(), (), (), rules, layers, set(), diags)
@@ -243,15 +244,14 @@ class SheetLoader:
         self._rulesets[key] = (ruleset, tuple(read))
         return ruleset, _dedupe(diags)
 
-    def _unchanged(self, paths) -> bool:
-        """Whether the files a rule set was built from are as they were read (each one's
-        stamp compared, a changed one read again). MkDocs copies the stylesheets again while
-        the plugin's worker checks pages ahead: a rule set built from a sheet read half
-        written must not serve the next page once the sheet is whole."""
+    def _restamped(self, paths):
+        """The diagnostics of each file a rule set was built from (path -> list), each one's
+        stamp compared and a changed one read again; None when one had changed. MkDocs copies
+        the stylesheets again while the plugin's worker checks pages ahead: a rule set built
+        from a sheet read half written must not serve the next page once the sheet is whole."""
         before = self.generation
-        for path in paths:
-            self.sheet(path)
-        return self.generation == before
+        found = {path: self.sheet(path)[1] for path in paths}
+        return found if self.generation == before else None
 
     def _expand(self, parsed, media, layer, out, layers, seen, diags, base=None, read=None):
         for path in parsed.layer_names:
