@@ -24,6 +24,7 @@ import re
 import shutil
 import tempfile
 import threading
+import weakref
 from contextlib import ExitStack, contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
@@ -125,7 +126,8 @@ class Site:
                                   max_file_bytes=self.options.max_file_bytes,
                                   max_rules=self.options.max_rules)
         self.loader.cache = sheet_cache.open_cache(self.options.cache_dir)
-        self._caches = {}
+        # a rule set -> its style caches (one per environment and scheme), let go with it
+        self._caches = weakref.WeakKeyDictionary()
         self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
             + tuple(self.options.behaviours)
 
@@ -230,12 +232,14 @@ class Site:
         """A walker of the page in ``scheme`` (its attributes applied to the tree)."""
         env = Environment(self.options.viewport_width, scheme_media=scheme.media)
         index = ruleset.index(env)
-        # identity of the rule set (never reused); the scheme's name too, since replayed
-        # fragments carry it
-        key = (ruleset, env.key, scheme.attributes, scheme.name)
-        cache = self._caches.get(key)
+        # the scheme's name too, since replayed fragments carry it
+        key = (env.key, scheme.attributes, scheme.name)
+        caches = self._caches.get(ruleset)
+        if caches is None:
+            caches = self._caches[ruleset] = {}
+        cache = caches.get(key)
         if cache is None:
-            cache = self._caches[key] = StyleCache()
+            cache = caches[key] = StyleCache()
         preferred = scheme.media_value("prefers-color-scheme", "light")
         walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred, cache,
                             self.options.viewport_width, result.skipped,

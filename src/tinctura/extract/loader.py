@@ -11,6 +11,7 @@ from __future__ import annotations
 import dataclasses
 import hashlib
 import os
+from collections import OrderedDict
 from urllib.parse import unquote, urlsplit
 
 from ..model import Diagnostic
@@ -30,6 +31,14 @@ def user_agent_sheet():
         _UA = parse_stylesheet(css, "user-agent", origin="user-agent")
     return _UA
 
+# Rule sets kept for later pages. A site's pages share a few; a site whose pages each have
+# their own <style> block would otherwise keep one per page all run long (about 0.3 MB each,
+# measured on pages of 150 rules), and the pages checked again with 12,000 overrides injected
+# one of 2.8 MB each (``overrides.verify``). mkdocs-material's main stylesheet has about 1,000
+# rules (1,032 measured in 9.x), so the bound on rules keeps dozens of such rule sets.
+RULESETS_KEPT = 64
+RULES_KEPT = 100_000
+
 
 class SheetLoader:
     """Per-site cache of parsed stylesheets and of rule sets by list of sheets."""
@@ -44,8 +53,16 @@ class SheetLoader:
         # links start with it
         self.prefix = "/" + prefix.strip("/") + "/" if prefix.strip("/") else ""
         self._sheets = {}  # path -> ((mtime, size), ParsedSheet, diagnostics, SHA-1)
-        self._rulesets = {}  # the page's sheets -> (RuleSet, the files it was built from)
+        # the page's sheets -> (RuleSet, the files it was built from, its number of rules),
+        # least recently used first: pages with their own <style> blocks each get a rule set,
+        # which is let go (``_keep``)
+        self._rulesets = OrderedDict()
+        self._kept_rules = 0
         self.generation = 0  # bumped when a stylesheet changed on disk
+        # the text of a <style> block that is one sheet wherever it appears -> its name (the
+        # overrides ``overrides.verify`` injects in every page it checks again): parsed once
+        self.shared_styles = {}
+        self._shared_parsed = {}  # (text, line, column) -> its ParsedSheet
         self.missing = 0  # stylesheets linked or imported that were not there or not read
         # sheets parsed ahead in another process (``prepared.Prepared``), or None
         self.prepared = None
@@ -208,6 +225,7 @@ class SheetLoader:
         cached = self._rulesets.get(key)
         found = self._restamped(cached[1]) if cached is not None else None
         if found is not None:
+            self._rulesets.move_to_end(key)
             for e in entries:  # refresh sheet diagnostics once per page for reporting
                 if e[0] == "file":
                     diags.extend(found[e[1]])
@@ -226,23 +244,49 @@ class SheetLoader:
                              base=os.path.dirname(e[1]), read=read)
             else:
                 n_style += 1
-                name = f"{self.rel(page_path)} <style> #{n_style}"
-                try:
-                    parsed = parse_stylesheet(e[1], name, max_rules=self.max_rules)
-                except Exception as exc:
-                    diags.append(Diagnostic(name, f"cannot parse: {exc}", line=e[3],
-                                            severity="error"))
-                    continue
-                if parsed.truncated:
-                    diags.append(_truncated(parsed, name, e[3]))
-                # (the key leaves the column out: where a minified page's title moves its
-                # <style>, the pages still share one rule set, whose sheet names this page)
-                parsed = _shift_lines(parsed, e[3], _column_before(e[4], source))
-                self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(), diags,
-                             base=base_dir)
+                parsed = self._style_block(e, f"{self.rel(page_path)} <style> #{n_style}",
+                                           source, diags)
+                if parsed is not None:
+                    self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(),
+                                 diags, base=base_dir)
         ruleset = RuleSet(rules, layers)
-        self._rulesets[key] = (ruleset, tuple(read))
+        self._keep(key, (ruleset, tuple(read), len(rules)))
         return ruleset, _dedupe(diags)
+
+    def _keep(self, key, entry) -> None:
+        """Keep a rule set for later pages; let go of the least recently used beyond
+        ``RULESETS_KEPT`` rule sets or ``RULES_KEPT`` rules in all (the newest stays)."""
+        rulesets = self._rulesets
+        if not rulesets:
+            self._kept_rules = 0
+        rulesets[key] = entry
+        self._kept_rules += entry[2]
+        while len(rulesets) > 1 and (len(rulesets) > RULESETS_KEPT
+                                     or self._kept_rules > RULES_KEPT):
+            self._kept_rules -= rulesets.popitem(last=False)[1][2]
+
+    def _style_block(self, entry, name: str, source, diags):
+        """A page's ``<style>`` block ``entry`` parsed as sheet ``name`` (None when it cannot
+        be); a block named in ``shared_styles`` is parsed once for every page."""
+        text, line, column = entry[1], entry[3], _column_before(entry[4], source)
+        shared = self.shared_styles.get(text)
+        key = (text, line, column) if shared is not None else None
+        if key is not None and key in self._shared_parsed:
+            return self._shared_parsed[key]
+        name = shared or name
+        try:
+            parsed = parse_stylesheet(text, name, max_rules=self.max_rules)
+        except Exception as exc:
+            diags.append(Diagnostic(name, f"cannot parse: {exc}", line=line, severity="error"))
+            return None
+        if parsed.truncated:
+            diags.append(_truncated(parsed, name, line))
+        # (the key leaves the column out: where a minified page's title moves its
+        # <style>, the pages still share one rule set, whose sheet names this page)
+        parsed = _shift_lines(parsed, line, column)
+        if key is not None:
+            self._shared_parsed = {key: parsed}  # (one: the overrides of one round)
+        return parsed
 
     def _restamped(self, paths):
         """The diagnostics of each file a rule set was built from (path -> list), each one's

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import dataclasses
 import re
+import weakref
 from functools import cached_property
 
 from .media import Environment
@@ -131,6 +132,12 @@ class RuleSet:
         return idx
 
 
+def _proxy(ruleset):
+    """A weak proxy of ``ruleset`` for what the rule set keeps: the run holds off the cyclic
+    collector, so a back reference would keep a rule set let go (``loader.RULESETS_KEPT``)."""
+    return ruleset if isinstance(ruleset, weakref.ProxyType) else weakref.proxy(ruleset)
+
+
 class Index:
     cue_rules = ()  # set by RuleSet.index: rules of non-colour cues, with those as their decls
 
@@ -141,7 +148,7 @@ class Index:
         self.by_id, self.by_class, self.by_tag, self.by_attr, self.other = {}, {}, {}, {}, []
         self._raw = {}  # id(bucket dict) -> {key: [rule]}
         raw_id, raw_class, raw_tag, raw_attr = {}, {}, {}, {}
-        self.ruleset = ruleset
+        self.ruleset = _proxy(ruleset)  # (kept by the rule set: no cycle, as Structure)
         for rule in rules:
             c = rule.compiled
             if c.never_matches:

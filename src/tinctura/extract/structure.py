@@ -13,6 +13,7 @@ import cssselect2
 from lxml.etree import Element
 
 from .html import own_text
+from .ruleset import _proxy
 from .siblings import FIRST, FULL, INDEX, LAST, TYPE, fits
 
 LIMIT = 60000
@@ -27,7 +28,7 @@ class Structure:
     (given equal parents)."""
 
     def __init__(self, ruleset):
-        self.ruleset = ruleset
+        self.ruleset = _proxy(ruleset)  # (the rule set keeps its structure)
         self.siblings = ruleset.siblings
         has = getattr(ruleset, "has_index", None)
         self.has = has if has is not None and has.active else None
