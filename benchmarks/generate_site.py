@@ -61,7 +61,15 @@ VARIANTS = {
     # that read the following siblings or name no tag, class or id
     "extensions": dict(kinds=True, expand=True, structural=True, accent=FAILING_ACCENT,
                        many=False, extensions=True),
+    # varied's pages, each with a <style> block of its own (a berth board generated from data,
+    # its rows coloured by classes of that page, some too faint): a rule set per page
+    "own-styles": dict(kinds=True, expand=True, structural=True, accent=DEFAULT_ACCENT,
+                       many=False, own_styles=True),
 }
+# (text, background) of the berth boards' rows: invented; the last three fail WCAG's 4.5:1
+BOARD_COLOURS = [("#1d3557", "#ffffff"), ("#14213d", "#e9f1f7"), ("#3d2c1e", "#fdf6ec"),
+                 ("#ffffff", "#22577a"), ("#8a9bb0", "#ffffff"), ("#ffffff", "#4fa3a5"),
+                 ("#b08968", "#fdf6ec")]
 PAGE_KINDS = ("code", "table", "prose", "api")
 
 # Invented vocabulary; nothing here names a real product, place, company or person.
@@ -249,8 +257,9 @@ def relative_link(from_path: str, to_path: str) -> str:
 
 class PageWriter:
     def __init__(self, rng: random.Random, all_pages: list, path: str, index: int,
-                 kinds: bool = False, extensions: bool = False):
+                 kinds: bool = False, extensions: bool = False, own_styles: bool = False):
         self.extensions = extensions
+        self.own_styles = own_styles
         self.rng = rng
         self.all_pages = all_pages
         self.path = path
@@ -349,6 +358,19 @@ class PageWriter:
             attrs.append('hl_lines="3 4 9"')
         return f"``` {lang} {' '.join(attrs)}".rstrip() + f"\n{body}\n```"
 
+    def berth_board(self) -> list:
+        """A board generated from data, with its own ``<style>`` block: each row's colours are
+        a class of this page."""
+        r, n = self.rng, self.index
+        rules, rows = [], []
+        for k in range(r.randint(12, 30)):
+            fg, bg = r.choice(BOARD_COLOURS)
+            rules.append(f".tw-board-{n}-{k} {{ color: {fg}; background: {bg}; }}")
+            rows.append(f'<tr class="tw-board-{n}-{k}"><td>Berth {k + 1}</td>'
+                        f'<td>{r.choice(VESSELS)}</td><td>{r.randint(5, 23):02d}:00</td></tr>')
+        return ["<style>", *rules, "</style>", "", '<table class="tw-board">', *rows,
+                "</table>", ""]
+
     def api_entry(self) -> str:
         """One function of an API reference: signature, description, parameters, returns."""
         r = self.rng
@@ -413,6 +435,8 @@ class PageWriter:
             out += [f'<span class="tw-badge">since 2.{self.index % 9}</span> '
                     f'<span class="tw-muted">Maintained by the {r.choice(ROLES)}.</span>', ""]
         blocks = [self.table, self.code_block, self.admonition, self.bullet_list, self.paragraph]
+        if self.own_styles:
+            out += self.berth_board()
         if self.extensions:
             out += self.extension_blocks()
         if self.kind != "mixed":
@@ -600,7 +624,8 @@ def generate(n_pages: int, outdir: Path, seed: int = 7, plugin: bool = False,
             page_rng = random.Random(f"{seed}:{index}")
             text = PageWriter(page_rng, all_pages, path, index,
                               kinds=shape["kinds"],
-                              extensions=shape.get("extensions", False)).render(ptitle)
+                              extensions=shape.get("extensions", False),
+                              own_styles=shape.get("own_styles", False)).render(ptitle)
             (docs / path).write_text(text, encoding="utf-8")
             index += 1
     for name, with_plugin in (("mkdocs-plain.yml", False), ("mkdocs-plugin.yml", True),

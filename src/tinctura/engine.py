@@ -45,6 +45,7 @@ from .extract.disclosure import Disclosure
 from .extract.html import decode, parse_html, parser_warnings, unrendered
 from .extract.loader import SheetLoader
 from .extract.media import Environment
+from .extract.overlay import Overlay
 from .extract.samples import PageWalker, StyleCache
 from .extract.style import MAX_VAR_TOKENS
 from .extract.structure import PageStructure
@@ -204,7 +205,9 @@ class Site:
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
             result.schemes = list(schemes)
             fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
-            structure = PageStructure(root, ruleset.structure)  # likewise
+            # (a page's own trailing <style> blocks laid over its stylesheets' rule set: the
+            # keys are that rule set's, ``extract/overlay.py``)
+            structure = PageStructure(root, (ruleset.base or ruleset).structure)  # likewise
             # scope decisions mark the tree before any walk: the marks reach every style key
             exemptions = exempt_mod.mark(root, exempt_mod.enabled_set(self.options.exemptions),
                                          self.options.logotypes, structure.text,
@@ -234,9 +237,10 @@ class Site:
         index = ruleset.index(env)
         # the scheme's name too, since replayed fragments carry it
         key = (env.key, scheme.attributes, scheme.name)
-        caches = self._caches.get(ruleset)
+        keyed = ruleset.base or ruleset
+        caches = self._caches.get(keyed)
         if caches is None:
-            caches = self._caches[ruleset] = {}
+            caches = self._caches[keyed] = {}
         cache = caches.get(key)
         if cache is None:
             cache = caches[key] = StyleCache()
@@ -247,7 +251,9 @@ class Site:
                             lazy=not self.options.keep_samples, fingerprints=fingerprints,
                             replay=self.options.replay and self.options.share,
                             structure=structure, share=self.options.share,
-                            exemptions=exemptions, disclosure=disclosure)
+                            exemptions=exemptions, disclosure=disclosure,
+                            overlay=Overlay(ruleset.own_rules, env, ruleset)
+                            if ruleset.base is not None else None)
         walker.resolver.max_var_tokens = self.options.max_var_tokens
         return walker
 

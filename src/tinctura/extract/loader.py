@@ -16,6 +16,7 @@ from urllib.parse import unquote, urlsplit
 
 from ..model import Diagnostic
 from . import bounds
+from . import overlay as overlay_mod
 from .ruleset import RuleSet
 from .sheet import StyleRule, parse_stylesheet
 
@@ -221,19 +222,53 @@ class SheetLoader:
             else:
                 media = (el.get("media") or "").strip()
                 entries.append(("style", el.text or "", media, el.sourceline or 0, el))
-        key = tuple(e if e[0] == "file" else ("style", hash(e[1]), e[2], e[3]) for e in entries)
-        cached = self._rulesets.get(key)
-        found = self._restamped(cached[1]) if cached is not None else None
-        if found is not None:
-            self._rulesets.move_to_end(key)
+        key = _key(entries)
+        cached = self._kept(key)
+        if cached is not None:
+            ruleset, found = cached
             for e in entries:  # refresh sheet diagnostics once per page for reporting
                 if e[0] == "file":
                     diags.extend(found[e[1]])
-            return cached[0], _dedupe(diags)
+            return ruleset, _dedupe(diags)
+        ruleset, read, count, split = self._build(entries, page_path, source, diags)
+        self._keep(key, (ruleset, tuple(read), count))
+        if split is not None:
+            overlay_mod.lay_over(ruleset, split[1], self._base(entries[:split[0]], page_path))
+        return ruleset, _dedupe(diags)
+
+    def _kept(self, key):
+        """``(rule set, each of its files' diagnostics)`` kept for ``key``, its files unchanged
+        since; or None."""
+        cached = self._rulesets.get(key)
+        found = self._restamped(cached[1]) if cached is not None else None
+        if found is None:
+            return None
+        self._rulesets.move_to_end(key)
+        return cached[0], found
+
+    def _base(self, entries, page_path):
+        """The rule set of a page's stylesheets before its own trailing ``<style>`` blocks:
+        the one the pages without such blocks get (``overlay``)."""
+        key = _key(entries)
+        cached = self._kept(key)
+        if cached is not None:
+            return cached[0]
+        ruleset, read, count, _ = self._build(entries, page_path, None, [])
+        self._keep(key, (ruleset, tuple(read), count))
+        return ruleset
+
+    def _build(self, entries, page_path, source, diags) -> tuple:
+        """``(RuleSet, files read, number of rules, split)`` of a page's ``entries``; split:
+        ``(entries before the trailing <style> blocks, their rules)`` where those blocks can be
+        laid over the rule set of the stylesheets before them (``overlay.can_lay_over``)."""
+        base_dir = os.path.dirname(page_path)
         rules, layers, read = [], [], []
         self._expand(user_agent_sheet(), (), (), rules, layers, set(), diags)
-        n_style = 0
-        for e in entries:
+        trailing = _trailing_styles(entries)
+        n_style, before = 0, None
+        for n, e in enumerate(entries):
+            if n == trailing:
+                before = (len(rules), len(layers))
             if e[0] == "file":
                 parsed, d = self.sheet(e[1])
                 diags.extend(d)
@@ -249,9 +284,12 @@ class SheetLoader:
                 if parsed is not None:
                     self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(),
                                  diags, base=base_dir)
-        ruleset = RuleSet(rules, layers)
-        self._keep(key, (ruleset, tuple(read), len(rules)))
-        return ruleset, _dedupe(diags)
+        split = None
+        if before is not None and len(layers) == before[1]:
+            extra = rules[before[0]:]
+            if overlay_mod.can_lay_over(extra):
+                split = (trailing, extra)
+        return RuleSet(rules, layers), read, len(rules), split
 
     def _keep(self, key, entry) -> None:
         """Keep a rule set for later pages; let go of the least recently used beyond
@@ -319,6 +357,21 @@ class SheetLoader:
             if child is not None:
                 self._expand(child, media + imp_media, layer + imp_layer, out, layers,
                              seen | {path}, diags, base=os.path.dirname(path), read=read)
+
+
+def _key(entries) -> tuple:
+    """A page's stylesheets as the kept rule sets know them: a <style> block by its text's
+    hash, media and line."""
+    return tuple(e if e[0] == "file" else ("style", hash(e[1]), e[2], e[3]) for e in entries)
+
+
+def _trailing_styles(entries):
+    """Where a page's run of <style> blocks after its last stylesheet file starts (None when
+    there is no such run, or no file before it)."""
+    files = [n for n, e in enumerate(entries) if e[0] == "file"]
+    if not files or files[-1] == len(entries) - 1:
+        return None
+    return files[-1] + 1
 
 
 def _truncated(parsed, name, line=0):

@@ -30,6 +30,11 @@ ID_IN_SELECTOR = re.compile(r"#(-?[_a-zA-Z\u0080-\U0010ffff][\w\u0080-\U0010ffff
 
 
 class RuleSet:
+    # a page's own trailing <style> blocks laid over the rule set of its stylesheets: that
+    # rule set, and those blocks' rules (``overlay``); None where they are not
+    base = None
+    own_rules = ()
+
     def __init__(self, rules: list, layer_order: list):
         """``rules``: StyleRules in order of appearance (user-agent first)."""
         ranks = {}
@@ -53,9 +58,6 @@ class RuleSet:
         # :has() that cannot be analysed: nothing is shared (see ``siblings``)
         self.uses_has = any(":has(" in r.selector_text for r in rules) and \
             not self.has_index.usable
-        # siblings only for colour rules: a sibling-sensitive cue rule (`li + li a`) would split
-        # the keys of every navigation item; its answer is the first sibling's (documented)
-        self.siblings = SiblingIndex(rules)
         # Attribute tests in selectors. The style-sharing key keeps, for each attribute, only the
         # answers to those tests (so `href` values that differ per page do not split the cache),
         # or the whole value when a test could not be read.
@@ -91,6 +93,14 @@ class RuleSet:
         from .schemes import SchemeFacts
 
         return SchemeFacts(self.rules)
+
+    @cached_property
+    def siblings(self) -> SiblingIndex:
+        """What selectors read of siblings, for ``structure``: built on first use (a rule set
+        laid over another, ``overlay``, keys its pages with that one's)."""
+        # siblings only for colour rules: a sibling-sensitive cue rule (`li + li a`) would split
+        # the keys of every navigation item; its answer is the first sibling's (documented)
+        return SiblingIndex(self.rules)
 
     @cached_property
     def structure(self):

@@ -102,8 +102,14 @@ class StyleCache:
 class PageWalker:
     def __init__(self, page, root, index, ruleset, scheme, preferred, cache,
                  viewport_width, skipped, keep_layers=True, lazy=False, fingerprints=None,
-                 replay=True, structure=None, share=True, exemptions=None, disclosure=None):
+                 replay=True, structure=None, share=True, exemptions=None, disclosure=None,
+                 overlay=None):
         self.page = page
+        # the page's own trailing <style> blocks over the rule set whose cache this is
+        # (``overlay.Overlay``): the elements they match get keys of their own, and no
+        # subtree holding one is replayed or recorded
+        self.overlay = overlay
+        self._marked, self._holding = {}, frozenset()
         # disclosure.Disclosure: closed <details> and tab panels, walked open too (None: none)
         self.disclosure = disclosure or None
         self.exemptions = exemptions  # exempt.Decisions of the page (None: disabled only)
@@ -197,7 +203,8 @@ class PageWalker:
         self.state = self.base_state = REST  # base: what state walks compare with
         if self.memo is not None:
             self.memo.begin_page()
-        root_key = self._key(0, self.structure.root_id())
+        self._mark()
+        root_key = self._key(0, self._root_id())
         self._walk([(self.root, ROOT_PARENT, root_key, True, (), True)], rest=True)
         if self.interactive:  # outside every scope (a root that is not a container)
             self._run_states(self.interactive)
@@ -216,6 +223,7 @@ class PageWalker:
         the samples that are new about it, in the state ``shown``."""
         before = len(self.samples)
         self._path_memo.clear()  # (worked out in the tree as it was at rest)
+        self._mark()  # (what the page's own rules match in the tree opened)
         try:
             for target in self.disclosure.targets:
                 self._shown(target)
@@ -307,7 +315,8 @@ class PageWalker:
         if self.disclosure is not None and el in self.disclosure.holders:
             # walked open afterwards: its resting samples must be this page's own
             return (None, len(self.interactive))
-        if self.memo is not None and not is_root and self.memo.worth_trying(key_id):
+        if self.memo is not None and not is_root and el not in self._holding \
+                and self.memo.worth_trying(key_id):
             fp = self.fingerprints.get(el)
             if fp is None:
                 fp = self.fingerprints[el] = frag_mod.fingerprint(el)
@@ -371,6 +380,7 @@ class PageWalker:
         interactive = self.interactive  # emptied in place by _close_scope
         inert = self.cache.inert
         own_texts, text_of, texts = self._own_texts, self.structure.text, self.texts
+        marked = self._marked
         while stack:
             item = stack.pop()
             el = item[0]
@@ -433,6 +443,8 @@ class PageWalker:
             scopable = scopable and not focusable and tag != "svg"
             items = []
             for child, element_id, siblings in children:
+                if marked and child in marked:
+                    element_id = (element_id, marked[child])
                 cid = ids.get((key_id, element_id)) if ids is not None else None
                 if cid is None:
                     cid = key(key_id, element_id)
@@ -520,9 +532,12 @@ class PageWalker:
                     parent_style, parent_id, chain = hit
                     continue
             if k == 0:  # the root
-                kid = self._key(0, self.structure.root_id())
+                kid = self._key(0, self._root_id())
             else:
-                kid = self._key(parent_id, self._element_id(el))
+                ident = self._element_id(el)
+                if self._marked and el in self._marked:  # (the page's own rules match it)
+                    ident = (ident, self._marked[el])
+                kid = self._key(parent_id, ident)
             style = self.style_for(el, parent_style, kid, k == 0)
             if el is target:
                 return parent_style, kid, chain, style
@@ -540,6 +555,15 @@ class PageWalker:
         has = self.structure.structure.has
         return has is not None and bool(has.dynamic) and \
             any(text in has.dynamic for text, _ in has.candidates(el))
+
+    def _mark(self) -> None:
+        if self.overlay is not None:
+            self._marked, self._holding = self.overlay.marks(self.root,
+                                                             self.structure.wrapper_of)
+
+    def _root_id(self):
+        ident = self.structure.root_id()
+        return (ident, self._marked[self.root]) if self.root in self._marked else ident
 
     def _element_id(self, el) -> int:
         """The structural id of ``el`` at its place: worked out from what sibling-reading

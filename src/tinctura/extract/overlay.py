@@ -1,0 +1,108 @@
+"""A page's own trailing ``<style>`` blocks laid over the rule set of its stylesheets.
+
+Computed styles are shared by rule set (``samples.StyleCache``): every page with the same
+stylesheets reuses what earlier pages computed, and replays their repeated subtrees. A page
+with a ``<style>`` block of its own (a table generated from data, coloured by classes of that
+page) has a rule set of its own, and would compute every style cold: ten times the time of a
+page without one, on the benchmark's ``own-styles`` site. When the page's blocks come after
+its last stylesheet, their rules come after every other in the cascade's order of
+appearance, so an element none of them matches has the style it has without them: such a
+page is keyed and cached with the rule set of its stylesheets (the base), and only the
+elements its own rules match get keys of their own (``Overlay.marks``). Styles are still
+computed with the page's whole rule set.
+
+Blocks that cannot be laid over keep a rule set of their own: rules reading states or
+descendants (``:hover``, ``:has()``), whose matches change while the page is walked, and
+cascade layers, which reorder the cascade.
+"""
+from __future__ import annotations
+
+from lxml.etree import Element
+
+from .media import Environment
+from .ruleset import EVALUATED_STATES, Index
+
+
+def can_lay_over(rules) -> bool:
+    """Whether ``rules`` (a page's trailing ``<style>`` blocks) can be laid over the rule set
+    before them."""
+    return all(not r.dynamic and not r.layer and ":has(" not in r.selector_text
+               and not EVALUATED_STATES.search(r.selector_text) for r in rules)
+
+
+def lay_over(ruleset, rules, base) -> None:
+    """Mark ``ruleset`` as ``base`` with ``rules`` (its own, the last) laid over it."""
+    ruleset.base = base
+    ruleset.own_rules = rules
+
+
+class Overlay:
+    """The page's own rules (``RuleSet.own_rules``) in one environment: which elements they
+    match, as a key part each."""
+
+    def __init__(self, rules, env: Environment, ruleset):
+        rules = [r for r in rules if all(env.matches(m) for m in r.media)]
+        self.index = Index(rules, ruleset)
+        self._parts = {}  # id(rule) -> what the rule is, by value
+        self._keep = rules  # (the ids above stay theirs)
+        self._ids, self._classes, self._tags, self._attrs = set(), set(), set(), set()
+        self._every = False
+        for rule in rules:
+            c = rule.compiled
+            if c.id is not None:
+                self._ids.add(c.id)
+            elif c.class_name is not None:
+                self._classes.add(c.class_name)
+            elif c.local_name is not None:
+                self._tags.add(c.lower_local_name)
+            elif rule.attr_names:
+                self._attrs.add(rule.attr_names[0])
+            else:
+                self._every = True
+
+    def marks(self, root, wrapper_of) -> tuple:
+        """``(element -> key part, elements whose subtree holds one)`` of the tree as it is:
+        the part names the page's rules the element matches, by value (a style cached under
+        it on one page serves another only where the same rules, from the same sheet and
+        line, match)."""
+        marked, holding = {}, set()
+        for el in self._candidates(root):
+            matched = self.index.match(wrapper_of(el))
+            if not matched:
+                continue
+            matched.sort(key=_order)
+            marked[el] = tuple(self._part(r) for r in matched)
+            for up in el.iterancestors():
+                if up in holding:
+                    break
+                holding.add(up)
+            holding.add(el)
+        return marked, holding
+
+    def _candidates(self, root):
+        """The elements a rule could match by its rightmost compound's id, class, tag or
+        attribute (every element when one names none of them)."""
+        every, ids, classes = self._every, self._ids, self._classes
+        tags, attrs = self._tags, self._attrs
+        for el in root.iter(Element):  # (elements only: no comments)
+            if every or (tags and el.tag.lower() in tags):
+                yield el
+                continue
+            cls = el.get("class")
+            if cls is not None and not classes.isdisjoint(cls.split()):
+                yield el
+            elif (ids and el.get("id") in ids) or (attrs and not attrs.isdisjoint(el.keys())):
+                yield el
+
+    def _part(self, rule) -> tuple:
+        part = self._parts.get(id(rule))
+        if part is None:
+            part = self._parts[id(rule)] = (
+                rule.sheet, rule.selector_text, rule.pseudo, rule.media,
+                tuple((d.name, d.text, d.important, d.line, d.column)
+                      for d in list(rule.decls) + list(rule.cue_decls)))
+        return part
+
+
+def _order(rule) -> int:
+    return rule.order

@@ -1,0 +1,117 @@
+"""A page's own trailing <style> blocks laid over its stylesheets' rule set (extract/overlay.py).
+
+The pages share the keys and caches of the stylesheets' rule set; only what their own rules
+match is keyed apart. The check must give exactly what it gives with each page on a rule set
+of its own (the code before the overlay: ``can_lay_over`` answering no), sample for sample,
+whatever page comes first: the same class coloured differently on two pages, rules matching
+inside a navigation repeated (and replayed) on every page, an ancestor's colour inherited, a
+pseudo-element, a closed <details> opened, a media query, a dark scheme.
+"""
+from __future__ import annotations
+
+import pytest
+
+from tinctura.engine import Options, Site
+from tinctura.extract import overlay as overlay_mod
+
+SITE_CSS = """
+body { color: #1f2933; background: #ffffff; }
+nav a { color: #2b5f8a; }
+.state-late { color: #6b4e16; }
+@media (prefers-color-scheme: dark) {
+  body { color: #e4e7eb; background: #1c2026; }
+  nav a { color: #9cc3e6; }
+}
+"""
+NAV = "".join(f'<li><a href="p{n}.html">Ferry rotation {n}</a></li>' for n in range(8))
+OWN = {
+    0: ".state-late { color: #c9a3a3; }",
+    1: ".state-late { color: #a3c9a3; }",  # the same class, another colour
+    2: ".board td { color: #9a9a9a; }",
+    3: ".note::before { content: 'Note: '; color: #b0b0b0; }",
+    4: "details[open] p { color: #bbbbbb; }",
+    5: "@media (max-width: 600px) { .state-late { color: #ff0000; } }",
+    6: "article { color: #8c8c8c; }",  # inherited by everything in the article
+    7: "nav li:first-child a { color: #a0a0a0; }",  # inside the replayed navigation
+}
+PAGE = """<!doctype html><html><head><link rel="stylesheet" href="site.css"></head><body>
+<nav><ul>{nav}</ul></nav>
+<article><h1>Berth {n}</h1><p class="state-late">Late arrival at quay {n}.</p>
+<table class="board"><tr><td>Gull Meadow</td><td>06:00</td></tr></table>
+<p class="note">Pilot boards at the outer buoy.</p>
+<details><summary>Tide table</summary><p>High water 04:12.</p></details></article>
+{style}</body></html>"""
+
+
+@pytest.fixture
+def site(tmp_path):
+    (tmp_path / "site.css").write_text(SITE_CSS, encoding="utf-8")
+    for n, css in OWN.items():
+        (tmp_path / f"p{n}.html").write_text(
+            PAGE.format(nav=NAV, n=n, style=f"<style>{css}</style>"), encoding="utf-8")
+    (tmp_path / "p8.html").write_text(PAGE.format(nav=NAV, n=8, style=""), encoding="utf-8")
+    return tmp_path
+
+
+def _samples(site_dir, order) -> dict:
+    site = Site(str(site_dir), Options(jobs=1, keep_samples=True))
+    return {rel: site.check_page(rel).samples for rel in order}
+
+
+@pytest.mark.parametrize("reverse", [False, True])
+def test_pages_laid_over_give_what_pages_of_their_own_rule_set_give(site, monkeypatch, reverse):
+    order = sorted(p.name for p in site.glob("p*.html"))
+    if reverse:
+        order.reverse()
+    laid_over = _samples(site, order)
+    monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+    own = _samples(site, order)
+    for rel in order:
+        assert laid_over[rel] == own[rel], rel
+    # the planted colours are there: the class coloured per page, the navigation's first link
+    # on page 7 only
+    colours = {rel: {(s.xpath, s.scheme): s.fg for s in samples}
+               for rel, samples in laid_over.items()}
+    late = "/html/body/article/p[1]"
+    assert colours["p0.html"][(late, "light")] != colours["p1.html"][(late, "light")]
+    first = "/html/body/nav/ul/li[1]/a"
+    assert colours["p7.html"][(first, "light")] != colours["p8.html"][(first, "light")]
+    assert colours["p6.html"][(first, "light")] == colours["p8.html"][(first, "light")]
+
+
+def test_a_page_with_its_own_block_is_keyed_by_the_stylesheets_rule_set(site):
+    checker = Site(str(site), Options(jobs=1))
+    for rel in ("p8.html", "p0.html", "p1.html"):
+        checker.check_page(rel)
+    kept = [entry[0] for entry in checker.loader._rulesets.values()]
+    plain = [r for r in kept if r.base is None]
+    assert len(plain) == 1 and all(r.base is plain[0] for r in kept if r is not plain[0])
+    assert list(checker._caches.keys()) == plain  # one set of style caches for the three
+
+
+@pytest.mark.parametrize("css", [
+    "a:hover { color: #aaaaaa; }",  # a state: matches change while the page is walked
+    ".board:has(td) { color: #aaaaaa; }",  # reads descendants
+    "@layer page { .note { color: #aaaaaa; } }",  # reorders the cascade
+])
+def test_blocks_that_cannot_be_laid_over_keep_a_rule_set_of_their_own(tmp_path, css):
+    (tmp_path / "site.css").write_text(SITE_CSS, encoding="utf-8")
+    (tmp_path / "p.html").write_text(PAGE.format(nav=NAV, n=0, style=f"<style>{css}</style>"),
+                                     encoding="utf-8")
+    checker = Site(str(tmp_path), Options(jobs=1))
+    checker.check_page("p.html")
+    (entry,) = checker.loader._rulesets.values()
+    assert entry[0].base is None
+
+
+def test_a_block_before_the_last_stylesheet_is_not_laid_over(tmp_path):
+    """Its rules come before the stylesheet's in the order of appearance."""
+    (tmp_path / "site.css").write_text(SITE_CSS, encoding="utf-8")
+    page = PAGE.format(nav=NAV, n=0, style="").replace(
+        '<link rel="stylesheet" href="site.css">',
+        '<style>.note { color: #aaaaaa; }</style><link rel="stylesheet" href="site.css">')
+    (tmp_path / "p.html").write_text(page, encoding="utf-8")
+    checker = Site(str(tmp_path), Options(jobs=1))
+    checker.check_page("p.html")
+    (entry,) = checker.loader._rulesets.values()
+    assert entry[0].base is None
