@@ -297,3 +297,26 @@ def test_a_colour_inherited_from_a_style_attribute_is_fixed_on_its_holder(tmp_pa
     (problem,) = json.loads(_header_check(site, "json"))["problems"]
     assert problem["fix"]["verified"]
     assert problem["fix"]["css"].startswith('p[style="color:#b4c8d8" i] {')
+
+
+def test_an_override_taking_a_menu_is_seen_on_a_page_whose_menu_is_replayed(tmp_path):
+    """The fixes are verified on the check's loader, whose style caches are warm: a page's
+    menu is then replayed, not walked. The page without the overrides is still walked for
+    every sample, so the override of ``a:hover`` is seen to take the menu's link from
+    ``.menu a`` on that page alone (``overrides._took_over``)."""
+    from tinctura import overrides
+    from tinctura.engine import Options, Site
+
+    site = tmp_path / "site"
+    site.mkdir()
+    (site / "site.css").write_text(MENU_CSS)
+    for n in range(5):
+        (site / f"p{n}").mkdir()
+        (site / f"p{n}" / "index.html").write_text(MENU_PAGE.format(n=n))
+    options = Options(jobs=1, rules=("TC100",), keep_samples=False)  # as `tinctura check`
+    checked = Site(str(site), options)
+    for n in range(4):
+        checked.check_page(f"p{n}/index.html")  # the menu recorded, then replayed
+    _, _, _, took = overrides.recheck(str(site), options, "a:hover {\n  color: #107cbb;\n}\n",
+                                      ["p4/index.html"], loader=checked.loader)
+    assert took == {("a:hover", "color"): {".menu a"}}

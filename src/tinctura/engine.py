@@ -24,7 +24,6 @@ import re
 import shutil
 import tempfile
 import threading
-import weakref
 from contextlib import ExitStack, contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
@@ -127,10 +126,14 @@ class Site:
                                   max_file_bytes=self.options.max_file_bytes,
                                   max_rules=self.options.max_rules)
         self.loader.cache = sheet_cache.open_cache(self.options.cache_dir)
-        # a rule set -> its style caches (one per environment and scheme), let go with it
-        self._caches = weakref.WeakKeyDictionary()
         self._behaviours = (behaviour_mod.BUILTIN if self.options.theme_behaviours else ()) \
             + tuple(self.options.behaviours)
+
+    @property
+    def _caches(self):
+        """A rule set -> its style caches (one per environment, scheme and kind of walk), kept
+        by the loader (``SheetLoader.style_caches``)."""
+        return self.loader.style_caches
 
     def pages(self) -> list:
         found = []
@@ -235,8 +238,9 @@ class Site:
         """A walker of the page in ``scheme`` (its attributes applied to the tree)."""
         env = Environment(self.options.viewport_width, scheme_media=scheme.media)
         index = ruleset.index(env)
-        # the scheme's name too, since replayed fragments carry it
-        key = (env.key, scheme.attributes, scheme.name)
+        # the scheme's name too, since replayed fragments carry it; a walk that keeps every
+        # sample records and replays fragments of its own kind (``keep_samples``)
+        key = (env.key, scheme.attributes, scheme.name, self.options.keep_samples)
         keyed = ruleset.base or ruleset
         caches = self._caches.get(keyed)
         if caches is None:

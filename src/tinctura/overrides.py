@@ -878,9 +878,16 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
 
     options = _deciding(options)
     keeping = replace(options, keep_samples=True)  # (the page without the overrides)
-    site = engine.Site(site_root, options)  # fresh: its rule sets now include the overrides
+    site = engine.Site(site_root, options)
     if loader is not None:
-        site.loader = loader  # parsed sheets reused; rule sets are keyed by their sheets
+        # parsed sheets reused; rule sets are keyed by their sheets, and the overrides
+        # injected last are laid over the page's (``extract/overlay.py``): their style caches,
+        # warm from the check, serve every element no override matches
+        site.loader = loader
+    # the page without the overrides walked for every sample (a replayed subtree's too: the
+    # walk of ``site`` hands those over as fragments), on the same loader
+    keeping_site = engine.Site(site_root, keeping)
+    keeping_site.loader = site.loader
     _same_line_for_overrides(site.loader)
     remaining_keys, bad, took = set(), set(), {}
     remaining = 0
@@ -897,7 +904,7 @@ def recheck(site_root, options, css: str, pages, loader=None) -> tuple:
             remaining += len(findings)
             suspects, own = _tally_findings(findings, css, remaining_keys, bad)
             if suspects or own:  # errors on what the overrides colour: new ones?
-                result, plain, _ = engine.judge_page(site, rel, keeping, html)
+                result, plain, _ = engine.judge_page(keeping_site, rel, keeping, html)
                 # (a link that failed for want of a hover cue alone, and fails its ratio to
                 # the text around it with the overrides, fails anew)
                 there = {slot_of(f) for f in plain if f.rule not in CUE_RULES or _short(f)}

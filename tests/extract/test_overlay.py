@@ -5,7 +5,7 @@ match is keyed apart. The check must give exactly what it gives with each page o
 of its own (the code before the overlay: ``can_lay_over`` answering no), sample for sample,
 whatever page comes first: the same class coloured differently on two pages, rules matching
 inside a navigation repeated (and replayed) on every page, an ancestor's colour inherited, a
-pseudo-element, a closed <details> opened, a media query, a dark scheme.
+pseudo-element, a closed <details> opened, a media query, a dark scheme, rules of states.
 """
 from __future__ import annotations
 
@@ -33,6 +33,8 @@ OWN = {
     5: "@media (max-width: 600px) { .state-late { color: #ff0000; } }",
     6: "article { color: #8c8c8c; }",  # inherited by everything in the article
     7: "nav li:first-child a { color: #a0a0a0; }",  # inside the replayed navigation
+    9: "nav a:hover { color: #b5b5b5; }",  # a state: keyed apart wherever it may match
+    10: ".board:focus-within td, a:is(:focus, :hover) { color: #c2c2c2; }",
 }
 PAGE = """<!doctype html><html><head><link rel="stylesheet" href="site.css"></head><body>
 <nav><ul>{nav}</ul></nav>
@@ -90,7 +92,7 @@ def test_a_page_with_its_own_block_is_keyed_by_the_stylesheets_rule_set(site):
 
 
 @pytest.mark.parametrize("css", [
-    "a:hover { color: #aaaaaa; }",  # a state: matches change while the page is walked
+    "a:not(:hover) { color: #aaaaaa; }",  # a state inside :not(): relaxed, it matches less
     ".board:has(td) { color: #aaaaaa; }",  # reads descendants
     "@layer page { .note { color: #aaaaaa; } }",  # reorders the cascade
 ])

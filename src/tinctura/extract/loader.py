@@ -11,6 +11,7 @@ from __future__ import annotations
 import dataclasses
 import hashlib
 import os
+import weakref
 from collections import OrderedDict
 from urllib.parse import unquote, urlsplit
 
@@ -59,6 +60,9 @@ class SheetLoader:
         # which is let go (``_keep``)
         self._rulesets = OrderedDict()
         self._kept_rules = 0
+        # a rule set -> its style caches (``engine.Site._walker``), let go with it: whoever
+        # checks pages on this loader (the fixes verified after the check) finds them warm
+        self.style_caches = weakref.WeakKeyDictionary()
         self.generation = 0  # bumped when a stylesheet changed on disk
         # the text of a <style> block that is one sheet wherever it appears -> its name (the
         # overrides ``overrides.verify`` injects in every page it checks again): parsed once

@@ -11,23 +11,45 @@ page is keyed and cached with the rule set of its stylesheets (the base), and on
 elements its own rules match get keys of their own (``Overlay.marks``). Styles are still
 computed with the page's whole rule set.
 
-Blocks that cannot be laid over keep a rule set of their own: rules reading states or
-descendants (``:hover``, ``:has()``), whose matches change while the page is walked, and
-cascade layers, which reorder the cascade.
+A rule of a state (``a:hover``) marks every element it matches in some state: its selector
+with each dynamic pseudo-class made ``:is(*)``, which matches more, never less (keyed apart
+needlessly at worst). Blocks that cannot be laid over keep a rule set of their own: rules
+reading descendants (``:has()``), a state inside ``:not()`` (made ``:is(*)`` it would match
+less), cascade layers, which reorder the cascade.
 """
 from __future__ import annotations
 
+import dataclasses
+
+import tinycss2
 from lxml.etree import Element
 
 from .media import Environment
-from .ruleset import EVALUATED_STATES, Index
+from .ruleset import Index
+from .sheet import _DYNAMIC_RE, _rightmost_attrs, compile_one
 
 
 def can_lay_over(rules) -> bool:
     """Whether ``rules`` (a page's trailing ``<style>`` blocks) can be laid over the rule set
     before them."""
-    return all(not r.dynamic and not r.layer and ":has(" not in r.selector_text
-               and not EVALUATED_STATES.search(r.selector_text) for r in rules)
+    return all(not r.layer and ":has(" not in r.selector_text
+               and (not r.dynamic or _relaxed(r) is not None) for r in rules)
+
+
+def _relaxed(rule):
+    """``rule`` matching wherever it matches in some state: its dynamic pseudo-classes made
+    ``:is(*)``; None where that would not match more (one inside ``:not()``), or cannot be
+    compiled."""
+    text = rule.selector_text
+    if ":not(" in text.lower():
+        return None
+    relaxed = _DYNAMIC_RE.sub(":is(*)", text)
+    compiled, dynamic = compile_one(relaxed)
+    if compiled is None or dynamic:
+        return None
+    return dataclasses.replace(
+        rule, selector_text=relaxed, compiled=compiled, dynamic=False,
+        attr_names=_rightmost_attrs(tinycss2.parse_component_value_list(relaxed)))
 
 
 def lay_over(ruleset, rules, base) -> None:
@@ -41,7 +63,8 @@ class Overlay:
     match, as a key part each."""
 
     def __init__(self, rules, env: Environment, ruleset):
-        rules = [r for r in rules if all(env.matches(m) for m in r.media)]
+        rules = [_relaxed(r) if r.dynamic else r for r in rules
+                 if all(env.matches(m) for m in r.media)]
         self.index = Index(rules, ruleset)
         self._parts = {}  # id(rule) -> what the rule is, by value
         self._keep = rules  # (the ids above stay theirs)
