@@ -229,6 +229,8 @@ class Site:
                     walkers.append((scheme, walker))
             if disclosure:
                 _disclosed(root, disclosure, walkers, structure, result, fingerprints)
+            for _, walker in walkers:  # (keys of this page alone: see extract/overlay.py)
+                walker.forget_own()
         except Exception as exc:  # report, keep the other pages
             result.diagnostics.append(internal_error(rel, exc, self.options.debug))
         return result

@@ -85,10 +85,10 @@ def test_a_page_with_its_own_block_is_keyed_by_the_stylesheets_rule_set(site):
     checker = Site(str(site), Options(jobs=1))
     for rel in ("p8.html", "p0.html", "p1.html"):
         checker.check_page(rel)
-    kept = [entry[0] for entry in checker.loader._rulesets.values()]
-    plain = [r for r in kept if r.base is None]
-    assert len(plain) == 1 and all(r.base is plain[0] for r in kept if r is not plain[0])
-    assert list(checker._caches.keys()) == plain  # one set of style caches for the three
+    (plain,) = [entry[0] for entry in checker.loader._rulesets.values()]
+    laid_over = [entry[0] for entry in checker.loader._laid_over.values()]
+    assert len(laid_over) == 2 and all(r.base is plain for r in laid_over)
+    assert list(checker._caches.keys()) == [plain]  # one set of style caches for the three
 
 
 @pytest.mark.parametrize("css", [
@@ -117,3 +117,18 @@ def test_a_block_before_the_last_stylesheet_is_not_laid_over(tmp_path):
     checker.check_page("p.html")
     (entry,) = checker.loader._rulesets.values()
     assert entry[0].base is None
+
+
+def test_what_a_page_alone_keyed_is_let_go_once_it_is_done(site):
+    """Styles keyed by a page's own rules serve no other page: the shared cache forgets them
+    (and what hangs below them) when the page is done, and keeps the rest."""
+    checker = Site(str(site), Options(jobs=1))
+    checker.check_page("p8.html")
+    (caches,) = checker._caches.values()
+    checker.check_page("p0.html")  # the same page with its own block
+    for cache in caches.values():
+        assert not [key for key in cache.ids if type(key[1]) is tuple]
+        live = set(cache.ids.values())
+        assert set(cache.styles) <= live
+        # nothing below a forgotten key: every key's parent is the root's or a live key
+        assert all(parent == 0 or parent in live for parent, _ in cache.ids)

@@ -40,6 +40,9 @@ def user_agent_sheet():
 # rules (1,032 measured in 9.x), so the bound on rules keeps dozens of such rule sets.
 RULESETS_KEPT = 64
 RULES_KEPT = 100_000
+# Rule sets laid over another (a page's own <style> blocks, ``overlay``) are mostly that
+# page's alone, and the pages checked again with the overrides injected each have one: a few
+LAID_OVER_KEPT = 8
 
 
 class SheetLoader:
@@ -60,6 +63,7 @@ class SheetLoader:
         # which is let go (``_keep``)
         self._rulesets = OrderedDict()
         self._kept_rules = 0
+        self._laid_over = OrderedDict()  # the same, of rule sets laid over another (``overlay``)
         # a rule set -> its style caches (``engine.Site._walker``), let go with it: whoever
         # checks pages on this loader (the fixes verified after the check) finds them warm
         self.style_caches = weakref.WeakKeyDictionary()
@@ -135,6 +139,7 @@ class SheetLoader:
             if cached:
                 self.generation += 1
                 self._rulesets.clear()
+                self._laid_over.clear()
             ready = self.prepared.take(path, digest) if self.prepared is not None else None
             if ready is None:
                 handed, data = [data], None  # a large sheet: not kept twice while parsed
@@ -235,20 +240,28 @@ class SheetLoader:
                     diags.extend(found[e[1]])
             return ruleset, _dedupe(diags)
         ruleset, read, count, split = self._build(entries, page_path, source, diags)
-        self._keep(key, (ruleset, tuple(read), count))
-        if split is not None:
+        if split is None:
+            self._keep(key, (ruleset, tuple(read), count))
+        else:
             overlay_mod.lay_over(ruleset, split[1], self._base(entries[:split[0]], page_path))
+            # (mostly a page's own: the few most recent are kept; their base stays above)
+            self._laid_over[key] = (ruleset, tuple(read), count)
+            if len(self._laid_over) > LAID_OVER_KEPT:
+                self._laid_over.popitem(last=False)
         return ruleset, _dedupe(diags)
 
     def _kept(self, key):
         """``(rule set, each of its files' diagnostics)`` kept for ``key``, its files unchanged
         since; or None."""
-        cached = self._rulesets.get(key)
-        found = self._restamped(cached[1]) if cached is not None else None
-        if found is None:
-            return None
-        self._rulesets.move_to_end(key)
-        return cached[0], found
+        for kept in (self._rulesets, self._laid_over):
+            cached = kept.get(key)
+            if cached is not None:
+                found = self._restamped(cached[1])
+                if found is None:
+                    return None
+                kept.move_to_end(key)
+                return cached[0], found
+        return None
 
     def _base(self, entries, page_path):
         """The rule set of a page's stylesheets before its own trailing ``<style>`` blocks:

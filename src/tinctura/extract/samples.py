@@ -110,6 +110,10 @@ class PageWalker:
         # subtree holding one is replayed or recorded
         self.overlay = overlay
         self._marked, self._holding = {}, frozenset()
+        # the keys of this page alone (an element its own rules match, and its subtree): let
+        # go from the shared cache once the page is done (``forget_own``)
+        self._own_ids = set() if overlay is not None else None
+        self._own = []  # (cache, key) of what was kept under them
         # disclosure.Disclosure: closed <details> and tab panels, walked open too (None: none)
         self.disclosure = disclosure or None
         self.exemptions = exemptions  # exempt.Decisions of the page (None: disabled only)
@@ -138,7 +142,24 @@ class PageWalker:
         """The style-sharing key: the parent's key and the element's structural id."""
         if self.uncached:  # :has() looks at descendants: nothing is shared
             return self.cache.fresh()
-        return self.cache.intern((parent_id, element_id))
+        ident = self.cache.intern((parent_id, element_id))
+        own = self._own_ids
+        if own is not None and (parent_id in own or type(element_id) is tuple):
+            own.add(ident)
+            self._own.append((self.cache.ids, (parent_id, element_id)))
+            self._own.append((self.cache.styles, ident))
+            if type(element_id) is tuple:
+                self._own.append((self.cache.inert, element_id))
+        return ident
+
+    def forget_own(self) -> None:
+        """Let go of what the page's own rules made the shared cache keep (its styles, the
+        colour work and states of their keys): no other page has those keys."""
+        for kept, key in self._own:
+            kept.pop(key, None)
+        self._own.clear()
+        if self._own_ids is not None:
+            self._own_ids.clear()
 
     # -- styles ----------------------------------------------------------------------------
     def style_for(self, el, parent_style, key_id, is_root):
@@ -480,6 +501,8 @@ class PageWalker:
             before = len(self.samples)
             self._state(target, state, on_self, on_path, rest)
             self.cache.states[memo_key] = (base, self.samples[before:])
+            if self._own_ids and kid in self._own_ids:
+                self._own.append((self.cache.states, memo_key))
             return
         old_base, samples = template
         stamp = frag_mod.Stamp(self.page, self.scheme, el, base)
@@ -678,6 +701,8 @@ class PageWalker:
             core = self._core(el, style, chain, kind, shapes) + (round(style.font_size, 4),
                                                                  style.font_weight)
             self.cache.cores[core_key] = core
+            if self._own_ids and core_key[1] in self._own_ids:
+                self._own.append((self.cache.cores, core_key))
         fg, bg, fg_raw, status, reason, alts, exempt, fg_cause, inherited_at, layers, \
             bg_cause, surround, size, weight = core
         getpath = self._getpath
