@@ -155,8 +155,12 @@ class PageWalker:
     def forget_own(self) -> None:
         """Let go of what the page's own rules made the shared cache keep (its styles, the
         colour work and states of their keys): no other page has those keys."""
+        styles = self.cache.styles
         for kept, key in self._own:
-            kept.pop(key, None)
+            gone = kept.pop(key, None)
+            if kept is styles and gone is not None and gone.pseudo:
+                for pseudo in gone.pseudo.values():  # (a pseudo-element's parent is its
+                    pseudo.parent = None  # element's style: a cycle, never collected here)
         self._own.clear()
         if self._own_ids is not None:
             self._own_ids.clear()

@@ -245,6 +245,9 @@ class Resolver:
 
         for name in declared:
             resolve(name)
+        # (``resolve`` refers to itself: a cycle, never collected while the check holds off
+        # the cyclic collector, that kept every page's resolver and what it had computed)
+        resolve = None
         for name, value in resolved.items():
             if value is None:
                 values.pop(name, None)
