@@ -223,6 +223,16 @@ a:hover { color: #3091d1; }
 """
 
 
+def _menu_site(tmp_path, pages: int):
+    site = tmp_path / "site"
+    site.mkdir()
+    (site / "site.css").write_text(MENU_CSS)
+    for n in range(pages):
+        (site / f"p{n}").mkdir()
+        (site / f"p{n}" / "index.html").write_text(MENU_PAGE.format(n=n))
+    return site
+
+
 def test_a_fix_keeps_out_of_the_elements_of_a_rule_it_would_take_over(tmp_path):
     # The content link on hover is #3091d1 on white, 3.44:1 (WCAG 2 formula, by hand:
     # L 0.2548): it fails. `.menu a` (same specificity as `a:hover`, later) colours the menu
@@ -234,12 +244,7 @@ def test_a_fix_keeps_out_of_the_elements_of_a_rule_it_would_take_over(tmp_path):
     from wcag_reference import ratio
 
     assert round(ratio("#3091d1", "#ffffff"), 2) == 3.44
-    site = tmp_path / "site"
-    site.mkdir()
-    (site / "site.css").write_text(MENU_CSS)
-    for n in range(3):
-        (site / f"p{n}").mkdir()
-        (site / f"p{n}" / "index.html").write_text(MENU_PAGE.format(n=n))
+    site = _menu_site(tmp_path, 3)
     (hover,) = json.loads(_header_check(site, "json"))["problems"]
     assert hover["fix"]["verified"]
     assert hover["fix"]["css"].startswith("a:hover:where(:not(.menu a)) {")
@@ -307,12 +312,7 @@ def test_an_override_taking_a_menu_is_seen_on_a_page_whose_menu_is_replayed(tmp_
     from tinctura import overrides
     from tinctura.engine import Options, Site
 
-    site = tmp_path / "site"
-    site.mkdir()
-    (site / "site.css").write_text(MENU_CSS)
-    for n in range(5):
-        (site / f"p{n}").mkdir()
-        (site / f"p{n}" / "index.html").write_text(MENU_PAGE.format(n=n))
+    site = _menu_site(tmp_path, 5)
     options = Options(jobs=1, rules=("TC100",), keep_samples=False)  # as `tinctura check`
     checked = Site(str(site), options)
     for n in range(4):
