@@ -53,18 +53,18 @@ def _relaxed(rule):
 
 
 def lay_over(ruleset, rules, base) -> None:
-    """Mark ``ruleset`` as ``base`` with ``rules`` (its own, the last) laid over it."""
+    """Mark ``ruleset`` as ``base`` with ``rules`` (its own, the last) laid over it; a rule of
+    a state is kept relaxed (``_relaxed``), once for every page and scheme that marks with it."""
     ruleset.base = base
-    ruleset.own_rules = rules
+    ruleset.own_rules = [_relaxed(r) if r.dynamic else r for r in rules]
 
 
 class Overlay:
-    """The page's own rules (``RuleSet.own_rules``) in one environment: which elements they
-    match, as a key part each."""
+    """The page's own rules (``RuleSet.own_rules``, states relaxed) in one environment: which
+    elements they match, as a key part each."""
 
     def __init__(self, rules, env: Environment, ruleset):
-        rules = [_relaxed(r) if r.dynamic else r for r in rules
-                 if all(env.matches(m) for m in r.media)]
+        rules = [r for r in rules if all(env.matches(m) for m in r.media)]
         self.index = Index(rules, ruleset)
         self._parts = {}  # id(rule) -> what the rule is, by value
         self._keep = rules  # (the ids above stay theirs)

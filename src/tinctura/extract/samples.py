@@ -561,10 +561,7 @@ class PageWalker:
             if k == 0:  # the root
                 kid = self._key(0, self._root_id())
             else:
-                ident = self._element_id(el)
-                if self._marked and el in self._marked:  # (the page's own rules match it)
-                    ident = (ident, self._marked[el])
-                kid = self._key(parent_id, ident)
+                kid = self._key(parent_id, self._with_marks(el, self._element_id(el)))
             style = self.style_for(el, parent_style, kid, k == 0)
             if el is target:
                 return parent_style, kid, chain, style
@@ -589,8 +586,13 @@ class PageWalker:
                                                              self.structure.wrapper_of)
 
     def _root_id(self):
-        ident = self.structure.root_id()
-        return (ident, self._marked[self.root]) if self.root in self._marked else ident
+        return self._with_marks(self.root, self.structure.root_id())
+
+    def _with_marks(self, el, ident):
+        """``el``'s structural id, with the page's own rules it matches where it matches some
+        (``overlay.Overlay.marks``; the walk's loop over children does the same inline)."""
+        marked = self._marked
+        return (ident, marked[el]) if marked and el in marked else ident
 
     def _element_id(self, el) -> int:
         """The structural id of ``el`` at its place: worked out from what sibling-reading
