@@ -13,6 +13,7 @@ import pytest
 
 from tinctura.engine import Options, Site
 from tinctura.extract import overlay as overlay_mod
+from tinctura.extract.media import Environment
 
 SITE_CSS = """
 body { color: #1f2933; background: #ffffff; }
@@ -90,6 +91,11 @@ def test_a_page_with_its_own_block_is_keyed_by_the_stylesheets_rule_set(site):
     (plain,) = [entry[0] for entry in checker.loader._rulesets.values()]
     laid_over = [entry[0] for entry in checker.loader._laid_over.values()]
     assert len(laid_over) == 2 and all(r.base is plain for r in laid_over)
+    # made of the stylesheets' rules and index, not a copy of them per page
+    assert all(r.rules[:len(plain.rules)] == plain.rules for r in laid_over)
+    assert all(x is y for r in laid_over for x, y in zip(r.rules, plain.rules))
+    env = Environment(Options().viewport_width)
+    assert all(r.index(env).base is plain.index(env) for r in laid_over)
     assert list(checker._caches.keys()) == [plain]  # one set of style caches for the three
 
 
@@ -151,3 +157,47 @@ def test_checking_pages_leaves_no_cyclic_garbage(site):
         for rel in sorted(p.name for p in site.glob("p*.html")):
             checker.check_page(rel)
         assert gc.collect() == 0
+
+
+# the fixes' overrides, injected into every page verified (``overrides.verify``): a block the
+# loader knows is shared (``SheetLoader.shared_styles``)
+SHARED = "nav a { color: #3d3d3d; } .state-late { background: #fffdf5; } a:hover { color: #222; }"
+
+
+def _shared_site(tmp_path):
+    (tmp_path / "site.css").write_text(SITE_CSS, encoding="utf-8")
+    for n in (0, 1, 8):
+        own = f"<style>{OWN[n]}</style>" if n in OWN else ""
+        (tmp_path / f"p{n}.html").write_text(
+            PAGE.format(nav=NAV, n=n, style=f"{own}<style>{SHARED}</style>"), encoding="utf-8")
+    return tmp_path
+
+
+def _checker(site_dir, options):
+    checker = Site(str(site_dir), options)
+    checker.loader.shared_styles = {SHARED: "tinctura-verify <style>"}
+    return checker
+
+
+def test_keys_only_a_shared_block_marks_are_kept_for_the_next_page(tmp_path, monkeypatch):
+    """What only the shared block's rules match (the navigation's links, by the overrides) is
+    keyed the same on every page that carries it: kept, it serves the next page verified;
+    what a page's own block matches is let go. The samples are those of pages on rule sets
+    of their own."""
+    site_dir = _shared_site(tmp_path)
+    order = ["p8.html", "p0.html", "p1.html"]
+    checker = _checker(site_dir, Options(jobs=1, keep_samples=True))
+    laid_over = {rel: checker.check_page(rel).samples for rel in order}
+    (caches,) = checker._caches.values()
+    marked = [key for cache in caches.values() for key in cache.ids if type(key[1]) is tuple]
+    assert marked and all(type(key[1][1]) is overlay_mod.Kept for key in marked)
+    # forgotten: what the pages' own blocks match too (page 0's late arrival, say)
+    assert all(part[0] == "tinctura-verify <style>" for key in marked for part in key[1][1])
+    monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+    own = _checker(site_dir, Options(jobs=1, keep_samples=True))
+    for rel in order:
+        assert laid_over[rel] == own.check_page(rel).samples, rel
+    late = "/html/body/article/p[1]"
+    colours = {rel: {(s.xpath, s.scheme): s.fg for s in samples}
+               for rel, samples in laid_over.items()}
+    assert colours["p0.html"][(late, "light")] != colours["p8.html"][(late, "light")]

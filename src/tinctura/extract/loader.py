@@ -239,15 +239,15 @@ class SheetLoader:
                 if e[0] == "file":
                     diags.extend(found[e[1]])
             return ruleset, _dedupe(diags)
-        ruleset, read, count, split = self._build(entries, page_path, source, diags)
-        if split is None:
-            self._keep(key, (ruleset, tuple(read), count))
-        else:
-            overlay_mod.lay_over(ruleset, split[1], self._base(entries[:split[0]], page_path))
+        laid = self._laid_over_build(entries, page_path, source, diags)
+        if laid is not None:
             # (mostly a page's own: the few most recent are kept; their base stays above)
-            self._laid_over[key] = (ruleset, tuple(read), count)
+            self._laid_over[key] = laid
             if len(self._laid_over) > LAID_OVER_KEPT:
                 self._laid_over.popitem(last=False)
+            return laid[0], _dedupe(diags)
+        ruleset, read, count = self._build(entries, page_path, source, diags)
+        self._keep(key, (ruleset, tuple(read), count))
         return ruleset, _dedupe(diags)
 
     def _kept(self, key):
@@ -263,29 +263,53 @@ class SheetLoader:
                 return cached[0], found
         return None
 
-    def _base(self, entries, page_path):
-        """The rule set of a page's stylesheets before its own trailing ``<style>`` blocks:
-        the one the pages without such blocks get (``overlay``)."""
+    def _laid_over_build(self, entries, page_path, source, diags):
+        """``(rule set, files read, number of rules)`` of a page whose trailing ``<style>``
+        blocks can be laid over the rule set of the stylesheets before them (``overlay``),
+        made of that rule set and the blocks' own rules; None where they cannot."""
+        trailing = _trailing_styles(entries)
+        if trailing is None:
+            return None
+        found, own, layers = [], [], []
+        n_style = sum(e[0] == "style" for e in entries[:trailing])
+        for e in entries[trailing:]:
+            n_style += 1
+            parsed = self._style_block(e, f"{self.rel(page_path)} <style> #{n_style}",
+                                       source, found)
+            if parsed is not None:
+                self._expand(parsed, (e[2],) if e[2] else (), (), own, layers, set(), found,
+                             base=os.path.dirname(page_path))
+        if layers or not overlay_mod.can_lay_over(own):
+            return None
+        base, read, count = self._base(entries[:trailing], page_path, diags)
+        diags.extend(found)
+        shared = frozenset(self.shared_styles.values())
+        return overlay_mod.LaidOver(base, own, shared), read, count + len(own)
+
+    def _base(self, entries, page_path, diags):
+        """``(rule set, files read, number of rules)`` of a page's stylesheets before its own
+        trailing ``<style>`` blocks: the one the pages without such blocks get (``overlay``);
+        their diagnostics added to ``diags``."""
         key = _key(entries)
         cached = self._kept(key)
         if cached is not None:
-            return cached[0]
-        ruleset, read, count, _ = self._build(entries, page_path, None, [])
+            ruleset, found = cached
+            for e in entries:
+                if e[0] == "file":
+                    diags.extend(found[e[1]])
+            entry = self._rulesets[key]
+            return ruleset, entry[1], entry[2]
+        ruleset, read, count = self._build(entries, page_path, None, diags)
         self._keep(key, (ruleset, tuple(read), count))
-        return ruleset
+        return ruleset, tuple(read), count
 
     def _build(self, entries, page_path, source, diags) -> tuple:
-        """``(RuleSet, files read, number of rules, split)`` of a page's ``entries``; split:
-        ``(entries before the trailing <style> blocks, their rules)`` where those blocks can be
-        laid over the rule set of the stylesheets before them (``overlay.can_lay_over``)."""
+        """``(RuleSet, files read, number of rules)`` of a page's ``entries``."""
         base_dir = os.path.dirname(page_path)
         rules, layers, read = [], [], []
         self._expand(user_agent_sheet(), (), (), rules, layers, set(), diags)
-        trailing = _trailing_styles(entries)
-        n_style, before = 0, None
-        for n, e in enumerate(entries):
-            if n == trailing:
-                before = (len(rules), len(layers))
+        n_style = 0
+        for e in entries:
             if e[0] == "file":
                 parsed, d = self.sheet(e[1])
                 diags.extend(d)
@@ -301,12 +325,7 @@ class SheetLoader:
                 if parsed is not None:
                     self._expand(parsed, (e[2],) if e[2] else (), (), rules, layers, set(),
                                  diags, base=base_dir)
-        split = None
-        if before is not None and len(layers) == before[1]:
-            extra = rules[before[0]:]
-            if overlay_mod.can_lay_over(extra):
-                split = (trailing, extra)
-        return RuleSet(rules, layers), read, len(rules), split
+        return RuleSet(rules, layers), read, len(rules)
 
     def _keep(self, key, entry) -> None:
         """Keep a rule set for later pages; let go of the least recently used beyond

@@ -20,12 +20,13 @@ less), cascade layers, which reorder the cascade.
 from __future__ import annotations
 
 import dataclasses
+from functools import cached_property
 
 import tinycss2
 from lxml.etree import Element
 
 from .media import Environment
-from .ruleset import Index
+from .ruleset import Index, indexed
 from .sheet import _DYNAMIC_RE, _rightmost_attrs, compile_one
 
 
@@ -52,11 +53,82 @@ def _relaxed(rule):
         attr_names=_rightmost_attrs(tinycss2.parse_component_value_list(relaxed)))
 
 
-def lay_over(ruleset, rules, base) -> None:
-    """Mark ``ruleset`` as ``base`` with ``rules`` (its own, the last) laid over it; a rule of
-    a state is kept relaxed (``_relaxed``), once for every page and scheme that marks with it."""
-    ruleset.base = base
-    ruleset.own_rules = [_relaxed(r) if r.dynamic else r for r in rules]
+class LaidOver:
+    """The rule set of a page whose own trailing ``<style>`` blocks (``rules``, expanded: the
+    last in the cascade's order of appearance) are laid over ``base``, the rule set of its
+    stylesheets: made of that one's rules and indexes, which every such page shares, and the
+    page's own. (A whole rule set of its own, built and indexed for each page, cost about a
+    sixth of a page's time on the benchmark's ``own-styles`` site.)"""
+
+    def __init__(self, base, rules, shared_sheets=frozenset()):
+        for order, rule in enumerate(rules, base.size):  # as in the whole rule set
+            rule.order = order
+        self.base = base
+        self.size = base.size + len(rules)
+        self.colour_rules = [r for r in rules if r.decls]
+        self.own_cue_rules = [r for r in rules if r.cue_decls]
+        self.cue_rules = base.cue_rules + self.own_cue_rules
+        # a rule of a state relaxed (``_relaxed``) once for every page and scheme marking
+        self.own_rules = [_relaxed(r) if r.dynamic else r for r in rules]
+        # blocks every page verified carries (the fixes' overrides): see ``Kept``
+        self.shared_sheets = shared_sheets
+        # no layers of its own (``can_lay_over``), nor :has()
+        self.layer_ranks, self.unlayered_rank = base.layer_ranks, base.unlayered_rank
+        self.layer_rank, self.uses_has = base.layer_rank, base.uses_has
+        self._indexes = {}
+
+    @property
+    def rules(self) -> list:
+        return self.base.rules + self.colour_rules
+
+    @property
+    def structure(self):
+        return self.base.structure  # (the pages are keyed by the base's)
+
+    @cached_property
+    def scheme_facts(self):
+        from .schemes import SchemeFacts
+
+        return SchemeFacts(self.rules)
+
+    def index(self, env: Environment) -> "LaidOverIndex":
+        idx = self._indexes.get(env.key)
+        if idx is None:
+            own = indexed(self.colour_rules, self.own_cue_rules, env, self)
+            idx = self._indexes[env.key] = LaidOverIndex(self.base.index(env), own)
+        return idx
+
+
+class LaidOverIndex:
+    """The Index of a ``LaidOver`` rule set: its base's (shared, warm), then the page's own."""
+
+    def __init__(self, base, own):
+        self.base, self.own = base, own
+        self.dynamic_rules = base.dynamic_rules + own.dynamic_rules
+        self.cue_rules = base.cue_rules + own.cue_rules
+
+    def match(self, wrapper) -> list:
+        found = self.base.match(wrapper)
+        more = self.own.match(wrapper)
+        return found + more if more else found
+
+    def cue_match(self, wrapper) -> list:
+        found = self.base.cue_match(wrapper)
+        more = self.own.cue_match(wrapper) if self.own.cue_rules else ()
+        return found + more if more else found
+
+    def state_can_matter(self, element) -> bool:
+        return self.base.state_can_matter(element) or (
+            bool(self.own.dynamic_rules) and self.own.state_can_matter(element))
+
+
+class Kept(tuple):
+    """The key part of an element that only rules of blocks shared by pages match (the
+    overrides injected into every page verified, ``overrides.verify``): the same on those
+    pages, so what is computed under it is kept for them, not let go with the page
+    (``samples.PageWalker.forget_own``). Equal to the plain part: either names the same rules."""
+
+    __slots__ = ()
 
 
 class Overlay:
@@ -68,6 +140,8 @@ class Overlay:
         self.index = Index(rules, ruleset)
         self._parts = {}  # id(rule) -> what the rule is, by value
         self._keep = rules  # (the ids above stay theirs)
+        shared = getattr(ruleset, "shared_sheets", ())
+        self._shared = {id(r) for r in rules if r.sheet in shared} if shared else set()
         self._ids, self._classes, self._tags, self._attrs = set(), set(), set(), set()
         self._every = False
         for rule in rules:
@@ -94,7 +168,10 @@ class Overlay:
             if not matched:
                 continue
             matched.sort(key=_order)
-            marked[el] = tuple(self._part(r) for r in matched)
+            part = tuple(self._part(r) for r in matched)
+            shared = self._shared
+            marked[el] = Kept(part) if shared and all(id(r) in shared for r in matched) \
+                else part
             for up in el.iterancestors():
                 if up in holding:
                     break

@@ -45,6 +45,7 @@ class RuleSet:
         self.layer_ranks = ranks
         for order, rule in enumerate(rules):
             rule.order = order
+        self.size = len(rules)  # (rules laid over it come after: ``overlay.LaidOver``)
         # rules drawing non-colour cues, matched apart for links (extract/links.py); rules with
         # nothing else stay out of the colour cascade and its keys
         self.cue_rules = [r for r in rules if r.cue_decls]
@@ -135,11 +136,16 @@ class RuleSet:
     def index(self, env: Environment) -> "Index":
         idx = self._indexes.get(env.key)
         if idx is None:
-            idx = self._indexes[env.key] = Index(
-                [r for r in self.rules if all(env.matches(m) for m in r.media)], self)
-            idx.cue_rules = [dataclasses.replace(r, decls=r.cue_decls) for r in self.cue_rules
-                             if all(env.matches(m) for m in r.media)]
+            idx = self._indexes[env.key] = indexed(self.rules, self.cue_rules, env, self)
         return idx
+
+
+def indexed(rules, cue_rules, env: Environment, ruleset) -> "Index":
+    """The Index of ``rules`` (and of ``cue_rules`` for their cues) applying in ``env``."""
+    idx = Index([r for r in rules if all(env.matches(m) for m in r.media)], ruleset)
+    idx.cue_rules = [dataclasses.replace(r, decls=r.cue_decls) for r in cue_rules
+                     if all(env.matches(m) for m in r.media)]
+    return idx
 
 
 def _proxy(ruleset):

@@ -24,6 +24,7 @@ from . import exempt as exempt_mod
 from . import fragments as frag_mod
 from . import links as link_mod
 from . import nontext as nontext_mod
+from .overlay import Kept
 from .sheet import mark_states, parse_declarations, unmark_states
 from .structure import PageStructure
 from .style import BLACK, ROOT_PARENT, Resolver, Winner, cascade
@@ -144,7 +145,8 @@ class PageWalker:
             return self.cache.fresh()
         ident = self.cache.intern((parent_id, element_id))
         own = self._own_ids
-        if own is not None and (parent_id in own or type(element_id) is tuple):
+        if own is not None and (parent_id in own or type(element_id) is tuple
+                                and type(element_id[1]) is not Kept):
             own.add(ident)
             self._own.append((self.cache.ids, (parent_id, element_id)))
             self._own.append((self.cache.styles, ident))
