@@ -208,6 +208,7 @@ class Site:
             schemes = self.options.schemes or scheme_mod.discover(root, ruleset)
             result.schemes = list(schemes)
             fingerprints = {}  # subtree fingerprints, shared by the schemes' walks
+            marks = {}  # what the page's own rules match, likewise (``overlay.Overlay``)
             # (a page's own trailing <style> blocks laid over its stylesheets' rule set: the
             # keys are that rule set's, ``extract/overlay.py``)
             structure = PageStructure(root, (ruleset.base or ruleset).structure)  # likewise
@@ -222,7 +223,7 @@ class Site:
             for scheme in schemes:
                 with _scheme_applied(root, scheme, fingerprints, structure):
                     walker = self._walker(rel, root, ruleset, scheme, result, fingerprints,
-                                          structure, exemptions, disclosure)
+                                          structure, exemptions, disclosure, marks)
                     result.samples.extend(walker.walk(states=self.options.states))
                     result.replays.extend(walker.replays)
                     _report_resolver(walker.resolver, result.diagnostics)
@@ -236,7 +237,7 @@ class Site:
         return result
 
     def _walker(self, rel, root, ruleset, scheme, result, fingerprints, structure,
-                exemptions, disclosure) -> PageWalker:
+                exemptions, disclosure, marks=None) -> PageWalker:
         """A walker of the page in ``scheme`` (its attributes applied to the tree)."""
         env = Environment(self.options.viewport_width, scheme_media=scheme.media)
         index = ruleset.index(env)
@@ -258,7 +259,8 @@ class Site:
                             replay=self.options.replay and self.options.share,
                             structure=structure, share=self.options.share,
                             exemptions=exemptions, disclosure=disclosure,
-                            overlay=Overlay(ruleset.own_rules, env, ruleset)
+                            overlay=Overlay(ruleset.own_rules, env, ruleset, marks,
+                                            [name for _, name, _ in scheme.attributes])
                             if ruleset.base is not None else None)
         walker.resolver.max_var_tokens = self.options.max_var_tokens
         return walker

@@ -201,3 +201,38 @@ def test_keys_only_a_shared_block_marks_are_kept_for_the_next_page(tmp_path, mon
     colours = {rel: {(s.xpath, s.scheme): s.fg for s in samples}
                for rel, samples in laid_over.items()}
     assert colours["p0.html"][(late, "light")] != colours["p8.html"][(late, "light")]
+
+
+def test_the_schemes_of_a_page_share_its_marks_unless_its_rules_read_theirs(tmp_path,
+                                                                           monkeypatch):
+    """The schemes' walks of a page mark the same tree, but for the attributes a scheme
+    sets: what the page's own rules match is worked out once for them all (and once more
+    for the tree opened), unless a rule reads one of those attributes: then each scheme
+    marks its own, and the samples stay those of pages on rule sets of their own."""
+    css = SITE_CSS.split("@media")[0] + ('html[data-theme="dark"] body { color: #e4e7eb; '
+                                         'background: #1c2026; }\n'
+                                         'html[data-theme="dark"] nav a { color: #9cc3e6; }\n')
+    (tmp_path / "site.css").write_text(css, encoding="utf-8")
+    own = {0: '.state-late { color: #c9a3a3; }',
+           1: 'html[data-theme="dark"] .state-late { color: #5a2020; }'}
+    for n, block in own.items():
+        (tmp_path / f"p{n}.html").write_text(
+            PAGE.format(nav=NAV, n=n, style=f"<style>{block}</style>"), encoding="utf-8")
+    (tmp_path / "p8.html").write_text(PAGE.format(nav=NAV, n=8, style=""), encoding="utf-8")
+    calls = []
+    marks = overlay_mod.Overlay._marks
+    monkeypatch.setattr(overlay_mod.Overlay, "_marks",
+                        lambda self, *a: calls.append(1) or marks(self, *a))
+    order = ["p1.html", "p8.html", "p0.html"]
+    checker = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    laid_over, counts = {}, {}
+    for rel in order:
+        calls.clear()
+        result = checker.check_page(rel)
+        laid_over[rel], counts[rel] = result.samples, len(calls)
+        assert len(result.schemes) == 2
+    assert counts == {"p1.html": 4, "p8.html": 0, "p0.html": 2}  # (at rest and opened)
+    monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+    plain = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    for rel in order:
+        assert laid_over[rel] == plain.check_page(rel).samples, rel

@@ -135,33 +135,39 @@ class Overlay:
     """The page's own rules (``RuleSet.own_rules``, states relaxed) in one environment: which
     elements they match, as a key part each."""
 
-    def __init__(self, rules, env: Environment, ruleset):
+    def __init__(self, rules, env: Environment, ruleset, page_marks=None, attributes=()):
         rules = [r for r in rules if all(env.matches(m) for m in r.media)]
-        self.index = Index(rules, ruleset)
+        self._ruleset = ruleset
+        # the marks of the page's tree, shared by its colour schemes' walks where the rules
+        # read none of the ``attributes`` a scheme sets (``page_marks``: a dict per page)
+        texts = [r.selector_text.lower() for r in rules]
+        reads = any("\\" in t or any(a.lower() in t for a in attributes) for t in texts)
+        self._page_marks = None if reads else page_marks
+        self._rules_key = tuple(map(id, rules))
         self._parts = {}  # id(rule) -> what the rule is, by value
         self._keep = rules  # (the ids above stay theirs)
         shared = getattr(ruleset, "shared_sheets", ())
         self._shared = {id(r) for r in rules if r.sheet in shared} if shared else set()
-        self._ids, self._classes, self._tags, self._attrs = set(), set(), set(), set()
-        self._every = False
-        for rule in rules:
-            c = rule.compiled
-            if c.id is not None:
-                self._ids.add(c.id)
-            elif c.class_name is not None:
-                self._classes.add(c.class_name)
-            elif c.local_name is not None:
-                self._tags.add(c.lower_local_name)
-            elif rule.attr_names:
-                self._attrs.add(rule.attr_names[0])
-            else:
-                self._every = True
 
-    def marks(self, root, wrapper_of) -> tuple:
-        """``(element -> key part, elements whose subtree holds one)`` of the tree as it is:
-        the part names the page's rules the element matches, by value (a style cached under
-        it on one page serves another only where the same rules, from the same sheet and
-        line, match)."""
+    def marks(self, root, wrapper_of, opened: bool = False) -> tuple:
+        """``(element -> key part, elements whose subtree holds one)`` of the tree as it is
+        (``opened``: what a reader opens opened, ``disclosure``): the part names the page's
+        rules the element matches, by value (a style cached under it on one page serves
+        another only where the same rules, from the same sheet and line, match)."""
+        known = self._page_marks
+        if known is not None:
+            key = (opened, self._rules_key)
+            found = known.get(key)
+            if found is None:
+                found = known[key] = self._marks(root, wrapper_of)
+            return found
+        return self._marks(root, wrapper_of)
+
+    @cached_property
+    def index(self) -> Index:  # (not needed where another scheme's walk marked the page)
+        return Index(self._keep, self._ruleset)
+
+    def _marks(self, root, wrapper_of) -> tuple:
         marked, holding = {}, set()
         for el in self._candidates(root):
             matched = self.index.match(wrapper_of(el))
@@ -179,11 +185,29 @@ class Overlay:
             holding.add(el)
         return marked, holding
 
+    @cached_property
+    def _buckets(self) -> tuple:
+        """``(every, ids, classes, tags, attributes)``: what the rules' rightmost compounds
+        name (``every``: one names none of them)."""
+        ids, classes, tags, attrs, every = set(), set(), set(), set(), False
+        for rule in self._keep:
+            c = rule.compiled
+            if c.id is not None:
+                ids.add(c.id)
+            elif c.class_name is not None:
+                classes.add(c.class_name)
+            elif c.local_name is not None:
+                tags.add(c.lower_local_name)
+            elif rule.attr_names:
+                attrs.add(rule.attr_names[0])
+            else:
+                every = True
+        return every, ids, classes, tags, attrs
+
     def _candidates(self, root):
         """The elements a rule could match by its rightmost compound's id, class, tag or
         attribute (every element when one names none of them)."""
-        every, ids, classes = self._every, self._ids, self._classes
-        tags, attrs = self._tags, self._attrs
+        every, ids, classes, tags, attrs = self._buckets
         for el in root.iter(Element):  # (elements only: no comments)
             if every or (tags and el.tag.lower() in tags):
                 yield el

@@ -250,7 +250,7 @@ class PageWalker:
         the samples that are new about it, in the state ``shown``."""
         before = len(self.samples)
         self._path_memo.clear()  # (worked out in the tree as it was at rest)
-        self._mark()  # (what the page's own rules match in the tree opened)
+        self._mark(opened=True)  # (what the page's own rules match in the tree opened)
         try:
             for target in self.disclosure.targets:
                 self._shown(target)
@@ -582,10 +582,10 @@ class PageWalker:
         return has is not None and bool(has.dynamic) and \
             any(text in has.dynamic for text, _ in has.candidates(el))
 
-    def _mark(self) -> None:
+    def _mark(self, opened: bool = False) -> None:
         if self.overlay is not None:
             self._marked, self._holding = self.overlay.marks(self.root,
-                                                             self.structure.wrapper_of)
+                                                             self.structure.wrapper_of, opened)
 
     def _root_id(self):
         return self._with_marks(self.root, self.structure.root_id())
