@@ -241,10 +241,12 @@ class SheetLoader:
             return ruleset, _dedupe(diags)
         laid = self._laid_over_build(entries, page_path, source, diags)
         if laid is not None:
-            # (mostly a page's own: the few most recent are kept; their base stays above)
-            self._laid_over[key] = laid
-            if len(self._laid_over) > LAID_OVER_KEPT:
-                self._laid_over.popitem(last=False)
+            # (mostly a page's own: the few most recent are kept, their base stays above; a
+            # page verified with the fixes' overrides injected is checked once a round)
+            if not any(e[0] == "style" and e[1] in self.shared_styles for e in entries):
+                self._laid_over[key] = laid
+                if len(self._laid_over) > LAID_OVER_KEPT:
+                    self._laid_over.popitem(last=False)
             return laid[0], _dedupe(diags)
         ruleset, read, count = self._build(entries, page_path, source, diags)
         self._keep(key, (ruleset, tuple(read), count))
