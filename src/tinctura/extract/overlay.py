@@ -9,7 +9,8 @@ its last stylesheet, their rules come after every other in the cascade's order o
 appearance, so an element none of them matches has the style it has without them: such a
 page is keyed and cached with the rule set of its stylesheets (the base), and only the
 elements its own rules match get keys of their own (``Overlay.marks``). Styles are still
-computed with the page's whole rule set.
+computed with the page's whole rule set, made of the stylesheets' rule set and index, shared,
+and the page's own rules (``LaidOver``).
 
 A rule of a state (``a:hover``) marks every element it matches in some state: its selector
 with each dynamic pseudo-class made ``:is(*)``, which matches more, never less (keyed apart
@@ -132,7 +133,7 @@ class Kept(tuple):
 
 
 class Overlay:
-    """The page's own rules (``RuleSet.own_rules``, states relaxed) in one environment: which
+    """The page's own rules (``LaidOver.own_rules``, states relaxed) in one environment: which
     elements they match, as a key part each."""
 
     def __init__(self, rules, env: Environment, ruleset, page_marks=None, attributes=()):
