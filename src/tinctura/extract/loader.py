@@ -281,12 +281,14 @@ class SheetLoader:
             if parsed is not None:
                 self._expand(parsed, (e[2],) if e[2] else (), (), own, layers, set(), found,
                              base=os.path.dirname(page_path))
-        if layers or not overlay_mod.can_lay_over(own):
+        marked_by = overlay_mod.marking(own) if not layers and overlay_mod.can_lay_over(own) \
+            else None
+        if marked_by is None:
             return None
         base, read, count = self._base(entries[:trailing], page_path, diags)
         diags.extend(found)
         shared = frozenset(self.shared_styles.values())
-        return overlay_mod.LaidOver(base, own, shared), read, count + len(own)
+        return overlay_mod.LaidOver(base, own, marked_by, shared), read, count + len(own)
 
     def _base(self, entries, page_path, diags):
         """``(rule set, files read, number of rules)`` of a page's stylesheets before its own

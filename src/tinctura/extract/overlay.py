@@ -33,9 +33,21 @@ from .sheet import _DYNAMIC_RE, _rightmost_attrs, compile_one
 
 def can_lay_over(rules) -> bool:
     """Whether ``rules`` (a page's trailing ``<style>`` blocks) can be laid over the rule set
-    before them."""
-    return all(not r.layer and ":has(" not in r.selector_text
-               and (not r.dynamic or _relaxed(r) is not None) for r in rules)
+    before them, as far as their layers and ``:has()`` tell (``marking`` tells the rest)."""
+    return all(not r.layer and ":has(" not in r.selector_text for r in rules)
+
+
+def marking(rules) -> list | None:
+    """``rules`` as ``Overlay`` marks with them, a rule of a state relaxed (``_relaxed``);
+    None where one cannot be: the blocks are not laid over."""
+    out = []
+    for rule in rules:
+        if rule.dynamic:
+            rule = _relaxed(rule)
+            if rule is None:
+                return None
+        out.append(rule)
+    return out
 
 
 def _relaxed(rule):
@@ -61,7 +73,7 @@ class LaidOver:
     page's own. (A whole rule set of its own, built and indexed for each page, cost about a
     sixth of a page's time on the benchmark's ``own-styles`` site.)"""
 
-    def __init__(self, base, rules, shared_sheets=frozenset()):
+    def __init__(self, base, rules, marking_rules, shared_sheets=frozenset()):
         for order, rule in enumerate(rules, base.size):  # as in the whole rule set
             rule.order = order
         self.base = base
@@ -69,8 +81,8 @@ class LaidOver:
         self.colour_rules = [r for r in rules if r.decls]
         self.own_cue_rules = [r for r in rules if r.cue_decls]
         self.cue_rules = base.cue_rules + self.own_cue_rules
-        # a rule of a state relaxed (``_relaxed``) once for every page and scheme marking
-        self.own_rules = [_relaxed(r) if r.dynamic else r for r in rules]
+        # (``marking``: a rule of a state relaxed once for every scheme marking with it)
+        self.own_rules = marking_rules
         # blocks every page verified carries (the fixes' overrides): see ``Kept``
         self.shared_sheets = shared_sheets
         # no layers of its own (``can_lay_over``), nor :has()
