@@ -250,3 +250,37 @@ def test_a_page_verified_with_the_overrides_keeps_no_rule_set(tmp_path):
         checker.check_page(rel)
     (kept,) = checker.loader._laid_over.values()  # p2's, which carries no shared block
     assert OWN[2] in {r.selector_text + " { color: #9a9a9a; }" for r in kept[0].colour_rules}
+
+
+def test_blocks_with_media_imports_and_earlier_blocks_are_laid_over_as_they_read(tmp_path,
+                                                                                monkeypatch):
+    """A trailing block for print only, one importing a sheet, and one after a block that
+    comes before the stylesheet (the trailing one is then the page's second: its rules name
+    it so): the samples, causes and their sheets' names included, are those of pages on
+    rule sets of their own."""
+    (tmp_path / "site.css").write_text(SITE_CSS, encoding="utf-8")
+    (tmp_path / "extra.css").write_text(".board td { color: #777777; }", encoding="utf-8")
+    pages = {
+        "print.html": PAGE.format(nav=NAV, n=0, style='<style media="print">'
+                                  '.state-late { color: #ff0000; }</style>'),
+        "import.html": PAGE.format(nav=NAV, n=1, style='<style>@import url("extra.css");\n'
+                                   '.note { color: #999999; }</style>'),
+        "second.html": PAGE.format(nav=NAV, n=2, style="<style>.state-late { color: #a0a0a0; }"
+                                   "</style>").replace(
+            '<link rel="stylesheet" href="site.css">',
+            '<style>.note { color: #555555; }</style><link rel="stylesheet" href="site.css">'),
+    }
+    for rel, html in pages.items():
+        (tmp_path / rel).write_text(html, encoding="utf-8")
+    checker = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    laid_over = {rel: checker.check_page(rel).samples for rel in pages}
+    assert len(checker.loader._laid_over) == 3
+    monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+    plain = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    for rel in pages:
+        assert laid_over[rel] == plain.check_page(rel).samples, rel
+    sheets = {s.fg_cause.declaration.sheet for s in laid_over["second.html"]
+              if s.fg_cause is not None and s.fg_cause.declaration is not None}
+    assert "second.html <style> #2" in sheets
+    cells = [s.fg for s in laid_over["import.html"] if s.xpath.endswith("tr/td[1]")]
+    assert cells and all(fg == pytest.approx((0x77 / 255,) * 3) for fg in cells)  # imported

@@ -285,12 +285,12 @@ class SheetLoader:
             else None
         if marked_by is None:
             return None
-        base, read, count = self._base(entries[:trailing], page_path, diags)
+        base, read, count = self._base(entries[:trailing], page_path, source, diags)
         diags.extend(found)
         shared = frozenset(self.shared_styles.values())
         return overlay_mod.LaidOver(base, own, marked_by, shared), read, count + len(own)
 
-    def _base(self, entries, page_path, diags):
+    def _base(self, entries, page_path, source, diags):
         """``(rule set, files read, number of rules)`` of a page's stylesheets before its own
         trailing ``<style>`` blocks: the one the pages without such blocks get (``overlay``);
         their diagnostics added to ``diags``."""
@@ -303,7 +303,7 @@ class SheetLoader:
                     diags.extend(found[e[1]])
             entry = self._rulesets[key]
             return ruleset, entry[1], entry[2]
-        ruleset, read, count = self._build(entries, page_path, None, diags)
+        ruleset, read, count = self._build(entries, page_path, source, diags)
         self._keep(key, (ruleset, tuple(read), count))
         return ruleset, tuple(read), count
 
