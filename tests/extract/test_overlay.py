@@ -284,3 +284,29 @@ def test_blocks_with_media_imports_and_earlier_blocks_are_laid_over_as_they_read
     assert "second.html <style> #2" in sheets
     cells = [s.fg for s in laid_over["import.html"] if s.xpath.endswith("tr/td[1]")]
     assert cells and all(fg == pytest.approx((0x77 / 255,) * 3) for fg in cells)  # imported
+
+
+@pytest.mark.parametrize("own", [
+    ".late { color: #aa0000; }",
+    'body[data-theme="dark"] .late { color: #ffaaaa; }',  # the holder: body, with the base's
+    "@media (prefers-color-scheme: dark) { .late { color: #ffaaaa; } }",
+    ".late { color: light-dark(#aa0000, #ffaaaa); }",
+    '[data-bs-theme="dark"] .late { color: #ffaaaa; }',
+])
+def test_the_scheme_facts_of_a_page_laid_over_are_those_of_its_whole_rule_set(own):
+    """Worked out from the stylesheets' facts and the page's own rules (the stylesheets'
+    rules are not read again for each page): the same as from every rule at once."""
+    from tinctura.extract.loader import user_agent_sheet
+    from tinctura.extract.ruleset import RuleSet
+    from tinctura.extract.schemes import SchemeFacts
+    from tinctura.extract.sheet import parse_stylesheet
+
+    base_rules = user_agent_sheet().rules + parse_stylesheet(
+        'html[data-theme="dark"] body { color: #eeeeee; }', "site.css").rules
+    own_rules = parse_stylesheet(own, "p.html <style> #1").rules
+    base = RuleSet(list(base_rules), [])
+    laid = overlay_mod.LaidOver(base, list(own_rules), overlay_mod.marking(own_rules))
+    whole = SchemeFacts([r for r in base_rules + own_rules if r.decls])
+    fields = ("data_bs_theme", "data_theme", "data_theme_holder", "media", "light_dark")
+    assert [getattr(laid.scheme_facts, f) for f in fields] == \
+        [getattr(whole, f) for f in fields]

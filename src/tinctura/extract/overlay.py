@@ -102,7 +102,7 @@ class LaidOver:
     def scheme_facts(self):
         from .schemes import SchemeFacts
 
-        return SchemeFacts(self.rules)
+        return self.base.scheme_facts.joined(SchemeFacts(self.colour_rules))
 
     def index(self, env: Environment) -> "LaidOverIndex":
         idx = self._indexes.get(env.key)

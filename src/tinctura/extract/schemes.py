@@ -56,12 +56,25 @@ class SchemeFacts:
         selectors = " ".join(r.selector_text for r in author)
         self.data_bs_theme = "data-bs-theme" in selectors
         self.data_theme = "data-theme" in selectors
-        # the element a theme's script gives data-theme to, as its selectors name it
-        # (pydata-sphinx-theme: html[data-theme=dark]; Furo: body[data-theme=dark])
-        self.data_theme_holder = "html" if _ON_HTML.search(selectors) and \
-            not _ON_BODY.search(selectors) else "body"
+        self._on_html = bool(_ON_HTML.search(selectors))
+        self._on_body = bool(_ON_BODY.search(selectors))
         self.media = any(any("prefers-color-scheme" in m for m in r.media) for r in rules)
         self.light_dark = any("light-dark(" in d.text.lower() for r in author for d in r.decls)
+
+    @property
+    def data_theme_holder(self) -> str:
+        """The element a theme's script gives data-theme to, as its selectors name it
+        (pydata-sphinx-theme: html[data-theme=dark]; Furo: body[data-theme=dark])."""
+        return "html" if self._on_html and not self._on_body else "body"
+
+    def joined(self, more: "SchemeFacts") -> "SchemeFacts":
+        """The facts of both rule sets' rules (a page's own blocks laid over its
+        stylesheets': ``overlay.LaidOver``), without reading the first's rules again."""
+        both = object.__new__(SchemeFacts)
+        for name in ("data_bs_theme", "data_theme", "_on_html", "_on_body", "media",
+                     "light_dark"):
+            setattr(both, name, getattr(self, name) or getattr(more, name))
+        return both
 
 
 def _material_palette(root) -> list:
