@@ -81,3 +81,27 @@ def test_the_writer_locates_ahead_page_by_page(tmp_path, monkeypatch):
     located = [aid.locate(s) for s in asked]  # as a report asks: nothing parsed again
     assert sorted(parsed) == names
     assert {loc.locator for loc in located} == {"body > p"}
+
+
+def test_the_room_to_locate_ahead_counts_places_not_samples(tmp_path, monkeypatch):
+    # problems' sentences name the same place again and again (own-styles, 200 pages: 5,685
+    # samples, 3,702 places): counted by samples, the room ran out early, the report located
+    # the rest itself, the cache overflowed and emptied, and pages were parsed again
+    from types import SimpleNamespace
+
+    from tinctura import writer
+
+    monkeypatch.setattr(locator.Pages, "KEEP_BYTES", 100)  # two pages kept
+    monkeypatch.setattr(writer, "LOCATED_MOST", 8)
+    names = _site(tmp_path, [1000] * 4)
+    # eight places, two a page; the first problems name one place many times
+    places = [(names[i], "/html/body/p") for i in range(4)] + \
+        [(names[i], "/html/body") for i in range(4)]
+    asked = [SimpleNamespace(page=page, xpath=xpath, text="x")
+             for page, xpath in [places[0]] * 8 + places]
+    aid = writer.WriterAid(str(tmp_path))
+    parsed = _counting(aid.pages)
+    aid.locate_all(asked)
+    for s in asked:  # as a report asks, problem by problem
+        aid.locate(s)
+    assert sorted(parsed) == names  # each page once
