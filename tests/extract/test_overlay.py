@@ -203,6 +203,50 @@ def test_keys_only_a_shared_block_marks_are_kept_for_the_next_page(tmp_path, mon
     assert colours["p0.html"][(late, "light")] != colours["p8.html"][(late, "light")]
 
 
+def test_the_shared_block_is_laid_over_once_for_the_pages_that_carry_it(tmp_path,
+                                                                          monkeypatch):
+    """The block every page verified carries is expanded, numbered and indexed once for them
+    all, and comes after each page's own rules: a page's own rule as specific as one of the
+    block's loses to it, and a rule of the block reading a scheme's attribute marks per
+    scheme. The samples are those of pages on rule sets of their own."""
+    from tinctura import overrides
+
+    css = SITE_CSS.split("@media")[0] + ('html[data-theme="dark"] body { color: #e4e7eb; '
+                                         'background: #1c2026; }\n')
+    (tmp_path / "site.css").write_text(css, encoding="utf-8")
+    shared = SHARED + ' html[data-theme="dark"] nav a { color: #d4d4d4; }'
+    own = {0: OWN[0], 1: "nav a { color: #7a2e2e; }", 8: ""}  # (page 1's: as specific)
+    pages = {}
+    for n, block in own.items():
+        style = f"<style>{block}</style>" if block else ""
+        (tmp_path / f"p{n}.html").write_text(PAGE.format(nav=NAV, n=n, style=style),
+                                             encoding="utf-8")
+        # as the fixes are verified: the block injected last, on its own lines
+        pages[f"p{n}.html"] = overrides.inject(PAGE.format(nav=NAV, n=n, style=style), shared)
+    made = []
+    init = overlay_mod.SharedBlock.__init__
+    monkeypatch.setattr(overlay_mod.SharedBlock, "__init__",
+                        lambda self, *a: made.append(1) or init(self, *a))
+
+    def checked(rel, checker):
+        overrides._same_line_for_overrides(checker.loader)
+        return checker.check_page(rel, html=pages[rel]).samples
+
+    order = ["p1.html", "p8.html", "p0.html"]
+    checker = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    laid_over = {rel: checked(rel, checker) for rel in order}
+    assert made == [1]
+    link = "/html/body/nav/ul/li[1]/a"
+    colours = {(s.page, s.scheme): s.fg for rels in laid_over.values() for s in rels
+               if s.xpath == link and s.state == "rest"}
+    assert colours[("p1.html", "light")] == colours[("p8.html", "light")]  # the block's
+    assert colours[("p1.html", "dark")] != colours[("p1.html", "light")]
+    monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+    plain = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    for rel in order:
+        assert laid_over[rel] == checked(rel, plain), rel
+
+
 def test_the_schemes_of_a_page_share_its_marks_unless_its_rules_read_theirs(tmp_path,
                                                                            monkeypatch):
     """The schemes' walks of a page mark the same tree, but for the attributes a scheme
@@ -214,16 +258,18 @@ def test_the_schemes_of_a_page_share_its_marks_unless_its_rules_read_theirs(tmp_
                                          'html[data-theme="dark"] nav a { color: #9cc3e6; }\n')
     (tmp_path / "site.css").write_text(css, encoding="utf-8")
     own = {0: '.state-late { color: #c9a3a3; }',
-           1: 'html[data-theme="dark"] .state-late { color: #5a2020; }'}
+           1: 'html[data-theme="dark"] .state-late { color: #5a2020; }',
+           # both: the first marks once for the schemes, the second per scheme
+           2: '.state-late { color: #c9a3a3; } html[data-theme="dark"] nav a { color: #5a2020; }'}
     for n, block in own.items():
         (tmp_path / f"p{n}.html").write_text(
             PAGE.format(nav=NAV, n=n, style=f"<style>{block}</style>"), encoding="utf-8")
     (tmp_path / "p8.html").write_text(PAGE.format(nav=NAV, n=8, style=""), encoding="utf-8")
     calls = []
-    marks = overlay_mod.Overlay._marks
-    monkeypatch.setattr(overlay_mod.Overlay, "_marks",
-                        lambda self, *a: calls.append(1) or marks(self, *a))
-    order = ["p1.html", "p8.html", "p0.html"]
+    matched = overlay_mod._Group.matched
+    monkeypatch.setattr(overlay_mod._Group, "matched",
+                        lambda self, *a: calls.append(1) or matched(self, *a))
+    order = ["p1.html", "p8.html", "p0.html", "p2.html"]
     checker = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
     laid_over, counts = {}, {}
     for rel in order:
@@ -231,11 +277,43 @@ def test_the_schemes_of_a_page_share_its_marks_unless_its_rules_read_theirs(tmp_
         result = checker.check_page(rel)
         laid_over[rel], counts[rel] = result.samples, len(calls)
         assert len(result.schemes) == 2
-    assert counts == {"p1.html": 4, "p8.html": 0, "p0.html": 2}  # (at rest and opened)
+    # (each at rest and opened)
+    assert counts == {"p1.html": 4, "p8.html": 0, "p0.html": 2, "p2.html": 2 + 4}
     monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
     plain = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
     for rel in order:
         assert laid_over[rel] == plain.check_page(rel).samples, rel
+
+
+@pytest.mark.parametrize("attribute, rule", [
+    ("class", ".dark .state-late { color: #5a2020; }"),
+    ("id", "#dark .state-late { color: #5a2020; }"),
+])
+def test_a_scheme_set_as_a_class_or_an_id_is_read_by_rules_that_name_one(tmp_path, attribute,
+                                                                         rule):
+    """A scheme of the setting may set ``class`` or ``id`` (``html.dark``): a rule reading it
+    names neither attribute, yet marks per scheme; shared from the light scheme, the dark
+    one's style of the element went into the cache the pages without the block share."""
+    from tinctura.model import Scheme
+
+    (tmp_path / "site.css").write_text(SITE_CSS.split("@media")[0], encoding="utf-8")
+    (tmp_path / "p0.html").write_text(
+        PAGE.format(nav=NAV, n=0, style=f"<style>{rule}</style>"), encoding="utf-8")
+    (tmp_path / "p8.html").write_text(PAGE.format(nav=NAV, n=8, style=""), encoding="utf-8")
+    schemes = [Scheme(name, attributes=(("html", attribute, name),), source="setting")
+               for name in ("light", "dark")]
+    order = ["p0.html", "p8.html"]
+    checker = Site(str(tmp_path), Options(jobs=1, keep_samples=True, schemes=schemes))
+    laid_over = {rel: checker.check_page(rel).samples for rel in order}
+    late = {(s.page, s.scheme): s.fg for rels in laid_over.values() for s in rels
+            if s.xpath == "/html/body/article/p[1]"}
+    assert late[("p0.html", "dark")] != late[("p8.html", "dark")]  # the page's own colour
+    assert late[("p8.html", "dark")] == late[("p8.html", "light")]
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+        plain = Site(str(tmp_path), Options(jobs=1, keep_samples=True, schemes=schemes))
+        for rel in order:
+            assert laid_over[rel] == plain.check_page(rel).samples, rel
 
 
 def test_a_page_verified_with_the_overrides_keeps_no_rule_set(tmp_path):

@@ -72,6 +72,7 @@ class SheetLoader:
         # overrides ``overrides.verify`` injects in every page it checks again): parsed once
         self.shared_styles = {}
         self._shared_parsed = {}  # (text, line, column) -> its ParsedSheet
+        self._shared_laid = None  # (its ParsedSheet, the base, overlay.SharedBlock)
         self.missing = 0  # stylesheets linked or imported that were not there or not read
         # sheets parsed ahead in another process (``prepared.Prepared``), or None
         self.prepared = None
@@ -272,9 +273,12 @@ class SheetLoader:
         trailing = _trailing_styles(entries)
         if trailing is None:
             return None
+        last = entries[-1]
+        block = last if last[0] == "style" and last[1] in self.shared_styles and not last[2] \
+            else None
         found, own, layers = [], [], []
         n_style = sum(e[0] == "style" for e in entries[:trailing])
-        for e in entries[trailing:]:
+        for e in entries[trailing:len(entries) - (block is not None)]:
             n_style += 1
             parsed = self._style_block(e, f"{self.rel(page_path)} <style> #{n_style}",
                                        source, found)
@@ -286,9 +290,33 @@ class SheetLoader:
         if marked_by is None:
             return None
         base, read, count = self._base(entries[:trailing], page_path, source, diags)
+        shared = None
+        if block is not None:
+            parsed = self._style_block(block, block[1], source, found)
+            shared = self._shared_block(parsed, base) if parsed is not None else None
+            if shared is None:
+                return None
         diags.extend(found)
-        shared = frozenset(self.shared_styles.values())
-        return overlay_mod.LaidOver(base, own, marked_by, shared), read, count + len(own)
+        sheets = frozenset(self.shared_styles.values())
+        return overlay_mod.LaidOver(base, own, marked_by, sheets, shared), read, \
+            count + len(own) + (len(shared.rules) if shared is not None else 0)
+
+    def _shared_block(self, parsed, base):
+        """The ``SharedBlock`` of a block every page verified carries (``shared_styles``),
+        laid over ``base``: made once for the pages of a round; None where it cannot be laid
+        over (an import, layers, ``:has()``: it is then part of no page's rule set)."""
+        kept = self._shared_laid
+        if kept is not None and kept[0] is parsed and kept[1] is base:
+            return kept[2]
+        if not all(isinstance(r, StyleRule) for r in parsed.rules) or parsed.layer_names:
+            return None
+        rules = [dataclasses.replace(r) for r in parsed.rules]  # (numbered for this base)
+        marking = overlay_mod.marking(rules) if overlay_mod.can_lay_over(rules) else None
+        if marking is None:
+            return None
+        block = overlay_mod.SharedBlock(base, rules, marking)
+        self._shared_laid = (parsed, base, block)  # (one: the overrides of one round)
+        return block
 
     def _base(self, entries, page_path, source, diags):
         """``(rule set, files read, number of rules)`` of a page's stylesheets before its own
