@@ -534,10 +534,14 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                     schemes.setdefault(scheme.name, scheme)
             with_findings = [r.result.page for r in records if r.findings]  # (counts)
             loader = self.site.loader if self.site is not None else None
+            # what the log and the reports will locate, while the worker rechecks pages
+            meanwhile = (lambda: outputs.locate_ahead(aid, found)) \
+                if self.config.report or log.isEnabledFor(logging.WARNING) else None
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
                                    loader, self.verify_cache,
-                                   self.helper.rechecker() if self.helper is not None else None)
+                                   self.helper.rechecker() if self.helper is not None else None,
+                                   meanwhile)
             except Exception as exc:  # a fix that cannot be worked out must not stop the build
                 log.info(f"fixes as CSS overrides could not be worked out: {exc!r}")
         return aid

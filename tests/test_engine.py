@@ -442,6 +442,41 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
     assert results[0] == results[1] == results[2] == results[3] and results[0][0] is True
 
 
+def test_verify_does_its_own_work_meanwhile_while_the_helper_rechecks(site):
+    """``meanwhile`` (the command line locates the reports' examples there) runs once the
+    helper's workers are under way and before their answers are awaited, also with no
+    helper; the verdicts are those without it."""
+    from tinctura import overrides
+
+    options = Options(keep_samples=False)
+    pages = [f"p{n}/index.html" for n in range(3)]
+    events = []
+
+    def helper(css, share):
+        events.append("started")
+
+        def answer():
+            events.append("awaited")
+            return overrides.recheck(str(site), options, css, share)
+        return answer
+
+    helper.all_shares = True  # (warm workers take every share, as ``pools_kept``'s)
+    verdicts = []
+    for use in (helper, None):
+        del events[:]
+        override = overrides.Override("site.css", [overrides.Rule(".faint", (("color", "#595959",
+                                                                            False),))])
+        counts = overrides.verify(str(site), options, [_faint_problem(site, options)],
+                                  [override], pages, helper=use,
+                                  meanwhile=lambda: events.append("meanwhile"))
+        verdicts.append((override.verified, counts))
+        if use is helper:
+            assert events == ["started", "started", "meanwhile", "awaited", "awaited"]
+        else:
+            assert events == ["meanwhile"]
+    assert verdicts[0] == verdicts[1] and verdicts[0][0] is True
+
+
 def test_verify_caches_every_round_of_a_build(site, monkeypatch):
     """``mkdocs serve`` keeps a cache between builds: the overrides of each round of planning
     (writer.NARROWING_ROUNDS) are looked up there, not only the last round's."""

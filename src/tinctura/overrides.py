@@ -810,7 +810,7 @@ def inject(html: str, css: str) -> str:
 
 
 def verify(site_root, options, problems, overrides, pages, loader=None, cache=None,
-           helper=None) -> dict:
+           helper=None, meanwhile=None) -> dict:
     """Check ``pages`` again with every override applied; mark each override verified when
     its problem is gone and the override's own values cause no finding. Returns the counts
     ``{"pages": n, "remaining": findings left on them}``.
@@ -825,7 +825,9 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     ``all_shares`` is true (warm workers: ``engine.pools_kept``, the plugin's), and a helper
     whose ``splits`` is true takes every page as one share (a lone worker that splits them
     with a copy of itself).
-    What is found is the same wherever a page is checked: the answers are unions."""
+    What is found is the same wherever a page is checked: the answers are unions.
+    ``meanwhile()``: work of this process's own, done while the helper's workers recheck
+    their shares (the reports' places located: it waited for them, idle)."""
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
@@ -840,6 +842,8 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     # a helper with warm workers of its own takes every share; another, all but the first
     away = shares if getattr(helper, "all_shares", False) else shares[1:]
     started = [(share, helper(css, share)) for share in away]  # under way while this works
+    if meanwhile is not None:
+        meanwhile()
     found = [recheck(site_root, options, css, share, loader)
              for share in shares[:len(shares) - len(away)]]
     for share, answer in started:  # a helper that could not start (None) or failed: here

@@ -163,9 +163,10 @@ class WriterAid:
     # -- overrides -----------------------------------------------------------------------
 
     def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
-                       cache=None, helper=None) -> dict:
+                       cache=None, helper=None, meanwhile=None) -> dict:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
-        counts. ``loader``, ``cache``, ``helper``: see ``overrides.verify``."""
+        counts. ``loader``, ``cache``, ``helper``, ``meanwhile`` (in the first round): see
+        ``overrides.verify``."""
         self.show_fix_sources(problems)
         planner = overrides_mod.Planner(schemes, self.project,
                                         self._linked_sheets(pages_with_findings))
@@ -185,7 +186,9 @@ class WriterAid:
                 counts = {"pages": 0, "remaining": 0}
                 break
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
-                                          verification_pages(problems), loader, cache, helper)
+                                          verification_pages(problems), loader, cache, helper,
+                                          meanwhile)
+            meanwhile = None
             again = narrow | _to_narrow(problems, planned)
             more = _gather_taken(planned, exclude)
             wider = _to_widen(planned) - planner.unscoped
