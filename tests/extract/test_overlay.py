@@ -247,6 +247,50 @@ def test_the_shared_block_is_laid_over_once_for_the_pages_that_carry_it(tmp_path
         assert laid_over[rel] == checked(rel, plain), rel
 
 
+def test_rows_a_page_colours_take_what_the_stylesheets_match_from_other_pages(tmp_path,
+                                                                             monkeypatch):
+    """A page's rows coloured by classes of that page are keyed apart, with every cell below
+    them, yet the stylesheets' rules match them as they match the rows of another page of the
+    same structure: matched once (``StyleCache.base_matches``), by the keys they would have
+    without the page's rules, sibling facts included. The samples are those of pages on rule
+    sets of their own."""
+    css = SITE_CSS + ".board tr + tr td { color: #1a1a1a; }\n"
+    (tmp_path / "site.css").write_text(css, encoding="utf-8")
+
+    def board(n):
+        rows = "".join(f'<tr class="row-{n}-{k}"><td>Berth {k}</td><td>0{k}:00</td></tr>'
+                       for k in range(3))
+        return (f'<table class="board">{rows}</table><style>'
+                + " ".join(f".row-{n}-{k} {{ background: #f{k}f{k}f{k}; }}" for k in range(3))
+                + f" table.board tr.row-{n}-2 td {{ color: #6{n}6{n}6{n}; }}</style>")
+
+    for n in (1, 2):
+        (tmp_path / f"p{n}.html").write_text(PAGE.format(nav=NAV, n=n, style=board(n)),
+                                             encoding="utf-8")
+    order = ["p1.html", "p2.html"]
+    calls = []
+    match = overlay_mod.LaidOverIndex.match_over
+    monkeypatch.setattr(overlay_mod.LaidOverIndex, "match_over",
+                        lambda self, w, found: calls.append(found) or match(self, w, found))
+    checker = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    laid_over, fresh = {}, {}
+    for rel in order:
+        before = {id(m) for cache in checker._caches.values() for c in cache.values()
+                  for m in c.base_matches.values()}
+        del calls[:]
+        laid_over[rel] = checker.check_page(rel).samples
+        fresh[rel] = sum(id(found) not in before for found in calls)
+    assert fresh["p1.html"] > 0 and fresh["p2.html"] == 0  # the rows of page 1 serve page 2
+    monkeypatch.setattr(overlay_mod, "can_lay_over", lambda rules: False)
+    plain = Site(str(tmp_path), Options(jobs=1, keep_samples=True))
+    for rel in order:
+        assert laid_over[rel] == plain.check_page(rel).samples, rel
+    cells = {(s.page, s.xpath): s.fg for rels in laid_over.values() for s in rels
+             if s.scheme == "light" and s.state == "rest" and "/table" in s.xpath}
+    cell = "/html/body/table/tbody/tr[3]/td[1]"
+    assert cells[("p1.html", cell)] != cells[("p2.html", cell)]  # each page's own colour
+
+
 def test_the_schemes_of_a_page_share_its_marks_unless_its_rules_read_theirs(tmp_path,
                                                                            monkeypatch):
     """The schemes' walks of a page mark the same tree, but for the attributes a scheme

@@ -137,7 +137,10 @@ class LaidOverIndex:
             self.cue_rules = self.cue_rules + shared.cue_rules
 
     def match(self, wrapper) -> list:
-        found = self.base.match(wrapper)
+        return self.match_over(wrapper, self.base.match(wrapper))
+
+    def match_over(self, wrapper, found) -> list:
+        """``match``, the base's matches given (``found``: not changed)."""
         more = self.own.match(wrapper)
         if more:
             found = found + more

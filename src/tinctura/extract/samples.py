@@ -72,6 +72,10 @@ class StyleCache:
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
         self.inert = {}  # structural id -> _inert(element): it cannot show anything
         self.memo = frag_mod.Memo()  # repeated subtrees
+        # the key an element would have without a page's own rules (``PageWalker._plain``) ->
+        # the rules of the stylesheets it matches: a page's rows, keyed apart, match what the
+        # rows of other pages matched
+        self.base_matches = {}
         self._next = 0
 
     def fresh(self) -> int:
@@ -98,6 +102,7 @@ class StyleCache:
         self.states.clear()
         self.inert.clear()
         self.memo.clear()
+        self.base_matches.clear()
 
 
 class PageWalker:
@@ -115,6 +120,9 @@ class PageWalker:
         # go from the shared cache once the page is done (``forget_own``)
         self._own_ids = set() if overlay is not None else None
         self._own = []  # (cache, key) of what was kept under them
+        # each of them -> the key the element would have without the page's own rules: what
+        # the stylesheets' rules match is the same for equal ones (``StyleCache.base_matches``)
+        self._plain = {}
         # disclosure.Disclosure: closed <details> and tab panels, walked open too (None: none)
         self.disclosure = disclosure or None
         self.exemptions = exemptions  # exempt.Decisions of the page (None: disabled only)
@@ -152,6 +160,9 @@ class PageWalker:
             self._own.append((self.cache.styles, ident))
             if type(element_id) is tuple:
                 self._own.append((self.cache.inert, element_id))
+            self._plain[ident] = self.cache.intern((
+                self._plain.get(parent_id, parent_id),
+                element_id[0] if type(element_id) is tuple else element_id))
         return ident
 
     def forget_own(self) -> None:
@@ -164,6 +175,7 @@ class PageWalker:
                 for pseudo in gone.pseudo.values():  # (a pseudo-element's parent is its
                     pseudo.parent = None  # element's style: a cycle, never collected here)
         self._own.clear()
+        self._plain.clear()
         if self._own_ids is not None:
             self._own_ids.clear()
 
@@ -175,7 +187,15 @@ class PageWalker:
             if is_root:  # rem units below resolve against the root's font size
                 self.resolver.root_font_size = style.font_size
             return style
-        rules = self.index.match(self.structure.wrapper_of(el))
+        plain = self._plain.get(key_id) if self._plain else None
+        if plain is None:
+            rules = self.index.match(self.structure.wrapper_of(el))
+        else:  # keyed apart by the page's own rules: the stylesheets' part is known
+            wrapper = self.structure.wrapper_of(el)
+            base = self.cache.base_matches.get(plain)
+            if base is None:
+                base = self.cache.base_matches[plain] = self.index.base.match(wrapper)
+            rules = self.index.match_over(wrapper, base)
         inline = el.get("style")
         inline_decls = parse_declarations(inline) if inline else ()
         winners = cascade(rules, inline_decls, self.ruleset)
