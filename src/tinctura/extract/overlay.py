@@ -226,16 +226,14 @@ class Overlay:
         # every colour scheme: worked out once for the page's tree (``page_marks``: a dict per
         # page); the others', per scheme (the fixes' overrides: 20 of 1,800 rules)
         plain, reading = _split(rules, attributes, ruleset)
-        self._plain, self._reading = [g for g in (plain,) if g], [g for g in (reading,) if g]
+        block = self._block = getattr(ruleset, "shared", None)
+        more = block.groups(env, attributes) if block is not None else (None, None)
+        self._plain = [g for g in (plain, more[0]) if g is not None]
+        self._reading = [g for g in (reading, more[1]) if g is not None]
         self._parts = {}  # id(rule) -> what the rule is, by value
         shared_sheets = getattr(ruleset, "shared_sheets", ())
         self._shared = {id(r) for r in rules if r.sheet in shared_sheets} \
             if shared_sheets else set()
-        self._block = block = getattr(ruleset, "shared", None)
-        if block is not None:
-            plain, reading = block.groups(env, attributes)
-            self._plain += [g for g in (plain,) if g]
-            self._reading += [g for g in (reading,) if g]
         self._page_marks = page_marks
 
     def marks(self, root, wrapper_of, opened: bool = False) -> tuple:
@@ -297,9 +295,9 @@ class Overlay:
 def _split(rules, attributes, ruleset) -> tuple:
     """``rules`` as ``(those reading none of a scheme's attributes, those reading one)``, each a
     ``_Group`` or None where there are none."""
-    reading = [r for r in rules if _reads(r.selector_text.lower(), attributes)]
-    plain = [r for r in rules if not _reads(r.selector_text.lower(), attributes)] \
-        if reading else rules
+    reads = [_reads(r.selector_text.lower(), attributes) for r in rules]
+    reading = [r for r, read in zip(rules, reads) if read]
+    plain = [r for r, read in zip(rules, reads) if not read] if reading else rules
     return (_Group(plain, ruleset) if plain else None,
             _Group(reading, ruleset) if reading else None)
 
