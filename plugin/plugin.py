@@ -535,7 +535,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             with_findings = [r.result.page for r in records if r.findings]  # (counts)
             loader = self.site.loader if self.site is not None else None
             # what the log and the reports will locate, while the worker rechecks pages
-            meanwhile = (lambda: outputs.locate_ahead(aid, found)) \
+            meanwhile = (lambda _ready: outputs.locate_ahead(aid, found)) \
                 if self.config.report or log.isEnabledFor(logging.WARNING) else None
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,

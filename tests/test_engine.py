@@ -445,36 +445,49 @@ def test_verify_split_with_a_helper_marks_as_alone(site, monkeypatch):
 def test_verify_does_its_own_work_meanwhile_while_the_helper_rechecks(site):
     """``meanwhile`` (the command line locates the reports' examples there) runs once the
     helper's workers are under way and before their answers are awaited, also with no
-    helper; the verdicts are those without it."""
+    helper; it is told whether every answer is in, where the helper can tell (else None);
+    the verdicts are those without it."""
     from tinctura import overrides
 
     options = Options(keep_samples=False)
     pages = [f"p{n}/index.html" for n in range(3)]
-    events = []
+    events, in_yet = [], []
 
-    def helper(css, share):
+    def helper(css, share, telling=False):
         events.append("started")
 
         def answer():
             events.append("awaited")
             return overrides.recheck(str(site), options, css, share)
+        if telling:
+            answer.ready = lambda: bool(in_yet)
         return answer
 
-    helper.all_shares = True  # (warm workers take every share, as ``pools_kept``'s)
+    def telling(css, share):
+        return helper(css, share, telling=True)
+
+    def meanwhile(ready):
+        events.append("meanwhile")
+        told.append(ready if ready is None else ready())
+        in_yet.append(1)
+        told.append(ready if ready is None else ready())
+
+    helper.all_shares = telling.all_shares = True  # (warm workers take every share)
     verdicts = []
-    for use in (helper, None):
-        del events[:]
+    for use in (helper, telling, None):
+        del events[:], in_yet[:]
+        told = []
         override = overrides.Override("site.css", [overrides.Rule(".faint", (("color", "#595959",
                                                                             False),))])
         counts = overrides.verify(str(site), options, [_faint_problem(site, options)],
-                                  [override], pages, helper=use,
-                                  meanwhile=lambda: events.append("meanwhile"))
+                                  [override], pages, helper=use, meanwhile=meanwhile)
         verdicts.append((override.verified, counts))
-        if use is helper:
-            assert events == ["started", "started", "meanwhile", "awaited", "awaited"]
+        if use is None:
+            assert events == ["meanwhile"] and told == [None, None]
         else:
-            assert events == ["meanwhile"]
-    assert verdicts[0] == verdicts[1] and verdicts[0][0] is True
+            assert events == ["started", "started", "meanwhile", "awaited", "awaited"]
+            assert told == ([None, None] if use is helper else [False, True])
+    assert verdicts[0] == verdicts[1] == verdicts[2] and verdicts[0][0] is True
 
 
 def test_verify_caches_every_round_of_a_build(site, monkeypatch):
@@ -839,3 +852,24 @@ def test_texts_on_several_backgrounds_are_judged_as_against_each_one():
         if expected:
             assert f"{min(ratios):.2f}:1 to {max(ratios):.2f}:1" in sample.reason
 
+
+
+def test_kept_spread_runs_the_first_item_here_and_the_others_in_the_kept_workers():
+    import multiprocessing
+    import os
+
+    from tinctura import engine
+
+    assert engine.kept_spread("/nowhere") is None  # no workers kept
+    with engine.pools_kept():
+        engine._KEPT["/site"] = multiprocessing.get_context("fork").Pool(2)
+        results = engine.kept_spread("/site")(_pid_and_square, [1, 2, 3, 4])
+    assert [n for _, n in results] == [1, 4, 9, 16]  # in order
+    assert results[0][0] == os.getpid()
+    assert all(pid != os.getpid() for pid, _ in results[1:])
+
+
+def _pid_and_square(n):
+    import os
+
+    return os.getpid(), n * n

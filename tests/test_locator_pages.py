@@ -120,3 +120,33 @@ def test_places_share_their_ancestors_landmarks(tmp_path):
                      for name in names)
     assert first.landmarks == second.landmarks
     assert all(a is b for a, b in zip(first.landmarks, second.landmarks))
+
+
+def test_places_located_in_other_processes_are_those_located_here(tmp_path):
+    # past the fixes' verification the check's workers idle: the pages left to locate are
+    # read by them too (``engine.kept_spread``), a share each; ``until`` stops before a page
+    from types import SimpleNamespace
+
+    from tinctura import writer
+
+    names = _site(tmp_path, [1000] * (writer.SPREAD_PAGES + 3))
+    asked = [SimpleNamespace(page=name, xpath=xpath, text="x")
+             for name in names for xpath in ("/html/body/p", "/html/body", "/html/body/nav")]
+    here = writer.WriterAid(str(tmp_path))
+    want = {(s.page, s.xpath): here.locate(s) for s in asked}
+    elsewhere = writer.WriterAid(str(tmp_path))
+    ticks = []
+    elsewhere.locate_all(asked, until=lambda: ticks.append(1) or len(ticks) > 2)
+    assert len(elsewhere._cache) == 2 * 3  # two pages, then it stopped
+    shared = []
+
+    def spread(func, items):  # as engine.kept_spread, each item pickled as it would be
+        import pickle
+        shared.append(len(items))
+        return [pickle.loads(pickle.dumps(func(pickle.loads(pickle.dumps(item)))))
+                for item in items]
+
+    elsewhere.locate_all(asked, spread=spread)
+    assert shared == [3]
+    assert {key: elsewhere.locate(s) for s in asked for key in [(s.page, s.xpath)]} == want
+    assert want[(names[0], "/html/body/nav")] == writer.Location("")  # no such element

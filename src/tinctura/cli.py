@@ -359,9 +359,12 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
         # with --jobs N the check's workers, kept, recheck the verification pages (where
         # none were kept, a worker forked now rechecks half of them beside this process)
         with engine.recheck_helper(aid.site_root, options, loader) as helper:
-            # (while the workers recheck, this process locates the reports' examples)
+            # while the workers recheck, this process locates the reports' examples; once
+            # they are done, the workers take a share of the pages left
             aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
-                               helper=helper, meanwhile=lambda: outputs.locate_ahead(aid, found))
+                               helper=helper,
+                               meanwhile=lambda ready: outputs.locate_ahead(aid, found, ready))
+            outputs.locate_ahead(aid, found, spread=engine.kept_spread(aid.site_root))
     header = report.Header(
         scope=report.scope_of(args.paths, options),
         version=version(),

@@ -1138,11 +1138,35 @@ def _pool_helper(pool, all_shares: bool, split_in: str | None = None):
                 return pending.get(timeout=PAGE_TIMEOUT_S)
             except Exception:
                 return None
+        answer.ready = pending.ready  # (``overrides.verify``: whether it is in)
         return answer
 
     helper.all_shares = all_shares or split_in is not None
     helper.splits = split_in is not None  # one share: every page
     return helper
+
+
+def kept_spread(root: str):
+    """``spread(func, items)``: ``func`` over ``items`` in order, the first here while the
+    workers the check of ``root`` kept (``pools_kept``) take the others; None when none were
+    kept. (``writer.WriterAid.locate_all``: the pages the reports' examples are on, read again
+    by three processes.) A worker that fails leaves its items to this process."""
+    pool = (_KEPT or {}).get(root)
+    if pool is None:
+        return None
+
+    def spread(func, items):
+        try:
+            pending = pool.map_async(func, items[1:], chunksize=1)
+        except Exception:
+            pending = None
+        first = func(items[0])
+        try:
+            rest = pending.get(timeout=PAGE_TIMEOUT_S) if pending is not None else None
+        except Exception:
+            rest = None
+        return [first] + (rest if rest is not None else [func(item) for item in items[1:]])
+    return spread
 
 
 def _worker_recheck(args):

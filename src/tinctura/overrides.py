@@ -826,8 +826,9 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     whose ``splits`` is true takes every page as one share (a lone worker that splits them
     with a copy of itself).
     What is found is the same wherever a page is checked: the answers are unions.
-    ``meanwhile()``: work of this process's own, done while the helper's workers recheck
-    their shares (the reports' places located: it waited for them, idle)."""
+    ``meanwhile(ready)``: work of this process's own, done while the helper's workers
+    recheck their shares (the reports' places located: it waited for them, idle); ``ready()``
+    tells whether every share they took is in (None where the helper cannot tell)."""
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
@@ -843,7 +844,9 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     away = shares if getattr(helper, "all_shares", False) else shares[1:]
     started = [(share, helper(css, share)) for share in away]  # under way while this works
     if meanwhile is not None:
-        meanwhile()
+        answers = [answer for _, answer in started if answer is not None]
+        told = answers and all(hasattr(answer, "ready") for answer in answers)
+        meanwhile((lambda: all(answer.ready() for answer in answers)) if told else None)
     found = [recheck(site_root, options, css, share, loader)
              for share in shares[:len(shares) - len(away)]]
     for share, answer in started:  # a helper that could not start (None) or failed: here

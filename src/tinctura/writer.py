@@ -46,37 +46,45 @@ class WriterAid:
     # -- locations -----------------------------------------------------------------------
 
     def locate(self, sample) -> Location:
-        key = (sample.page, sample.xpath)
-        got = self._cache.get(key)
+        got = self._cache.get((sample.page, sample.xpath))
         if got is not None:
             return got
         el = self.pages.element(sample.page, sample.xpath)
-        if el is None:
-            got = Location("")
-        else:
-            # (an ancestor's landmark, one object for every place below it: 17,000 places
-            # each held their ancestors' anew, 2.7 KB a place)
-            marks = tuple(self._landmarks.setdefault(mark, mark) for mark in landmarks(el))
-            source = None
-            if self.sources is not None and sample.text:
-                own = " ".join("".join(el.itertext()).split())
-                source = self.sources.locate(sample.page, sample.text, marks, own)
-            got = Location(readable(el) + pseudo(sample.xpath), source, marks)
-        if len(self._cache) > self._room:
-            self._cache.clear()
-            self._room = LOCATED_MOST
-        self._cache[key] = got
-        return got
+        return self._located(sample, None if el is None else tree_part(
+            el, sample.xpath, self.sources is not None and bool(sample.text)))
 
     __call__ = locate  # reports call the aid itself to locate a sample
 
-    def locate_all(self, samples) -> None:
+    def _located(self, sample, part) -> Location:
+        """The Location of ``sample`` from what its page's tree gave (``tree_part``; None: no
+        such element), kept."""
+        if part is None:
+            got = Location("")
+        else:
+            locator, marks, own = part
+            # (an ancestor's landmark, one object for every place below it: 17,000 places
+            # each held their ancestors' anew, 2.7 KB a place)
+            marks = tuple(self._landmarks.setdefault(mark, mark) for mark in marks)
+            source = None
+            if self.sources is not None and sample.text:
+                source = self.sources.locate(sample.page, sample.text, marks, own)
+            got = Location(locator, source, marks)
+        if len(self._cache) > self._room:
+            self._cache.clear()
+            self._room = LOCATED_MOST
+        self._cache[(sample.page, sample.xpath)] = got
+        return got
+
+    def locate_all(self, samples, until=None, spread=None) -> None:
         """``locate`` the places of ``samples``, page by page (a page is parsed once), and keep
         them all for the report that asks for them: it asks problem by problem, which jumps
         between pages (each page's trees are kept within a budget: ``locator.Pages``). Kept
         up to a bound instead, the rest were located as the report asked, parsing pages again:
         1,000 pages with problems of their own name 17,000 places, and the report took 24 s of
-        a 60 s check. A place is named in several problems' sentences: counted once."""
+        a 60 s check. A place is named in several problems' sentences: counted once.
+        ``until()``: stop before the next page once it is true (the rest is located later);
+        ``spread(func, items)``: ``func`` over ``items`` in other processes too
+        (``engine.kept_spread``): the trees of the pages are read there, a share each."""
         places = {}
         for sample in samples:
             key = (sample.page, sample.xpath)
@@ -84,8 +92,30 @@ class WriterAid:
                 places.setdefault(key, sample)
         # (a Location is a few hundred bytes; the problems that name them hold far more)
         self._room = max(self._room, len(self._cache) + len(places) + LOCATED_MOST)
-        for sample in sorted(places.values(), key=lambda s: s.page):
-            self.locate(sample)
+        pages: dict = {}
+        for sample in places.values():
+            pages.setdefault(sample.page, []).append(sample)
+        pages = sorted(pages.items())
+        if spread is not None and len(pages) >= SPREAD_PAGES:
+            self._spread(pages, spread)
+            return
+        for _, located in pages:
+            if until is not None and until():
+                return
+            for sample in located:
+                self.locate(sample)
+
+    def _spread(self, pages, spread) -> None:
+        """``locate_all``'s pages in three shares, two of them read in other processes."""
+        text = self.sources is not None
+        shares = [pages[n::3] for n in range(3)]
+        items = [(self.site_root, self.pages.behaviours, text,
+                  [(page, [s.xpath for s in located]) for page, located in share])
+                 for share in shares]
+        for share, parts in zip(shares, spread(tree_parts, items)):
+            for _, located in share:
+                for sample in located:
+                    self._located(sample, parts.get((sample.page, sample.xpath)))
 
     def locator(self, page: str, xpath: str) -> str:
         """The readable locator of any element of a page (an ancestor a colour came from)."""
@@ -250,6 +280,7 @@ class WriterAid:
 # the elements of rules they took over
 NARROWING_ROUNDS = 2
 LOCATED_MOST = 4096  # places' locations kept beyond a report's (WriterAid.locate)
+SPREAD_PAGES = 12  # pages left to locate worth reading in other processes too
 
 
 def _to_narrow(problems, planned) -> frozenset:
@@ -279,6 +310,27 @@ def _gather_taken(planned, exclude: dict) -> bool:
             more = more or not rules <= known
             known |= rules
     return more
+
+
+def tree_part(el, xpath: str, text: bool) -> tuple:
+    """What locating a place reads of its page's tree: ``(readable locator, landmarks, the
+    element's own text where ``text``, else "")``."""
+    own = " ".join("".join(el.itertext()).split()) if text else ""
+    return readable(el) + pseudo(xpath), tuple(landmarks(el)), own
+
+
+def tree_parts(item) -> dict:
+    """``tree_part`` of each place of ``item``: ``(site root, script behaviours, text, [(page,
+    [xpath])])``; None for a place whose element is not there. Runs in another process
+    (``WriterAid.locate_all``'s ``spread``): each page is parsed once."""
+    root, behaviours, text, places = item
+    pages = Pages([root], behaviours)
+    out = {}
+    for page, xpaths in places:
+        for xpath in xpaths:
+            el = pages.element(page, xpath)
+            out[(page, xpath)] = None if el is None else tree_part(el, xpath, text)
+    return out
 
 
 def script_behaviours(options) -> tuple:

@@ -178,7 +178,7 @@ def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=
                    colour_choice=colour_choice)
 
 
-def locate_ahead(aid, problems) -> None:
+def locate_ahead(aid, problems, until=None, spread=None) -> None:
     """Locate each problem's worst occurrence and the examples its sentence names, page by
     page: reports ask for them problem by problem, and the examples of one problem are on
     different pages, so asked in that order the pages kept parsed (``locator.Pages``) were
@@ -187,4 +187,5 @@ def locate_ahead(aid, problems) -> None:
         return
     from .text_report import examples
 
-    aid.locate_all([f.sample for p in problems for f in examples(p.example_pool(), p.worst)])
+    aid.locate_all([f.sample for p in problems for f in examples(p.example_pool(), p.worst)],
+                   until, spread)
