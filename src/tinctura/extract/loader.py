@@ -285,8 +285,7 @@ class SheetLoader:
             if parsed is not None:
                 self._expand(parsed, (e[2],) if e[2] else (), (), own, layers, set(), found,
                              base=os.path.dirname(page_path))
-        marked_by = overlay_mod.marking(own) if not layers and overlay_mod.can_lay_over(own) \
-            else None
+        marked_by = overlay_mod.marking(own) if not layers else None
         if marked_by is None:
             return None
         base, read, count = self._base(entries[:trailing], page_path, source, diags)
@@ -311,7 +310,7 @@ class SheetLoader:
         if not all(isinstance(r, StyleRule) for r in parsed.rules) or parsed.layer_names:
             return None
         rules = [dataclasses.replace(r) for r in parsed.rules]  # (numbered for this base)
-        marking = overlay_mod.marking(rules) if overlay_mod.can_lay_over(rules) else None
+        marking = overlay_mod.marking(rules)
         if marking is None:
             return None
         block = overlay_mod.SharedBlock(base, rules, marking)

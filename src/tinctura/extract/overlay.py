@@ -37,13 +37,17 @@ from .sheet import _DYNAMIC_RE, _rightmost_attrs, compile_one
 
 def can_lay_over(rules) -> bool:
     """Whether ``rules`` (a page's trailing ``<style>`` blocks) can be laid over the rule set
-    before them, as far as their layers and ``:has()`` tell (``marking`` tells the rest)."""
+    before them, as far as their layers and ``:has()`` tell (``marking`` asks it, and
+    tells the rest)."""
     return all(not r.layer and ":has(" not in r.selector_text for r in rules)
 
 
 def marking(rules) -> list | None:
     """``rules`` as ``Overlay`` marks with them, a rule of a state relaxed (``_relaxed``);
-    None where one cannot be: the blocks are not laid over."""
+    None where they cannot be laid over (``can_lay_over``) or one cannot be relaxed: the
+    blocks are not laid over."""
+    if not can_lay_over(rules):
+        return None
     out = []
     for rule in rules:
         if rule.dynamic:
