@@ -591,11 +591,16 @@ class HasIndex:
 
 
 def _simple_has(compound: str):
-    """``(test of A or None, reach, test of B, B's tag or None)`` for ``A:has(B)``,
+    """``(test of A or None, reach, test of B, B's tag or None, finder)`` for ``A:has(B)``,
     ``A:has(> B)``, ``A:has(+ B)`` or ``A:has(~ B)`` (``reach``: " ", ">", "+", "~") where A
     and B test only the element they apply to (``_tests_element_only``; A may be empty:
     ``:has(> img)`` tests every element, and may go on after the ``:has()``:
-    ``:has(> code):not(pre)``); None otherwise. Tests take lxml elements."""
+    ``:has(> code):not(pre)``); None otherwise. Tests take lxml elements.
+
+    ``finder``: an XPath listing, of the elements B could be at (``reach``), those with what B
+    needs of their attributes, where it names an id, a class or states (``_finder``); else
+    None. A ``:has()`` on the page's root or body reads every element, and one naming a
+    state is asked again at every state walk's target."""
     lower = compound.lower()
     at = lower.find(":has(")
     if at < 0 or lower.count(":has(") != 1:
@@ -609,6 +614,7 @@ def _simple_has(compound: str):
     arg = compound[at + 5:end].strip()
     reach = arg[0] if arg[:1] in (">", "+", "~") else " "
     arg = arg[1:].strip() if reach != " " else arg
+    arg, states = _stated(arg)
     if not arg or not _tests_element_only(outer) or not _tests_element_only(arg):
         return None
     outer_test = _sibling_test(outer) if outer and outer != "*" else None
@@ -618,8 +624,67 @@ def _simple_has(compound: str):
     if root:
         outer_test = (lambda el, test=outer_test: el.getparent() is None and
                       (test is None or test(el)))
-    tag = _requirements(tinycss2.parse_component_value_list(arg)).tag
-    return (outer_test, reach, arg_test, tag if tag not in (None, "*") else None)
+    req = _requirements(tinycss2.parse_component_value_list(arg))
+    tag = req.tag if req.tag not in (None, "*") else None
+    return (outer_test, reach, arg_test, tag, _finder(reach, req, states))
+
+
+# where B of `A:has(B)` is looked for, by ``reach`` (``_has_simple``)
+_AXES = {" ": "descendant::*", ">": "child::*", "~": "following-sibling::*",
+         "+": "following-sibling::*[1]"}
+
+
+def _finder(reach: str, req, states):
+    """An XPath of the elements at ``reach`` that may match a compound requiring ``req`` and
+    one of the attributes ``states`` (``_stated``, or None): a superset (a class or id is
+    looked for as a part of the attribute's text), which the compound's test then sorts;
+    None where it names none of these."""
+    needs = []
+    if states:
+        needs.append(" or ".join("@" + name for name in states))
+    name = req.ident if req.ident is not None else (min(req.classes) if req.classes else None)
+    if name is not None and "'" not in name:
+        needs.append(f"contains(@{'id' if req.ident is not None else 'class'}, '{name}')")
+    if not needs:
+        return None
+    return etree.XPath(_AXES[reach] + "".join(f"[{need}]" for need in needs))
+
+
+def _stated(arg: str) -> tuple:
+    """``(arg, None)`` for an argument naming no state; for one that does (``input:focus``,
+    ``a:is(:hover, :focus)``): ``(arg with its states written as the attributes a state walk
+    sets, those of which it needs one or None)``. It needs one where a state stands in the
+    compound itself or in each selector of an ``:is()`` / ``:where()`` list of it; one inside
+    ``:not()`` needs none (``:not(:hover)`` holds of an element in no state)."""
+    from .sheet import STATE_ATTR, _DYNAMIC_RE, with_state_attributes
+
+    if _DYNAMIC_RE.search(arg) is None:
+        return arg, None
+    arg = with_state_attributes(arg)
+    for token in tinycss2.parse_component_value_list(arg):
+        needed = []
+        if token.type == "[] block":
+            needed = _state_attributes([token], STATE_ATTR)
+        elif token.type == "function" and token.lower_name in ("is", "where", "matches"):
+            each = [_state_attributes(s, STATE_ATTR)[:1] for s in split_commas(token.arguments)]
+            if all(each):
+                needed = [name for one in each for name in one]
+        if needed:
+            return arg, tuple(dict.fromkeys(needed))
+    return arg, None
+
+
+def _state_attributes(tokens, prefix: str) -> list:
+    """The state attributes (``[data-tinctura-state-hover]``) among ``tokens``, at their top
+    level."""
+    out = []
+    for token in tokens:
+        if token.type == "[] block":
+            inner = significant(token.content)
+            if len(inner) == 1 and inner[0].type == "ident" and \
+                    inner[0].lower_value.startswith(prefix):
+                out.append(inner[0].lower_value)
+    return out
 
 
 _ROOT = re.compile(r":root(?![\w-])", re.I)
@@ -682,9 +747,11 @@ def _lone(el):
 
 
 def _has_simple(el, spec) -> bool:
-    outer, reach, arg, tag = spec
+    outer, reach, arg, tag, find = spec
     if outer is not None and not outer(el):
         return False
+    if find is not None:  # (``arg`` tests the tag too)
+        return any(arg(d) for d in find(el))
     if reach == "+":  # the next element sibling only
         after = next(el.itersiblings(Element), None)
         return after is not None and (tag is None or after.tag.lower() == tag) and arg(after)
