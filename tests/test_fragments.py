@@ -406,3 +406,26 @@ def test_finder_resolves_as_resolve_does_with_positions_counting_comments():
     inner = finder.at((root, ()), "pre/code")
     assert finder.at(inner, "span[2]")[0] is fragments.resolve(root, "pre/code/span[2]")
     assert finder.at(inner, "em")[0] is inner[0]  # missing below a start: the start
+
+
+def test_lines_are_those_of_each_slot_reached_from_the_root():
+    # Placement.lines reaches each slot's element from the previous slot's ancestors
+    # (``_steps``); the lines are those of the elements its positions name from the root,
+    # whatever their order (the root itself, an ancestor of the slot before, a sibling)
+    from lxml import etree
+
+    root = etree.HTML("<div>\n<ul>\n<li><a>1</a></li>\n<li><a>2</a>\n<b>x</b></li>\n</ul>\n"
+                      "<!-- c -->\n<p>\n<span>3</span></p></div>").find(".//div")
+    positions = [(0, 0, 0), (0, 1, 0), (0, 1, 1), (), (0,), (2, 0), (0, 0), (2,), (0, 1, 1)]
+    placement = fragments.Placement.__new__(fragments.Placement)
+    placement.positions, placement._steps = positions, None
+    stamp = fragments.Stamp.__new__(fragments.Stamp)
+    stamp.anchor = root
+    expected = []
+    for where in positions:
+        el = root
+        for i in where:
+            el = el[i]
+        expected.append(el.sourceline)
+    assert placement.lines(stamp) == expected + [0]
+    assert len(set(expected)) > 4  # (elements on lines of their own)

@@ -280,7 +280,7 @@ class Placement:
     """
 
     __slots__ = ("positions", "entries", "situations", "groups", "group_of", "placed", "uid",
-                 "lineless", "layouts", "serial", "group_sids")
+                 "lineless", "layouts", "serial", "group_sids", "_steps")
 
     def __init__(self, findings, anchor):
         """``findings``: ``(relative XPath of the nested fragment, its base, finding, key)``;
@@ -324,6 +324,7 @@ class Placement:
         self.lineless = any(entry[1] < 0 for entry in self.entries) or not self.positions
         self.layouts = {}  # the JSON report's, by order of situations (block_occurrences)
         self.serial = next(_serials)  # names it in another's layouts (ids are reused)
+        self._steps = None  # ``positions`` as ``lines`` walks them (``_steps``)
 
     def named(self):
         """The entries as a page's block names them: on the first page that places them, the
@@ -339,11 +340,17 @@ class Placement:
 
     def lines(self, stamp: Stamp) -> list:
         """The line of each slot at ``stamp``'s place (and 0 last: slot -1, no line)."""
+        steps = self._steps
+        if steps is None:
+            steps = self._steps = _steps(self.positions)
         lines = []
-        for where in self.positions:
-            el = stamp.anchor
-            for i in where:
+        path = [stamp.anchor]  # the elements down to the previous slot's
+        for keep, more in steps:
+            del path[keep + 1:]
+            el = path[keep]
+            for i in more:
                 el = el[i]
+                path.append(el)
             lines.append(el.sourceline or 0)
         lines.append(0)
         return lines
@@ -352,6 +359,23 @@ class Placement:
         """Append the record ``(number,) + place`` of every finding placed at ``stamp`` to
         ``out``; ``numbers``: the number of each group's situation (``groups`` order)."""
         place_block(self.entries, numbers, stamp.new_base, self.lines(stamp), out)
+
+
+def _steps(positions) -> list:
+    """Each position (child indexes below the anchor) as ``(levels shared with the previous
+    one, the indexes below them)``: the links of a navigation section share all but their last
+    steps, so each slot's element is found from the previous one's ancestors (a section of a
+    thousand-page site has hundreds of slots, placed on every page)."""
+    out, previous = [], ()
+    for where in positions:
+        keep = 0
+        for a, b in zip(where, previous):
+            if a != b:
+                break
+            keep += 1
+        out.append((keep, where[keep:]))
+        previous = where
+    return out
 
 
 def _groups(situations) -> list:
