@@ -591,9 +591,10 @@ class HasIndex:
 
 
 def _simple_has(compound: str):
-    """``(test of A or None, reach, test of B, B's tag or None, finder)`` for ``A:has(B)``,
-    ``A:has(> B)``, ``A:has(+ B)`` or ``A:has(~ B)`` (``reach``: " ", ">", "+", "~") where A
-    and B test only the element they apply to (``_tests_element_only``; A may be empty:
+    """``(test of A or None, ((reach, test of B, B's tag or None, finder), ...))`` for
+    ``A:has(B)``, ``A:has(> B)``, ``A:has(+ B)`` or ``A:has(~ B)`` (``reach``: " ", ">", "+",
+    "~"), or a list of these (``A:has(B, > C)``: one alternative each), where A and each B
+    test only the element they apply to (``_tests_element_only``; A may be empty:
     ``:has(> img)`` tests every element, and may go on after the ``:has()``:
     ``:has(> code):not(pre)``); None otherwise. Tests take lxml elements.
 
@@ -611,22 +612,33 @@ def _simple_has(compound: str):
     outer = (compound[:at] + compound[end + 1:]).strip()
     root = bool(_ROOT.search(outer))  # `:root:has(...)`: the page's root element
     outer = _ROOT.sub("", outer) or ("*" if root else "")
-    arg = compound[at + 5:end].strip()
-    reach = arg[0] if arg[:1] in (">", "+", "~") else " "
-    arg = arg[1:].strip() if reach != " " else arg
-    arg, states = _stated(arg)
-    if not arg or not _tests_element_only(outer) or not _tests_element_only(arg):
+    if not _tests_element_only(outer):
         return None
     outer_test = _sibling_test(outer) if outer and outer != "*" else None
-    arg_test = _sibling_test(arg)
-    if (outer and outer != "*" and outer_test is None) or arg_test is None:
+    if outer and outer != "*" and outer_test is None:
         return None
     if root:
         outer_test = (lambda el, test=outer_test: el.getparent() is None and
                       (test is None or test(el)))
+    listed = split_commas(tinycss2.parse_component_value_list(compound[at + 5:end]))
+    alternatives = tuple(map(_has_argument, (tinycss2.serialize(t).strip() for t in listed)))
+    return None if None in alternatives else (outer_test, alternatives)
+
+
+def _has_argument(arg: str):
+    """``(reach, test, tag or None, finder)`` of one relative selector of a ``:has()`` list
+    (``> B``), or None where B does not test only the element it applies to."""
+    reach = arg[0] if arg[:1] in (">", "+", "~") else " "
+    arg = arg[1:].strip() if reach != " " else arg
+    arg, states = _stated(arg)
+    if not arg or not _tests_element_only(arg):
+        return None
+    test = _sibling_test(arg)
+    if test is None:
+        return None
     req = _requirements(tinycss2.parse_component_value_list(arg))
     tag = req.tag if req.tag not in (None, "*") else None
-    return (outer_test, reach, arg_test, tag, _finder(reach, req, states))
+    return reach, test, tag, _finder(reach, req, states)
 
 
 # where B of `A:has(B)` is looked for, by ``reach`` (``_has_simple``)
@@ -747,9 +759,13 @@ def _lone(el):
 
 
 def _has_simple(el, spec) -> bool:
-    outer, reach, arg, tag, find = spec
+    outer, alternatives = spec
     if outer is not None and not outer(el):
         return False
+    return any(_has_one(el, *alternative) for alternative in alternatives)
+
+
+def _has_one(el, reach: str, arg, tag, find) -> bool:
     if find is not None:  # (``arg`` tests the tag too)
         return any(arg(d) for d in find(el))
     if reach == "+":  # the next element sibling only
