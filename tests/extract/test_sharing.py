@@ -438,3 +438,58 @@ def test_sibling_needs_are_the_same_with_and_without_ancestry_numbers(tmp_path):
             assert index.needs_children(el, kids, chains) == plain
             found += plain is not None
     assert found >= 4
+
+
+def test_a_has_reading_a_state_holds_its_answers_at_rest_while_other_elements_are_in_one(
+        tmp_path, monkeypatch):
+    # `body:has(input:focus + label)` changes only while an input is focused: at the links'
+    # state walks no element in a state is an input, so the body's answers are those with
+    # none in a state, kept (cssselect2 read the whole page for each link before). The
+    # samples equal those of asking cssselect2 every time, the input focused turns dark,
+    # and a page whose source writes a state's attribute itself is asked every time
+    from tinctura.engine import check_paths
+    from tinctura.extract.siblings import HasIndex
+
+    (tmp_path / "site.css").write_text(
+        "body { background: #ffffff } input { background: #ffffff; color: #444444 }"
+        " body:has(input:focus + label) input { background: #202020; color: #eeeeee }"
+        " a { color: #444444 } a:hover, a:focus { color: #555555 }")
+    # (links of classes of their own: each link's states walked, not shared)
+    links = "".join(f'<li><a class="l{i}" href="#p{i}">page {i}</a></li>' for i in range(20))
+
+    def page(name, attrs=""):
+        (tmp_path / name).write_text(
+            '<!doctype html><html><head><link rel="stylesheet" href="site.css"></head><body>'
+            f'<form><input type="text" value="tide"{attrs}><label>Find</label></form>'
+            f'<ul>{links}</ul></body></html>')
+
+    page("a.html")
+    asked = []
+    real = HasIndex.answers_of
+
+    def counted(self, el, candidates, wrapper_of):
+        if el.tag == "body":
+            asked.append(el)
+        return real(self, el, candidates, wrapper_of)
+
+    def samples():
+        asked.clear()
+        report = check_paths([str(tmp_path)], Options(jobs=1))
+        return sorted((p.page, s.xpath, s.state, to_hex(s.fg), to_hex(s.bg))
+                      for p in report.pages for s in p.samples
+                      if s.bg is not None and s.fg is not None)
+
+    monkeypatch.setattr(HasIndex, "answers_of", counted)
+    kept = samples()
+    assert ("a.html", "/html/body/form/input", "focus", "#eeeeee", "#202020") in kept
+    assert ("a.html", "/html/body/ul/li[2]/a", "focus", "#555555", "#ffffff") in kept
+    kept_asked = len(asked)
+    monkeypatch.setattr(HasIndex, "unmoved", lambda self, candidates, marked: False)
+    assert samples() == kept
+    assert kept_asked < len(asked)  # (more on a real page: a scroll spy, menus opened)
+    page("b.html", ' data-tinctura-state-focus=""')  # (hostile: its input focused at rest)
+    monkeypatch.undo()
+    kept = samples()
+    assert ("b.html", "/html/body/form/input", "rest", "#eeeeee", "#202020") in kept
+    monkeypatch.setattr(HasIndex, "unmoved", lambda self, candidates, marked: False)
+    assert samples() == kept

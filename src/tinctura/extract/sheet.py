@@ -58,12 +58,22 @@ def mark_states(target, on_self, on_path=()) -> list:
             if el.get(attr) is None:
                 el.set(attr, "")
                 marked.append((el, attr))
+                IN_A_STATE[el] = IN_A_STATE.get(el, 0) + 1
     return marked
 
 
 def unmark_states(marked) -> None:
     for el, attr in marked:
         del el.attrib[attr]
+        left = IN_A_STATE.pop(el, 1) - 1
+        if left:
+            IN_A_STATE[el] = left
+
+
+# the elements ``mark_states`` has put in a state, with how many state attributes each (a
+# state walk's target and, for some states, its ancestors): ``Structure`` reads them instead
+# of looking for the attributes in the whole page
+IN_A_STATE: dict = {}
 DYNAMIC = ("hover", "focus-visible", "focus-within", "focus", "active", "visited", "target",
            "target-within", "user-invalid", "user-valid", "autofill", "-webkit-autofill")
 _DYNAMIC_RE = re.compile(r":(%s)(?![\w-])" % "|".join(re.escape(d) for d in DYNAMIC), re.I)

@@ -521,6 +521,7 @@ class HasIndex:
         self._memo = {}
         self._answers = {}  # (compound, serialization length, hash) -> its answer
         self._simple = {}  # compound text -> _simple_has(compound text)
+        self._skeletons = {}  # compound reading a state -> ``_state_skeletons``
         # compounds reading a state (`li:has(a:hover)`): their answers change while a state
         # walk marks an element, so they are not kept (``Structure.answered``)
         self.dynamic = set()
@@ -538,6 +539,7 @@ class HasIndex:
                     return
                 if dynamic:
                     self.dynamic.add(compound)
+                    self._skeletons[compound] = _state_skeletons(compound)
                 seen[compound] = compiled.test
                 self.own.add(req, (compound, compiled.test))
                 self._simple[compound] = _simple_has(compound)
@@ -559,6 +561,30 @@ class HasIndex:
 
     def could_match(self, el) -> bool:
         return bool(self.candidates(el))
+
+    def unmoved(self, candidates, marked) -> bool:
+        """Whether the answers of ``candidates`` are those with no element in a state, where
+        the elements ``marked`` are in one: none of them is what a compound reading a state
+        names but the state (``_state_skeletons``), so each such compound holds of no element
+        now, as with none in a state."""
+        for text, _ in candidates:
+            if text not in self.dynamic:
+                continue
+            found = self._skeletons.get(text)
+            if found is None or any(test(el) for test in found[0] for el in marked):
+                return False
+        return True
+
+    def at_rest(self, el, candidates, wrapper_of) -> tuple:
+        """``answers_of`` with no element in a state (or none that matters, ``unmoved``): a
+        compound that holds of nothing then (``_state_skeletons``) is not asked."""
+        skeletons = self._skeletons
+        asked = [c for c in candidates if not (c[0] in skeletons and skeletons[c[0]] is not None
+                                               and skeletons[c[0]][1])]
+        if len(asked) == len(candidates):
+            return self.answers_of(el, candidates, wrapper_of)
+        found = iter(self.answers_of(el, asked, wrapper_of) if asked else ())
+        return tuple(False if c not in asked else next(found) for c in candidates)
 
     def answers_of(self, el, candidates, wrapper_of) -> tuple:
         """``answers`` for ``el``, each compound on its own. ``A:has(B)``, ``A:has(> B)``,
@@ -588,6 +614,62 @@ class HasIndex:
                 hit = self._answers[key] = test(wrapper)
             out.append(hit)
         return tuple(out)
+
+
+def _state_skeletons(compound: str):
+    """``(tests, never at rest)``: tests of an element for what each compound of ``compound``
+    that reads a state (``a:hover`` in ``li:has(a:hover span)``) names besides its states
+    (``a``), and whether ``compound`` holds of no element while none is in a state (a state
+    outside the ``:has()``, or in each selector of its list); None where a state stands
+    inside a function other than the ``:has()`` itself (``:not(:hover)`` holds of elements in
+    no state) or such a compound does not test only the element it applies to."""
+    from .sheet import _DYNAMIC_RE
+
+    tokens = tinycss2.parse_component_value_list(compound)
+    outer, inner = [], []
+    for token in tokens:
+        if token.type == "function" and token.lower_name == "has":
+            inner += split_commas(token.arguments)
+            if outer and outer[-1].type == "literal" and outer[-1].value == ":":
+                outer.pop()  # (the colon of `:has(`)
+        elif token.type in ("function", "() block") and \
+                _DYNAMIC_RE.search(tinycss2.serialize([token])):
+            return None
+        else:
+            outer.append(token)
+    tests, stated = [], []  # (whether each part reads a state)
+    for part in [outer] + inner:
+        stated.append(False)
+        for piece in _compounds_of(part):
+            text = tinycss2.serialize(piece).strip()
+            if _DYNAMIC_RE.search(text) is None:
+                continue
+            if any(t.type in ("function", "() block") and
+                   _DYNAMIC_RE.search(tinycss2.serialize([t])) for t in piece):
+                return None
+            test = _sibling_test(_DYNAMIC_RE.sub("", text).strip() or "*")
+            if test is None:
+                return None
+            tests.append(test)
+            stated[-1] = True
+    return tests, stated[0] or (len(stated) > 1 and all(stated[1:]))
+
+
+def _compounds_of(tokens) -> list:
+    """A selector's tokens cut into compounds at its combinators (whitespace, ``>``, ``+``,
+    ``~``)."""
+    out, piece = [], []
+    for token in tokens:
+        if token.type in ("whitespace", "comment") or (
+                token.type == "literal" and token.value in (">", "+", "~")):
+            if piece:
+                out.append(piece)
+            piece = []
+        else:
+            piece.append(token)
+    if piece:
+        out.append(piece)
+    return out
 
 
 def _simple_has(compound: str):

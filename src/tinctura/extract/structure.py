@@ -10,10 +10,12 @@ structural ids, are kept in a ``PageStructure`` that every scheme's walk of the 
 from __future__ import annotations
 
 import cssselect2
+from lxml import etree
 from lxml.etree import Element
 
 from .html import own_text
 from .ruleset import _proxy
+from .sheet import IN_A_STATE
 from .siblings import FIRST, FULL, INDEX, LAST, TYPE, fits
 
 LIMIT = 60000
@@ -21,6 +23,10 @@ HAS_SUBTREE = -1  # in Structure.raw_ids: an element whose id depends on its sub
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
 # needs wrappers of its own.
 WRAPPER_CACHED = frozenset({"class", "id", "lang", "xml:lang"})
+
+
+# the elements of a page with a state's attribute written in its source, found by libxml2
+_STATED = etree.XPath("//*[@*[starts-with(name(), 'data-tinctura-state-')]]")
 
 
 class Structure:
@@ -39,6 +45,8 @@ class Structure:
         # for an element's id; an answer may read the whole subtree): emptied with each
         # PageStructure and whenever the tree changes
         self.answered = {}
+        # whether the page's source sets a state's attribute itself (``_stated_answers``)
+        self.stated_source = False
         self._next = 0
 
     def intern(self, key) -> int:
@@ -88,12 +96,26 @@ class Structure:
             candidates = self.has.candidates(el)
             if not candidates:
                 answers = self.answered[el] = ()
+            elif not self.has.dynamic or not any(c[0] in self.has.dynamic for c in candidates):
+                answers = self.answered[el] = self.has.answers_of(
+                    el, candidates, wrapper_of or _standalone_wrapper)
             else:
-                answers = self.has.answers_of(el, candidates, wrapper_of or _standalone_wrapper)
-                if not self.has.dynamic or not any(c[0] in self.has.dynamic
-                                                   for c in candidates):
-                    self.answered[el] = answers
+                answers = self._stated_answers(el, candidates, wrapper_of or _standalone_wrapper)
         return answers
+
+    def _stated_answers(self, el, candidates, wrapper_of) -> tuple:
+        """``_answers`` where one of the compounds reads a state (``li:has(a:hover)``): asked
+        again while a state walk marks elements, unless those elements cannot be in any of its
+        compounds that read one (``HasIndex.unmoved``): then the answers are those with no
+        element in a state, kept (a state walk asks at each target for the body's answers)."""
+        has, marked = self.has, IN_A_STATE
+        if self.stated_source or (marked and not has.unmoved(candidates, marked)):
+            return has.answers_of(el, candidates, wrapper_of)
+        at_rest = ("at rest", el)  # (forgotten with the other answers when the tree changes)
+        kept = self.answered.get(at_rest)
+        if kept is None:
+            kept = self.answered[at_rest] = has.at_rest(el, candidates, wrapper_of)
+        return kept
 
     def children(self, el, wrapper_of=None, chains=None) -> list:
         """``(child, structural id, sibling facts)`` for the child elements of ``el``; the
@@ -267,6 +289,8 @@ class PageStructure:
         self._getpath = root.getroottree().getpath
         self._ids = None  # id -> element, made on first use (``by_id``)
         structure.answered = {}
+        structure.stated_source = structure.has is not None and bool(structure.has.dynamic) \
+            and bool(_STATED(root))
         self._reset_wrappers()
 
     def by_id(self, name: str):
