@@ -12,7 +12,8 @@ time again what stands out (``compare_revisions.py`` counts instructions).
 
 The patterns are kinds met in sites' own CSS; the names are this script's own. The first
 sweep (2026-12-05, HISTORY) found eight of them at 3x to 10x a page and two kinds of content
-(an inline SVG diagram, a paragraph of 200 links).
+(an inline SVG diagram, a paragraph of 200 links); the second (2026-12-05 18:00), five
+``:has()`` reading a state on the body, at 3x to 5x the check.
 """
 from __future__ import annotations
 
@@ -54,6 +55,13 @@ PATTERNS = {
                  + " --v60: #1b1b1b } .md-typeset p { color: var(--v0) }",
     "layers": "@layer base, theme; @layer base { .md-typeset p { color: #1b1b1b } }"
               " @layer theme { .md-typeset li { color: #1b1b2b } }",
+    # a :has() whose answer changes with a state, on the body: asked at state walks' targets
+    "has-state": "body:has(.md-search__input:focus) .md-header { color: #1b1b1b }",
+    "has-state-list": "body:has(a:hover, button:hover) .md-header { color: #1b1b1b }",
+    "has-state-is": "body:has(.md-search__input:is(:focus, :hover)) .md-header"
+                    " { color: #1b1b1b }",
+    "has-state-next": "body:has(.md-search__input:focus + label) .md-header { color: #1b1b1b }",
+    "has-state-inside": "body:has(a:hover code) .md-header { color: #1b1b1b }",
 }
 FILLS = ("#e3f2fd", "#fff3e0", "#e8f5e9", "#fce4ec", "#ede7f6", "#263238", "#ffffff", "#b0bec5")
 
