@@ -493,3 +493,22 @@ def test_a_has_reading_a_state_holds_its_answers_at_rest_while_other_elements_ar
     assert ("b.html", "/html/body/form/input", "rest", "#eeeeee", "#202020") in kept
     monkeypatch.setattr(HasIndex, "unmoved", lambda self, candidates, marked: False)
     assert samples() == kept
+
+
+def test_every_element_of_a_has_listing_tags_keeps_its_answer_in_its_key(tmp_path):
+    # `:is(p, li):has(> a)` can match a p or an li: each must carry whether it matches in its
+    # key. Only the list's first tag did: an li matched on one page served its style to an li
+    # that does not on the next (the order pages were checked in changed the report)
+    from tinctura.engine import check_paths
+
+    (tmp_path / "site.css").write_text(
+        "body { background: #ffffff; color: #222222 } :is(p, li):has(> a) { color: #aa0000 }")
+    for name, item in (("a.html", "plain item"), ("b.html", '<a href="#x">link</a> item')):
+        (tmp_path / name).write_text(
+            '<!doctype html><html><head><link rel="stylesheet" href="site.css"></head><body>'
+            f'<ul><li>{item}</li></ul><p>{item}</p></body></html>')
+    report = check_paths([str(tmp_path)], Options(jobs=1))
+    seen = {(p.page, s.xpath): to_hex(s.fg) for p in report.pages for s in p.samples
+            if s.state == "rest"}
+    assert seen[("a.html", "/html/body/ul/li")] == seen[("a.html", "/html/body/p")] == "#222222"
+    assert seen[("b.html", "/html/body/ul/li")] == seen[("b.html", "/html/body/p")] == "#aa0000"

@@ -530,19 +530,24 @@ class HasIndex:
             text = rule.selector_text
             if ":has(" not in text.lower():
                 continue
+            fresh = set()  # compounds first met in this rule: each of their alternatives
             for req, compound in has_compounds(tinycss2.parse_component_value_list(text)):
-                if compound in seen:
+                if compound in seen and compound not in fresh:
                     continue
-                compiled, dynamic = compile_one(compound)
-                if compiled is None:
-                    self.usable = False
-                    return
-                if dynamic:
-                    self.dynamic.add(compound)
-                    self._skeletons[compound] = _state_skeletons(compound)
-                seen[compound] = compiled.test
-                self.own.add(req, (compound, compiled.test))
-                self._simple[compound] = _simple_has(compound)
+                if compound not in seen:
+                    compiled, dynamic = compile_one(compound)
+                    if compiled is None:
+                        self.usable = False
+                        return
+                    if dynamic:
+                        self.dynamic.add(compound)
+                        self._skeletons[compound] = _state_skeletons(compound)
+                    seen[compound] = compiled.test
+                    fresh.add(compound)
+                    self._simple[compound] = _simple_has(compound)
+                # (`:is(p, li):has(a)`: one requirement a tag; the li was not a candidate, its
+                # answer left out of its key, and a cached li's style served another)
+                self.own.add(req, (compound, seen[compound]))
                 self.active = True
 
     def candidates(self, el) -> tuple:
