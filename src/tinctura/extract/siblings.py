@@ -645,7 +645,7 @@ def _state_skeletons(compound: str):
     tests, stated = [], []  # (whether each part reads a state)
     for part in [outer] + inner:
         stated.append(False)
-        for piece in _compounds_of(part):
+        for _, piece in split_compounds(part):
             text = tinycss2.serialize(piece).strip()
             if _DYNAMIC_RE.search(text) is None:
                 continue
@@ -658,23 +658,6 @@ def _state_skeletons(compound: str):
             tests.append(test)
             stated[-1] = True
     return tests, stated[0] or (len(stated) > 1 and all(stated[1:]))
-
-
-def _compounds_of(tokens) -> list:
-    """A selector's tokens cut into compounds at its combinators (whitespace, ``>``, ``+``,
-    ``~``)."""
-    out, piece = [], []
-    for token in tokens:
-        if token.type in ("whitespace", "comment") or (
-                token.type == "literal" and token.value in (">", "+", "~")):
-            if piece:
-                out.append(piece)
-            piece = []
-        else:
-            piece.append(token)
-    if piece:
-        out.append(piece)
-    return out
 
 
 def _simple_has(compound: str):
