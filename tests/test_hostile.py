@@ -300,3 +300,25 @@ def test_parse_html_empty_and_deep_warnings():
         parse_html(b"   ")
     parse_html("<p>shallow</p>")
     assert parser_warnings() == []
+
+
+def test_a_page_writing_the_attributes_the_check_sets_has_them_ignored_and_is_told(tmp_path):
+    # the check marks elements with attributes of its own while it walks (a state in force, a
+    # link in running text, an exemption decided): a page writing them itself would put its
+    # link in a state at rest or in running text. They are taken off, and the page is told;
+    # the samples are those of the page without them
+    css = ("body { background: #ffffff; color: #222222 } a { color: #3355cc }"
+           " a:hover { color: #cc3355 }")
+    clean = page('<nav><a href="#a">menu entry</a></nav><p><b>bold</b></p>')
+    written = page('<nav><a href="#a" data-tinctura-state-hover="" data-tinctura-running="">'
+                   'menu entry</a></nav><p><b data-tinctura-exempt-logotype="">bold</b></p>')
+    found = {}
+    for name, body in (("clean", clean), ("written", written)):
+        root = site(tmp_path / name, {"s.css": css, "a.html": body})
+        report = engine.check_paths([str(root)], engine.Options())
+        found[name] = sorted((s.xpath, s.state, s.fg, s.bg) for p in report.pages
+                             for s in p.samples)
+        notes = [d.message for p in report.pages for d in p.diagnostics]
+    assert found["written"] == found["clean"]
+    assert any("data-tinctura-state-hover (1 element)" in n and "data-tinctura-running" in n
+               and "data-tinctura-exempt-logotype" in n for n in notes), notes

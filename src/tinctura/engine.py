@@ -28,6 +28,8 @@ from contextlib import ExitStack, contextmanager
 from dataclasses import dataclass, field
 from urllib.parse import urlsplit
 
+from lxml import etree
+
 from . import palette as palette_mod
 from . import problems as problems_mod
 from . import situations
@@ -46,6 +48,7 @@ from .extract.loader import SheetLoader
 from .extract.media import Environment
 from .extract.overlay import Overlay
 from .extract.samples import PageWalker, StyleCache
+from .extract.sheet import STATE_ATTR
 from .extract.style import MAX_VAR_TOKENS
 from .extract.structure import PageStructure
 from .model import UNDETERMINED, Diagnostic, PageResult, state_rank
@@ -185,6 +188,10 @@ class Site:
                 return result
             for line, message in parser_warnings():
                 result.diagnostics.append(Diagnostic(rel, message, line=line))
+            written = _own_marks_removed(root, text)
+            if written:
+                result.diagnostics.append(Diagnostic(rel, "the page writes attributes tinctura "
+                                                     "sets while it checks, ignored: " + written))
             refused = _too_many_elements(root, data, self.options.max_elements)
             if refused:
                 raise bounds.Refused(refused)
@@ -373,6 +380,27 @@ def _unrendered_template(root) -> bool:
     syntax, which no rendered page's do. (The links looked at alone: scanning the page's text
     first took ten times as long.)"""
     return any(unrendered(link.get("href") or "") for link in root.iter("link"))
+
+
+# attributes the check sets on a page's elements (a state in force, a link in running text,
+# an exemption decided): a page that writes them itself would put an element in a state at
+# rest or a link in running text
+_OWN_MARKS = (STATE_ATTR, link_mod.RUNNING, exempt_mod.MARK)
+_MARKED = etree.XPath("//*[@*[starts-with(name(), 'data-tinctura-')]]")
+
+
+def _own_marks_removed(root, text: str) -> str:
+    """Take the attributes of ``_OWN_MARKS`` a page's source writes off its elements; what was
+    taken off, for a diagnostic ("" where none was)."""
+    if "data-tinctura-" not in text:
+        return ""
+    taken = {}
+    for el in _MARKED(root):
+        for name in [n for n in el.attrib if n.startswith(_OWN_MARKS)]:
+            del el.attrib[name]
+            taken[name] = taken.get(name, 0) + 1
+    return ", ".join(f"{name} ({n} element{'s' if n > 1 else ''})"
+                     for name, n in sorted(taken.items()))
 
 
 def _is_redirect(data: bytes) -> bool:

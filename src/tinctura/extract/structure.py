@@ -10,7 +10,6 @@ structural ids, are kept in a ``PageStructure`` that every scheme's walk of the 
 from __future__ import annotations
 
 import cssselect2
-from lxml import etree
 from lxml.etree import Element
 
 from .html import own_text
@@ -23,10 +22,6 @@ HAS_SUBTREE = -1  # in Structure.raw_ids: an element whose id depends on its sub
 # Attributes that cssselect2 caches on its element wrappers: a scheme that sets one of them
 # needs wrappers of its own.
 WRAPPER_CACHED = frozenset({"class", "id", "lang", "xml:lang"})
-
-
-# the elements of a page with a state's attribute written in its source, found by libxml2
-_STATED = etree.XPath("//*[@*[starts-with(name(), 'data-tinctura-state-')]]")
 
 
 class Structure:
@@ -45,8 +40,6 @@ class Structure:
         # for an element's id; an answer may read the whole subtree): emptied with each
         # PageStructure and whenever the tree changes
         self.answered = {}
-        # whether the page's source sets a state's attribute itself (``_stated_answers``)
-        self.stated_source = False
         self._next = 0
 
     def intern(self, key) -> int:
@@ -109,7 +102,7 @@ class Structure:
         compounds that read one (``HasIndex.unmoved``): then the answers are those with no
         element in a state, kept (a state walk asks at each target for the body's answers)."""
         has, marked = self.has, IN_A_STATE
-        if self.stated_source or (marked and not has.unmoved(candidates, marked)):
+        if marked and not has.unmoved(candidates, marked):
             return has.answers_of(el, candidates, wrapper_of)
         at_rest = ("at rest", el)  # (forgotten with the other answers when the tree changes)
         kept = self.answered.get(at_rest)
@@ -289,8 +282,6 @@ class PageStructure:
         self._getpath = root.getroottree().getpath
         self._ids = None  # id -> element, made on first use (``by_id``)
         structure.answered = {}
-        structure.stated_source = structure.has is not None and bool(structure.has.dynamic) \
-            and bool(_STATED(root))
         self._reset_wrappers()
 
     def by_id(self, name: str):
