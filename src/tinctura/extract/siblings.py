@@ -522,6 +522,7 @@ class HasIndex:
         self._answers = {}  # (compound, serialization length, hash) -> its answer
         self._simple = {}  # compound text -> _simple_has(compound text)
         self._skeletons = {}  # compound reading a state -> ``_state_skeletons``
+        self._never_at_rest = set()  # those holding of no element while none is in a state
         # compounds reading a state (`li:has(a:hover)`): their answers change while a state
         # walk marks an element, so they are not kept (``Structure.answered``)
         self.dynamic = set()
@@ -541,7 +542,9 @@ class HasIndex:
                         return
                     if dynamic:
                         self.dynamic.add(compound)
-                        self._skeletons[compound] = _state_skeletons(compound)
+                        found = self._skeletons[compound] = _state_skeletons(compound)
+                        if found is not None and found[1]:
+                            self._never_at_rest.add(compound)
                     seen[compound] = compiled.test
                     fresh.add(compound)
                     self._simple[compound] = _simple_has(compound)
@@ -583,13 +586,12 @@ class HasIndex:
     def at_rest(self, el, candidates, wrapper_of) -> tuple:
         """``answers_of`` with no element in a state (or none that matters, ``unmoved``): a
         compound that holds of nothing then (``_state_skeletons``) is not asked."""
-        skeletons = self._skeletons
-        asked = [c for c in candidates if not (c[0] in skeletons and skeletons[c[0]] is not None
-                                               and skeletons[c[0]][1])]
+        never = self._never_at_rest
+        asked = [c for c in candidates if c[0] not in never]
         if len(asked) == len(candidates):
             return self.answers_of(el, candidates, wrapper_of)
         found = iter(self.answers_of(el, asked, wrapper_of) if asked else ())
-        return tuple(False if c not in asked else next(found) for c in candidates)
+        return tuple(False if c[0] in never else next(found) for c in candidates)
 
     def answers_of(self, el, candidates, wrapper_of) -> tuple:
         """``answers`` for ``el``, each compound on its own. ``A:has(B)``, ``A:has(> B)``,
