@@ -361,10 +361,13 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
         with engine.recheck_helper(aid.site_root, options, loader) as helper:
             # while the workers recheck, this process locates the reports' examples; once
             # they are done, the workers take a share of the pages left
+            above = outputs.names_ancestors(specs)
             aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
                                helper=helper,
-                               meanwhile=lambda ready: outputs.locate_ahead(aid, found, ready))
-            outputs.locate_ahead(aid, found, spread=engine.kept_spread(aid.site_root))
+                               meanwhile=lambda ready: outputs.locate_ahead(
+                                   aid, found, ready, ancestors=above))
+            outputs.locate_ahead(aid, found, spread=engine.kept_spread(aid.site_root),
+                                 ancestors=above)
     header = report.Header(
         scope=report.scope_of(args.paths, options),
         version=version(),

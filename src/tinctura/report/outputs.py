@@ -166,7 +166,7 @@ def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=
     from . import FORMATS, render
 
     if specs:
-        locate_ahead(header.locate, problems)
+        locate_ahead(header.locate, problems, ancestors=names_ancestors(specs))
     for name, path in specs:
         view = GateView(findings, FORMATS[name].marked, counts)
         if path:
@@ -178,14 +178,29 @@ def write_reports(specs, stdout, header, pages, findings, problems, diagnostics=
                    colour_choice=colour_choice)
 
 
-def locate_ahead(aid, problems, until=None, spread=None) -> None:
+def locate_ahead(aid, problems, until=None, spread=None, ancestors: bool = False) -> None:
     """Locate each problem's worst occurrence and the examples its sentence names, page by
     page: reports ask for them problem by problem, and the examples of one problem are on
     different pages, so asked in that order the pages kept parsed (``locator.Pages``) were
-    read again (52 parses of 34 pages for a 200-page site's JSON report; 2 ms each)."""
+    read again (52 parses of 34 pages for a 200-page site's JSON report; 2 ms each).
+    ``ancestors``: the elements the worst occurrences' colours are inherited from too
+    (``names_ancestors``)."""
     if aid is None or not hasattr(aid, "locate_all"):
         return
     from .text_report import examples
 
     aid.locate_all([f.sample for p in problems for f in examples(p.example_pool(), p.worst)],
-                   until, spread)
+                   until, spread, ancestors=[(p.worst.sample.page, p.fg_cause.inherited_from)
+                                             for p in problems if ancestors and inherited(p)])
+
+
+def names_ancestors(specs) -> bool:
+    """Whether one of the reports ``(format, file)`` names the element a problem's colour is
+    inherited from by its locator (the text report's detail)."""
+    return any(name == "text" for name, _ in specs)
+
+
+def inherited(problem) -> bool:
+    """Whether a problem's text colour is inherited from an ancestor (whose locator the text
+    report's detail names)."""
+    return problem.fg_cause is not None and bool(problem.fg_cause.inherited_from)
