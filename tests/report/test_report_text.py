@@ -402,3 +402,84 @@ def test_the_sentence_names_an_area_only_where_the_examples_all_are():
     where["index.html"] = where["404.html"]
     assert problem_lines(1, problem, locate)[0][1] == \
         "1. Grey text on white in the footer is too faint: 4.47:1, needs 4.5:1."
+
+
+def test_by_page_a_situation_is_described_once_then_referred_to():
+    # a theme's link colour failing on every page repeated its whole description on every
+    # page (247 MB for 200 pages with styles of their own): written in full once, then one
+    # line naming the colours, the measure and where the full description is
+    samples = [make_sample("#777777", "#ffffff", fg_cause=MUTED, bg_cause=PAPER,
+                           page=f"guide/p{i % 2}.html", line=10 + i,
+                           xpath=f"/html/body/main/p[{i + 1}]", text=f"Tray {i}")
+               for i in range(4)]
+    samples.append(make_sample("#5a6270", "#2b2f36", page="guide/p1.html", line=30,
+                               xpath="/html/body/main/p[9]", text="Dark tray"))
+    text, _ = report(samples, group_by="page")
+    assert text.count("text contrast 4.47:1 is below") == 1
+    assert text.count("text contrast 2.18:1 is below") == 1  # another situation: in full
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "guide/p0.html (2 findings)",
+        "  10: /html/body/main/p[1]  \"Tray 0\"",
+        "      error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required *",
+        "      #777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1)*",
+        "*",
+        "  12: /html/body/main/p[3]  \"Tray 2\"",
+        "      error TC100 text-ratio: #777777 on #ffffff, 4.47:1, as at guide/p0.html:10",
+        "guide/p1.html (3 findings)",
+        "  11: /html/body/main/p[2]  \"Tray 1\"",
+        "      error TC100 text-ratio: #777777 on #ffffff, 4.47:1, as at guide/p0.html:10",
+    ])
+
+
+def test_by_page_findings_of_one_place_name_it_once():
+    sample = make_sample("#757575", "#ffffff", page="tide.html", line=3, xpath="/html/body/p",
+                         text="Tide gauge")
+    text, _ = report([sample], group_by="page")
+    assert text.count('3: /html/body/p  "Tide gauge"') == 1
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "tide.html (2 findings)",
+        '  3: /html/body/p  "Tide gauge"',
+        "      warning TC200 text-lc: *",
+        "*",
+        "      info TC500 glare-ratio: *",
+    ])
+
+
+def test_by_page_the_occurrences_of_a_situation_are_described_at_one_cost(monkeypatch):
+    # occurrences rebuilt from one situation share its arguments and fixes: its message is
+    # made once, however many pages it is on
+    from tinctura.report import text_report
+    from tinctura.situations import occurrence
+
+    samples = [make_sample("#777777", "#ffffff", fg_cause=MUTED, bg_cause=PAPER,
+                           page=f"guide/p{i:02}.html", line=5, xpath="/html/body/p",
+                           text="Tray") for i in range(30)]
+    (template,) = run(samples[:1], Options())
+    findings = [occurrence(template, s) for s in samples]
+    made = []
+    original = text_report.m.message
+    monkeypatch.setattr(text_report.m, "message", lambda f: made.append(f) or original(f))
+    out = io.StringIO()
+    render(out, "text", Header(level="AA", group="page", schemes=["light"]), pages_of(samples),
+           findings, group(findings, samples), [], colour_choice="never")
+    assert len(made) == 1
+    assert out.getvalue().count(", as at guide/p00.html:5") == 29
+
+
+@pytest.mark.parametrize("text", [
+    "error TC100 text-ratio: text contrast 4.47:1 is below the 4.5:1 required",
+    "  leading spaces kept", "trailing spaces dropped   ", "a\ttab", "a line\nbreak",
+    "no\u00a0break\u00a0spaces", "x" * 98, "x" * 99, "x" * 120, "", "   ",
+    "#777777 on #ffffff, 4.47:1, needs 4.5:1; try text #767676 (4.54:1); no lighter background",
+])
+@pytest.mark.parametrize("indent", [0, 1, 3])
+def test_wrapping_gives_what_textwrap_gives(text, indent):
+    # most lines fit the width and skip textwrap; the result is textwrap's all the same
+    import textwrap
+
+    from tinctura.report.text_report import INDENT, wrapped
+
+    lead = INDENT * indent
+    want = textwrap.wrap(text, 99, initial_indent=lead, subsequent_indent=lead + "  ",
+                         break_long_words=False, break_on_hyphens=False) or [lead]
+    assert wrapped(indent, text, 100) == want
