@@ -453,7 +453,7 @@ def test_by_page_the_occurrences_of_a_situation_are_described_at_one_cost(monkey
 
     samples = [make_sample("#777777", "#ffffff", fg_cause=MUTED, bg_cause=PAPER,
                            page=f"guide/p{i:02}.html", line=5, xpath="/html/body/p",
-                           text="Tray") for i in range(30)]
+                           text=f"Tray {i}") for i in range(30)]
     (template,) = run(samples[:1], Options())
     findings = [occurrence(template, s) for s in samples]
     made = []
@@ -483,3 +483,34 @@ def test_wrapping_gives_what_textwrap_gives(text, indent):
     want = textwrap.wrap(text, 99, initial_indent=lead, subsequent_indent=lead + "  ",
                          break_long_words=False, break_on_hyphens=False) or [lead]
     assert wrapped(indent, text, 100) == want
+
+
+def test_by_page_the_places_every_page_shares_are_listed_once():
+    # the navigation of every page is the same places: a link colour failing there made each
+    # page list the same findings (65 MB for 200 pages); listed under the first page, then
+    # counted, where a page has the same text at the same place in the same colours
+    def nav(page, line, text="Tide tables", fg="#777777"):
+        return make_sample(fg, "#ffffff", fg_cause=MUTED, bg_cause=PAPER, page=page,
+                           line=line, xpath="/html/body/nav/a[1]", text=text)
+
+    samples = [nav("a.html", 4), nav("b.html", 6), nav("c.html", 6),
+               nav("c.html", 6, fg="#888888"),  # other colours: listed
+               nav("d.html", 6, text="Tide gauges")]  # other text: listed
+    text, _ = report(samples, group_by="page")
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        "a.html (1 finding)",
+        "  4: /html/body/nav/a[1]  \"Tide tables\"",
+        "      error TC100 text-ratio: text contrast 4.47:1 is below *",
+        "*",
+        "b.html (1 finding)",
+        "  and 1 more as listed under a.html (the same text at the same place, in the same*",
+        "c.html (2 findings)",
+        "  6: /html/body/nav/a[1]  \"Tide tables\"",
+        "      error TC100 text-ratio: text contrast * is below *",
+        "*",
+        "  and 1 more as listed under a.html (the same text at the same place, in the same*",
+        "d.html (1 finding)",
+        "  6: /html/body/nav/a[1]  \"Tide gauges\"",
+        "      error TC100 text-ratio: #777777 on #ffffff, 4.47:1, as at a.html:4",
+    ])
+    assert text.count("Tide tables") == 2

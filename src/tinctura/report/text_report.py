@@ -4,6 +4,7 @@ from __future__ import annotations
 import re
 import shutil
 import textwrap
+from collections import Counter
 
 from tinctura.colour import suggest
 from tinctura.extract.values import colour_longhand, with_colour
@@ -36,6 +37,7 @@ class TextFormatter(Formatter):
         self.width = terminal_width()
         self._described: dict = {}  # ``described``'s situations already written in full
         self._written: dict = {}  # and their descriptions, by their words
+        self._listed: dict = {}  # ``listed_first``: (place, description) -> page
 
     @classmethod
     def reads_records(cls, group: str) -> bool:
@@ -128,30 +130,58 @@ class TextFormatter(Formatter):
         tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
         width = self.width
         before = None
+        repeated: Counter = Counter()  # page first listing them -> findings not listed again
         for f in findings:
             s = f.sample
             if is_appearance(f):  # site-level: the entries and their contexts
                 self.appearance_detail(f, 1)
                 before = None
                 continue
+            lines, said = self.described(f, f"{page.page}:{s.line}" if s.line else page.page)
+            first = self.listed_first(s, said, page.page)
+            if first != page.page:
+                repeated[first] += 1
+                continue
             place = f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\"{self.context(s)}"
             if place != before:  # (the findings of one place follow each other: named once)
                 for line in wrapped(0, place, width, 6):
                     tw.line(line)
                 before = place
-            for line in self.described(f, f"{page.page}:{s.line}" if s.line else page.page):
+            for line in lines:
                 tw.line(line)
+        if repeated:
+            (first, _), others = repeated.most_common(1)[0], len(repeated) - 1
+            also = f" and {m.plural(others, 'other page')}" if others else ""
+            for line in wrapped(0, f"  and {sum(repeated.values()):,} more as listed under "
+                                   f"{first}{also} (the same text at the same place, in the "
+                                   f"same colours)", width, 4):
+                tw.line(line, "dim")
         tw.line()
 
-    def described(self, f, here: str) -> list:
-        """A finding's message, colours, measure and fix, wrapped: in full the first time the
-        report describes its situation, then in one line that refers there. A theme's link
-        colour failing on every page of a site repeated its whole description on every page:
-        2,900 findings a page on 200 pages with styles of their own made 247 MB in 57 s."""
+    def listed_first(self, sample, said, page: str) -> str:
+        """The page whose listing names this place (its XPath and text, scheme and state) with
+        this description (``said``): ``page`` when none before it did. The navigation and
+        header of every page are the same places: a theme's link colour failing in them made
+        each page list the same 1,500 findings (65 MB for 200 pages). Places are remembered up
+        to a bound (``LISTED_MOST``), past which a page lists them all."""
+        key = (sample.xpath, sample.text, sample.scheme, sample.state, id(said))
+        first = self._listed.get(key)
+        if first is None:
+            if len(self._listed) < LISTED_MOST:
+                self._listed[key] = page
+            return page
+        return first
+
+    def described(self, f, here: str) -> tuple:
+        """``(lines, said)``: a finding's message, colours, measure and fix, wrapped: in full
+        the first time the report describes its situation, then in one line that refers
+        there; ``said`` the same object for every finding described alike (kept). A theme's
+        link colour failing on every page of a site repeated its whole description on every
+        page: 2,900 findings a page on 200 pages with styles of their own made 247 MB in 57 s."""
         key = _description_key(f)
         known = self._described.get(key) if key is not None else None
         if known is not None:
-            return known[2]
+            return known[2], known[2]
         fg, bg = m.finding_colours(f)
         lines = self._ruled(f, m.message(f)) + wrapped(2, colours_and_fix(f, fg, bg),
                                                         self.width, 2)
@@ -162,7 +192,7 @@ class TextFormatter(Formatter):
         first = self._written.setdefault(tuple(lines), again)
         if key is not None:  # (the memo holds what the key names by identity)
             self._described[key] = (f.args, f.fixes, first)
-        return lines if first is again else first
+        return (lines if first is again else first), first
 
     def _ruled(self, f, text: str) -> list:
         """``text`` after the finding's severity, rule and slug, wrapped under its place."""
@@ -326,6 +356,8 @@ def terminal_width() -> int:
     """Columns to wrap at: the terminal's (or $COLUMNS), 100 when not a terminal, at least 60."""
     return max(60, shutil.get_terminal_size((100, 24)).columns)
 
+
+LISTED_MOST = 100_000  # places and descriptions remembered by the report by page
 
 _SPACES = re.compile(r"[^\S ]")  # whitespace textwrap turns into spaces (tabs, line breaks)
 
