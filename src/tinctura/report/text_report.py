@@ -18,6 +18,7 @@ from .appearance import finding_lines as appearance_finding_lines
 from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
+from .outputs import per_situation
 from .summary import SEVERITIES
 from .terminal import TerminalWriter
 
@@ -178,10 +179,14 @@ class TextFormatter(Formatter):
         there; ``said`` the same object for every finding described alike (kept). A theme's
         link colour failing on every page of a site repeated its whole description on every
         page: 2,900 findings a page on 200 pages with styles of their own made 247 MB in 57 s."""
-        key = _description_key(f)
-        known = self._described.get(key) if key is not None else None
-        if known is not None:
-            return known[2], known[2]
+        fresh = []
+        said = per_situation(self._described, f, lambda f: fresh.append(1) or
+                             self._first_description(f, here))
+        return (said[0] if fresh and said[0] is not None else said[1]), said[1]
+
+    def _first_description(self, f, here: str) -> tuple:
+        """``(full lines, or None where the same words were written already; the line that
+        refers to where they were)`` (``described``)."""
         fg, bg = m.finding_colours(f)
         lines = self._ruled(f, m.message(f)) + wrapped(2, colours_and_fix(f, fg, bg),
                                                         self.width, 2)
@@ -190,9 +195,7 @@ class TextFormatter(Formatter):
         # the same words from findings that share nothing (a page's own rules giving the same
         # colours) refer to the first place too: the report depends on what it says alone
         first = self._written.setdefault(tuple(lines), again)
-        if key is not None:  # (the memo holds what the key names by identity)
-            self._described[key] = (f.args, f.fixes, first)
-        return (lines if first is again else first), first
+        return (lines if first is again else None), first
 
     def _ruled(self, f, text: str) -> list:
         """``text`` after the finding's severity, rule and slug, wrapped under its place."""
@@ -227,16 +230,6 @@ def colours_and_fix(f, fg, bg) -> str:
             and bg is not None:
         tail += f"; no {suggest.describe_side(bg, fg)} background of this hue reaches it"
     return f"{m.colour(fg)} on {m.colour(bg)}, {m.measure(f)}{tail}"
-
-
-def _description_key(f):
-    """What a finding's description is made of (``TextFormatter.described``): its situation's
-    arguments and fixes by identity (its occurrences share them), the values beside them;
-    None for a suppressed finding (its arguments name the suppression, a dict of its own)."""
-    if "suppressed_by" in f.args:
-        return None
-    fg, bg = m.finding_colours(f)
-    return (f.rule, f.severity, f.ratio, f.required, f.level, id(f.args), id(f.fixes), fg, bg)
 
 
 def examples(findings, first=None, most: int = EXAMPLES) -> list:
