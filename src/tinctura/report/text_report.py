@@ -9,7 +9,8 @@ from collections import Counter
 from tinctura.colour import suggest
 from tinctura.extract.values import colour_longhand, with_colour
 from tinctura.overrides import faded
-from tinctura.situations import slot
+from tinctura.model import state_rank
+from tinctura.situations import rebuild, slot
 
 from . import messages as m
 from . import plain
@@ -18,7 +19,7 @@ from .appearance import finding_lines as appearance_finding_lines
 from .appearance import is_appearance
 from .base import Formatter, Header
 from .notice import DISCLAIMER
-from .outputs import per_situation
+from .outputs import per_situation, record_counts
 from .summary import SEVERITIES
 from .terminal import TerminalWriter
 
@@ -36,6 +37,8 @@ class TextFormatter(Formatter):
         self.diagnostics: list = []
         self.schemes = list(header.schemes)
         self.width = terminal_width()
+        # grouped by page, the store's records are read, and only the findings listed rebuilt
+        self.wants_occurrences = header.group == "page"
         self._described: dict = {}  # ``described``'s situations already written in full
         self._written: dict = {}  # and their descriptions, by their words
         self._listed: dict = {}  # ``listed_first``: (place, description) -> page
@@ -124,48 +127,71 @@ class TextFormatter(Formatter):
             for line in wrapped(indent, text, self.width, hang):
                 self.tw.line(line)
 
+    def occurrences(self, page, store) -> None:
+        """``page`` grouped by page from the run's store: its records that count, in the order
+        ``page`` gets findings, and only the findings listed rebuilt (a page's navigation,
+        as on the pages before it, is counted from the records: 404,000 findings of 200 pages
+        rebuilt took 1.6 s of the report's 3.8)."""
+        templates = store.situations
+        records = [r for r in store.occurrences(page.page) if record_counts(r)]
+        records.sort(key=lambda r: (r[2], r[1], state_rank(templates[r[0]].sample.state),
+                                    templates[r[0]].sample.scheme))
+        self._listing(page, [(templates[r[0]], r[1:]) for r in records])
+
     def page(self, page, findings) -> None:
-        if self.header.group != "page" or not findings:
+        self._listing(page, [(f, None) for f in findings])
+
+    def _listing(self, page, items) -> None:
+        """``page``'s findings: ``items`` ``(finding, None)``, or ``(its situation's template,
+        its record's place: situations.rebuild's where)``."""
+        if self.header.group != "page" or not items:
             return
         tw = self.tw
-        tw.line(f"{page.page} ({m.plural(len(findings), 'finding')})", "bold")
-        width = self.width
+        tw.line(f"{page.page} ({m.plural(len(items), 'finding')})", "bold")
         before = None
         repeated: Counter = Counter()  # page first listing them -> findings not listed again
-        for f in findings:
-            s = f.sample
+        for f, where in items:
+            xpath, line, text = (f.sample.xpath, f.sample.line, f.sample.text) \
+                if where is None else where[:3]
             if is_appearance(f):  # site-level: the entries and their contexts
-                self.appearance_detail(f, 1)
+                self.appearance_detail(f if where is None else rebuild(f, where, page.page), 1)
                 before = None
                 continue
-            lines, said = self.described(f, f"{page.page}:{s.line}" if s.line else page.page)
-            first = self.listed_first(s, said, page.page)
+            lines, said = self.described(f, f"{page.page}:{line}" if line else page.page)
+            first = self.listed_first((xpath, text, f.sample.scheme, f.sample.state), said,
+                                      page.page)
             if first != page.page:
                 repeated[first] += 1
                 continue
+            s = f.sample if where is None else rebuild(f, where, page.page).sample
             place = f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\"{self.context(s)}"
             if place != before:  # (the findings of one place follow each other: named once)
-                for line in wrapped(0, place, width, 6):
-                    tw.line(line)
+                for wrapped_line in wrapped(0, place, self.width, 6):
+                    tw.line(wrapped_line)
                 before = place
-            for line in lines:
-                tw.line(line)
-        if repeated:
-            (first, _), others = repeated.most_common(1)[0], len(repeated) - 1
-            also = f" and {m.plural(others, 'other page')}" if others else ""
-            for line in wrapped(0, f"  and {sum(repeated.values()):,} more as listed under "
-                                   f"{first}{also} (the same text at the same place, in the "
-                                   f"same colours)", width, 4):
-                tw.line(line, "dim")
+            for wrapped_line in lines:
+                tw.line(wrapped_line)
+        self.repeated(repeated)
         tw.line()
 
-    def listed_first(self, sample, said, page: str) -> str:
+    def repeated(self, repeated: Counter) -> None:
+        """The line counting a page's findings listed under earlier pages (``listed_first``)."""
+        if not repeated:
+            return
+        (first, _), others = repeated.most_common(1)[0], len(repeated) - 1
+        also = f" and {m.plural(others, 'other page')}" if others else ""
+        for line in wrapped(0, f"  and {sum(repeated.values()):,} more as listed under "
+                               f"{first}{also} (the same text at the same place, in the same "
+                               f"colours)", self.width, 4):
+            self.tw.line(line, "dim")
+
+    def listed_first(self, place: tuple, said, page: str) -> str:
         """The page whose listing names this place (its XPath and text, scheme and state) with
         this description (``said``): ``page`` when none before it did. The navigation and
         header of every page are the same places: a theme's link colour failing in them made
         each page list the same 1,500 findings (65 MB for 200 pages). Places are remembered up
         to a bound (``LISTED_MOST``), past which a page lists them all."""
-        key = (sample.xpath, sample.text, sample.scheme, sample.state, id(said))
+        key = place + (id(said),)
         first = self._listed.get(key)
         if first is None:
             if len(self._listed) < LISTED_MOST:
