@@ -184,3 +184,14 @@ def test_sarif_suppression_kind_names_where_the_suppression_was_written(site, tm
     # it (the configuration file)
     assert kinds == {"site/index.html": {"inSource"}, "site/bells/index.html": {"inSource"},
                      "site/tuning/index.html": {"external"}}
+
+
+def test_the_text_report_by_page_lists_only_the_findings_that_count(site):
+    # grouped by page the text report reads the store's records (``occurrences``): those the
+    # gate holds are left out, as they were from the findings it was given before
+    site.write("index.html", CASTING.replace('<p class="faint">', COMMENT + '<p class="faint">')
+               + '<p class="faint">Polish the crown last.</p>')
+    status, out, _ = call("check", site, "--group", "page", "--jobs", 1, "--color", "never")
+    assert status == 1
+    assert "index.html (1 finding)" in out
+    assert "Polish the crown last." in out and "Let the mould cool" not in out
