@@ -503,14 +503,34 @@ def test_by_page_the_places_every_page_shares_are_listed_once():
         "      error TC100 text-ratio: text contrast 4.47:1 is below *",
         "*",
         "b.html (1 finding)",
-        "  and 1 more as listed under a.html (the same text at the same place, in the same*",
+        "  and 1 more as under a.html (the same text at the same place, in the same*",
         "c.html (2 findings)",
         "  6: /html/body/nav/a[1]  \"Tide tables\"",
         "      error TC100 text-ratio: text contrast * is below *",
         "*",
-        "  and 1 more as listed under a.html (the same text at the same place, in the same*",
+        "  and 1 more as under a.html (the same text at the same place, in the same*",
         "d.html (1 finding)",
         "  6: /html/body/nav/a[1]  \"Tide gauges\"",
         "      error TC100 text-ratio: #777777 on #ffffff, 4.47:1, as at a.html:4",
     ])
     assert text.count("Tide tables") == 2
+
+
+def test_by_page_a_page_lists_a_few_findings_described_alike_and_counts_the_rest():
+    # a code listing's tokens in one colour made hundreds of findings a page described alike
+    from tinctura.report import text_report
+
+    samples = [make_sample("#777777", "#ffffff", fg_cause=MUTED, bg_cause=PAPER,
+                           page="code.html", line=10 + i, xpath=f"/html/body/pre/span[{i + 1}]",
+                           text=f"token{i}") for i in range(text_report.PLACES_SHOWN + 5)]
+    samples.append(make_sample("#888888", "#ffffff", page="code.html", line=99,
+                               xpath="/html/body/p", text="Other colours"))
+    text, _ = report(samples, group_by="page")
+    assert text.count('"token') == text_report.PLACES_SHOWN
+    pytest.LineMatcher(text.splitlines()).fnmatch_lines([
+        f"code.html ({text_report.PLACES_SHOWN + 6} findings)",
+        '  10: /html/body/pre/span[1]  "token0"',
+        '  99: /html/body/p  "Other colours"',
+        "  and 5 more in the same colours on this page: error TC100 text-ratio, #777777 on "
+        "#ffffff, 4.47:1",
+    ])

@@ -42,6 +42,8 @@ class TextFormatter(Formatter):
         self._described: dict = {}  # ``described``'s situations already written in full
         self._written: dict = {}  # and their descriptions, by their words
         self._listed: dict = {}  # ``listed_first``: (place, description) -> page
+        self._ranks: list = []  # the store's situations' (state rank, scheme): ``occurrences``
+        self._by_number: dict = {}  # situation number -> (said, key part): ``_listing``
 
     @classmethod
     def reads_records(cls, group: str) -> bool:
@@ -132,36 +134,49 @@ class TextFormatter(Formatter):
         ``page`` gets findings, and only the findings listed rebuilt (a page's navigation,
         as on the pages before it, is counted from the records: 404,000 findings of 200 pages
         rebuilt took 1.6 s of the report's 3.8)."""
-        templates = store.situations
+        templates, ranks = store.situations, self._ranks
+        for t in templates[len(ranks):]:  # (the order ``page`` gets findings in)
+            ranks.append((state_rank(t.sample.state), t.sample.scheme))
         records = [r for r in store.occurrences(page.page) if record_counts(r)]
-        records.sort(key=lambda r: (r[2], r[1], state_rank(templates[r[0]].sample.state),
-                                    templates[r[0]].sample.scheme))
-        self._listing(page, [(templates[r[0]], r[1:]) for r in records])
+        records.sort(key=lambda r: (r[2], r[1]) + ranks[r[0]])
+        self._listing(page, [(templates[r[0]], r[1:], r[0]) for r in records])
 
     def page(self, page, findings) -> None:
-        self._listing(page, [(f, None) for f in findings])
+        self._listing(page, [(f, None, None) for f in findings])
 
     def _listing(self, page, items) -> None:
-        """``page``'s findings: ``items`` ``(finding, None)``, or ``(its situation's template,
-        its record's place: situations.rebuild's where)``."""
+        """``page``'s findings: ``items`` ``(finding, None, None)``, or ``(its situation's
+        template, its record's place: situations.rebuild's where, the situation's number)``."""
         if self.header.group != "page" or not items:
             return
         tw = self.tw
         tw.line(f"{page.page} ({m.plural(len(items), 'finding')})", "bold")
         before = None
         repeated: Counter = Counter()  # page first listing them -> findings not listed again
-        for f, where in items:
+        alike: dict = {}  # id(said) -> [findings so described on this page, the first's]
+        by_number = self._by_number
+        for f, where, number in items:
             xpath, line, text = (f.sample.xpath, f.sample.line, f.sample.text) \
                 if where is None else where[:3]
             if is_appearance(f):  # site-level: the entries and their contexts
                 self.appearance_detail(f if where is None else rebuild(f, where, page.page), 1)
                 before = None
                 continue
-            lines, said = self.described(f, f"{page.page}:{line}" if line else page.page)
-            first = self.listed_first((xpath, text, f.sample.scheme, f.sample.state), said,
-                                      page.page)
+            known = by_number.get(number) if number is not None else None
+            if known is None:
+                lines, said = self.described(f, page.page, line)
+                known = (said, (f.sample.scheme, f.sample.state, id(said)))
+                if number is not None:  # (described: later ones refer to it)
+                    by_number[number] = known
+            else:
+                lines = said = known[0]
+            first = self.listed_first((xpath, text) + known[1], page.page)
             if first != page.page:
                 repeated[first] += 1
+                continue
+            seen = alike.setdefault(id(said), [0, f])
+            seen[0] += 1
+            if seen[0] > PLACES_SHOWN:  # (counted after the page's listing)
                 continue
             s = f.sample if where is None else rebuild(f, where, page.page).sample
             place = f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\"{self.context(s)}"
@@ -171,27 +186,37 @@ class TextFormatter(Formatter):
                 before = place
             for wrapped_line in lines:
                 tw.line(wrapped_line)
-        self.repeated(repeated)
+        self.not_listed(alike, repeated)
         tw.line()
 
-    def repeated(self, repeated: Counter) -> None:
-        """The line counting a page's findings listed under earlier pages (``listed_first``)."""
+    def not_listed(self, alike: dict, repeated: Counter) -> None:
+        """The lines counting a page's findings not listed: past ``PLACES_SHOWN`` described
+        alike (a code listing's tokens in one colour: hundreds a page), and those listed
+        under earlier pages (``listed_first``)."""
+        for n, f in alike.values():
+            if n > PLACES_SHOWN:
+                fg, bg = m.finding_colours(f)
+                for line in wrapped(0, f"  and {n - PLACES_SHOWN:,} more in the same colours on "
+                                       f"this page: {f.severity} {f.rule} {f.slug}, "
+                                       f"{m.colour(fg)} on {m.colour(bg)}, {m.measured(f)}",
+                                    self.width, 4):
+                    self.tw.line(line, "dim")
         if not repeated:
             return
         (first, _), others = repeated.most_common(1)[0], len(repeated) - 1
         also = f" and {m.plural(others, 'other page')}" if others else ""
-        for line in wrapped(0, f"  and {sum(repeated.values()):,} more as listed under "
-                               f"{first}{also} (the same text at the same place, in the same "
-                               f"colours)", self.width, 4):
+        for line in wrapped(0, f"  and {sum(repeated.values()):,} more as under {first}{also} "
+                               f"(the same text at the same place, in the same colours)",
+                            self.width, 4):
             self.tw.line(line, "dim")
 
-    def listed_first(self, place: tuple, said, page: str) -> str:
+    def listed_first(self, key: tuple, page: str) -> str:
         """The page whose listing names this place (its XPath and text, scheme and state) with
-        this description (``said``): ``page`` when none before it did. The navigation and
-        header of every page are the same places: a theme's link colour failing in them made
-        each page list the same 1,500 findings (65 MB for 200 pages). Places are remembered up
-        to a bound (``LISTED_MOST``), past which a page lists them all."""
-        key = place + (id(said),)
+        this description (``id(said)``, ``described``): ``page`` when none before it did. The
+        navigation and header of every page are the same places: a theme's link colour
+        failing in them made each page list the same 1,500 findings (65 MB for 200 pages).
+        Places are remembered up to a bound (``LISTED_MOST``), past which a page lists them
+        all."""
         first = self._listed.get(key)
         if first is None:
             if len(self._listed) < LISTED_MOST:
@@ -199,7 +224,7 @@ class TextFormatter(Formatter):
             return page
         return first
 
-    def described(self, f, here: str) -> tuple:
+    def described(self, f, page: str, line) -> tuple:
         """``(lines, said)``: a finding's message, colours, measure and fix, wrapped: in full
         the first time the report describes its situation, then in one line that refers
         there; ``said`` the same object for every finding described alike (kept). A theme's
@@ -207,7 +232,7 @@ class TextFormatter(Formatter):
         page: 2,900 findings a page on 200 pages with styles of their own made 247 MB in 57 s."""
         fresh = []
         said = per_situation(self._described, f, lambda f: fresh.append(1) or
-                             self._first_description(f, here))
+                             self._first_description(f, f"{page}:{line}" if line else page))
         return (said[0] if fresh and said[0] is not None else said[1]), said[1]
 
     def _first_description(self, f, here: str) -> tuple:
@@ -377,6 +402,7 @@ def terminal_width() -> int:
 
 
 LISTED_MOST = 100_000  # places and descriptions remembered by the report by page
+PLACES_SHOWN = 10  # findings a page lists described alike (the report by page)
 
 _SPACES = re.compile(r"[^\S ]")  # whitespace textwrap turns into spaces (tabs, line breaks)
 
