@@ -58,6 +58,7 @@ STEP_LABELS = {
     "check_n": "tinctura check --jobs {n}",
     "parse_only": "parse-only (lxml+tinycss2)",
     "check_part": "tinctura check, 1/5 of pages",
+    "check_page": "tinctura check --group page",
 }
 
 
@@ -361,6 +362,10 @@ def bench_size(n_pages: int, args, env: dict, steps: list[str], variant: str = "
         "parse_only": [py, str(Path(__file__).resolve()), "--parse-only", str(site)],
         "check_part": [py, "-m", "tinctura", "check", str(base / "site-part"), "--jobs", "1",
                        "--format", "json", "--output", str(base / "check-part.json")],
+        # (the README's demo command: the text report by page, with --jobs N; opt-in step)
+        "check_page": [py, "-m", "tinctura", "check", str(site), "--jobs", str(args.jobs),
+                       "--group", "page", "--color", "never", "--output",
+                       str(base / "check-page.txt")],
     }
     order = list(steps)
     if "build" not in steps and not site.exists():
@@ -391,6 +396,11 @@ def bench_size(n_pages: int, args, env: dict, steps: list[str], variant: str = "
                 r["report_mb"] = outputs[step].stat().st_size / 1e6 if data is not None else None
                 r["ok"] = (not r.get("timed_out")) and data is not None and \
                     (r.get("returncode") or 0) >= 0
+            if step == "check_page":  # (exit 1 when it finds errors: judged by its report)
+                text = base / "check-page.txt"
+                r["ok"] = not r.get("timed_out") and text.exists() and \
+                    (r.get("returncode") or 0) in (0, 1)
+                r["text_mb"] = text.stat().st_size / 1e6 if text.exists() else None
             if step == "parse_only" and r["ok"]:
                 r["detail"] = read_json(Path(r["stdout_log"]))
                 r["ok"] = r["detail"] is not None
@@ -443,6 +453,9 @@ def summarise(step_runs: list[dict]) -> dict | None:
     sizes = [r.get("report_mb") for r in good if r.get("report_mb") is not None]
     if sizes:
         out["report_mb"] = sizes[-1]
+    texts = [r.get("text_mb") for r in good if r.get("text_mb") is not None]
+    if texts:
+        out["text_mb"] = texts[-1]
     return out
 
 
@@ -479,6 +492,8 @@ def report_size(res: dict, jobs: int) -> dict:
             note = f"{m['findings']} findings"
         if "report_mb" in m:
             note += f", JSON {m['report_mb']:.1f} MB"
+        if m.get("text_mb") is not None:
+            note = f"text {m['text_mb']:.1f} MB"
         if step == "parse_only":
             d = res["runs"][step][-1].get("detail", {})
             note = f"in-process: html {fmt(d.get('html_s'))} s, css {fmt(d.get('css_s'))} s"
@@ -525,7 +540,8 @@ def report_size(res: dict, jobs: int) -> dict:
         print(f"   {f'check speed-up with --jobs {jobs}':<34}{fmt(speedup):>10}{'':>10}  "
               "(information)")
     rounds = {"plugin_overhead": paired("build_plugin", "build"),
-              "check_n_over_build": paired("check_n", "build")}
+              "check_n_over_build": paired("check_n", "build"),
+              "check_page_over_build": paired("check_page", "build")}
     if rounds["plugin_overhead"]:
         m, lo, hi = (v - 1 for v in rounds["plugin_overhead"])
         print(f"   {'plugin build / build - 1, rounds':<34}{pct(m):>10}{'':>10}  "
@@ -533,6 +549,10 @@ def report_size(res: dict, jobs: int) -> dict:
     if rounds["check_n_over_build"]:
         m, lo, hi = rounds["check_n_over_build"]
         print(f"   {f'check --jobs {jobs} / build, rounds':<34}{fmt(m):>10}{'':>10}  "
+              f"(each round's own ratio: {lo:.2f} to {hi:.2f})")
+    if rounds["check_page_over_build"]:
+        m, lo, hi = rounds["check_page_over_build"]
+        print(f"   {'check --group page / build, rounds':<34}{fmt(m):>10}{'':>10}  "
               f"(each round's own ratio: {lo:.2f} to {hi:.2f})")
     print(f"   {'check (1 core) peak RSS MB':<34}{fmt(peak, '.1f'):>10}{'':>10}  "
           f"< {TARGET_PEAK_MB:.0f}  {verdict(peak, TARGET_PEAK_MB)}")
@@ -626,7 +646,8 @@ def main(argv=None) -> int:
                          "already lists two sizes)")
     ap.add_argument("--repeat", type=int, default=1, help="repeat each step; medians are reported")
     ap.add_argument("--steps", default="build,build_plugin,check_1,check_n,parse_only,check_part",
-                    help="comma-separated subset of the steps")
+                    help="comma-separated subset of the steps; check_page (the text report "
+                         "by page, the README's demo command) is measured only when named")
     ap.add_argument("--seed", type=int, default=7)
     ap.add_argument("--variants", default="baseline",
                     help="comma-separated site shapes of generate_site.py (baseline, varied, "
