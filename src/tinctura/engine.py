@@ -223,7 +223,7 @@ class Site:
             exemptions = exempt_mod.mark(root, exempt_mod.enabled_set(self.options.exemptions),
                                          self.options.logotypes, structure.text,
                                          source=None if data[:2] in (b"\xff\xfe", b"\xfe\xff")
-                                         else data, per_link=link_mod.consider)
+                                         else data, per_link=link_mod.page_marker())
             # closed <details>, tabs, menus: walked open too; a scroll spy's marks, in turn
             disclosure = Disclosure(root, text, spied)
             walkers = []

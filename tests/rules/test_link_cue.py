@@ -127,3 +127,35 @@ def test_which_links_stand_in_running_text():
     links.mark_running(root)
     assert [a.get("href") for a in root.iter("a") if a.get(links.RUNNING) is not None] == [
         "#a", "#c", "#e", "#i", "#m", "#q"]
+
+
+def test_a_page_marks_the_same_links_keeping_what_earlier_scans_found():
+    # a code listing's line-number links are 500 siblings of one element: each scan of a
+    # link's earlier siblings read back to the first. ``page_marker`` keeps, for the next link
+    # of the same parent, what the scan found; the links marked are the same
+    from lxml import html as lxml_html
+
+    from tinctura.extract import links
+
+    listing = "".join(f'<a href="#l{n}"><span>{n}</span></a><span class="k">x</span>\n'
+                      for n in range(200))
+    body = (f"{RUNNING_CASES}<pre><code>{listing}</code></pre>"  # no text beside: none marked
+            f"<p>Words first, then {listing.replace('#l', '#t')}</p>"  # far back: all marked
+            f'<p>{listing.replace("#l", "#z")} words <a href="#z-last">last</a></p>'
+            '<p><b><a href="#w0">a</a><a href="#w1">b</a></b>, then <i>x</i>'
+            '<a href="#w2">c</a></p>')
+
+    def marked(mark):
+        root = lxml_html.fromstring(f"<html><body>{body}</body></html>")
+        for a in root.iter("a"):
+            if a.get("href") is not None:
+                mark(a)
+        return [a.get("href") for a in root.iter("a") if a.get(links.RUNNING) is not None]
+
+    alone = marked(links.consider)
+    assert marked(links.page_marker()) == alone
+    assert not any(h.startswith("#l") for h in alone)
+    assert sum(h.startswith("#t") for h in alone) == 200
+    assert "#z-last" in alone and not any(h.startswith("#z") and h != "#z-last"
+                                          for h in alone)
+    assert {"#a", "#c", "#w2"} <= set(alone)
