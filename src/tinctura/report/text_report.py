@@ -41,9 +41,9 @@ class TextFormatter(Formatter):
         self.wants_occurrences = header.group == "page"
         self._described: dict = {}  # ``described``'s situations already written in full
         self._written: dict = {}  # and their descriptions, by their words
-        self._listed: dict = {}  # ``listed_first``: (place, description) -> page
+        self._listed: dict = {}  # ``_listing``: (place, description) -> the page listing it
         self._ranks: list = []  # the store's situations' (state rank, scheme): ``occurrences``
-        self._by_number: dict = {}  # situation number -> (said, key part): ``_listing``
+        self._by_number: dict = {}  # situation number -> ``_said``'s, described already
 
     @classmethod
     def reads_records(cls, group: str) -> bool:
@@ -139,46 +139,53 @@ class TextFormatter(Formatter):
             ranks.append((state_rank(t.sample.state), t.sample.scheme))
         records = [r for r in store.occurrences(page.page) if record_counts(r)]
         records.sort(key=lambda r: (r[2], r[1]) + ranks[r[0]])
-        self._listing(page, [(templates[r[0]], r[1:], r[0]) for r in records])
+        self._listing(page, records, templates, True)
 
     def page(self, page, findings) -> None:
-        self._listing(page, [(f, None, None) for f in findings])
+        self._listing(page, [(n, f.sample.xpath, f.sample.line, f.sample.text)
+                             for n, f in enumerate(findings)], findings, False)
 
-    def _listing(self, page, items) -> None:
-        """``page``'s findings: ``items`` ``(finding, None, None)``, or ``(its situation's
-        template, its record's place: situations.rebuild's where, the situation's number)``."""
-        if self.header.group != "page" or not items:
+    def _listing(self, page, records, templates, numbered: bool) -> None:
+        """``page``'s findings from ``records`` ``(n, XPath, line, text, ...)`` of
+        ``templates[n]``: the store's (``numbered``: ``n`` a situation's number, the finding
+        rebuilt from the record when listed), or the findings themselves.
+
+        A finding at a place (XPath and text, scheme and state) with a description (``said``)
+        that an earlier page listed is counted under that page (``_listed``, up to
+        ``LISTED_MOST``): the navigation and header of every page are the same places, and a
+        theme's link colour failing in them made each page list the same 1,500 findings
+        (65 MB for 200 pages)."""
+        if self.header.group != "page" or not records:
             return
         tw = self.tw
-        tw.line(f"{page.page} ({m.plural(len(items), 'finding')})", "bold")
+        tw.line(f"{page.page} ({m.plural(len(records), 'finding')})", "bold")
         before = None
         repeated: Counter = Counter()  # page first listing them -> findings not listed again
         alike: dict = {}  # id(said) -> [findings so described on this page, the first's]
-        by_number = self._by_number
-        for f, where, number in items:
-            xpath, line, text = (f.sample.xpath, f.sample.line, f.sample.text) \
-                if where is None else where[:3]
-            if is_appearance(f):  # site-level: the entries and their contexts
-                self.appearance_detail(f if where is None else rebuild(f, where, page.page), 1)
-                before = None
-                continue
-            known = by_number.get(number) if number is not None else None
+        by_number, listed = self._by_number, self._listed
+        for r in records:
+            f = templates[r[0]]
+            known = by_number.get(r[0]) if numbered else None
             if known is None:
-                lines, said = self.described(f, page.page, line)
-                known = (said, (f.sample.scheme, f.sample.state, id(said)))
-                if number is not None:  # (described: later ones refer to it)
-                    by_number[number] = known
-            else:
-                lines = said = known[0]
-            first = self.listed_first((xpath, text) + known[1], page.page)
-            if first != page.page:
+                if is_appearance(f):  # site-level: the entries and their contexts
+                    self.appearance_detail(rebuild(f, r[1:], page.page) if numbered else f, 1)
+                    before = None
+                    continue
+                known = self._said(f, r[0] if numbered else None, page.page, r[2])
+            lines, said, part = known
+            key = (r[1], r[3]) + part
+            first = listed.get(key)
+            if first is None:
+                if len(listed) < LISTED_MOST:
+                    listed[key] = page.page
+            elif first != page.page:
                 repeated[first] += 1
                 continue
             seen = alike.setdefault(id(said), [0, f])
             seen[0] += 1
             if seen[0] > PLACES_SHOWN:  # (counted after the page's listing)
                 continue
-            s = f.sample if where is None else rebuild(f, where, page.page).sample
+            s = rebuild(f, r[1:], page.page).sample if numbered else f.sample
             place = f"  {s.line}: {self.where(s)}  \"{m.excerpt(s.text)}\"{self.context(s)}"
             if place != before:  # (the findings of one place follow each other: named once)
                 for wrapped_line in wrapped(0, place, self.width, 6):
@@ -189,10 +196,20 @@ class TextFormatter(Formatter):
         self.not_listed(alike, repeated)
         tw.line()
 
+    def _said(self, f, number, page: str, line) -> tuple:
+        """``(lines, said, key part)``: ``described``'s, and what ``_listing`` keys a place's
+        description by; kept by situation number (``number``: None for a finding not read
+        from the store), whose later findings refer to where it was described."""
+        lines, said = self.described(f, page, line)
+        part = (f.sample.scheme, f.sample.state, id(said))
+        if number is not None:
+            self._by_number[number] = (said, said, part)
+        return lines, said, part
+
     def not_listed(self, alike: dict, repeated: Counter) -> None:
         """The lines counting a page's findings not listed: past ``PLACES_SHOWN`` described
         alike (a code listing's tokens in one colour: hundreds a page), and those listed
-        under earlier pages (``listed_first``)."""
+        under earlier pages."""
         for n, f in alike.values():
             if n > PLACES_SHOWN:
                 fg, bg = m.finding_colours(f)
@@ -209,20 +226,6 @@ class TextFormatter(Formatter):
                                f"(the same text at the same place, in the same colours)",
                             self.width, 4):
             self.tw.line(line, "dim")
-
-    def listed_first(self, key: tuple, page: str) -> str:
-        """The page whose listing names this place (its XPath and text, scheme and state) with
-        this description (``id(said)``, ``described``): ``page`` when none before it did. The
-        navigation and header of every page are the same places: a theme's link colour
-        failing in them made each page list the same 1,500 findings (65 MB for 200 pages).
-        Places are remembered up to a bound (``LISTED_MOST``), past which a page lists them
-        all."""
-        first = self._listed.get(key)
-        if first is None:
-            if len(self._listed) < LISTED_MOST:
-                self._listed[key] = page
-            return page
-        return first
 
     def described(self, f, page: str, line) -> tuple:
         """``(lines, said)``: a finding's message, colours, measure and fix, wrapped: in full
