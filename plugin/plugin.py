@@ -33,7 +33,7 @@ from tinctura.report.store import FindingStore
 from tinctura.report.summary import summarise
 from tinctura.report.text_report import (EXAMPLES, headline, problem_lines, summary_line,
                                          terminal_width, wrapped)
-from tinctura.writer import WriterAid
+from tinctura.writer import WriterAid, page_costs
 
 from . import ahead
 from .config import TincturaConfig
@@ -541,7 +541,7 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
                                    loader, self.verify_cache,
                                    self.helper.rechecker() if self.helper is not None else None,
-                                   meanwhile)
+                                   meanwhile, cost=page_costs(pages))
             except Exception as exc:  # a fix that cannot be worked out must not stop the build
                 log.info(f"fixes as CSS overrides could not be worked out: {exc!r}")
         return aid

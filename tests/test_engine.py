@@ -873,3 +873,38 @@ def _pid_and_square(n):
     import os
 
     return os.getpid(), n * n
+
+
+def test_verification_pages_are_shared_by_what_they_cost(site):
+    """Two processes recheck the verification pages: split every other page, a code
+    listing's page (three of a prose page's cost) and a prose page went to one, a table's
+    page to the other. With each page's cost (its text samples in the check), the costliest
+    first, each to the lighter share; every page once, each share in the pages' order; the
+    verdicts the same."""
+    from tinctura import overrides
+
+    assert overrides.two_shares(["table", "code", "prose"], {"table": 73, "code": 190,
+                                                              "prose": 44}.get) == \
+        [["code"], ["table", "prose"]]
+    assert overrides.two_shares(list("abcde"), dict(a=5, b=5, c=5, d=100, e=1).get) == \
+        [["d"], ["a", "b", "c", "e"]]
+    assert overrides.two_shares(list("abcd"), {}.get) == [["a", "c"], ["b", "d"]]  # (no cost)
+    assert overrides.two_shares(list("abcd")) == [["a", "c"], ["b", "d"]]
+
+    options = Options(keep_samples=False)
+    pages = [f"p{n}/index.html" for n in range(3)]
+    asked, verdicts = [], []
+
+    def helper(css, share):
+        asked.append(share)
+        return lambda: overrides.recheck(str(site), options, css, share)
+
+    helper.all_shares = True
+    for cost in (None, {pages[0]: 10, pages[1]: 300, pages[2]: 20}.get):
+        override = overrides.Override("site.css", [overrides.Rule(".faint", (("color", "#595959",
+                                                                            False),))])
+        counts = overrides.verify(str(site), options, [_faint_problem(site, options)],
+                                  [override], pages, helper=helper, cost=cost)
+        verdicts.append((override.verified, counts))
+    assert asked == [[pages[0], pages[2]], [pages[1]], [pages[1]], [pages[0], pages[2]]]
+    assert verdicts[0] == verdicts[1] and verdicts[0][0] is True

@@ -355,6 +355,8 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
     found = collector.problems(result.uses)
     aid = writer_aid(args.paths, project, options)
     if aid is not None and found:
+        from tinctura.writer import page_costs
+
         loader = loaders.get(aid.site_root)
         # with --jobs N the check's workers, kept, recheck the verification pages (where
         # none were kept, a worker forked now rechecks half of them beside this process)
@@ -365,7 +367,8 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
             aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
                                helper=helper,
                                meanwhile=lambda ready: outputs.locate_ahead(
-                                   aid, found, ready, ancestors=above))
+                                   aid, found, ready, ancestors=above),
+                               cost=page_costs(result.pages))
             outputs.locate_ahead(aid, found, spread=engine.kept_spread(aid.site_root),
                                  ancestors=above)
     header = report.Header(

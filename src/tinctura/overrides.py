@@ -810,7 +810,7 @@ def inject(html: str, css: str) -> str:
 
 
 def verify(site_root, options, problems, overrides, pages, loader=None, cache=None,
-           helper=None, meanwhile=None) -> dict:
+           helper=None, meanwhile=None, cost=None) -> dict:
     """Check ``pages`` again with every override applied; mark each override verified when
     its problem is gone and the override's own values cause no finding. Returns the counts
     ``{"pages": n, "remaining": findings left on them}``.
@@ -828,7 +828,8 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     What is found is the same wherever a page is checked: the answers are unions.
     ``meanwhile(ready)``: work of this process's own, done while the helper's workers
     recheck their shares (the reports' places located: it waited for them, idle); ``ready()``
-    tells whether every share they took is in (None where the helper cannot tell)."""
+    tells whether every share they took is in (None where the helper cannot tell).
+    ``cost(page)``: what checking a page costs, about (``two_shares``)."""
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
@@ -839,7 +840,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         return counts
     shares = [list(pages)]
     if helper is not None and len(pages) > 1 and not getattr(helper, "splits", False):
-        shares = [shares[0][0::2], shares[0][1::2]]
+        shares = two_shares(pages, cost)
     # a helper with warm workers of its own takes every share; another, all but the first
     away = shares if getattr(helper, "all_shares", False) else shares[1:]
     started = [(share, helper(css, share)) for share in away]  # under way while this works
@@ -863,6 +864,23 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
 
 
 CACHED_VERIFICATIONS = 8  # a build's rounds, a few times over
+
+
+def two_shares(pages, cost=None) -> list:
+    """``pages`` in two shares for two processes, of about one cost: the costliest page first,
+    each to the lighter share, each share in the pages' order; every other page where no
+    ``cost(page)`` is known. By count, a code listing's page (three of a prose page's cost)
+    and a prose page went to one process, a table's page to the other."""
+    pages = list(pages)
+    if cost is None:
+        return [pages[0::2], pages[1::2]]
+    weights = [max(1, cost(page) or 0) for page in pages]
+    shares, loads = ([], []), [0, 0]
+    for n in sorted(range(len(pages)), key=lambda n: -weights[n]):
+        lighter = 0 if loads[0] <= loads[1] else 1
+        shares[lighter].append(n)
+        loads[lighter] += weights[n]
+    return [[pages[n] for n in sorted(share)] for share in shares]
 
 
 def union(found) -> tuple:

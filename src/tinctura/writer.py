@@ -211,10 +211,10 @@ class WriterAid:
     # -- overrides -----------------------------------------------------------------------
 
     def plan_overrides(self, problems, schemes, options, pages_with_findings, loader=None,
-                       cache=None, helper=None, meanwhile=None) -> dict:
+                       cache=None, helper=None, meanwhile=None, cost=None) -> dict:
         """Attach a verified ``Override`` (or None) to every problem; returns the verification
-        counts. ``loader``, ``cache``, ``helper``, ``meanwhile`` (in the first round): see
-        ``overrides.verify``."""
+        counts. ``loader``, ``cache``, ``helper``, ``meanwhile`` (in the first round),
+        ``cost``: see ``overrides.verify``."""
         self.show_fix_sources(problems)
         planner = overrides_mod.Planner(schemes, self.project,
                                         self._linked_sheets(pages_with_findings))
@@ -235,7 +235,7 @@ class WriterAid:
                 break
             counts = overrides_mod.verify(self.site_root, options, problems, planned,
                                           verification_pages(problems), loader, cache, helper,
-                                          meanwhile)
+                                          meanwhile, cost)
             meanwhile = None
             again = narrow | _to_narrow(problems, planned)
             more = _gather_taken(planned, exclude)
@@ -366,6 +366,12 @@ def script_behaviours(options) -> tuple:
 
 
 VERIFY_LIMIT = 24  # pages in all: a site-wide cause costs a few pages, not the whole site
+
+
+def page_costs(pages):
+    """``overrides.verify``'s ``cost``: a page's text samples in the check (``PageResult``s)."""
+    samples = {page.page: (page.stats or {}).get("samples", 0) for page in pages}
+    return samples.get
 
 
 def verification_pages(problems) -> list:
