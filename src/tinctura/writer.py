@@ -329,7 +329,7 @@ def tree_part(el, xpath: str, text: bool) -> tuple:
     """What locating a place reads of its page's tree: ``(readable locator, landmarks, the
     element's own text where ``text``, else "")``."""
     own = " ".join("".join(el.itertext()).split()) if text else ""
-    return readable(el) + pseudo(xpath), tuple(landmarks(el)), own
+    return element_locator(el, xpath), tuple(landmarks(el)), own
 
 
 def tree_parts(item) -> tuple:
