@@ -573,11 +573,14 @@ def _sorted(records: list, ranks: list) -> list:
                                                 key=sort_keys.__getitem__)))
 
 
-def expand(lazy: tuple, wanted=None) -> list:
+def expand(lazy: tuple, wanted=None, met=None) -> list:
     """The records of ``PageFindings``'s blocks ``(records, blocks, places, ranks)``, in
     report order: the walked samples' records then the blocks', sorted when ``ranks``;
-    only those of the templates ``wanted`` (a truth value per template index) if given."""
+    only those of the templates ``wanted`` (a truth value per template index) if given.
+    ``met(named, base, numbers, entries)``: for a block at its place, True to leave it out
+    (a report that counts it from an earlier page), else a list to add its records to too."""
     before, blocks, places, ranks = lazy
+    named_as = [named for named, _ in blocks]
     blocks = [(_entries(named), numbers) for named, numbers in blocks]
     if wanted is None:
         records = list(before)
@@ -586,8 +589,15 @@ def expand(lazy: tuple, wanted=None) -> list:
         blocks = [_only(entries, numbers, wanted) for entries, numbers in blocks]
     for b, new_base, lines in places:
         entries, numbers = blocks[b]
-        if entries:
-            place_block(entries, numbers, new_base, lines, records)
+        if not entries:
+            continue
+        kept = met(named_as[b], new_base, numbers, entries) if met is not None else None
+        if kept is True:
+            continue
+        start = len(records)
+        place_block(entries, numbers, new_base, lines, records)
+        if kept is not None:
+            kept.extend(records[start:])
     return records if ranks is None else _sorted(records, ranks)
 
 
@@ -598,12 +608,12 @@ def _only(entries, numbers, wanted) -> tuple:
     return [entry for entry in entries if wanted[numbers[entry[5]]]], numbers
 
 
-def unpack(data: bytes, wanted=None) -> list:
+def unpack(data: bytes, wanted=None, met=None) -> list:
     """The records pickled by ``PageFindings.pack`` (or a list of records); only those of the
-    templates ``wanted`` (a truth value per template index) if given."""
+    templates ``wanted`` (a truth value per template index) if given; ``met``: ``expand``'s."""
     kept = pickle.loads(data)
     if type(kept) is not list:
-        return expand(kept, wanted)
+        return expand(kept, wanted, met)
     return kept if wanted is None else [r for r in kept if wanted[r[0]]]
 
 

@@ -235,15 +235,17 @@ class FindingStore:
         self._file.close()
         self._file = new
 
-    def occurrences(self, page: str) -> list:
+    def occurrences(self, page: str, met=None) -> list:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
-        ``page``, in run order."""
+        ``page``, in run order. ``met(block, records)`` for each replayed block kept as one
+        (a packed page's: ``situations.expand``), ``block`` ``(the entries' uid, XPath of the
+        place, situation numbers)``: True leaves its records out; a list gets them too."""
         out = []
         for offset, length, mapping, _, _ in self._where.get(page, ()):
             if not length:  # counted only, with a report's text (``put_packed``)
                 continue
             self._file.seek(offset)
-            records = sit.unpack(self._file.read(length))
+            records = sit.unpack(self._file.read(length), None, _met_mapped(met, mapping))
             if mapping is not None:  # kept as a worker packed them: its template indexes
                 records = [(mapping[r[0]],) + r[1:] for r in records]
             out.extend(records)
@@ -300,3 +302,33 @@ class FindingStore:
 
     def close(self) -> None:
         self._file.close()
+
+
+def _met_mapped(met, mapping):
+    """``FindingStore.occurrences``' ``met`` for ``situations.expand``: a block named by a uid
+    (not by its entries), with its numbers as the run's situation numbers; the records given
+    to keep are renumbered as the page's are."""
+    if met is None:
+        return None
+
+    def asked(named, base, numbers, entries):
+        if type(named) is not tuple:
+            return None
+        got = met((named, base, tuple(numbers) if mapping is None
+                   else tuple(mapping[n] for n in numbers)), len(entries))
+        if got is True or got is None or mapping is None:
+            return got
+        return _Renumbered(got, mapping)
+    return asked
+
+
+class _Renumbered:
+    """A list's ``extend`` through a worker's numbering (``_met_mapped``)."""
+
+    __slots__ = ("into", "mapping")
+
+    def __init__(self, into: list, mapping):
+        self.into, self.mapping = into, mapping
+
+    def extend(self, records) -> None:
+        self.into.extend((self.mapping[r[0]],) + r[1:] for r in records)

@@ -44,6 +44,7 @@ class TextFormatter(Formatter):
         self._listed: dict = {}  # ``_listing``: (place, description) -> the page listing it
         self._ranks: list = []  # the store's situations' (state rank, scheme): ``occurrences``
         self._by_number: dict = {}  # situation number -> ``_said``'s, described already
+        self._blocks: dict = {}  # ``_credit``: a replayed block -> the pages it is counted under
 
     @classmethod
     def reads_records(cls, group: str) -> bool:
@@ -131,21 +132,51 @@ class TextFormatter(Formatter):
 
     def occurrences(self, page, store) -> None:
         """``page`` grouped by page from the run's store: its records that count, in the order
-        ``page`` gets findings, and only the findings listed rebuilt (a page's navigation,
-        as on the pages before it, is counted from the records: 404,000 findings of 200 pages
-        rebuilt took 1.6 s of the report's 3.8)."""
+        ``page`` gets findings, and only the findings listed rebuilt (404,000 findings of 200
+        pages rebuilt took 1.6 s of the report's 3.8); a replayed block placed as on an
+        earlier page (its navigation) is counted from what that page listed, unread
+        (``_credit``)."""
         templates, ranks = store.situations, self._ranks
         for t in templates[len(ranks):]:  # (the order ``page`` gets findings in)
             ranks.append((state_rank(t.sample.state), t.sample.scheme))
-        records = [r for r in store.occurrences(page.page) if record_counts(r)]
+        skipped: Counter = Counter()  # page first listing them -> findings not read
+        fresh = []  # (block, its records) of the blocks met first on this page
+
+        def met(block, count):
+            credit = self._blocks.get(block)
+            if credit is not None and sum(credit.values()) == count:
+                skipped.update(credit)
+                return True
+            fresh.append((block, []))
+            return fresh[-1][1]
+        records = [r for r in store.occurrences(page.page, met) if record_counts(r)]
         records.sort(key=lambda r: (r[2], r[1]) + ranks[r[0]])
-        self._listing(page, records, templates, True)
+        self._listing(page, records, templates, True, skipped)
+        for block, kept in fresh:
+            self._credit(block, kept)
 
     def page(self, page, findings) -> None:
         self._listing(page, [(n, f.sample.xpath, f.sample.line, f.sample.text)
                              for n, f in enumerate(findings)], findings, False)
 
-    def _listing(self, page, records, templates, numbered: bool) -> None:
+    def _credit(self, block, records) -> None:
+        """Keep, for a replayed block (``FindingStore.occurrences``) whose records were just
+        listed, the pages each of them is counted under from now on: another page placing the
+        same block is counted from this, its records not read (6.2 million findings of 1,000
+        pages, mostly the navigation's, were read one by one). Only where every record of it
+        is in ``_listed``."""
+        if len(self._blocks) >= LISTED_MOST:
+            return
+        credit: Counter = Counter()
+        for r in records:
+            known = self._by_number.get(r[0])
+            first = self._listed.get((r[1], r[3]) + known[2]) if known is not None else None
+            if first is None:
+                return
+            credit[first] += 1
+        self._blocks[block] = credit
+
+    def _listing(self, page, records, templates, numbered: bool, skipped=None) -> None:
         """``page``'s findings from ``records`` ``(n, XPath, line, text, ...)`` of
         ``templates[n]``: the store's (``numbered``: ``n`` a situation's number, the finding
         rebuilt from the record when listed), or the findings themselves.
@@ -155,12 +186,14 @@ class TextFormatter(Formatter):
         ``LISTED_MOST``): the navigation and header of every page are the same places, and a
         theme's link colour failing in them made each page list the same 1,500 findings
         (65 MB for 200 pages)."""
-        if self.header.group != "page" or not records:
+        if self.header.group != "page" or not (records or skipped):
             return
         tw = self.tw
-        tw.line(f"{page.page} ({m.plural(len(records), 'finding')})", "bold")
+        total = len(records) + (sum(skipped.values()) if skipped else 0)
+        tw.line(f"{page.page} ({m.plural(total, 'finding')})", "bold")
         before = None
-        repeated: Counter = Counter()  # page first listing them -> findings not listed again
+        # page first listing them -> findings not listed again (``skipped``: not even read)
+        repeated: Counter = Counter(skipped or ())
         alike: dict = {}  # id(said) -> [findings so described on this page, the first's]
         by_number, listed = self._by_number, self._listed
         for r in records:
