@@ -237,9 +237,10 @@ class FindingStore:
 
     def occurrences(self, page: str, met=None) -> list:
         """``(situation number, xpath, line, text, inherited_from[, layer xpaths])`` records of
-        ``page``, in run order. ``met(block, records)`` for each replayed block kept as one
-        (a packed page's: ``situations.expand``), ``block`` ``(the entries' uid, XPath of the
-        place, situation numbers)``: True leaves its records out; a list gets them too."""
+        ``page``, in run order. ``met(block, count)`` for each replayed block kept as one (a
+        packed page's: ``situations.expand``), ``block`` ``(the entries' uid, XPath of the
+        place, situation numbers)`` and ``count`` its records: True leaves them out; a list
+        gets them too."""
         out = []
         for offset, length, mapping, _, _ in self._where.get(page, ()):
             if not length:  # counted only, with a report's text (``put_packed``)
