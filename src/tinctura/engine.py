@@ -256,8 +256,8 @@ class Site:
         if caches is None:
             caches = self._caches[keyed] = {}
         cache = caches.get(key)
-        if cache is None:
-            cache = caches[key] = StyleCache()
+        if cache is None:  # (styles shared with the other kind of walk's, if any)
+            cache = caches[key] = StyleCache(caches.get(key[:-1] + (not key[-1],)))
         preferred = scheme.media_value("prefers-color-scheme", "light")
         walker = PageWalker(rel, root, index, ruleset, scheme.name, preferred, cache,
                             self.options.viewport_width, result.skipped,

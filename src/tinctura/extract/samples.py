@@ -15,6 +15,8 @@ it are produced when its walk ends.
 """
 from __future__ import annotations
 
+import itertools
+
 from ..colour.composite import over, with_alpha
 from ..colour.parse import parse_color
 from ..model import DETERMINED, REST, UNDETERMINED, Cause, Layer, Sample
@@ -63,27 +65,36 @@ SCOPE_TAGS = frozenset({
 
 
 class StyleCache:
-    """Computed styles by structural key, shared across pages for one rule index and scheme."""
+    """Computed styles by structural key, shared across pages for one rule index and scheme.
 
-    def __init__(self):
-        self.ids = {}
-        self.styles = {}
+    ``styles_of``: the cache of the other kind of walk of the same rule index and scheme (one
+    keeping every sample's layers, one not: ``engine.Site._walker``), whose structural ids and
+    computed styles this one shares: they do not depend on the kind, while recorded fragments,
+    state samples and colour cores do (the fixes' verification walks a page checked warm
+    without them keeping every sample: cold, 82-138 ms a page of the benchmark's manuals)."""
+
+    def __init__(self, styles_of=None):
+        if styles_of is None:
+            self.ids = {}
+            self.styles = {}
+            self.inert = {}  # structural id -> _inert(element): it cannot show anything
+            # the key an element would have without a page's own rules
+            # (``PageWalker._plain``) -> the rules of the stylesheets it matches: a page's
+            # rows, keyed apart, match what the rows of other pages matched
+            self.base_matches = {}
+            self._numbers = itertools.count(1)  # ids, never reused (one count for both)
+        else:
+            self.ids, self.styles, self.inert = styles_of.ids, styles_of.styles, styles_of.inert
+            self.base_matches, self._numbers = styles_of.base_matches, styles_of._numbers
         self.cores = {}
         self.states = {}  # (key, state, subtree signature) -> samples that differ from rest
-        self.inert = {}  # structural id -> _inert(element): it cannot show anything
         self.memo = frag_mod.Memo()  # repeated subtrees
-        # the key an element would have without a page's own rules (``PageWalker._plain``) ->
-        # the rules of the stylesheets it matches: a page's rows, keyed apart, match what the
-        # rows of other pages matched
-        self.base_matches = {}
-        self._next = 0
 
     def fresh(self) -> int:
         """An id shared with nothing (where selectors read more than the key holds)."""
         if len(self.styles) > CACHE_LIMIT:
             self._clear()
-        self._next += 1
-        return self._next
+        return next(self._numbers)
 
     def intern(self, key) -> int:
         ident = self.ids.get(key)
@@ -91,8 +102,7 @@ class StyleCache:
             if len(self.ids) > CACHE_LIMIT:
                 self._clear()
             # never reused: a walk in progress may still hold ids from before a clear
-            self._next += 1
-            ident = self.ids[key] = self._next
+            ident = self.ids[key] = next(self._numbers)
         return ident
 
     def _clear(self) -> None:  # bound memory on large sites

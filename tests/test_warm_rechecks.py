@@ -1,0 +1,56 @@
+"""What the fixes' planning and verification check again after the pages (a faded text's
+opacities, a verification page walked without the overrides keeping every sample) is
+computed on the check's warm caches: the same answers as computed cold."""
+import pytest
+
+from tinctura.engine import Options, Site
+
+# Text #000000de inside an element at opacity 0.45 over white, seen as #9b9b9b (CSS Color 4
+# compositing, by hand: 0.87 x 0.45 of black), fails 4.5:1; its fix raises the opacity.
+CSS = ".dim { opacity: 0.45; } .note { color: #000000de; } nav a { color: #1b4d6b; }"
+
+
+def _page(n: int) -> str:
+    links = "".join(f'<li><a href="../p{k}/">Culvert {k}</a></li>' for k in range(6))
+    return ('<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head>'
+            f'<body><nav><ul>{links}</ul></nav><div class="dim"><p class="note">Clear the '
+            f'grate of culvert {n} after each flood</p></div><p>Log the water level.</p>'
+            '</body></html>')
+
+
+@pytest.fixture
+def faded(tmp_path):
+    (tmp_path / "site.css").write_text(CSS)
+    for n in range(6):
+        (tmp_path / f"p{n}").mkdir()
+        (tmp_path / f"p{n}" / "index.html").write_text(_page(n))
+    return tmp_path
+
+
+def _samples(site, rel):
+    return [(s.scheme, s.state, s.xpath, s.fg, s.bg, s.fg_cause, s.bg_cause,
+             [(layer.kind, layer.colour, layer.cause) for layer in s.bg_layers])
+            for s in site.check_page(rel).samples]
+
+
+def test_a_walk_keeping_every_sample_shares_the_computed_styles(faded, monkeypatch):
+    """A Site keeping every sample's layers, on the loader of one that checked the page
+    without them, computes no style again, and finds what a Site of its own finds."""
+    from tinctura.extract.style import Resolver
+
+    checked = Site(str(faded), Options(keep_samples=False))
+    checked.check_page("p0/index.html")
+    keeping = Site(str(faded), Options(keep_samples=True))
+    keeping.loader = checked.loader
+    computed = []
+    compute = Resolver.compute
+    monkeypatch.setattr(Resolver, "compute",
+                        lambda self, *a, **k: computed.append(1) or compute(self, *a, **k))
+    warm = _samples(keeping, "p0/index.html")
+    assert computed == []
+    caches = list(checked.loader.style_caches.values())[0]
+    by_kind = {key[-1]: cache for key, cache in caches.items()}
+    assert by_kind[True].styles is by_kind[False].styles
+    assert by_kind[True].memo is not by_kind[False].memo  # (fragments are of their kind)
+    assert warm == _samples(Site(str(faded), Options(keep_samples=True)), "p0/index.html")
+    assert computed  # (a Site of its own computed them)
