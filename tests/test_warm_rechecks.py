@@ -1,8 +1,12 @@
 """What the fixes' planning and verification check again after the pages (a faded text's
 opacities, a verification page walked without the overrides keeping every sample) is
 computed on the check's warm caches: the same answers as computed cold."""
+import io
+import json
+
 import pytest
 
+from tinctura import cli, engine
 from tinctura.engine import Options, Site
 
 # Text #000000de inside an element at opacity 0.45 over white, seen as #9b9b9b (CSS Color 4
@@ -25,6 +29,30 @@ def faded(tmp_path):
         (tmp_path / f"p{n}").mkdir()
         (tmp_path / f"p{n}" / "index.html").write_text(_page(n))
     return tmp_path
+
+
+def _problems(site, jobs: str) -> list:
+    out = io.StringIO()
+    cli.main(["check", str(site), "--no-config", "--fail-on", "never", "--jobs", jobs,
+              "--format", "json"], out, io.StringIO())
+    return json.loads(out.getvalue())["problems"]
+
+
+def test_faded_texts_layers_come_from_a_kept_worker_with_the_same_fix(faded, monkeypatch):
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    here = []  # (calls in this process only: a worker's go to its own copy)
+    original = engine.opacity_layers
+    monkeypatch.setattr(engine, "opacity_layers",
+                        lambda *args: here.append(args[1:]) or original(*args))
+    alone = _problems(faded, "1")
+    assert here, "with one process the page is checked again here"
+    here.clear()
+    shared = _problems(faded, "2")
+    assert here == []  # a worker of the check computed them
+    assert shared == alone
+    fixes = [p["fix"]["css"] for p in alone if "opacity" in p["sentence"]]
+    assert fixes and all("opacity:" in css for css in fixes)
 
 
 def _samples(site, rel):

@@ -364,6 +364,7 @@ def _after_check(args, stdout, stderr, options, specs, gate, store, collector, w
             # while the workers recheck, this process locates the reports' examples; once
             # they are done, the workers take a share of the pages left
             above = outputs.names_ancestors(specs)
+            aid.elsewhere = engine.kept_call(aid.site_root)  # (faded texts' layers, warm)
             aid.plan_overrides(found, result.schemes, options, store.pages(), loader,
                                helper=helper,
                                meanwhile=lambda ready: outputs.locate_ahead(

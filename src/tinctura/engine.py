@@ -1197,6 +1197,52 @@ def kept_spread(root: str):
     return spread
 
 
+def kept_call(root: str):
+    """``call(func, arg)``: ``func(arg)`` in one of the workers the check of ``root`` kept
+    (``pools_kept``), warm from the pages, its answer or None where the worker failed; None
+    when none were kept."""
+    pool = (_KEPT or {}).get(root)
+    if pool is None:
+        return None
+
+    def call(func, arg):
+        try:
+            return pool.apply_async(func, (arg,)).get(timeout=PAGE_TIMEOUT_S)
+        except Exception:
+            return None
+    return call
+
+
+def opacity_layers(site, page: str, scheme: str) -> dict:
+    """``(XPath, state) -> ((declaration, value), ...)``: the opacities fading each text of
+    ``page`` in ``scheme``, nearest first, where some do: the page checked once more by
+    ``site``, which keeps every sample's background layers (``writer.WriterAid.opacity_of``)."""
+    found = {}
+    for x in site.check_page(page).samples:
+        if x.scheme != scheme:
+            continue
+        faded = tuple((layer.cause.declaration if layer.cause is not None else None,
+                       layer.colour[3]) for layer in x.bg_layers if layer.kind == "opacity")
+        if faded:
+            found[(x.xpath, x.state)] = faded
+    return found
+
+
+_LAYERED: list = []  # in a worker: its Site keeping background layers (``worker_opacity_layers``)
+
+
+def worker_opacity_layers(key):
+    """``opacity_layers`` of ``key`` ``(page, scheme)`` in a worker: on its own loader, whose
+    rule sets, compiled selectors and computed styles the check warmed (checked in the main
+    process, whose caches had seen no page, a manual's faded texts took 0.1 s)."""
+    site, options, _ = _WORKER
+    if not _LAYERED:
+        layered = Site(site.root, dataclasses.replace(options, keep_samples=True))
+        layered.loader = site.loader
+        _LAYERED.append(layered)
+    return opacity_layers(_LAYERED[0], *key)
+
+
 def _worker_recheck(args):
     css, pages = args
     site, options, _ = _WORKER

@@ -41,6 +41,9 @@ class WriterAid:
         self._landmarks: dict = {}
         self._options = None
         self._layered = None  # a Site keeping background layers, for faded text
+        self._loader = None  # the check's SheetLoader, where ``plan_overrides`` is given it
+        # ``call(func, arg)`` in a worker the check kept (``engine.kept_call``), or None
+        self.elsewhere = None
         self._samples: dict = {}
         self._above: dict = {}  # (page, XPath) -> ``locator`` of an ancestor, located ahead
 
@@ -156,24 +159,31 @@ class WriterAid:
 
     def opacity_of(self, finding) -> list:
         """``(declaration, value)`` of the opacities fading a finding's text, nearest first:
-        its page checked once more with background layers kept (only for faded text)."""
-        from dataclasses import replace
-
-        from tinctura import engine
-
-        if self._layered is None:
-            self._layered = engine.Site(self.site_root, replace(self._options, keep_samples=True))
+        its page checked once more with background layers kept (only for faded text), in a
+        worker the check kept (``elsewhere``), warm from the pages, or here."""
         s = finding.sample
         key = (s.page, s.scheme)
         if key not in self._samples:
-            result = self._layered.check_page(s.page)
-            self._samples[key] = {(x.xpath, x.state): x for x in result.samples
-                                  if x.scheme == s.scheme}
-        sample = self._samples[key].get((s.xpath, s.state))
-        if sample is None:
-            return []
-        return [(layer.cause.declaration if layer.cause is not None else None,
-                 layer.colour[3]) for layer in sample.bg_layers if layer.kind == "opacity"]
+            from tinctura import engine
+
+            found = self.elsewhere(engine.worker_opacity_layers, key) \
+                if self.elsewhere is not None else None
+            if found is None:
+                found = engine.opacity_layers(self._layered_site(), *key)
+            self._samples[key] = found
+        return list(self._samples[key].get((s.xpath, s.state), ()))
+
+    def _layered_site(self):
+        """A Site keeping every sample's background layers, on the check's loader if known."""
+        if self._layered is None:
+            from dataclasses import replace
+
+            from tinctura import engine
+
+            self._layered = engine.Site(self.site_root, replace(self._options, keep_samples=True))
+            if self._loader is not None:  # (its parsed sheets, rule sets and computed styles)
+                self._layered.loader = self._loader
+        return self._layered
 
     def sheet_order(self, page: str) -> list:
         """Site-relative stylesheets a page links, in order."""
@@ -218,7 +228,7 @@ class WriterAid:
         self.show_fix_sources(problems)
         planner = overrides_mod.Planner(schemes, self.project,
                                         self._linked_sheets(pages_with_findings))
-        self._options = options
+        self._options, self._loader = options, loader
         planner.cue_scopes = self.cue_scopes(problems)
         narrow: frozenset = frozenset()
         exclude: dict = {}
