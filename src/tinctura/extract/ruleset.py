@@ -25,8 +25,12 @@ KEEP_VALUES = frozenset({"style", "lang", "dir", "xml:lang", "fill", "aria-disab
 # Class and id names in selectors. Over-inclusive is harmless (a name from inside an attribute
 # value only keeps more in the key); a backslash escape could hide a name, so then the whole
 # class and id values are kept.
-CLASS_IN_SELECTOR = re.compile(r"\.(-?[_a-zA-Z\u0080-\U0010ffff][\w\u0080-\U0010ffff-]*)")
-ID_IN_SELECTOR = re.compile(r"#(-?[_a-zA-Z\u0080-\U0010ffff][\w\u0080-\U0010ffff-]*)")
+# a name's first character (a letter, `_` or past ASCII) and the rest (a word character, `-`
+# or past ASCII), written as what they are not: `[\w\u0080-\U0010ffff-]` took 4-5 ms to
+# compile at every start
+_IDENT = r"(-?[^\x00-\x40\[-\^`{-\x7f][^\x00-\x2c./:-@\[-\^`{-\x7f]*)"
+CLASS_IN_SELECTOR = re.compile(r"\." + _IDENT)
+ID_IN_SELECTOR = re.compile("#" + _IDENT)
 
 
 class RuleSet:

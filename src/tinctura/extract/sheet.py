@@ -205,12 +205,15 @@ def parse_chunks(css: str, sheet: ParsedSheet, origin: str = "author",
 # and so are `xurl(`, `#url(` and `5url(` (tinycss2 tokenizes them so: a url token is `url(`
 # alone, unquoted; a bad one, with a quote or a space inside, runs to its `)` as well).
 _ESCAPE = r"\\(?:[0-9a-fA-F]{1,6}[ \t\n]?|[^\n0-9a-fA-F])"
-_NAME_CHARS = r"\w\-\x00\x80-\U0010ffff"  # what continues a name (U+0000 reads as U+FFFD)
-_NAME = rf"[{_NAME_CHARS}]"
+# What continues a name (U+0000 reads as U+FFFD): a word character, `-`, U+0000 or any
+# character past ASCII, written as what it is not: the same set for every code point, and
+# compiled in 0.1 ms where `[\w\-\x00\x80-\U0010ffff]` took 5 ms at every start
+_NAME = r"[^\x01-\x2c./:-@\[-\^`{-\x7f]"
+_NAME_HASH_AT = r"[^\x01-\x22\x24-\x2c./:-?\[-\^`{-\x7f]"  # the same, `#` and `@` too
 _STRUCTURE = re.compile(
     r"""/\*[\s\S]*?(?:\*/|\Z)|"(?:[^"\\\n]|\\[\s\S])*"?|'(?:[^'\\\n]|\\[\s\S])*'?"""
     rf"|{_ESCAPE}(?:{_NAME}|{_ESCAPE})*|\\\n"
-    rf"|(?:(?<=<!--)|(?<![{_NAME_CHARS}#@]))(?i:url)\((?![ \t\n]*[\"'])"
+    rf"|(?:(?<=<!--)|(?<!{_NAME_HASH_AT}))(?i:url)\((?![ \t\n]*[\"'])"
     r"(?:[^)\\]|\\[^\n])*\)?"
     r"|[{}()\[\]]")
 _CLOSES = {"{": "}", "(": ")", "[": "]"}
