@@ -209,3 +209,30 @@ def test_chunks_are_cut_where_tinycss2_ends_a_top_level_rule(css):
         [(r.selector_text, [(d.name, d.text, d.line, d.column) for d in r.decls])
          for r in whole.rules]
     assert chunked.errors == whole.errors
+
+
+def test_name_character_classes_hold_every_code_point_of_the_syntax():
+    # CSS Syntax Module Level 3, 4.2 Definitions: an ident-start code point is a letter, `_`
+    # or a non-ASCII code point; an ident code point is one of those, a digit or `-` (U+0000
+    # reads as U+FFFD, non-ASCII). The classes are written as what they exclude: every code
+    # point is checked against that definition.
+    import re
+
+    from tinctura.extract import ruleset as ruleset_mod
+
+    def start(c):
+        return c == "_" or ("a" <= c.lower() <= "z") or ord(c) >= 0x80
+
+    def name(c):
+        return start(c) or "0" <= c <= "9" or c == "-"
+
+    first, rest = re.compile(ruleset_mod._IDENT_START), re.compile(ruleset_mod._IDENT_REST)
+    name_or_nul = re.compile(sheet_mod._NAME)
+    hash_at = re.compile(sheet_mod._NAME_HASH_AT)
+    for n in range(0x110000):
+        c = chr(n)
+        assert bool(first.fullmatch(c)) == start(c), hex(n)
+        assert bool(rest.fullmatch(c)) == name(c), hex(n)
+        assert bool(name_or_nul.fullmatch(c)) == (name(c) or n == 0), hex(n)
+        assert bool(hash_at.fullmatch(c)) == (name(c) or n == 0 or c in "#@"), hex(n)
+    assert ruleset_mod.CLASS_IN_SELECTOR.findall(".b\u00e9-1.x_ .-a .1x") == ["b\u00e9-1", "x_", "-a"]

@@ -28,7 +28,9 @@ KEEP_VALUES = frozenset({"style", "lang", "dir", "xml:lang", "fill", "aria-disab
 # a name's first character (a letter, `_` or past ASCII) and the rest (a word character, `-`
 # or past ASCII), written as what they are not: `[\w\u0080-\U0010ffff-]` took 4-5 ms to
 # compile at every start
-_IDENT = r"(-?[^\x00-\x40\[-\^`{-\x7f][^\x00-\x2c./:-@\[-\^`{-\x7f]*)"
+_IDENT_START = r"[^\x00-\x40\[-\^`{-\x7f]"
+_IDENT_REST = r"[^\x00-\x2c./:-@\[-\^`{-\x7f]"
+_IDENT = rf"(-?{_IDENT_START}{_IDENT_REST}*)"
 CLASS_IN_SELECTOR = re.compile(r"\." + _IDENT)
 ID_IN_SELECTOR = re.compile("#" + _IDENT)
 
