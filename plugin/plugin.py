@@ -537,6 +537,8 @@ class TincturaPlugin(BasePlugin[TincturaConfig]):
             # what the log and the reports will locate, while the worker rechecks pages
             meanwhile = (lambda _ready: outputs.locate_ahead(aid, found)) \
                 if self.config.report or log.isEnabledFor(logging.WARNING) else None
+            if self.helper is not None:  # (a faded text's page checked there, warm)
+                aid.elsewhere = self.helper.caller()
             try:
                 aid.plan_overrides(found, list(schemes.values()), self.options, with_findings,
                                    loader, self.verify_cache,

@@ -82,3 +82,25 @@ def test_a_walk_keeping_every_sample_shares_the_computed_styles(faded, monkeypat
     assert by_kind[True].memo is not by_kind[False].memo  # (fragments are of their kind)
     assert warm == _samples(Site(str(faded), Options(keep_samples=True)), "p0/index.html")
     assert computed  # (a Site of its own computed them)
+
+
+def test_the_plugins_worker_gives_a_faded_texts_layers_as_this_process(faded):
+    """The MkDocs plugin's worker, its pages answered, checks a faded text's page again for
+    the fix's opacities (``PagePool.caller``): what a Site of this process finds."""
+    if not engine.can_fork():
+        pytest.skip("worker processes need fork")
+    options = Options(keep_samples=False)
+    pool = engine.PagePool(str(faded), options, 1)
+    try:
+        for n in range(3):
+            rel = f"p{n}/index.html"
+            assert pool.submit(rel, (faded / rel).read_text())
+        list(pool.results(keep=True))
+        there = pool.caller()(engine.worker_opacity_layers, ("p1/index.html", "light"))
+    finally:
+        pool.close()
+    here = engine.opacity_layers(Site(str(faded), Options(keep_samples=True)), "p1/index.html",
+                                 "light")
+    assert there == here and len(here) == 1  # the faded paragraph, at rest
+    ((declaration, value),) = next(iter(here.values()))
+    assert (declaration.selector, declaration.value, value) == (".dim", "0.45", 0.45)

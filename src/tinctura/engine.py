@@ -1087,6 +1087,11 @@ class PagePool:
             return _pool_helper(self._pool, True, split_in=self._spool)
         return _pool_helper(self._pool, True)
 
+    def caller(self):
+        """``kept_call``'s ``call`` on these workers, once every page is answered: the fixes'
+        planning checks a faded text's page again there, warm (``writer.WriterAid.elsewhere``)."""
+        return _pool_caller(self._pool)
+
     def end_soon(self) -> None:
         """Start ending the workers, their work done, while this process writes the reports;
         ``close`` waits for it. (The collector's freeze is left to ``close``: thawed now, the
@@ -1202,9 +1207,11 @@ def kept_call(root: str):
     (``pools_kept``), warm from the pages, its answer or None where the worker failed; None
     when none were kept."""
     pool = (_KEPT or {}).get(root)
-    if pool is None:
-        return None
+    return _pool_caller(pool) if pool is not None else None
 
+
+def _pool_caller(pool):
+    """``kept_call``'s ``call`` on a pool's workers."""
     def call(func, arg):
         try:
             return pool.apply_async(func, (arg,)).get(timeout=PAGE_TIMEOUT_S)
