@@ -104,3 +104,21 @@ def test_the_plugins_worker_gives_a_faded_texts_layers_as_this_process(faded):
     assert there == here and len(here) == 1  # the faded paragraph, at rest
     ((declaration, value),) = next(iter(here.values()))
     assert (declaration.selector, declaration.value, value) == (".dim", "0.45", 0.45)
+
+
+def test_kinds_sharing_styles_stay_right_when_the_cache_is_emptied(faded, monkeypatch):
+    """The styles both kinds of walk share are emptied when they outgrow their bound (one
+    kind's clearing empties the other's shared part, its ids never given again): pages
+    checked by turns, each kind finds what a Site of its own finds."""
+    from tinctura.extract import samples as samples_mod
+
+    monkeypatch.setattr(samples_mod, "CACHE_LIMIT", 5)
+    plain = Site(str(faded), Options(keep_samples=False))
+    keeping = Site(str(faded), Options(keep_samples=True))
+    keeping.loader = plain.loader
+    for n in (0, 1, 2, 1, 0):
+        rel = f"p{n}/index.html"
+        assert _samples(keeping, rel) == _samples(Site(str(faded), Options(keep_samples=True)),
+                                                  rel)
+        assert _samples(plain, rel) == _samples(Site(str(faded), Options(keep_samples=False)),
+                                                rel)
