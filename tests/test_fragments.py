@@ -10,6 +10,7 @@ import pytest
 from tinctura.engine import Options, Site, check_paths, judge_page
 from tinctura.extract import fragments
 from tinctura.problems import declaration_uses
+from site_pages import write_pages
 
 CSS = """
 :root { --link: #1a56a8; --muted: #6d6d6d; }
@@ -59,11 +60,7 @@ def page_html(active, sections=4):
 
 @pytest.fixture
 def repeated_site(tmp_path):
-    (tmp_path / "site.css").write_text(CSS)
-    for n in range(12):
-        (tmp_path / f"p{n}").mkdir()
-        (tmp_path / f"p{n}" / "index.html").write_text(page_html(n))
-    return tmp_path
+    return write_pages(tmp_path, CSS, page_html, 12)
 
 
 def _order(s):

@@ -8,6 +8,7 @@ import pytest
 
 from tinctura import cli, engine
 from tinctura.engine import Options, Site
+from site_pages import write_pages
 
 # Text #000000de inside an element at opacity 0.45 over white, seen as #9b9b9b (CSS Color 4
 # compositing, by hand: 0.87 x 0.45 of black), fails 4.5:1; its fix raises the opacity.
@@ -24,11 +25,7 @@ def _page(n: int) -> str:
 
 @pytest.fixture
 def faded(tmp_path):
-    (tmp_path / "site.css").write_text(CSS)
-    for n in range(6):
-        (tmp_path / f"p{n}").mkdir()
-        (tmp_path / f"p{n}" / "index.html").write_text(_page(n))
-    return tmp_path
+    return write_pages(tmp_path, CSS, _page, 6)
 
 
 def _problems(site, jobs: str) -> list:

@@ -15,6 +15,7 @@ from tinctura import engine, palette
 from tinctura.cli import main
 from tinctura.report.json_report import expand, schema
 from tinctura.rules import appearance
+from site_pages import write_pages
 
 CSS = """
 body { background: #ffffff; color: #1a1a1a; }
@@ -41,11 +42,7 @@ def board(n):
 
 @pytest.fixture
 def status_site(tmp_path):
-    (tmp_path / "site.css").write_text(CSS)
-    for n in range(6):
-        (tmp_path / f"s{n}").mkdir()
-        (tmp_path / f"s{n}" / "index.html").write_text(board(n))
-    return tmp_path
+    return write_pages(tmp_path, CSS, board, 6, prefix="s")
 
 
 def _check(site, **options):
