@@ -1235,7 +1235,9 @@ def opacity_layers(site, page: str, scheme: str) -> dict:
     return found
 
 
-_LAYERED: list = []  # in a worker: its Site keeping background layers (``worker_opacity_layers``)
+# in a worker: its Site's loader -> a Site keeping background layers on it
+# (``worker_opacity_layers``)
+_LAYERED: dict = {}
 
 
 def worker_opacity_layers(key):
@@ -1243,11 +1245,13 @@ def worker_opacity_layers(key):
     rule sets, compiled selectors and computed styles the check warmed (checked in the main
     process, whose caches had seen no page, a manual's faded texts took 0.1 s)."""
     site, options, _ = _WORKER
-    if not _LAYERED:
+    layered = _LAYERED.get(id(site.loader))
+    if layered is None or layered.loader is not site.loader:
+        _LAYERED.clear()
         layered = Site(site.root, dataclasses.replace(options, keep_samples=True))
         layered.loader = site.loader
-        _LAYERED.append(layered)
-    return opacity_layers(_LAYERED[0], *key)
+        _LAYERED[id(site.loader)] = layered
+    return opacity_layers(layered, *key)
 
 
 def _worker_recheck(args):

@@ -44,7 +44,7 @@ class WriterAid:
         self._loader = None  # the check's SheetLoader, where ``plan_overrides`` is given it
         # ``call(func, arg)`` in a worker the check kept (``engine.kept_call``), or None
         self.elsewhere = None
-        self._samples: dict = {}
+        self._opacities: dict = {}  # (page, scheme) -> ``engine.opacity_layers``
         self._above: dict = {}  # (page, XPath) -> ``locator`` of an ancestor, located ahead
 
     # -- locations -----------------------------------------------------------------------
@@ -163,15 +163,15 @@ class WriterAid:
         worker the check kept (``elsewhere``), warm from the pages, or here."""
         s = finding.sample
         key = (s.page, s.scheme)
-        if key not in self._samples:
+        if key not in self._opacities:
             from tinctura import engine
 
             found = self.elsewhere(engine.worker_opacity_layers, key) \
                 if self.elsewhere is not None else None
             if found is None:
                 found = engine.opacity_layers(self._layered_site(), *key)
-            self._samples[key] = found
-        return list(self._samples[key].get((s.xpath, s.state), ()))
+            self._opacities[key] = found
+        return list(self._opacities[key].get((s.xpath, s.state), ()))
 
     def _layered_site(self):
         """A Site keeping every sample's background layers, on the check's loader if known."""
