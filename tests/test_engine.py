@@ -627,6 +627,24 @@ def test_cli_jobs_2_verifies_fixes_as_jobs_1_in_the_checks_own_workers(shaded, t
     assert engine._ENDING == []
 
 
+def test_cli_jobs_3_verifies_in_three_shares_one_a_worker(shaded, tmp_path_factory,
+                                                          monkeypatch, logged):
+    """With --jobs 3 the three workers the check kept take a share each of the verification
+    pages (two shares left one idle): every page once, none here, the same fixes verified as
+    with --jobs 1."""
+    import os
+
+    for name in ("e", "f"):  # (seven pages: at least two a worker, so the workers are kept)
+        (shaded / name).mkdir()
+        (shaded / name / "index.html").write_text(
+            '<!doctype html><html><head><link rel="stylesheet" href="../site.css"></head>'
+            f'<body><p>Seed swap on shelf {name}</p></body></html>')
+    one, three, _ = _alone_and_shared(shaded, 3, logged, tmp_path_factory, monkeypatch)
+    shares = logged[0].read_text().splitlines()  # (the log of the last run: --jobs 3)
+    assert len(shares) == 3 and os.getpid() not in three
+    assert sorted(sum(three.values(), [])) == sorted(one[os.getpid()])  # each page once
+
+
 def test_cli_jobs_2_workers_start_ending_before_the_reports(shaded, monkeypatch):
     """Once the kept workers have verified the fixes they have nothing more to do: they are
     ending (in a thread) while the reports are written, and gone when the command returns."""
@@ -883,13 +901,17 @@ def test_verification_pages_are_shared_by_what_they_cost(site):
     verdicts the same."""
     from tinctura import overrides
 
-    assert overrides.two_shares(["table", "code", "prose"], {"table": 73, "code": 190,
-                                                              "prose": 44}.get) == \
+    assert overrides.cost_shares(["table", "code", "prose"], {"table": 73, "code": 190,
+                                                               "prose": 44}.get) == \
         [["code"], ["table", "prose"]]
-    assert overrides.two_shares(list("abcde"), dict(a=5, b=5, c=5, d=100, e=1).get) == \
+    assert overrides.cost_shares(list("abcde"), dict(a=5, b=5, c=5, d=100, e=1).get) == \
         [["d"], ["a", "b", "c", "e"]]
-    assert overrides.two_shares(list("abcd"), {}.get) == [["a", "c"], ["b", "d"]]  # (no cost)
-    assert overrides.two_shares(list("abcd")) == [["a", "c"], ["b", "d"]]
+    assert overrides.cost_shares(list("abcd"), {}.get) == [["a", "c"], ["b", "d"]]  # (no cost)
+    assert overrides.cost_shares(list("abcd")) == [["a", "c"], ["b", "d"]]
+    # as many shares as processes, never an empty one
+    assert overrides.cost_shares(list("abcde"), dict(a=5, b=50, c=5, d=100, e=1).get, 3) == \
+        [["d"], ["b"], ["a", "c", "e"]]
+    assert overrides.cost_shares(list("ab"), None, 8) == [["a"], ["b"]]
 
     options = Options(keep_samples=False)
     pages = [f"p{n}/index.html" for n in range(3)]

@@ -1085,7 +1085,7 @@ class PagePool:
             return _pool_helper(self._pool, False)
         if self._workers == 1:
             return _pool_helper(self._pool, True, split_in=self._spool)
-        return _pool_helper(self._pool, True)
+        return _pool_helper(self._pool, True, shares=self._workers)
 
     def caller(self):
         """``kept_call``'s ``call`` on these workers, once every page is answered: the fixes'
@@ -1123,9 +1123,9 @@ def recheck_helper(root: str, options: Options, loader=None):
         yield None
         return
     kept = (_KEPT or {}).get(root)
-    if kept is not None:  # the check's own workers, warm: they take every share
+    if kept is not None:  # the check's own workers, warm: they take every share, one each
         try:
-            yield _pool_helper(kept, True)
+            yield _pool_helper(kept, True, shares=int(options.jobs))
         finally:  # then they end while this process writes the reports
             del _KEPT[root]
             _ENDING.append(_ending(kept))
@@ -1150,13 +1150,14 @@ def recheck_helper(root: str, options: Options, loader=None):
             pool.close()
 
 
-def _pool_helper(pool, all_shares: bool, split_in: str | None = None):
+def _pool_helper(pool, all_shares: bool, split_in: str | None = None, shares: int = 2):
     """``overrides.verify``'s helper on a pool's workers: each call starts ``recheck`` of some
     pages in one of them and returns at once a callable that waits for the answer (None when
     the worker failed: the caller then checks the pages itself), or None when the pool takes
-    no work. ``all_shares``: the workers take every share (two or more, warm). ``split_in``:
-    one worker takes every page, splitting them with a copy of itself
-    (``_worker_recheck_split``; the copy's answer in a file of that folder)."""
+    no work. ``all_shares``: the workers take every share (two or more, warm); ``shares``: how
+    many (one a worker: with --jobs 8, two shares left six workers idle). ``split_in``: one
+    worker takes every page, splitting them with a copy of itself (``_worker_recheck_split``;
+    the copy's answer in a file of that folder)."""
     def helper(css, pages):
         try:
             if split_in is not None:
@@ -1176,6 +1177,7 @@ def _pool_helper(pool, all_shares: bool, split_in: str | None = None):
 
     helper.all_shares = all_shares or split_in is not None
     helper.splits = split_in is not None  # one share: every page
+    helper.shares = max(2, shares)
     return helper
 
 

@@ -821,7 +821,8 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     ``helper(css, pages)``: starts ``recheck`` of some pages in another process (the plugin's
     worker, idle by then) and returns a callable giving its result (None if the worker
     failed), or None when no worker could start; those pages are then checked here. The
-    pages are shared in two; this process checks the first share, unless the helper's
+    pages are shared in the helper's ``shares`` (two where it names none: this process and
+    one other); this process checks the first share, unless the helper's
     ``all_shares`` is true (warm workers: ``engine.pools_kept``, the plugin's), and a helper
     whose ``splits`` is true takes every page as one share (a lone worker that splits them
     with a copy of itself).
@@ -829,7 +830,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
     ``meanwhile(ready)``: work of this process's own, done while the helper's workers
     recheck their shares (the reports' places located: it waited for them, idle); ``ready()``
     tells whether every share they took is in (None where the helper cannot tell).
-    ``cost(page)``: what checking a page costs, about (``two_shares``)."""
+    ``cost(page)``: what checking a page costs, about (``cost_shares``)."""
     css = combined_css(overrides)
     if not css:
         return {"pages": 0, "remaining": 0}
@@ -840,7 +841,7 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
         return counts
     shares = [list(pages)]
     if helper is not None and len(pages) > 1 and not getattr(helper, "splits", False):
-        shares = two_shares(pages, cost)
+        shares = cost_shares(pages, cost, getattr(helper, "shares", 2))
     # a helper with warm workers of its own takes every share; another, all but the first
     away = shares if getattr(helper, "all_shares", False) else shares[1:]
     started = [(share, helper(css, share)) for share in away]  # under way while this works
@@ -866,21 +867,22 @@ def verify(site_root, options, problems, overrides, pages, loader=None, cache=No
 CACHED_VERIFICATIONS = 8  # a build's rounds, a few times over
 
 
-def two_shares(pages, cost=None) -> list:
-    """``pages`` in two shares for two processes, of about one cost: the costliest page first,
-    each to the lighter share, each share in the pages' order; every other page where no
-    ``cost(page)`` is known. By count, a code listing's page (three of a prose page's cost)
-    and a prose page went to one process, a table's page to the other."""
+def cost_shares(pages, cost=None, n: int = 2) -> list:
+    """``pages`` in at most ``n`` shares for as many processes, of about one cost: the costliest
+    page first, each to the lightest share, each share in the pages' order; every ``n``-th page
+    where no ``cost(page)`` is known. By count, a code listing's page (three of a prose page's
+    cost) and a prose page went to one process, a table's page to the other."""
     pages = list(pages)
+    n = max(1, min(n, len(pages)))
     if cost is None:
-        return [pages[0::2], pages[1::2]]
+        return [pages[k::n] for k in range(n)]
     weights = [max(1, cost(page) or 0) for page in pages]
-    shares, loads = ([], []), [0, 0]
-    for n in sorted(range(len(pages)), key=lambda n: -weights[n]):
-        lighter = 0 if loads[0] <= loads[1] else 1
-        shares[lighter].append(n)
-        loads[lighter] += weights[n]
-    return [[pages[n] for n in sorted(share)] for share in shares]
+    shares, loads = [[] for _ in range(n)], [0] * n
+    for k in sorted(range(len(pages)), key=lambda k: -weights[k]):
+        lightest = loads.index(min(loads))
+        shares[lightest].append(k)
+        loads[lightest] += weights[k]
+    return [[pages[k] for k in sorted(share)] for share in shares]
 
 
 def union(found) -> tuple:
