@@ -1168,10 +1168,7 @@ def _pool_helper(pool, all_shares: bool, split_in: str | None = None, shares: in
             return None
 
         def answer():
-            try:
-                return pending.get(timeout=PAGE_TIMEOUT_S)
-            except Exception:
-                return None
+            return _awaited(pending)
         answer.ready = pending.ready  # (``overrides.verify``: whether it is in)
         return answer
 
@@ -1196,10 +1193,7 @@ def kept_spread(root: str):
         except Exception:
             pending = None
         first = func(items[0])
-        try:
-            rest = pending.get(timeout=PAGE_TIMEOUT_S) if pending is not None else None
-        except Exception:
-            rest = None
+        rest = _awaited(pending) if pending is not None else None
         return [first] + (rest if rest is not None else [func(item) for item in items[1:]])
     return spread
 
@@ -1216,10 +1210,19 @@ def _pool_caller(pool):
     """``kept_call``'s ``call`` on a pool's workers."""
     def call(func, arg):
         try:
-            return pool.apply_async(func, (arg,)).get(timeout=PAGE_TIMEOUT_S)
-        except Exception:
+            return _awaited(pool.apply_async(func, (arg,)))
+        except Exception:  # (the pool is ending: no work taken)
             return None
     return call
+
+
+def _awaited(pending):
+    """A worker's answer (an ``AsyncResult``'s), or None where the worker failed or died: the
+    caller then does the work itself."""
+    try:
+        return pending.get(timeout=PAGE_TIMEOUT_S)
+    except Exception:
+        return None
 
 
 def opacity_layers(site, page: str, scheme: str) -> dict:
